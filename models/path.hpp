@@ -1,0 +1,69 @@
+#pragma once
+// The path of one service through the infrastructure, as a one-dimensional coordinate s
+// (metres from the path's start, increasing in the direction of travel), with everything
+// that lies along it: the track pieces used, train-detection sections, main signals and the
+// timing points.  Running times, blocking times and the simulation all work on this view.
+#include <cstddef>
+#include <stdexcept>
+#include <string>
+#include <vector>
+
+#include "models/infrastructure.hpp"
+#include "models/timetable.hpp"
+
+namespace knockon {
+
+struct PathPiece {
+    const Track* track = nullptr;
+    double s_from = 0.0, s_to = 0.0;   // along the path [m]
+    double x_from = 0.0, x_to = 0.0;   // chainage at s_from and s_to [m]
+};
+
+// A train-detection section as this path crosses it.  `id` is the same for every path that uses
+// the section, so two paths conflict exactly where they share ids.
+struct PathSection {
+    std::string id;
+    double s_from = 0.0, s_to = 0.0;
+};
+
+struct PathSignal {
+    const Signal* signal = nullptr;
+    double s = 0.0;
+    AspectSystem system = AspectSystem::three_aspect;
+};
+
+// A call of the service located on the path.
+struct TimingPoint {
+    std::size_t call = 0;   // index into Service::calls
+    double s = 0.0;
+    bool stops = true;
+};
+
+struct TrainPath {
+    Direction direction = Direction::up;
+    double length = 0.0;                   // [m]
+    bool starts_at_edge = false;
+    bool ends_at_edge = false;
+    std::vector<PathPiece> pieces;         // contiguous, covering [0, length]
+    std::vector<PathSection> sections;     // contiguous, in order; the last may extend past length (overlap)
+    std::vector<PathSignal> signals;       // main signals facing the train, in order
+    std::vector<TimingPoint> timing_points;
+
+    double chainage_at(double s) const;
+    // Gradient met by the train at s: positive when it climbs.
+    double gradient_at(double s) const;
+    // Static speed limit at s for the head (line speed capped by the track's limit) [m/s].
+    double speed_limit_at(double s) const;
+};
+
+// Lays the service's path; throws PathError naming the service and what does not connect.
+TrainPath build_path(const Infrastructure& infra, const Service& service);
+
+// Section ids follow "<track>:<from km>-<to km>", e.g. "U:12.400-14.000".
+std::string section_id(const std::string& track, double x_from, double x_to);
+
+struct PathError : std::runtime_error {
+    using std::runtime_error::runtime_error;
+};
+
+}  // namespace knockon
