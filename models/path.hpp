@@ -23,7 +23,8 @@ struct PathPiece {
 // the section, so two paths conflict exactly where they share ids.
 struct PathSection {
     std::string id;
-    double s_from = 0.0, s_to = 0.0;
+    double s_from = 0.0, s_to = 0.0;   // along the path [m]
+    double x_lo = 0.0, x_hi = 0.0;     // chainage extent of the whole section [m]
 };
 
 struct PathSignal {
@@ -40,12 +41,17 @@ struct TimingPoint {
 };
 
 struct TrainPath {
+    const Infrastructure* infrastructure = nullptr;
     Direction direction = Direction::up;
     double length = 0.0;                   // [m]
     bool starts_at_edge = false;
     bool ends_at_edge = false;
-    std::vector<PathPiece> pieces;         // contiguous, covering [0, length]
-    std::vector<PathSection> sections;     // contiguous, in order; the last may extend past length (overlap)
+    // Pieces and sections are contiguous and in order.  They cover [s_min, s_max], which reaches
+    // behind the start (where an originating train's body stands) and past the end (overlaps),
+    // as far as the track goes.
+    double s_min = 0.0, s_max = 0.0;
+    std::vector<PathPiece> pieces;
+    std::vector<PathSection> sections;
     std::vector<PathSignal> signals;       // main signals facing the train, in order
     std::vector<TimingPoint> timing_points;
 
@@ -56,8 +62,10 @@ struct TrainPath {
     double speed_limit_at(double s) const;
 };
 
-// Lays the service's path; throws PathError naming the service and what does not connect.
-TrainPath build_path(const Infrastructure& infra, const Service& service);
+// Lays the service's path; throws PathError saying what does not connect.  `rear` and `ahead`
+// say how far to extend the layout behind the start and beyond the end [m].
+TrainPath build_path(const Infrastructure& infra, const Service& service, double rear = 0.0,
+                     double ahead = 0.0);
 
 // Section ids follow "<track>:<from km>-<to km>", e.g. "U:12.400-14.000".
 std::string section_id(const std::string& track, double x_from, double x_to);
