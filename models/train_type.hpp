@@ -9,7 +9,7 @@ namespace knockon {
 // Running-time supplement by the rule of UIC Code 451-1: a percentage of the technical running
 // time plus minutes per 100 km, the distance part dropped on paths not longer than a threshold.
 struct SupplementRule {
-    double percent = 0.0;                 // e.g. 5 for 5 %
+    double share = 0.0;                   // of the technical running time, e.g. 0.05 for 5 %
     double per_100km = 0.0;               // [s] added per 100 km of path
     double distance_threshold = 30000.0;  // [m] paths up to this length get no distance part
 };
