@@ -1,0 +1,49 @@
+#pragma once
+// Blocking times by blocking time theory: for each route a train uses (main signal to the next
+// main signal, plus the overlap) the time during which no other train may use it:
+//
+//   setup + sight and reaction + approach + running + clearing + release
+//
+// The approach starts at the warning point, which the aspect system decides: the previous main
+// signal (3-aspect), one or two signals back as the braking distance needs (4-aspect), the distant
+// signal (2-aspect), or the braking-curve point (cab signalling with fixed blocks).  A train that
+// has a planned stop between the warning point and the signal needs the route only for its
+// departure from that stop.
+//
+// Detection sections carry the same intervals: a section is blocked from the start of the first
+// route that includes it until the train's tail has cleared it (sectional release) plus the
+// release time.  Two trains conflict exactly where their section intervals overlap.
+#include <string>
+#include <vector>
+
+#include "models/infrastructure.hpp"
+#include "models/service_run.hpp"
+
+namespace knockon {
+
+struct RouteBlocking {
+    std::string entry_signal;
+    std::string exit_signal;      // empty where the path ends before another signal
+    double s_entry = 0.0, s_exit = 0.0, overlap = 0.0;
+    double warning_point = 0.0;   // s of the point the approach time is measured from
+    // The six components [s].
+    double setup = 0.0, sight_reaction = 0.0, approach = 0.0, running = 0.0, clearing = 0.0, release = 0.0;
+    double start = 0.0, end = 0.0;   // absolute [s]
+};
+
+struct SectionBlocking {
+    std::string section;
+    double x_lo = 0.0, x_hi = 0.0;     // chainage extent of the section
+    double s_from = 0.0, s_to = 0.0;   // along this train's path
+    double start = 0.0, end = 0.0;     // blocked [s]
+    double occupied_from = kNoTime, occupied_to = kNoTime;   // physically occupied (NaN: never)
+};
+
+struct Stairway {
+    std::vector<RouteBlocking> routes;
+    std::vector<SectionBlocking> sections;
+};
+
+Stairway blocking_stairway(const ServiceRun& run, const InterlockingTimes& times);
+
+}  // namespace knockon

@@ -1,0 +1,32 @@
+#include "models/capacity.hpp"
+
+#include <algorithm>
+
+namespace knockon {
+
+double compressed_occupation(const std::vector<SectionStairway>& trains) {
+    if (trains.empty()) return 0.0;
+    // Position of each train in the compressed timetable, relative to the first.
+    std::vector<double> pos(trains.size(), 0.0);
+    for (std::size_t j = 1; j < trains.size(); ++j) {
+        pos[j] = pos[j - 1];  // keep the timetable order
+        for (std::size_t i = 0; i < j; ++i)
+            if (auto h = minimum_headway(trains[i], trains[j])) pos[j] = std::max(pos[j], pos[i] + h->headway);
+    }
+    // Close the cycle: the first train again, as early as every train allows.
+    double close = pos.back();
+    for (std::size_t i = 0; i < trains.size(); ++i)
+        if (auto h = minimum_headway(trains[i], trains.front())) close = std::max(close, pos[i] + h->headway);
+    return close;
+}
+
+ConsumptionLimit uic406_limit(LineType type) {
+    switch (type) {
+        case LineType::suburban: return {0.85, 0.70};
+        case LineType::high_speed: return {0.75, 0.60};
+        case LineType::mixed: return {0.75, 0.60};
+    }
+    return {0.75, 0.60};
+}
+
+}  // namespace knockon

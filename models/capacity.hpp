@@ -1,0 +1,23 @@
+#pragma once
+// Capacity consumption by the compression method of UIC Code 406: within a line section and a
+// time window, the trains are pushed together in timetable order as closely as their minimum
+// headways allow; the occupation time runs from the first train to the first train of a repeat
+// of the same pattern (the window treated as one cycle of a repeating timetable), so n identical
+// trains at minimum headway h occupy n*h.
+#include <vector>
+
+#include "models/headway.hpp"
+#include "models/scenario.hpp"
+
+namespace knockon {
+
+// Occupation time [s] of the trains (in timetable order) when compressed.  0 for no trains.
+double compressed_occupation(const std::vector<SectionStairway>& trains_in_order);
+
+struct ConsumptionLimit {
+    double peak = 0.0, day = 0.0;   // shares, e.g. 0.75
+};
+// Recommended limits of UIC Code 406 (2004) by line type, as recalled (not checked against the leaflet).
+ConsumptionLimit uic406_limit(LineType type);
+
+}  // namespace knockon

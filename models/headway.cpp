@@ -1,0 +1,51 @@
+#include "models/headway.hpp"
+
+#include <algorithm>
+#include <cmath>
+
+namespace knockon {
+
+std::vector<LineSection> line_sections(const Infrastructure& infra) {
+    std::vector<const Station*> st;
+    for (const Station& s : infra.stations) st.push_back(&s);
+    std::sort(st.begin(), st.end(), [](const Station* a, const Station* b) { return a->at < b->at; });
+    std::vector<LineSection> out;
+    for (std::size_t i = 0; i + 1 < st.size(); ++i)
+        out.push_back({st[i]->id, st[i + 1]->id, Direction::up, st[i]->at, st[i + 1]->at});
+    for (std::size_t i = st.size(); i-- > 1;)
+        out.push_back({st[i]->id, st[i - 1]->id, Direction::down, st[i - 1]->at, st[i]->at});
+    return out;
+}
+
+std::optional<SectionStairway> stairway_in(const LineSection& ls, std::size_t train, const ServiceRun& run,
+                                           const Stairway& stairway) {
+    if (run.path.direction != ls.direction) return std::nullopt;
+    const PlannedCall* from = nullptr;
+    bool reaches_to = false;
+    for (const PlannedCall& c : run.calls) {
+        if (c.station == ls.from_station) from = &c;
+        if (c.station == ls.to_station && from) reaches_to = true;
+    }
+    if (!from || !reaches_to) return std::nullopt;
+    SectionStairway out;
+    out.train = train;
+    out.reference = from->planned_departure;
+    for (const SectionBlocking& b : stairway.sections)
+        if (std::min(b.x_hi, ls.x_hi) - std::max(b.x_lo, ls.x_lo) > 1e-6) out.sections.push_back(b);
+    return out;
+}
+
+std::optional<MinimumHeadway> minimum_headway(const SectionStairway& leader, const SectionStairway& follower) {
+    std::optional<MinimumHeadway> best;
+    for (const SectionBlocking& f : follower.sections) {
+        for (const SectionBlocking& l : leader.sections) {
+            if (l.section != f.section) continue;
+            // The follower's blocking must start no earlier than the leader's ends.
+            double h = (l.end - leader.reference) - (f.start - follower.reference);
+            if (!best || h > best->headway) best = MinimumHeadway{h, f.section};
+        }
+    }
+    return best;
+}
+
+}  // namespace knockon

@@ -1,0 +1,44 @@
+#pragma once
+// Minimum headways, buffer times and the critical section between two trains, from their
+// blocking-time stairways (blocking time theory): shift the follower's stairway until it touches
+// the leader's; the section where they touch is the critical one.
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "models/blocking_time.hpp"
+
+namespace knockon {
+
+// A line section: the stretch between two consecutive stations, in one direction.
+struct LineSection {
+    std::string from_station, to_station;
+    Direction direction = Direction::up;
+    double x_lo = 0.0, x_hi = 0.0;   // chainage extent
+    std::string name() const { return from_station + "-" + to_station; }
+};
+
+std::vector<LineSection> line_sections(const Infrastructure& infra);
+
+// A train's blocking times on one line section, relative to its reference time there (its
+// departure or pass at the line section's first station).
+struct SectionStairway {
+    std::size_t train = 0;
+    double reference = 0.0;
+    std::vector<SectionBlocking> sections;   // only those lying in the line section
+};
+
+// Whether the run passes both stations of the line section in order; if so its stairway there.
+std::optional<SectionStairway> stairway_in(const LineSection& ls, std::size_t train, const ServiceRun& run,
+                                           const Stairway& stairway);
+
+struct MinimumHeadway {
+    double headway = 0.0;           // follower's reference minus leader's, at the tightest fit [s]
+    std::string critical_section;
+};
+
+// Smallest reference-time gap at which the follower's stairway nowhere overlaps the leader's;
+// nullopt when they share no section.
+std::optional<MinimumHeadway> minimum_headway(const SectionStairway& leader, const SectionStairway& follower);
+
+}  // namespace knockon

@@ -1,0 +1,134 @@
+#include "models/plan.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <map>
+
+namespace knockon {
+namespace {
+
+constexpr double kDay = 86400.0;
+constexpr double kHour = 3600.0;
+
+std::vector<SectionStairway> stairways_in(const LineSection& ls, const std::vector<TrainPlan>& trains) {
+    std::vector<SectionStairway> out;
+    for (std::size_t i = 0; i < trains.size(); ++i)
+        if (auto s = stairway_in(ls, i, trains[i].run, trains[i].stairway)) out.push_back(std::move(*s));
+    std::stable_sort(out.begin(), out.end(),
+                     [](const SectionStairway& a, const SectionStairway& b) { return a.reference < b.reference; });
+    return out;
+}
+
+void add_headways(const LineSection& ls, const std::vector<SectionStairway>& ordered, PlanResult& plan) {
+    for (std::size_t k = 1; k < ordered.size(); ++k) {
+        const SectionStairway &a = ordered[k - 1], &b = ordered[k];
+        auto h = minimum_headway(a, b);
+        if (!h) continue;
+        HeadwayPair p;
+        p.line_section = ls.name();
+        p.direction = ls.direction;
+        p.leader = a.train;
+        p.follower = b.train;
+        p.scheduled_headway = b.reference - a.reference;
+        p.minimum_headway = h->headway;
+        p.buffer = p.scheduled_headway - p.minimum_headway;
+        p.critical_section = h->critical_section;
+        plan.headways.push_back(p);
+    }
+}
+
+void add_matrix(const LineSection& ls, const std::vector<SectionStairway>& ordered, PlanResult& plan) {
+    std::map<std::pair<std::string, std::string>, HeadwayMatrixEntry> cells;
+    for (const SectionStairway& a : ordered)
+        for (const SectionStairway& b : ordered) {
+            if (a.train == b.train) continue;
+            auto h = minimum_headway(a, b);
+            if (!h) continue;
+            const std::string& ta = plan.trains[a.train].run.type->id;
+            const std::string& tb = plan.trains[b.train].run.type->id;
+            auto [it, fresh] = cells.try_emplace({ta, tb}, HeadwayMatrixEntry{ls.name(), ta, tb, h->headway,
+                                                                              h->critical_section});
+            if (!fresh && h->headway > it->second.minimum_headway) {
+                it->second.minimum_headway = h->headway;
+                it->second.critical_section = h->critical_section;
+            }
+        }
+    for (auto& [key, cell] : cells) plan.headway_matrix.push_back(cell);
+}
+
+void add_capacity(const LineSection& ls, const std::vector<SectionStairway>& ordered, LineType type,
+                  PlanResult& plan) {
+    const ConsumptionLimit limit = uic406_limit(type);
+    auto figure = [&](const char* window, double from, double to, double lim) {
+        std::vector<SectionStairway> in;
+        for (const SectionStairway& s : ordered)
+            if (s.reference >= from && s.reference < to) in.push_back(s);
+        CapacityFigure f{ls.name(), ls.direction, window, from, to, in.size(), compressed_occupation(in), 0.0, lim};
+        f.consumption = f.occupation / (to - from);
+        return f;
+    };
+    // The peak hour: the whole clock hour of highest consumption (earliest on ties).
+    CapacityFigure peak = figure("peak hour", 0.0, kHour, limit.peak);
+    for (int h = 1; h < 24; ++h) {
+        CapacityFigure f = figure("peak hour", h * kHour, (h + 1) * kHour, limit.peak);
+        if (f.consumption > peak.consumption + 1e-12) peak = f;
+    }
+    if (peak.trains == 0) return;
+    plan.capacity.push_back(peak);
+    plan.capacity.push_back(figure("day", 0.0, kDay, limit.day));
+}
+
+void add_conflicts(PlanResult& plan) {
+    struct Use {
+        std::size_t train;
+        double start, end;
+    };
+    std::map<std::string, std::vector<Use>> by_section;
+    for (std::size_t i = 0; i < plan.trains.size(); ++i)
+        for (const SectionBlocking& b : plan.trains[i].stairway.sections)
+            by_section[b.section].push_back({i, b.start, b.end});
+    for (auto& [section, uses] : by_section) {
+        std::sort(uses.begin(), uses.end(), [](const Use& a, const Use& b) {
+            return a.start < b.start || (a.start == b.start && a.train < b.train);
+        });
+        for (std::size_t i = 0; i < uses.size(); ++i)
+            for (std::size_t j = i + 1; j < uses.size() && uses[j].start < uses[i].end - 1e-6; ++j) {
+                if (uses[i].train == uses[j].train) continue;
+                double overlap = std::min(uses[i].end, uses[j].end) - uses[j].start;
+                plan.conflicts.push_back({section, uses[i].train, uses[j].train, overlap, uses[j].start});
+            }
+    }
+    std::sort(plan.conflicts.begin(), plan.conflicts.end(),
+              [](const Conflict& a, const Conflict& b) { return a.from < b.from; });
+}
+
+}  // namespace
+
+std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& options) {
+    std::vector<TrainPlan> trains;
+    trains.reserve(scenario.timetable.services.size());
+    for (const Service& svc : scenario.timetable.services) {
+        const TrainType* type = scenario.find_train_type(svc.train_type);
+        if (!type) throw std::runtime_error("service " + svc.id + ": unknown train type " + svc.train_type);
+        TrainPlan tp{plan_service(scenario.infrastructure, svc, *type, scenario.timetable.rounding, options), {}};
+        tp.stairway = blocking_stairway(tp.run, scenario.infrastructure.interlocking);
+        trains.push_back(std::move(tp));
+    }
+    return trains;
+}
+
+PlanResult make_plan(const Scenario& scenario, const RunOptions& options) {
+    PlanResult plan;
+    plan.trains = plan_trains(scenario, options);
+    plan.line_sections = line_sections(scenario.infrastructure);
+    for (const LineSection& ls : plan.line_sections) {
+        std::vector<SectionStairway> ordered = stairways_in(ls, plan.trains);
+        add_headways(ls, ordered, plan);
+        add_matrix(ls, ordered, plan);
+        add_capacity(ls, ordered, scenario.line_type, plan);
+    }
+    add_conflicts(plan);
+    return plan;
+}
+
+}  // namespace knockon

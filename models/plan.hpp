@@ -1,0 +1,71 @@
+#pragma once
+// Timetable analysis of a whole scenario: every service's planned run and blocking-time
+// stairway, headways and buffers of consecutive trains, the minimum-headway matrix by train
+// type, conflicts, and UIC 406 capacity consumption per line section.
+#include <string>
+#include <vector>
+
+#include "models/blocking_time.hpp"
+#include "models/capacity.hpp"
+#include "models/headway.hpp"
+#include "models/running_time.hpp"
+#include "models/scenario.hpp"
+#include "models/service_run.hpp"
+
+namespace knockon {
+
+struct TrainPlan {
+    ServiceRun run;
+    Stairway stairway;
+};
+
+struct HeadwayPair {
+    std::string line_section;
+    Direction direction = Direction::up;
+    std::size_t leader = 0, follower = 0;   // indices into PlanResult::trains
+    double scheduled_headway = 0.0;         // follower's reference time minus the leader's [s]
+    double minimum_headway = 0.0;
+    double buffer = 0.0;                    // scheduled minus minimum; negative = conflict
+    std::string critical_section;
+};
+
+struct HeadwayMatrixEntry {
+    std::string line_section;
+    std::string leader_type, follower_type;
+    double minimum_headway = 0.0;   // the largest over all train pairs of these types [s]
+    std::string critical_section;
+};
+
+struct Conflict {
+    std::string section;
+    std::size_t first = 0, second = 0;   // first blocks the section first
+    double overlap = 0.0;                // [s]
+    double from = 0.0;                   // when the second's blocking starts [s]
+};
+
+struct CapacityFigure {
+    std::string line_section;
+    Direction direction = Direction::up;
+    std::string window;                  // "peak hour" or "day"
+    double from = 0.0, to = 0.0;         // [s]
+    std::size_t trains = 0;
+    double occupation = 0.0;             // compressed occupation time [s]
+    double consumption = 0.0;            // share of the window
+    double limit = 0.0;                  // UIC 406 recommended limit (as recalled)
+};
+
+struct PlanResult {
+    std::vector<TrainPlan> trains;
+    std::vector<LineSection> line_sections;
+    std::vector<HeadwayPair> headways;
+    std::vector<HeadwayMatrixEntry> headway_matrix;
+    std::vector<Conflict> conflicts;
+    std::vector<CapacityFigure> capacity;
+};
+
+PlanResult make_plan(const Scenario& scenario, const RunOptions& options = {});
+
+// Every service's planned run and stairway only (what the simulation builds on).
+std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& options = {});
+
+}  // namespace knockon
