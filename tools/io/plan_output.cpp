@@ -1,0 +1,219 @@
+#include "tools/io/plan_output.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <map>
+
+#include "models/units.hpp"
+
+namespace knockon {
+
+const char* const kSafetyCaution =
+    "Planning estimates only: signal positions, braking distances and overlaps are for licensed "
+    "signalling engineers to decide under local rules.";
+const char* const kUic406Note =
+    "Capacity consumption by the compression method of UIC Code 406; the recommended limits shown are "
+    "as recalled from UIC Code 406 (2004), not checked against the leaflet.";
+
+namespace {
+
+using K = ColumnKind;
+
+const std::string& train_id(const PlanResult& plan, std::size_t i) { return plan.trains[i].run.service->id; }
+
+Table running_times(const PlanResult& plan) {
+    Table t{"running_times", "Timing points (planned = fastest run, waiting at stops for the scheduled departure)",
+            {{"train", K::text}, {"type", K::text}, {"station", K::text}, {"stops", K::text},
+             {"scheduled_arrival", K::time_of_day}, {"scheduled_departure", K::time_of_day},
+             {"planned_arrival", K::time_of_day}, {"planned_departure", K::time_of_day},
+             {"technical_running_s", K::duration}, {"scheduled_running_s", K::duration},
+             {"timetabled_running_s", K::duration}, {"reserve_s", K::duration}},
+            {}};
+    for (const TrainPlan& tp : plan.trains)
+        for (const PlannedCall& c : tp.run.calls) {
+            double reserve = c.technical_running > 0 ? c.timetabled_running - c.scheduled_running : kNoTime;
+            t.rows.push_back({tp.run.service->id, tp.run.type->id, c.station, c.stops ? "stop" : "pass",
+                              c.scheduled_arrival, c.scheduled_departure, c.planned_arrival, c.planned_departure,
+                              c.technical_running, c.scheduled_running, c.timetabled_running, reserve});
+        }
+    return t;
+}
+
+Table trains(const PlanResult& plan) {
+    Table t{"trains", "Trains",
+            {{"train", K::text}, {"type", K::text}, {"category", K::text}, {"direction", K::text},
+             {"from", K::text}, {"to", K::text}, {"departure", K::time_of_day}, {"arrival", K::time_of_day},
+             {"length_m", K::number}, {"technical_s", K::duration}, {"scheduled_s", K::duration},
+             {"timetabled_s", K::duration}},
+            {}};
+    for (const TrainPlan& tp : plan.trains) {
+        const ServiceRun& r = tp.run;
+        double tech = 0, sched = 0, table = 0;
+        for (const PlannedCall& c : r.calls) {
+            tech += c.technical_running;
+            sched += c.scheduled_running;
+            table += c.timetabled_running;
+        }
+        const PlannedCall &first = r.calls.front(), &last = r.calls.back();
+        t.rows.push_back({r.service->id, r.type->id, r.service->category, to_string(r.path.direction),
+                          r.service->enters_at_edge ? "(line end) " + first.station : first.station,
+                          r.service->leaves_at_edge ? last.station + " (line end)" : last.station,
+                          first.scheduled_departure,
+                          std::isnan(last.scheduled_arrival) ? last.scheduled_departure : last.scheduled_arrival,
+                          r.path.length, tech, sched, table});
+    }
+    return t;
+}
+
+Table blocking_routes(const PlanResult& plan) {
+    Table t{"blocking_routes", "Blocking times per route",
+            {{"train", K::text}, {"entry_signal", K::text}, {"exit_signal", K::text}, {"setup_s", K::duration},
+             {"sight_reaction_s", K::duration}, {"approach_s", K::duration}, {"running_s", K::duration},
+             {"clearing_s", K::duration}, {"release_s", K::duration}, {"blocked_from", K::time_of_day},
+             {"blocked_to", K::time_of_day}, {"blocking_time_s", K::duration}},
+            {}};
+    for (const TrainPlan& tp : plan.trains)
+        for (const RouteBlocking& r : tp.stairway.routes)
+            t.rows.push_back({tp.run.service->id, r.entry_signal, r.exit_signal, r.setup, r.sight_reaction,
+                              r.approach, r.running, r.clearing, r.release, r.start, r.end, r.end - r.start});
+    return t;
+}
+
+Table blocking_sections(const PlanResult& plan) {
+    Table t{"blocking_sections", "Blocking times per train-detection section",
+            {{"train", K::text}, {"section", K::text}, {"blocked_from", K::time_of_day},
+             {"blocked_to", K::time_of_day}, {"occupied_from", K::time_of_day}, {"occupied_to", K::time_of_day}},
+            {}};
+    for (const TrainPlan& tp : plan.trains)
+        for (const SectionBlocking& b : tp.stairway.sections)
+            t.rows.push_back({tp.run.service->id, b.section, b.start, b.end, b.occupied_from, b.occupied_to});
+    return t;
+}
+
+Table headways(const PlanResult& plan) {
+    Table t{"headways", "Headways of consecutive trains",
+            {{"line_section", K::text}, {"direction", K::text}, {"leader", K::text}, {"follower", K::text},
+             {"scheduled_headway_s", K::duration}, {"minimum_headway_s", K::duration}, {"buffer_s", K::duration},
+             {"critical_section", K::text}},
+            {}};
+    for (const HeadwayPair& h : plan.headways)
+        t.rows.push_back({h.line_section, to_string(h.direction), train_id(plan, h.leader), train_id(plan, h.follower),
+                          h.scheduled_headway, h.minimum_headway, h.buffer, h.critical_section});
+    return t;
+}
+
+Table headway_matrix(const PlanResult& plan) {
+    Table t{"headway_matrix", "Minimum headway by train type (largest over all pairs of those types)",
+            {{"line_section", K::text}, {"leader_type", K::text}, {"follower_type", K::text},
+             {"minimum_headway_s", K::duration}, {"critical_section", K::text}},
+            {}};
+    for (const HeadwayMatrixEntry& e : plan.headway_matrix)
+        t.rows.push_back({e.line_section, e.leader_type, e.follower_type, e.minimum_headway, e.critical_section});
+    return t;
+}
+
+Table conflicts(const PlanResult& plan) {
+    Table t{"conflicts", "Conflicts (blocking times that overlap)",
+            {{"section", K::text}, {"first", K::text}, {"second", K::text}, {"from", K::time_of_day},
+             {"overlap_s", K::duration}},
+            {}};
+    for (const Conflict& c : plan.conflicts)
+        t.rows.push_back({c.section, train_id(plan, c.first), train_id(plan, c.second), c.from, c.overlap});
+    return t;
+}
+
+Table capacity(const PlanResult& plan) {
+    Table t{"capacity", "Capacity consumption (UIC 406 compression)",
+            {{"line_section", K::text}, {"direction", K::text}, {"window", K::text}, {"from", K::time_of_day},
+             {"to", K::time_of_day}, {"trains", K::number}, {"occupation_s", K::duration},
+             {"consumption", K::percent}, {"limit", K::percent}},
+            {}};
+    for (const CapacityFigure& f : plan.capacity)
+        t.rows.push_back({f.line_section, to_string(f.direction), f.window, f.from, f.to,
+                          static_cast<double>(f.trains), f.occupation, f.consumption, f.limit});
+    return t;
+}
+
+}  // namespace
+
+std::vector<Table> plan_tables(const Scenario&, const PlanResult& plan) {
+    return {trains(plan), running_times(plan), blocking_routes(plan), blocking_sections(plan),
+            headways(plan), headway_matrix(plan), conflicts(plan), capacity(plan)};
+}
+
+nlohmann::json table_json(const Table& t) {
+    nlohmann::json rows = nlohmann::json::array();
+    for (const auto& row : t.rows) {
+        nlohmann::json rec = nlohmann::json::object();
+        for (std::size_t i = 0; i < row.size(); ++i) {
+            const std::string& key = t.columns[i].name;
+            if (auto s = std::get_if<std::string>(&row[i]))
+                rec[key] = *s;
+            else if (std::isnan(std::get<double>(row[i])))
+                rec[key] = nullptr;
+            else
+                rec[key] = std::get<double>(row[i]);
+        }
+        rows.push_back(std::move(rec));
+    }
+    return rows;
+}
+
+nlohmann::json scenario_facts(const Scenario& s) {
+    const Infrastructure& in = s.infrastructure;
+    return {{"name", s.name},
+            {"file", s.source_file},
+            {"line_length_m", in.length},
+            {"line_type", to_string(s.line_type)},
+            {"stations", in.stations.size()},
+            {"signals", in.signals.size()},
+            {"train_types", s.train_types.size()},
+            {"trains", s.timetable.services.size()}};
+}
+
+nlohmann::json plan_json(const Scenario& scenario, const PlanResult& plan) {
+    nlohmann::json doc;
+    doc["tool"] = {{"name", "knockon"}, {"version", KNOCKON_VERSION}};
+    doc["scenario"] = scenario_facts(scenario);
+    doc["caution"] = kSafetyCaution;
+    doc["notes"] = {kUic406Note,
+                    "Times are seconds after midnight; durations in seconds; lengths in metres; "
+                    "consumption and limit are shares (0.62 = 62 %)."};
+    for (const Table& t : plan_tables(scenario, plan)) doc[t.name] = table_json(t);
+    return doc;
+}
+
+std::string plan_text(const Scenario& scenario, const PlanResult& plan) {
+    const Infrastructure& in = scenario.infrastructure;
+    char head[512];
+    std::snprintf(head, sizeof head, "knockon plan: %s (%s)\nLine %.1f km, %zu stations, %zu signals, %zu train types, %zu trains.\n",
+                  scenario.name.c_str(), scenario.source_file.c_str(), in.length / 1000.0, in.stations.size(),
+                  in.signals.size(), scenario.train_types.size(), plan.trains.size());
+    std::string out = head;
+    out += std::string("Caution: ") + kSafetyCaution + "\n\n";
+
+    std::vector<Table> tables = plan_tables(scenario, plan);
+    auto find = [&](const std::string& name) -> Table& {
+        return *std::find_if(tables.begin(), tables.end(), [&](const Table& t) { return t.name == name; });
+    };
+    out += to_text(find("trains")) + "\n";
+
+    // The thinnest buffers first: what a planner looks at.
+    Table hw = find("headways");
+    std::stable_sort(hw.rows.begin(), hw.rows.end(), [](const auto& a, const auto& b) {
+        return std::get<double>(a[6]) < std::get<double>(b[6]);
+    });
+    hw.title = "Thinnest buffers between consecutive trains (all pairs: --csv or --json)";
+    out += to_text(hw, 15) + "\n";
+
+    Table cf = find("conflicts");
+    cf.title = "Conflicts: " + std::to_string(cf.rows.size()) + " overlapping blocking times";
+    out += to_text(cf, 20) + "\n";
+    out += to_text(find("headway_matrix")) + "\n";
+    out += to_text(find("capacity")) + "\n";
+    out += std::string("Note: ") + kUic406Note + "\n";
+    return out;
+}
+
+}  // namespace knockon

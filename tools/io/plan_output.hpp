@@ -1,0 +1,30 @@
+#pragma once
+// What `knockon plan` prints and writes: the plan as tables (CSV, text) and as one JSON document.
+#include <string>
+#include <vector>
+
+#include <nlohmann/json.hpp>
+
+#include "models/plan.hpp"
+#include "models/scenario.hpp"
+#include "tools/io/table.hpp"
+
+namespace knockon {
+
+// The caution every output carries where it could be mistaken for a safety design.
+extern const char* const kSafetyCaution;
+extern const char* const kUic406Note;
+
+std::vector<Table> plan_tables(const Scenario& scenario, const PlanResult& plan);
+
+// {"scenario": {...}, "caution": "...", "notes": [...], "<table>": [ {column: value, ...}, ... ], ...}
+nlohmann::json plan_json(const Scenario& scenario, const PlanResult& plan);
+// A table as an array of records (numbers in SI, NaN as null).
+nlohmann::json table_json(const Table& t);
+
+std::string plan_text(const Scenario& scenario, const PlanResult& plan);
+
+// Facts about the scenario shown at the head of every output.
+nlohmann::json scenario_facts(const Scenario& scenario);
+
+}  // namespace knockon

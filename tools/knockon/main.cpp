@@ -1,0 +1,62 @@
+// knockon: command-line entry.  Each subcommand lives in its own file; this one dispatches and
+// turns every failure into a message and an exit status (0 ok, 1 failure while running,
+// 2 bad input or usage).
+#include <cstdio>
+#include <cstring>
+#include <exception>
+#include <string>
+#include <vector>
+
+#include "tools/io/scenario_reader.hpp"
+#include "tools/knockon/commands.hpp"
+
+namespace {
+
+void usage(std::FILE* to) {
+    std::fprintf(to,
+                 "usage: knockon <command> [options]\n"
+                 "\n"
+                 "commands:\n"
+                 "  validate SCENARIO           check a scenario file and report every problem found\n"
+                 "  plan SCENARIO [options]     running times, blocking times, headways, buffers,\n"
+                 "                              conflicts and UIC 406 capacity consumption\n"
+                 "\n"
+                 "Run 'knockon <command> --help' for the options of a command.\n");
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+    if (argc < 2) {
+        usage(stderr);
+        return 2;
+    }
+    const std::string command = argv[1];
+    std::vector<std::string> args(argv + 2, argv + argc);
+    try {
+        if (command == "validate") return knockon::cli::validate(args);
+        if (command == "plan") return knockon::cli::plan(args);
+        if (command == "--help" || command == "-h" || command == "help") {
+            usage(stdout);
+            return 0;
+        }
+        if (command == "--version") {
+            std::printf("knockon %s\n", KNOCKON_VERSION);
+            return 0;
+        }
+        std::fprintf(stderr, "knockon: unknown command '%s'\n", command.c_str());
+        usage(stderr);
+        return 2;
+    } catch (const knockon::ScenarioError& e) {
+        for (const std::string& m : e.messages) std::fprintf(stderr, "%s\n", m.c_str());
+        std::fprintf(stderr, "knockon: %zu problem%s found; nothing was written\n", e.messages.size(),
+                     e.messages.size() == 1 ? "" : "s");
+        return 2;
+    } catch (const knockon::cli::UsageError& e) {
+        std::fprintf(stderr, "knockon %s: %s\n", command.c_str(), e.what());
+        return 2;
+    } catch (const std::exception& e) {
+        std::fprintf(stderr, "knockon %s: %s\n", command.c_str(), e.what());
+        return 1;
+    }
+}

@@ -1,0 +1,40 @@
+#include <cstdio>
+#include <filesystem>
+
+#include "models/plan.hpp"
+#include "tools/io/output_file.hpp"
+#include "tools/io/plan_output.hpp"
+#include "tools/io/scenario_reader.hpp"
+#include "tools/knockon/options.hpp"
+
+namespace knockon::cli {
+
+int plan(const std::vector<std::string>& args) {
+    po::options_description options("plan options");
+    options.add_options()("json", "print one JSON document instead of tables")(
+        "csv", po::value<std::string>(), "also write every table as CSV into this directory")(
+        "step", po::value<double>()->default_value(1.0), "distance step of the running-time integration [m]");
+    po::variables_map vm;
+    if (!parse_command_line("plan", args, options, vm)) return 0;
+    const double step = vm["step"].as<double>();
+    if (!(step > 0.0 && step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
+
+    Scenario scenario = read_scenario(vm["scenario"].as<std::string>());
+    PlanResult result = make_plan(scenario, RunOptions{step});
+
+    if (vm.count("csv")) {
+        const std::string dir = vm["csv"].as<std::string>();
+        std::error_code ec;
+        std::filesystem::create_directories(dir, ec);
+        if (ec) throw std::runtime_error(dir + ": cannot create directory: " + ec.message());
+        for (const Table& t : plan_tables(scenario, result))
+            write_file_atomically((std::filesystem::path(dir) / (t.name + ".csv")).string(), to_csv(t));
+    }
+    if (vm.count("json"))
+        std::printf("%s\n", plan_json(scenario, result).dump(1).c_str());
+    else
+        std::fputs(plan_text(scenario, result).c_str(), stdout);
+    return 0;
+}
+
+}  // namespace knockon::cli
