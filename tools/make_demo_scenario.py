@@ -134,7 +134,7 @@ FAST_STOPS = {"MFQ", "HBT", "WDS"}
 PATTERNS = [
     # id, type, category, direction, first origin time, every, until, loop departure (or None)
     dict(id="SU", type="EMU4", cat="stopping", dir="up", first="06:00", every=60,
-         until="21:00", loop_dep="06:19:30",
+         until="21:00", loop_dep="06:20",
          note="stopping, up, :00 - stands in loop U2 at Ferrowby Cross while FU overtakes"),
     dict(id="SU", type="EMU4", cat="stopping", dir="up", first="06:30", every=60,
          until="21:30", loop_dep=None, suffix="X",
@@ -144,7 +144,7 @@ PATTERNS = [
     dict(id="GU", type="FRT1600", cat="freight", dir="up", first="06:22", every=120,
          until="20:22", note="freight, up: enters at 0 km, leaves beyond 38 km"),
     dict(id="SD", type="EMU4", cat="stopping", dir="down", first="06:10", every=60,
-         until="21:10", loop_dep="06:31",
+         until="21:10", loop_dep="06:30:30",
          note="stopping, down, :10 - stands in loop D2 at Ferrowby Cross while FD overtakes"),
     dict(id="SD", type="EMU4", cat="stopping", dir="down", first="06:40", every=60,
          until="21:40", loop_dep=None, suffix="X",
@@ -320,8 +320,9 @@ def emit_yaml():
     w("# overtaking loops U2/D2 at Ferrowby Cross (18.4-19.2 km, 60 km/h turnouts).  Traffic, each way:")
     w("# stopping EMUs every 30 min 06:00-21:40, fast trains hourly (Marrowfen Quay, Hobblethorpe,")
     w("# Wendlecombe Sands only), freight every 2 h through from line end to line end.  The :00 up and")
-    w("# :10 down stopping trains stand in the loop at Ferrowby Cross while the fast train overtakes;")
-    w("# the buffers there are thin on purpose (the first places a planner should look).")
+    w("# :10 down stopping trains stand in the loop at Ferrowby Cross (6 and 5.5 min) while the fast")
+    w("# train overtakes.  The buffers around that overtaking, and behind the up fast train at")
+    w("# Hobblethorpe, are thin on purpose (under a minute): the first places a planner should look.")
     w("")
     w("knockon: 1")
     w("name: Marrowfen-Wendlecombe demo line (invented)")
