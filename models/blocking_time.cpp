@@ -35,13 +35,15 @@ double warning_point(const ServiceRun& run, std::size_t i) {
     return sig.s;
 }
 
-// Departure from the last planned halt in [from, to), or NaN when the train does not halt there.
-double departure_from_halt_in(const ServiceRun& run, double from, double to) {
-    double t = kNoTime;
-    for (const PlannedCall& c : run.calls)
+// The last planned stop in [from, to) (index into run.calls), or -1.
+long stop_in(const ServiceRun& run, double from, double to) {
+    long found = -1;
+    for (std::size_t k = 0; k < run.calls.size(); ++k) {
+        const PlannedCall& c = run.calls[k];
         if (c.stops && c.s >= from - 1e-6 && c.s < to - 1e-6 && !std::isnan(c.planned_departure))
-            t = c.planned_departure;
-    return t;
+            found = static_cast<long>(k);
+    }
+    return found;
 }
 
 }  // namespace
@@ -67,10 +69,12 @@ Stairway blocking_stairway(const ServiceRun& run, const InterlockingTimes& times
         }
         double w = warning_point(run, i);
         double t_w = run.head_reach(w);
-        double dep = departure_from_halt_in(run, std::min(w, sig.s), sig.s);
-        if (!std::isnan(dep)) {
-            t_w = dep;  // stands at a stop: the route is needed for the departure
-            w = std::max(w, 0.0);
+        const double previous = i > 0 ? path.signals[i - 1].s : -INFINITY;
+        r.departure_call = stop_in(run, std::min(w, previous), sig.s);
+        if (r.departure_call >= 0) {
+            // Stands at a stop in rear of the signal: the route is needed for the departure.
+            t_w = run.calls[r.departure_call].planned_departure;
+            w = run.calls[r.departure_call].s;
         }
         r.warning_point = w;
         const double t_i = run.head_reach(r.s_entry);

@@ -7,8 +7,8 @@
 // The approach starts at the warning point, which the aspect system decides: the previous main
 // signal (3-aspect), one or two signals back as the braking distance needs (4-aspect), the distant
 // signal (2-aspect), or the braking-curve point (cab signalling with fixed blocks).  A train that
-// has a planned stop between the warning point and the signal needs the route only for its
-// departure from that stop.
+// has a planned stop before the signal — after the warning point or after the previous signal —
+// needs the route for its departure from that stop: it may not start against a signal at stop.
 //
 // Detection sections carry the same intervals: a section is blocked from the start of the first
 // route that includes it until the train's tail has cleared it (sectional release) plus the
@@ -26,6 +26,9 @@ struct RouteBlocking {
     std::string exit_signal;      // empty where the path ends before another signal
     double s_entry = 0.0, s_exit = 0.0, overlap = 0.0;
     double warning_point = 0.0;   // s of the point the approach time is measured from
+    // The planned stop (index into ServiceRun::calls) whose departure the route is needed for,
+    // or -1 when the train runs up to the signal.
+    long departure_call = -1;
     // The six components [s].
     double setup = 0.0, sight_reaction = 0.0, approach = 0.0, running = 0.0, clearing = 0.0, release = 0.0;
     double start = 0.0, end = 0.0;   // absolute [s]

@@ -74,7 +74,9 @@ ServiceRun plan_service(const Infrastructure& infra, const Service& service, con
     };
 
     // Walk the calls: scheduled times (given or constructed) and planned times.
-    double prev_sched = 0.0, prev_planned = 0.0, prev_s = 0.0;
+    // prev_basis: what constructed times count from — the scheduled departure after a stop, but
+    // the unrounded constructed time after a pass, so rounding does not pile up along passes.
+    double prev_sched = 0.0, prev_basis = 0.0, prev_planned = 0.0, prev_s = 0.0;
     for (std::size_t i = 0; i < tps.size(); ++i) {
         const Call& call = service.calls[tps[i].call];
         PlannedCall pc;
@@ -105,7 +107,8 @@ ServiceRun plan_service(const Infrastructure& infra, const Service& service, con
             pc.scheduled_running =
                 pc.technical_running +
                 running_time_supplement(type.supplement, pc.technical_running, pc.s - prev_s, path.length);
-            double constructed = round_up_to_grid(prev_sched + pc.scheduled_running, rounding);
+            const double exact = prev_basis + pc.scheduled_running;
+            const double constructed = round_up_to_grid(exact, rounding);
             pc.planned_arrival = prev_planned + pc.technical_running;
             if (pc.stops) {
                 pc.scheduled_arrival = call.arrival ? *call.arrival : constructed;
@@ -120,6 +123,7 @@ ServiceRun plan_service(const Infrastructure& infra, const Service& service, con
             pc.timetabled_running = pc.scheduled_arrival - prev_sched;
         }
         prev_sched = pc.scheduled_departure;
+        prev_basis = (i > 0 && !pc.stops && !call.departure) ? prev_basis + pc.scheduled_running : prev_sched;
         prev_planned = pc.planned_departure;
         prev_s = pc.s;
         run.calls.push_back(pc);

@@ -45,13 +45,15 @@ GRADIENTS = [
     (0.0, 0.0), (1.5, 5.0), (5.5, 0.0), (7.5, 10.0), (11.5, 0.0), (13.5, 4.0),
     (17.5, 0.0), (20.0, -10.0), (24.0, 0.0), (26.0, -6.0), (30.0, 0.0),
 ]
-# Line speed bands (from km, km/h): 80 through the terminus throats, 120 on a curve stretch.
-SPEEDS = [(0.0, 80), (1.6, 160), (26.5, 120), (29.0, 160), (36.2, 80)]
+# Line speed bands (from km, km/h): 60 through the terminus throats, 120 on a curve stretch.
+SPEEDS = [(0.0, 60), (1.6, 160), (26.5, 120), (29.0, 160), (36.2, 60)]
 
 LOOP_FROM, LOOP_TO, LOOP_SPEED = 18.4, 19.2, 60   # overtaking loops at Ferrowby Cross
 LOOP_STATION = "FRX"
 
-HOME_BEFORE = 0.45    # home signal this far in rear of the stopping mark [km]
+HOME_BEFORE = 1.5     # home signal this far in rear of the stopping mark [km], so that the
+                      # station block (home to starter) is at least a braking distance (B6)
+TERMINUS_HOME_BEFORE = 0.45   # at the line ends, where the throat speed is 60 km/h
 EXIT_AFTER = 0.25     # starter this far beyond the stopping mark [km]
 MAX_BLOCK = 2.4       # open-line block lengths wanted: 1.6 .. 2.4 km
 MIN_BLOCK = 1.6
@@ -213,7 +215,8 @@ def make_signals():
         marks = []   # (at_km, role)
         for sid in order:
             at = AT[sid]
-            marks.append((round(at - sgn * HOME_BEFORE, 3), f"{sid} home"))
+            before = TERMINUS_HOME_BEFORE if sid in (order[0], order[-1]) else HOME_BEFORE
+            marks.append((round(at - sgn * before, 3), f"{sid} home"))
             marks.append((round(at + sgn * EXIT_AFTER, 3), f"{sid} starter"))
         seq = [marks[0]]
         for (x0, r0), (x1, r1) in zip(marks, marks[1:]):
@@ -358,7 +361,8 @@ def emit_yaml():
     w("    # sight and reaction 12 s (B3).")
     w(f"    interlocking: {{route_setup: {ROUTE_SETUP:.0f} s, release: {RELEASE:.0f} s, sight_reaction: {SIGHT_REACTION:.0f} s}}")
     lines, setter = header_comment()
-    w("  # Three-aspect signals.  Homes stand 450 m in rear of the stopping mark, starters 250 m beyond it")
+    w("  # Three-aspect signals.  Homes stand 1.5 km in rear of the stopping mark (450 m at the termini,")
+    w("  # whose throats are limited to 60 km/h), starters 250 m beyond it")
     w("  # (more than an overlap's length, so a train overrunning the mark still stops short of the")
     w("  # starter); the open line between a starter and the next home is cut into equal blocks of")
     w("  # 1.6-2.4 km.  B6 (three-aspect): a block must be at least the braking distance from the speed")
@@ -368,10 +372,9 @@ def emit_yaml():
     out.extend(lines)
     w(f"  # so the {setter} fast train at 160 km/h on the 10 per mille falls sets the spacing; the freight")
     w("  # brakes far less hard but runs at 100 km/h at most and comes close second; the EMU is never near.")
-    w("  # The station blocks (home to starter, 700 m) are shorter than a braking distance from line speed:")
-    w("  # a train that must stop at a starter is warned at the signal in rear of the home (block plus")
-    w("  # station block >= braking distance).  A real three-aspect scheme would give such a place approach")
-    w("  # control or a preliminary caution; that is the signalling engineer's call, not this file's.")
+    w("  # The station blocks (home to starter, 1.75 km) are at least a braking distance from line speed,")
+    w("  # so a through train is warned in time at the signal in rear (B6); at the termini the 60 km/h")
+    w("  # throat keeps the 700 m station block long enough.")
     w("  signals:")
     for direction in ("up", "down"):
         w(f"    # direction {direction}, in running order")

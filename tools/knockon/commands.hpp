@@ -12,5 +12,6 @@ struct UsageError : std::runtime_error {
 
 int validate(const std::vector<std::string>& args);
 int plan(const std::vector<std::string>& args);
+int simulate(const std::vector<std::string>& args);
 
 }  // namespace knockon::cli

@@ -1,6 +1,6 @@
 // knockon: command-line entry.  Each subcommand lives in its own file; this one dispatches and
 // turns every failure into a message and an exit status (0 ok, 1 failure while running,
-// 2 bad input or usage).
+// 2 bad input or usage, 3 the simulated day ended in deadlock).
 #include <cstdio>
 #include <cstring>
 #include <exception>
@@ -20,6 +20,7 @@ void usage(std::FILE* to) {
                  "  validate SCENARIO           check a scenario file and report every problem found\n"
                  "  plan SCENARIO [options]     running times, blocking times, headways, buffers,\n"
                  "                              conflicts and UIC 406 capacity consumption\n"
+                 "  simulate SCENARIO [options] one day, event by event, with signals and interlocking\n"
                  "\n"
                  "Run 'knockon <command> --help' for the options of a command.\n");
 }
@@ -36,6 +37,7 @@ int main(int argc, char** argv) {
     try {
         if (command == "validate") return knockon::cli::validate(args);
         if (command == "plan") return knockon::cli::plan(args);
+        if (command == "simulate") return knockon::cli::simulate(args);
         if (command == "--help" || command == "-h" || command == "help") {
             usage(stdout);
             return 0;

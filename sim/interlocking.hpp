@@ -1,0 +1,42 @@
+#pragma once
+// The interlocking's bookkeeping of train-detection sections: which train holds each section,
+// and in which order trains may take it.
+//
+// A route is granted only when every section it needs is free or already held by the same
+// train.  Under the timetable order policy a train may also take a section only after every
+// train planned to use that section before it has released it (so a late train keeps its
+// place, as a dispatcher working to the timetable would); under first come first served any
+// free section may be taken.
+#include <cstdint>
+#include <string>
+#include <vector>
+
+namespace knockon {
+
+enum class RouteOrder { timetable, first_come };
+
+inline constexpr std::uint32_t kNoTrain = UINT32_MAX;
+
+class Interlocking {
+public:
+    // planned_order[section] lists the trains that use the section, in planned order.
+    Interlocking(std::size_t sections, RouteOrder order, std::vector<std::vector<std::uint32_t>> planned_order);
+
+    // Why `train` may not take `section` now: the holding train, its predecessor in planned
+    // order that has not released yet, or kNoTrain when it may.
+    std::uint32_t blocker(std::uint32_t train, std::uint32_t section) const;
+    bool can_take(std::uint32_t train, const std::vector<std::uint32_t>& sections) const;
+    void take(std::uint32_t train, const std::vector<std::uint32_t>& sections);
+    // The train gives the section up.  Its place in the planned order is used up.
+    void release(std::uint32_t train, std::uint32_t section);
+    std::uint32_t holder(std::uint32_t section) const { return holder_[section]; }
+
+private:
+    RouteOrder order_;
+    std::vector<std::uint32_t> holder_;
+    std::vector<std::vector<std::uint32_t>> planned_;   // per section, trains in planned order
+    std::vector<std::size_t> next_;                     // per section: first planned train not yet done
+    std::vector<std::vector<std::uint8_t>> done_;       // per section, per planned slot: released
+};
+
+}  // namespace knockon

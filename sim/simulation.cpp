@@ -1,0 +1,836 @@
+#include "sim/simulation.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <map>
+#include <sstream>
+#include <stdexcept>
+
+#include "sim/event_queue.hpp"
+
+namespace knockon {
+namespace {
+
+constexpr double kInf = std::numeric_limits<double>::infinity();
+constexpr double kEps = 1e-6;
+
+int aspect_cap(AspectSystem a) {
+    switch (a) {
+        case AspectSystem::two_aspect: return 1;
+        case AspectSystem::three_aspect: return 2;
+        case AspectSystem::four_aspect: return 3;
+        case AspectSystem::cab_fixed_block: return 1 << 20;
+    }
+    return 2;
+}
+
+double read_point(const PathSignal& sig) {
+    switch (sig.system) {
+        case AspectSystem::cab_fixed_block: return -kInf;
+        case AspectSystem::two_aspect:
+            return sig.s - sig.signal->distant_distance.value_or(0.0) - sig.signal->sighting_distance;
+        default: return sig.s - sig.signal->sighting_distance;
+    }
+}
+
+}  // namespace
+
+SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& plan) : infra_(infra) {
+    std::map<std::string, std::uint32_t> index;
+    auto section_of = [&](const std::string& id) {
+        auto [it, fresh] = index.try_emplace(id, static_cast<std::uint32_t>(section_names_.size()));
+        if (fresh) section_names_.push_back(id);
+        return it->second;
+    };
+    // Planned blocking start of every (section, train), to order the trains per section.
+    std::vector<std::vector<std::pair<double, std::uint32_t>>> starts;
+
+    for (std::uint32_t t = 0; t < plan.size(); ++t) {
+        const TrainPlan& tp = plan[t];
+        const TrainPath& path = tp.run.path;
+        Train tr;
+        tr.plan = &tp;
+        for (const PathSection& sec : path.sections) tr.section_index.push_back(section_of(sec.id));
+
+        // Routes: the same ones, in the same order, as the planned stairway.
+        std::size_t sig_i = 0;
+        for (const RouteBlocking& rb : tp.stairway.routes) {
+            while (sig_i < path.signals.size() && path.signals[sig_i].signal->id != rb.entry_signal) ++sig_i;
+            const PathSignal& ps = path.signals.at(sig_i);
+            Route r;
+            r.entry_signal = rb.entry_signal;
+            r.exit_signal = rb.exit_signal;
+            r.s_entry = rb.s_entry;
+            r.authority_end = rb.exit_signal.empty() && path.ends_at_edge ? kInf : rb.s_exit;
+            r.warning_point = rb.warning_point;
+            r.read_point = read_point(ps);
+            r.aspect_cap = aspect_cap(ps.system);
+            r.after_stop = rb.departure_call;
+            for (std::size_t k = 0; k < path.sections.size(); ++k) {
+                const PathSection& sec = path.sections[k];
+                if (std::min(rb.s_exit + rb.overlap, sec.s_to) - std::max(rb.s_entry, sec.s_from) > kEps)
+                    r.sections.push_back(tr.section_index[k]);
+            }
+            tr.routes.push_back(std::move(r));
+        }
+        for (const SectionBlocking& b : tp.stairway.sections) {
+            std::uint32_t s = section_of(b.section);
+            if (starts.size() <= s) starts.resize(s + 1);
+            starts[s].push_back({b.start, t});
+        }
+        trains_.push_back(std::move(tr));
+    }
+    starts.resize(section_names_.size());
+    planned_order_.resize(section_names_.size());
+    for (std::size_t s = 0; s < starts.size(); ++s) {
+        std::stable_sort(starts[s].begin(), starts[s].end());
+        for (auto& [time, train] : starts[s]) planned_order_[s].push_back(train);
+    }
+}
+
+namespace {
+
+enum Kind : std::uint32_t {
+    kAppear,
+    kRelease,
+    kRouteSet,
+    kAuthorityCheck,
+    kDepartReady,
+    kVanish,
+    // Motion events: stale once the train's motion is recomputed.
+    kEnter,
+    kLeave,
+    kClear,
+    kSight,
+    kPass,
+    kCall,
+    kRequest,
+    kArrive,
+    kExit,
+};
+
+// Phases order simultaneous events: releases before grants, authority before motion.
+std::uint8_t phase_of(Kind k) {
+    switch (k) {
+        case kRelease: return 0;
+        case kRouteSet: return 1;
+        case kAuthorityCheck: return 2;
+        case kRequest: return 3;
+        case kAppear: return 4;
+        case kDepartReady: return 5;
+        default: return 6;
+    }
+}
+
+bool is_motion(Kind k) { return k >= kEnter; }
+
+class Day {
+public:
+    Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& options);
+    SimResult run();
+
+private:
+    enum class Phase { waiting, standing, moving, finished };
+
+    struct TrainState {
+        Phase phase = Phase::waiting;
+        double t0 = 0.0;            // start of the current trajectory
+        Trajectory traj;
+        bool free_end = false;      // the trajectory runs out over the line end
+        double s_stand = 0.0;
+        double stand_since = 0.0;
+        double eoa = 0.0;           // end of the authority the driver knows
+        bool ready = false;         // at a stop: dwell and schedule allow departure
+        double ready_time = kNoTime;
+        long stop_call = -1;        // timing point where it stands, if a scheduled stop
+        double hold_from = kNoTime; // standing at a signal since
+        std::size_t next_enter = 0, next_leave = 0, next_clear = 0;
+        std::size_t next_sight = 0, next_pass = 0, next_request = 0, next_call = 0;
+        std::vector<double> route_set;        // when each route was set for it (NaN: not yet)
+        std::vector<long> route_record;       // per route: index into result.routes
+        bool appear_due = false;              // its appearance time has come
+        std::vector<long> section_record;     // per path section: index into result.sections
+        std::vector<std::uint8_t> holds;      // per path section: it holds the section now
+        bool request_pending = false;
+        double last_sample = -kInf;
+    };
+
+    struct Pending {
+        std::uint32_t train;
+        long route;  // -1: the train waits to appear at its origin
+    };
+
+    const SimModel& model_;
+    const InjectedDelays& delays_;
+    const SimOptions& options_;
+    const InterlockingTimes& times_;
+    Interlocking interlocking_;
+    EventQueue queue_;
+    GenerationTable generations_;
+    std::vector<TrainState> st_;
+    std::vector<Pending> pending_;
+    SimResult out_;
+    std::vector<std::vector<long>> timing_index_;   // [train][call] -> out_.timing
+    double now_ = 0.0;
+
+    const SimModel::Train& train(std::uint32_t t) const { return model_.trains()[t]; }
+    const ServiceRun& run_of(std::uint32_t t) const { return train(t).plan->run; }
+    std::uint32_t motion_entity(std::uint32_t t) const { return 2 * t; }
+    std::uint32_t fixed_entity(std::uint32_t t) const { return 2 * t + 1; }
+
+    void push(double time, Kind kind, std::uint32_t t, std::uint32_t payload = 0) {
+        std::uint32_t entity = is_motion(kind) ? motion_entity(t) : fixed_entity(t);
+        SimTime when = SimTime::from_seconds(std::max(time, now_));
+        if (when < queue_.now()) when = queue_.now();
+        queue_.push(when, phase_of(kind), kind, entity, generations_.current(entity), payload);
+    }
+
+    double delay_of(const std::vector<std::vector<double>>& v, std::uint32_t t, std::size_t call) const {
+        return t < v.size() && call < v[t].size() ? v[t][call] : 0.0;
+    }
+
+    // Minimum dwell at a timing point plus any injected extension [s].
+    double dwell_at(std::uint32_t t, std::size_t tp) const {
+        const ServiceRun& run = run_of(t);
+        const Call& call = run.service->calls[run.calls[tp].call];
+        return (call.min_dwell ? *call.min_dwell : run.type->min_dwell) + delay_of(delays_.dwell, t, run.calls[tp].call);
+    }
+    double head_position(std::uint32_t t) const;
+    double head_speed(std::uint32_t t) const;
+    double time_at_head(std::uint32_t t, double s) const;   // NaN: not on the current motion
+    double next_stop_s(std::uint32_t t, double s) const;
+    double desired_request_time(std::uint32_t t, std::size_t route) const;
+
+    void schedule_points(std::uint32_t t);
+    void schedule_point(std::uint32_t t, Kind kind);
+    void replan(std::uint32_t t);
+    void sample_until(std::uint32_t t, double until);
+
+    long record_for(std::uint32_t t, std::size_t k);
+    void take_sections(std::uint32_t t, const std::vector<std::uint32_t>& globals);
+    void grant_pending();
+    void try_appear(std::uint32_t t);
+    void begin_standing(std::uint32_t t);
+    void end_hold(std::uint32_t t);
+    void check_authority(std::uint32_t t);
+    void depart(std::uint32_t t);
+    void vanish(std::uint32_t t);
+    void record_call(std::uint32_t t, std::size_t tp, double arrival, double departure);
+
+    void handle(const Event& e);
+    void report_deadlock();
+};
+
+Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& options)
+    : model_(model),
+      delays_(delays),
+      options_(options),
+      times_(model.infrastructure().interlocking),
+      interlocking_(model.section_names().size(), options.route_order, model.planned_order()),
+      generations_(2 * model.trains().size()) {
+    const auto& trains = model.trains();
+    st_.resize(trains.size());
+    out_.section_names = model.section_names();
+    timing_index_.resize(trains.size());
+    for (std::uint32_t t = 0; t < trains.size(); ++t) {
+        const ServiceRun& run = run_of(t);
+        out_.train_ids.push_back(run.service->id);
+        TrainState& s = st_[t];
+        s.route_set.assign(train(t).routes.size(), kNoTime);
+        s.route_record.assign(train(t).routes.size(), -1);
+        s.section_record.assign(run.path.sections.size(), -1);
+        s.holds.assign(run.path.sections.size(), 0);
+        for (const PlannedCall& c : run.calls) {
+            TimingRecord r;
+            r.train = t;
+            r.call = static_cast<std::uint32_t>(c.call);
+            r.station = c.station;
+            r.stops = c.stops;
+            r.scheduled_arrival = c.scheduled_arrival;
+            r.scheduled_departure = c.scheduled_departure;
+            r.arrival = r.departure = kNoTime;
+            r.arrival_delay = r.departure_delay = kNoTime;
+            timing_index_[t].push_back(static_cast<long>(out_.timing.size()));
+            out_.timing.push_back(r);
+        }
+        const double entry = t < delays.entry.size() ? delays.entry[t] : 0.0;
+        push(run.appear_time + entry, kAppear, t);
+        // A train entering over the line end asks for its first routes before it comes in.
+        if (run.path.starts_at_edge) schedule_point(t, kRequest);
+    }
+}
+
+double Day::head_position(std::uint32_t t) const {
+    const TrainState& s = st_[t];
+    if (s.phase != Phase::moving) return s.s_stand;
+    if (s.traj.v.size() <= 1) return s.traj.s0;
+    double dt = now_ - s.t0;
+    if (s.free_end && dt > s.traj.duration())
+        return s.traj.s_end + (dt - s.traj.duration()) * s.traj.v.back();
+    return s.traj.position_at(dt);
+}
+
+double Day::head_speed(std::uint32_t t) const {
+    const TrainState& s = st_[t];
+    if (s.phase != Phase::moving) return 0.0;
+    double pos = head_position(t);
+    if (pos >= s.traj.s_end || s.traj.v.size() <= 1) return s.traj.v.back();
+    return s.traj.speed_at(pos);
+}
+
+double Day::time_at_head(std::uint32_t t, double p) const {
+    const TrainState& s = st_[t];
+    if (s.phase == Phase::standing) return p <= s.s_stand + kEps ? now_ : kNoTime;
+    if (s.phase != Phase::moving) return kNoTime;
+    if (p <= s.traj.s0 + kEps) return now_;
+    if (p <= s.traj.s_end + kEps) return s.t0 + s.traj.time_at(std::min(p, s.traj.s_end));
+    if (s.free_end) return s.t0 + s.traj.duration() + (p - s.traj.s_end) / std::max(s.traj.v.back(), 0.1);
+    return kNoTime;
+}
+
+double Day::next_stop_s(std::uint32_t t, double from) const {
+    const ServiceRun& run = run_of(t);
+    for (const PlannedCall& c : run.calls)
+        if (c.stops && c.s > from + kEps) return c.s;
+    return run.path.ends_at_edge ? kInf : run.path.length;
+}
+
+double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
+    const SimModel::Route& r = train(t).routes[i];
+    const TrainState& s = st_[t];
+    const double lead = times_.sight_reaction + times_.route_setup;
+    if (r.after_stop >= 0) {
+        const PlannedCall& c = run_of(t).calls[r.after_stop];
+        if (s.phase == Phase::standing && s.stop_call == r.after_stop) return s.ready_time - lead;
+        if (s.phase == Phase::moving && std::fabs(s.traj.s_end - c.s) < kEps && !s.free_end) {
+            // Heading for that stop: ready when both the schedule and the dwell allow.
+            const double arrival = s.t0 + s.traj.duration();
+            return std::max(c.scheduled_departure, arrival + dwell_at(t, r.after_stop)) - lead;
+        }
+        if (s.next_call > static_cast<std::size_t>(r.after_stop)) return now_;  // already left it
+        return kNoTime;
+    }
+    if (s.phase == Phase::waiting) {
+        // Not yet in the model: the planned approach (extrapolated beyond the line end) is the
+        // best forecast of when it reaches the warning point.
+        const ServiceRun& run = run_of(t);
+        if (!run.path.starts_at_edge) return kNoTime;
+        const double entry = t < delays_.entry.size() ? delays_.entry[t] : 0.0;
+        return run.head_reach(r.warning_point) + entry - lead;
+    }
+    if (head_position(t) >= r.warning_point - kEps) return now_;
+    double tw = time_at_head(t, r.warning_point);
+    return std::isnan(tw) ? kNoTime : tw - lead;
+}
+
+void Day::schedule_point(std::uint32_t t, Kind kind) {
+    const TrainState& s = st_[t];
+    const SimModel::Train& tr = train(t);
+    const TrainPath& path = run_of(t).path;
+    const double L = run_of(t).type->length;
+    double p = kNoTime;
+    std::uint32_t payload = 0;
+    switch (kind) {
+        case kEnter:
+            if (s.next_enter >= path.sections.size()) return;
+            p = path.sections[s.next_enter].s_from;
+            if (p >= path.length - kEps && !path.ends_at_edge) return;
+            payload = static_cast<std::uint32_t>(s.next_enter);
+            break;
+        case kLeave:
+            if (s.next_leave >= path.sections.size()) return;
+            p = path.sections[s.next_leave].s_to;
+            if (p > path.length + kEps && !path.ends_at_edge) return;
+            payload = static_cast<std::uint32_t>(s.next_leave);
+            break;
+        case kClear:
+            if (s.next_clear >= path.sections.size()) return;
+            p = path.sections[s.next_clear].s_to + L;
+            payload = static_cast<std::uint32_t>(s.next_clear);
+            break;
+        case kSight:
+            while (s.next_sight < tr.routes.size() && std::isinf(tr.routes[s.next_sight].read_point))
+                ++st_[t].next_sight;
+            if (s.next_sight >= tr.routes.size()) return;
+            p = tr.routes[s.next_sight].read_point;
+            payload = static_cast<std::uint32_t>(s.next_sight);
+            break;
+        case kPass:
+            if (s.next_pass >= tr.routes.size()) return;
+            p = tr.routes[s.next_pass].s_entry;
+            payload = static_cast<std::uint32_t>(s.next_pass);
+            break;
+        case kCall: {
+            const auto& calls = run_of(t).calls;
+            if (s.next_call >= calls.size() || calls[s.next_call].stops) return;
+            p = calls[s.next_call].s;
+            payload = static_cast<std::uint32_t>(s.next_call);
+            break;
+        }
+        case kRequest: {
+            if (s.next_request >= tr.routes.size() || s.request_pending) return;
+            double when = desired_request_time(t, s.next_request);
+            if (!std::isnan(when)) push(when, kRequest, t, static_cast<std::uint32_t>(s.next_request));
+            return;
+        }
+        default: return;
+    }
+    double when = time_at_head(t, p);
+    if (!std::isnan(when)) push(when, kind, t, payload);
+}
+
+void Day::schedule_points(std::uint32_t t) {
+    for (Kind k : {kEnter, kLeave, kClear, kSight, kPass, kCall, kRequest}) schedule_point(t, k);
+    const TrainState& s = st_[t];
+    if (s.phase == Phase::moving) push(s.t0 + s.traj.duration(), s.free_end ? kExit : kArrive, t);
+}
+
+void Day::sample_until(std::uint32_t t, double until) {
+    if (options_.sample_interval <= 0.0) return;
+    TrainState& s = st_[t];
+    const TrainPath& path = run_of(t).path;
+    double start = s.phase == Phase::moving ? s.t0 : s.stand_since;
+    double dt = options_.sample_interval;
+    double first = std::max(start, s.last_sample + dt);
+    first = std::ceil(first / dt - 1e-9) * dt;
+    auto add = [&](double time) {
+        double pos, v;
+        if (s.phase == Phase::moving) {
+            double rel = time - s.t0;
+            if (s.free_end && rel > s.traj.duration()) {
+                v = s.traj.v.back();
+                pos = s.traj.s_end + (rel - s.traj.duration()) * v;
+            } else {
+                pos = s.traj.position_at(rel);
+                v = s.traj.speed_at(pos);
+            }
+        } else {
+            pos = s.s_stand;
+            v = 0.0;
+        }
+        if (pos > path.length + kEps && !path.ends_at_edge) return;
+        double x = pos <= path.length ? path.chainage_at(pos) : path.chainage_at(path.length);
+        out_.samples.push_back({t, time, pos, x, v});
+        s.last_sample = time;
+    };
+    for (double time = first; time <= until + 1e-9; time += dt) add(time);
+}
+
+void Day::replan(std::uint32_t t) {
+    TrainState& s = st_[t];
+    const ServiceRun& run = run_of(t);
+    const double s_now = head_position(t);
+    const double v_now = head_speed(t);
+    sample_until(t, now_);
+
+    const double stop_s = next_stop_s(t, s_now - kEps);
+    double target = std::min({stop_s, s.eoa, run.path.ends_at_edge ? kInf : run.path.length});
+    bool free = false;
+    if (std::isinf(target)) {
+        target = run.path.length;
+        free = true;
+    }
+    generations_.bump(motion_entity(t));
+    if (target - s_now < 1e-3 && v_now <= 1e-6) {
+        s.phase = Phase::standing;
+        s.s_stand = s_now;
+        s.stand_since = now_;
+        schedule_points(t);
+        return;
+    }
+    s.traj = run_leg(*run.type, run.path, s_now, v_now, std::max(target, s_now), !free, options_.run);
+    s.t0 = now_;
+    s.free_end = free;
+    s.phase = Phase::moving;
+    schedule_points(t);
+}
+
+long Day::record_for(std::uint32_t t, std::size_t k) {
+    TrainState& s = st_[t];
+    if (s.section_record[k] < 0) {
+        SectionRecord r;
+        r.train = t;
+        r.section = train(t).section_index[k];
+        r.locked = now_;
+        r.head_enters = r.head_leaves = r.tail_clears = r.released = kNoTime;
+        s.section_record[k] = static_cast<long>(out_.sections.size());
+        out_.sections.push_back(r);
+    }
+    return s.section_record[k];
+}
+
+void Day::take_sections(std::uint32_t t, const std::vector<std::uint32_t>& globals) {
+    interlocking_.take(t, globals);
+    const auto& idx = train(t).section_index;
+    for (std::uint32_t g : globals)
+        for (std::size_t k = 0; k < idx.size(); ++k)
+            if (idx[k] == g && !st_[t].holds[k]) {
+                st_[t].holds[k] = 1;
+                record_for(t, k);
+                break;
+            }
+}
+
+// Sections an originating train stands on when it appears.
+std::vector<std::uint32_t> origin_sections(const SimModel::Train& tr) {
+    std::vector<std::uint32_t> out;
+    const TrainPath& path = tr.plan->run.path;
+    const double L = tr.plan->run.type->length;
+    for (std::size_t k = 0; k < path.sections.size(); ++k)
+        if (path.sections[k].s_from < kEps && path.sections[k].s_to > -L + kEps) out.push_back(tr.section_index[k]);
+    return out;
+}
+
+void Day::grant_pending() {
+    for (std::size_t i = 0; i < pending_.size();) {
+        const Pending p = pending_[i];
+        if (p.route < 0) {
+            std::vector<std::uint32_t> secs = origin_sections(train(p.train));
+            if (!interlocking_.can_take(p.train, secs)) {
+                ++i;
+                continue;
+            }
+            pending_.erase(pending_.begin() + static_cast<long>(i));
+            take_sections(p.train, secs);
+            try_appear(p.train);
+            i = 0;  // a grant changes nothing that frees others, but keep the order simple
+            continue;
+        }
+        const SimModel::Route& r = train(p.train).routes[p.route];
+        if (!interlocking_.can_take(p.train, r.sections)) {
+            ++i;
+            continue;
+        }
+        pending_.erase(pending_.begin() + static_cast<long>(i));
+        take_sections(p.train, r.sections);
+        out_.routes[st_[p.train].route_record[p.route]].granted = now_;
+        push(now_ + times_.route_setup, kRouteSet, p.train, static_cast<std::uint32_t>(p.route));
+        st_[p.train].request_pending = false;
+        ++st_[p.train].next_request;
+        schedule_point(p.train, kRequest);
+    }
+}
+
+void Day::try_appear(std::uint32_t t) {
+    TrainState& s = st_[t];
+    const ServiceRun& run = run_of(t);
+    if (run.path.starts_at_edge) {
+        // Enters once the driver knows the first route is set; until then it waits outside.
+        const auto& routes = train(t).routes;
+        if (!routes.empty() && routes[0].s_entry <= kEps) {
+            double set = s.route_set[0];
+            if (std::isnan(set) || set + times_.sight_reaction > now_ + kEps) return;
+        }
+        s.phase = Phase::moving;
+        s.t0 = now_;
+        s.s_stand = 0.0;
+        s.eoa = 0.0;
+        // Motion starts at entry speed; authority is read at once (signals in sight).
+        generations_.bump(motion_entity(t));
+        s.traj = Trajectory{};
+        s.traj.s0 = s.traj.s_end = 0.0;
+        s.traj.v = {run.entry_speed};
+        s.traj.t = {0.0};
+        check_authority(t);
+        if (s.eoa <= kEps) {
+            // No authority yet: it must stop at the line end (approximation: it waits outside).
+            s.phase = Phase::waiting;
+            return;
+        }
+        return;
+    }
+    // Originating: stands at its first stop until ready and the exit route is set.
+    s.phase = Phase::standing;
+    s.s_stand = 0.0;
+    s.stand_since = now_;
+    s.stop_call = 0;
+    const double entry = t < delays_.entry.size() ? delays_.entry[t] : 0.0;
+    s.ready_time = std::max(run.calls[0].scheduled_departure + entry, now_ + dwell_at(t, 0));
+    const auto& sec = run.path.sections;
+    while (s.next_enter < sec.size() && sec[s.next_enter].s_from < kEps) {
+        long r = record_for(t, s.next_enter);
+        out_.sections[r].head_enters = now_;
+        ++s.next_enter;
+    }
+    s.eoa = train(t).routes.empty() ? run.path.length : std::min(train(t).routes[0].s_entry, run.path.length);
+    if (train(t).routes.empty() || train(t).routes[0].s_entry > kEps) s.eoa = std::max(s.eoa, 0.0);
+    record_call(t, 0, kNoTime, kNoTime);
+    s.next_call = 1;
+    push(s.ready_time, kDepartReady, t);
+    generations_.bump(motion_entity(t));
+    schedule_points(t);
+}
+
+void Day::record_call(std::uint32_t t, std::size_t tp, double arrival, double departure) {
+    TimingRecord& r = out_.timing[timing_index_[t][tp]];
+    if (!std::isnan(arrival)) {
+        r.arrival = arrival;
+        r.arrival_delay = arrival - r.scheduled_arrival;
+    }
+    if (!std::isnan(departure)) {
+        r.departure = departure;
+        r.departure_delay = departure - r.scheduled_departure;
+    }
+}
+
+void Day::check_authority(std::uint32_t t) {
+    TrainState& s = st_[t];
+    if (s.phase == Phase::finished) return;
+    const auto& routes = train(t).routes;
+    const double head = s.phase == Phase::waiting ? 0.0 : head_position(t);
+    double eoa = s.eoa;
+    for (std::size_t j = s.next_pass; j < routes.size(); ++j) {
+        if (head < routes[j].read_point - kEps) break;
+        int k = 0;
+        while (k < routes[j].aspect_cap && j + k < routes.size()) {
+            double set = s.route_set[j + k];
+            if (std::isnan(set) || set + times_.sight_reaction > now_ + kEps) break;
+            ++k;
+        }
+        if (k == 0) continue;
+        double end = routes[j + k - 1].authority_end;
+        if (j + k < routes.size()) end = routes[j + k].s_entry;
+        eoa = std::max(eoa, end);
+    }
+    if (eoa <= s.eoa + kEps) return;
+    s.eoa = eoa;
+    if (s.phase == Phase::moving) {
+        replan(t);
+    } else if (s.phase == Phase::standing) {
+        if (s.stop_call >= 0) {
+            if (s.ready) depart(t);
+        } else {
+            end_hold(t);
+            replan(t);
+        }
+    }
+}
+
+void Day::end_hold(std::uint32_t t) {
+    TrainState& s = st_[t];
+    if (std::isnan(s.hold_from)) return;
+    std::string signal;
+    for (const SimModel::Route& r : train(t).routes)
+        if (std::fabs(r.s_entry - s.s_stand) < 50.0 && r.s_entry >= s.s_stand - kEps) {
+            signal = r.entry_signal;
+            break;
+        }
+    out_.holds.push_back({t, signal, s.hold_from, now_});
+    s.hold_from = kNoTime;
+}
+
+void Day::depart(std::uint32_t t) {
+    TrainState& s = st_[t];
+    record_call(t, static_cast<std::size_t>(s.stop_call), kNoTime, now_);
+    s.stop_call = -1;
+    s.ready = false;
+    s.ready_time = kNoTime;
+    replan(t);
+}
+
+void Day::begin_standing(std::uint32_t t) {
+    TrainState& s = st_[t];
+    const ServiceRun& run = run_of(t);
+    sample_until(t, now_);
+    s.s_stand = s.traj.s_end;
+    s.phase = Phase::standing;
+    s.stand_since = now_;
+    const auto& calls = run.calls;
+    if (s.next_call < calls.size() && calls[s.next_call].stops && std::fabs(calls[s.next_call].s - s.s_stand) < 1e-3) {
+        const std::size_t k = s.next_call++;
+        s.stop_call = static_cast<long>(k);
+        record_call(t, k, now_, kNoTime);
+        const double min_dwell = dwell_at(t, k);
+        if (k + 1 == calls.size() && !run.path.ends_at_edge) {
+            push(now_ + min_dwell, kVanish, t);
+        } else {
+            s.ready_time = std::max(calls[k].scheduled_departure, now_ + min_dwell);
+            push(s.ready_time, kDepartReady, t);
+        }
+    } else {
+        s.hold_from = now_;
+    }
+    generations_.bump(motion_entity(t));
+    schedule_points(t);
+}
+
+void Day::vanish(std::uint32_t t) {
+    TrainState& s = st_[t];
+    sample_until(t, now_);
+    if (s.stop_call >= 0) record_call(t, static_cast<std::size_t>(s.stop_call), kNoTime, now_);
+    for (std::size_t k = 0; k < s.holds.size(); ++k) {
+        if (!s.holds[k]) continue;
+        long r = s.section_record[k];
+        if (std::isnan(out_.sections[r].tail_clears)) out_.sections[r].tail_clears = now_;
+        push(now_ + times_.release, kRelease, t, static_cast<std::uint32_t>(k));
+    }
+    s.phase = Phase::finished;
+    generations_.bump(motion_entity(t));
+}
+
+void Day::handle(const Event& e) {
+    const std::uint32_t t = e.entity / 2;
+    TrainState& s = st_[t];
+    const TrainPath& path = run_of(t).path;
+    switch (static_cast<Kind>(e.kind)) {
+        case kAppear:
+            s.appear_due = true;
+            if (!run_of(t).path.starts_at_edge) {
+                pending_.push_back({t, -1});
+                grant_pending();
+            } else {
+                try_appear(t);
+            }
+            break;
+        case kRelease: {
+            const std::size_t k = e.payload;
+            if (!s.holds[k]) break;
+            s.holds[k] = 0;
+            interlocking_.release(t, train(t).section_index[k]);
+            out_.sections[s.section_record[k]].released = now_;
+            grant_pending();
+            break;
+        }
+        case kRouteSet:
+            s.route_set[e.payload] = now_;
+            out_.routes[s.route_record[e.payload]].cleared = now_;
+            push(now_ + times_.sight_reaction, kAuthorityCheck, t);
+            break;
+        case kAuthorityCheck:
+            if (s.phase == Phase::waiting) {
+                if (s.appear_due && path.starts_at_edge) try_appear(t);
+            } else {
+                check_authority(t);
+            }
+            break;
+        case kDepartReady:
+            if (s.phase != Phase::standing || s.stop_call < 0) break;
+            s.ready = true;
+            if (s.eoa > s.s_stand + kEps) depart(t);
+            break;
+        case kVanish: vanish(t); break;
+        case kEnter: {
+            long r = record_for(t, e.payload);
+            if (!s.holds[e.payload]) {
+                // Unprotected stretch (no route covers it): occupied as the head enters.
+                interlocking_.take(t, {train(t).section_index[e.payload]});
+                s.holds[e.payload] = 1;
+            }
+            out_.sections[r].head_enters = now_;
+            ++s.next_enter;
+            schedule_point(t, kEnter);
+            break;
+        }
+        case kLeave:
+            if (s.section_record[e.payload] >= 0) out_.sections[s.section_record[e.payload]].head_leaves = now_;
+            ++s.next_leave;
+            schedule_point(t, kLeave);
+            break;
+        case kClear: {
+            const std::size_t k = e.payload;
+            if (s.section_record[k] >= 0) out_.sections[s.section_record[k]].tail_clears = now_;
+            if (s.holds[k]) push(now_ + times_.release, kRelease, t, static_cast<std::uint32_t>(k));
+            ++s.next_clear;
+            schedule_point(t, kClear);
+            break;
+        }
+        case kSight:
+            ++s.next_sight;
+            check_authority(t);
+            if (s.phase != Phase::finished) schedule_point(t, kSight);
+            break;
+        case kPass:
+            ++s.next_pass;
+            ++out_.block_passages;
+            schedule_point(t, kPass);
+            break;
+        case kCall:
+            record_call(t, e.payload, now_, now_);
+            ++s.next_call;
+            schedule_point(t, kCall);
+            break;
+        case kRequest: {
+            if (e.payload != s.next_request || s.request_pending) break;
+            const SimModel::Route& r = train(t).routes[e.payload];
+            RouteRecord rec;
+            rec.train = t;
+            rec.entry_signal = r.entry_signal;
+            rec.exit_signal = r.exit_signal;
+            rec.requested = now_;
+            rec.granted = rec.cleared = kNoTime;
+            s.route_record[e.payload] = static_cast<long>(out_.routes.size());
+            out_.routes.push_back(rec);
+            s.request_pending = true;
+            pending_.push_back({t, static_cast<long>(e.payload)});
+            grant_pending();
+            break;
+        }
+        case kArrive: begin_standing(t); break;
+        case kExit:
+            // Head over the line end: the rest of the train follows at exit speed; the tail
+            // clearings are already scheduled by extrapolation.
+            push(now_ + run_of(t).type->length / std::max(s.traj.v.back(), 0.1), kVanish, t);
+            break;
+    }
+}
+
+void Day::report_deadlock() {
+    std::ostringstream msg;
+    std::size_t stuck = 0;
+    for (std::uint32_t t = 0; t < st_.size(); ++t) {
+        const TrainState& s = st_[t];
+        if (s.phase == Phase::finished) continue;
+        ++stuck;
+        const TrainPath& path = run_of(t).path;
+        msg << "train " << run_of(t).service->id << " stands at "
+            << path.chainage_at(std::clamp(s.s_stand, path.s_min, path.s_max)) / 1000.0 << " km";
+        for (const Pending& p : pending_) {
+            if (p.train != t) continue;
+            std::vector<std::uint32_t> secs =
+                p.route < 0 ? origin_sections(train(t)) : train(t).routes[p.route].sections;
+            msg << (p.route < 0 ? ", waiting to appear" : ", waiting for the route from " +
+                                                             train(t).routes[p.route].entry_signal);
+            for (std::uint32_t g : secs) {
+                std::uint32_t b = interlocking_.blocker(t, g);
+                if (b == kNoTrain) continue;
+                msg << "; section " << model_.section_names()[g] << " held by or promised to train "
+                    << run_of(b).service->id;
+            }
+        }
+        msg << "\n";
+    }
+    out_.deadlock.deadlocked = stuck > 0;
+    out_.deadlock.time = now_;
+    out_.deadlock.description = msg.str();
+}
+
+SimResult Day::run() {
+    Event e;
+    while (queue_.pop_current(e, generations_)) {
+        now_ = e.time.to_seconds();
+        handle(e);
+        if (++out_.events > options_.max_events)
+            throw std::runtime_error("simulation exceeded " + std::to_string(options_.max_events) +
+                                     " events: stopped (a bug; please report the scenario)");
+    }
+    report_deadlock();
+    return std::move(out_);
+}
+
+}  // namespace
+
+bool InjectedDelays::empty() const {
+    auto none = [](const std::vector<double>& v) {
+        return std::all_of(v.begin(), v.end(), [](double d) { return d == 0.0; });
+    };
+    return none(entry) && std::all_of(dwell.begin(), dwell.end(), none) &&
+           std::all_of(running.begin(), running.end(), none);
+}
+
+SimResult simulate_day(const SimModel& model, const InjectedDelays& delays, const SimOptions& options) {
+    Day day(model, delays, options);
+    return day.run();
+}
+
+}  // namespace knockon

@@ -1,0 +1,121 @@
+#include <cstdio>
+#include <sstream>
+
+#include <nlohmann/json.hpp>
+
+#include "models/plan.hpp"
+#include "models/units.hpp"
+#include "sim/day_summary.hpp"
+#include "sim/simulation.hpp"
+#include "tools/io/plan_output.hpp"
+#include "tools/io/scenario_reader.hpp"
+#include "tools/knockon/delay_option.hpp"
+#include "tools/knockon/options.hpp"
+
+namespace knockon::cli {
+namespace {
+
+std::string minutes(double s) {
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%.1f min", s / 60.0);
+    return buf;
+}
+
+std::string summary_text(const Scenario& sc, const SimResult& r, const DaySummary& d) {
+    std::ostringstream out;
+    out << "knockon simulate: " << sc.name << " (" << sc.source_file << ")\n";
+    out << "Caution: " << kSafetyCaution << "\n\n";
+    out << d.trains << " trains, " << d.finished << " reached their last timing point; " << r.events
+        << " events, " << r.block_passages << " block passages.\n";
+    if (r.deadlock.deadlocked) out << "DEADLOCK at " << format_time_of_day(r.deadlock.time) << ":\n" << r.deadlock.description;
+    out << "Arrivals and passes recorded: " << d.arrivals << "; mean delay " << minutes(d.mean_arrival_delay) << ".\n";
+    for (std::size_t i = 0; i < d.thresholds.size(); ++i) {
+        char buf[96];
+        std::snprintf(buf, sizeof buf, "Punctuality within %.0f min (delay < %.0f s): %.1f %%\n", d.thresholds[i] / 60.0,
+                      d.thresholds[i], 100.0 * d.punctuality[i]);
+        out << buf;
+    }
+    out << "Total delay at last timing points: " << minutes(d.total_final_delay) << "; time standing at signals: "
+        << minutes(d.total_held) << ".\n";
+    std::size_t shown = 0;
+    for (const TrainDelay& td : d.trains_by_delay) {
+        if (td.final_delay < 1.0 || shown == 10) break;
+        if (!shown++) out << "\nMost delayed trains (final delay, largest delay, held at signals):\n";
+        out << "  " << r.train_ids[td.train] << ": " << minutes(td.final_delay) << ", " << minutes(td.max_delay) << ", "
+            << minutes(td.held) << "\n";
+    }
+    if (!shown) out << "No train ends late.\n";
+    return out.str();
+}
+
+nlohmann::json summary_json(const Scenario& sc, const SimResult& r, const DaySummary& d) {
+    nlohmann::json j;
+    j["tool"] = {{"name", "knockon"}, {"version", KNOCKON_VERSION}};
+    j["scenario"] = scenario_facts(sc);
+    j["caution"] = kSafetyCaution;
+    j["events"] = r.events;
+    j["block_passages"] = r.block_passages;
+    j["deadlock"] = {{"deadlocked", r.deadlock.deadlocked}, {"time", r.deadlock.time},
+                     {"description", r.deadlock.description}};
+    j["summary"] = {{"trains", d.trains}, {"finished", d.finished}, {"arrivals", d.arrivals},
+                    {"mean_arrival_delay_s", d.mean_arrival_delay}, {"total_final_delay_s", d.total_final_delay},
+                    {"total_held_s", d.total_held}};
+    for (std::size_t i = 0; i < d.thresholds.size(); ++i)
+        j["summary"]["punctuality"].push_back({{"threshold_s", d.thresholds[i]}, {"share", d.punctuality[i]},
+                                               {"rule", "delay strictly below the threshold"}});
+    auto num = [](double v) { return std::isnan(v) ? nlohmann::json(nullptr) : nlohmann::json(v); };
+    for (const TimingRecord& t : r.timing)
+        j["timing"].push_back({{"train", r.train_ids[t.train]}, {"station", t.station}, {"stops", t.stops},
+                               {"scheduled_arrival", num(t.scheduled_arrival)},
+                               {"scheduled_departure", num(t.scheduled_departure)}, {"arrival", num(t.arrival)},
+                               {"departure", num(t.departure)}, {"arrival_delay", num(t.arrival_delay)},
+                               {"departure_delay", num(t.departure_delay)}});
+    for (const RouteRecord& rr : r.routes)
+        j["routes"].push_back({{"train", r.train_ids[rr.train]}, {"entry_signal", rr.entry_signal},
+                               {"exit_signal", rr.exit_signal}, {"requested", num(rr.requested)},
+                               {"granted", num(rr.granted)}, {"cleared", num(rr.cleared)}});
+    j["holds"] = nlohmann::json::array();
+    for (const HoldRecord& h : r.holds)
+        j["holds"].push_back({{"train", r.train_ids[h.train]}, {"signal", h.signal}, {"from", h.from}, {"to", h.to}});
+    return j;
+}
+
+}  // namespace
+
+int simulate(const std::vector<std::string>& args) {
+    po::options_description options("simulate options");
+    options.add_options()("json", "print one JSON document instead of the summary")(
+        "delay", po::value<std::vector<std::string>>()->composing(),
+        "inject a delay: TRAIN:entry:MINUTES, TRAIN:dwell@STATION:MINUTES or TRAIN:run@STATION:MINUTES (repeatable)")(
+        "order", po::value<std::string>()->default_value("timetable"),
+        "route-setting order at conflicts: timetable or first-come")(
+        "sample", po::value<double>()->default_value(0.0), "record trajectories every this many seconds (0: none)")(
+        "step", po::value<double>()->default_value(1.0), "distance step of the motion integration [m]");
+    po::variables_map vm;
+    if (!parse_command_line("simulate", args, options, vm)) return 0;
+    SimOptions so;
+    const std::string order = vm["order"].as<std::string>();
+    if (order == "timetable") so.route_order = RouteOrder::timetable;
+    else if (order == "first-come") so.route_order = RouteOrder::first_come;
+    else throw UsageError("--order must be timetable or first-come, not '" + order + "'");
+    so.sample_interval = vm["sample"].as<double>();
+    if (!(so.sample_interval >= 0.0)) throw UsageError("--sample must not be negative");
+    so.run.step = vm["step"].as<double>();
+    if (!(so.run.step > 0.0 && so.run.step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
+
+    Scenario scenario = read_scenario(vm["scenario"].as<std::string>());
+    std::vector<TrainPlan> plan = plan_trains(scenario, so.run);
+    InjectedDelays delays = parse_delays(
+        vm.count("delay") ? vm["delay"].as<std::vector<std::string>>() : std::vector<std::string>{}, plan);
+    SimModel model(scenario.infrastructure, plan);
+    SimResult result = simulate_day(model, delays, so);
+    DaySummary summary = summarize_day(result);
+
+    if (vm.count("json"))
+        std::printf("%s\n", summary_json(scenario, result, summary).dump(1).c_str());
+    else
+        std::fputs(summary_text(scenario, result, summary).c_str(), stdout);
+    return result.deadlock.deadlocked ? 3 : 0;
+}
+
+}  // namespace knockon::cli
