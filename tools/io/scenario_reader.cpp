@@ -1,0 +1,1074 @@
+#include "tools/io/scenario_reader.hpp"
+
+#include <algorithm>
+#include <array>
+#include <cerrno>
+#include <cmath>
+#include <cstdio>
+#include <cstring>
+#include <filesystem>
+#include <fstream>
+#include <map>
+#include <optional>
+#include <sstream>
+#include <utility>
+
+#include <yaml-cpp/yaml.h>
+
+#include "models/path.hpp"
+#include "models/units.hpp"
+#include "tools/io/yaml_fields.hpp"
+
+namespace knockon {
+
+namespace {
+
+std::string join_lines(const std::vector<std::string>& lines) {
+    std::string out;
+    for (const auto& l : lines) {
+        if (!out.empty()) out += '\n';
+        out += l;
+    }
+    return out;
+}
+
+}  // namespace
+
+ScenarioError::ScenarioError(std::vector<std::string> msgs)
+    : std::runtime_error(join_lines(msgs)), messages(std::move(msgs)) {}
+
+namespace {
+
+using yamlio::ErrorList;
+using yamlio::item;
+using yamlio::km;
+using yamlio::line_of;
+using yamlio::MapFields;
+
+// Chainages written in km and in m are snapped to one grid by parse_quantity; this tolerance only
+// absorbs rounding in sums.
+constexpr double kEps = 1e-6;
+// A repeat pattern giving more runs than this is surely a typing mistake (e.g. every: 1 s).
+constexpr long kMaxRunsPerPattern = 5000;
+
+// "known: a, b, c" (at most a dozen names) for unknown-reference messages.
+std::string known_list(const std::vector<std::string>& ids) {
+    if (ids.empty()) return "none are defined";
+    std::string out = "known: ";
+    for (std::size_t i = 0; i < ids.size() && i < 12; ++i) {
+        if (i > 0) out += ", ";
+        out += ids[i];
+    }
+    if (ids.size() > 12) out += ", ...";
+    return out;
+}
+
+// "0615" for 06:15:xx; hours go past 23 for after-midnight runs.
+std::string hhmm(double seconds) {
+    const long long s = std::llround(std::floor(seconds));
+    char buf[32];
+    std::snprintf(buf, sizeof buf, "%02lld%02lld", s / 3600, (s / 60) % 60);
+    return buf;
+}
+
+// A service as read, with what is needed to point back into the file.
+struct ServiceSource {
+    Service service;
+    MapFields fields;
+    std::vector<MapFields> calls;
+    std::optional<double> every;  // repeat pattern
+    std::optional<double> until;
+    bool ok = true;               // everything parsed and checked
+};
+
+class ScenarioParser {
+public:
+    explicit ScenarioParser(ErrorList& errors) : errors_(errors) {}
+
+    Scenario parse(const YAML::Node& root) {
+        MapFields top(errors_, root, "",
+                      {"knockon", "name", "line_type", "infrastructure", "train_types", "timetable"});
+        if (!top.ok()) return std::move(sc_);
+        if (auto v = top.text("knockon", true)) {
+            bool supported = false;
+            try {
+                supported = parse_number(*v) == 1.0;
+            } catch (const UnitError&) {
+            }
+            if (!supported)
+                top.error("knockon", "format version \"" + *v +
+                                         "\" is not supported; this program reads knockon: 1");
+        }
+        if (auto n = top.text("name", false)) sc_.name = *n;
+        if (auto lt = top.choice("line_type", {"suburban", "high_speed", "mixed"}, false)) {
+            sc_.line_type = *lt == "suburban"     ? LineType::suburban
+                            : *lt == "high_speed" ? LineType::high_speed
+                                                  : LineType::mixed;
+        }
+        if (top.require("infrastructure"))
+            read_infrastructure(top.get("infrastructure"), top.path_of("infrastructure"));
+        if (auto tt = top.sequence("train_types", true)) read_train_types(top, *tt);
+        if (top.require("timetable")) read_timetable(top.get("timetable"), top.path_of("timetable"));
+        return std::move(sc_);
+    }
+
+private:
+    // ---------------------------------------------------------------- infrastructure
+
+    void read_infrastructure(const YAML::Node& node, const std::string& path) {
+        MapFields m(errors_, node, path,
+                    {"length", "gradients", "speed_limits", "tracks", "stations", "signalling",
+                     "signals", "joints"});
+        if (!m.ok()) return;
+        auto& inf = sc_.infrastructure;
+        if (auto len = m.quantity("length", Quantity::length, true)) {
+            if (*len <= 0) {
+                m.error("length", "must be greater than 0");
+            } else {
+                length_ = *len;
+                inf.length = *len;
+            }
+        }
+        // Level throughout unless told otherwise; line speed has no sensible default.
+        if (m.has("gradients"))
+            inf.gradients = read_bands(m, "gradients", Quantity::gradient, false);
+        else if (length_)
+            inf.gradients = {{0.0, *length_, 0.0}};
+        inf.speed_limits = read_bands(m, "speed_limits", Quantity::speed, true);
+        read_tracks(m);
+        read_stations(m);
+        if (m.require("signalling")) read_signalling(m.get("signalling"), m.path_of("signalling"));
+        read_signals(m);
+        read_joints(m);
+    }
+
+    // Checks a chainage lies on the line [0, length]; reports at `key` of `f`.
+    bool on_line(const MapFields& f, std::string_view key, double x) {
+        if (x < -kEps) {
+            f.error(key, km(x) + " lies before the line start (0 km)");
+            return false;
+        }
+        if (length_ && x > *length_ + kEps) {
+            f.error(key, km(x) + " lies beyond the line end (" + km(*length_) + ")");
+            return false;
+        }
+        return true;
+    }
+
+    // Bands: each value holds from its `from` to the next band's from, the last to the line end.
+    std::vector<ChainageBand> read_bands(const MapFields& m, std::string_view key, Quantity q,
+                                         bool positive) {
+        std::vector<ChainageBand> out;
+        auto seq = m.sequence(key, true);
+        if (!seq) return out;
+        const std::string path = m.path_of(key);
+        if (seq->size() == 0) {
+            m.error(key, "at least one band is needed, the first from 0 km");
+            return out;
+        }
+        std::optional<double> prev;
+        for (std::size_t i = 0; i < seq->size(); ++i) {
+            MapFields b(errors_, std::as_const(*seq)[i], item(path, i), {"from", "value"});
+            if (!b.ok()) continue;
+            auto from = b.quantity("from", Quantity::length, true);
+            auto value = b.quantity("value", q, true);
+            bool ok = from && value;
+            if (from) {
+                if (i == 0 && std::abs(*from) > kEps) {
+                    b.error("from", "the first band must start at 0 km, not " + km(*from));
+                    ok = false;
+                } else if (prev && *from <= *prev + kEps) {
+                    b.error("from", "bands must be in increasing order of from: " + km(*from) +
+                                        " follows " + km(*prev));
+                    ok = false;
+                } else if (length_ && *from >= *length_ - kEps) {
+                    b.error("from", "the band starts at or beyond the line end (" +
+                                        km(*length_) + ")");
+                    ok = false;
+                }
+                if (!prev || *from > *prev) prev = from;
+            }
+            if (value && positive && *value <= 0) {
+                b.error("value", "must be greater than 0");
+                ok = false;
+            }
+            if (ok) out.push_back({*from, 0.0, *value});
+        }
+        for (std::size_t k = 0; k < out.size(); ++k)
+            out[k].to = k + 1 < out.size() ? out[k + 1].from : length_.value_or(out[k].from);
+        return out;
+    }
+
+    void read_tracks(const MapFields& m) {
+        auto seq = m.sequence("tracks", true);
+        if (!seq) return;
+        auto& tracks = sc_.infrastructure.tracks;
+        const std::string path = m.path_of("tracks");
+        if (seq->size() == 0) m.error("tracks", "at least one track is needed");
+        for (std::size_t i = 0; i < seq->size(); ++i) {
+            MapFields t(errors_, std::as_const(*seq)[i], item(path, i),
+                        {"id", "from", "to", "directions", "parent", "speed_limit"});
+            if (!t.ok()) continue;
+            auto id = t.text("id", true);
+            auto from = t.quantity("from", Quantity::length, true);
+            auto to = t.quantity("to", Quantity::length, true);
+            auto dirs = t.choice("directions", {"up", "down", "both"}, true);
+            auto parent = t.text("parent", false);
+            auto limit = t.quantity("speed_limit", Quantity::speed, false);
+            bool ok = id && from && to && dirs && (parent || !t.has("parent")) &&
+                      (limit || !t.has("speed_limit"));
+            if (from && !on_line(t, "from", *from)) ok = false;
+            if (to && !on_line(t, "to", *to)) ok = false;
+            if (from && to && *from >= *to) {
+                t.error("to", "a track must end beyond its start: to " + km(*to) +
+                                  " is not beyond from " + km(*from));
+                ok = false;
+            }
+            if (limit && *limit <= 0) {
+                t.error("speed_limit", "must be greater than 0");
+                ok = false;
+            }
+            if (!id) continue;
+            if (auto it = track_index_.find(*id); it != track_index_.end()) {
+                t.error("id", "track id \"" + *id + "\" is used twice (first at line " +
+                                  std::to_string(line_of(track_src_[it->second].get("id"))) + ")");
+                continue;
+            }
+            Track tr;
+            tr.id = *id;
+            tr.from = from.value_or(0.0);
+            tr.to = to.value_or(0.0);
+            tr.up = dirs && *dirs != "down";
+            tr.down = dirs && *dirs != "up";
+            if (parent) tr.parent = *parent;
+            if (limit) tr.speed_limit = *limit;
+            track_index_[tr.id] = tracks.size();
+            track_ids_.push_back(tr.id);
+            tracks.push_back(tr);
+            track_src_.push_back(t);
+            track_ok_.push_back(ok);
+        }
+        check_loops();
+        check_main_tracks();
+    }
+
+    void check_loops() {
+        const auto& tracks = sc_.infrastructure.tracks;
+        for (std::size_t k = 0; k < tracks.size(); ++k) {
+            const Track& tr = tracks[k];
+            if (!tr.is_loop()) continue;
+            const MapFields& src = track_src_[k];
+            if (tr.parent == tr.id) {
+                src.error("parent", "a track cannot be its own parent");
+                continue;
+            }
+            auto it = track_index_.find(tr.parent);
+            if (it == track_index_.end()) {
+                src.error("parent", "unknown track \"" + tr.parent + "\"; " + known_list(track_ids_));
+                continue;
+            }
+            const Track& p = tracks[it->second];
+            if (p.is_loop()) {
+                src.error("parent", "track \"" + p.id +
+                                        "\" is itself a loop; a loop must leave a main track");
+                continue;
+            }
+            if (!track_ok_[k] || !track_ok_[it->second]) continue;
+            if (tr.from < p.from - kEps || tr.to > p.to + kEps) {
+                errors_.add(src.node(), src.path(),
+                            "loop " + tr.id + " (" + km(tr.from) + " to " + km(tr.to) +
+                                ") does not lie within its parent " + p.id + " (" + km(p.from) +
+                                " to " + km(p.to) + ")");
+            }
+            for (Direction d : {Direction::up, Direction::down}) {
+                if (tr.allows(d) && !p.allows(d)) {
+                    src.error("directions", "loop " + tr.id + " carries " + to_string(d) +
+                                                " trains but its parent " + p.id + " does not");
+                    break;
+                }
+            }
+        }
+    }
+
+    // Two main tracks carrying one direction over the same stretch would make the main line
+    // ambiguous; a second track there is a loop with a parent.
+    void check_main_tracks() {
+        const auto& tracks = sc_.infrastructure.tracks;
+        for (std::size_t b = 0; b < tracks.size(); ++b) {
+            if (tracks[b].is_loop() || !track_ok_[b]) continue;
+            for (std::size_t a = 0; a < b; ++a) {
+                if (tracks[a].is_loop() || !track_ok_[a]) continue;
+                const double lo = std::max(tracks[a].from, tracks[b].from);
+                const double hi = std::min(tracks[a].to, tracks[b].to);
+                if (hi - lo <= kEps) continue;
+                for (Direction d : {Direction::up, Direction::down}) {
+                    if (tracks[a].allows(d) && tracks[b].allows(d)) {
+                        errors_.add(track_src_[b].node(), track_src_[b].path(),
+                                    "main tracks " + tracks[a].id + " and " + tracks[b].id +
+                                        " both carry " + to_string(d) + " trains from " + km(lo) +
+                                        " to " + km(hi) +
+                                        "; main tracks of one direction may only meet end to end "
+                                        "(a second track alongside is a loop with a parent)");
+                        break;
+                    }
+                }
+            }
+        }
+    }
+
+    // The track `key` of `f` names: reports unknown ids; nullptr also when that track has errors
+    // of its own (no further checks against it then).
+    const Track* track_ref(const MapFields& f, std::string_view key, const std::string& id) {
+        auto it = track_index_.find(id);
+        if (it == track_index_.end()) {
+            f.error(key, "unknown track \"" + id + "\"; " + known_list(track_ids_));
+            return nullptr;
+        }
+        if (!track_ok_[it->second]) return nullptr;
+        return &sc_.infrastructure.tracks[it->second];
+    }
+
+    void read_stations(const MapFields& m) {
+        auto seq = m.sequence("stations", true);
+        if (!seq) return;
+        auto& stations = sc_.infrastructure.stations;
+        const std::string path = m.path_of("stations");
+        if (seq->size() == 0) m.error("stations", "at least one station is needed");
+        for (std::size_t i = 0; i < seq->size(); ++i) {
+            MapFields s(errors_, std::as_const(*seq)[i], item(path, i), {"id", "name", "at"});
+            if (!s.ok()) continue;
+            auto id = s.text("id", true);
+            auto name = s.text("name", false);
+            auto at = s.quantity("at", Quantity::length, true);
+            bool ok = id && at && (name || !s.has("name"));
+            if (at && !on_line(s, "at", *at)) ok = false;
+            if (!id) continue;
+            if (auto it = station_index_.find(*id); it != station_index_.end()) {
+                s.error("id", "station id \"" + *id + "\" is used twice (first at line " +
+                                  std::to_string(it->second.second) + ")");
+                continue;
+            }
+            Station st;
+            st.id = *id;
+            st.name = name.value_or(*id);
+            st.at = at.value_or(0.0);
+            station_index_[st.id] = {ok ? static_cast<long>(stations.size()) : -1,
+                                     line_of(s.get("id"))};
+            station_ids_.push_back(st.id);
+            stations.push_back(st);
+        }
+    }
+
+    void read_signalling(const YAML::Node& node, const std::string& path) {
+        MapFields s(errors_, node, path, {"areas", "defaults", "interlocking"});
+        if (!s.ok()) return;
+        read_areas(s);
+        if (s.has("defaults")) {
+            MapFields d(errors_, s.get("defaults"), s.path_of("defaults"),
+                        {"sighting_distance", "overlap", "distant_distance"});
+            default_sighting_ = nonnegative(d, "sighting_distance", Quantity::length, false);
+            default_overlap_ = nonnegative(d, "overlap", Quantity::length, false);
+            default_distant_ = positive(d, "distant_distance", Quantity::length, false);
+            // A default that is given but wrong is reported once, not again at every signal.
+            defaults_given_ = {d.has("sighting_distance"), d.has("overlap"), d.has("distant_distance")};
+        }
+        // Omitted interlocking times keep the InterlockingTimes defaults: route setup 6 s (the
+        // low end for relay/electronic interlockings, REFERENCES.md B2), sight and reaction 12 s
+        // (REFERENCES.md B3), release 3 s (common practice, no source).
+        if (s.has("interlocking")) {
+            MapFields t(errors_, s.get("interlocking"), s.path_of("interlocking"),
+                        {"route_setup", "release", "sight_reaction"});
+            auto& times = sc_.infrastructure.interlocking;
+            if (auto v = nonnegative(t, "route_setup", Quantity::duration, false)) times.route_setup = *v;
+            if (auto v = nonnegative(t, "release", Quantity::duration, false)) times.release = *v;
+            if (auto v = nonnegative(t, "sight_reaction", Quantity::duration, false))
+                times.sight_reaction = *v;
+        }
+    }
+
+    std::optional<double> nonnegative(const MapFields& f, std::string_view key, Quantity q,
+                                      bool required) {
+        auto v = f.quantity(key, q, required);
+        if (v && *v < 0) {
+            f.error(key, "must not be negative");
+            return std::nullopt;
+        }
+        return v;
+    }
+
+    std::optional<double> positive(const MapFields& f, std::string_view key, Quantity q,
+                                   bool required) {
+        auto v = f.quantity(key, q, required);
+        if (v && *v <= 0) {
+            f.error(key, "must be greater than 0");
+            return std::nullopt;
+        }
+        return v;
+    }
+
+    void read_areas(const MapFields& s) {
+        auto seq = s.sequence("areas", true);
+        if (!seq) return;
+        const std::string path = s.path_of("areas");
+        if (seq->size() == 0) {
+            s.error("areas", "at least one area is needed, covering the line from 0 km to its end");
+            return;
+        }
+        std::vector<std::pair<SignallingArea, MapFields>> areas;
+        bool all_ok = true;
+        for (std::size_t i = 0; i < seq->size(); ++i) {
+            MapFields a(errors_, std::as_const(*seq)[i], item(path, i), {"from", "to", "system"});
+            if (!a.ok()) {
+                all_ok = false;
+                continue;
+            }
+            auto from = a.quantity("from", Quantity::length, true);
+            auto to = a.quantity("to", Quantity::length, true);
+            auto sys = a.choice("system",
+                                {"two_aspect", "three_aspect", "four_aspect", "cab_fixed_block"}, true);
+            bool ok = from && to && sys;
+            if (from && !on_line(a, "from", *from)) ok = false;
+            if (to && !on_line(a, "to", *to)) ok = false;
+            if (from && to && *from >= *to) {
+                a.error("to", "an area must end beyond its start: to " + km(*to) +
+                                  " is not beyond from " + km(*from));
+                ok = false;
+            }
+            if (!ok) {
+                all_ok = false;
+                continue;
+            }
+            SignallingArea area;
+            area.from = *from;
+            area.to = *to;
+            area.system = *sys == "two_aspect"     ? AspectSystem::two_aspect
+                          : *sys == "three_aspect" ? AspectSystem::three_aspect
+                          : *sys == "four_aspect"  ? AspectSystem::four_aspect
+                                                   : AspectSystem::cab_fixed_block;
+            areas.emplace_back(area, a);
+        }
+        // Coverage is only judged on a complete list, else one bad entry shows up as a gap too.
+        if (!all_ok) return;
+        double covered = 0.0;
+        bool covers = true;
+        for (const auto& [area, a] : areas) {
+            if (area.from > covered + kEps) {
+                a.error("from", "the areas leave " + km(covered) + " to " + km(area.from) +
+                                    " uncovered; list them in chainage order without gaps");
+                covers = false;
+            } else if (area.from < covered - kEps) {
+                a.error("from", "this area overlaps the one before it, which ends at " +
+                                    km(covered) + "; list them in chainage order without overlaps");
+                covers = false;
+            }
+            covered = std::max(covered, area.to);
+        }
+        if (length_ && covered < *length_ - kEps) {
+            s.error("areas", "the areas leave " + km(covered) + " to " + km(*length_) +
+                                 " (the line end) uncovered");
+            covers = false;
+        }
+        for (const auto& [area, a] : areas) sc_.infrastructure.areas.push_back(area);
+        areas_ok_ = covers;
+    }
+
+    void read_signals(const MapFields& m) {
+        auto seq = m.sequence("signals", true);
+        if (!seq) return;
+        auto& inf = sc_.infrastructure;
+        const std::string path = m.path_of("signals");
+        if (seq->size() == 0) m.error("signals", "at least one main signal is needed");
+        std::map<std::string, int> seen;  // id -> line
+        for (std::size_t i = 0; i < seq->size(); ++i) {
+            MapFields f(errors_, std::as_const(*seq)[i], item(path, i),
+                        {"id", "track", "at", "direction", "sighting_distance", "overlap",
+                         "distant_distance"});
+            if (!f.ok()) continue;
+            Signal sig;
+            auto id = f.text("id", true);
+            auto track = f.text("track", true);
+            auto at = f.quantity("at", Quantity::length, true);
+            auto dir = f.choice("direction", {"up", "down"}, true);
+            if (id) {
+                auto [pos, fresh] = seen.emplace(*id, line_of(f.get("id")));
+                if (!fresh)
+                    f.error("id", "signal id \"" + *id + "\" is used twice (first at line " +
+                                      std::to_string(pos->second) + ")");
+                sig.id = *id;
+            }
+            if (dir) sig.direction = *dir == "up" ? Direction::up : Direction::down;
+            if (at) sig.at = *at;
+            if (track) {
+                sig.track = *track;
+                const Track* tr = track_ref(f, "track", *track);
+                if (tr && at && (*at < tr->from - kEps || *at > tr->to + kEps))
+                    f.error("at", "signal at " + km(*at) + " lies off track " + tr->id +
+                                      ", which runs from " + km(tr->from) + " to " + km(tr->to));
+                if (tr && dir && !tr->allows(sig.direction))
+                    f.error("direction", "track " + tr->id + " does not carry " + *dir + " trains");
+            }
+            sig.sighting_distance =
+                signal_value(f, "sighting_distance", default_sighting_, defaults_given_[0], true)
+                    .value_or(0.0);
+            sig.overlap = signal_value(f, "overlap", default_overlap_, defaults_given_[1], true)
+                              .value_or(0.0);
+            // Only a signal in a two-aspect area needs a distant; elsewhere it is optional.
+            const bool needs_distant =
+                at && areas_ok_ && inf.aspect_system_at(*at) == AspectSystem::two_aspect;
+            sig.distant_distance =
+                signal_value(f, "distant_distance", default_distant_, defaults_given_[2], needs_distant);
+            inf.signals.push_back(sig);
+        }
+    }
+
+    // A per-signal length, else the signalling default; reports a needed value that neither gives.
+    std::optional<double> signal_value(const MapFields& f, std::string_view key,
+                                       const std::optional<double>& fallback, bool fallback_given,
+                                       bool needed) {
+        if (f.has(key)) {
+            auto v = f.quantity(key, Quantity::length, true);
+            if (v && *v < 0) {
+                f.error(key, "must not be negative");
+                return std::nullopt;
+            }
+            return v;
+        }
+        if (fallback) return fallback;
+        if (needed && !fallback_given)
+            errors_.add(f.node(), f.path_of(key),
+                        "not given here, and signalling.defaults gives no " + std::string(key));
+        return std::nullopt;
+    }
+
+    void read_joints(const MapFields& m) {
+        auto seq = m.sequence("joints", false);
+        if (!seq) return;
+        const std::string path = m.path_of("joints");
+        for (std::size_t i = 0; i < seq->size(); ++i) {
+            MapFields f(errors_, std::as_const(*seq)[i], item(path, i), {"track", "at"});
+            if (!f.ok()) continue;
+            auto track = f.text("track", true);
+            auto at = f.quantity("at", Quantity::length, true);
+            if (!track || !at) continue;
+            const Track* tr = track_ref(f, "track", *track);
+            if (tr && (*at < tr->from - kEps || *at > tr->to + kEps)) {
+                f.error("at", "joint at " + km(*at) + " lies off track " + tr->id +
+                                  ", which runs from " + km(tr->from) + " to " + km(tr->to));
+                continue;
+            }
+            sc_.infrastructure.extra_joints.emplace_back(*track, *at);
+        }
+    }
+
+    // ---------------------------------------------------------------- rolling stock
+
+    void read_train_types(const MapFields& top, const YAML::Node& seq) {
+        const std::string path = top.path_of("train_types");
+        if (seq.size() == 0) top.error("train_types", "at least one train type is needed");
+        for (std::size_t i = 0; i < seq.size(); ++i) {
+            MapFields f(errors_, seq[i], item(path, i),
+                        {"id", "length", "mass", "rotating_mass_factor", "max_speed", "traction",
+                         "resistance", "braking", "performance", "min_dwell", "supplement"});
+            if (!f.ok()) continue;
+            TrainType tt;
+            auto id = f.text("id", true);
+            if (auto v = positive(f, "length", Quantity::length, true)) tt.length = *v;
+            if (auto v = positive(f, "mass", Quantity::mass, true)) tt.mass = *v;
+            if (auto v = f.quantity("rotating_mass_factor", Quantity::dimensionless, false)) {
+                if (*v < 1.0)
+                    f.error("rotating_mass_factor", "must be at least 1 (rotating parts add to the "
+                                                    "mass to accelerate, never subtract)");
+                else
+                    tt.rotating_mass_factor = *v;
+            }
+            if (auto v = positive(f, "max_speed", Quantity::speed, true)) tt.max_speed = *v;
+            if (f.require("traction")) read_traction(f, tt);
+            if (f.require("resistance")) {
+                MapFields r(errors_, f.get("resistance"), f.path_of("resistance"), {"a", "b", "c"});
+                if (auto v = nonnegative(r, "a", Quantity::force, true)) tt.davis_a = *v;
+                if (auto v = nonnegative(r, "b", Quantity::davis_b, false)) tt.davis_b = *v;
+                if (auto v = nonnegative(r, "c", Quantity::davis_c, false)) tt.davis_c = *v;
+            }
+            if (f.require("braking")) read_braking(f, tt);
+            if (auto v = f.quantity("performance", Quantity::share, false)) {
+                if (*v <= 0 || *v > 1.0 + 1e-12)
+                    f.error("performance", "must be more than 0 % and at most 100 %");
+                else
+                    tt.performance = std::min(*v, 1.0);
+            }
+            if (auto v = nonnegative(f, "min_dwell", Quantity::duration, false)) tt.min_dwell = *v;
+            if (f.has("supplement")) {
+                MapFields s(errors_, f.get("supplement"), f.path_of("supplement"),
+                            {"percent", "per_100km", "threshold"});
+                if (auto v = nonnegative(s, "percent", Quantity::share, false))
+                    tt.supplement.share = *v;
+                if (auto v = nonnegative(s, "per_100km", Quantity::duration, false))
+                    tt.supplement.per_100km = *v;
+                if (auto v = nonnegative(s, "threshold", Quantity::length, false))
+                    tt.supplement.distance_threshold = *v;
+            }
+            if (!id) continue;
+            if (auto it = train_type_lines_.find(*id); it != train_type_lines_.end()) {
+                f.error("id", "train type id \"" + *id + "\" is used twice (first at line " +
+                                  std::to_string(it->second) + ")");
+                continue;
+            }
+            tt.id = *id;
+            train_type_lines_[tt.id] = line_of(f.get("id"));
+            train_type_ids_.push_back(tt.id);
+            sc_.train_types.push_back(tt);
+        }
+    }
+
+    void read_traction(const MapFields& f, TrainType& tt) {
+        MapFields t(errors_, f.get("traction"), f.path_of("traction"),
+                    {"max_force", "power", "table", "adhesion_mass"});
+        if (!t.ok()) return;
+        if (auto v = positive(t, "max_force", Quantity::force, false)) tt.max_force = *v;
+        if (auto v = positive(t, "power", Quantity::power, false)) tt.power = *v;
+        if (auto v = positive(t, "adhesion_mass", Quantity::mass, false)) tt.adhesion_mass = *v;
+        const bool envelope = t.has("max_force") || t.has("power");
+        if (t.has("table")) {
+            if (envelope)
+                errors_.add(t.node(), t.path(),
+                            "give either a table or max_force/power, not both");
+            if (auto table = read_table(t.get("table"), t.path_of("table"), Quantity::force, false))
+                tt.force_table = *table;
+        } else if (!envelope) {
+            errors_.add(t.node(), t.path(),
+                        "give max_force and/or power, or a table [[speed, force], ...]");
+        }
+    }
+
+    void read_braking(const MapFields& f, TrainType& tt) {
+        MapFields b(errors_, f.get("braking"), f.path_of("braking"), {"deceleration", "delay"});
+        if (!b.ok()) return;
+        if (b.require("deceleration")) {
+            const YAML::Node d = b.get("deceleration");
+            if (d.IsSequence()) {
+                if (auto table = read_table(d, b.path_of("deceleration"), Quantity::acceleration, true))
+                    tt.braking_table = *table;
+            } else if (auto v = positive(b, "deceleration", Quantity::acceleration, true)) {
+                tt.braking = *v;
+            }
+        }
+        if (auto v = nonnegative(b, "delay", Quantity::duration, false)) tt.brake_delay = *v;
+    }
+
+    // [[speed, value], ...] sorted by speed, strictly ascending.
+    std::optional<std::vector<std::pair<double, double>>> read_table(const YAML::Node& n,
+                                                                     const std::string& path,
+                                                                     Quantity q, bool positive) {
+        if (!n.IsSequence()) {
+            errors_.add(n, path, "expected a table: a list of [speed, value] rows");
+            return std::nullopt;
+        }
+        if (n.size() == 0) {
+            errors_.add(n, path, "the table has no rows");
+            return std::nullopt;
+        }
+        std::vector<std::pair<double, double>> rows;
+        bool ok = true;
+        for (std::size_t i = 0; i < n.size(); ++i) {
+            const YAML::Node row = n[i];
+            const std::string rp = item(path, i);
+            if (!row.IsSequence() || row.size() != 2) {
+                errors_.add(row, rp, "each row is [speed, value], e.g. [60 km/h, 120 kN]");
+                ok = false;
+                continue;
+            }
+            auto v = yamlio::quantity_of(errors_, row[0], item(rp, 0), Quantity::speed);
+            auto y = yamlio::quantity_of(errors_, row[1], item(rp, 1), q);
+            if (!v || !y) {
+                ok = false;
+                continue;
+            }
+            if (*v < 0) {
+                errors_.add(row[0], item(rp, 0), "speed must not be negative");
+                ok = false;
+            }
+            if (positive ? *y <= 0 : *y < 0) {
+                errors_.add(row[1], item(rp, 1),
+                            positive ? "must be greater than 0" : "must not be negative");
+                ok = false;
+            }
+            if (!rows.empty() && *v <= rows.back().first) {
+                errors_.add(row[0], item(rp, 0),
+                            "rows must be sorted by speed, ascending: " + yamlio::kmh(*v) +
+                                " follows " + yamlio::kmh(rows.back().first));
+                ok = false;
+            }
+            rows.emplace_back(*v, *y);
+        }
+        if (!ok) return std::nullopt;
+        return rows;
+    }
+
+    // ---------------------------------------------------------------- timetable
+
+    void read_timetable(const YAML::Node& node, const std::string& path) {
+        MapFields t(errors_, node, path, {"rounding", "services"});
+        if (!t.ok()) return;
+        if (auto v = positive(t, "rounding", Quantity::duration, false)) sc_.timetable.rounding = *v;
+        auto seq = t.sequence("services", true);
+        if (!seq) return;
+        if (seq->size() == 0) t.error("services", "at least one service is needed");
+        std::vector<ServiceSource> sources;
+        for (std::size_t i = 0; i < seq->size(); ++i) {
+            if (auto s = read_service(std::as_const(*seq)[i], item(t.path_of("services"), i)))
+                sources.push_back(std::move(*s));
+        }
+        expand(sources);
+    }
+
+    std::optional<ServiceSource> read_service(const YAML::Node& node, const std::string& path) {
+        MapFields f(errors_, node, path,
+                    {"id", "type", "category", "direction", "enter", "leave", "repeat", "calls"});
+        if (!f.ok()) return std::nullopt;
+        ServiceSource src{Service{}, f, {}, std::nullopt, std::nullopt, true};
+        Service& svc = src.service;
+        auto id = f.text("id", true);
+        auto type = f.text("type", true);
+        auto category = f.text("category", false);
+        auto dir = f.choice("direction", {"up", "down"}, true);
+        if (!id || !type || !dir) src.ok = false;
+        bool calls_ok = dir.has_value();  // what the checks on times and call order need
+        if (id) svc.id = *id;
+        if (type) {
+            svc.train_type = *type;
+            if (train_type_lines_.count(*type) == 0) {
+                f.error("type", "unknown train type \"" + *type + "\"; " + known_list(train_type_ids_));
+                src.ok = false;
+            }
+        }
+        if (category) svc.category = *category;
+        if (dir) svc.direction = *dir == "up" ? Direction::up : Direction::down;
+
+        if (f.has("enter")) {
+            const YAML::Node e = f.get("enter");
+            if (e.IsMap()) {
+                MapFields em(errors_, e, f.path_of("enter"), {"speed"});
+                svc.enters_at_edge = true;
+                if (em.has("speed")) {
+                    if (auto v = positive(em, "speed", Quantity::speed, false))
+                        svc.entry_speed = *v;
+                    else
+                        src.ok = calls_ok = false;
+                }
+            } else if (auto b = f.boolean("enter", false)) {
+                svc.enters_at_edge = *b;
+            } else {
+                src.ok = calls_ok = false;
+            }
+        }
+        if (auto b = f.boolean("leave", false))
+            svc.leaves_at_edge = *b;
+        else if (f.has("leave"))
+            src.ok = calls_ok = false;
+        if (f.has("repeat")) {
+            MapFields r(errors_, f.get("repeat"), f.path_of("repeat"), {"every", "until"});
+            src.every = positive(r, "every", Quantity::duration, true);
+            src.until = r.time_of_day("until", true);
+            if (!src.every || !src.until) src.ok = false;
+        }
+        auto calls = f.sequence("calls", true);
+        if (!calls) {
+            src.ok = calls_ok = false;
+            return src;
+        }
+        if (calls->size() == 0) {
+            f.error("calls", "at least one call is needed");
+            src.ok = calls_ok = false;
+        }
+        for (std::size_t j = 0; j < calls->size(); ++j) {
+            MapFields c(errors_, std::as_const(*calls)[j], item(f.path_of("calls"), j),
+                        {"station", "arr", "dep", "pass", "track", "min_dwell"});
+            if (!c.ok()) {
+                src.ok = calls_ok = false;
+                continue;
+            }
+            Call call;
+            if (auto s = c.text("station", true))
+                call.station = *s;
+            else
+                src.ok = calls_ok = false;
+            if (c.has("pass")) {
+                call.stops = false;
+                auto p = c.text("pass", true);
+                if (!p) {
+                    src.ok = calls_ok = false;
+                } else if (*p != "auto") {
+                    if (auto t = c.time_of_day("pass", true))
+                        call.departure = *t;
+                    else
+                        src.ok = calls_ok = false;
+                }
+                for (std::string_view k : {"arr", "dep", "min_dwell"})
+                    if (c.has(k)) {
+                        c.error(k, "a passing call (pass given) has no " + std::string(k) +
+                                       "; drop one or the other");
+                        src.ok = calls_ok = false;
+                    }
+            } else {
+                if (c.has("arr")) {
+                    if (auto t = c.time_of_day("arr", true))
+                        call.arrival = *t;
+                    else
+                        src.ok = calls_ok = false;
+                }
+                if (c.has("dep")) {
+                    if (auto t = c.time_of_day("dep", true))
+                        call.departure = *t;
+                    else
+                        src.ok = calls_ok = false;
+                }
+                if (c.has("min_dwell")) {
+                    if (auto v = nonnegative(c, "min_dwell", Quantity::duration, true))
+                        call.min_dwell = *v;
+                    else
+                        src.ok = calls_ok = false;
+                }
+            }
+            if (c.has("track")) {
+                if (auto t = c.text("track", true))
+                    call.track = *t;
+                else
+                    src.ok = calls_ok = false;
+            }
+            svc.calls.push_back(call);
+            src.calls.push_back(c);
+        }
+        // Calls that read cleanly are checked against the line either way; the rules on times
+        // and on the first and last call only when nothing is missing, else they would misfire.
+        check_service(src, calls_ok);
+        return src;
+    }
+
+    // Cross-checks of one fully read service against the line and its own calls.
+    void check_service(ServiceSource& src, bool complete) {
+        Service& svc = src.service;
+        const auto& stations = sc_.infrastructure.stations;
+        const bool up = svc.direction == Direction::up;
+        const char* dir = to_string(svc.direction);
+        const Station* prev = nullptr;
+        for (std::size_t j = 0; j < svc.calls.size(); ++j) {
+            const Call& call = svc.calls[j];
+            const MapFields& c = src.calls[j];
+            if (call.station.empty()) continue;  // reported already
+            auto it = station_index_.find(call.station);
+            if (it == station_index_.end()) {
+                c.error("station", "unknown station \"" + call.station + "\"; " + known_list(station_ids_));
+                src.ok = false;
+                continue;
+            }
+            if (it->second.first < 0) {  // the station has errors of its own
+                src.ok = false;
+                continue;
+            }
+            const Station& st = stations[static_cast<std::size_t>(it->second.first)];
+            if (prev && (up ? st.at <= prev->at : st.at >= prev->at)) {
+                c.error("station", std::string("calls must follow the running order of ") +
+                                       (up ? "an up" : "a down") +
+                                       " service (chainage " + (up ? "increasing" : "decreasing") +
+                                       "): " + st.id + " at " + km(st.at) + " comes after " +
+                                       prev->id + " at " + km(prev->at));
+                src.ok = false;
+            }
+            prev = &st;
+            if (!call.track.empty()) {
+                const Track* tr = track_ref(c, "track", call.track);
+                if (tr == nullptr) {
+                    src.ok = false;
+                } else if (st.at < tr->from - kEps || st.at > tr->to + kEps) {
+                    c.error("track", "track " + tr->id + " (" + km(tr->from) + " to " + km(tr->to) +
+                                         ") does not reach station " + st.id + " at " + km(st.at));
+                    src.ok = false;
+                } else if (!tr->allows(svc.direction)) {
+                    c.error("track", "track " + tr->id + " does not carry " + dir + " trains");
+                    src.ok = false;
+                }
+            }
+        }
+        if (!complete) {
+            src.ok = false;
+            return;
+        }
+        // Given times must not run backwards along the calls (arr before dep within a call).
+        std::optional<double> last;
+        std::string last_what;
+        for (std::size_t j = 0; j < svc.calls.size(); ++j) {
+            const Call& call = svc.calls[j];
+            const MapFields& c = src.calls[j];
+            const std::pair<const char*, std::optional<double>> times[] = {
+                {"arr", call.arrival}, {call.stops ? "dep" : "pass", call.departure}};
+            for (const auto& [key, t] : times) {
+                if (!t) continue;
+                if (last && *t < *last) {
+                    c.error(key, std::string(key) + " " + format_time_of_day(*t) +
+                                     " is earlier than " + last_what);
+                    src.ok = false;
+                }
+                last = t;
+                last_what = std::string(key) + " " + format_time_of_day(*t) + " at " + call.station;
+            }
+        }
+        if (svc.calls.empty()) return;
+        const Call& first = svc.calls.front();
+        if (!svc.enters_at_edge && (!first.stops || !first.departure)) {
+            errors_.add(src.calls.front().node(), src.calls.front().path(),
+                        "the first call of a service that starts on the line must be a stop with "
+                        "dep given (a service coming from beyond the line end gives enter)");
+            src.ok = false;
+        }
+        if (svc.enters_at_edge && !first.departure) {
+            errors_.add(src.calls.front().node(), src.calls.front().path(),
+                        "a service that enters from beyond the line end must give a time at its "
+                        "first call (dep or pass)");
+            src.ok = false;
+        }
+        if (!svc.leaves_at_edge && !svc.calls.back().stops) {
+            errors_.add(src.calls.back().node(), src.calls.back().path(),
+                        "the last call of a service that ends on the line must be a stop (give "
+                        "leave: true if it runs on beyond the line end)");
+            src.ok = false;
+        }
+        if (svc.calls.size() == 1 && !svc.enters_at_edge && !svc.leaves_at_edge) {
+            src.fields.error("calls", "a service that neither enters nor leaves the line needs at "
+                                      "least two calls");
+            src.ok = false;
+        }
+    }
+
+    // Repeat patterns into one Service per run, then unique ids, then the paths.
+    void expand(std::vector<ServiceSource>& sources) {
+        auto& out = sc_.timetable.services;
+        std::vector<std::size_t> origin;  // index into sources for each expanded service
+        for (std::size_t i = 0; i < sources.size(); ++i) {
+            ServiceSource& src = sources[i];
+            if (!src.ok) continue;
+            if (!src.every) {
+                out.push_back(src.service);
+                origin.push_back(i);
+                continue;
+            }
+            const double t0 = src.service.calls.front().departure.value_or(0.0);
+            if (*src.until < t0) {
+                const YAML::Node repeat = src.fields.get("repeat");
+                errors_.add(repeat["until"].Mark(), src.fields.path_of("repeat.until"),
+                            "until " + format_time_of_day(*src.until) +
+                                " is before the first call's time " + format_time_of_day(t0));
+                continue;
+            }
+            const double runs_d = std::floor((*src.until - t0) / *src.every + 1e-9) + 1.0;
+            if (runs_d > kMaxRunsPerPattern) {
+                const YAML::Node repeat = src.fields.get("repeat");
+                errors_.add(repeat["every"].Mark(), src.fields.path_of("repeat.every"),
+                            "the pattern gives " + std::to_string(static_cast<long long>(runs_d)) +
+                                " runs; more than " + std::to_string(kMaxRunsPerPattern) +
+                                " is taken for a mistake");
+                continue;
+            }
+            const long runs = static_cast<long>(runs_d);
+            for (long k = 0; k < runs; ++k) {
+                Service copy = src.service;
+                const double shift = static_cast<double>(k) * *src.every;
+                for (Call& c : copy.calls) {
+                    if (c.arrival) *c.arrival += shift;
+                    if (c.departure) *c.departure += shift;
+                }
+                copy.id = src.service.id + "-" + hhmm(t0 + shift);
+                out.push_back(std::move(copy));
+                origin.push_back(i);
+            }
+        }
+        std::map<std::string, std::size_t> seen;  // id -> source
+        for (std::size_t k = 0; k < out.size(); ++k) {
+            auto [pos, fresh] = seen.emplace(out[k].id, origin[k]);
+            if (!fresh)
+                sources[origin[k]].fields.error(
+                    "id", "service id \"" + out[k].id + "\" is used twice (also by " +
+                              sources[pos->second].fields.path() + ")");
+        }
+        // Paths are laid only on a scenario without other errors: the path builder trusts
+        // the infrastructure it is given.
+        if (!errors_.empty()) return;
+        std::vector<bool> reported(sources.size(), false);
+        for (std::size_t k = 0; k < out.size(); ++k) {
+            if (reported[origin[k]]) continue;  // runs of one pattern share their path
+            std::string problem;
+            try {
+                (void)build_path(sc_.infrastructure, out[k]);
+            } catch (const PathError& e) {
+                problem = e.what();
+            } catch (const std::exception& e) {
+                problem = std::string("internal error while laying the path: ") + e.what();
+            }
+            if (!problem.empty()) {
+                const MapFields& f = sources[origin[k]].fields;
+                errors_.add(f.node(), f.path(), "service " + out[k].id + ": " + problem);
+                reported[origin[k]] = true;
+            }
+        }
+    }
+
+    ErrorList& errors_;
+    Scenario sc_;
+    std::optional<double> length_;  // the line length, once known to be valid
+
+    std::map<std::string, std::size_t> track_index_;
+    std::vector<std::string> track_ids_;
+    std::vector<MapFields> track_src_;  // parallel to infrastructure.tracks
+    std::vector<bool> track_ok_;        // the track read without errors
+
+    // id -> (index into stations, or -1 when the station has errors; line of its id)
+    std::map<std::string, std::pair<long, int>> station_index_;
+    std::vector<std::string> station_ids_;
+
+    std::optional<double> default_sighting_, default_overlap_, default_distant_;
+    std::array<bool, 3> defaults_given_{false, false, false};
+    bool areas_ok_ = false;
+
+    std::map<std::string, int> train_type_lines_;
+    std::vector<std::string> train_type_ids_;
+};
+
+}  // namespace
+
+Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name) {
+    ErrorList errors(file_name);
+    YAML::Node root;
+    try {
+        root = YAML::Load(yaml_text);
+    } catch (const YAML::Exception& e) {
+        errors.add(e.mark, "", "YAML syntax error: " + e.msg);
+        throw ScenarioError(errors.messages());
+    }
+    if (!root.IsDefined() || root.IsNull()) {
+        errors.add(YAML::Mark(), "", "the file holds no scenario; it should start with knockon: 1");
+        throw ScenarioError(errors.messages());
+    }
+    Scenario sc;
+    try {
+        sc = ScenarioParser(errors).parse(root);
+    } catch (const YAML::Exception& e) {
+        // Not expected: every access is checked first.  Reported, never a crash.
+        errors.add(e.mark, "", std::string("could not read the file: ") + e.what());
+    }
+    if (!errors.empty()) throw ScenarioError(errors.messages());
+    sc.source_file = file_name;
+    return sc;
+}
+
+Scenario read_scenario(const std::string& path) {
+    std::error_code ec;
+    if (std::filesystem::is_directory(path, ec))
+        throw ScenarioError({path + ": is a directory, not a scenario file"});
+    std::ifstream in(path, std::ios::binary);
+    if (!in) throw ScenarioError({path + ": cannot open the file: " + std::strerror(errno)});
+    std::ostringstream text;
+    text << in.rdbuf();
+    if (in.bad()) throw ScenarioError({path + ": cannot read the file"});
+    return parse_scenario(text.str(), path);
+}
+
+}  // namespace knockon
