@@ -197,6 +197,9 @@ Trajectory run_leg(const TrainType& type, const TrainPath& path, double s_start,
     // Static limits (tail rule) into v, gradients per cell at the cell's middle (the train is
     // treated as a point mass at its head for the gradient force).
     static_limits(type, path, grid, tr.v);
+    if (options.slow_factor < 1.0 && options.slow_to > options.slow_from)
+        for (std::size_t i = 0; i <= cells; ++i)
+            if (grid.at(i) >= options.slow_from && grid.at(i) < options.slow_to) tr.v[i] *= options.slow_factor;
     std::vector<double> gradient(cells);
     for (std::size_t i = 0; i < cells; ++i) gradient[i] = path.gradient_at(0.5 * (grid.at(i) + grid.at(i + 1)));
 

@@ -16,6 +16,9 @@ namespace knockon {
 
 struct RunOptions {
     double step = 1.0;   // distance grid [m]
+    // Slow running (a primary delay): over [slow_from, slow_to) the speed limits are scaled by
+    // slow_factor in (0, 1].
+    double slow_from = 0.0, slow_to = 0.0, slow_factor = 1.0;
 };
 
 // Speed and time over distance for one leg of a run; t is relative to the leg's start.

@@ -1,6 +1,8 @@
 #include "sim/simulation.hpp"
 
 #include <algorithm>
+#include <cstdio>
+#include <cstdlib>
 #include <cmath>
 #include <limits>
 #include <map>
@@ -14,6 +16,9 @@ namespace {
 
 constexpr double kInf = std::numeric_limits<double>::infinity();
 constexpr double kEps = 1e-6;
+// Positions recomputed from event times (rounded to the tick) may fall short of the point the
+// event was for by speed x 1 ms; comparisons with such points allow this much [m].
+constexpr double kPositionTolerance = 0.5;
 
 int aspect_cap(AspectSystem a) {
     switch (a) {
@@ -156,6 +161,11 @@ private:
         double last_sample = -kInf;
     };
 
+    // A stretch run slower by an injected running-time extension.
+    struct SlowStretch {
+        double from, to, factor;
+    };
+
     struct Pending {
         std::uint32_t train;
         long route;  // -1: the train waits to appear at its origin
@@ -172,7 +182,9 @@ private:
     std::vector<Pending> pending_;
     SimResult out_;
     std::vector<std::vector<long>> timing_index_;   // [train][call] -> out_.timing
+    std::vector<std::vector<SlowStretch>> slow_;     // [train]
     double now_ = 0.0;
+    std::uint32_t trace_ = kNoTrain;   // KNOCKON_TRACE=<train id>: print its events (debugging aid)
 
     const SimModel::Train& train(std::uint32_t t) const { return model_.trains()[t]; }
     const ServiceRun& run_of(std::uint32_t t) const { return train(t).plan->run; }
@@ -236,6 +248,7 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
     for (std::uint32_t t = 0; t < trains.size(); ++t) {
         const ServiceRun& run = run_of(t);
         out_.train_ids.push_back(run.service->id);
+        if (const char* tr = std::getenv("KNOCKON_TRACE"); tr && run.service->id == tr) trace_ = t;
         TrainState& s = st_[t];
         s.route_set.assign(train(t).routes.size(), kNoTime);
         s.route_record.assign(train(t).routes.size(), -1);
@@ -253,6 +266,19 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
             r.arrival_delay = r.departure_delay = kNoTime;
             timing_index_[t].push_back(static_cast<long>(out_.timing.size()));
             out_.timing.push_back(r);
+        }
+        // Running-time extensions become slower running over the stretch to the next timing
+        // point: limits scaled by T / (T + extra), exact where the train would cruise.
+        slow_.emplace_back();
+        for (std::size_t k = 0; k + 1 < run.calls.size(); ++k) {
+            const double extra = delay_of(delays.running, t, run.calls[k].call);
+            const double T = run.calls[k + 1].technical_running;
+            if (extra > 0.0 && T > 0.0) slow_[t].push_back({run.calls[k].s, run.calls[k + 1].s, T / (T + extra)});
+        }
+        if (run.path.ends_at_edge && !run.calls.empty()) {
+            const double extra = delay_of(delays.running, t, run.calls.back().call);
+            const double T = run.legs.back().trajectory.duration();   // to the line end, roughly
+            if (extra > 0.0 && T > 0.0) slow_[t].push_back({run.calls.back().s, run.path.length + 1.0, T / (T + extra)});
         }
         const double entry = t < delays.entry.size() ? delays.entry[t] : 0.0;
         push(run.appear_time + entry, kAppear, t);
@@ -319,7 +345,7 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
         const double entry = t < delays_.entry.size() ? delays_.entry[t] : 0.0;
         return run.head_reach(r.warning_point) + entry - lead;
     }
-    if (head_position(t) >= r.warning_point - kEps) return now_;
+    if (head_position(t) >= r.warning_point - kPositionTolerance) return now_;
     double tw = time_at_head(t, r.warning_point);
     return std::isnan(tw) ? kNoTime : tw - lead;
 }
@@ -439,7 +465,15 @@ void Day::replan(std::uint32_t t) {
         schedule_points(t);
         return;
     }
-    s.traj = run_leg(*run.type, run.path, s_now, v_now, std::max(target, s_now), !free, options_.run);
+    RunOptions ro = options_.run;
+    for (const SlowStretch& sl : slow_[t])
+        if (sl.to > s_now + kEps && sl.from < target) {
+            ro.slow_from = sl.from;
+            ro.slow_to = sl.to;
+            ro.slow_factor = sl.factor;
+            break;
+        }
+    s.traj = run_leg(*run.type, run.path, s_now, v_now, std::max(target, s_now), !free, ro);
     s.t0 = now_;
     s.free_end = free;
     s.phase = Phase::moving;
@@ -580,8 +614,10 @@ void Day::check_authority(std::uint32_t t) {
     const auto& routes = train(t).routes;
     const double head = s.phase == Phase::waiting ? 0.0 : head_position(t);
     double eoa = s.eoa;
-    for (std::size_t j = s.next_pass; j < routes.size(); ++j) {
-        if (head < routes[j].read_point - kEps) break;
+    // Signals at or ahead of the head (a train standing at a signal still reads it).
+    for (std::size_t j = s.next_pass > 0 ? s.next_pass - 1 : 0; j < routes.size(); ++j) {
+        if (routes[j].s_entry < head - kPositionTolerance) continue;
+        if (head < routes[j].read_point - kPositionTolerance) break;
         int k = 0;
         while (k < routes[j].aspect_cap && j + k < routes.size()) {
             double set = s.route_set[j + k];
@@ -809,6 +845,10 @@ SimResult Day::run() {
     Event e;
     while (queue_.pop_current(e, generations_)) {
         now_ = e.time.to_seconds();
+        if (trace_ != kNoTrain && e.entity / 2 == trace_)
+            std::fprintf(stderr, "%.3f kind %u payload %u phase %d s=%.1f eoa=%.1f req=%zu pend=%d\n", now_, e.kind, e.payload,
+                         static_cast<int>(st_[trace_].phase), head_position(trace_), st_[trace_].eoa,
+                         st_[trace_].next_request, (int)st_[trace_].request_pending);
         handle(e);
         if (++out_.events > options_.max_events)
             throw std::runtime_error("simulation exceeded " + std::to_string(options_.max_events) +
