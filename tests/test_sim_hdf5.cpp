@@ -1,0 +1,489 @@
+// HDF5 results writer: a hand-made SimResult is written, then read back with the plain HDF5 C API
+// (not through the writer's own wrappers) to check the layout of tools/io/HDF5_LAYOUT.md, exact
+// round trips (strings, NaN, a uint64 seed above 2^63), byte-identical repeated writes, and that a
+// failed write leaves nothing behind.
+#include <catch2/catch.hpp>
+
+#include <hdf5.h>
+
+#include <cmath>
+#include <cstdint>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <iterator>
+#include <limits>
+#include <string>
+#include <vector>
+
+#include <unistd.h>
+
+#include "tools/io/hdf5_file.hpp"
+#include "tools/io/output_file.hpp"
+#include "tools/io/plan_output.hpp"
+#include "tools/io/sim_hdf5.hpp"
+
+using namespace knockon;
+using Catch::Matchers::Contains;
+namespace fs = std::filesystem;
+
+namespace {
+
+const double kNaN = std::numeric_limits<double>::quiet_NaN();
+
+SimResult small_result() {
+    SimResult r;
+    r.train_ids = {"ic101", "regional-2040", "frt9"};
+    r.section_names = {"S01", "S02", "loop U2", "S04"};
+    // train 0 starts at its origin (no scheduled arrival), stops at BB, passes CC.
+    r.timing = {
+        {0, 0, "AA", true, kNaN, 28800.0, kNaN, 28800.0, kNaN, 0.0},
+        {0, 1, "Beta", true, 29100.0, 29160.0, 29112.625, 29172.625, 12.625, 12.625},
+        {0, 2, "CC", false, 29400.0, 29400.0, 29405.5, 29405.5, 5.5, 5.5},
+        {1, 0, "AA", true, kNaN, 28860.0, kNaN, 28865.0, kNaN, 5.0},
+    };
+    r.sections = {
+        {0, 0, 28790.0, 28800.0, 28830.0, 28834.0, 28834.0},
+        {0, 2, 29000.0, 29010.0, 29050.5, 29053.25, 29053.25},
+        {1, 1, 28855.0, kNaN, kNaN, kNaN, 29999.0},  // locked, never entered
+    };
+    r.routes = {
+        {0, "U01", "U02", 28780.0, 28781.0, 28789.0},
+        {1, "U01", "U03-long-signal-name", 28850.0, 28851.5, kNaN},  // never cleared
+    };
+    r.holds = {{1, "U01", 28865.0, 28902.75}};
+    // samples stay empty: the trajectories dataset must still exist, with 0 records.
+    r.deadlock.deadlocked = true;
+    r.deadlock.time = 30000.5;
+    r.deadlock.description = "train frt9 waits for S02, held by regional-2040";
+    r.events = 1234567;
+    r.block_passages = 42;
+    return r;
+}
+
+Hdf5RunInfo small_info() {
+    Hdf5RunInfo info;
+    info.scenario_file = "scenarios/invented-line.yaml";
+    info.scenario_name = "Invented line";
+    info.command_line = "knockon simulate scenarios/invented-line.yaml --hdf5 out.h5";
+    info.seed = 9223372036854775813ULL;  // above 2^63: a signed or double round trip would change it
+    info.program_version = "0.1.0-test";
+    return info;
+}
+
+// A fresh directory for one test, removed afterwards.
+struct TempDir {
+    fs::path path;
+    explicit TempDir(const std::string& tag)
+        : path(fs::temp_directory_path() / ("knockon-hdf5-" + tag + "-" + std::to_string(::getpid()))) {
+        fs::remove_all(path);
+        fs::create_directories(path);
+    }
+    ~TempDir() {
+        std::error_code ec;
+        fs::remove_all(path, ec);
+    }
+    std::vector<std::string> entries() const {
+        std::vector<std::string> out;
+        for (const auto& e : fs::directory_iterator(path)) out.push_back(e.path().filename().string());
+        return out;
+    }
+};
+
+std::string file_bytes(const fs::path& p) {
+    std::ifstream in(p, std::ios::binary);
+    return std::string(std::istreambuf_iterator<char>(in), {});
+}
+
+// Read-only access through the C API.
+struct Reader {
+    hid_t file = H5I_INVALID_HID;
+    explicit Reader(const fs::path& p) {
+        file = H5Fopen(p.c_str(), H5F_ACC_RDONLY, H5P_DEFAULT);
+        REQUIRE(file >= 0);
+    }
+    ~Reader() { H5Fclose(file); }
+
+    bool exists(const std::string& path) const { return H5Lexists(file, path.c_str(), H5P_DEFAULT) > 0; }
+
+    hsize_t count(const std::string& dataset) const {
+        hid_t d = H5Dopen2(file, dataset.c_str(), H5P_DEFAULT);
+        REQUIRE(d >= 0);
+        hid_t s = H5Dget_space(d);
+        hsize_t dims[1] = {0}, max_dims[1] = {0};
+        REQUIRE(H5Sget_simple_extent_ndims(s) == 1);
+        H5Sget_simple_extent_dims(s, dims, max_dims);
+        CHECK(max_dims[0] == H5S_UNLIMITED);  // extendible, so later work can append
+        H5Sclose(s);
+        H5Dclose(d);
+        return dims[0];
+    }
+
+    // One numeric field of every record, converted by HDF5 (fields are matched by name).
+    template <class T>
+    std::vector<T> column(const std::string& dataset, const std::string& field, hid_t native) const {
+        hid_t d = H5Dopen2(file, dataset.c_str(), H5P_DEFAULT);
+        REQUIRE(d >= 0);
+        hid_t s = H5Dget_space(d);
+        std::vector<T> out(static_cast<std::size_t>(H5Sget_simple_extent_npoints(s)));
+        hid_t t = H5Tcreate(H5T_COMPOUND, sizeof(T));
+        H5Tinsert(t, field.c_str(), 0, native);
+        REQUIRE(H5Dread(d, t, H5S_ALL, H5S_ALL, H5P_DEFAULT, out.data()) >= 0);
+        H5Tclose(t);
+        H5Sclose(s);
+        H5Dclose(d);
+        return out;
+    }
+
+    std::vector<std::string> text_column(const std::string& dataset, const std::string& field) const {
+        hid_t d = H5Dopen2(file, dataset.c_str(), H5P_DEFAULT);
+        REQUIRE(d >= 0);
+        hid_t ftype = H5Dget_type(d);
+        int member = H5Tget_member_index(ftype, field.c_str());
+        REQUIRE(member >= 0);
+        hid_t stype = H5Tget_member_type(ftype, static_cast<unsigned>(member));
+        REQUIRE(H5Tget_class(stype) == H5T_STRING);
+        REQUIRE(H5Tis_variable_str(stype) == 0);
+        const std::size_t width = H5Tget_size(stype);
+        hid_t s = H5Dget_space(d);
+        const auto n = static_cast<std::size_t>(H5Sget_simple_extent_npoints(s));
+        std::vector<char> raw(n * width + 1, '\0');
+        hid_t t = H5Tcreate(H5T_COMPOUND, width);
+        H5Tinsert(t, field.c_str(), 0, stype);
+        REQUIRE(H5Dread(d, t, H5S_ALL, H5S_ALL, H5P_DEFAULT, raw.data()) >= 0);
+        std::vector<std::string> out;
+        for (std::size_t i = 0; i < n; ++i) {
+            std::string v(raw.data() + i * width, width);
+            v.erase(v.find_last_not_of('\0') + 1);  // null padding
+            out.push_back(v);
+        }
+        H5Tclose(t);
+        H5Sclose(s);
+        H5Tclose(stype);
+        H5Tclose(ftype);
+        H5Dclose(d);
+        return out;
+    }
+
+    std::vector<std::string> field_names(const std::string& dataset) const {
+        hid_t d = H5Dopen2(file, dataset.c_str(), H5P_DEFAULT);
+        REQUIRE(d >= 0);
+        hid_t t = H5Dget_type(d);
+        std::vector<std::string> out;
+        for (int i = 0; i < H5Tget_nmembers(t); ++i) {
+            char* n = H5Tget_member_name(t, static_cast<unsigned>(i));
+            out.emplace_back(n);
+            H5free_memory(n);
+        }
+        H5Tclose(t);
+        H5Dclose(d);
+        return out;
+    }
+
+    std::string text_attr(const std::string& object, const std::string& name) const {
+        hid_t a = H5Aopen_by_name(file, object.c_str(), name.c_str(), H5P_DEFAULT, H5P_DEFAULT);
+        REQUIRE(a >= 0);
+        hid_t t = H5Aget_type(a);
+        REQUIRE(H5Tget_class(t) == H5T_STRING);
+        std::vector<char> buf(H5Tget_size(t) + 1, '\0');
+        REQUIRE(H5Aread(a, t, buf.data()) >= 0);
+        H5Tclose(t);
+        H5Aclose(a);
+        return std::string(buf.data());
+    }
+
+    template <class T>
+    T number_attr(const std::string& object, const std::string& name, hid_t native) const {
+        hid_t a = H5Aopen_by_name(file, object.c_str(), name.c_str(), H5P_DEFAULT, H5P_DEFAULT);
+        REQUIRE(a >= 0);
+        T v{};
+        REQUIRE(H5Aread(a, native, &v) >= 0);
+        H5Aclose(a);
+        return v;
+    }
+
+    H5T_class_t attr_class(const std::string& object, const std::string& name) const {
+        hid_t a = H5Aopen_by_name(file, object.c_str(), name.c_str(), H5P_DEFAULT, H5P_DEFAULT);
+        REQUIRE(a >= 0);
+        hid_t t = H5Aget_type(a);
+        const H5T_class_t c = H5Tget_class(t);
+        H5Tclose(t);
+        H5Aclose(a);
+        return c;
+    }
+};
+
+const char* const kDatasets[] = {"/day/trains",  "/day/sections", "/day/timing",      "/day/occupancy",
+                                 "/day/routes", "/day/holds",    "/day/trajectories"};
+
+}  // namespace
+
+TEST_CASE("HDF5 results: every dataset exists with its record count", "[sim_hdf5]") {
+    TempDir dir("counts");
+    const fs::path out = dir.path / "run.h5";
+    const SimResult r = small_result();
+    write_sim_hdf5(out.string(), r, small_info());
+
+    Reader f(out);
+    // Layout of tools/io/HDF5_LAYOUT.md (our own spec): one record per SimResult record.
+    CHECK(f.count("/day/trains") == 3);
+    CHECK(f.count("/day/sections") == 4);
+    CHECK(f.count("/day/timing") == 4);
+    CHECK(f.count("/day/occupancy") == 3);
+    CHECK(f.count("/day/routes") == 2);
+    CHECK(f.count("/day/holds") == 1);
+    CHECK(f.count("/day/trajectories") == 0);  // empty, but created
+
+    // HDF5_LAYOUT.md: the fields of each table, in order.
+    using Names = std::vector<std::string>;
+    CHECK(f.field_names("/day/trains") == Names{"index", "id"});
+    CHECK(f.field_names("/day/sections") == Names{"index", "id"});
+    CHECK(f.field_names("/day/timing") == Names{"train", "call", "station", "stops", "scheduled_arrival",
+                                                "scheduled_departure", "arrival", "departure", "arrival_delay",
+                                                "departure_delay"});
+    CHECK(f.field_names("/day/occupancy") ==
+          Names{"train", "section", "locked", "head_enters", "head_leaves", "tail_clears", "released"});
+    CHECK(f.field_names("/day/routes") ==
+          Names{"train", "entry_signal", "exit_signal", "requested", "granted", "cleared"});
+    CHECK(f.field_names("/day/holds") == Names{"train", "signal", "from", "to"});
+    CHECK(f.field_names("/day/trajectories") == Names{"train", "time", "position", "chainage", "speed"});
+
+    for (const char* name : kDatasets) {
+        INFO(name);
+        hid_t d = H5Dopen2(f.file, name, H5P_DEFAULT);
+        REQUIRE(d >= 0);
+        hid_t dcpl = H5Dget_create_plist(d);
+        // ENGINEERING.md "HDF5": chunked, shuffle + deflate (in that order: shuffle helps deflate).
+        CHECK(H5Pget_layout(dcpl) == H5D_CHUNKED);
+        REQUIRE(H5Pget_nfilters(dcpl) == 2);
+        unsigned flags = 0;
+        std::size_t nelmts = 0;
+        CHECK(H5Pget_filter2(dcpl, 0, &flags, &nelmts, nullptr, 0, nullptr, nullptr) == H5Z_FILTER_SHUFFLE);
+        nelmts = 0;
+        CHECK(H5Pget_filter2(dcpl, 1, &flags, &nelmts, nullptr, 0, nullptr, nullptr) == H5Z_FILTER_DEFLATE);
+        H5Pclose(dcpl);
+        H5Dclose(d);
+        CHECK_FALSE(f.text_attr(name, "description").empty());
+        // HDF5_LAYOUT.md: units is "field: unit, field: unit, ..." naming every field in order.
+        std::vector<std::string> unit_fields;
+        const std::string units = f.text_attr(name, "units");
+        for (std::size_t at = 0; at < units.size();) {
+            const std::size_t colon = units.find(": ", at);
+            REQUIRE(colon != std::string::npos);
+            unit_fields.push_back(units.substr(at, colon - at));
+            const std::size_t comma = units.find(", ", colon);
+            at = comma == std::string::npos ? units.size() : comma + 2;
+        }
+        CHECK(unit_fields == f.field_names(name));
+    }
+}
+
+TEST_CASE("HDF5 results: field values, strings and NaN round-trip exactly", "[sim_hdf5]") {
+    TempDir dir("values");
+    const fs::path out = dir.path / "run.h5";
+    write_sim_hdf5(out.string(), small_result(), small_info());
+    Reader f(out);
+
+    // common practice, no source: a lossless format gives back the very bits written.
+    CHECK(f.text_column("/day/trains", "id") == std::vector<std::string>{"ic101", "regional-2040", "frt9"});
+    CHECK(f.column<std::uint32_t>("/day/trains", "index", H5T_NATIVE_UINT32) == std::vector<std::uint32_t>{0, 1, 2});
+    CHECK(f.text_column("/day/sections", "id") == std::vector<std::string>{"S01", "S02", "loop U2", "S04"});
+
+    CHECK(f.text_column("/day/timing", "station") == std::vector<std::string>{"AA", "Beta", "CC", "AA"});
+    CHECK(f.column<std::uint8_t>("/day/timing", "stops", H5T_NATIVE_UINT8) == std::vector<std::uint8_t>{1, 1, 0, 1});
+    CHECK(f.column<std::uint32_t>("/day/timing", "call", H5T_NATIVE_UINT32) == std::vector<std::uint32_t>{0, 1, 2, 0});
+    const auto arrival = f.column<double>("/day/timing", "arrival", H5T_NATIVE_DOUBLE);
+    REQUIRE(arrival.size() == 4);
+    CHECK(std::isnan(arrival[0]));  // sim_result.hpp: NaN where not applicable stays NaN
+    CHECK(arrival[1] == 29112.625);
+    CHECK(arrival[2] == 29405.5);
+    const auto sched_arr = f.column<double>("/day/timing", "scheduled_arrival", H5T_NATIVE_DOUBLE);
+    CHECK(std::isnan(sched_arr[0]));
+    CHECK(std::isnan(sched_arr[3]));
+    CHECK(sched_arr[1] == 29100.0);
+    CHECK(f.column<double>("/day/timing", "departure_delay", H5T_NATIVE_DOUBLE)[3] == 5.0);
+
+    CHECK(f.column<std::uint32_t>("/day/occupancy", "section", H5T_NATIVE_UINT32) ==
+          std::vector<std::uint32_t>{0, 2, 1});
+    const auto tail = f.column<double>("/day/occupancy", "tail_clears", H5T_NATIVE_DOUBLE);
+    CHECK(tail[1] == 29053.25);
+    CHECK(std::isnan(tail[2]));
+    CHECK(f.column<double>("/day/occupancy", "released", H5T_NATIVE_DOUBLE)[2] == 29999.0);
+
+    CHECK(f.text_column("/day/routes", "exit_signal") == std::vector<std::string>{"U02", "U03-long-signal-name"});
+    CHECK(f.text_column("/day/routes", "entry_signal") == std::vector<std::string>{"U01", "U01"});
+    const auto cleared = f.column<double>("/day/routes", "cleared", H5T_NATIVE_DOUBLE);
+    CHECK(cleared[0] == 28789.0);
+    CHECK(std::isnan(cleared[1]));
+    CHECK(f.column<double>("/day/routes", "granted", H5T_NATIVE_DOUBLE)[1] == 28851.5);
+
+    CHECK(f.text_column("/day/holds", "signal") == std::vector<std::string>{"U01"});
+    CHECK(f.column<double>("/day/holds", "to", H5T_NATIVE_DOUBLE)[0] == 28902.75);
+    CHECK(f.column<std::uint32_t>("/day/holds", "train", H5T_NATIVE_UINT32)[0] == 1);
+}
+
+TEST_CASE("HDF5 results: root and /day attributes", "[sim_hdf5]") {
+    TempDir dir("attrs");
+    const fs::path out = dir.path / "run.h5";
+    write_sim_hdf5(out.string(), small_result(), small_info());
+    Reader f(out);
+
+    // Layout of tools/io/HDF5_LAYOUT.md (our own spec).
+    CHECK(f.attr_class("/", "schema_version") == H5T_INTEGER);
+    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 1);
+    CHECK(f.text_attr("/", "program") == "knockon");
+    CHECK(f.text_attr("/", "program_version") == "0.1.0-test");
+    CHECK(f.text_attr("/", "scenario_file") == "scenarios/invented-line.yaml");
+    CHECK(f.text_attr("/", "scenario_name") == "Invented line");
+    CHECK(f.text_attr("/", "command_line") == "knockon simulate scenarios/invented-line.yaml --hdf5 out.h5");
+    CHECK(f.number_attr<std::uint64_t>("/", "seed", H5T_NATIVE_UINT64) == 9223372036854775813ULL);
+    CHECK(f.text_attr("/", "time_unit") == "s after midnight of the simulated day");
+    CHECK(f.text_attr("/", "caution") == kSafetyCaution);
+    CHECK_THAT(f.text_attr("/", "caution"), Contains("licensed signalling engineers"));
+
+    CHECK(f.exists("/day"));
+    CHECK(f.number_attr<std::uint64_t>("/day", "events", H5T_NATIVE_UINT64) == 1234567);
+    CHECK(f.number_attr<std::uint64_t>("/day", "block_passages", H5T_NATIVE_UINT64) == 42);
+    CHECK(f.number_attr<std::uint8_t>("/day", "deadlocked", H5T_NATIVE_UINT8) == 1);
+    CHECK(f.text_attr("/day", "deadlock_description") == "train frt9 waits for S02, held by regional-2040");
+    CHECK(f.number_attr<double>("/day", "last_event_time", H5T_NATIVE_DOUBLE) == 30000.5);
+}
+
+TEST_CASE("HDF5 results: an empty program_version means this build's version", "[sim_hdf5]") {
+    TempDir dir("version");
+    const fs::path out = dir.path / "run.h5";
+    Hdf5RunInfo info = small_info();
+    info.program_version.clear();
+    write_sim_hdf5(out.string(), SimResult{}, info);
+    Reader f(out);
+    CHECK(f.text_attr("/", "program_version") == KNOCKON_VERSION);
+    // A result with no records at all still has every dataset.
+    for (const char* name : kDatasets) {
+        INFO(name);
+        CHECK(f.count(name) == 0);
+    }
+    CHECK(f.number_attr<std::uint8_t>("/day", "deadlocked", H5T_NATIVE_UINT8) == 0);
+    CHECK(f.text_attr("/day", "deadlock_description").empty());
+}
+
+TEST_CASE("HDF5 results: more records than one chunk are all written", "[sim_hdf5]") {
+    TempDir dir("chunks");
+    const fs::path out = dir.path / "run.h5";
+    SimResult r = small_result();
+    // Trajectory records are 36 bytes, so chunks hold 16384 of them; 40000 spans three chunks.
+    REQUIRE(h5::RecordTable::chunk_records_for(36) == 16384);
+    for (std::uint32_t i = 0; i < 40000; ++i)
+        r.samples.push_back({i % 3, 28800.0 + i * 0.5, i * 1.25, 1000.0 + i * 1.25, i % 40 * 0.25});
+    write_sim_hdf5(out.string(), r, small_info());
+    Reader f(out);
+    REQUIRE(f.count("/day/trajectories") == 40000);
+    const auto time = f.column<double>("/day/trajectories", "time", H5T_NATIVE_DOUBLE);
+    const auto chainage = f.column<double>("/day/trajectories", "chainage", H5T_NATIVE_DOUBLE);
+    const auto train = f.column<std::uint32_t>("/day/trajectories", "train", H5T_NATIVE_UINT32);
+    for (std::size_t i : {std::size_t{0}, std::size_t{16383}, std::size_t{16384}, std::size_t{32768},
+                          std::size_t{39999}}) {
+        INFO(i);
+        CHECK(time[i] == 28800.0 + static_cast<double>(i) * 0.5);
+        CHECK(chainage[i] == 1000.0 + static_cast<double>(i) * 1.25);
+        CHECK(train[i] == i % 3);
+    }
+}
+
+TEST_CASE("HDF5 results: wide records get smaller chunks", "[sim_hdf5]") {
+    // ENGINEERING.md "HDF5": ~16 K records a chunk, a chunk under the 1 MiB chunk cache.
+    CHECK(h5::RecordTable::chunk_records_for(8) == 16384);
+    CHECK(h5::RecordTable::chunk_records_for(128) == 8192);
+    CHECK(h5::RecordTable::chunk_records_for(2u << 20) == 1);
+}
+
+TEST_CASE("HDF5 results: writing twice gives the same bytes, with no time stamps", "[sim_hdf5]") {
+    TempDir dir("repeat");
+    const fs::path a = dir.path / "a.h5";
+    const fs::path b = dir.path / "b.h5";
+    write_sim_hdf5(a.string(), small_result(), small_info());
+    const std::string first = file_bytes(a);
+    write_sim_hdf5(a.string(), small_result(), small_info());  // over the existing file
+    write_sim_hdf5(b.string(), small_result(), small_info());  // under another name
+    REQUIRE(first.size() > 0);
+    CHECK(file_bytes(a) == first);
+    CHECK(file_bytes(b) == first);
+
+    // ENGINEERING.md "HDF5": object time tracking off, else bytes change from one second to the next.
+    Reader f(a);
+    for (const std::string name : {"/", "/day", "/day/timing", "/day/trajectories"}) {
+        INFO(name);
+        H5O_info_t oi{};
+        REQUIRE(H5Oget_info_by_name2(f.file, name.c_str(), &oi, H5O_INFO_TIME, H5P_DEFAULT) >= 0);
+        CHECK(oi.ctime == 0);
+        CHECK(oi.mtime == 0);
+    }
+}
+
+TEST_CASE("HDF5 results: no temporary file is left after success", "[sim_hdf5]") {
+    TempDir dir("clean");
+    const fs::path out = dir.path / "run.h5";
+    write_sim_hdf5(out.string(), small_result(), small_info());
+    CHECK(dir.entries() == std::vector<std::string>{"run.h5"});
+}
+
+TEST_CASE("HDF5 results: an unwritable path throws naming it and leaves no file", "[sim_hdf5]") {
+    const std::string bad = "/nonexistent-dir-knockon/x.h5";
+    REQUIRE_FALSE(fs::exists("/nonexistent-dir-knockon"));
+    CHECK_THROWS_WITH(write_sim_hdf5(bad, small_result(), small_info()), Contains(bad));
+    CHECK_FALSE(fs::exists(bad));
+    CHECK_FALSE(fs::exists(temporary_path_for(bad)));
+}
+
+TEST_CASE("HDF5 results: a failed final rename leaves no temporary file", "[sim_hdf5]") {
+    TempDir dir("rename");
+    const fs::path target = dir.path / "taken";
+    fs::create_directories(target / "inside");  // a non-empty directory cannot be replaced by a file
+    CHECK_THROWS_WITH(write_sim_hdf5(target.string(), small_result(), small_info()), Contains(target.string()));
+    CHECK(fs::is_directory(target));
+    CHECK(dir.entries() == std::vector<std::string>{"taken"});
+}
+
+TEST_CASE("HDF5 results: the Python example reads the file", "[sim_hdf5][python]") {
+    // Runs tools/read_results_example.py where some python3 has h5py; skipped (with a warning) elsewhere.
+    std::string python;
+    for (const char* candidate : {"python3", "/usr/bin/python3"}) {
+        const std::string probe = std::string(candidate) + " -c 'import h5py, numpy' >/dev/null 2>&1";
+        if (std::system(probe.c_str()) == 0) {
+            python = candidate;
+            break;
+        }
+    }
+    if (python.empty()) {
+        WARN("no python3 with h5py: example not run");
+        return;
+    }
+    TempDir dir("python");
+    const fs::path out = dir.path / "run.h5";
+    write_sim_hdf5(out.string(), small_result(), small_info());
+    const fs::path log = dir.path / "log.txt";
+    const std::string cmd = python + " " + KNOCKON_SOURCE_DIR + "/tools/read_results_example.py '" + out.string() +
+                            "' >'" + log.string() + "' 2>&1";
+    const int rc = std::system(cmd.c_str());
+    INFO(file_bytes(log));
+    REQUIRE(rc == 0);
+    // The example prints each table with its record count.
+    CHECK_THAT(file_bytes(log), Contains("timing: 4 records"));
+    CHECK_THAT(file_bytes(log), Contains("trajectories: 0 records"));
+    CHECK_THAT(file_bytes(log), Contains("regional-2040"));
+}
+
+TEST_CASE("HDF5 wrapper: failures name the file and the object", "[sim_hdf5]") {
+    TempDir dir("wrapper");
+    const h5::QuietErrors quiet;
+    h5::File file((dir.path / "actual.h5").string(), "shown.h5");
+    const h5::Group root = file.root();
+    const h5::Group day = root.create_group("day");
+    // The shown name, not the actual (temporary) one, and the object path inside the file.
+    CHECK_THROWS_WITH(root.create_group("day"), Contains("shown.h5: /day: cannot create group"));
+    h5::RecordTable t(day, "names", h5::RecordLayout().add("index", h5::FieldKind::u32).add_text("id", 3));
+    CHECK_THROWS_WITH(h5::RecordTable(day, "names", h5::RecordLayout().add("x", h5::FieldKind::u8)),
+                      Contains("shown.h5: /day/names: cannot create dataset"));
+    t.begin().u32(0);
+    CHECK_THROWS_WITH(t.text("four"), Contains("shown.h5: /day/names") && Contains("longer than the field"));
+    CHECK_THROWS_AS(t.begin().f64(1.0), std::logic_error);  // fields out of layout order
+}

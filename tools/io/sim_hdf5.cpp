@@ -1,0 +1,220 @@
+#include "tools/io/sim_hdf5.hpp"
+
+#include <algorithm>
+#include <filesystem>
+#include <stdexcept>
+#include <vector>
+
+#include "tools/io/hdf5_file.hpp"
+#include "tools/io/output_file.hpp"
+#include "tools/io/plan_output.hpp"
+
+namespace knockon {
+
+namespace {
+
+using h5::FieldKind;
+using h5::RecordLayout;
+using h5::RecordTable;
+
+constexpr const char* kTimeUnit = "s after midnight of the simulated day";
+
+// Longest string a column will hold, so fixed-length fields are as narrow as the data allows.
+template <class Records, class Get>
+std::size_t longest(const Records& records, Get get) {
+    std::size_t n = 0;
+    for (const auto& r : records) n = std::max(n, get(r).size());
+    return n;
+}
+
+// units: "field: unit" for every field, comma-separated, in field order (no commas inside a unit).
+void describe(const RecordTable& t, const std::string& units, const std::string& description) {
+    t.attributes().set_text("units", units);
+    t.attributes().set_text("description", description);
+}
+
+// trains / sections: the names that integer fields elsewhere refer to by index.
+void write_names(const h5::Group& day, const std::string& name, const std::vector<std::string>& ids,
+                 const std::string& description) {
+    RecordTable t(day, name,
+                  RecordLayout().add("index", FieldKind::u32).add_text("id", longest(ids, [](auto& s) -> auto& {
+                      return s;
+                  })));
+    for (std::size_t i = 0; i < ids.size(); ++i) t.begin().u32(static_cast<std::uint32_t>(i)).text(ids[i]);
+    t.flush();
+    describe(t, "index: 0-based row number, id: text", description);
+}
+
+void write_timing(const h5::Group& day, const std::vector<TimingRecord>& records) {
+    RecordTable t(day, "timing",
+                  RecordLayout()
+                      .add("train", FieldKind::u32)
+                      .add("call", FieldKind::u32)
+                      .add_text("station", longest(records, [](auto& r) -> auto& { return r.station; }))
+                      .add("stops", FieldKind::u8)
+                      .add("scheduled_arrival", FieldKind::f64)
+                      .add("scheduled_departure", FieldKind::f64)
+                      .add("arrival", FieldKind::f64)
+                      .add("departure", FieldKind::f64)
+                      .add("arrival_delay", FieldKind::f64)
+                      .add("departure_delay", FieldKind::f64));
+    for (const TimingRecord& r : records)
+        t.begin()
+            .u32(r.train)
+            .u32(r.call)
+            .text(r.station)
+            .u8(r.stops ? 1 : 0)
+            .f64(r.scheduled_arrival)
+            .f64(r.scheduled_departure)
+            .f64(r.arrival)
+            .f64(r.departure)
+            .f64(r.arrival_delay)
+            .f64(r.departure_delay);
+    t.flush();
+    describe(t,
+             "train: index into trains, call: 0-based timing point of the train, station: text, "
+             "stops: 1 = scheduled stop / 0 = pass, scheduled_arrival: s after midnight, "
+             "scheduled_departure: s after midnight, arrival: s after midnight, departure: s after midnight, "
+             "arrival_delay: s, departure_delay: s",
+             "Times of every train at every timing point, scheduled and as run; NaN where a time does not "
+             "apply or did not happen. A pass has arrival = departure = the pass time.");
+}
+
+void write_occupancy(const h5::Group& day, const std::vector<SectionRecord>& records) {
+    RecordTable t(day, "occupancy",
+                  RecordLayout()
+                      .add("train", FieldKind::u32)
+                      .add("section", FieldKind::u32)
+                      .add("locked", FieldKind::f64)
+                      .add("head_enters", FieldKind::f64)
+                      .add("head_leaves", FieldKind::f64)
+                      .add("tail_clears", FieldKind::f64)
+                      .add("released", FieldKind::f64));
+    for (const SectionRecord& r : records)
+        t.begin()
+            .u32(r.train)
+            .u32(r.section)
+            .f64(r.locked)
+            .f64(r.head_enters)
+            .f64(r.head_leaves)
+            .f64(r.tail_clears)
+            .f64(r.released);
+    t.flush();
+    describe(t,
+             "train: index into trains, section: index into sections, locked: s after midnight, "
+             "head_enters: s after midnight, head_leaves: s after midnight, tail_clears: s after midnight, "
+             "released: s after midnight",
+             "Each train's use of each detection section as run; the as-run blocking time is [locked, "
+             "released]. NaN where a moment did not happen.");
+}
+
+void write_routes(const h5::Group& day, const std::vector<RouteRecord>& records) {
+    RecordTable t(day, "routes",
+                  RecordLayout()
+                      .add("train", FieldKind::u32)
+                      .add_text("entry_signal", longest(records, [](auto& r) -> auto& { return r.entry_signal; }))
+                      .add_text("exit_signal", longest(records, [](auto& r) -> auto& { return r.exit_signal; }))
+                      .add("requested", FieldKind::f64)
+                      .add("granted", FieldKind::f64)
+                      .add("cleared", FieldKind::f64));
+    for (const RouteRecord& r : records)
+        t.begin().u32(r.train).text(r.entry_signal).text(r.exit_signal).f64(r.requested).f64(r.granted).f64(
+            r.cleared);
+    t.flush();
+    describe(t,
+             "train: index into trains, entry_signal: text, exit_signal: text, requested: s after midnight, "
+             "granted: s after midnight, cleared: s after midnight",
+             "Route setting for each train: requested = the train asked for the route, granted = its sections "
+             "were locked and set-up began, cleared = the entry signal showed proceed. NaN where a step did "
+             "not happen.");
+}
+
+void write_holds(const h5::Group& day, const std::vector<HoldRecord>& records) {
+    RecordTable t(day, "holds",
+                  RecordLayout()
+                      .add("train", FieldKind::u32)
+                      .add_text("signal", longest(records, [](auto& r) -> auto& { return r.signal; }))
+                      .add("from", FieldKind::f64)
+                      .add("to", FieldKind::f64));
+    for (const HoldRecord& r : records) t.begin().u32(r.train).text(r.signal).f64(r.from).f64(r.to);
+    t.flush();
+    describe(t, "train: index into trains, signal: text, from: s after midnight, to: s after midnight",
+             "Time a train stood at a signal showing stop (not at a scheduled stop).");
+}
+
+void write_trajectories(const h5::Group& day, const std::vector<TrajectorySample>& samples) {
+    RecordTable t(day, "trajectories",
+                  RecordLayout()
+                      .add("train", FieldKind::u32)
+                      .add("time", FieldKind::f64)
+                      .add("position", FieldKind::f64)
+                      .add("chainage", FieldKind::f64)
+                      .add("speed", FieldKind::f64));
+    for (const TrajectorySample& s : samples)
+        t.begin().u32(s.train).f64(s.time).f64(s.position).f64(s.chainage).f64(s.speed);
+    t.flush();
+    describe(t,
+             "train: index into trains, time: s after midnight, position: m along the train's path, "
+             "chainage: m along the line, speed: m/s",
+             "Sampled motion of each train (empty unless trajectories were requested).");
+}
+
+void write_contents(const std::string& file_path, const std::string& display_path, const SimResult& result,
+                    const Hdf5RunInfo& info) {
+    h5::File file(file_path, display_path);
+    {
+        const h5::Group root = file.root();
+        const h5::Attributes a = root.attributes();
+        a.set_i32("schema_version", kSimHdf5SchemaVersion);
+        a.set_text("program", "knockon");
+        a.set_text("program_version", info.program_version.empty() ? KNOCKON_VERSION : info.program_version);
+        a.set_text("scenario_file", info.scenario_file);
+        a.set_text("scenario_name", info.scenario_name);
+        a.set_text("command_line", info.command_line);
+        a.set_u64("seed", info.seed);
+        a.set_text("time_unit", kTimeUnit);
+        a.set_text("caution", kSafetyCaution);
+
+        const h5::Group day = root.create_group("day");
+        const h5::Attributes d = day.attributes();
+        d.set_u64("events", result.events);
+        d.set_u64("block_passages", result.block_passages);
+        d.set_u8("deadlocked", result.deadlock.deadlocked ? 1 : 0);
+        d.set_text("deadlock_description", result.deadlock.description);
+        d.set_f64("last_event_time", result.deadlock.time);
+
+        write_names(day, "trains", result.train_ids,
+                    "Train ids; the 'train' field of the other tables is an index into this table.");
+        write_names(day, "sections", result.section_names,
+                    "Detection section ids; the 'section' field of occupancy is an index into this table.");
+        write_timing(day, result.timing);
+        write_occupancy(day, result.sections);
+        write_routes(day, result.routes);
+        write_holds(day, result.holds);
+        write_trajectories(day, result.samples);
+    }  // every group and dataset handle is closed here, before the file
+    file.close();
+}
+
+}  // namespace
+
+void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5RunInfo& info) {
+    const std::string tmp = temporary_path_for(path);
+    const h5::QuietErrors quiet;
+    const auto discard = [&] {
+        std::error_code ec;
+        std::filesystem::remove(tmp, ec);
+    };
+    try {
+        write_contents(tmp, path, result, info);
+    } catch (const h5::Error&) {  // already names the file and the object
+        discard();
+        throw;
+    } catch (const std::exception& e) {  // e.g. out of memory
+        discard();
+        throw std::runtime_error(path + ": cannot write HDF5 results: " + e.what());
+    }
+    commit_file(tmp, path);
+}
+
+}  // namespace knockon
