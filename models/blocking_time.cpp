@@ -19,12 +19,13 @@ double warning_point(const ServiceRun& run, std::size_t i) {
             if (i >= 1) return path.signals[i - 1].s;
             return sig.s - braking_from(sig.s);
         case AspectSystem::four_aspect:
-            if (i >= 1) {
-                double prev = path.signals[i - 1].s;
-                if (sig.s - prev >= braking_from(prev) || i < 2) return prev;
-                return path.signals[i - 2].s;
-            }
-            return sig.s - braking_from(sig.s);
+            // One block back when it holds the braking distance, else two (the most a
+            // preliminary caution can give); before the first signals of the path, the braking
+            // distance itself.
+            if (i >= 1 && sig.s - path.signals[i - 1].s >= braking_from(path.signals[i - 1].s))
+                return path.signals[i - 1].s;
+            if (i >= 2) return path.signals[i - 2].s;
+            return std::min(i >= 1 ? path.signals[i - 1].s : sig.s, sig.s - braking_from(sig.s));
         case AspectSystem::cab_fixed_block: {
             // The braking-curve point: solve w = s_i - D(v(w)) by a few fixed-point steps.
             double w = sig.s - braking_from(sig.s);

@@ -19,17 +19,18 @@ std::vector<LineSection> line_sections(const Infrastructure& infra) {
 
 std::optional<SectionStairway> stairway_in(const LineSection& ls, std::size_t train, const ServiceRun& run,
                                            const Stairway& stairway) {
+    // A train belongs to the line section when its path runs from one station to the other,
+    // whether or not it has calls there; its reference is when its head leaves the first.
     if (run.path.direction != ls.direction) return std::nullopt;
-    const PlannedCall* from = nullptr;
-    bool reaches_to = false;
-    for (const PlannedCall& c : run.calls) {
-        if (c.station == ls.from_station) from = &c;
-        if (c.station == ls.to_station && from) reaches_to = true;
-    }
-    if (!from || !reaches_to) return std::nullopt;
+    const Infrastructure& infra = *run.path.infrastructure;
+    const Station* from = infra.find_station(ls.from_station);
+    const Station* to = infra.find_station(ls.to_station);
+    if (!from || !to) return std::nullopt;
+    const double s_from = run.path.s_at_chainage(from->at), s_to = run.path.s_at_chainage(to->at);
+    if (std::isnan(s_from) || std::isnan(s_to) || s_to < s_from) return std::nullopt;
     SectionStairway out;
     out.train = train;
-    out.reference = from->planned_departure;
+    out.reference = run.head_leave(s_from);
     for (const SectionBlocking& b : stairway.sections)
         if (std::min(b.x_hi, ls.x_hi) - std::max(b.x_lo, ls.x_lo) > 1e-6) out.sections.push_back(b);
     return out;

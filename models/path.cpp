@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <limits>
 #include <map>
 #include <set>
 
@@ -68,7 +69,45 @@ std::string km(double x) {
     return buf;
 }
 
+// Gradient and speed-limit profiles along the path, from the chainage bands and track limits, so
+// that the running-time integration looks them up by a short binary search.
+void build_profiles(const Infrastructure& infra, const Axis& axis, double p_start, TrainPath& path) {
+    std::vector<double> breaks;
+    for (const PathPiece& pc : path.pieces) {
+        breaks.push_back(pc.s_from);
+        double xlo = std::min(pc.x_from, pc.x_to), xhi = std::max(pc.x_from, pc.x_to);
+        for (const auto* bands : {&infra.gradients, &infra.speed_limits})
+            for (const ChainageBand& b : *bands)
+                for (double x : {b.from, b.to})
+                    if (x > xlo + kEps && x < xhi - kEps) breaks.push_back(axis.to_p(x) - p_start);
+    }
+    std::sort(breaks.begin(), breaks.end());
+    breaks.erase(std::unique(breaks.begin(), breaks.end(), [](double a, double b) { return b - a < kEps; }),
+                 breaks.end());
+    const double sign = path.direction == Direction::up ? 1.0 : -1.0;
+    for (std::size_t k = 0; k < breaks.size(); ++k) {
+        const double end = k + 1 < breaks.size() ? breaks[k + 1] : path.s_max;
+        const double mid = 0.5 * (breaks[k] + end);  // inside the interval: no boundary ambiguity
+        const double x = axis.to_x(mid + p_start);
+        const Track* track = nullptr;
+        for (const PathPiece& pc : path.pieces)
+            if (mid < pc.s_to || &pc == &path.pieces.back()) {
+                track = pc.track;
+                break;
+            }
+        path.gradient.s.push_back(breaks[k]);
+        path.gradient.value.push_back(sign * infra.gradient_at(x));
+        path.speed_limit.s.push_back(breaks[k]);
+        path.speed_limit.value.push_back(std::min(infra.line_speed_at(x), track->speed_limit));
+    }
+}
+
 }  // namespace
+
+double PathProfile::at(double pos) const {
+    auto it = std::upper_bound(s.begin(), s.end(), pos);
+    return value[it == s.begin() ? 0 : static_cast<std::size_t>(it - s.begin()) - 1];
+}
 
 std::string section_id(const std::string& track, double x_from, double x_to) {
     return track + ":" + km(x_from) + "-" + km(x_to);
@@ -191,6 +230,8 @@ TrainPath build_path(const Infrastructure& infra, const Service& service, double
     std::sort(path.signals.begin(), path.signals.end(),
               [](const PathSignal& a, const PathSignal& b) { return a.s < b.s; });
 
+    build_profiles(infra, axis, p_start, path);
+
     for (std::size_t i = 0; i < service.calls.size(); ++i)
         path.timing_points.push_back({i, station_p(service.calls[i]) - p_start, service.calls[i].stops});
     for (std::size_t i = 1; i < path.timing_points.size(); ++i)
@@ -215,12 +256,25 @@ double TrainPath::chainage_at(double s) const {
     return pc.x_from + f * (pc.x_to - pc.x_from);
 }
 
+double TrainPath::s_at_chainage(double x) const {
+    for (const PathPiece& pc : pieces) {
+        double lo = std::min(pc.x_from, pc.x_to), hi = std::max(pc.x_from, pc.x_to);
+        if (x < lo - kEps || x > hi + kEps) continue;
+        double s = pc.s_from + std::fabs(x - pc.x_from);
+        if (s >= -kEps && s <= length + kEps) return s;
+    }
+    return std::numeric_limits<double>::quiet_NaN();
+}
+
+// The profiles are a cache of the direct look-up below; a path laid by hand (tests) has none.
 double TrainPath::gradient_at(double s) const {
+    if (!gradient.s.empty()) return gradient.at(s);
     double g = infrastructure->gradient_at(chainage_at(s));
     return direction == Direction::up ? g : -g;
 }
 
 double TrainPath::speed_limit_at(double s) const {
+    if (!speed_limit.s.empty()) return speed_limit.at(s);
     const PathPiece& pc = piece_at(*this, s);
     return std::min(infrastructure->line_speed_at(chainage_at(s)), pc.track->speed_limit);
 }

@@ -40,6 +40,12 @@ struct TimingPoint {
     bool stops = true;
 };
 
+// A piecewise-constant quantity along a path: value[k] holds from s[k] to s[k+1].
+struct PathProfile {
+    std::vector<double> s, value;
+    double at(double pos) const;   // before the first break: the first value
+};
+
 struct TrainPath {
     const Infrastructure* infrastructure = nullptr;
     Direction direction = Direction::up;
@@ -54,8 +60,12 @@ struct TrainPath {
     std::vector<PathSection> sections;
     std::vector<PathSignal> signals;       // main signals facing the train, in order
     std::vector<TimingPoint> timing_points;
+    PathProfile gradient;      // met by the train (positive climbing)
+    PathProfile speed_limit;   // line speed capped by the track's limit [m/s]
 
     double chainage_at(double s) const;
+    // Where along the path (within [0, length]) the head passes chainage x; NaN if it does not.
+    double s_at_chainage(double x) const;
     // Gradient met by the train at s: positive when it climbs.
     double gradient_at(double s) const;
     // Static speed limit at s for the head (line speed capped by the track's limit) [m/s].

@@ -90,7 +90,12 @@ struct Grid {
 void static_limits(const TrainType& type, const TrainPath& path, const Grid& grid, std::vector<double>& out) {
     const std::size_t m = static_cast<std::size_t>(std::ceil(type.length / grid.step - 1e-9));
     const std::size_t total = m + grid.cells;  // cells -m .. cells-1, stored from index 0
-    std::vector<double> cell(total);
+    // Scratch buffers reused across calls (per thread): the integration runs thousands of
+    // times a day and fresh allocations cost more than the arithmetic.
+    thread_local std::vector<double> cell;
+    thread_local std::vector<std::size_t> queue;
+    cell.resize(total);
+    queue.resize(total);
     const double s_floor = std::min(path.s_min, 0.0);
     for (std::size_t j = 0; j < total; ++j) {
         const bool behind = j < m;
@@ -108,7 +113,6 @@ void static_limits(const TrainType& type, const TrainPath& path, const Grid& gri
         cell[j] = std::min({lo, hi, type.max_speed});
     }
     // Sliding-window minimum with a monotone queue of indices (one pass, no per-step allocation).
-    std::vector<std::size_t> queue(total);
     std::size_t head = 0, tail = 0;
     double prev_window = 0.0;
     for (std::size_t j = 0; j < total; ++j) {
@@ -200,7 +204,8 @@ Trajectory run_leg(const TrainType& type, const TrainPath& path, double s_start,
     if (options.slow_factor < 1.0 && options.slow_to > options.slow_from)
         for (std::size_t i = 0; i <= cells; ++i)
             if (grid.at(i) >= options.slow_from && grid.at(i) < options.slow_to) tr.v[i] *= options.slow_factor;
-    std::vector<double> gradient(cells);
+    thread_local std::vector<double> gradient;
+    gradient.resize(cells);
     for (std::size_t i = 0; i < cells; ++i) gradient[i] = path.gradient_at(0.5 * (grid.at(i) + grid.at(i + 1)));
 
     // Backward pass: braking envelope from the target and from every drop of the limit, in place

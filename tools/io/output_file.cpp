@@ -16,7 +16,8 @@ void commit_file(const std::string& temporary, const std::string& path) {
     std::error_code ec;
     std::filesystem::rename(temporary, path, ec);
     if (ec) {
-        std::filesystem::remove(temporary, ec);
+        std::error_code ignored;
+        std::filesystem::remove(temporary, ignored);
         throw std::runtime_error(path + ": cannot write: " + ec.message());
     }
 }

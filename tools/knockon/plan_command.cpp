@@ -13,7 +13,7 @@ int plan(const std::vector<std::string>& args) {
     po::options_description options("plan options");
     options.add_options()("json", "print one JSON document instead of tables")(
         "csv", po::value<std::string>(), "also write every table as CSV into this directory")(
-        "step", po::value<double>()->default_value(1.0), "distance step of the running-time integration [m]");
+        "step", po::value<double>()->default_value(2.0), "distance step of the running-time integration [m]");
     po::variables_map vm;
     if (!parse_command_line("plan", args, options, vm)) return 0;
     const double step = vm["step"].as<double>();

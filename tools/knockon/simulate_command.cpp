@@ -9,6 +9,7 @@
 #include "sim/simulation.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
+#include "tools/io/sim_hdf5.hpp"
 #include "tools/knockon/delay_option.hpp"
 #include "tools/knockon/options.hpp"
 
@@ -83,14 +84,17 @@ nlohmann::json summary_json(const Scenario& sc, const SimResult& r, const DaySum
 }  // namespace
 
 int simulate(const std::vector<std::string>& args) {
+    std::string command_line = "knockon simulate";
+    for (const std::string& a : args) command_line += " " + a;
     po::options_description options("simulate options");
     options.add_options()("json", "print one JSON document instead of the summary")(
+        "out", po::value<std::string>(), "write the day's records to this HDF5 file")(
         "delay", po::value<std::vector<std::string>>()->composing(),
         "inject a delay: TRAIN:entry:MINUTES, TRAIN:dwell@STATION:MINUTES or TRAIN:run@STATION:MINUTES (repeatable)")(
         "order", po::value<std::string>()->default_value("timetable"),
         "route-setting order at conflicts: timetable or first-come")(
         "sample", po::value<double>()->default_value(0.0), "record trajectories every this many seconds (0: none)")(
-        "step", po::value<double>()->default_value(1.0), "distance step of the motion integration [m]");
+        "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]");
     po::variables_map vm;
     if (!parse_command_line("simulate", args, options, vm)) return 0;
     SimOptions so;
@@ -110,6 +114,14 @@ int simulate(const std::vector<std::string>& args) {
     SimModel model(scenario.infrastructure, plan);
     SimResult result = simulate_day(model, delays, so);
     DaySummary summary = summarize_day(result);
+    if (vm.count("out")) {
+        Hdf5RunInfo info;
+        info.scenario_file = scenario.source_file;
+        info.scenario_name = scenario.name;
+        info.command_line = command_line;
+        info.program_version = KNOCKON_VERSION;
+        write_sim_hdf5(vm["out"].as<std::string>(), result, info);
+    }
 
     if (vm.count("json"))
         std::printf("%s\n", summary_json(scenario, result, summary).dump(1).c_str());
