@@ -16,6 +16,10 @@ struct TimingRecord {
     double scheduled_arrival = 0.0, scheduled_departure = 0.0;   // NaN where not applicable
     double arrival = 0.0, departure = 0.0;                       // as run (passes: both the pass time)
     double arrival_delay = 0.0, departure_delay = 0.0;           // as run minus scheduled [s]
+    // Knock-on (secondary) delay gathered here: time lost to other trains on the run from the
+    // previous timing point (beyond the unhindered running time plus the train's own slow
+    // running) and, at a stop, waiting beyond the moment the train was ready to leave [s].
+    double knock_on = 0.0;
 };
 
 // One train's use of one detection section: the as-run blocking time is [locked, released].

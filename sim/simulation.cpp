@@ -19,6 +19,9 @@ constexpr double kEps = 1e-6;
 // Positions recomputed from event times (rounded to the tick) may fall short of the point the
 // event was for by speed x 1 ms; comparisons with such points allow this much [m].
 constexpr double kPositionTolerance = 0.5;
+// Knock-on below this per timing point is not counted: recomputing the motion from another grid
+// point moves arrival times by a few hundredths of a second [s].
+constexpr double kNoiseFloor = 0.5;
 
 int aspect_cap(AspectSystem a) {
     switch (a) {
@@ -155,6 +158,8 @@ private:
         std::vector<double> route_set;        // when each route was set for it (NaN: not yet)
         std::vector<long> route_record;       // per route: index into result.routes
         bool appear_due = false;              // its appearance time has come
+        double last_departure = kNoTime;      // from the previous timing point (or entry)
+        double appeared = kNoTime;
         std::vector<long> section_record;     // per path section: index into result.sections
         std::vector<std::uint8_t> holds;      // per path section: it holds the section now
         bool request_pending = false;
@@ -560,6 +565,12 @@ void Day::try_appear(std::uint32_t t) {
         s.t0 = now_;
         s.s_stand = 0.0;
         s.eoa = 0.0;
+        {
+            // Held outside the model beyond its (possibly late) entry: knock-on at the first call.
+            const double due = run.appear_time + (t < delays_.entry.size() ? delays_.entry[t] : 0.0);
+            out_.timing[timing_index_[t][0]].knock_on += std::max(0.0, now_ - due);
+            s.last_departure = now_;
+        }
         // Motion starts at entry speed; authority is read at once (signals in sight).
         generations_.bump(motion_entity(t));
         s.traj = Trajectory{};
@@ -598,13 +609,28 @@ void Day::try_appear(std::uint32_t t) {
 
 void Day::record_call(std::uint32_t t, std::size_t tp, double arrival, double departure) {
     TimingRecord& r = out_.timing[timing_index_[t][tp]];
+    TrainState& s = st_[t];
+    const ServiceRun& run = run_of(t);
     if (!std::isnan(arrival)) {
         r.arrival = arrival;
         r.arrival_delay = arrival - r.scheduled_arrival;
+        // Running time lost to other trains: as run minus unhindered (plus own slow running).
+        double expected;
+        if (tp == 0) {
+            expected = run.calls[0].planned_arrival - run.appear_time;
+        } else {
+            expected = run.calls[tp].technical_running +
+                       delay_of(delays_.running, t, run.calls[tp - 1].call);
+        }
+        // Below half a second it is integration noise (motion recomputed from other grid points).
+        const double lost = std::isnan(s.last_departure) ? 0.0 : arrival - s.last_departure - expected;
+        if (lost > kNoiseFloor) r.knock_on += lost;
     }
     if (!std::isnan(departure)) {
         r.departure = departure;
         r.departure_delay = departure - r.scheduled_departure;
+        if (!std::isnan(s.ready_time) && departure - s.ready_time > kNoiseFloor) r.knock_on += departure - s.ready_time;
+        s.last_departure = departure;
     }
 }
 
@@ -782,7 +808,11 @@ void Day::handle(const Event& e) {
             schedule_point(t, kPass);
             break;
         case kCall:
-            record_call(t, e.payload, now_, now_);
+            record_call(t, e.payload, now_, kNoTime);
+            out_.timing[timing_index_[t][e.payload]].departure = now_;
+            out_.timing[timing_index_[t][e.payload]].departure_delay =
+                now_ - out_.timing[timing_index_[t][e.payload]].scheduled_departure;
+            st_[t].last_departure = now_;
             ++s.next_call;
             schedule_point(t, kCall);
             break;

@@ -1,17 +1,24 @@
+#include <atomic>
+#include <chrono>
+#include <csignal>
 #include <cstdio>
 #include <sstream>
+#include <unistd.h>
 
 #include <nlohmann/json.hpp>
 
 #include "models/plan.hpp"
 #include "models/units.hpp"
 #include "sim/day_summary.hpp"
+#include "sim/delay_draws.hpp"
 #include "sim/simulation.hpp"
+#include "sim/study.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/io/sim_hdf5.hpp"
 #include "tools/knockon/delay_option.hpp"
 #include "tools/knockon/options.hpp"
+#include "tools/knockon/study_output.hpp"
 
 namespace knockon::cli {
 namespace {
@@ -70,7 +77,7 @@ nlohmann::json summary_json(const Scenario& sc, const SimResult& r, const DaySum
                                {"scheduled_arrival", num(t.scheduled_arrival)},
                                {"scheduled_departure", num(t.scheduled_departure)}, {"arrival", num(t.arrival)},
                                {"departure", num(t.departure)}, {"arrival_delay", num(t.arrival_delay)},
-                               {"departure_delay", num(t.departure_delay)}});
+                               {"departure_delay", num(t.departure_delay)}, {"knock_on", t.knock_on}});
     for (const RouteRecord& rr : r.routes)
         j["routes"].push_back({{"train", r.train_ids[rr.train]}, {"entry_signal", rr.entry_signal},
                                {"exit_signal", rr.exit_signal}, {"requested", num(rr.requested)},
@@ -79,6 +86,57 @@ nlohmann::json summary_json(const Scenario& sc, const SimResult& r, const DaySum
     for (const HoldRecord& h : r.holds)
         j["holds"].push_back({{"train", r.train_ids[h.train]}, {"signal", h.signal}, {"from", h.from}, {"to", h.to}});
     return j;
+}
+
+volatile std::sig_atomic_t g_interrupted = 0;
+std::atomic<bool> g_stop{false};
+extern "C" void on_interrupt(int) {
+    g_interrupted = 1;
+    g_stop.store(true);
+}
+
+int run_study_command(const po::variables_map& vm, const Scenario& scenario, const std::vector<TrainPlan>& plan,
+                      const SimOptions& so, const std::string& command_line) {
+    StudyOptions opt;
+    opt.replications = vm["replications"].as<std::uint32_t>();
+    if (opt.replications == 0) throw UsageError("--replications must be at least 1");
+    opt.threads = vm["threads"].as<unsigned>();
+    if (opt.threads == 0 || opt.threads > 256) throw UsageError("--threads must be between 1 and 256");
+    if (vm.count("until-ci")) {
+        const double x = vm["until-ci"].as<double>();
+        if (!(x > 0.0)) throw UsageError("--until-ci must be a positive number of minutes");
+        opt.until_ci = 60.0 * x;
+    }
+    opt.sim = so;
+    const std::uint64_t seed = vm["seed"].as<std::uint64_t>();
+    if (scenario.delays.empty())
+        std::fprintf(stderr, "knockon simulate: note: the scenario has no `delays:` section, so every day is the same\n");
+    opt.draw = [&](std::uint32_t k) { return draw_delays(scenario.delays, scenario.infrastructure, plan, seed, k); };
+
+    // Progress on stderr only when it is a terminal, a few times a second at most.
+    const bool tty = ::isatty(2);
+    const auto t0 = std::chrono::steady_clock::now();
+    opt.progress = [&](std::uint32_t done, std::uint32_t planned) {
+        if (!tty) return;
+        const double el = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+        const double rate = el > 0 ? done / el : 0.0;
+        const double eta = rate > 0 ? (planned - done) / rate : 0.0;
+        std::fprintf(stderr, "\r%u/%u days  %.1f/s  ETA %.0f s   ", done, planned, rate, eta);
+        if (done == planned) std::fprintf(stderr, "\n");
+    };
+    opt.stop = &g_stop;
+    auto previous = std::signal(SIGINT, on_interrupt);
+    SimModel model(scenario.infrastructure, plan);
+    StudyResult study = run_study(model, opt);
+    std::signal(SIGINT, previous);
+    if (tty) std::fprintf(stderr, "\n");
+    StudySummary summary = summarize_study(study, opt.thresholds);
+    StudyRunInfo info{seed, opt.threads, command_line};
+    if (vm.count("json"))
+        std::printf("%s\n", study_json(scenario, study, summary, info).dump(1).c_str());
+    else
+        std::fputs(study_text(scenario, study, summary, info).c_str(), stdout);
+    return g_interrupted ? 130 : 0;
 }
 
 }  // namespace
@@ -94,7 +152,13 @@ int simulate(const std::vector<std::string>& args) {
         "order", po::value<std::string>()->default_value("timetable"),
         "route-setting order at conflicts: timetable or first-come")(
         "sample", po::value<double>()->default_value(0.0), "record trajectories every this many seconds (0: none)")(
-        "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]");
+        "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]")(
+        "replications", po::value<std::uint32_t>(), "run a Monte Carlo study of this many days with drawn primary delays")(
+        "seed", po::value<std::uint64_t>()->default_value(1), "random seed of the study")(
+        "threads", po::value<unsigned>()->default_value(1), "threads for the study (results do not depend on it)")(
+        "until-ci", po::value<double>(),
+        "go on until the 95 % CI half-width of the mean knock-on per day is below this many minutes "
+        "(--replications is then the cap)");
     po::variables_map vm;
     if (!parse_command_line("simulate", args, options, vm)) return 0;
     SimOptions so;
@@ -109,6 +173,11 @@ int simulate(const std::vector<std::string>& args) {
 
     Scenario scenario = read_scenario(vm["scenario"].as<std::string>());
     std::vector<TrainPlan> plan = plan_trains(scenario, so.run);
+    if (vm.count("replications")) {
+        if (vm.count("delay")) throw UsageError("--delay is for a single day; a study draws its delays from the scenario");
+        return run_study_command(vm, scenario, plan, so, command_line);
+    }
+    if (vm.count("until-ci")) throw UsageError("--until-ci needs --replications (the cap)");
     InjectedDelays delays = parse_delays(
         vm.count("delay") ? vm["delay"].as<std::vector<std::string>>() : std::vector<std::string>{}, plan);
     SimModel model(scenario.infrastructure, plan);

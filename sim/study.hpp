@@ -1,0 +1,115 @@
+#pragma once
+// Monte Carlo delay-propagation study: many independent simulated days with drawn primary
+// delays, run on several threads, reduced in replication order so that the result is
+// bit-identical whatever the thread count.
+#include <atomic>
+#include <cstdint>
+#include <functional>
+#include <map>
+#include <string>
+#include <vector>
+
+#include "sim/simulation.hpp"
+
+namespace knockon {
+
+// What one simulated day contributes to the study.
+struct ReplicationStats {
+    std::uint32_t replication = 0;
+    bool deadlocked = false;
+    std::uint64_t events = 0, block_passages = 0;
+    double total_primary = 0.0;      // primary delay injected into all trains [s]
+    double total_knock_on = 0.0;     // knock-on (secondary) delay of all trains [s]
+    double mean_arrival_delay = 0.0; // over arrivals and passes, early counted as 0 [s]
+    std::vector<double> punctuality; // share of arrivals within each threshold
+    std::vector<float> arrival_delay;   // per timing record (SimResult::timing order) [s]; NaN: not reached
+    std::vector<float> knock_on;        // per timing record [s]
+    std::vector<float> train_primary, train_knock_on, train_final_delay;   // per train [s]
+    std::map<std::string, double> held;   // signal id -> time trains stood at it [s]
+    std::vector<float> section_blocked;   // per section: as-run blocked time [s]
+};
+
+ReplicationStats replication_stats(const SimResult& day, const InjectedDelays& delays,
+                                   const std::vector<double>& thresholds, std::uint32_t replication);
+
+struct StudyOptions {
+    std::uint32_t replications = 100;
+    unsigned threads = 1;
+    double until_ci = 0.0;              // >0: go on until the 95 % CI half-width of the mean total
+                                        // knock-on per day is below this [s] (replications = cap)
+    std::uint32_t batch = 50;           // replications between checks of until_ci / stop
+    std::vector<double> thresholds = {180.0, 300.0};
+    SimOptions sim;
+    // The primary delays of one replication (draws keyed by seed and replication).
+    std::function<InjectedDelays(std::uint32_t replication)> draw;
+    // Called on the calling thread, in replication order, for the replications whose traces are
+    // wanted (trace(k) true): e.g. to stream them to a file.
+    std::function<bool(std::uint32_t replication)> trace;
+    std::function<void(std::uint32_t replication, const SimResult& day)> on_trace;
+    // Progress (done, planned), called on the calling thread after each batch.
+    std::function<void(std::uint32_t done, std::uint32_t planned)> progress;
+    const std::atomic<bool>* stop = nullptr;   // set (e.g. by Ctrl-C): finish the batch, then stop
+};
+
+struct StudyResult {
+    std::vector<ReplicationStats> replications;   // in replication order, 0..n-1
+    bool partial = false;                         // stopped before the planned replications
+    std::vector<std::string> train_ids, section_names;
+    std::vector<TimingRecord> timing_template;    // scheduled times, stations (from replication 0)
+};
+
+StudyResult run_study(const SimModel& model, const StudyOptions& options);
+
+// ---- Statistics across replications ----------------------------------------------------------
+
+struct Estimate {
+    double mean = 0.0;
+    double half_width = 0.0;         // of the 95 % confidence interval; 0 with one value
+    double lower = 0.0, upper = 0.0; // the interval itself (not always symmetric: see shares)
+    std::size_t n = 0;
+};
+Estimate estimate_mean(const std::vector<double>& values);
+// Share of successes with the 95 % Wilson score interval (lower, upper); half_width is half its width.
+Estimate estimate_share(std::size_t successes, std::size_t n);
+
+struct Quantiles {
+    double p50 = 0.0, p90 = 0.0, p95 = 0.0, max = 0.0;
+};
+Quantiles quantiles(std::vector<double> values);   // linear interpolation between order statistics
+
+struct TimingPointStats {
+    std::uint32_t train = 0;
+    std::string station;
+    bool stops = true;
+    std::size_t reached = 0;            // replications in which the train got there
+    Estimate delay;                     // arrival delay, early counted as 0
+    Estimate knock_on;                  // knock-on gathered on the way here and waiting to leave
+    Quantiles delay_quantiles;
+    std::vector<Estimate> punctuality;  // per threshold: share within
+};
+
+struct TrainStats {
+    std::uint32_t train = 0;
+    Estimate primary, knock_on, final_delay;
+};
+
+struct SignalStats {
+    std::string signal;
+    Estimate held;   // time trains stood at it, per day [s]
+};
+
+struct StudySummary {
+    std::size_t replications = 0, deadlocked = 0;
+    std::vector<double> thresholds;
+    Estimate total_primary, total_knock_on, mean_arrival_delay;
+    double knock_on_ratio = 0.0;        // mean knock-on / mean primary per day
+    std::vector<Estimate> punctuality;  // per threshold, per-day shares averaged
+    std::vector<TimingPointStats> timing_points;
+    std::vector<TrainStats> trains;
+    std::vector<SignalStats> signals;   // largest mean held time first
+    std::vector<Estimate> section_blocked_share;   // per section: share of the day blocked
+};
+
+StudySummary summarize_study(const StudyResult& study, const std::vector<double>& thresholds);
+
+}  // namespace knockon
