@@ -82,6 +82,24 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
             }
             tr.routes.push_back(std::move(r));
         }
+        for (const RunLeg& leg : tp.run.legs) {
+            const Trajectory& lt = leg.trajectory;
+            double b_min = kInf;
+            for (std::size_t j = 0; j < lt.v.size(); ++j) {
+                const double sj = std::min(lt.s0 + static_cast<double>(j) * lt.step, lt.s_end);
+                b_min = std::min(b_min, braking_deceleration(*tp.run.type, lt.v[j], path.gradient_at(sj)));
+            }
+            const double margin = 2.0 * lt.step + 1.0;
+            std::vector<double> reach(lt.v.size());
+            double run_max = -kInf;
+            for (std::size_t j = 0; j < lt.v.size(); ++j) {
+                const double sj = std::min(lt.s0 + static_cast<double>(j) * lt.step, lt.s_end);
+                const double d = lt.v[j] > 0.0 ? lt.v[j] * lt.v[j] / (2.0 * b_min) + margin : 0.0;
+                run_max = std::max(run_max, sj + d);
+                reach[j] = run_max;
+            }
+            tr.leg_reach.push_back(std::move(reach));
+        }
         for (const SectionBlocking& b : tp.stairway.sections) {
             std::uint32_t s = section_of(b.section);
             if (starts.size() <= s) starts.resize(s + 1);
@@ -116,6 +134,7 @@ enum Kind : std::uint32_t {
     kRequest,
     kArrive,
     kExit,
+    kBrakePoint,   // a train following its planned leg must start braking for its authority
 };
 
 // Phases order simultaneous events: releases before grants, authority before motion.
@@ -126,6 +145,7 @@ std::uint8_t phase_of(Kind k) {
         case kAuthorityCheck: return 2;
         case kRequest: return 3;
         case kAppear: return 4;
+        case kBrakePoint: return 5;
         case kDepartReady: return 5;
         default: return 6;
     }
@@ -143,9 +163,13 @@ private:
 
     struct TrainState {
         Phase phase = Phase::waiting;
-        double t0 = 0.0;            // start of the current trajectory
-        Trajectory traj;
-        bool free_end = false;      // the trajectory runs out over the line end
+        double t0 = 0.0;            // when the current motion started (its time 0)
+        // The motion: a planned leg followed as planned (no integration needed) while the
+        // authority allows, else integrated from the train's state (`own`).
+        long leg = -1;              // planned leg followed, or -1
+        Trajectory own;
+        double brake_from = kInf;   // on a planned leg: where braking for the authority would begin
+        bool free_end = false;      // the motion runs out over the line end
         double s_stand = 0.0;
         double stand_since = 0.0;
         double eoa = 0.0;           // end of the authority the driver knows
@@ -213,6 +237,12 @@ private:
         const Call& call = run.service->calls[run.calls[tp].call];
         return (call.min_dwell ? *call.min_dwell : run.type->min_dwell) + delay_of(delays_.dwell, t, run.calls[tp].call);
     }
+    const Trajectory& traj(std::uint32_t t) const {
+        const TrainState& s = st_[t];
+        return s.leg >= 0 ? run_of(t).legs[static_cast<std::size_t>(s.leg)].trajectory : s.own;
+    }
+    bool start_leg(std::uint32_t t, double s_now);
+    void set_brake_point(std::uint32_t t);
     double head_position(std::uint32_t t) const;
     double head_speed(std::uint32_t t) const;
     double time_at_head(std::uint32_t t, double s) const;   // NaN: not on the current motion
@@ -221,7 +251,9 @@ private:
 
     void schedule_points(std::uint32_t t);
     void schedule_point(std::uint32_t t, Kind kind);
-    void replan(std::uint32_t t);
+    // Recomputes the motion after the authority or the state changed.  A train on a planned leg
+    // stays on it while the authority allows (leave_leg: it must not).
+    void replan(std::uint32_t t, bool leave_leg = false);
     void sample_until(std::uint32_t t, double until);
 
     long record_for(std::uint32_t t, std::size_t k);
@@ -295,28 +327,28 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
 double Day::head_position(std::uint32_t t) const {
     const TrainState& s = st_[t];
     if (s.phase != Phase::moving) return s.s_stand;
-    if (s.traj.v.size() <= 1) return s.traj.s0;
+    if (traj(t).v.size() <= 1) return traj(t).s0;
     double dt = now_ - s.t0;
-    if (s.free_end && dt > s.traj.duration())
-        return s.traj.s_end + (dt - s.traj.duration()) * s.traj.v.back();
-    return s.traj.position_at(dt);
+    if (s.free_end && dt > traj(t).duration())
+        return traj(t).s_end + (dt - traj(t).duration()) * traj(t).v.back();
+    return traj(t).position_at(dt);
 }
 
 double Day::head_speed(std::uint32_t t) const {
     const TrainState& s = st_[t];
     if (s.phase != Phase::moving) return 0.0;
     double pos = head_position(t);
-    if (pos >= s.traj.s_end || s.traj.v.size() <= 1) return s.traj.v.back();
-    return s.traj.speed_at(pos);
+    if (pos >= traj(t).s_end || traj(t).v.size() <= 1) return traj(t).v.back();
+    return traj(t).speed_at(pos);
 }
 
 double Day::time_at_head(std::uint32_t t, double p) const {
     const TrainState& s = st_[t];
     if (s.phase == Phase::standing) return p <= s.s_stand + kEps ? now_ : kNoTime;
     if (s.phase != Phase::moving) return kNoTime;
-    if (p <= s.traj.s0 + kEps) return now_;
-    if (p <= s.traj.s_end + kEps) return s.t0 + s.traj.time_at(std::min(p, s.traj.s_end));
-    if (s.free_end) return s.t0 + s.traj.duration() + (p - s.traj.s_end) / std::max(s.traj.v.back(), 0.1);
+    if (p <= traj(t).s0 + kEps) return now_;
+    if (p <= traj(t).s_end + kEps) return s.t0 + traj(t).time_at(std::min(p, traj(t).s_end));
+    if (s.free_end) return s.t0 + traj(t).duration() + (p - traj(t).s_end) / std::max(traj(t).v.back(), 0.1);
     return kNoTime;
 }
 
@@ -334,9 +366,9 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
     if (r.after_stop >= 0) {
         const PlannedCall& c = run_of(t).calls[r.after_stop];
         if (s.phase == Phase::standing && s.stop_call == r.after_stop) return s.ready_time - lead;
-        if (s.phase == Phase::moving && std::fabs(s.traj.s_end - c.s) < kEps && !s.free_end) {
+        if (s.phase == Phase::moving && std::fabs(traj(t).s_end - c.s) < kEps && !s.free_end) {
             // Heading for that stop: ready when both the schedule and the dwell allow.
-            const double arrival = s.t0 + s.traj.duration();
+            const double arrival = s.t0 + traj(t).duration();
             return std::max(c.scheduled_departure, arrival + dwell_at(t, r.after_stop)) - lead;
         }
         if (s.next_call > static_cast<std::size_t>(r.after_stop)) return now_;  // already left it
@@ -414,7 +446,7 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
 void Day::schedule_points(std::uint32_t t) {
     for (Kind k : {kEnter, kLeave, kClear, kSight, kPass, kCall, kRequest}) schedule_point(t, k);
     const TrainState& s = st_[t];
-    if (s.phase == Phase::moving) push(s.t0 + s.traj.duration(), s.free_end ? kExit : kArrive, t);
+    if (s.phase == Phase::moving) push(s.t0 + traj(t).duration(), s.free_end ? kExit : kArrive, t);
 }
 
 void Day::sample_until(std::uint32_t t, double until) {
@@ -429,12 +461,12 @@ void Day::sample_until(std::uint32_t t, double until) {
         double pos, v;
         if (s.phase == Phase::moving) {
             double rel = time - s.t0;
-            if (s.free_end && rel > s.traj.duration()) {
-                v = s.traj.v.back();
-                pos = s.traj.s_end + (rel - s.traj.duration()) * v;
+            if (s.free_end && rel > traj(t).duration()) {
+                v = traj(t).v.back();
+                pos = traj(t).s_end + (rel - traj(t).duration()) * v;
             } else {
-                pos = s.traj.position_at(rel);
-                v = s.traj.speed_at(pos);
+                pos = traj(t).position_at(rel);
+                v = traj(t).speed_at(pos);
             }
         } else {
             pos = s.s_stand;
@@ -448,9 +480,50 @@ void Day::sample_until(std::uint32_t t, double until) {
     for (double time = first; time <= until + 1e-9; time += dt) add(time);
 }
 
-void Day::replan(std::uint32_t t) {
+void Day::set_brake_point(std::uint32_t t) {
+    TrainState& s = st_[t];
+    const Trajectory& leg = traj(t);
+    const auto& reach = train(t).leg_reach[static_cast<std::size_t>(s.leg)];
+    const auto it = std::upper_bound(reach.begin(), reach.end(), s.eoa);
+    if (it == reach.end()) {
+        s.brake_from = kInf;
+        return;
+    }
+    const std::size_t j = static_cast<std::size_t>(it - reach.begin());
+    s.brake_from = j == 0 ? leg.s0 : std::min(leg.s0 + static_cast<double>(j - 1) * leg.step, leg.s_end);
+}
+
+bool Day::start_leg(std::uint32_t t, double s_now) {
+    // The planned leg that starts here, if the train is to run it as planned (no slow running).
     TrainState& s = st_[t];
     const ServiceRun& run = run_of(t);
+    for (std::size_t k = 0; k < run.legs.size(); ++k) {
+        const Trajectory& lt = run.legs[k].trajectory;
+        if (std::fabs(lt.s0 - s_now) > kEps) continue;
+        for (const SlowStretch& sl : slow_[t])
+            if (sl.to > lt.s0 + kEps && sl.from < lt.s_end) return false;
+        s.leg = static_cast<long>(k);
+        s.t0 = now_;
+        s.free_end = k + 1 == run.legs.size() && run.path.ends_at_edge;
+        s.phase = Phase::moving;
+        return true;
+    }
+    return false;
+}
+
+void Day::replan(std::uint32_t t, bool leave_leg) {
+    TrainState& s = st_[t];
+    const ServiceRun& run = run_of(t);
+    if (s.phase == Phase::moving && s.leg >= 0 && !leave_leg) {
+        set_brake_point(t);
+        if (s.brake_from > head_position(t) + kPositionTolerance) {
+            // Still free to run the plan: only the points ahead need rescheduling.
+            generations_.bump(motion_entity(t));
+            schedule_points(t);
+            if (s.brake_from < traj(t).s_end) push(time_at_head(t, s.brake_from), kBrakePoint, t);
+            return;
+        }
+    }
     const double s_now = head_position(t);
     const double v_now = head_speed(t);
     sample_until(t, now_);
@@ -478,7 +551,8 @@ void Day::replan(std::uint32_t t) {
             ro.slow_factor = sl.factor;
             break;
         }
-    s.traj = run_leg(*run.type, run.path, s_now, v_now, std::max(target, s_now), !free, ro);
+    s.leg = -1;
+    s.own = run_leg(*run.type, run.path, s_now, v_now, std::max(target, s_now), !free, ro);
     s.t0 = now_;
     s.free_end = free;
     s.phase = Phase::moving;
@@ -571,12 +645,17 @@ void Day::try_appear(std::uint32_t t) {
             out_.timing[timing_index_[t][0]].knock_on += std::max(0.0, now_ - due);
             s.last_departure = now_;
         }
-        // Motion starts at entry speed; authority is read at once (signals in sight).
+        // Motion starts at entry speed on the planned first leg; authority is read at once
+        // (signals in sight), and the motion follows from it.
         generations_.bump(motion_entity(t));
-        s.traj = Trajectory{};
-        s.traj.s0 = s.traj.s_end = 0.0;
-        s.traj.v = {run.entry_speed};
-        s.traj.t = {0.0};
+        if (!start_leg(t, 0.0)) {
+            s.leg = -1;
+            s.own = Trajectory{};
+            s.own.s0 = s.own.s_end = 0.0;
+            s.own.v = {run.entry_speed};
+            s.own.t = {0.0};
+            s.free_end = false;
+        }
         check_authority(t);
         if (s.eoa <= kEps) {
             // No authority yet: it must stop at the line end (approximation: it waits outside).
@@ -688,6 +767,8 @@ void Day::depart(std::uint32_t t) {
     s.stop_call = -1;
     s.ready = false;
     s.ready_time = kNoTime;
+    sample_until(t, now_);
+    start_leg(t, s.s_stand);
     replan(t);
 }
 
@@ -695,7 +776,8 @@ void Day::begin_standing(std::uint32_t t) {
     TrainState& s = st_[t];
     const ServiceRun& run = run_of(t);
     sample_until(t, now_);
-    s.s_stand = s.traj.s_end;
+    s.s_stand = traj(t).s_end;
+    s.leg = -1;
     s.phase = Phase::standing;
     s.stand_since = now_;
     const auto& calls = run.calls;
@@ -833,10 +915,11 @@ void Day::handle(const Event& e) {
             break;
         }
         case kArrive: begin_standing(t); break;
+        case kBrakePoint: replan(t, true); break;
         case kExit:
             // Head over the line end: the rest of the train follows at exit speed; the tail
             // clearings are already scheduled by extrapolation.
-            push(now_ + run_of(t).type->length / std::max(s.traj.v.back(), 0.1), kVanish, t);
+            push(now_ + run_of(t).type->length / std::max(traj(t).v.back(), 0.1), kVanish, t);
             break;
     }
 }

@@ -57,6 +57,11 @@ public:
         const TrainPlan* plan = nullptr;
         std::vector<Route> routes;
         std::vector<std::uint32_t> section_index;   // per path section: global index
+        // Per planned leg and grid point j: the largest s_i + D(v_i) over i <= j, where D is a
+        // braking distance on the safe side.  A train following the leg as planned with its
+        // authority ending at E need not leave the plan before the first point where this
+        // exceeds E: up to there the planned motion stands, and the engine integrates nothing.
+        std::vector<std::vector<double>> leg_reach;
     };
 
     const Infrastructure& infrastructure() const { return infra_; }
