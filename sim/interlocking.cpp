@@ -6,7 +6,7 @@ namespace knockon {
 
 Interlocking::Interlocking(std::size_t sections, RouteOrder order,
                            std::vector<std::vector<std::uint32_t>> planned_order)
-    : order_(order), holder_(sections, kNoTrain), planned_(std::move(planned_order)), next_(sections, 0) {
+    : order_(order), holder_(sections, kNoTrain), out_of_use_(sections, 0), planned_(std::move(planned_order)), next_(sections, 0) {
     planned_.resize(sections);
     done_.resize(sections);
     for (std::size_t k = 0; k < sections; ++k) done_[k].assign(planned_[k].size(), 0);
@@ -15,6 +15,7 @@ Interlocking::Interlocking(std::size_t sections, RouteOrder order,
 std::uint32_t Interlocking::blocker(std::uint32_t train, std::uint32_t section) const {
     const std::uint32_t h = holder_[section];
     if (h == train) return kNoTrain;
+    if (out_of_use_[section]) return kDisruption;
     if (h != kNoTrain) return h;
     if (order_ == RouteOrder::timetable) {
         const auto& plan = planned_[section];

@@ -16,6 +16,8 @@ namespace knockon {
 enum class RouteOrder { timetable, first_come };
 
 inline constexpr std::uint32_t kNoTrain = UINT32_MAX;
+// The "holder" of a section taken out of use by a disruption.
+inline constexpr std::uint32_t kDisruption = UINT32_MAX - 1;
 
 class Interlocking {
 public:
@@ -30,10 +32,15 @@ public:
     // The train gives the section up.  Its place in the planned order is used up.
     void release(std::uint32_t train, std::uint32_t section);
     std::uint32_t holder(std::uint32_t section) const { return holder_[section]; }
+    // A disruption takes the section out of use (nesting allowed); trains already holding it
+    // keep it, but no route through it is granted until it is back.
+    void take_out_of_use(std::uint32_t section) { ++out_of_use_[section]; }
+    void restore(std::uint32_t section) { if (out_of_use_[section]) --out_of_use_[section]; }
 
 private:
     RouteOrder order_;
     std::vector<std::uint32_t> holder_;
+    std::vector<std::uint32_t> out_of_use_;
     std::vector<std::vector<std::uint32_t>> planned_;   // per section, trains in planned order
     std::vector<std::size_t> next_;                     // per section: first planned train not yet done
     std::vector<std::vector<std::uint8_t>> done_;       // per section, per planned slot: released

@@ -135,6 +135,8 @@ enum Kind : std::uint32_t {
     kArrive,
     kExit,
     kBrakePoint,   // a train following its planned leg must start braking for its authority
+    kDisruptionStart,   // not a train's: payload indexes InjectedDelays::blocked
+    kDisruptionEnd,
 };
 
 // Phases order simultaneous events: releases before grants, authority before motion.
@@ -146,12 +148,14 @@ std::uint8_t phase_of(Kind k) {
         case kRequest: return 3;
         case kAppear: return 4;
         case kBrakePoint: return 5;
+        case kDisruptionEnd: return 0;
+        case kDisruptionStart: return 0;
         case kDepartReady: return 5;
         default: return 6;
     }
 }
 
-bool is_motion(Kind k) { return k >= kEnter; }
+bool is_motion(Kind k) { return k >= kEnter && k <= kBrakePoint; }
 
 class Day {
 public:
@@ -212,6 +216,7 @@ private:
     SimResult out_;
     std::vector<std::vector<long>> timing_index_;   // [train][call] -> out_.timing
     std::vector<std::vector<SlowStretch>> slow_;     // [train]
+    std::vector<std::vector<std::uint32_t>> disrupted_;   // per InjectedDelays::blocked entry: sections
     double now_ = 0.0;
     std::uint32_t trace_ = kNoTrain;   // KNOCKON_TRACE=<train id>: print its events (debugging aid)
 
@@ -221,7 +226,7 @@ private:
     std::uint32_t fixed_entity(std::uint32_t t) const { return 2 * t + 1; }
 
     void push(double time, Kind kind, std::uint32_t t, std::uint32_t payload = 0) {
-        std::uint32_t entity = is_motion(kind) ? motion_entity(t) : fixed_entity(t);
+        std::uint32_t entity = t == kNoTrain ? no_entity : is_motion(kind) ? motion_entity(t) : fixed_entity(t);
         SimTime when = SimTime::from_seconds(std::max(time, now_));
         if (when < queue_.now()) when = queue_.now();
         queue_.push(when, phase_of(kind), kind, entity, generations_.current(entity), payload);
@@ -321,6 +326,18 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
         push(run.appear_time + entry, kAppear, t);
         // A train entering over the line end asks for its first routes before it comes in.
         if (run.path.starts_at_edge) schedule_point(t, kRequest);
+    }
+    // Disruptions: sections out of use over their drawn interval (unknown sections: no train
+    // uses them, so they cannot matter).
+    std::map<std::string, std::uint32_t> index;
+    for (std::uint32_t k = 0; k < out_.section_names.size(); ++k) index[out_.section_names[k]] = k;
+    for (std::uint32_t b = 0; b < delays.blocked.size(); ++b) {
+        disrupted_.emplace_back();
+        auto it = index.find(delays.blocked[b].section);
+        if (it == index.end() || !(delays.blocked[b].to > delays.blocked[b].from)) continue;
+        disrupted_.back().push_back(it->second);
+        push(delays.blocked[b].from, kDisruptionStart, kNoTrain, b);
+        push(delays.blocked[b].to, kDisruptionEnd, kNoTrain, b);
     }
 }
 
@@ -814,6 +831,14 @@ void Day::vanish(std::uint32_t t) {
 }
 
 void Day::handle(const Event& e) {
+    if (e.entity == no_entity) {
+        for (std::uint32_t g : disrupted_[e.payload]) {
+            if (e.kind == kDisruptionStart) interlocking_.take_out_of_use(g);
+            else interlocking_.restore(g);
+        }
+        if (e.kind == kDisruptionEnd) grant_pending();
+        return;
+    }
     const std::uint32_t t = e.entity / 2;
     TrainState& s = st_[t];
     const TrainPath& path = run_of(t).path;
@@ -943,6 +968,10 @@ void Day::report_deadlock() {
             for (std::uint32_t g : secs) {
                 std::uint32_t b = interlocking_.blocker(t, g);
                 if (b == kNoTrain) continue;
+                if (b == kDisruption) {
+                    msg << "; section " << model_.section_names()[g] << " out of use (disruption)";
+                    continue;
+                }
                 msg << "; section " << model_.section_names()[g] << " held by or promised to train "
                     << run_of(b).service->id;
             }
@@ -958,7 +987,7 @@ SimResult Day::run() {
     Event e;
     while (queue_.pop_current(e, generations_)) {
         now_ = e.time.to_seconds();
-        if (trace_ != kNoTrain && e.entity / 2 == trace_)
+        if (trace_ != kNoTrain && e.entity != no_entity && e.entity / 2 == trace_)
             std::fprintf(stderr, "%.3f kind %u payload %u phase %d s=%.1f eoa=%.1f req=%zu pend=%d\n", now_, e.kind, e.payload,
                          static_cast<int>(st_[trace_].phase), head_position(trace_), st_[trace_].eoa,
                          st_[trace_].next_request, (int)st_[trace_].request_pending);
