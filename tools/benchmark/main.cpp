@@ -1,0 +1,105 @@
+// knockon_benchmark: speed and memory of a Monte Carlo study of a scenario (default: the demo).
+//
+//   knockon_benchmark [SCENARIO] [--replications N] [--threads T]
+//
+// Runs the same study on 1 thread and on T threads and prints replications per second, simulated
+// train-km and block passages per CPU-second, events per second, the speed-up, and the peak
+// resident memory.  Speed targets are checked here, never by timed unit tests.
+#include <sys/resource.h>
+
+#include <chrono>
+#include <cstdio>
+#include <cstdlib>
+#include <cstring>
+#include <ctime>
+#include <string>
+
+#include "models/plan.hpp"
+#include "sim/delay_draws.hpp"
+#include "sim/study.hpp"
+#include "tools/io/scenario_reader.hpp"
+
+namespace {
+
+double cpu_seconds() {
+    timespec ts{};
+    clock_gettime(CLOCK_PROCESS_CPUTIME_ID, &ts);
+    return static_cast<double>(ts.tv_sec) + 1e-9 * static_cast<double>(ts.tv_nsec);
+}
+
+struct Measure {
+    double wall = 0.0, cpu = 0.0;
+    std::uint64_t events = 0, passages = 0;
+    std::size_t replications = 0;
+};
+
+Measure run(const knockon::SimModel& model, const knockon::Scenario& sc, const std::vector<knockon::TrainPlan>& plan,
+            std::uint32_t replications, unsigned threads) {
+    knockon::StudyOptions opt;
+    opt.replications = replications;
+    opt.threads = threads;
+    opt.draw = [&](std::uint32_t k) { return knockon::draw_delays(sc.delays, sc.infrastructure, plan, 1, k); };
+    const double c0 = cpu_seconds();
+    const auto w0 = std::chrono::steady_clock::now();
+    knockon::StudyResult r = knockon::run_study(model, opt);
+    Measure m;
+    m.wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - w0).count();
+    m.cpu = cpu_seconds() - c0;
+    m.replications = r.replications.size();
+    for (const auto& rep : r.replications) {
+        m.events += rep.events;
+        m.passages += rep.block_passages;
+    }
+    return m;
+}
+
+}  // namespace
+
+int main(int argc, char** argv) {
+    std::string file = KNOCKON_SOURCE_DIR "/scenarios/demo.yaml";
+    std::uint32_t replications = 200;
+    unsigned threads = 2;
+    for (int i = 1; i < argc; ++i) {
+        if (!std::strcmp(argv[i], "--replications") && i + 1 < argc) replications = std::atoi(argv[++i]);
+        else if (!std::strcmp(argv[i], "--threads") && i + 1 < argc) threads = std::atoi(argv[++i]);
+        else if (argv[i][0] != '-') file = argv[i];
+        else {
+            std::fprintf(stderr, "usage: knockon_benchmark [SCENARIO] [--replications N] [--threads T]\n");
+            return 2;
+        }
+    }
+    if (replications == 0 || threads == 0) {
+        std::fprintf(stderr, "knockon_benchmark: --replications and --threads must be positive\n");
+        return 2;
+    }
+    try {
+        const knockon::Scenario sc = knockon::read_scenario(file);
+        const std::vector<knockon::TrainPlan> plan = knockon::plan_trains(sc);
+        const knockon::SimModel model(sc.infrastructure, plan);
+        double train_km = 0.0;   // per simulated day
+        for (const auto& tp : plan) train_km += tp.run.path.length / 1000.0;
+
+        std::printf("knockon_benchmark: %s, %u replications, %zu trains, %.0f train-km per day\n", file.c_str(),
+                    replications, plan.size(), train_km);
+        const Measure one = run(model, sc, plan, replications, 1);
+        const Measure many = run(model, sc, plan, replications, threads);
+        auto report = [&](const char* label, const Measure& m) {
+            std::printf("%-10s %8.1f replications/s  %10.0f train-km/CPU-s  %10.0f block passages/CPU-s  "
+                        "%11.0f events/s  (wall %.2f s, CPU %.2f s)\n",
+                        label, m.replications / m.wall, train_km * m.replications / m.cpu, m.passages / m.cpu,
+                        m.events / m.wall, m.wall, m.cpu);
+        };
+        report("1 thread", one);
+        char label[32];
+        std::snprintf(label, sizeof label, "%u threads", threads);
+        report(label, many);
+        std::printf("speed-up %u threads / 1 thread: %.2fx\n", threads, one.wall / many.wall);
+        rusage ru{};
+        getrusage(RUSAGE_SELF, &ru);
+        std::printf("peak resident memory: %.1f MB\n", ru.ru_maxrss / 1024.0);
+    } catch (const std::exception& e) {
+        std::fprintf(stderr, "knockon_benchmark: %s\n", e.what());
+        return 1;
+    }
+    return 0;
+}
