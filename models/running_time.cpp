@@ -166,6 +166,13 @@ double balancing_speed(const TrainType& type, double gradient) {
 
 Trajectory run_leg(const TrainType& type, const TrainPath& path, double s_start, double v_start, double s_end,
                    bool stop_at_end, const RunOptions& options) {
+    Trajectory tr;
+    run_leg_into(tr, type, path, s_start, v_start, s_end, stop_at_end, options);
+    return tr;
+}
+
+void run_leg_into(Trajectory& tr, const TrainType& type, const TrainPath& path, double s_start, double v_start,
+                  double s_end, bool stop_at_end, const RunOptions& options) {
     check_type(type);
     if (!path.infrastructure || path.pieces.empty())
         throw std::invalid_argument("running time for " + describe(type) + ": the path has no track");
@@ -181,7 +188,6 @@ Trajectory run_leg(const TrainType& type, const TrainPath& path, double s_start,
     if (!(v_start >= 0.0) || !std::isfinite(v_start))
         throw std::invalid_argument("running time for " + describe(type) + ": start speed must not be negative");
 
-    Trajectory tr;
     tr.s0 = s_start;
     tr.step = options.step;
     tr.s_end = s_end;
@@ -195,7 +201,7 @@ Trajectory run_leg(const TrainType& type, const TrainPath& path, double s_start,
     tr.t.assign(cells + 1, 0.0);
     if (cells == 0) {
         tr.v[0] = stop_at_end ? 0.0 : std::min(v_start, std::min(path.speed_limit_at(s_start), type.max_speed));
-        return tr;
+        return;
     }
 
     // Static limits (tail rule) into v, gradients per cell at the cell's middle (the train is
@@ -248,7 +254,6 @@ Trajectory run_leg(const TrainType& type, const TrainPath& path, double s_start,
         v[i + 1] = v1;
         tr.t[i + 1] = tr.t[i] + 2.0 * ds / (v0 + v1);
     }
-    return tr;
 }
 
 // --- Trajectory look-ups -------------------------------------------------------------------

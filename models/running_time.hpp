@@ -40,6 +40,10 @@ struct Trajectory {
 Trajectory run_leg(const TrainType& type, const TrainPath& path, double s_start, double v_start,
                    double s_end, bool stop_at_end, const RunOptions& options = {});
 
+// The same, written into `out` so that its buffers are reused (the simulation's hot path).
+void run_leg_into(Trajectory& out, const TrainType& type, const TrainPath& path, double s_start, double v_start,
+                  double s_end, bool stop_at_end, const RunOptions& options = {});
+
 // Effective deceleration of service braking at speed v on gradient g (positive = climbing).
 double braking_deceleration(const TrainType& type, double v, double gradient);
 // Distance to stop from speed v: v * brake_delay + braking distance on constant gradient g.

@@ -286,6 +286,15 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
     const auto& trains = model.trains();
     st_.resize(trains.size());
     out_.section_names = model.section_names();
+    std::size_t calls = 0, sections = 0, routes = 0;
+    for (const SimModel::Train& tr : trains) {
+        calls += tr.plan->run.calls.size();
+        sections += tr.plan->stairway.sections.size();
+        routes += tr.routes.size();
+    }
+    out_.timing.reserve(calls);
+    out_.sections.reserve(sections + sections / 8);
+    out_.routes.reserve(routes);
     timing_index_.resize(trains.size());
     for (std::uint32_t t = 0; t < trains.size(); ++t) {
         const ServiceRun& run = run_of(t);
@@ -569,7 +578,7 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
             break;
         }
     s.leg = -1;
-    s.own = run_leg(*run.type, run.path, s_now, v_now, std::max(target, s_now), !free, ro);
+    run_leg_into(s.own, *run.type, run.path, s_now, v_now, std::max(target, s_now), !free, ro);
     s.t0 = now_;
     s.free_end = free;
     s.phase = Phase::moving;
