@@ -5,6 +5,7 @@
 #include <vector>
 
 #include "models/infrastructure.hpp"
+#include "models/primary_delay_model.hpp"
 #include "models/timetable.hpp"
 #include "models/train_type.hpp"
 
@@ -21,6 +22,7 @@ struct Scenario {
     Infrastructure infrastructure;
     std::vector<TrainType> train_types;
     Timetable timetable;
+    PrimaryDelayModel delays;   // optional `delays:` section; empty = no primary delays
 
     const TrainType* find_train_type(const std::string& id) const;
 };

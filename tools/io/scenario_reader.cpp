@@ -87,7 +87,8 @@ public:
 
     Scenario parse(const YAML::Node& root) {
         MapFields top(errors_, root, "",
-                      {"knockon", "name", "line_type", "infrastructure", "train_types", "timetable"});
+                      {"knockon", "name", "line_type", "infrastructure", "train_types", "timetable",
+                       "delays"});
         if (!top.ok()) return std::move(sc_);
         if (auto v = top.text("knockon", true)) {
             bool supported = false;
@@ -109,6 +110,7 @@ public:
             read_infrastructure(top.get("infrastructure"), top.path_of("infrastructure"));
         if (auto tt = top.sequence("train_types", true)) read_train_types(top, *tt);
         if (top.require("timetable")) read_timetable(top.get("timetable"), top.path_of("timetable"));
+        if (top.has("delays")) read_delays(top.get("delays"), top.path_of("delays"));
         return std::move(sc_);
     }
 
@@ -1009,6 +1011,270 @@ private:
                 reported[origin[k]] = true;
             }
         }
+    }
+
+    // ---------------------------------------------------------------- primary delays
+
+    void read_delays(const YAML::Node& node, const std::string& path) {
+        MapFields m(errors_, node, path, {"entry", "dwell", "running", "disruptions"});
+        if (!m.ok()) return;
+        read_delay_rules(m, "entry", sc_.delays.entry);
+        read_delay_rules(m, "dwell", sc_.delays.dwell);
+        read_delay_rules(m, "running", sc_.delays.running);
+        read_disruptions(m);
+    }
+
+    // "20 %" for messages.
+    static std::string percent(double share) {
+        char buf[64];
+        std::snprintf(buf, sizeof buf, "%g %%", share * 100.0);
+        return buf;
+    }
+
+    static std::string seconds(double s) {
+        char buf[64];
+        std::snprintf(buf, sizeof buf, "%g s", s);
+        return buf;
+    }
+
+    // A share between 0 % and 100 %.
+    std::optional<double> probability(const MapFields& f, std::string_view key, bool required) {
+        auto v = f.quantity(key, Quantity::share, required);
+        if (v && (*v < 0.0 || *v > 1.0 + 1e-12)) {
+            f.error(key, "must lie between 0 % and 100 %, not " + percent(*v));
+            return std::nullopt;
+        }
+        if (v) *v = std::min(*v, 1.0);
+        return v;
+    }
+
+    void read_delay_rules(const MapFields& m, std::string_view key, std::vector<DelayRule>& out) {
+        auto seq = m.sequence(key, false);
+        if (!seq) return;
+        const std::string path = m.path_of(key);
+        for (std::size_t i = 0; i < seq->size(); ++i) {
+            MapFields f(errors_, std::as_const(*seq)[i], item(path, i),
+                        {"category", "station", "probability", "distribution", "mean", "shape",
+                         "scale", "median", "sigma", "quantiles"});
+            if (!f.ok()) continue;
+            DelayRule rule;
+            bool ok = true;
+            if (f.has("category")) {
+                if (auto c = f.text("category", true))
+                    rule.category = *c;   // free text, as on the services
+                else
+                    ok = false;
+            }
+            if (f.has("station")) {
+                if (auto s = f.text("station", true)) {
+                    rule.station = *s;
+                    if (station_index_.count(*s) == 0) {
+                        f.error("station", "unknown station \"" + *s + "\"; " + known_list(station_ids_));
+                        ok = false;
+                    }
+                } else {
+                    ok = false;
+                }
+            }
+            if (f.has("probability")) {
+                if (auto p = probability(f, "probability", true))
+                    rule.distribution.probability = *p;
+                else
+                    ok = false;
+            }
+            if (!read_distribution(f, rule.distribution)) ok = false;
+            if (ok) out.push_back(std::move(rule));
+        }
+    }
+
+    // `distribution` and the parameters of that kind, no others.
+    bool read_distribution(const MapFields& f, DelayDistribution& d) {
+        auto kind = f.choice("distribution", {"exponential", "weibull", "lognormal", "gamma", "empirical"},
+                             true);
+        if (!kind) return false;
+        std::vector<std::string_view> params;
+        if (*kind == "exponential") {
+            d.kind = DistributionKind::exponential;
+            params = {"mean"};
+        } else if (*kind == "weibull" || *kind == "gamma") {
+            d.kind = *kind == "weibull" ? DistributionKind::weibull : DistributionKind::gamma;
+            params = {"shape", "scale"};
+        } else if (*kind == "lognormal") {
+            d.kind = DistributionKind::lognormal;
+            params = {"median", "sigma"};
+        } else {
+            d.kind = DistributionKind::empirical;
+            params = {"quantiles"};
+        }
+        bool ok = true;
+        std::string takes;
+        for (auto p : params) takes += (takes.empty() ? "" : " and ") + std::string(p);
+        for (std::string_view p : {"mean", "shape", "scale", "median", "sigma", "quantiles"}) {
+            if (f.has(p) && std::find(params.begin(), params.end(), p) == params.end()) {
+                f.error(p, std::string(p) + " does not belong to the " + *kind + " distribution, which takes " +
+                               takes);
+                ok = false;
+            }
+        }
+        auto need = [&](std::string_view key, Quantity q, double& into) {
+            if (auto v = positive(f, key, q, true))
+                into = *v;
+            else
+                ok = false;
+        };
+        switch (d.kind) {
+            case DistributionKind::exponential: need("mean", Quantity::duration, d.mean); break;
+            case DistributionKind::weibull:
+            case DistributionKind::gamma:
+                need("shape", Quantity::dimensionless, d.shape);
+                need("scale", Quantity::duration, d.scale);
+                break;
+            case DistributionKind::lognormal:
+                need("median", Quantity::duration, d.median);
+                need("sigma", Quantity::dimensionless, d.sigma);
+                break;
+            case DistributionKind::empirical:
+                if (!read_quantiles(f, d.quantiles)) ok = false;
+                break;
+        }
+        return ok;
+    }
+
+    // [[p, delay], ...]: p from 0 % to 100 %, strictly increasing; delays not negative, never
+    // decreasing (a quantile function).
+    bool read_quantiles(const MapFields& f, std::vector<std::pair<double, double>>& out) {
+        auto seq = f.sequence("quantiles", true);
+        if (!seq) return false;
+        const std::string path = f.path_of("quantiles");
+        if (seq->size() < 2) {
+            f.error("quantiles", "at least two rows are needed, the first at 0 % and the last at 100 %");
+            return false;
+        }
+        bool ok = true;
+        std::optional<double> prev_p, prev_v;
+        for (std::size_t i = 0; i < seq->size(); ++i) {
+            const YAML::Node row = std::as_const(*seq)[i];
+            const std::string rp = item(path, i);
+            if (!row.IsSequence() || row.size() != 2) {
+                errors_.add(row, rp, "each row is [share, delay], e.g. [50 %, 60 s]");
+                ok = false;
+                continue;
+            }
+            auto p = yamlio::quantity_of(errors_, row[0], item(rp, 0), Quantity::share);
+            auto v = yamlio::quantity_of(errors_, row[1], item(rp, 1), Quantity::duration);
+            if (!p || !v) {
+                ok = false;
+                continue;
+            }
+            // Snap rounding noise at the ends ("100 %" is exactly 1).
+            if (std::abs(*p) < 1e-12) *p = 0.0;
+            if (std::abs(*p - 1.0) < 1e-12) *p = 1.0;
+            if (*p < 0.0 || *p > 1.0) {
+                errors_.add(row[0], item(rp, 0), "must lie between 0 % and 100 %, not " + percent(*p));
+                ok = false;
+            } else if (i == 0 && *p != 0.0) {
+                errors_.add(row[0], item(rp, 0), "the table must start at 0 %, not " + percent(*p));
+                ok = false;
+            } else if (i + 1 == seq->size() && *p != 1.0) {
+                errors_.add(row[0], item(rp, 0), "the table must end at 100 %, not " + percent(*p));
+                ok = false;
+            }
+            if (prev_p && *p <= *prev_p) {
+                errors_.add(row[0], item(rp, 0),
+                            "rows must be sorted by share, strictly increasing: " + percent(*p) +
+                                " follows " + percent(*prev_p));
+                ok = false;
+            }
+            if (*v < 0.0) {
+                errors_.add(row[1], item(rp, 1), "must not be negative");
+                ok = false;
+            } else if (prev_v && *v < *prev_v) {
+                errors_.add(row[1], item(rp, 1),
+                            "delays must not decrease as the share grows: " + seconds(*v) + " follows " +
+                                seconds(*prev_v));
+                ok = false;
+            }
+            prev_p = p;
+            prev_v = v;
+            out.emplace_back(*p, *v);
+        }
+        if (!ok) out.clear();
+        return ok;
+    }
+
+    void read_disruptions(const MapFields& m) {
+        auto seq = m.sequence("disruptions", false);
+        if (!seq) return;
+        const std::string path = m.path_of("disruptions");
+        for (std::size_t i = 0; i < seq->size(); ++i) {
+            MapFields f(errors_, std::as_const(*seq)[i], item(path, i),
+                        {"track", "from", "to", "daily_probability", "distribution", "mean", "shape",
+                         "scale", "median", "sigma", "quantiles", "window"});
+            if (!f.ok()) continue;
+            DisruptionRule rule;
+            auto track = f.text("track", true);
+            auto from = f.quantity("from", Quantity::length, true);
+            auto to = f.quantity("to", Quantity::length, true);
+            auto p = probability(f, "daily_probability", true);
+            bool ok = track && from && to && p;
+            if (from && to && *from >= *to) {
+                f.error("to", "the range must end beyond its start: to " + km(*to) + " is not beyond from " +
+                                  km(*from));
+                ok = false;
+            }
+            if (track) {
+                const Track* tr = track_ref(f, "track", *track);
+                if (tr == nullptr) ok = false;
+                for (std::string_view key : {"from", "to"}) {
+                    const auto& x = key == "from" ? from : to;
+                    if (tr && x && (*x < tr->from - kEps || *x > tr->to + kEps)) {
+                        f.error(key, std::string(key) + " " + km(*x) + " lies off track " + tr->id +
+                                         ", which runs from " + km(tr->from) + " to " + km(tr->to));
+                        ok = false;
+                    }
+                }
+            }
+            if (!read_distribution(f, rule.duration)) ok = false;
+            if (f.has("window") && !read_window(f, rule)) ok = false;
+            if (!ok) continue;
+            rule.track = *track;
+            rule.from = *from;
+            rule.to = *to;
+            rule.daily_probability = *p;
+            sc_.delays.disruptions.push_back(std::move(rule));
+        }
+    }
+
+    // window: ["06:00", "22:00"]: the disruption starts at a time drawn uniformly in it.
+    bool read_window(const MapFields& f, DisruptionRule& rule) {
+        auto seq = f.sequence("window", true);
+        if (!seq) return false;
+        const std::string path = f.path_of("window");
+        if (seq->size() != 2) {
+            f.error("window", "expected two times of day, e.g. [\"06:00\", \"22:00\"]");
+            return false;
+        }
+        std::optional<double> t[2];
+        for (std::size_t k = 0; k < 2; ++k) {
+            const YAML::Node n = std::as_const(*seq)[k];
+            if (auto text = yamlio::scalar_text(errors_, n, item(path, k))) {
+                try {
+                    t[k] = parse_time_of_day(*text);
+                } catch (const UnitError& e) {
+                    errors_.add(n, item(path, k), e.what());
+                }
+            }
+        }
+        if (!t[0] || !t[1]) return false;
+        if (*t[1] <= *t[0]) {
+            errors_.add(std::as_const(*seq)[1], item(path, 1),
+                        "the window must end after it starts: " + format_time_of_day(*t[1]) +
+                            " is not after " + format_time_of_day(*t[0]));
+            return false;
+        }
+        rule.window_from = *t[0];
+        rule.window_to = *t[1];
+        return true;
     }
 
     ErrorList& errors_;

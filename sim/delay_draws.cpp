@@ -1,0 +1,105 @@
+#include "sim/delay_draws.hpp"
+
+#include <algorithm>
+#include <map>
+#include <string>
+#include <utility>
+
+#include "sim/random_stream.hpp"
+
+namespace knockon {
+
+namespace {
+
+const DelayRule* match(const std::vector<DelayRule>& rules, const std::string& category,
+                       const std::string& station) {
+    for (const DelayRule& r : rules) {
+        if (!r.category.empty() && r.category != category) continue;
+        if (!r.station.empty() && r.station != station) continue;
+        return &r;
+    }
+    return nullptr;
+}
+
+// The delay drawn for one place, or 0 when no rule applies.
+double draw_at(const RandomStream& rng, StreamKind kind, const std::vector<DelayRule>& rules,
+               const std::string& category, const std::string& station, std::uint32_t train_key,
+               std::uint32_t place_key) {
+    const DelayRule* rule = match(rules, category, station);
+    if (rule == nullptr) return 0.0;
+    const UniformPair u = rng.uniforms(kind, train_key, place_key);
+    return rule->distribution.sample(u.first, u.second);
+}
+
+struct SectionExtent {
+    double x_lo = 0.0, x_hi = 0.0;
+};
+
+// Every detection section any train's path crosses, by id (ids are shared between paths).
+std::map<std::string, SectionExtent> known_sections(const std::vector<TrainPlan>& trains) {
+    std::map<std::string, SectionExtent> out;
+    for (const TrainPlan& tp : trains)
+        for (const PathSection& s : tp.run.path.sections) out.emplace(s.id, SectionExtent{s.x_lo, s.x_hi});
+    return out;
+}
+
+}  // namespace
+
+InjectedDelays draw_delays(const PrimaryDelayModel& model, const Infrastructure& infra,
+                           const std::vector<TrainPlan>& trains, std::uint64_t seed,
+                           std::uint32_t replication) {
+    const RandomStream rng(seed, replication);
+    InjectedDelays d;
+    d.entry.assign(trains.size(), 0.0);
+    d.dwell.resize(trains.size());
+    d.running.resize(trains.size());
+    for (std::size_t t = 0; t < trains.size(); ++t) {
+        const Service& svc = *trains[t].run.service;
+        const std::size_t n = svc.calls.size();
+        d.dwell[t].assign(n, 0.0);
+        d.running[t].assign(n, 0.0);
+        if (n == 0) continue;
+        const std::uint32_t train_key = stable_key(svc.id);
+        d.entry[t] = draw_at(rng, StreamKind::entry, model.entry, svc.category, svc.calls.front().station,
+                             train_key, 0);
+        for (std::size_t c = 0; c < n; ++c) {
+            const Call& call = svc.calls[c];
+            const bool last = c + 1 == n;
+            const std::uint32_t place_key = stable_key(call.station);
+            // No dwell at the terminus: the train leaves the model there.
+            if (call.stops && !(last && !svc.leaves_at_edge))
+                d.dwell[t][c] = draw_at(rng, StreamKind::dwell, model.dwell, svc.category, call.station,
+                                        train_key, place_key);
+            if (!last || svc.leaves_at_edge)
+                d.running[t][c] = draw_at(rng, StreamKind::running, model.running, svc.category,
+                                          call.station, train_key, place_key);
+        }
+    }
+
+    if (model.disruptions.empty()) return d;
+    const auto sections = known_sections(trains);
+    for (std::size_t k = 0; k < model.disruptions.size(); ++k) {
+        const DisruptionRule& rule = model.disruptions[k];
+        const auto place_key = static_cast<std::uint32_t>(k);
+        const UniformPair when = rng.uniforms(StreamKind::disruption, 0, place_key, 0);
+        if (!(when.first < rule.daily_probability)) continue;
+        const double start = rule.window_from + when.second * (rule.window_to - rule.window_from);
+        const double length = rule.duration.quantile(rng.uniform(StreamKind::disruption, 0, place_key, 1));
+        // The range as far as the track goes (the reader has checked it lies on the track).
+        double from = rule.from, to = rule.to;
+        if (const Track* tr = infra.find_track(rule.track)) {
+            from = std::max(from, tr->from);
+            to = std::min(to, tr->to);
+        }
+        const std::string prefix = rule.track + ":";
+        std::vector<std::pair<double, std::string>> hit;   // by chainage, for a stable order
+        for (const auto& [id, ext] : sections)
+            if (id.compare(0, prefix.size(), prefix) == 0 && ext.x_lo < to && ext.x_hi > from)
+                hit.emplace_back(ext.x_lo, id);
+        std::sort(hit.begin(), hit.end());
+        for (const auto& [x, id] : hit) d.blocked.push_back({id, start, start + length});
+    }
+    return d;
+}
+
+}  // namespace knockon
