@@ -19,7 +19,8 @@ std::vector<SectionStairway> stairways_in(const LineSection& ls, const std::vect
     return out;
 }
 
-void add_headways(const LineSection& ls, const std::vector<SectionStairway>& ordered, PlanResult& plan) {
+void add_headways(const LineSection& ls, const std::vector<SectionStairway>& ordered,
+                  std::vector<HeadwayPair>& out) {
     for (std::size_t k = 1; k < ordered.size(); ++k) {
         const SectionStairway &a = ordered[k - 1], &b = ordered[k];
         auto h = minimum_headway(a, b);
@@ -33,7 +34,7 @@ void add_headways(const LineSection& ls, const std::vector<SectionStairway>& ord
         p.minimum_headway = h->headway;
         p.buffer = p.scheduled_headway - p.minimum_headway;
         p.critical_section = h->critical_section;
-        plan.headways.push_back(p);
+        out.push_back(p);
     }
 }
 
@@ -117,13 +118,19 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& o
     return trains;
 }
 
+std::vector<HeadwayPair> consecutive_headways(const Infrastructure& infra, const std::vector<TrainPlan>& trains) {
+    std::vector<HeadwayPair> out;
+    for (const LineSection& ls : line_sections(infra)) add_headways(ls, stairways_in(ls, trains), out);
+    return out;
+}
+
 PlanResult make_plan(const Scenario& scenario, const RunOptions& options) {
     PlanResult plan;
     plan.trains = plan_trains(scenario, options);
     plan.line_sections = line_sections(scenario.infrastructure);
     for (const LineSection& ls : plan.line_sections) {
         std::vector<SectionStairway> ordered = stairways_in(ls, plan.trains);
-        add_headways(ls, ordered, plan);
+        add_headways(ls, ordered, plan.headways);
         add_matrix(ls, ordered, plan);
         add_capacity(ls, ordered, scenario.line_type, plan);
     }

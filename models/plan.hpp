@@ -65,6 +65,9 @@ struct PlanResult {
 
 PlanResult make_plan(const Scenario& scenario, const RunOptions& options = {});
 
+// Headways of consecutive trains in every line section (part of make_plan).
+std::vector<HeadwayPair> consecutive_headways(const Infrastructure& infra, const std::vector<TrainPlan>& trains);
+
 // Every service's planned run and stairway only (what the simulation builds on).
 std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& options = {});
 

@@ -107,6 +107,12 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
         }
         trains_.push_back(std::move(tr));
     }
+    for (const HeadwayPair& h : consecutive_headways(infra, plan)) {
+        auto it = index.find(h.critical_section);
+        if (it == index.end()) continue;
+        buffer_pairs_.push_back({static_cast<std::uint32_t>(h.leader), static_cast<std::uint32_t>(h.follower),
+                                 it->second, h.line_section, h.buffer});
+    }
     starts.resize(section_names_.size());
     planned_order_.resize(section_names_.size());
     for (std::size_t s = 0; s < starts.size(); ++s) {

@@ -69,12 +69,21 @@ public:
     const std::vector<std::string>& section_names() const { return section_names_; }
     // Trains per section in planned order (by planned blocking start).
     const std::vector<std::vector<std::uint32_t>>& planned_order() const { return planned_order_; }
+    // Consecutive train pairs of the plan with their buffer on the critical section, to measure
+    // how much of each buffer the simulated days use.
+    struct BufferPair {
+        std::uint32_t leader = 0, follower = 0, section = 0;   // section: global index
+        std::string line_section;
+        double planned_buffer = 0.0;
+    };
+    const std::vector<BufferPair>& buffer_pairs() const { return buffer_pairs_; }
 
 private:
     const Infrastructure& infra_;
     std::vector<Train> trains_;
     std::vector<std::string> section_names_;
     std::vector<std::vector<std::uint32_t>> planned_order_;
+    std::vector<BufferPair> buffer_pairs_;
 };
 
 SimResult simulate_day(const SimModel& model, const InjectedDelays& delays, const SimOptions& options);

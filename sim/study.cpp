@@ -13,7 +13,7 @@
 
 namespace knockon {
 
-ReplicationStats replication_stats(const SimResult& day, const InjectedDelays& delays,
+ReplicationStats replication_stats(const SimModel& model, const SimResult& day, const InjectedDelays& delays,
                                    const std::vector<double>& thresholds, std::uint32_t replication) {
     ReplicationStats r;
     r.replication = replication;
@@ -49,6 +49,15 @@ ReplicationStats replication_stats(const SimResult& day, const InjectedDelays& d
     for (const SectionRecord& s : day.sections)
         if (!std::isnan(s.released) && !std::isnan(s.locked))
             r.section_blocked[s.section] += static_cast<float>(s.released - s.locked);
+    // As-run buffers on the planned critical sections.
+    std::map<std::pair<std::uint32_t, std::uint32_t>, const SectionRecord*> use;   // (train, section)
+    for (const SectionRecord& s : day.sections) use.emplace(std::make_pair(s.train, s.section), &s);
+    for (const SimModel::BufferPair& bp : model.buffer_pairs()) {
+        auto l = use.find({bp.leader, bp.section}), f = use.find({bp.follower, bp.section});
+        double b = std::nanf("");
+        if (l != use.end() && f != use.end()) b = f->second->locked - l->second->released;
+        r.buffer.push_back(static_cast<float>(b));
+    }
     return r;
 }
 
@@ -68,7 +77,7 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
     auto run_one = [&](std::uint32_t k, ReplicationStats& slot) {
         InjectedDelays delays = options.draw(k);
         SimResult day = simulate_day(model, delays, options.sim);
-        slot = replication_stats(day, delays, options.thresholds, k);
+        slot = replication_stats(model, day, delays, options.thresholds, k);
         if (k == 0) {
             std::lock_guard<std::mutex> lock(trace_mutex);
             out.train_ids = day.train_ids;
@@ -189,7 +198,7 @@ Quantiles quantiles(std::vector<double> v) {
     return q;
 }
 
-StudySummary summarize_study(const StudyResult& study, const std::vector<double>& thresholds) {
+StudySummary summarize_study(const SimModel& model, const StudyResult& study, const std::vector<double>& thresholds) {
     StudySummary s;
     const auto& reps = study.replications;
     s.replications = reps.size();
@@ -261,6 +270,22 @@ StudySummary summarize_study(const StudyResult& study, const std::vector<double>
     for (std::size_t k = 0; k < study.section_names.size(); ++k)
         s.section_blocked_share.push_back(
             estimate_mean(collect([&](const ReplicationStats& r) { return r.section_blocked[k] / 86400.0; })));
+    for (std::size_t k = 0; k < model.buffer_pairs().size(); ++k) {
+        std::vector<double> v;
+        for (const ReplicationStats& r : reps)
+            if (k < r.buffer.size() && !std::isnan(r.buffer[k])) v.push_back(r.buffer[k]);
+        if (v.empty()) continue;
+        BufferStats b;
+        b.pair = k;
+        b.planned = model.buffer_pairs()[k].planned_buffer;
+        b.as_run = estimate_mean(v);
+        std::sort(v.begin(), v.end());
+        b.p10 = v[static_cast<std::size_t>(0.1 * static_cast<double>(v.size() - 1))];
+        s.buffers.push_back(b);
+    }
+    std::stable_sort(s.buffers.begin(), s.buffers.end(), [](const BufferStats& a, const BufferStats& b) {
+        return a.as_run.mean - a.planned < b.as_run.mean - b.planned;
+    });
     return s;
 }
 

@@ -27,9 +27,10 @@ struct ReplicationStats {
     std::vector<float> train_primary, train_knock_on, train_final_delay;   // per train [s]
     std::map<std::string, double> held;   // signal id -> time trains stood at it [s]
     std::vector<float> section_blocked;   // per section: as-run blocked time [s]
+    std::vector<float> buffer;            // per SimModel::buffer_pairs(): as-run buffer [s]
 };
 
-ReplicationStats replication_stats(const SimResult& day, const InjectedDelays& delays,
+ReplicationStats replication_stats(const SimModel& model, const SimResult& day, const InjectedDelays& delays,
                                    const std::vector<double>& thresholds, std::uint32_t replication);
 
 struct StudyOptions {
@@ -93,6 +94,15 @@ struct TrainStats {
     Estimate primary, knock_on, final_delay;
 };
 
+// How much of a planned buffer the days used: as-run buffer = follower's blocking start minus the
+// leader's blocking end on the planned critical section (negative: the follower was held up).
+struct BufferStats {
+    std::size_t pair = 0;   // index into SimModel::buffer_pairs()
+    double planned = 0.0;
+    Estimate as_run;
+    double p10 = 0.0;       // 10 % of days had less buffer than this [s]
+};
+
 struct SignalStats {
     std::string signal;
     Estimate held;   // time trains stood at it, per day [s]
@@ -108,8 +118,9 @@ struct StudySummary {
     std::vector<TrainStats> trains;
     std::vector<SignalStats> signals;   // largest mean held time first
     std::vector<Estimate> section_blocked_share;   // per section: share of the day blocked
+    std::vector<BufferStats> buffers;   // most used first (smallest mean as-run buffer)
 };
 
-StudySummary summarize_study(const StudyResult& study, const std::vector<double>& thresholds);
+StudySummary summarize_study(const SimModel& model, const StudyResult& study, const std::vector<double>& thresholds);
 
 }  // namespace knockon

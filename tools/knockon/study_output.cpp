@@ -26,7 +26,8 @@ nlohmann::json est(const Estimate& e) {
 
 }  // namespace
 
-std::string study_text(const Scenario& sc, const StudyResult& study, const StudySummary& s, const StudyRunInfo& info) {
+std::string study_text(const Scenario& sc, const SimModel& model, const StudyResult& study, const StudySummary& s,
+                       const StudyRunInfo& info) {
     std::ostringstream out;
     out << "knockon study: " << sc.name << " (" << sc.source_file << ")\n";
     out << "Caution: " << kSafetyCaution << "\n\n";
@@ -57,6 +58,15 @@ std::string study_text(const Scenario& sc, const StudyResult& study, const Study
         out << "  " << s.signals[i].signal << ": " << minutes(s.signals[i].held) << "\n";
     if (s.signals.empty()) out << "  (none)\n";
 
+    out << "\nBuffers most used (planned buffer; as-run mean ± CI; 10 % of days below):\n";
+    for (std::size_t i = 0; i < std::min<std::size_t>(8, s.buffers.size()); ++i) {
+        const BufferStats& b = s.buffers[i];
+        const SimModel::BufferPair& bp = model.buffer_pairs()[b.pair];
+        out << "  " << study.train_ids[bp.leader] << " -> " << study.train_ids[bp.follower] << " ("
+            << bp.line_section << ", " << study.section_names[bp.section] << "): "
+            << fmt("%.0f s; %.0f", b.planned, b.as_run.mean) << fmt(" ± %.0f s; %.0f s\n", b.as_run.half_width, b.p10);
+    }
+
     // Least punctual timing points at the first threshold.
     std::vector<const TimingPointStats*> tps;
     for (const TimingPointStats& tp : s.timing_points)
@@ -77,7 +87,8 @@ std::string study_text(const Scenario& sc, const StudyResult& study, const Study
     return out.str();
 }
 
-nlohmann::json study_json(const Scenario& sc, const StudyResult& study, const StudySummary& s, const StudyRunInfo& info) {
+nlohmann::json study_json(const Scenario& sc, const SimModel& model, const StudyResult& study, const StudySummary& s,
+                          const StudyRunInfo& info) {
     nlohmann::json j;
     j["tool"] = {{"name", "knockon"}, {"version", KNOCKON_VERSION}};
     j["scenario"] = scenario_facts(sc);
@@ -106,6 +117,13 @@ nlohmann::json study_json(const Scenario& sc, const StudyResult& study, const St
     }
     j["signals"] = nlohmann::json::array();
     for (const SignalStats& g : s.signals) j["signals"].push_back({{"signal", g.signal}, {"held_s", est(g.held)}});
+    j["buffers"] = nlohmann::json::array();
+    for (const BufferStats& b : s.buffers) {
+        const SimModel::BufferPair& bp = model.buffer_pairs()[b.pair];
+        j["buffers"].push_back({{"leader", study.train_ids[bp.leader]}, {"follower", study.train_ids[bp.follower]},
+                                {"line_section", bp.line_section}, {"section", study.section_names[bp.section]},
+                                {"planned_s", b.planned}, {"as_run_s", est(b.as_run)}, {"p10_s", b.p10}});
+    }
     j["sections"] = nlohmann::json::array();
     for (std::size_t k = 0; k < s.section_blocked_share.size(); ++k)
         j["sections"].push_back({{"section", study.section_names[k]}, {"blocked_share", est(s.section_blocked_share[k])}});

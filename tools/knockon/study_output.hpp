@@ -15,7 +15,9 @@ struct StudyRunInfo {
     std::string command_line;
 };
 
-std::string study_text(const Scenario& sc, const StudyResult& study, const StudySummary& s, const StudyRunInfo& info);
-nlohmann::json study_json(const Scenario& sc, const StudyResult& study, const StudySummary& s, const StudyRunInfo& info);
+std::string study_text(const Scenario& sc, const SimModel& model, const StudyResult& study, const StudySummary& s,
+                       const StudyRunInfo& info);
+nlohmann::json study_json(const Scenario& sc, const SimModel& model, const StudyResult& study, const StudySummary& s,
+                          const StudyRunInfo& info);
 
 }  // namespace knockon::cli
