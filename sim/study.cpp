@@ -284,7 +284,7 @@ StudySummary summarize_study(const SimModel& model, const StudyResult& study, co
         s.buffers.push_back(b);
     }
     std::stable_sort(s.buffers.begin(), s.buffers.end(), [](const BufferStats& a, const BufferStats& b) {
-        return a.as_run.mean - a.planned < b.as_run.mean - b.planned;
+        return a.as_run.mean < b.as_run.mean;
     });
     return s;
 }

@@ -118,7 +118,7 @@ struct StudySummary {
     std::vector<TrainStats> trains;
     std::vector<SignalStats> signals;   // largest mean held time first
     std::vector<Estimate> section_blocked_share;   // per section: share of the day blocked
-    std::vector<BufferStats> buffers;   // most used first (smallest mean as-run buffer)
+    std::vector<BufferStats> buffers;   // thinnest first (smallest mean as-run buffer)
 };
 
 StudySummary summarize_study(const SimModel& model, const StudyResult& study, const std::vector<double>& thresholds);

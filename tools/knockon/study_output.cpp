@@ -58,7 +58,7 @@ std::string study_text(const Scenario& sc, const SimModel& model, const StudyRes
         out << "  " << s.signals[i].signal << ": " << minutes(s.signals[i].held) << "\n";
     if (s.signals.empty()) out << "  (none)\n";
 
-    out << "\nBuffers most used (planned buffer; as-run mean ± CI; 10 % of days below):\n";
+    out << "\nThinnest buffers as run (planned buffer; as-run mean ± CI; 10 % of days below):\n";
     for (std::size_t i = 0; i < std::min<std::size_t>(8, s.buffers.size()); ++i) {
         const BufferStats& b = s.buffers[i];
         const SimModel::BufferPair& bp = model.buffer_pairs()[b.pair];
