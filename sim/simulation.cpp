@@ -1022,7 +1022,7 @@ bool InjectedDelays::empty() const {
         return std::all_of(v.begin(), v.end(), [](double d) { return d == 0.0; });
     };
     return none(entry) && std::all_of(dwell.begin(), dwell.end(), none) &&
-           std::all_of(running.begin(), running.end(), none);
+           std::all_of(running.begin(), running.end(), none) && blocked.empty();
 }
 
 SimResult simulate_day(const SimModel& model, const InjectedDelays& delays, const SimOptions& options) {
