@@ -23,106 +23,6 @@ constexpr double kPositionTolerance = 0.5;
 // point moves arrival times by a few hundredths of a second [s].
 constexpr double kNoiseFloor = 0.5;
 
-int aspect_cap(AspectSystem a) {
-    switch (a) {
-        case AspectSystem::two_aspect: return 1;
-        case AspectSystem::three_aspect: return 2;
-        case AspectSystem::four_aspect: return 3;
-        case AspectSystem::cab_fixed_block: return 1 << 20;
-    }
-    return 2;
-}
-
-double read_point(const PathSignal& sig) {
-    switch (sig.system) {
-        case AspectSystem::cab_fixed_block: return -kInf;
-        case AspectSystem::two_aspect:
-            return sig.s - sig.signal->distant_distance.value_or(0.0) - sig.signal->sighting_distance;
-        default: return sig.s - sig.signal->sighting_distance;
-    }
-}
-
-}  // namespace
-
-SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& plan) : infra_(infra) {
-    std::map<std::string, std::uint32_t> index;
-    auto section_of = [&](const std::string& id) {
-        auto [it, fresh] = index.try_emplace(id, static_cast<std::uint32_t>(section_names_.size()));
-        if (fresh) section_names_.push_back(id);
-        return it->second;
-    };
-    // Planned blocking start of every (section, train), to order the trains per section.
-    std::vector<std::vector<std::pair<double, std::uint32_t>>> starts;
-
-    for (std::uint32_t t = 0; t < plan.size(); ++t) {
-        const TrainPlan& tp = plan[t];
-        const TrainPath& path = tp.run.path;
-        Train tr;
-        tr.plan = &tp;
-        for (const PathSection& sec : path.sections) tr.section_index.push_back(section_of(sec.id));
-
-        // Routes: the same ones, in the same order, as the planned stairway.
-        std::size_t sig_i = 0;
-        for (const RouteBlocking& rb : tp.stairway.routes) {
-            while (sig_i < path.signals.size() && path.signals[sig_i].signal->id != rb.entry_signal) ++sig_i;
-            const PathSignal& ps = path.signals.at(sig_i);
-            Route r;
-            r.entry_signal = rb.entry_signal;
-            r.exit_signal = rb.exit_signal;
-            r.s_entry = rb.s_entry;
-            r.authority_end = rb.exit_signal.empty() && path.ends_at_edge ? kInf : rb.s_exit;
-            r.warning_point = rb.warning_point;
-            r.read_point = read_point(ps);
-            r.aspect_cap = aspect_cap(ps.system);
-            r.after_stop = rb.departure_call;
-            for (std::size_t k = 0; k < path.sections.size(); ++k) {
-                const PathSection& sec = path.sections[k];
-                if (std::min(rb.s_exit + rb.overlap, sec.s_to) - std::max(rb.s_entry, sec.s_from) > kEps)
-                    r.sections.push_back(tr.section_index[k]);
-            }
-            tr.routes.push_back(std::move(r));
-        }
-        for (const RunLeg& leg : tp.run.legs) {
-            const Trajectory& lt = leg.trajectory;
-            double b_min = kInf;
-            for (std::size_t j = 0; j < lt.v.size(); ++j) {
-                const double sj = std::min(lt.s0 + static_cast<double>(j) * lt.step, lt.s_end);
-                b_min = std::min(b_min, braking_deceleration(*tp.run.type, lt.v[j], path.gradient_at(sj)));
-            }
-            const double margin = 2.0 * lt.step + 1.0;
-            std::vector<double> reach(lt.v.size());
-            double run_max = -kInf;
-            for (std::size_t j = 0; j < lt.v.size(); ++j) {
-                const double sj = std::min(lt.s0 + static_cast<double>(j) * lt.step, lt.s_end);
-                const double d = lt.v[j] > 0.0 ? lt.v[j] * lt.v[j] / (2.0 * b_min) + margin : 0.0;
-                run_max = std::max(run_max, sj + d);
-                reach[j] = run_max;
-            }
-            tr.leg_reach.push_back(std::move(reach));
-        }
-        for (const SectionBlocking& b : tp.stairway.sections) {
-            std::uint32_t s = section_of(b.section);
-            if (starts.size() <= s) starts.resize(s + 1);
-            starts[s].push_back({b.start, t});
-        }
-        trains_.push_back(std::move(tr));
-    }
-    for (const HeadwayPair& h : consecutive_headways(infra, plan)) {
-        auto it = index.find(h.critical_section);
-        if (it == index.end()) continue;
-        buffer_pairs_.push_back({static_cast<std::uint32_t>(h.leader), static_cast<std::uint32_t>(h.follower),
-                                 it->second, h.line_section, h.buffer});
-    }
-    starts.resize(section_names_.size());
-    planned_order_.resize(section_names_.size());
-    for (std::size_t s = 0; s < starts.size(); ++s) {
-        std::stable_sort(starts[s].begin(), starts[s].end());
-        for (auto& [time, train] : starts[s]) planned_order_[s].push_back(train);
-    }
-}
-
-namespace {
-
 enum Kind : std::uint32_t {
     kAppear,
     kRelease,
@@ -956,6 +856,8 @@ void Day::handle(const Event& e) {
         }
         case kArrive: begin_standing(t); break;
         case kBrakePoint: replan(t, true); break;
+        case kDisruptionStart:
+        case kDisruptionEnd: break;   // handled above: they belong to no train
         case kExit:
             // Head over the line end: the rest of the train follows at exit speed; the tail
             // clearings are already scheduled by extrapolation.

@@ -1,0 +1,60 @@
+#pragma once
+// The static part of a simulation: per train its routes (from the planned stairway), section
+// indices, and what lets the engine follow planned legs without integrating; per section the
+// planned order of trains.  Built once from the plan and shared by every simulated day.
+#include <cstdint>
+#include <string>
+#include <vector>
+
+#include "models/plan.hpp"
+
+namespace knockon {
+
+class SimModel {
+public:
+    SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& plan);
+
+    struct Route {
+        std::string entry_signal, exit_signal;
+        double s_entry = 0.0;
+        double authority_end = 0.0;    // where a train may run to when this is the last route set
+        double warning_point = 0.0;
+        double read_point = 0.0;       // from here the driver can read the entry signal's aspect
+        int aspect_cap = 2;
+        long after_stop = -1;          // timing point of a planned stop before the signal, else -1
+        std::vector<std::uint32_t> sections;   // global section indices, body and overlap
+    };
+    struct Train {
+        const TrainPlan* plan = nullptr;
+        std::vector<Route> routes;
+        std::vector<std::uint32_t> section_index;   // per path section: global index
+        // Per planned leg and grid point j: the largest s_i + D(v_i) over i <= j, where D is a
+        // braking distance on the safe side.  A train following the leg as planned with its
+        // authority ending at E need not leave the plan before the first point where this
+        // exceeds E: up to there the planned motion stands, and the engine integrates nothing.
+        std::vector<std::vector<double>> leg_reach;
+    };
+
+    const Infrastructure& infrastructure() const { return infra_; }
+    const std::vector<Train>& trains() const { return trains_; }
+    const std::vector<std::string>& section_names() const { return section_names_; }
+    // Trains per section in planned order (by planned blocking start).
+    const std::vector<std::vector<std::uint32_t>>& planned_order() const { return planned_order_; }
+    // Consecutive train pairs of the plan with their buffer on the critical section, to measure
+    // how much of each buffer the simulated days use.
+    struct BufferPair {
+        std::uint32_t leader = 0, follower = 0, section = 0;   // section: global index
+        std::string line_section;
+        double planned_buffer = 0.0;
+    };
+    const std::vector<BufferPair>& buffer_pairs() const { return buffer_pairs_; }
+
+private:
+    const Infrastructure& infra_;
+    std::vector<Train> trains_;
+    std::vector<std::string> section_names_;
+    std::vector<std::vector<std::uint32_t>> planned_order_;
+    std::vector<BufferPair> buffer_pairs_;
+};
+
+}  // namespace knockon
