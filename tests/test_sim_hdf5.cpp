@@ -38,7 +38,7 @@ SimResult small_result() {
     // train 0 starts at its origin (no scheduled arrival), stops at BB, passes CC.
     r.timing = {
         {0, 0, "AA", true, kNaN, 28800.0, kNaN, 28800.0, kNaN, 0.0},
-        {0, 1, "Beta", true, 29100.0, 29160.0, 29112.625, 29172.625, 12.625, 12.625},
+        {0, 1, "Beta", true, 29100.0, 29160.0, 29112.625, 29172.625, 12.625, 12.625, 7.25},
         {0, 2, "CC", false, 29400.0, 29400.0, 29405.5, 29405.5, 5.5, 5.5},
         {1, 0, "AA", true, kNaN, 28860.0, kNaN, 28865.0, kNaN, 5.0},
     };
@@ -240,7 +240,7 @@ TEST_CASE("HDF5 results: every dataset exists with its record count", "[sim_hdf5
     CHECK(f.field_names("/day/sections") == Names{"index", "id"});
     CHECK(f.field_names("/day/timing") == Names{"train", "call", "station", "stops", "scheduled_arrival",
                                                 "scheduled_departure", "arrival", "departure", "arrival_delay",
-                                                "departure_delay"});
+                                                "departure_delay", "knock_on"});
     CHECK(f.field_names("/day/occupancy") ==
           Names{"train", "section", "locked", "head_enters", "head_leaves", "tail_clears", "released"});
     CHECK(f.field_names("/day/routes") ==
@@ -302,6 +302,7 @@ TEST_CASE("HDF5 results: field values, strings and NaN round-trip exactly", "[si
     CHECK(std::isnan(sched_arr[3]));
     CHECK(sched_arr[1] == 29100.0);
     CHECK(f.column<double>("/day/timing", "departure_delay", H5T_NATIVE_DOUBLE)[3] == 5.0);
+    CHECK(f.column<double>("/day/timing", "knock_on", H5T_NATIVE_DOUBLE) == std::vector<double>{0.0, 7.25, 0.0, 0.0});
 
     CHECK(f.column<std::uint32_t>("/day/occupancy", "section", H5T_NATIVE_UINT32) ==
           std::vector<std::uint32_t>{0, 2, 1});
@@ -330,7 +331,8 @@ TEST_CASE("HDF5 results: root and /day attributes", "[sim_hdf5]") {
 
     // Layout of tools/io/HDF5_LAYOUT.md (our own spec).
     CHECK(f.attr_class("/", "schema_version") == H5T_INTEGER);
-    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 1);
+    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 2);
+    CHECK(f.text_attr("/", "kind") == "day");
     CHECK(f.text_attr("/", "program") == "knockon");
     CHECK(f.text_attr("/", "program_version") == "0.1.0-test");
     CHECK(f.text_attr("/", "scenario_file") == "scenarios/invented-line.yaml");
@@ -486,4 +488,31 @@ TEST_CASE("HDF5 wrapper: failures name the file and the object", "[sim_hdf5]") {
     t.begin().u32(0);
     CHECK_THROWS_WITH(t.text("four"), Contains("shown.h5: /day/names") && Contains("longer than the field"));
     CHECK_THROWS_AS(t.begin().f64(1.0), std::logic_error);  // fields out of layout order
+}
+
+TEST_CASE("HDF5 wrapper: an output file appears only when committed with every object closed", "[sim_hdf5]") {
+    TempDir dir("pending");
+    const fs::path target = dir.path / "out.h5";
+    {
+        h5::OutputFile file(target.string());
+        const h5::Group g = file.root().create_group("day");
+        CHECK(dir.entries().size() == 1);                 // the temporary file only
+        CHECK_FALSE(fs::exists(target));
+    }  // dropped without commit: nothing is left
+    CHECK(dir.entries().empty());
+    {
+        h5::OutputFile file(target.string());
+        const h5::Group g = file.root().create_group("day");
+        // Closing with a group still open would leave the file unfinished: refused, and discarded.
+        CHECK_THROWS_WITH(file.commit(), Contains(target.string()) && Contains("cannot close"));
+        CHECK(dir.entries().empty());
+    }
+    {
+        h5::OutputFile file(target.string());
+        file.root().create_group("day");
+        file.commit();
+    }
+    CHECK(dir.entries() == std::vector<std::string>{"out.h5"});
+    Reader f(target);
+    CHECK(f.exists("/day"));
 }

@@ -1,11 +1,12 @@
 #!/usr/bin/env python3
-"""Read a knockon HDF5 results file (layout: tools/io/HDF5_LAYOUT.md).
+"""Read a knockon HDF5 results file (layout: tools/io/HDF5_LAYOUT.md): one simulated day
+(root attribute kind = "day") or a Monte Carlo study (kind = "study").
 
     python3 tools/read_results_example.py results.h5
 
 Needs h5py and NumPy; uses pandas for DataFrames when it is installed, plain NumPy record arrays
-otherwise. Each table under /day is one compound dataset: `f["/day/timing"][:]` gives a NumPy
-structured array in one read, which pandas takes as it is.
+otherwise. Each table is one compound dataset: `f["/day/timing"][:]` or `f["/study/per_day"][:]`
+gives a NumPy structured array in one read, which pandas takes as it is.
 """
 import sys
 
@@ -18,6 +19,8 @@ except ImportError:  # optional
     pd = None
 
 TABLES = ("trains", "sections", "timing", "occupancy", "routes", "holds", "trajectories")
+STUDY_TABLES = ("per_day", "summary", "timing_points", "trains", "signals", "sections", "trains_index",
+                "sections_index")
 
 
 def decode_text_fields(records):
@@ -40,14 +43,21 @@ def attr_value(value):
     return value.item() if isinstance(value, np.generic) else value
 
 
-def load_day(path):
-    """Root facts, /day facts, units and every /day table.
+def file_kind(path):
+    """"day" or "study" (files written before the kind attribute existed hold one day)."""
+    with h5py.File(path, "r") as f:
+        return attr_value(f.attrs.get("kind", b"day"))
 
+
+def load_day(path, group="day"):
+    """Root facts, the day group's facts, units and every table of that group.
+
+    `group` is "day" in a day file, "replications/000042" for a traced day of a study file.
     Tables are DataFrames when pandas is installed (with train_id / section_id columns added),
     otherwise NumPy structured arrays; there, ids come from trains["id"][timing["train"]].
     """
     with h5py.File(path, "r") as f:
-        day = f["day"]
+        day = f[group]
         tables = {name: decode_text_fields(day[name][:]) for name in TABLES}
         facts = {k: attr_value(v) for k, v in f.attrs.items()}
         day_facts = {k: attr_value(v) for k, v in day.attrs.items()}
@@ -64,11 +74,69 @@ def load_day(path):
     return facts, day_facts, units, frames
 
 
+def load_study(path):
+    """Root facts, /study facts (thresholds_s as a list), units, every /study table, and the names
+    of the traced days under /replications (each readable with load_day(path, "replications/" + name)).
+
+    Tables are DataFrames when pandas is installed (with train_id / section_id columns added where
+    a table refers to trains_index / sections_index), otherwise NumPy structured arrays.
+    """
+    with h5py.File(path, "r") as f:
+        study = f["study"]
+        tables = {name: decode_text_fields(study[name][:]) for name in STUDY_TABLES}
+        facts = {k: attr_value(v) for k, v in f.attrs.items()}
+        study_facts = {k: attr_value(v) for k, v in study.attrs.items()}
+        study_facts["thresholds_s"] = [float(x) for x in np.atleast_1d(study.attrs["thresholds_s"])]
+        units = {name: attr_value(study[name].attrs["units"]) for name in STUDY_TABLES}
+        traced = sorted(f["replications"].keys())
+    if pd is None:
+        return facts, study_facts, units, tables, traced
+    train_ids = tables["trains_index"]["id"]
+    section_ids = tables["sections_index"]["id"]
+    frames = {name: pd.DataFrame.from_records(rec, columns=rec.dtype.names) for name, rec in tables.items()}
+    for name in ("timing_points", "trains"):
+        frames[name]["train_id"] = train_ids[frames[name]["train"].to_numpy()]
+    frames["sections"]["section_id"] = section_ids[frames["sections"]["section"].to_numpy()]
+    return facts, study_facts, units, frames, traced
+
+
+def show(name, table, units):
+    print(f"\n{name}: {len(table)} records  [{units}]")
+    if len(table):
+        print(table.head(5).to_string(index=False) if pd is not None else table[:5])
+
+
+def main_study(path):
+    facts, study_facts, units, tables, traced = load_study(path)
+    print(f"{path}: {facts.get('program')} {facts.get('program_version')}, schema {facts.get('schema_version')}, "
+          f"study of scenario '{facts.get('scenario_name')}', seed {facts.get('seed')}")
+    print(f"caution: {facts.get('caution')}")
+    print(f"study: {study_facts['replications']} days{' (PARTIAL)' if study_facts['partial'] else ''}, "
+          f"{study_facts['deadlocked_days']} deadlocked, knock-on/primary {study_facts['knock_on_ratio']:.2f}, "
+          f"thresholds {study_facts['thresholds_s']} s")
+    summary = tables["summary"]
+    for i in range(len(summary)):
+        row = summary.iloc[i] if pd is not None else summary[i]
+        print(f"  {row['figure']}: {row['mean']:.4g} +/- {row['ci95_half_width']:.2g} {row['unit']} (n = {row['n']})")
+    for name in STUDY_TABLES:
+        show(name, tables[name], units[name])
+    print(f"\ntraced days: {len(traced)}" + (f" ({', '.join(traced[:10])}{', ...' if len(traced) > 10 else ''})"
+                                            if traced else ""))
+    if traced:
+        # A traced day reads like the /day group of a day file.
+        _, day_facts, _, day_tables = load_day(path, "replications/" + traced[0])
+        print(f"day {traced[0]}: {day_facts.get('events')} events, "
+              + ", ".join(f"{name} {len(day_tables[name])}" for name in TABLES))
+    return 0
+
+
 def main(argv):
     if len(argv) != 2:
         print("usage: python3 tools/read_results_example.py RESULTS.h5", file=sys.stderr)
         return 2
     try:
+        if file_kind(argv[1]) == "study":
+            return main_study(argv[1])
         facts, day_facts, units, tables = load_day(argv[1])
     except (OSError, KeyError, IndexError, ValueError) as e:
         print(f"{argv[1]}: cannot read knockon results: {e}", file=sys.stderr)
@@ -80,10 +148,7 @@ def main(argv):
     print(f"day: {day_facts.get('events')} events, {day_facts.get('block_passages')} block passages, "
           f"deadlocked={bool(day_facts.get('deadlocked'))}")
     for name in TABLES:
-        table = tables[name]
-        print(f"\n{name}: {len(table)} records  [{units[name]}]")
-        if len(table):
-            print(table.head(5).to_string(index=False) if pd is not None else table[:5])
+        show(name, tables[name], units[name])
 
     timing = tables["timing"]
     if len(timing):

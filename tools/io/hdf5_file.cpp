@@ -2,7 +2,10 @@
 
 #include <algorithm>
 #include <cstring>
+#include <filesystem>
 #include <utility>
+
+#include "tools/io/output_file.hpp"
 
 namespace knockon::h5 {
 
@@ -159,6 +162,9 @@ File::File(const std::string& actual_path, const std::string& display_name) : na
     const Handle fapl = property_list(H5P_FILE_ACCESS, where);
     check_status(H5Pset_libver_bounds(fapl.id(), H5F_LIBVER_V110, H5F_LIBVER_V110), where,
                  "cannot set file format bounds");
+    // Semi: closing fails while objects are open, instead of deferring the final flush until they
+    // close (by then the file may already have been renamed as complete).
+    check_status(H5Pset_fclose_degree(fapl.id(), H5F_CLOSE_SEMI), where, "cannot set file close degree");
     handle_ = Handle(check(H5Fcreate(actual_path.c_str(), H5F_ACC_TRUNC, fcpl.id(), fapl.id()), where,
                            "cannot create HDF5 file"),
                      H5Fclose);
@@ -212,12 +218,67 @@ void Attributes::set_u8(const std::string& name, std::uint8_t value) const {
     set(name, H5T_STD_U8LE, H5T_NATIVE_UINT8, &value);
 }
 
+void Attributes::set_u32(const std::string& name, std::uint32_t value) const {
+    set(name, H5T_STD_U32LE, H5T_NATIVE_UINT32, &value);
+}
+
 void Attributes::set_u64(const std::string& name, std::uint64_t value) const {
     set(name, H5T_STD_U64LE, H5T_NATIVE_UINT64, &value);
 }
 
 void Attributes::set_f64(const std::string& name, double value) const {
     set(name, H5T_IEEE_F64LE, H5T_NATIVE_DOUBLE, &value);
+}
+
+void Attributes::set_f64_array(const std::string& name, const std::vector<double>& values) const {
+    const std::string what = "attribute '" + name + "'";
+    const hsize_t dims[1] = {values.size()};
+    const Handle space(check(H5Screate_simple(1, dims, nullptr), place_, "cannot create dataspace for " + what),
+                       H5Sclose);
+    const Handle attr(check(H5Acreate2(owner_, name.c_str(), H5T_IEEE_F64LE, space.id(), H5P_DEFAULT, H5P_DEFAULT),
+                            place_, "cannot create " + what),
+                      H5Aclose);
+    if (!values.empty())
+        check_status(H5Awrite(attr.id(), H5T_NATIVE_DOUBLE, values.data()), place_, "cannot write " + what);
+}
+
+// ---------------------------------------------------------------------------------------------
+
+OutputFile::OutputFile(const std::string& path) : path_(path), temporary_(temporary_path_for(path)) {
+    try {
+        file_.emplace(temporary_, path_);
+    } catch (...) {
+        discard();
+        throw;
+    }
+}
+
+OutputFile::~OutputFile() {
+    if (!committed_) discard();
+}
+
+Group OutputFile::root() const {
+    if (!file_) throw Error(path_ + ": file already closed");
+    return file_->root();
+}
+
+void OutputFile::commit() {
+    if (!file_) throw Error(path_ + ": file already closed");
+    try {
+        file_->close();
+    } catch (...) {
+        discard();
+        throw;
+    }
+    file_.reset();
+    commit_file(temporary_, path_);  // removes the temporary file itself if the rename fails
+    committed_ = true;
+}
+
+void OutputFile::discard() noexcept {
+    file_.reset();  // closes the handle if still open (the file may stay open if objects leaked)
+    std::error_code ec;
+    std::filesystem::remove(temporary_, ec);
 }
 
 // ---------------------------------------------------------------------------------------------

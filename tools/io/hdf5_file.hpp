@@ -7,6 +7,7 @@
 
 #include <cstddef>
 #include <cstdint>
+#include <optional>
 #include <stdexcept>
 #include <string>
 #include <vector>
@@ -98,7 +99,8 @@ private:
 class Group;
 
 // An HDF5 file created for writing (truncating any file of that name), with the layout choices of
-// ENGINEERING.md: file format bounds V110..V110 and no object time stamps.
+// ENGINEERING.md: file format bounds V110..V110 and no object time stamps. Closing fails while a
+// group or dataset of it is still open, so a file is never taken as complete too early.
 class File {
 public:
     // `actual_path` is opened; `display_name` is what messages call it.
@@ -135,8 +137,11 @@ public:
     void set_text(const std::string& name, const std::string& value) const;
     void set_i32(const std::string& name, std::int32_t value) const;
     void set_u8(const std::string& name, std::uint8_t value) const;
+    void set_u32(const std::string& name, std::uint32_t value) const;
     void set_u64(const std::string& name, std::uint64_t value) const;
     void set_f64(const std::string& name, double value) const;
+    // A 1-D array attribute (an empty array has one dimension of size 0).
+    void set_f64_array(const std::string& name, const std::vector<double>& values) const;
 
 private:
     void set(const std::string& name, hid_t file_type, hid_t memory_type, const void* value) const;
@@ -182,6 +187,30 @@ private:
     std::size_t buffered_ = 0;   // complete or started records in buffer_
     std::size_t field_ = 0;      // next field of the current record
     std::uint64_t written_ = 0;  // records already in the dataset
+};
+
+// A File that appears at `path` only when complete: created under a temporary name in the same
+// directory (output_file.hpp), renamed over `path` by commit(). Destroyed without a commit (an
+// exception, an interrupted run), it removes the temporary file, so `path` holds a whole file or
+// nothing new. HDF5's error printing is off while it lives; failures come as h5::Error instead.
+class OutputFile {
+public:
+    explicit OutputFile(const std::string& path);
+    ~OutputFile();
+    OutputFile(const OutputFile&) = delete;
+    OutputFile& operator=(const OutputFile&) = delete;
+
+    Group root() const;
+    // Closes the file (every group and dataset must be closed by then) and renames it into place.
+    void commit();
+    const std::string& path() const { return path_; }
+
+private:
+    void discard() noexcept;
+    std::string path_, temporary_;
+    QuietErrors quiet_;
+    std::optional<File> file_;
+    bool committed_ = false;
 };
 
 }  // namespace knockon::h5

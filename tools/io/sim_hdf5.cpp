@@ -1,12 +1,10 @@
 #include "tools/io/sim_hdf5.hpp"
 
 #include <algorithm>
-#include <filesystem>
 #include <stdexcept>
 #include <vector>
 
 #include "tools/io/hdf5_file.hpp"
-#include "tools/io/output_file.hpp"
 #include "tools/io/plan_output.hpp"
 
 namespace knockon {
@@ -27,16 +25,16 @@ std::size_t longest(const Records& records, Get get) {
     return n;
 }
 
-// units: "field: unit" for every field, comma-separated, in field order (no commas inside a unit).
+}  // namespace
+
 void describe(const RecordTable& t, const std::string& units, const std::string& description) {
     t.attributes().set_text("units", units);
     t.attributes().set_text("description", description);
 }
 
-// trains / sections: the names that integer fields elsewhere refer to by index.
-void write_names(const h5::Group& day, const std::string& name, const std::vector<std::string>& ids,
+void write_names(const h5::Group& group, const std::string& name, const std::vector<std::string>& ids,
                  const std::string& description) {
-    RecordTable t(day, name,
+    RecordTable t(group, name,
                   RecordLayout().add("index", FieldKind::u32).add_text("id", longest(ids, [](auto& s) -> auto& {
                       return s;
                   })));
@@ -44,6 +42,8 @@ void write_names(const h5::Group& day, const std::string& name, const std::vecto
     t.flush();
     describe(t, "index: 0-based row number, id: text", description);
 }
+
+namespace {
 
 void write_timing(const h5::Group& day, const std::vector<TimingRecord>& records) {
     RecordTable t(day, "timing",
@@ -57,7 +57,8 @@ void write_timing(const h5::Group& day, const std::vector<TimingRecord>& records
                       .add("arrival", FieldKind::f64)
                       .add("departure", FieldKind::f64)
                       .add("arrival_delay", FieldKind::f64)
-                      .add("departure_delay", FieldKind::f64));
+                      .add("departure_delay", FieldKind::f64)
+                      .add("knock_on", FieldKind::f64));
     for (const TimingRecord& r : records)
         t.begin()
             .u32(r.train)
@@ -69,15 +70,18 @@ void write_timing(const h5::Group& day, const std::vector<TimingRecord>& records
             .f64(r.arrival)
             .f64(r.departure)
             .f64(r.arrival_delay)
-            .f64(r.departure_delay);
+            .f64(r.departure_delay)
+            .f64(r.knock_on);
     t.flush();
     describe(t,
              "train: index into trains, call: 0-based timing point of the train, station: text, "
              "stops: 1 = scheduled stop / 0 = pass, scheduled_arrival: s after midnight, "
              "scheduled_departure: s after midnight, arrival: s after midnight, departure: s after midnight, "
-             "arrival_delay: s, departure_delay: s",
+             "arrival_delay: s, departure_delay: s, knock_on: s",
              "Times of every train at every timing point, scheduled and as run; NaN where a time does not "
-             "apply or did not happen. A pass has arrival = departure = the pass time.");
+             "apply or did not happen. A pass has arrival = departure = the pass time. knock_on is the "
+             "delay caused by other trains on the run from the previous timing point and, at a stop, "
+             "while waiting to leave.");
 }
 
 void write_occupancy(const h5::Group& day, const std::vector<SectionRecord>& records) {
@@ -159,62 +163,55 @@ void write_trajectories(const h5::Group& day, const std::vector<TrajectorySample
              "Sampled motion of each train (empty unless trajectories were requested).");
 }
 
-void write_contents(const std::string& file_path, const std::string& display_path, const SimResult& result,
-                    const Hdf5RunInfo& info) {
-    h5::File file(file_path, display_path);
-    {
-        const h5::Group root = file.root();
-        const h5::Attributes a = root.attributes();
-        a.set_i32("schema_version", kSimHdf5SchemaVersion);
-        a.set_text("program", "knockon");
-        a.set_text("program_version", info.program_version.empty() ? KNOCKON_VERSION : info.program_version);
-        a.set_text("scenario_file", info.scenario_file);
-        a.set_text("scenario_name", info.scenario_name);
-        a.set_text("command_line", info.command_line);
-        a.set_u64("seed", info.seed);
-        a.set_text("time_unit", kTimeUnit);
-        a.set_text("caution", kSafetyCaution);
-
-        const h5::Group day = root.create_group("day");
-        const h5::Attributes d = day.attributes();
-        d.set_u64("events", result.events);
-        d.set_u64("block_passages", result.block_passages);
-        d.set_u8("deadlocked", result.deadlock.deadlocked ? 1 : 0);
-        d.set_text("deadlock_description", result.deadlock.description);
-        d.set_f64("last_event_time", result.deadlock.time);
-
-        write_names(day, "trains", result.train_ids,
-                    "Train ids; the 'train' field of the other tables is an index into this table.");
-        write_names(day, "sections", result.section_names,
-                    "Detection section ids; the 'section' field of occupancy is an index into this table.");
-        write_timing(day, result.timing);
-        write_occupancy(day, result.sections);
-        write_routes(day, result.routes);
-        write_holds(day, result.holds);
-        write_trajectories(day, result.samples);
-    }  // every group and dataset handle is closed here, before the file
-    file.close();
-}
-
 }  // namespace
 
+void write_run_attributes(const h5::Group& root, const Hdf5RunInfo& info, const std::string& kind) {
+    const h5::Attributes a = root.attributes();
+    a.set_i32("schema_version", kSimHdf5SchemaVersion);
+    a.set_text("kind", kind);
+    a.set_text("program", "knockon");
+    a.set_text("program_version", info.program_version.empty() ? KNOCKON_VERSION : info.program_version);
+    a.set_text("scenario_file", info.scenario_file);
+    a.set_text("scenario_name", info.scenario_name);
+    a.set_text("command_line", info.command_line);
+    a.set_u64("seed", info.seed);
+    a.set_text("time_unit", kTimeUnit);
+    a.set_text("caution", kSafetyCaution);
+}
+
+void write_day(const h5::Group& day, const SimResult& result) {
+    const h5::Attributes d = day.attributes();
+    d.set_u64("events", result.events);
+    d.set_u64("block_passages", result.block_passages);
+    d.set_u8("deadlocked", result.deadlock.deadlocked ? 1 : 0);
+    d.set_text("deadlock_description", result.deadlock.description);
+    d.set_f64("last_event_time", result.deadlock.time);
+
+    write_names(day, "trains", result.train_ids,
+                "Train ids; the 'train' field of the other tables is an index into this table.");
+    write_names(day, "sections", result.section_names,
+                "Detection section ids; the 'section' field of occupancy is an index into this table.");
+    write_timing(day, result.timing);
+    write_occupancy(day, result.sections);
+    write_routes(day, result.routes);
+    write_holds(day, result.holds);
+    write_trajectories(day, result.samples);
+}
+
 void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5RunInfo& info) {
-    const std::string tmp = temporary_path_for(path);
-    const h5::QuietErrors quiet;
-    const auto discard = [&] {
-        std::error_code ec;
-        std::filesystem::remove(tmp, ec);
-    };
     try {
-        write_contents(tmp, path, result, info);
-    } catch (const h5::Error&) {  // already names the file and the object
-        discard();
+        h5::OutputFile file(path);
+        {
+            const h5::Group root = file.root();
+            write_run_attributes(root, info, "day");
+            write_day(root.create_group("day"), result);
+        }  // every group and dataset handle is closed here, before the file
+        file.commit();
+    } catch (const std::runtime_error&) {  // h5::Error and the rename's error already name the file
         throw;
     } catch (const std::exception& e) {  // e.g. out of memory
-        discard();
         throw std::runtime_error(path + ": cannot write HDF5 results: " + e.what());
     }
-    commit_file(tmp, path);
 }
 
 }  // namespace knockon

@@ -1,15 +1,24 @@
 #pragma once
 // Simulation results as one HDF5 file (layout: tools/io/HDF5_LAYOUT.md): one table of records per
-// kind of SimResult record under /day, run facts as attributes on the root.
+// kind of SimResult record under /day, run facts as attributes on the root. The pieces (run facts,
+// one day's tables) are also used by the study writer (study_hdf5.hpp), which puts days under
+// /replications/<k>.
 #include <cstdint>
 #include <string>
+#include <vector>
 
 #include "sim/sim_result.hpp"
 
 namespace knockon {
 
+namespace h5 {
+class Group;
+class RecordTable;
+}
+
 // The layout version written as the root attribute schema_version; raise it when the layout changes.
-inline constexpr int kSimHdf5SchemaVersion = 1;
+// 2: root attribute `kind`, study files, knock_on in the timing table.
+inline constexpr int kSimHdf5SchemaVersion = 2;
 
 // Facts about the run that the results alone do not carry.
 struct Hdf5RunInfo {
@@ -24,5 +33,21 @@ struct Hdf5RunInfo {
 // and renamed over `path` once closed. On failure removes the temporary file and throws
 // std::runtime_error naming `path` and what failed.
 void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5RunInfo& info);
+
+// The root attributes every results file has (schema and program version, scenario, command line,
+// seed, time unit, caution) plus `kind` ("day" or "study").
+void write_run_attributes(const h5::Group& root, const Hdf5RunInfo& info, const std::string& kind);
+
+// The two text attributes every table carries. units: "field: unit" for every field in field order,
+// comma-separated (no commas inside a unit); description: what one record is.
+void describe(const h5::RecordTable& table, const std::string& units, const std::string& description);
+
+// A table of {index u32, id text}: the names that integer fields elsewhere refer to by row number.
+void write_names(const h5::Group& group, const std::string& name, const std::vector<std::string>& ids,
+                 const std::string& description);
+
+// One day's facts (attributes) and tables (trains, sections, timing, occupancy, routes, holds,
+// trajectories) into `group`, e.g. /day or /replications/000042.
+void write_day(const h5::Group& group, const SimResult& result);
 
 }  // namespace knockon

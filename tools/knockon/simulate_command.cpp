@@ -2,6 +2,7 @@
 #include <chrono>
 #include <csignal>
 #include <cstdio>
+#include <memory>
 #include <sstream>
 #include <unistd.h>
 
@@ -16,6 +17,7 @@
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/io/sim_hdf5.hpp"
+#include "tools/io/study_hdf5.hpp"
 #include "tools/knockon/delay_option.hpp"
 #include "tools/knockon/options.hpp"
 #include "tools/knockon/study_output.hpp"
@@ -95,6 +97,27 @@ extern "C" void on_interrupt(int) {
     g_stop.store(true);
 }
 
+// The command line as a study file stores it: without --threads (or an abbreviation such as --thr,
+// with its value), which changes neither the results nor, so, the file's bytes.
+std::string without_threads(const std::string& command_line) {
+    std::istringstream in(command_line);
+    std::string out, token;
+    bool skip_value = false;
+    while (in >> token) {
+        if (skip_value) {
+            skip_value = false;
+            continue;
+        }
+        const std::string name = token.substr(0, token.find('='));
+        if (name.size() >= 4 && std::string("--threads").compare(0, name.size(), name) == 0) {
+            skip_value = name.size() == token.size();
+            continue;
+        }
+        out += (out.empty() ? "" : " ") + token;
+    }
+    return out;
+}
+
 int run_study_command(const po::variables_map& vm, const Scenario& scenario, const std::vector<TrainPlan>& plan,
                       const SimOptions& so, const std::string& command_line) {
     StudyOptions opt;
@@ -106,6 +129,14 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
         const double x = vm["until-ci"].as<double>();
         if (!(x > 0.0)) throw UsageError("--until-ci must be a positive number of minutes");
         opt.until_ci = 60.0 * x;
+    }
+    TraceSelection traces;
+    if (vm.count("traces")) {
+        const std::string text = vm["traces"].as<std::string>();
+        const auto parsed = parse_trace_selection(text);
+        if (!parsed) throw UsageError("--traces must be none, all or sample:K (K a whole number, at least 1), not '" + text + "'");
+        if (!vm.count("out")) throw UsageError("--traces needs --out: the traced days are written to the HDF5 file");
+        traces = *parsed;
     }
     opt.sim = so;
     const std::uint64_t seed = vm["seed"].as<std::uint64_t>();
@@ -126,16 +157,37 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
     };
     opt.stop = &g_stop;
     auto previous = std::signal(SIGINT, on_interrupt);
+    struct RestoreSigint {
+        void (*handler)(int);
+        ~RestoreSigint() { std::signal(SIGINT, handler); }
+    } restore{previous};   // after the file is done: Ctrl-C until then still ends with a whole file
+
+    // --out: the file is open under a temporary name while the days run, the traced ones are written
+    // as they are handed over (in replication order, on this thread), /study at the end; it appears
+    // at --out only when complete, and is removed if anything fails first.
+    std::unique_ptr<StudyHdf5Writer> out;
+    if (vm.count("out")) {
+        Hdf5RunInfo h5info;
+        h5info.scenario_file = scenario.source_file;
+        h5info.scenario_name = scenario.name;
+        h5info.command_line = without_threads(command_line);
+        h5info.seed = seed;
+        out = std::make_unique<StudyHdf5Writer>(vm["out"].as<std::string>(), h5info, traces);
+        if (traces.mode != TraceSelection::Mode::none) {
+            opt.trace = [traces, planned = opt.replications](std::uint32_t k) { return traces.traced(k, planned); };
+            opt.on_trace = [&out](std::uint32_t k, const SimResult& day) { out->write_trace(k, day); };
+        }
+    }
     SimModel model(scenario.infrastructure, plan);
     StudyResult study = run_study(model, opt);
-    std::signal(SIGINT, previous);
     if (tty) std::fprintf(stderr, "\n");
-    StudySummary summary = summarize_study(study, opt.thresholds);
+    StudySummary summary = summarize_study(model, study, opt.thresholds);
+    if (out) out->finish(model, study, summary);
     StudyRunInfo info{seed, opt.threads, command_line};
     if (vm.count("json"))
-        std::printf("%s\n", study_json(scenario, study, summary, info).dump(1).c_str());
+        std::printf("%s\n", study_json(scenario, model, study, summary, info).dump(1).c_str());
     else
-        std::fputs(study_text(scenario, study, summary, info).c_str(), stdout);
+        std::fputs(study_text(scenario, model, study, summary, info).c_str(), stdout);
     return g_interrupted ? 130 : 0;
 }
 
@@ -146,7 +198,8 @@ int simulate(const std::vector<std::string>& args) {
     for (const std::string& a : args) command_line += " " + a;
     po::options_description options("simulate options");
     options.add_options()("json", "print one JSON document instead of the summary")(
-        "out", po::value<std::string>(), "write the day's records to this HDF5 file")(
+        "out", po::value<std::string>(),
+        "write the results to this HDF5 file (a study: per-day figures, statistics and traced days)")(
         "delay", po::value<std::vector<std::string>>()->composing(),
         "inject a delay: TRAIN:entry:MINUTES, TRAIN:dwell@STATION:MINUTES or TRAIN:run@STATION:MINUTES (repeatable)")(
         "order", po::value<std::string>()->default_value("timetable"),
@@ -158,7 +211,10 @@ int simulate(const std::vector<std::string>& args) {
         "threads", po::value<unsigned>()->default_value(1), "threads for the study (results do not depend on it)")(
         "until-ci", po::value<double>(),
         "go on until the 95 % CI half-width of the mean knock-on per day is below this many minutes "
-        "(--replications is then the cap)");
+        "(--replications is then the cap)")(
+        "traces", po::value<std::string>(),
+        "with --replications and --out: days whose full records go into the file: none (default), all, or "
+        "sample:K (K days spread evenly)");
     po::variables_map vm;
     if (!parse_command_line("simulate", args, options, vm)) return 0;
     SimOptions so;
@@ -178,6 +234,7 @@ int simulate(const std::vector<std::string>& args) {
         return run_study_command(vm, scenario, plan, so, command_line);
     }
     if (vm.count("until-ci")) throw UsageError("--until-ci needs --replications (the cap)");
+    if (vm.count("traces")) throw UsageError("--traces needs --replications: a single day's --out has all its records");
     InjectedDelays delays = parse_delays(
         vm.count("delay") ? vm["delay"].as<std::vector<std::string>>() : std::vector<std::string>{}, plan);
     SimModel model(scenario.infrastructure, plan);

@@ -1,0 +1,60 @@
+#pragma once
+// A Monte Carlo study as one HDF5 file (layout: tools/io/HDF5_LAYOUT.md, "Study files"): the
+// per-day figures of every replication and their statistics under /study, and the full records of
+// the traced replications under /replications/<k>, each laid out like the /day group of a day file.
+//
+// The file is opened before the study runs and the traced days are written as they are handed over
+// (StudyOptions::on_trace, in replication order), so no day's records are kept in memory; /study is
+// written at the end. Until finish() succeeds the file exists only under a temporary name, which is
+// removed if the writer is destroyed first: the target path gets a whole file or nothing.
+// Everything is written on the calling thread (ENGINEERING.md "HDF5": one writer owns the handles).
+#include <cstdint>
+#include <memory>
+#include <optional>
+#include <string>
+
+#include "sim/sim_model.hpp"
+#include "sim/sim_result.hpp"
+#include "sim/study.hpp"
+#include "tools/io/sim_hdf5.hpp"
+
+namespace knockon {
+
+// Which replications keep their full records: none, all, or K of the N planned spread evenly
+// (replication k is traced when floor((k+1)K/N) > floor(kK/N): the last of each N/K block).
+struct TraceSelection {
+    enum class Mode { none, all, sample };
+    Mode mode = Mode::none;
+    std::uint32_t sample = 0;  // K, for Mode::sample (at least 1)
+
+    bool traced(std::uint32_t replication, std::uint32_t planned) const;
+    std::string text() const;  // "none", "all" or "sample:K", as on the command line
+};
+
+// "none", "all" or "sample:K" with K a whole number >= 1; nullopt for anything else.
+std::optional<TraceSelection> parse_trace_selection(const std::string& text);
+
+// The /replications/<k> group name: the 0-based replication number with at least 6 digits.
+std::string replication_group_name(std::uint32_t replication);
+
+class StudyHdf5Writer {
+public:
+    // Creates the file under its temporary name and writes the root attributes (kind "study");
+    // throws h5::Error naming `path` if it cannot.
+    StudyHdf5Writer(const std::string& path, const Hdf5RunInfo& info, const TraceSelection& traces);
+    ~StudyHdf5Writer();  // without a successful finish(): removes the temporary file
+    StudyHdf5Writer(const StudyHdf5Writer&) = delete;
+    StudyHdf5Writer& operator=(const StudyHdf5Writer&) = delete;
+
+    // One traced day, as /replications/<replication>.
+    void write_trace(std::uint32_t replication, const SimResult& day);
+    // Writes /study and the root's replications/partial, closes the file and renames it into place.
+    // `model` is the one the study ran on (it names the buffer pairs).
+    void finish(const SimModel& model, const StudyResult& study, const StudySummary& summary);
+
+private:
+    struct State;
+    std::unique_ptr<State> state_;
+};
+
+}  // namespace knockon
