@@ -12,8 +12,13 @@ blocking-time estimate (simple Euler steps in v^2 over a 1 m grid, sectional rou
 was used to time the overtaking at Ferrowby Cross.  It is a planning aid for this file only; the
 figures that count are the ones knockon itself computes.
 
-Everything here is invented: line, places, rolling stock, timetable.  REFERENCES.md tags are
-cited beside the numbers they justify (B2/B3/B4/B6, C3, D7, D12).
+The file also carries demo-grade primary delays (`delays:`, REFERENCES.md P5/P6) for Monte Carlo
+studies, and two variants for `knockon compare`: four-aspect signalling on the same signals, and
+shorter blocks (an intermediate signal halfway along each open-line block longer than 2 km, with
+four-aspect signalling so that two blocks give the braking distance, B6).
+
+Everything here is invented: line, places, rolling stock, timetable, delays.  REFERENCES.md tags
+are cited beside the numbers they justify (B2/B3/B4/B6, C3, D7, D12, P5, P6).
 """
 import argparse
 import math
@@ -242,6 +247,43 @@ def make_signals():
 
 SIGNALS = make_signals()
 
+SPLIT_OVER = 2.0      # shorter_blocks variant: open-line blocks longer than this [km] get an
+                      # intermediate block signal halfway
+
+
+def is_station_block(a, b):
+    """Home to starter of one station: not open line."""
+    return a["role"].endswith(" home") and b["role"].endswith(" starter")
+
+
+def split_blocks(signals, over_km):
+    """The signals with an intermediate block signal halfway along every open-line block longer
+    than over_km.  Existing ids are kept (so results per signal can be compared with the base);
+    the new signal takes the id of the one in rear plus "A"."""
+    out = []
+    for direction in ("up", "down"):
+        sgn = 1 if direction == "up" else -1
+        mine = [s for s in signals if s["dir"] == direction]
+        main = [s for s in mine if not s["track"].endswith("2")]
+        for s in mine:
+            out.append(s)
+            if s["track"].endswith("2"):
+                continue
+            k = main.index(s)
+            if k + 1 == len(main):
+                continue
+            b = main[k + 1]
+            gap = abs(b["at"] - s["at"])
+            if gap > over_km + 1e-9 and not is_station_block(s, b):
+                x = round(s["at"] + sgn * gap / 2, 3)
+                approach = max(line_speed(x - sgn * 0.01) / KMH, line_speed(x + sgn * 0.01) / KMH)
+                out.append(dict(id=s["id"] + "A", track=s["track"], at=x, dir=direction,
+                                role="intermediate block", overlap=b4_overlap(x, direction, approach)))
+    return out
+
+
+SHORT_SIGNALS = split_blocks(SIGNALS, SPLIT_OVER)
+
 
 # ---------------------------------------------------------------------------------------------
 # YAML output
@@ -272,17 +314,18 @@ def braking_distance(t, v, fall_permille):
     return v * t["delay"] + v * v / (2 * b)
 
 
-def spacing_table():
+def spacing_table(signals=None):
     """Worst open-line block (shortest margin) per type; used for the B6 comment and --check."""
+    signals = SIGNALS if signals is None else signals
     rows = []
     for direction in ("up", "down"):
-        sigs = [s for s in SIGNALS if s["dir"] == direction and not s["track"].endswith("2")]
+        sigs = [s for s in signals if s["dir"] == direction and not s["track"].endswith("2")]
         for a, b in zip(sigs, sigs[1:]):
             length = abs(b["at"] - a["at"]) * 1000
             fall = falling_permille(a["at"], b["at"], direction)
             vline = max(line_speed(x / 1000) for x in
                         range(int(min(a["at"], b["at"]) * 1000), int(max(a["at"], b["at"]) * 1000) + 1, 50))
-            station_block = a["role"].endswith("home") and b["role"].endswith("starter")
+            station_block = is_station_block(a, b)
             for tid, t in TYPES.items():
                 v = min(vline, t["vmax"])
                 d = braking_distance(t, v, fall)
@@ -309,6 +352,89 @@ def header_comment():
     return lines, setter
 
 
+def signal_lines(signals, indent):
+    lines = []
+    for direction in ("up", "down"):
+        lines.append(f"{indent}# direction {direction}, in running order")
+        for s in (s for s in signals if s["dir"] == direction):
+            extra = "" if abs(s["overlap"] - OVERLAP) < 1e-6 else f", overlap: {s['overlap']:.0f} m"
+            body = f"{{id: {s['id']}, track: {s['track']}, at: {km(s['at'])}, direction: {direction}{extra}}}"
+            lines.append(f"{indent}- {body:<76s} # {s['role']}")
+    return lines
+
+
+# Primary delays for Monte Carlo studies: (category, probability %, mean min) of late entry or
+# start, REFERENCES.md P5 (suburban -> stopping, long-distance -> fast, freight).
+ENTRY_DELAYS = [("stopping", 20, 1.3, "P5 suburban: 20 %, mean 1.3 min"),
+                ("fast", 50, 5.0, "P5 long-distance: 50 %, mean 5.0 min"),
+                ("freight", 40, 20.0, "P5 freight: 40 %, mean 20 min")]
+
+
+def delay_lines():
+    lines = [
+        "# Primary delays for `knockon simulate --replications` and `knockon compare`.  DEMO-GRADE, NOT",
+        "# FOR REAL STUDIES: the entry figures are a secondary transcription of one national capacity",
+        "# guideline (REFERENCES.md P5), the shapes follow published fits (P6), and the dwell, running and",
+        "# disruption figures are invented to make the demo show something.  A real study fits these to",
+        "# the line's own delay records.",
+        "delays:",
+        "  # Late start at the origin or late entry at the line end, exponential (P6: departure delays",
+        "  # fit an exponential or a Weibull with shape below 1).",
+        "  entry:",
+    ]
+    for cat, p, m, note in ENTRY_DELAYS:
+        body = f"{{category: {cat}, probability: {p} %, distribution: exponential, mean: {m:g} min}}"
+        lines.append(f"    - {body:<92s} # {note}")
+    lines += [
+        "  # Extra dwell at stops: Weibull with shape above 1 (P6: dwell times), mean 40 s x Gamma(1 + 1/1.5)",
+        "  # = 36 s, at one stop in ten for the stopping trains and one in twenty for the fast ones.",
+        "  dwell:",
+        "    - {category: stopping, probability: 10 %, distribution: weibull, shape: 1.5, scale: 40 s}",
+        "    - {category: fast, probability: 5 %, distribution: weibull, shape: 1.5, scale: 60 s}",
+        "  # Slow running (e.g. a speed restriction not in the timetable): rare and short, any train.",
+        "  running:",
+        "    - {probability: 3 %, distribution: exponential, mean: 30 s}",
+        "  # A rare failure on the down main line over the Nettlescar fall: about one day in fifty, for",
+        "  # 20 min on average, some time between 06:00 and 21:00.",
+        "  disruptions:",
+        "    - {track: D, from: 20 km, to: 24 km, daily_probability: 2 %, distribution: exponential, mean: 20 min,",
+        "       window: [\"06:00\", \"21:00\"]}",
+    ]
+    return lines
+
+
+def variant_lines():
+    area = f"{{areas: [{{from: 0 km, to: {km(LENGTH_KM)}, system: four_aspect}}]}}"
+    split = [s for s in SHORT_SIGNALS if s["role"] == "intermediate block"]
+    rows = four_aspect_table(SHORT_SIGNALS)
+    worst = min(rows, key=lambda r: r["length"] - r["d"])
+    lines = [
+        "# Variants for `knockon compare` (and `plan`/`simulate --variant NAME`): each is merged onto the",
+        "# scenario above, maps key by key, lists replaced whole.",
+        "variants:",
+        "  four_aspect:",
+        "    description: four-aspect signalling on the same signal positions",
+        "    # A driver may read three blocks ahead instead of two (B5).  The blocks are already a braking",
+        "    # distance long (B6 three-aspect), so the warning points stay one signal back and the minimum",
+        "    # headways cannot grow; nor do they shrink: on this layout the extra aspect alone buys little",
+        "    # or nothing.  Compare it with shorter_blocks, which the fourth aspect makes possible.",
+        f"    infrastructure: {{signalling: {area}}}",
+        "  shorter_blocks:",
+        f"    description: intermediate block signals halfway along the {len(split)} open-line blocks longer than "
+        f"{SPLIT_OVER:g} km, four-aspect",
+        "    # Halved blocks (1.0-1.2 km) are shorter than a braking distance from 160 km/h, so they need",
+        "    # four-aspect signalling: two blocks together at least a braking distance (B6 four-aspect).",
+        f"    # Tightest pair of blocks: {worst['type']} needs {worst['d']:.0f} m over {worst['a']['id']}-"
+        f"{worst['c']['id']} of {worst['length']:.0f} m.",
+        "    # New signals take the id of the signal in rear plus A; the others keep their ids.",
+        "    infrastructure:",
+        f"      signalling: {area}",
+        "      signals:",
+    ]
+    lines += signal_lines(SHORT_SIGNALS, "        ")
+    return lines
+
+
 def emit_yaml():
     out = []
     w = out.append
@@ -326,6 +452,9 @@ def emit_yaml():
     w("# :10 down stopping trains stand in the loop at Ferrowby Cross (6 and 5.5 min) while the fast")
     w("# train overtakes.  The buffers around that overtaking, and behind the up fast train at")
     w("# Hobblethorpe, are thin on purpose (under a minute): the first places a planner should look.")
+    w("#")
+    w("# At the end: demo-grade primary delays for Monte Carlo studies, and two variants (four-aspect")
+    w("# signalling; shorter blocks) for knockon compare.")
     w("")
     w("knockon: 1")
     w("name: Marrowfen-Wendlecombe demo line (invented)")
@@ -376,12 +505,7 @@ def emit_yaml():
     w("  # so a through train is warned in time at the signal in rear (B6); at the termini the 60 km/h")
     w("  # throat keeps the 700 m station block long enough.")
     w("  signals:")
-    for direction in ("up", "down"):
-        w(f"    # direction {direction}, in running order")
-        for s in (s for s in SIGNALS if s["dir"] == direction):
-            extra = "" if abs(s["overlap"] - OVERLAP) < 1e-6 else f", overlap: {s['overlap']:.0f} m"
-            body = f"{{id: {s['id']}, track: {s['track']}, at: {km(s['at'])}, direction: {direction}{extra}}}"
-            w(f"    - {body:<76s} # {s['role']}")
+    out.extend(signal_lines(SIGNALS, "    "))
     w("")
     w("train_types:")
     for t in TYPES.values():
@@ -427,6 +551,10 @@ def emit_yaml():
                 else:
                     call = f"{{station: {st}}}"
             w(f"        - {call}")
+    w("")
+    out.extend(delay_lines())
+    w("")
+    out.extend(variant_lines())
     return "\n".join(out) + "\n"
 
 
@@ -475,6 +603,44 @@ def check_invariants():
         if not r["station"] and r["d"] > r["length"]:
             problems.append(f"B6: {r['type']} needs {r['d']:.0f} m in block {r['a']['id']}-{r['b']['id']} "
                             f"of {r['length']:.0f} m")
+    problems += check_short_blocks()
+    return problems
+
+
+def four_aspect_table(signals):
+    """B6 (four-aspect): two consecutive blocks together at least the braking distance from the
+    speed at the first signal.  One row per pair of blocks on the open line and type."""
+    rows = []
+    for direction in ("up", "down"):
+        sigs = [s for s in signals if s["dir"] == direction and not s["track"].endswith("2")]
+        for a, b, c in zip(sigs, sigs[1:], sigs[2:]):
+            if is_station_block(a, b) or is_station_block(b, c):
+                continue
+            length = abs(c["at"] - a["at"]) * 1000
+            fall = falling_permille(a["at"], c["at"], direction)
+            lo, hi = sorted((a["at"], c["at"]))
+            vline = max(line_speed(x / 1000) for x in range(int(lo * 1000), int(hi * 1000) + 1, 50))
+            for tid, t in TYPES.items():
+                v = min(vline, t["vmax"])
+                rows.append(dict(a=a, c=c, length=length, type=tid, v=v, d=braking_distance(t, v, fall)))
+    return rows
+
+
+def check_short_blocks():
+    """The shorter_blocks variant: signals in order, halves at least 0.8 km, B6 four-aspect."""
+    problems = []
+    for direction in ("up", "down"):
+        sigs = [s for s in SHORT_SIGNALS if s["dir"] == direction and not s["track"].endswith("2")]
+        xs = [s["at"] if direction == "up" else -s["at"] for s in sigs]
+        if xs != sorted(xs) or len(set(xs)) != len(xs):
+            problems.append(f"shorter_blocks: {direction} signals out of order")
+        for a, b in zip(sigs, sigs[1:]):
+            if "intermediate" in a["role"] + b["role"] and abs(b["at"] - a["at"]) < MIN_BLOCK / 2 - 1e-9:
+                problems.append(f"shorter_blocks: block {a['id']}-{b['id']} shorter than {MIN_BLOCK / 2} km")
+    for r in four_aspect_table(SHORT_SIGNALS):
+        if r["d"] > r["length"]:
+            problems.append(f"shorter_blocks, B6 four-aspect: {r['type']} needs {r['d']:.0f} m over "
+                            f"{r['a']['id']}-{r['c']['id']} of {r['length']:.0f} m")
     return problems
 
 

@@ -1,6 +1,7 @@
 #include "tools/io/scenario_reader.hpp"
 
 #include <algorithm>
+#include <cctype>
 #include <array>
 #include <cerrno>
 #include <cmath>
@@ -18,6 +19,7 @@
 #include "models/path.hpp"
 #include "models/units.hpp"
 #include "tools/io/yaml_fields.hpp"
+#include "tools/io/yaml_merge.hpp"
 
 namespace knockon {
 
@@ -88,7 +90,8 @@ public:
     Scenario parse(const YAML::Node& root) {
         MapFields top(errors_, root, "",
                       {"knockon", "name", "line_type", "infrastructure", "train_types", "timetable",
-                       "delays"});
+                       "delays", "variants"});
+        // `variants` is checked and merged before this parse (see parse_scenario below).
         if (!top.ok()) return std::move(sc_);
         if (auto v = top.text("knockon", true)) {
             bool supported = false;
@@ -1300,8 +1303,115 @@ private:
 
 }  // namespace
 
-Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name) {
-    ErrorList errors(file_name);
+// ---------------------------------------------------------------- variants
+//
+// A variant is an overlay of the document under `variants: {NAME: {...}}`, merged onto the base
+// document (yamlio::merge_into: maps key by key, other values replaced) before the usual parse.
+// The merge reuses the parsed nodes, so marks still point where the text was written.
+
+namespace {
+
+constexpr const char* kBaseVariant = "base";
+
+struct VariantSource {
+    std::string name, description;
+    YAML::Node overlay;   // a map, `description` included
+};
+
+struct VariantsSection {
+    bool present = false;
+    YAML::Mark key_mark;   // of the `variants` key
+    std::vector<VariantSource> list;   // in file order, every one that is a map (problems or not)
+};
+
+// Letters, digits, _ and -: names that survive a shell and `--variants a,b`.
+bool plain_name(const std::string& s) {
+    if (s.empty()) return false;
+    for (char c : s)
+        if (!(std::isalnum(static_cast<unsigned char>(c)) || c == '_' || c == '-')) return false;
+    return true;
+}
+
+std::string kind_of(const YAML::Node& n) {
+    if (n.IsSequence()) return "a list";
+    if (n.IsMap()) return "a map";
+    if (n.IsNull()) return "nothing";
+    return "a single value";
+}
+
+// Checks the shape of `variants:` (a map of plain names to maps, each with an optional text
+// `description` and no `variants` of its own); everything inside an overlay is checked later,
+// by the parse of the merged document.
+VariantsSection read_variants_section(const YAML::Node& root, ErrorList& errors) {
+    VariantsSection out;
+    if (!root.IsMap()) return out;
+    YAML::Node section;
+    for (auto it = root.begin(); it != root.end(); ++it) {
+        if (it->first.IsScalar() && it->first.Scalar() == "variants") {
+            out.present = true;
+            out.key_mark = it->first.Mark();
+            section = it->second;
+            break;   // a second `variants` key is reported as a duplicate by the parse
+        }
+    }
+    if (!out.present) return out;
+    if (!section.IsMap()) {
+        errors.add(section, "variants", "expected a map of variant names to overlays, found " + kind_of(section));
+        return out;
+    }
+    std::map<std::string, int> seen;   // name -> line of first use
+    for (auto it = section.begin(); it != section.end(); ++it) {
+        const YAML::Node key = it->first;
+        const YAML::Node value = it->second;
+        if (!key.IsScalar()) {
+            errors.add(key, "variants", "variant names must be plain words");
+            continue;
+        }
+        const std::string name = key.Scalar();
+        const std::string path = yamlio::join("variants", name);
+        if (!plain_name(name))
+            errors.add(key, path, "variant name \"" + name + "\" may hold only letters, digits, _ and -");
+        else if (name == kBaseVariant)
+            errors.add(key, path, "the name base stands for the scenario without any overlay; choose another");
+        auto [pos, inserted] = seen.emplace(name, line_of(key));
+        if (!inserted)
+            errors.add(key, path, "variant \"" + name + "\" is defined twice (first at line " +
+                                      std::to_string(pos->second) + ")");
+        if (!value.IsMap()) {
+            errors.add(value, path,
+                       "expected a map (an overlay of the scenario, e.g. {infrastructure: {...}}), found " +
+                           kind_of(value));
+            continue;
+        }
+        VariantSource v{name, "", value};
+        for (auto f = value.begin(); f != value.end(); ++f) {
+            if (!f->first.IsScalar()) continue;   // reported by the parse of the merged document
+            const std::string k = f->first.Scalar();
+            if (k == "variants") {
+                errors.add(f->second, yamlio::join(path, k), "a variant cannot hold variants of its own");
+            } else if (k == "description") {
+                if (auto d = yamlio::scalar_text(errors, f->second, yamlio::join(path, k))) v.description = *d;
+            }
+        }
+        // Kept even with problems, so that reading this variant reports them rather than "no variant".
+        out.list.push_back(std::move(v));
+    }
+    return out;
+}
+
+// The overlay without `description` (which describes, and is no part of the scenario) and a
+// nested `variants` (already reported): a new map holding the overlay's own key and value
+// nodes, so their marks are kept.
+YAML::Node overlay_body(const YAML::Node& overlay) {
+    YAML::Node body(YAML::NodeType::Map);
+    for (auto it = overlay.begin(); it != overlay.end(); ++it) {
+        const bool skip = it->first.IsScalar() && (it->first.Scalar() == "description" || it->first.Scalar() == "variants");
+        if (!skip) body.force_insert(it->first, it->second);
+    }
+    return body;
+}
+
+YAML::Node load_document(const std::string& yaml_text, ErrorList& errors) {
     YAML::Node root;
     try {
         root = YAML::Load(yaml_text);
@@ -1313,6 +1423,46 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file_na
         errors.add(YAML::Mark(), "", "the file holds no scenario; it should start with knockon: 1");
         throw ScenarioError(errors.messages());
     }
+    return root;
+}
+
+std::string read_text_file(const std::string& path) {
+    std::error_code ec;
+    if (std::filesystem::is_directory(path, ec))
+        throw ScenarioError({path + ": is a directory, not a scenario file"});
+    std::ifstream in(path, std::ios::binary);
+    if (!in) throw ScenarioError({path + ": cannot open the file: " + std::strerror(errno)});
+    std::ostringstream text;
+    text << in.rdbuf();
+    if (in.bad()) throw ScenarioError({path + ": cannot read the file"});
+    return text.str();
+}
+
+}  // namespace
+
+Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
+    ErrorList errors(file_name);
+    YAML::Node root = load_document(yaml_text, errors);
+    const VariantsSection variants = read_variants_section(root, errors);
+    const bool base = variant.empty() || variant == kBaseVariant;
+    if (!base) {
+        const VariantSource* chosen = nullptr;
+        std::vector<std::string> names;
+        for (const VariantSource& v : variants.list) {
+            names.push_back(v.name);
+            if (v.name == variant && !chosen) chosen = &v;
+        }
+        if (!chosen) {
+            if (!variants.present)
+                errors.add(root.Mark(), "variants",
+                           "the scenario has no variants, so there is no variant \"" + variant + "\"");
+            else
+                errors.add(variants.key_mark, "variants",
+                           "no variant named \"" + variant + "\"; " + known_list(names));
+            throw ScenarioError(errors.messages());
+        }
+        yamlio::merge_into(root, overlay_body(chosen->overlay));
+    }
     Scenario sc;
     try {
         sc = ScenarioParser(errors).parse(root);
@@ -1322,19 +1472,28 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file_na
     }
     if (!errors.empty()) throw ScenarioError(errors.messages());
     sc.source_file = file_name;
+    if (!base) sc.name += " [variant " + variant + "]";
     return sc;
 }
 
-Scenario read_scenario(const std::string& path) {
-    std::error_code ec;
-    if (std::filesystem::is_directory(path, ec))
-        throw ScenarioError({path + ": is a directory, not a scenario file"});
-    std::ifstream in(path, std::ios::binary);
-    if (!in) throw ScenarioError({path + ": cannot open the file: " + std::strerror(errno)});
-    std::ostringstream text;
-    text << in.rdbuf();
-    if (in.bad()) throw ScenarioError({path + ": cannot read the file"});
-    return parse_scenario(text.str(), path);
+Scenario read_scenario(const std::string& path, const std::string& variant) {
+    return parse_scenario(read_text_file(path), path, variant);
+}
+
+std::vector<VariantInfo> read_variants(const std::string& path) {
+    ErrorList errors(path);
+    YAML::Node root = load_document(read_text_file(path), errors);
+    const VariantsSection section = read_variants_section(root, errors);
+    if (!errors.empty()) throw ScenarioError(errors.messages());
+    std::vector<VariantInfo> out;
+    for (const VariantSource& v : section.list) out.push_back({v.name, v.description});
+    return out;
+}
+
+std::vector<std::string> variant_names(const std::string& path) {
+    std::vector<std::string> out;
+    for (const VariantInfo& v : read_variants(path)) out.push_back(v.name);
+    return out;
 }
 
 }  // namespace knockon

@@ -16,9 +16,24 @@ struct ScenarioError : std::runtime_error {
 };
 
 // Reads and checks the file; throws ScenarioError (also when the file cannot be opened).
-Scenario read_scenario(const std::string& path);
+// `variant` names one of the file's variants (README, "Variants and `compare`"): its overlay is
+// merged onto the document before it is read, so that every error still points at the line
+// where the offending text stands, in the overlay or in the base.  Empty or "base": the
+// scenario as written.  An unknown name is an error naming the known ones.
+Scenario read_scenario(const std::string& path, const std::string& variant = "");
 
 // Same from text already in memory; `file_name` is used in messages and as source_file.
-Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name);
+Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name,
+                        const std::string& variant = "");
+
+// The variants a file defines, in file order.  Checks only the `variants:` map itself (its
+// shape, the names, the descriptions); throws ScenarioError on those problems or when the file
+// cannot be read as YAML.
+struct VariantInfo {
+    std::string name;
+    std::string description;   // empty when not given
+};
+std::vector<VariantInfo> read_variants(const std::string& path);
+std::vector<std::string> variant_names(const std::string& path);
 
 }  // namespace knockon

@@ -13,5 +13,8 @@ struct UsageError : std::runtime_error {
 int validate(const std::vector<std::string>& args);
 int plan(const std::vector<std::string>& args);
 int simulate(const std::vector<std::string>& args);
+int report(const std::vector<std::string>& args);
+int plot(const std::vector<std::string>& args);
+int compare(const std::vector<std::string>& args);
 
 }  // namespace knockon::cli

@@ -21,6 +21,10 @@ void usage(std::FILE* to) {
                  "  plan SCENARIO [options]     running times, blocking times, headways, buffers,\n"
                  "                              conflicts and UIC 406 capacity consumption\n"
                  "  simulate SCENARIO [options] one day, event by event, with signals and interlocking\n"
+                 "  report SCENARIO -o FILE     the study report as one self-contained HTML page\n"
+                 "  plot SCENARIO [options]     one chart of the report as an SVG file\n"
+                 "  compare SCENARIO [options]  Monte Carlo comparison of scenario variants with the same\n"
+                 "                              primary delays (common random numbers)\n"
                  "\n"
                  "Run 'knockon <command> --help' for the options of a command.\n");
 }
@@ -38,6 +42,9 @@ int main(int argc, char** argv) {
         if (command == "validate") return knockon::cli::validate(args);
         if (command == "plan") return knockon::cli::plan(args);
         if (command == "simulate") return knockon::cli::simulate(args);
+        if (command == "report") return knockon::cli::report(args);
+        if (command == "plot") return knockon::cli::plot(args);
+        if (command == "compare") return knockon::cli::compare(args);
         if (command == "--help" || command == "-h" || command == "help") {
             usage(stdout);
             return 0;

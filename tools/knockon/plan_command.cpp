@@ -13,13 +13,15 @@ int plan(const std::vector<std::string>& args) {
     po::options_description options("plan options");
     options.add_options()("json", "print one JSON document instead of tables")(
         "csv", po::value<std::string>(), "also write every table as CSV into this directory")(
-        "step", po::value<double>()->default_value(2.0), "distance step of the running-time integration [m]");
+        "step", po::value<double>()->default_value(2.0), "distance step of the running-time integration [m]")(
+        "variant", po::value<std::string>(), "apply this variant of the scenario file (base: none)");
     po::variables_map vm;
     if (!parse_command_line("plan", args, options, vm)) return 0;
     const double step = vm["step"].as<double>();
     if (!(step > 0.0 && step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
 
-    Scenario scenario = read_scenario(vm["scenario"].as<std::string>());
+    const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
+    Scenario scenario = read_scenario(vm["scenario"].as<std::string>(), variant);
     PlanResult result = make_plan(scenario, RunOptions{step});
 
     if (vm.count("csv")) {

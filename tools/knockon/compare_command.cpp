@@ -1,0 +1,375 @@
+// knockon compare: Monte Carlo comparison of scenario variants with common random numbers.
+//
+// Every variant is read, planned and studied with the same seed, so replication k of each sees
+// the same primary delays; the figures are then compared day by day against the first variant
+// (sim/comparison).  The plan figures (headways, capacity consumption) are deterministic and are
+// compared as they are.
+#include <chrono>
+#include <cmath>
+#include <cstdio>
+#include <memory>
+#include <set>
+#include <sstream>
+#include <unistd.h>
+
+#include <nlohmann/json.hpp>
+
+#include "models/plan.hpp"
+#include "sim/comparison.hpp"
+#include "sim/delay_draws.hpp"
+#include "sim/simulation.hpp"
+#include "sim/study.hpp"
+#include "tools/io/plan_output.hpp"
+#include "tools/io/scenario_reader.hpp"
+#include "tools/knockon/options.hpp"
+
+namespace knockon::cli {
+namespace {
+
+// One variant as run: the scenario and plan must outlive its SimModel (it keeps references).
+struct VariantRun {
+    std::string name, description;
+    Scenario scenario;
+    PlanResult plan;
+    PlanFigures figures;
+    StudyResult study;
+    StudySummary summary;
+};
+
+std::vector<std::string> split_names(const std::string& list) {
+    std::vector<std::string> out;
+    std::string cur;
+    auto flush = [&] {
+        const auto a = cur.find_first_not_of(" \t");
+        const auto b = cur.find_last_not_of(" \t");
+        if (a == std::string::npos) throw UsageError("--variants: empty name in '" + list + "'");
+        out.push_back(cur.substr(a, b - a + 1));
+        cur.clear();
+    };
+    for (char c : list) {
+        if (c == ',')
+            flush();
+        else
+            cur += c;
+    }
+    flush();
+    return out;
+}
+
+std::string fmt(const char* f, double a, double b = 0.0) {
+    char buf[96];
+    std::snprintf(buf, sizeof buf, f, a, b);
+    return buf;
+}
+std::string minutes(const Estimate& e) { return fmt("%.2f ± %.2f min", e.mean / 60.0, e.half_width / 60.0); }
+std::string signed_minutes(const Estimate& e) {
+    return fmt("%+.2f ± %.2f min", e.mean / 60.0, e.half_width / 60.0);
+}
+std::string percent(const Estimate& e) { return fmt("%.1f ± %.1f %%", 100.0 * e.mean, 100.0 * e.half_width); }
+std::string signed_points(const Estimate& e) {
+    return fmt("%+.2f ± %.2f pts", 100.0 * e.mean, 100.0 * e.half_width);
+}
+
+// A text table: first column labels, then one column per variant, left-aligned.
+class TextColumns {
+public:
+    explicit TextColumns(std::size_t label_width) : label_width_(label_width) {}
+    void row(const std::string& label, const std::vector<std::string>& cells) { rows_.push_back({label, cells}); }
+    std::string str() const {
+        std::vector<std::size_t> w;
+        for (const auto& r : rows_)
+            for (std::size_t i = 0; i < r.second.size(); ++i) {
+                if (w.size() <= i) w.push_back(0);
+                w[i] = std::max(w[i], display_width(r.second[i]));
+            }
+        std::string out;
+        for (const auto& r : rows_) {
+            std::string line = "  " + r.first;
+            line += std::string(label_width_ > r.first.size() ? label_width_ - r.first.size() : 1, ' ');
+            for (std::size_t i = 0; i < r.second.size(); ++i) {
+                line += r.second[i];
+                if (i + 1 < r.second.size()) line += std::string(w[i] - display_width(r.second[i]) + 3, ' ');
+            }
+            out += line + "\n";
+        }
+        return out;
+    }
+
+private:
+    // Characters as seen on a terminal: UTF-8 continuation bytes (of ±, −) take no column.
+    static std::size_t display_width(const std::string& s) {
+        std::size_t n = 0;
+        for (unsigned char c : s) n += (c & 0xC0) != 0x80;
+        return n;
+    }
+    std::size_t label_width_;
+    std::vector<std::pair<std::string, std::vector<std::string>>> rows_;
+};
+
+std::string compare_text(const std::vector<const VariantRun*>& runs, const std::vector<StudyComparison>& cmp,
+                         std::uint64_t seed, unsigned threads, const std::vector<double>& thresholds) {
+    const VariantRun& first = *runs.front();
+    std::ostringstream out;
+    out << "knockon compare: " << first.scenario.name << " (" << first.scenario.source_file << ")\n";
+    out << "Caution: " << kSafetyCaution << "\n\n";
+    out << first.study.replications.size() << " simulated days per variant (seed " << seed << ", " << threads
+        << " thread" << (threads == 1 ? "" : "s") << ").  Every variant sees the same primary delays\n"
+        << "(common random numbers), so the differences are the variants', not the dice's.\n\n";
+    out << "Variants:\n";
+    for (const VariantRun* r : runs)
+        out << "  " << r->name << ": " << (r->description.empty() ? "(no description)" : r->description) << "\n";
+
+    std::vector<std::string> names;
+    for (const VariantRun* r : runs) names.push_back(r->name);
+    const std::size_t lw = 30;
+
+    out << "\nPer day (mean ± 95 % CI half-width):\n";
+    TextColumns per_day(lw);
+    per_day.row("", names);
+    auto row = [&](TextColumns& t, const std::string& label, auto cell) {
+        std::vector<std::string> cells;
+        for (const VariantRun* r : runs) cells.push_back(cell(*r));
+        t.row(label, cells);
+    };
+    row(per_day, "primary delay injected", [](const VariantRun& r) { return minutes(r.summary.total_primary); });
+    row(per_day, "knock-on delay", [](const VariantRun& r) { return minutes(r.summary.total_knock_on); });
+    row(per_day, "mean arrival delay", [](const VariantRun& r) { return minutes(r.summary.mean_arrival_delay); });
+    for (std::size_t i = 0; i < thresholds.size(); ++i)
+        row(per_day, fmt("punctual within %.0f min", thresholds[i] / 60.0),
+            [i](const VariantRun& r) { return percent(r.summary.punctuality[i]); });
+    row(per_day, "days ended in deadlock",
+        [](const VariantRun& r) { return std::to_string(r.summary.deadlocked); });
+    out << per_day.str();
+
+    if (runs.size() > 1) {
+        out << "\nPaired differences against " << first.name
+            << " (variant minus " << first.name << ", day by day; mean ± 95 % CI half-width):\n";
+        TextColumns diff(lw);
+        std::vector<std::string> others(names.begin() + 1, names.end());
+        diff.row("", others);
+        auto drow = [&](const std::string& label, auto cell) {
+            std::vector<std::string> cells;
+            for (const StudyComparison& c : cmp) cells.push_back(cell(c));
+            diff.row(label, cells);
+        };
+        drow("knock-on delay", [](const StudyComparison& c) { return signed_minutes(c.total_knock_on.difference); });
+        drow("mean arrival delay",
+             [](const StudyComparison& c) { return signed_minutes(c.mean_arrival_delay.difference); });
+        for (std::size_t i = 0; i < thresholds.size(); ++i)
+            drow(fmt("punctual within %.0f min", thresholds[i] / 60.0),
+                 [i](const StudyComparison& c) { return signed_points(c.punctuality[i].difference); });
+        drow("primary delay injected",
+             [](const StudyComparison& c) { return signed_minutes(c.total_primary.difference); });
+        out << diff.str();
+        out << "  (A difference whose interval excludes 0 is unlikely to be chance; primary delay differs\n"
+               "  only where a variant changes the delays or the trains themselves.)\n";
+    }
+
+    out << "\nPlan (deterministic, from the timetable analysis):\n";
+    TextColumns plan(lw);
+    plan.row("", names);
+    row(plan, "mean minimum headway", [](const VariantRun& r) {
+        return fmt("%.1f s", r.figures.mean_minimum_headway) + " (" + std::to_string(r.figures.headway_pairs) +
+               " pairs)";
+    });
+    row(plan, "peak-hour consumption (max)", [](const VariantRun& r) {
+        return fmt("%.1f %%", 100.0 * r.figures.peak_consumption) + " " + r.figures.peak_section;
+    });
+    row(plan, "day consumption (max)", [](const VariantRun& r) {
+        return fmt("%.1f %%", 100.0 * r.figures.day_consumption) + " " + r.figures.day_section;
+    });
+    out << plan.str();
+    if (runs.size() > 1) {
+        out << "Differences against " << first.name << ":\n";
+        TextColumns pd(lw);
+        std::vector<std::string> others(names.begin() + 1, names.end());
+        pd.row("", others);
+        auto prow = [&](const std::string& label, auto cell) {
+            std::vector<std::string> cells;
+            for (std::size_t i = 1; i < runs.size(); ++i) cells.push_back(cell(runs[i]->figures, first.figures));
+            pd.row(label, cells);
+        };
+        prow("mean minimum headway", [](const PlanFigures& v, const PlanFigures& b) {
+            return fmt("%+.1f s", v.mean_minimum_headway - b.mean_minimum_headway);
+        });
+        prow("peak-hour consumption (max)", [](const PlanFigures& v, const PlanFigures& b) {
+            return fmt("%+.1f pts", 100.0 * (v.peak_consumption - b.peak_consumption));
+        });
+        prow("day consumption (max)", [](const PlanFigures& v, const PlanFigures& b) {
+            return fmt("%+.1f pts", 100.0 * (v.day_consumption - b.day_consumption));
+        });
+        out << pd.str();
+    }
+    return out.str();
+}
+
+nlohmann::json est(const Estimate& e) {
+    return {{"mean", e.mean}, {"ci95_half_width", e.half_width}, {"ci95_lower", e.lower}, {"ci95_upper", e.upper},
+            {"n", e.n}};
+}
+
+nlohmann::json plan_json_figures(const PlanFigures& f) {
+    return {{"headway_pairs", f.headway_pairs},
+            {"mean_minimum_headway_s", f.mean_minimum_headway},
+            {"peak_hour_consumption", f.peak_consumption},
+            {"peak_hour_line_section", f.peak_section},
+            {"day_consumption", f.day_consumption},
+            {"day_line_section", f.day_section}};
+}
+
+nlohmann::json compare_json(const std::vector<const VariantRun*>& runs, const std::vector<StudyComparison>& cmp,
+                            std::uint64_t seed, unsigned threads, const std::vector<double>& thresholds,
+                            const std::string& command_line) {
+    nlohmann::json j;
+    j["tool"] = {{"name", "knockon"}, {"version", KNOCKON_VERSION}};
+    j["scenario_file"] = runs.front()->scenario.source_file;
+    j["caution"] = kSafetyCaution;
+    j["study"] = {{"replications", runs.front()->study.replications.size()},
+                  {"seed", seed},
+                  {"threads", threads},
+                  {"common_random_numbers", true},
+                  {"differences_against", runs.front()->name},
+                  {"command_line", command_line}};
+    j["variants"] = nlohmann::json::array();
+    for (std::size_t v = 0; v < runs.size(); ++v) {
+        const VariantRun& r = *runs[v];
+        const StudySummary& s = r.summary;
+        nlohmann::json per_day = {{"total_primary_s", est(s.total_primary)},
+                                  {"total_knock_on_s", est(s.total_knock_on)},
+                                  {"mean_arrival_delay_s", est(s.mean_arrival_delay)},
+                                  {"deadlocked_days", s.deadlocked}};
+        for (std::size_t i = 0; i < thresholds.size(); ++i)
+            per_day["punctuality"].push_back({{"threshold_s", thresholds[i]}, {"share", est(s.punctuality[i])}});
+        nlohmann::json jv = {{"name", r.name},
+                             {"description", r.description},
+                             {"scenario", scenario_facts(r.scenario)},
+                             {"per_day", per_day},
+                             {"plan", plan_json_figures(r.figures)},
+                             {"difference", nullptr}};
+        if (v > 0) {
+            const StudyComparison& c = cmp[v - 1];
+            const PlanFigures &f = r.figures, &b = runs.front()->figures;
+            nlohmann::json d = {{"against", runs.front()->name},
+                                {"total_knock_on_s", est(c.total_knock_on.difference)},
+                                {"mean_arrival_delay_s", est(c.mean_arrival_delay.difference)},
+                                {"total_primary_s", est(c.total_primary.difference)},
+                                {"mean_minimum_headway_s", f.mean_minimum_headway - b.mean_minimum_headway},
+                                {"peak_hour_consumption", f.peak_consumption - b.peak_consumption},
+                                {"day_consumption", f.day_consumption - b.day_consumption}};
+            for (std::size_t i = 0; i < thresholds.size(); ++i)
+                d["punctuality"].push_back(
+                    {{"threshold_s", thresholds[i]}, {"share", est(c.punctuality[i].difference)}});
+            jv["difference"] = d;
+        }
+        j["variants"].push_back(std::move(jv));
+    }
+    j["notes"] = {"Per-day figures are means over the simulated days with 95 % confidence intervals; differences "
+                  "are variant minus the first variant, replication by replication, with the same primary delays "
+                  "(common random numbers).",
+                  "Times in seconds; shares 0..1; consumption is the largest over the line sections.",
+                  kUic406Note};
+    return j;
+}
+
+}  // namespace
+
+int compare(const std::vector<std::string>& args) {
+    std::string command_line = "knockon compare";
+    for (const std::string& a : args) command_line += " " + a;
+    po::options_description options("compare options");
+    options.add_options()(
+        "variants", po::value<std::string>(),
+        "comma-separated variants to compare, the first being the reference, e.g. base,four_aspect "
+        "(default: base and every variant of the file)")(
+        "replications", po::value<std::uint32_t>()->default_value(100), "simulated days per variant")(
+        "seed", po::value<std::uint64_t>()->default_value(1), "random seed, the same for every variant")(
+        "threads", po::value<unsigned>()->default_value(1), "threads (results do not depend on it)")(
+        "order", po::value<std::string>()->default_value("timetable"),
+        "route-setting order at conflicts: timetable or first-come")(
+        "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]")(
+        "json", "print one JSON document instead of tables");
+    po::variables_map vm;
+    if (!parse_command_line("compare", args, options, vm)) return 0;
+    const std::string file = vm["scenario"].as<std::string>();
+
+    StudyOptions opt;
+    opt.replications = vm["replications"].as<std::uint32_t>();
+    if (opt.replications == 0) throw UsageError("--replications must be at least 1");
+    opt.threads = vm["threads"].as<unsigned>();
+    if (opt.threads == 0 || opt.threads > 256) throw UsageError("--threads must be between 1 and 256");
+    const std::string order = vm["order"].as<std::string>();
+    if (order == "timetable") opt.sim.route_order = RouteOrder::timetable;
+    else if (order == "first-come") opt.sim.route_order = RouteOrder::first_come;
+    else throw UsageError("--order must be timetable or first-come, not '" + order + "'");
+    opt.sim.run.step = vm["step"].as<double>();
+    if (!(opt.sim.run.step > 0.0 && opt.sim.run.step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
+    const std::uint64_t seed = vm["seed"].as<std::uint64_t>();
+
+    std::vector<VariantInfo> known = read_variants(file);
+    std::vector<std::string> names;
+    if (vm.count("variants")) {
+        names = split_names(vm["variants"].as<std::string>());
+    } else {
+        if (known.empty()) throw UsageError(file + ": the scenario defines no variants; nothing to compare");
+        names.push_back("base");
+        for (const VariantInfo& v : known) names.push_back(v.name);
+    }
+    std::set<std::string> seen;
+    for (const std::string& n : names)
+        if (!seen.insert(n == "" ? "base" : n).second) throw UsageError("--variants: '" + n + "' is named twice");
+    if (names.size() < 2) throw UsageError("--variants: name at least two variants to compare, e.g. base," +
+                                           (known.empty() ? std::string("NAME") : known.front().name));
+
+    // Read and plan every variant first, so that bad input stops the command before any study.
+    std::vector<std::unique_ptr<VariantRun>> runs;
+    for (const std::string& n : names) {
+        auto r = std::make_unique<VariantRun>();
+        r->name = n;
+        r->scenario = read_scenario(file, n);
+        for (const VariantInfo& v : known)
+            if (v.name == n) r->description = v.description;
+        if (n == "base") r->description = "the scenario as written, without overlay";
+        r->plan = make_plan(r->scenario, opt.sim.run);
+        r->figures = plan_figures(r->plan);
+        runs.push_back(std::move(r));
+    }
+    if (runs.front()->scenario.delays.empty())
+        std::fprintf(stderr, "knockon compare: note: %s has no `delays:` section, so every day is the same\n",
+                     file.c_str());
+
+    const bool tty = ::isatty(2);
+    for (std::size_t v = 0; v < runs.size(); ++v) {
+        VariantRun& r = *runs[v];
+        StudyOptions o = opt;
+        // The same seed for every variant: replication k draws the same primary delays everywhere.
+        o.draw = [&r, seed](std::uint32_t k) {
+            return draw_delays(r.scenario.delays, r.scenario.infrastructure, r.plan.trains, seed, k);
+        };
+        const auto t0 = std::chrono::steady_clock::now();
+        o.progress = [&, v](std::uint32_t done, std::uint32_t planned) {
+            if (!tty) return;
+            const double el = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+            std::fprintf(stderr, "\r%s (%zu/%zu): %u/%u days  %.1f/s   ", r.name.c_str(), v + 1, runs.size(), done,
+                         planned, el > 0 ? done / el : 0.0);
+            if (done == planned) std::fprintf(stderr, "\n");
+        };
+        SimModel model(r.scenario.infrastructure, r.plan.trains);
+        r.study = run_study(model, o);
+        r.summary = summarize_study(model, r.study, o.thresholds);
+    }
+
+    std::vector<const VariantRun*> flat;
+    for (const auto& r : runs) flat.push_back(r.get());
+    std::vector<StudyComparison> cmp;
+    for (std::size_t v = 1; v < flat.size(); ++v)
+        cmp.push_back(compare_studies(flat.front()->study, flat[v]->study, opt.thresholds));
+
+    if (vm.count("json"))
+        std::printf("%s\n",
+                    compare_json(flat, cmp, seed, opt.threads, opt.thresholds, command_line).dump(1).c_str());
+    else
+        std::fputs(compare_text(flat, cmp, seed, opt.threads, opt.thresholds).c_str(), stdout);
+    return 0;
+}
+
+}  // namespace knockon::cli
