@@ -1,0 +1,166 @@
+// End-to-end runs of `knockon simulate`: the HDF5 results file read back with the plain HDF5 C API
+// (tools/io/HDF5_LAYOUT.md), a failed write, the deadlock exit status, and refused --delay options.
+#include <catch2/catch.hpp>
+
+#include <hdf5.h>
+#include <sys/wait.h>
+
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include <unistd.h>
+
+#include "models/plan.hpp"
+#include "sim/simulation.hpp"
+#include "tools/io/scenario_reader.hpp"
+
+namespace fs = std::filesystem;
+using namespace knockon;
+
+namespace {
+
+const std::string kExe = KNOCKON_EXE;
+const std::string kSource = KNOCKON_SOURCE_DIR;
+const std::string kTwoTrains = kSource + "/tests/data/two_trains.yaml";
+const std::string kDeadlock = kSource + "/tests/data/sim/single_line_deadlock.yaml";
+
+// A fresh directory for one test's files, removed afterwards.
+struct TempDir {
+    fs::path path;
+    TempDir() {
+        std::string tmpl = (fs::temp_directory_path() / "knockon_sim_cli_XXXXXX").string();
+        REQUIRE(mkdtemp(tmpl.data()) != nullptr);
+        path = tmpl;
+    }
+    ~TempDir() {
+        std::error_code ec;
+        fs::permissions(path, fs::perms::owner_all, fs::perm_options::add, ec);
+        for (const auto& e : fs::directory_iterator(path, ec))
+            fs::permissions(e.path(), fs::perms::owner_all, fs::perm_options::add, ec);
+        fs::remove_all(path, ec);
+    }
+    TempDir(const TempDir&) = delete;
+    TempDir& operator=(const TempDir&) = delete;
+};
+
+std::string read_text(const fs::path& p) {
+    std::ifstream in(p, std::ios::binary);
+    std::ostringstream s;
+    s << in.rdbuf();
+    return s.str();
+}
+
+struct Result {
+    int status = -1;   // exit status, -1 when killed by a signal
+    std::string out, err;
+};
+
+std::string q(const std::string& s) { return "'" + s + "'"; }
+
+// Runs knockon with the given (already quoted) arguments; `timeout` guards against a hang.
+Result run_knockon(const std::string& args, const TempDir& dir) {
+    const fs::path out = dir.path / "stdout.txt", err = dir.path / "stderr.txt";
+    const std::string cmd = "timeout 20 " + q(kExe) + " " + args + " >" + q(out.string()) + " 2>" + q(err.string());
+    const int rc = std::system(cmd.c_str());
+    Result r;
+    r.status = (rc != -1 && WIFEXITED(rc)) ? WEXITSTATUS(rc) : -1;
+    r.out = read_text(out);
+    r.err = read_text(err);
+    return r;
+}
+
+// Number of records of a 1-D dataset, read with the HDF5 C API.
+hsize_t records(hid_t file, const char* dataset) {
+    hid_t d = H5Dopen2(file, dataset, H5P_DEFAULT);
+    REQUIRE(d >= 0);
+    hid_t s = H5Dget_space(d);
+    REQUIRE(H5Sget_simple_extent_ndims(s) == 1);
+    hsize_t dims[1] = {0};
+    H5Sget_simple_extent_dims(s, dims, nullptr);
+    H5Sclose(s);
+    H5Dclose(d);
+    return dims[0];
+}
+
+}  // namespace
+
+TEST_CASE("simulate --out writes /day/timing, /day/occupancy and /day/routes with every record", "[sim][cli][hdf5]") {
+    // tools/io/HDF5_LAYOUT.md: one record per train and timing point, per train and section used,
+    // per route asked for.  Counts from the same day simulated in this process.
+    TempDir dir;
+    const fs::path h5 = dir.path / "day.h5";
+    const Result r = run_knockon("simulate " + q(kTwoTrains) + " --out " + q(h5.string()), dir);
+    INFO(r.err);
+    REQUIRE(r.status == 0);
+    REQUIRE(fs::exists(h5));
+
+    const Scenario sc = read_scenario(kTwoTrains);
+    const std::vector<TrainPlan> plan = plan_trains(sc);
+    const SimModel model(sc.infrastructure, plan);
+    const SimResult day = simulate_day(model, InjectedDelays{}, SimOptions{});
+    std::size_t calls = 0;
+    for (const TrainPlan& tp : plan) calls += tp.run.service->calls.size();
+    REQUIRE(calls == 6);   // two trains calling at A, B and C
+
+    hid_t file = H5Fopen(h5.c_str(), H5F_ACC_RDONLY, H5P_DEFAULT);
+    REQUIRE(file >= 0);
+    CHECK(records(file, "/day/timing") == calls);
+    CHECK(records(file, "/day/occupancy") == day.sections.size());
+    CHECK(records(file, "/day/routes") == day.routes.size());
+    CHECK(day.sections.size() >= 2 * 8);   // each train passes every block of the line
+    H5Fclose(file);
+}
+
+TEST_CASE("simulate --out into an unwritable directory fails and leaves no file", "[sim][cli][hdf5]") {
+    TempDir dir;
+    const fs::path locked = dir.path / "locked";
+    fs::create_directories(locked);
+    fs::permissions(locked, fs::perms::owner_read | fs::perms::owner_exec);
+    const fs::path target = locked / "day.h5";
+    // Root ignores directory permissions: then a path under a regular file stands in.
+    std::ofstream(dir.path / "plain.txt") << "x";
+    const bool root = ::geteuid() == 0;
+    const fs::path bad = root ? dir.path / "plain.txt" / "day.h5" : target;
+    const Result r = run_knockon("simulate " + q(kTwoTrains) + " --out " + q(bad.string()), dir);
+    CHECK(r.status != 0);
+    CHECK(r.err.find(bad.filename().string()) != std::string::npos);
+    CHECK_FALSE(fs::exists(target));
+    for (const auto& e : fs::directory_iterator(locked)) FAIL("left behind: " << e.path());
+}
+
+TEST_CASE("simulate exits 3 and prints DEADLOCK on a deadlocked day", "[sim][cli][deadlock]") {
+    TempDir dir;
+    for (const std::string order : {"timetable", "first-come"}) {
+        const Result r = run_knockon("simulate " + q(kDeadlock) + " --order " + order, dir);
+        INFO(r.out << r.err);
+        CHECK(r.status == 3);
+        CHECK(r.out.find("DEADLOCK") != std::string::npos);
+        CHECK(r.out.find("UP1") != std::string::npos);
+        CHECK(r.out.find("DN1") != std::string::npos);
+    }
+}
+
+TEST_CASE("simulate refuses a bad --delay with exit status 2, naming the option", "[sim][cli]") {
+    TempDir dir;
+    for (const std::string spec : {"T9:entry:3",           // unknown train
+                                   "T1:dwell@Z:2",         // unknown station
+                                   "T1:run@Nowhere:1",     // unknown station
+                                   "T1:entry",             // malformed: two parts
+                                   "T1:entry:soon",        // malformed minutes
+                                   "T1:wait@B:2",          // unknown kind
+                                   "T1:entry:-1"}) {       // negative
+        const Result r = run_knockon("simulate " + q(kTwoTrains) + " --delay " + q(spec), dir);
+        INFO(spec << ": " << r.err);
+        CHECK(r.status == 2);
+        CHECK(r.err.find("--delay") != std::string::npos);
+        CHECK(r.err.find(spec) != std::string::npos);
+    }
+    // A good one is accepted and takes effect.
+    const Result ok = run_knockon("simulate " + q(kTwoTrains) + " --delay T1:entry:3 --json", dir);
+    CHECK(ok.status == 0);
+    CHECK(ok.out.find("\"departure_delay\": 180.0") != std::string::npos);
+}
