@@ -247,6 +247,14 @@ TEST_CASE("knockon compare on the demo: text, JSON and bad input", "[compare][cl
     const Result plan_unknown = run_knockon("plan '" + kDemo + "' --variant nosuch");
     CHECK(plan_unknown.status == 2);
     CHECK_THAT(plan_unknown.err, Contains("nosuch"));
+    const Result sim_unknown = run_knockon("simulate '" + kDemo + "' --variant nosuch");
+    CHECK(sim_unknown.status == 2);
+    CHECK_THAT(sim_unknown.err, Contains("nosuch"));
+    const Result sim = run_knockon("simulate '" + kDemo + "' --variant shorter_blocks --json");
+    REQUIRE(sim.status == 0);
+    const nlohmann::json sj = nlohmann::json::parse(sim.out);
+    CHECK_THAT(sj["scenario"]["name"].get<std::string>(), Contains("shorter_blocks"));
+    CHECK(sj["scenario"]["signals"] == 64);   // the variant's signal list, not the base's 44
 }
 
 TEST_CASE("knockon validate checks every variant", "[compare][cli]") {

@@ -206,6 +206,7 @@ int simulate(const std::vector<std::string>& args) {
         "route-setting order at conflicts: timetable or first-come")(
         "sample", po::value<double>()->default_value(0.0), "record trajectories every this many seconds (0: none)")(
         "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]")(
+        "variant", po::value<std::string>(), "apply this variant of the scenario file (base: none)")(
         "replications", po::value<std::uint32_t>(), "run a Monte Carlo study of this many days with drawn primary delays")(
         "seed", po::value<std::uint64_t>()->default_value(1), "random seed of the study")(
         "threads", po::value<unsigned>()->default_value(1), "threads for the study (results do not depend on it)")(
@@ -227,7 +228,8 @@ int simulate(const std::vector<std::string>& args) {
     so.run.step = vm["step"].as<double>();
     if (!(so.run.step > 0.0 && so.run.step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
 
-    Scenario scenario = read_scenario(vm["scenario"].as<std::string>());
+    const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
+    Scenario scenario = read_scenario(vm["scenario"].as<std::string>(), variant);
     std::vector<TrainPlan> plan = plan_trains(scenario, so.run);
     if (vm.count("replications")) {
         if (vm.count("delay")) throw UsageError("--delay is for a single day; a study draws its delays from the scenario");
