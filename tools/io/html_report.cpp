@@ -1,0 +1,274 @@
+#include "tools/io/html_report.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <map>
+
+#include "models/units.hpp"
+#include "tools/io/plan_output.hpp"
+#include "tools/io/svg.hpp"
+
+namespace knockon {
+
+namespace {
+
+constexpr std::size_t kThinnestBuffers = 10;
+constexpr std::size_t kConflictRows = 50;   // beyond this the table says how many were left out
+
+const char* const kPageCss = R"(
+body { font-family: "DejaVu Sans", "Liberation Sans", Arial, Helvetica, sans-serif; color: #1a1a1a;
+       background: #ffffff; max-width: 1180px; margin: 0 auto; padding: 16px 24px; line-height: 1.4; }
+h1 { font-size: 1.6em; margin: 0.2em 0 0.5em; }
+h2 { font-size: 1.25em; border-bottom: 2px solid #1b3b6f; padding-bottom: 2px; margin-top: 1.8em; }
+p { max-width: 60em; }
+.caution { border: 2px solid #1a1a1a; border-left-width: 10px; background: #fff4e0; padding: 10px 14px;
+           font-size: 1.05em; margin: 12px 0 16px; max-width: 60em; }
+.notes { font-size: 0.92em; color: #333333; padding-left: 1.2em; }
+table { border-collapse: collapse; font-size: 0.9em; margin: 8px 0 16px; }
+caption { text-align: left; font-weight: bold; padding: 4px 0; }
+th, td { border: 1px solid #b5b5b5; padding: 3px 8px; text-align: left; vertical-align: top; }
+thead th { background: #e8edf5; }
+td.num, th.num { text-align: right; font-variant-numeric: tabular-nums; }
+tr.warn td { font-weight: bold; }
+tr.warn td:first-child::before { content: "\25B2\00A0"; }
+table.facts th { background: none; font-weight: normal; color: #444444; }
+code.cmd { font-size: 0.92em; word-break: break-all; }
+figure { margin: 12px 0 8px; }
+figure svg { max-width: 100%; height: auto; display: block; }
+figcaption { font-size: 0.9em; color: #333333; margin-top: 4px; max-width: 60em; }
+nav ol { margin: 4px 0 0; }
+footer { margin-top: 2.5em; border-top: 1px solid #b5b5b5; padding-top: 6px; font-size: 0.85em; color: #444444; }
+@page { size: A4 landscape; margin: 12mm; }
+@media print {
+  body { max-width: none; padding: 0; font-size: 10pt; }
+  nav { display: none; }
+  section.page { break-before: page; }
+  figure, table, .caution, h2 { break-inside: avoid; }
+  h2 { break-after: avoid; }
+  thead { display: table-header-group; }
+  a { color: inherit; text-decoration: none; }
+}
+)";
+
+std::string seconds(double s) { return std::isfinite(s) ? svg::number(s, 0) + " s" : "-"; }
+std::string percent(double share) { return svg::number(share * 100.0, 1) + " %"; }
+std::string km_text(double metres) { return svg::number(metres / 1000.0, 1) + " km"; }
+
+const std::string& train_id(const PlanResult& plan, std::size_t i) { return plan.trains[i].run.service->id; }
+
+std::string paragraph(const std::string& text) { return "<p>" + html_escape(text) + "</p>\n"; }
+
+std::string figure(const svg::Element& chart, const std::string& caption) {
+    return "<figure>\n" + svg::to_string(chart, false) + "<figcaption>" + html_escape(caption) +
+           "</figcaption>\n</figure>\n";
+}
+
+ReportSection time_distance_section(const Scenario& scenario, const PlanResult& plan,
+                                    const PlanReportOptions& options) {
+    const TimeWindow w = options.window;
+    ChartOptions chart;
+    chart.title = "Time-distance diagram, " + svg::format_hhmm(w.from) + "-" + svg::format_hhmm(w.to);
+    chart.footnote = kSafetyCaution;
+    std::string html = paragraph(
+        "Window " + svg::format_hhmm(w.from) + " to " + svg::format_hhmm(w.to) +
+        (options.window_reason.empty() ? std::string() : ": " + options.window_reason) +
+        ". Every train's planned path is drawn through its running-time calculation, level where it stands "
+        "at a stop. The shaded blocks are its blocking-time stairway: for each route, the time from route "
+        "set-up to release, over the detection sections from the entry signal to the end of the overlap "
+        "beyond the exit signal. Hatched blocks with a black outline are conflicts: two trains' blocking "
+        "times overlap on a section.");
+    html += figure(time_distance_chart(scenario.infrastructure, plan, w, chart),
+                   "Distance runs downwards along the line (chainage in km on the right, stations on the left, "
+                   "main signals as ticks); time runs to the right. Pointing at a path, block or conflict "
+                   "shows its details.");
+    return {"time-distance", "Time-distance diagram", html};
+}
+
+ReportSection capacity_section(const PlanResult& plan) {
+    ChartOptions chart;
+    chart.title = "Capacity consumption per line section (UIC 406 compression)";
+    chart.footnote = kUic406Note;
+    std::string html = paragraph(
+        "Occupation time of the compressed timetable as a share of the window, for each line section "
+        "(station to station, per direction): the line section's busiest clock hour and the whole day, "
+        "each against its recommended limit.");
+    html += figure(capacity_chart(plan, chart), kUic406Note);
+
+    HtmlTable t;
+    t.caption = "Capacity consumption";
+    t.headers = {"line section", "direction", "window", "from", "to", "trains", "occupation", "consumption", "limit"};
+    t.numeric = {false, false, false, true, true, true, true, true, true};
+    for (const CapacityFigure& f : plan.capacity) {
+        t.rows.push_back({f.line_section, to_string(f.direction), f.window, svg::format_hhmm(f.from),
+                          svg::format_hhmm(f.to), std::to_string(f.trains), seconds(f.occupation),
+                          percent(f.consumption), percent(f.limit)});
+        t.highlight.push_back(f.consumption > f.limit);
+    }
+    if (t.rows.empty())
+        html += paragraph("No line section carries a train.");
+    else
+        html += html_table(t) + paragraph("Marked rows (\u25B2, bold) lie above their limit.");
+    return {"capacity", "Capacity consumption", html};
+}
+
+ReportSection buffers_section(const PlanResult& plan) {
+    std::vector<const HeadwayPair*> pairs;
+    for (const HeadwayPair& h : plan.headways) pairs.push_back(&h);
+    std::stable_sort(pairs.begin(), pairs.end(),
+                     [](const HeadwayPair* a, const HeadwayPair* b) { return a->buffer < b->buffer; });
+    const std::size_t shown = std::min(pairs.size(), kThinnestBuffers);
+    std::string html = paragraph(
+        "The " + std::to_string(shown) + " smallest buffers of " + std::to_string(pairs.size()) +
+        " consecutive train pairs: buffer = scheduled headway - minimum headway at the reference points "
+        "(departure or pass at the line section's first station); the critical section is where the "
+        "stairways touch at the minimum headway. All pairs: knockon plan --csv or --json.");
+    HtmlTable t;
+    t.caption = "Thinnest buffers";
+    t.headers = {"line section", "direction", "leader", "follower", "scheduled headway", "minimum headway", "buffer",
+                 "critical section"};
+    t.numeric = {false, false, false, false, true, true, true, false};
+    for (std::size_t i = 0; i < shown; ++i) {
+        const HeadwayPair& h = *pairs[i];
+        t.rows.push_back({h.line_section, to_string(h.direction), train_id(plan, h.leader), train_id(plan, h.follower),
+                          seconds(h.scheduled_headway), seconds(h.minimum_headway), seconds(h.buffer),
+                          h.critical_section});
+        t.highlight.push_back(h.buffer < 0.0);
+    }
+    if (t.rows.empty())
+        html += paragraph("No line section has two consecutive trains.");
+    else
+        html += html_table(t) + paragraph("Marked rows (\u25B2, bold) have a negative buffer: a conflict.");
+    return {"buffers", "Thinnest buffers", html};
+}
+
+ReportSection conflicts_section(const PlanResult& plan) {
+    std::string html;
+    if (plan.conflicts.empty()) {
+        html = paragraph("No conflicts: no two trains' blocking times overlap on any detection section.");
+        return {"conflicts", "Conflicts", html};
+    }
+    html = paragraph(std::to_string(plan.conflicts.size()) +
+                     " pairs of blocking times overlap on a detection section (the first train named blocks it "
+                     "first; the overlap is the negative buffer there).");
+    HtmlTable t;
+    t.caption = "Conflicts";
+    t.headers = {"section", "first", "second", "from", "overlap"};
+    t.numeric = {false, false, false, true, true};
+    for (std::size_t i = 0; i < plan.conflicts.size() && i < kConflictRows; ++i) {
+        const Conflict& c = plan.conflicts[i];
+        t.rows.push_back({c.section, train_id(plan, c.first), train_id(plan, c.second), format_time_of_day(c.from),
+                          seconds(c.overlap)});
+    }
+    html += html_table(t);
+    if (plan.conflicts.size() > kConflictRows)
+        html += paragraph("... and " + std::to_string(plan.conflicts.size() - kConflictRows) +
+                          " more (all: knockon plan --csv or --json).");
+    return {"conflicts", "Conflicts", html};
+}
+
+}  // namespace
+
+std::string html_escape(const std::string& text) { return svg::escape(text); }
+
+std::string html_table(const HtmlTable& table) {
+    auto numeric = [&](std::size_t i) { return i < table.numeric.size() && table.numeric[i]; };
+    std::string out = "<table>\n";
+    if (!table.caption.empty()) out += "<caption>" + html_escape(table.caption) + "</caption>\n";
+    out += "<thead><tr>";
+    for (std::size_t i = 0; i < table.headers.size(); ++i)
+        out += std::string(numeric(i) ? "<th class=\"num\">" : "<th>") + html_escape(table.headers[i]) + "</th>";
+    out += "</tr></thead>\n<tbody>\n";
+    for (std::size_t r = 0; r < table.rows.size(); ++r) {
+        const bool warn = r < table.highlight.size() && table.highlight[r];
+        out += warn ? "<tr class=\"warn\">" : "<tr>";
+        for (std::size_t i = 0; i < table.rows[r].size(); ++i)
+            out += std::string(numeric(i) ? "<td class=\"num\">" : "<td>") + html_escape(table.rows[r][i]) + "</td>";
+        out += "</tr>\n";
+    }
+    out += "</tbody>\n</table>\n";
+    return out;
+}
+
+std::string render_html(const Report& report) {
+    std::string out;
+    out += "<!DOCTYPE html>\n<html lang=\"en\">\n<head>\n<meta charset=\"utf-8\">\n";
+    out += "<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">\n";
+    out += std::string("<meta name=\"generator\" content=\"knockon ") + KNOCKON_VERSION + "\">\n";
+    out += "<title>" + html_escape(report.title) + "</title>\n<style>" + kPageCss + "</style>\n</head>\n<body>\n";
+    out += "<header>\n<h1>" + html_escape(report.title) + "</h1>\n";
+    if (!report.caution.empty())
+        out += "<div class=\"caution\" role=\"note\"><strong>Caution.</strong> " + html_escape(report.caution) +
+               "</div>\n";
+    if (!report.facts.empty()) {
+        out += "<table class=\"facts\">\n<tbody>\n";
+        for (const auto& [label, value] : report.facts)
+            out += "<tr><th scope=\"row\">" + html_escape(label) + "</th><td>" + html_escape(value) + "</td></tr>\n";
+        out += "</tbody>\n</table>\n";
+    }
+    if (!report.notes.empty()) {
+        out += "<ul class=\"notes\">\n";
+        for (const std::string& n : report.notes) out += "<li>" + html_escape(n) + "</li>\n";
+        out += "</ul>\n";
+    }
+    if (!report.sections.empty()) {
+        out += "<nav><strong>Contents</strong>\n<ol>\n";
+        for (const ReportSection& s : report.sections)
+            out += "<li><a href=\"#" + html_escape(s.id) + "\">" + html_escape(s.title) + "</a></li>\n";
+        out += "</ol>\n</nav>\n";
+    }
+    out += "</header>\n<main>\n";
+    for (const ReportSection& s : report.sections) {
+        // Sections holding a chart start a printed page of their own.
+        const bool page = s.html.find("<svg") != std::string::npos;
+        out += "<section id=\"" + html_escape(s.id) + "\"" + (page ? " class=\"page\"" : "") + ">\n<h2>" +
+               html_escape(s.title) + "</h2>\n" + s.html + "</section>\n";
+    }
+    out += "</main>\n<footer>\n";
+    out += std::string("Made by knockon ") + KNOCKON_VERSION + ". ";
+    if (!report.caution.empty()) out += html_escape(report.caution);
+    out += "\n</footer>\n</body>\n</html>\n";
+    return out;
+}
+
+Report plan_report(const Scenario& scenario, const PlanResult& plan, const PlanReportOptions& options) {
+    const Infrastructure& in = scenario.infrastructure;
+    Report r;
+    r.title = "Plan report: " + scenario.name;
+    r.caution = kSafetyCaution;
+
+    std::vector<std::pair<std::string, std::size_t>> per_category;
+    for (const std::string& c : train_categories(plan)) {
+        std::size_t n = 0;
+        for (const TrainPlan& tp : plan.trains) n += tp.run.service->category == c;
+        per_category.push_back({c, n});
+    }
+    std::string trains = std::to_string(plan.trains.size());
+    if (!per_category.empty()) {
+        trains += " (";
+        for (std::size_t i = 0; i < per_category.size(); ++i)
+            trains += (i ? ", " : "") + std::to_string(per_category[i].second) + " " + per_category[i].first;
+        trains += ")";
+    }
+    r.facts = {{"scenario", scenario.name},
+               {"file", scenario.source_file},
+               {"line length", km_text(in.length)},
+               {"line type (UIC 406 limits)", to_string(scenario.line_type)},
+               {"stations", std::to_string(in.stations.size())},
+               {"main signals", std::to_string(in.signals.size())},
+               {"train types", std::to_string(scenario.train_types.size())},
+               {"trains", trains},
+               {"conflicts", std::to_string(plan.conflicts.size())},
+               {"made by", std::string("knockon ") + KNOCKON_VERSION}};
+    if (!options.command_line.empty()) r.facts.push_back({"command", options.command_line});
+    r.notes = {kUic406Note,
+               "Planned times: trains run at their performance and wait at each stop until the scheduled "
+               "departure and the minimum dwell are both over. Times are of the day, HH:MM or HH:MM:SS."};
+
+    r.sections.push_back(time_distance_section(scenario, plan, options));
+    r.sections.push_back(capacity_section(plan));
+    r.sections.push_back(buffers_section(plan));
+    r.sections.push_back(conflicts_section(plan));
+    return r;
+}
+
+}  // namespace knockon

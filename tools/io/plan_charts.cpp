@@ -1,0 +1,517 @@
+#include "tools/io/plan_charts.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <map>
+#include <set>
+#include <stdexcept>
+
+#include "models/units.hpp"
+
+namespace knockon {
+
+using svg::Element;
+using svg::Point;
+
+namespace {
+
+constexpr double kHour = 3600.0;
+constexpr std::size_t kCategoryStyles = 5;   // cat-0 .. cat-4 in chart_css(), then repeated
+constexpr std::size_t kMaxTrainLabels = 40;  // more trains than this in a window: tooltips only
+
+// Rough width of a text in the charts' sans-serif font, for laying out legends and labels.
+double text_width(const std::string& s, double font_px) { return 0.58 * font_px * static_cast<double>(s.size()); }
+
+std::string category_class(const std::vector<std::string>& categories, const std::string& category) {
+    auto it = std::find(categories.begin(), categories.end(), category);
+    const std::size_t k = it == categories.end() ? 0 : static_cast<std::size_t>(it - categories.begin());
+    return "cat-" + std::to_string(k % kCategoryStyles);
+}
+
+std::string km(double metres, int decimals = 3) { return svg::number(metres / 1000.0, decimals); }
+
+// Keeps the points of a time-ordered polyline that lie in [from, to], adding the points where
+// it crosses the window's edges (linear interpolation).
+std::vector<Point> clip_in_time(const std::vector<Point>& pts, double from, double to) {
+    std::vector<Point> out;
+    auto at = [](const Point& a, const Point& b, double t) {
+        if (b.x == a.x) return Point{t, b.y};
+        return Point{t, a.y + (b.y - a.y) * (t - a.x) / (b.x - a.x)};
+    };
+    for (std::size_t i = 0; i < pts.size(); ++i) {
+        const Point& p = pts[i];
+        const bool inside = p.x >= from && p.x <= to;
+        if (i > 0) {
+            const Point& q = pts[i - 1];
+            // Entering over the window's start, or leaving over its end (or both in one step).
+            if (q.x < from && p.x > from) out.push_back(at(q, p, from));
+            if (inside) out.push_back(p);
+            if (q.x < to && p.x > to) out.push_back(at(q, p, to));
+        } else if (inside) {
+            out.push_back(p);
+        }
+    }
+    // A lone point is no line: a train that only touches an edge of the window is not drawn.
+    if (out.size() < 2) out.clear();
+    return out;
+}
+
+// Lays out legend items left to right, wrapping into rows; returns the height used.
+struct LegendItem {
+    Element sample;          // drawn in a 26 x 12 box whose top-left is (0, 0)
+    std::string label;
+};
+double draw_legend(Element& parent, std::vector<LegendItem> items, double x0, double y0, double width) {
+    Element& g = parent.add(svg::group("legend"));
+    const double row_h = 20.0, box_w = 26.0, gap = 18.0, font = 11.0;
+    double x = x0, y = y0;
+    for (LegendItem& item : items) {
+        const double w = box_w + 6.0 + text_width(item.label, font);
+        if (x > x0 && x + w > x0 + width) {
+            x = x0;
+            y += row_h;
+        }
+        Element& cell = g.add(svg::group());
+        cell.attr("transform", "translate(" + svg::number(x) + "," + svg::number(y) + ")");
+        cell.add(std::move(item.sample));
+        cell.add(svg::text(box_w + 6.0, 10.0, item.label, "legend-label"));
+        x += w + gap;
+    }
+    return y - y0 + row_h;
+}
+
+Element sample_line(const std::string& cls) { return svg::line(1, 6, 25, 6, cls); }
+
+}  // namespace
+
+std::vector<std::string> train_categories(const PlanResult& plan) {
+    std::vector<std::string> out;
+    for (const TrainPlan& tp : plan.trains) {
+        const std::string& c = tp.run.service->category;
+        if (std::find(out.begin(), out.end(), c) == out.end()) out.push_back(c);
+    }
+    return out;
+}
+
+BusiestHour busiest_hour(const PlanResult& plan) {
+    // Departures from stops and passes of timing points; a terminating train's arrival at its
+    // terminus is neither.
+    std::map<long, std::size_t> per_hour;
+    for (const TrainPlan& tp : plan.trains) {
+        const auto& calls = tp.run.calls;
+        for (std::size_t i = 0; i < calls.size(); ++i) {
+            const PlannedCall& c = calls[i];
+            const bool terminus = i + 1 == calls.size() && c.stops;
+            if (terminus || !std::isfinite(c.planned_departure)) continue;
+            ++per_hour[static_cast<long>(std::floor(c.planned_departure / kHour))];
+        }
+    }
+    BusiestHour best{{6 * kHour, 7 * kHour}, 0};
+    for (const auto& [hour, n] : per_hour)   // ascending hours: the earliest wins a tie
+        if (n > best.events) best = {{hour * kHour, (hour + 1) * kHour}, n};
+    return best;
+}
+
+TimeWindow plan_extent(const PlanResult& plan) {
+    double lo = INFINITY, hi = -INFINITY;
+    for (const TrainPlan& tp : plan.trains) {
+        lo = std::min(lo, tp.run.appear_time);
+        hi = std::max(hi, tp.run.vanish_time);
+        for (const RouteBlocking& r : tp.stairway.routes) {
+            lo = std::min(lo, r.start);
+            hi = std::max(hi, r.end);
+        }
+    }
+    if (!(lo <= hi)) return {0.0, kHour};
+    TimeWindow w{std::floor(lo / kHour) * kHour, std::ceil(hi / kHour) * kHour};
+    if (w.to <= w.from) w.to = w.from + kHour;
+    return w;
+}
+
+TimeWindow choose_window(const PlanResult& plan, const WindowRequest& request, std::string* reason) {
+    TimeWindow w;
+    std::string why;
+    if (request.all) {
+        if (request.from || request.to) throw std::invalid_argument("--all cannot be combined with --from or --to");
+        w = plan_extent(plan);
+        why = "every train, in whole hours from the first blocking to the last";
+    } else if (request.from && request.to) {
+        w = {*request.from, *request.to};
+        why = "as asked for";
+    } else if (request.from) {
+        w = {*request.from, *request.from + kHour};
+        why = "the hour from the time asked for";
+    } else if (request.to) {
+        w = {*request.to - kHour, *request.to};
+        why = "the hour up to the time asked for";
+    } else {
+        const BusiestHour b = busiest_hour(plan);
+        w = b.window;
+        why = "the busiest clock hour (" + std::to_string(b.events) + " departures and passes at timing points)";
+    }
+    if (!(w.to > w.from)) throw std::invalid_argument("the window must end after it starts");
+    if (w.length() > 48 * kHour) throw std::invalid_argument("the window may be at most 48 hours long");
+    if (reason) *reason = why;
+    return w;
+}
+
+std::vector<Point> train_path_points(const ServiceRun& run, TimeWindow window, double sample_step) {
+    std::vector<Point> pts;
+    const double step = std::max(sample_step, 0.1);
+    for (const RunLeg& leg : run.legs) {
+        const Trajectory& tr = leg.trajectory;
+        const double t0 = leg.start_time, dur = tr.duration();
+        const bool outside = t0 + dur < window.from || t0 > window.to;
+        // A leg wholly outside the window only needs its ends (the clipping interpolates stops
+        // that span an edge); one inside is sampled at the step, ends included.
+        const long n = outside ? 1 : std::max(1L, static_cast<long>(std::ceil(dur / step)));
+        for (long i = 0; i <= n; ++i) {
+            const double tau = dur * static_cast<double>(i) / static_cast<double>(n);
+            pts.push_back({t0 + tau, run.path.chainage_at(tr.position_at(tau))});
+        }
+    }
+    return clip_in_time(pts, window.from, window.to);
+}
+
+ChainageSpan route_span(const TrainPlan& train, const RouteBlocking& route) {
+    const double lo = route.s_entry, hi = route.s_exit + route.overlap;
+    ChainageSpan span{INFINITY, -INFINITY};
+    for (const SectionBlocking& b : train.stairway.sections)
+        if (std::min(hi, b.s_to) - std::max(lo, b.s_from) > 1e-6) {
+            span.lo = std::min(span.lo, b.x_lo);
+            span.hi = std::max(span.hi, b.x_hi);
+        }
+    if (span.lo > span.hi) {
+        // No section found (should not happen): the route's own ends along the path.
+        const double a = train.run.path.chainage_at(lo), b = train.run.path.chainage_at(hi);
+        span = {std::min(a, b), std::max(a, b)};
+    }
+    return span;
+}
+
+Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan, TimeWindow window,
+                            const ChartOptions& options) {
+    const double W = options.width;
+    const double left = 190.0, right = 70.0;
+    const double top = options.title.empty() ? 16.0 : 46.0;
+    const double plot_h = 520.0;
+    const double plot_w = std::max(200.0, W - left - right);
+    const svg::LinearScale X{window.from, window.to, left, left + plot_w};
+    const double length = std::max(infra.length, 1.0);
+    const svg::LinearScale Y{0.0, length, top, top + plot_h};   // chainage grows downwards
+    const std::vector<std::string> categories = train_categories(plan);
+
+    // The legend's height decides the drawing's height, so lay it out first.
+    std::vector<LegendItem> legend;
+    for (std::size_t k = 0; k < categories.size(); ++k) {
+        const std::string cls = "cat-" + std::to_string(k % kCategoryStyles);
+        legend.push_back({sample_line("legend-line " + cls), "train path: " + categories[k]});
+    }
+    {
+        Element block = svg::group();
+        block.add(svg::rect(1, 0, 24, 12, "legend-block cat-0"));
+        legend.push_back({std::move(block), "blocking time of a route (shaded in the train's style)"});
+        legend.push_back({svg::rect(1, 0, 24, 12, "legend-conflict"), "conflict: overlapping blocking times"});
+        legend.push_back({sample_line("legend-station"), "station (timing point)"});
+        Element sig = svg::group();
+        sig.add(svg::line(4, 6, 11, 6, "legend-signal sig-up"));
+        sig.add(svg::line(15, 6, 22, 6, "legend-signal sig-down"));
+        legend.push_back({std::move(sig), "main signal: left column up, right column down direction"});
+    }
+    Element scratch("g");
+    const double legend_h = draw_legend(scratch, legend, left, 0.0, plot_w);
+    const double axis_bottom = top + plot_h;
+    const double legend_y = axis_bottom + 52.0;
+    const double H = legend_y + legend_h + (options.footnote.empty() ? 6.0 : 24.0);
+
+    Element doc = svg::document(W, H, options.title.empty() ? "time-distance diagram" : options.title);
+    doc.css_class("knockon-chart time-distance");
+    doc.add(svg::style(chart_css()));
+    {
+        Element& defs = doc.add(Element("defs"));
+        Element& pat = defs.add(Element("pattern"));
+        pat.attr("id", "knockon-hatch").attr("patternUnits", "userSpaceOnUse").attr("width", 6.0).attr("height", 6.0)
+            .attr("patternTransform", "rotate(45)");
+        pat.add(svg::rect(0, 0, 6, 6)).attr("fill", "#ffffff").attr("fill-opacity", "0.55");
+        pat.add(svg::line(0, 0, 0, 6)).attr("stroke", "#000000").attr("stroke-width", 2.2);
+    }
+    doc.add(svg::rect(0, 0, W, H, "background"));
+    if (!options.title.empty()) doc.add(svg::text(left, 26, options.title, "title"));
+
+    // Grid: whole-clock time ticks and the stations.
+    Element& grid = doc.add(svg::group("grid-layer"));
+    for (double t : svg::time_ticks(window.from, window.to, std::max(2, static_cast<int>(plot_w / 90.0)))) {
+        const double x = X(t);
+        grid.add(svg::line(x, top, x, axis_bottom, "grid"));
+        grid.add(svg::line(x, axis_bottom, x, axis_bottom + 5, "tick"));
+        grid.add(svg::text(x, axis_bottom + 18, svg::format_hhmm(t), "tick-label", "middle"));
+    }
+    for (const Station& st : infra.stations) {
+        const double y = Y(st.at);
+        Element& l = grid.add(svg::line(left, y, left + plot_w, y, "station-line"));
+        const std::string name = st.name.empty() ? st.id : st.name;
+        l.tooltip(name + " (" + st.id + "), km " + km(st.at));
+        grid.add(svg::text(left - 24, y + 4, name, "station-label", "end")).tooltip(st.id + ", km " + km(st.at));
+    }
+    // Signals: a column of ticks each side of the strip left of the plot.
+    Element& sigs = doc.add(svg::group("signals"));
+    for (const Signal& s : infra.signals) {
+        const double y = Y(s.at);
+        const bool up = s.direction == Direction::up;
+        const double x0 = up ? left - 18 : left - 9;
+        sigs.add(svg::line(x0, y, x0 + 7, y, up ? "signal-tick sig-up" : "signal-tick sig-down"))
+            .tooltip("signal " + s.id + " (" + to_string(s.direction) + "), track " + s.track + ", km " + km(s.at));
+    }
+    // Chainage axis on the right.
+    Element& axis = doc.add(svg::group("axis"));
+    for (double x : svg::nice_ticks(0.0, length, 8)) {
+        const double y = Y(x);
+        axis.add(svg::line(left + plot_w, y, left + plot_w + 5, y, "tick"));
+        axis.add(svg::text(left + plot_w + 8, y + 4, km(x, 1), "tick-label"));
+    }
+    {
+        const double cx = left + plot_w + 52, cy = top + plot_h / 2;
+        axis.add(svg::text(cx, cy, "chainage [km], increasing downwards", "axis-label", "middle"))
+            .attr("transform", "rotate(90 " + svg::number(cx) + " " + svg::number(cy) + ")");
+    }
+    axis.add(svg::text(left + plot_w / 2, axis_bottom + 38, "time of day [HH:MM]", "axis-label", "middle"));
+    axis.add(svg::text(left - 40, top - 6, "station", "axis-label small", "end"));
+    axis.add(svg::text(left - 14, top - 6, "signals", "axis-label small", "middle"));
+
+    // Blocking-time stairways beneath the paths.
+    Element& blocks = doc.add(svg::group("stairways"));
+    for (const TrainPlan& tp : plan.trains) {
+        const std::string cls = "block " + category_class(categories, tp.run.service->category);
+        Element* g = nullptr;
+        for (const RouteBlocking& r : tp.stairway.routes) {
+            if (r.end <= window.from || r.start >= window.to) continue;
+            const ChainageSpan span = route_span(tp, r);
+            const double x0 = X(std::max(r.start, window.from)), x1 = X(std::min(r.end, window.to));
+            if (!g) {
+                g = &blocks.add(svg::group());
+                g->tooltip("blocking times of " + tp.run.service->id);
+            }
+            g->add(svg::rect(x0, Y(span.lo), x1 - x0, Y(span.hi) - Y(span.lo), cls))
+                .tooltip(tp.run.service->id + ": route " + r.entry_signal + " to " +
+                         (r.exit_signal.empty() ? "path end" : r.exit_signal) + ", blocked " +
+                         format_time_of_day(r.start) + "-" + format_time_of_day(r.end));
+        }
+    }
+
+    // Conflicts: where two trains' section blockings overlap.
+    Element& conflicts = doc.add(svg::group("conflicts"));
+    for (const Conflict& c : plan.conflicts) {
+        const double t0 = std::max(c.from, window.from), t1 = std::min(c.from + c.overlap, window.to);
+        if (t1 <= t0) continue;
+        const SectionBlocking* sec = nullptr;
+        for (const SectionBlocking& b : plan.trains[c.second].stairway.sections)
+            if (b.section == c.section) sec = &b;
+        if (!sec) continue;
+        conflicts.add(svg::rect(X(t0), Y(sec->x_lo), X(t1) - X(t0), Y(sec->x_hi) - Y(sec->x_lo), "conflict"))
+            .tooltip("conflict on " + c.section + ": " + plan.trains[c.first].run.service->id + " and " +
+                     plan.trains[c.second].run.service->id + ", " + svg::number(c.overlap, 0) + " s from " +
+                     format_time_of_day(c.from));
+    }
+
+    // Train paths, thinned to about one point per pixel column on long windows.
+    const double step = std::max(10.0, window.length() / plot_w);
+    Element& paths = doc.add(svg::group("paths"));
+    std::vector<std::pair<const TrainPlan*, Point>> labels;
+    for (const TrainPlan& tp : plan.trains) {
+        std::vector<Point> pts = train_path_points(tp.run, window, step);
+        if (pts.empty()) continue;
+        for (Point& p : pts) p = {X(p.x), Y(p.y)};
+        const ServiceRun& r = tp.run;
+        paths.add(svg::polyline(pts, "train-path " + category_class(categories, r.service->category)))
+            .tooltip(r.service->id + " (" + r.service->category + ", " + r.type->id + ", " + to_string(r.path.direction) + ")");
+        labels.push_back({&tp, pts.front()});
+    }
+    if (labels.size() <= kMaxTrainLabels) {
+        Element& g = doc.add(svg::group("train-labels"));
+        for (const auto& [tp, p] : labels) {
+            // Inside the plot beside the path's first point, on the side away from the path (up
+            // trains run down the page, down trains up it), unless that would leave the plot.
+            const bool up = tp->run.path.direction == Direction::up;
+            const double y = up ? p.y + 11 : p.y - 4;
+            if (p.x - left > 50)
+                g.add(svg::text(p.x - 3, y, tp->run.service->id, "train-label", "end"));
+            else
+                g.add(svg::text(p.x + 3, y, tp->run.service->id, "train-label"));
+        }
+    }
+    if (labels.empty())
+        doc.add(svg::text(left + plot_w / 2, top + plot_h / 2, "no train runs in this window", "empty-note", "middle"));
+
+    doc.add(svg::rect(left, top, plot_w, plot_h, "frame"));
+    draw_legend(doc, std::move(legend), left, legend_y, plot_w);
+    if (!options.footnote.empty()) doc.add(svg::text(left, H - 8, options.footnote, "footnote"));
+    return doc;
+}
+
+Element capacity_chart(const PlanResult& plan, const ChartOptions& options) {
+    // Groups: one per line section and direction, in the plan's order; a bar per window.
+    struct Group {
+        std::string name;
+        Direction direction;
+        std::vector<const CapacityFigure*> figures;
+    };
+    std::vector<Group> groups;
+    double top_value = 1.0;
+    for (const CapacityFigure& f : plan.capacity) {
+        if (groups.empty() || groups.back().name != f.line_section || groups.back().direction != f.direction)
+            groups.push_back({f.line_section, f.direction, {}});
+        groups.back().figures.push_back(&f);
+        top_value = std::max({top_value, f.consumption, f.limit});
+    }
+
+    const double W = options.width;
+    const double left = 70.0, right = 20.0;
+    const double top = options.title.empty() ? 20.0 : 50.0;
+    const double plot_h = 300.0;
+    const double plot_w = std::max(200.0, W - left - right);
+    const double group_w = groups.empty() ? plot_w : plot_w / static_cast<double>(groups.size());
+    const double label_font = 11.0;
+    std::size_t longest = 0;
+    for (const Group& g : groups) longest = std::max(longest, g.name.size());
+    const bool slanted = text_width(std::string(longest, 'M'), label_font) > group_w - 6;
+    const double label_h = slanted ? 14.0 + 0.5 * text_width(std::string(longest, 'M'), label_font) : 34.0;
+
+    // Percent axis: at least 0-100 %, in nice steps.
+    const double ymax_pct = [&] {
+        const double v = top_value * 100.0;
+        const double st = svg::nice_step(0.0, v, 5);
+        return std::max(100.0, std::ceil(v / st - 1e-9) * st);
+    }();
+    const svg::LinearScale Y{0.0, ymax_pct, top + plot_h, top};
+    const double axis_bottom = top + plot_h;
+
+    std::vector<LegendItem> legend;
+    legend.push_back({svg::rect(1, 0, 24, 12, "legend-bar win-peak"), "peak hour (the line section's busiest clock hour)"});
+    legend.push_back({svg::rect(1, 0, 24, 12, "legend-bar win-day"), "whole day"});
+    {
+        Element lim = svg::group();
+        lim.add(svg::line(1, 6, 25, 6, "cap-limit-halo"));
+        lim.add(svg::line(1, 6, 25, 6, "legend-limit"));
+        legend.push_back({std::move(lim), "UIC 406 recommended limit for the window (as recalled)"});
+    }
+    legend.push_back({svg::text(13, 10, "88 %", "bar-value over", "middle"), "bold value: above the limit"});
+    Element scratch("g");
+    const double legend_y = axis_bottom + label_h + 30.0;
+    const double legend_h = draw_legend(scratch, legend, left, 0.0, plot_w);
+    const double H = legend_y + legend_h + (options.footnote.empty() ? 6.0 : 24.0);
+
+    Element doc = svg::document(W, H, options.title.empty() ? "capacity consumption" : options.title);
+    doc.css_class("knockon-chart capacity");
+    doc.add(svg::style(chart_css()));
+    doc.add(svg::rect(0, 0, W, H, "background"));
+    if (!options.title.empty()) doc.add(svg::text(left, 28, options.title, "title"));
+
+    Element& axis = doc.add(svg::group("axis"));
+    for (double v : svg::nice_ticks(0.0, ymax_pct, 5)) {
+        const double y = Y(v);
+        axis.add(svg::line(left, y, left + plot_w, y, "grid"));
+        axis.add(svg::line(left - 5, y, left, y, "tick"));
+        axis.add(svg::text(left - 8, y + 4, svg::number(v, 0) + " %", "tick-label", "end"));
+    }
+    {
+        const double cx = 18, cy = top + plot_h / 2;
+        axis.add(svg::text(cx, cy, "capacity consumption [% of the window]", "axis-label", "middle"))
+            .attr("transform", "rotate(-90 " + svg::number(cx) + " " + svg::number(cy) + ")");
+    }
+
+    Element& bars = doc.add(svg::group("bars"));
+    for (std::size_t gi = 0; gi < groups.size(); ++gi) {
+        const Group& g = groups[gi];
+        const double gx = left + group_w * static_cast<double>(gi);
+        const double n = static_cast<double>(g.figures.size());
+        const double bar_w = std::min(30.0, group_w * 0.7 / n);
+        const double x_start = gx + (group_w - bar_w * n - 4.0 * (n - 1)) / 2.0;
+        for (std::size_t k = 0; k < g.figures.size(); ++k) {
+            const CapacityFigure& f = *g.figures[k];
+            const std::string win = f.window == "peak hour" ? "win-peak" : f.window == "day" ? "win-day" : "win-other";
+            const double x = x_start + static_cast<double>(k) * (bar_w + 4.0);
+            const double v = f.consumption * 100.0, lim = f.limit * 100.0;
+            const bool over = f.consumption > f.limit;
+            bars.add(svg::rect(x, Y(v), bar_w, Y(0) - Y(v), "cap-bar " + win))
+                .tooltip(f.line_section + " " + to_string(f.direction) + ", " + f.window + " " +
+                         svg::format_hhmm(f.from) + "-" + svg::format_hhmm(f.to) + ": " + svg::number(v, 1) +
+                         " % (limit " + svg::number(lim, 0) + " %), " + std::to_string(f.trains) + " trains");
+            if (f.limit > 0.0) {
+                bars.add(svg::line(x - 4, Y(lim), x + bar_w + 4, Y(lim), "cap-limit-halo"));
+                bars.add(svg::line(x - 4, Y(lim), x + bar_w + 4, Y(lim), "cap-limit"));
+            }
+            // The value above its bar, or above the limit mark where the two would collide.
+            double ly = Y(v) - 4;
+            if (f.limit > 0.0 && std::abs(Y(v) - Y(lim)) < 12) ly = std::min(Y(v), Y(lim)) - 5;
+            bars.add(svg::text(x + bar_w / 2, ly, svg::number(v, 0) + " %", over ? "bar-value over" : "bar-value",
+                               "middle"));
+        }
+        const double cx = gx + group_w / 2, ly = axis_bottom + 16;
+        if (slanted) {
+            bars.add(svg::text(cx, ly, g.name + " (" + to_string(g.direction) + ")", "group-label", "end"))
+                .attr("transform", "rotate(-35 " + svg::number(cx) + " " + svg::number(ly) + ")");
+        } else {
+            bars.add(svg::text(cx, ly, g.name, "group-label", "middle"));
+            bars.add(svg::text(cx, ly + 14, to_string(g.direction), "group-sub", "middle"));
+        }
+    }
+    if (groups.empty())
+        doc.add(svg::text(left + plot_w / 2, top + plot_h / 2, "no line section carries trains", "empty-note", "middle"));
+    axis.add(svg::line(left, axis_bottom, left + plot_w, axis_bottom, "baseline"));
+    axis.add(svg::text(left + plot_w / 2, axis_bottom + label_h + 12, "line section and direction", "axis-label",
+                       "middle"));
+    draw_legend(doc, std::move(legend), left, legend_y, plot_w);
+    if (!options.footnote.empty()) doc.add(svg::text(left, H - 8, options.footnote, "footnote"));
+    return doc;
+}
+
+const std::string& chart_css() {
+    // Train categories differ in lightness and dash pattern as well as in hue, so they stay apart
+    // in greyscale print and for colour-blind readers; no red/green pair is used anywhere.
+    static const std::string css = R"(
+.knockon-chart { font-family: "DejaVu Sans", "Liberation Sans", Arial, Helvetica, sans-serif; font-size: 11px; }
+.knockon-chart text { fill: #1a1a1a; }
+.knockon-chart .background { fill: #ffffff; stroke: none; }
+.knockon-chart .title { font-size: 15px; font-weight: bold; }
+.knockon-chart .axis-label { font-size: 12px; fill: #333333; }
+.knockon-chart .axis-label.small { font-size: 10px; }
+.knockon-chart .tick-label { font-size: 10.5px; fill: #333333; }
+.knockon-chart .tick { stroke: #555555; stroke-width: 1; }
+.knockon-chart .grid { stroke: #dddddd; stroke-width: 0.7; }
+.knockon-chart .baseline { stroke: #444444; stroke-width: 1; }
+.knockon-chart .frame { fill: none; stroke: #555555; stroke-width: 1; }
+.knockon-chart .station-line, .knockon-chart .legend-station { stroke: #999999; stroke-width: 0.8; stroke-dasharray: 4 2; }
+.knockon-chart .station-label { font-size: 11px; font-weight: bold; }
+.knockon-chart .signal-tick, .knockon-chart .legend-signal { stroke: #444444; stroke-width: 1.2; }
+.knockon-chart .sig-down { stroke: #777777; }
+.knockon-chart polyline.train-path, .knockon-chart line.legend-line { fill: none; stroke-width: 1.8; stroke-linejoin: round; }
+.knockon-chart .block, .knockon-chart .legend-block { stroke-width: 0.5; fill-opacity: 0.2; stroke-opacity: 0.55; }
+.knockon-chart .cat-0 { stroke: #1b3b6f; fill: #1b3b6f; }
+.knockon-chart .cat-1 { stroke: #b8660b; fill: #b8660b; }
+.knockon-chart .cat-2 { stroke: #6c3f99; fill: #6c3f99; }
+.knockon-chart .cat-3 { stroke: #3f3f3f; fill: #3f3f3f; }
+.knockon-chart .cat-4 { stroke: #2f8fc4; fill: #2f8fc4; }
+.knockon-chart .train-path.cat-1, .knockon-chart .legend-line.cat-1 { stroke-dasharray: 7 3; }
+.knockon-chart .train-path.cat-2, .knockon-chart .legend-line.cat-2 { stroke-dasharray: 1.5 2.5; stroke-width: 2.4; stroke-linecap: round; }
+.knockon-chart .train-path.cat-3, .knockon-chart .legend-line.cat-3 { stroke-dasharray: 9 3 2 3; }
+.knockon-chart .train-path.cat-4, .knockon-chart .legend-line.cat-4 { stroke-dasharray: 12 4; stroke-width: 1.4; }
+.knockon-chart .conflict, .knockon-chart .legend-conflict { fill: url(#knockon-hatch); stroke: #000000; stroke-width: 1.6; }
+.knockon-chart .train-label { font-size: 9px; fill: #222222; }
+.knockon-chart .legend-label { font-size: 11px; }
+.knockon-chart .empty-note { font-size: 14px; fill: #555555; }
+.knockon-chart .footnote { font-size: 9.5px; fill: #444444; }
+.knockon-chart .cap-bar, .knockon-chart .legend-bar { stroke: #1a1a1a; stroke-width: 0.6; }
+.knockon-chart .win-peak { fill: #1b3b6f; }
+.knockon-chart .win-day { fill: #a9c1e0; }
+.knockon-chart .win-other { fill: #b8660b; }
+.knockon-chart .cap-limit, .knockon-chart .legend-limit { stroke: #000000; stroke-width: 2.4; }
+.knockon-chart .cap-limit-halo { stroke: #ffffff; stroke-width: 5.5; }
+.knockon-chart .bar-value { font-size: 10px; }
+.knockon-chart .bar-value.over { font-weight: bold; font-size: 11px; }
+.knockon-chart .group-label { font-size: 11px; }
+.knockon-chart .group-sub { font-size: 10px; fill: #555555; }
+)";
+    return css;
+}
+
+}  // namespace knockon

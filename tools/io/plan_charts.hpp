@@ -1,0 +1,76 @@
+#pragma once
+// Charts of a timetable analysis (PlanResult) as SVG: the time-distance diagram of a time window
+// (every train's planned path with its blocking-time stairway, conflicts marked) and the UIC 406
+// capacity consumption per line section against the recommended limits.
+//
+// The charts style their elements by CSS class only (chart_css()), so they can be restyled and
+// their elements counted: "train-path" (one polyline per train drawn), "block" (one rectangle
+// per route of a train drawn), "conflict", "cap-bar" (one bar per line section and window),
+// "cap-limit".
+#include <cstddef>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "models/infrastructure.hpp"
+#include "models/plan.hpp"
+#include "tools/io/svg.hpp"
+
+namespace knockon {
+
+struct TimeWindow {
+    double from = 0.0, to = 0.0;   // seconds after midnight
+    double length() const { return to - from; }
+};
+
+// The whole clock hour in which most trains depart or pass a timing point (earliest on ties),
+// and that count; 06:00-07:00 with no trains at all.
+struct BusiestHour {
+    TimeWindow window;
+    std::size_t events = 0;
+};
+BusiestHour busiest_hour(const PlanResult& plan);
+
+// From the first blocking to the last of any train, widened to whole hours (00:00-01:00 when empty).
+TimeWindow plan_extent(const PlanResult& plan);
+
+// The window a command was asked for: `all` = plan_extent; --from and --to as given; one of them
+// alone = the hour from or up to it; neither = the busiest hour.  `reason` says which, for the
+// reader.  Throws std::invalid_argument for an empty or over-long (> 48 h) window.
+struct WindowRequest {
+    bool all = false;
+    std::optional<double> from, to;   // seconds after midnight
+};
+TimeWindow choose_window(const PlanResult& plan, const WindowRequest& request, std::string* reason = nullptr);
+
+struct ChartOptions {
+    double width = 1100.0;   // pixels of the drawing (it scales: the SVG has a viewBox)
+    std::string title;       // drawn at the top when not empty
+    std::string footnote;    // drawn at the bottom when not empty (e.g. the safety caution)
+};
+
+// A train's planned path as (time [s], chainage [m]) points: its legs sampled about every
+// `sample_step` seconds (leg ends always included, so a stop shows as a flat stretch between two
+// legs), clipped to the window with the crossing points interpolated.  Empty when the train does
+// not run in the window.
+std::vector<svg::Point> train_path_points(const ServiceRun& run, TimeWindow window, double sample_step);
+
+// The chainage extent of a route's blocking: the detection sections it locks, from its entry
+// signal to its exit signal plus the overlap (min x_lo, max x_hi).
+struct ChainageSpan {
+    double lo = 0.0, hi = 0.0;
+};
+ChainageSpan route_span(const TrainPlan& train, const RouteBlocking& route);
+
+svg::Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan, TimeWindow window,
+                                 const ChartOptions& options = {});
+
+svg::Element capacity_chart(const PlanResult& plan, const ChartOptions& options = {});
+
+// The style sheet the charts carry inside themselves (also valid inside an HTML page).
+const std::string& chart_css();
+
+// Distinct train categories in order of first appearance; a category's index picks its style.
+std::vector<std::string> train_categories(const PlanResult& plan);
+
+}  // namespace knockon

@@ -1,0 +1,95 @@
+// `knockon report`: the study report as one self-contained HTML file.  For now the plan part
+// (time-distance diagram, capacity consumption, thinnest buffers, conflicts); results of
+// simulate/compare will be further sections of the same Report (tools/io/html_report.hpp).
+#include <cstdio>
+
+#include "models/plan.hpp"
+#include "models/units.hpp"
+#include "tools/io/html_report.hpp"
+#include "tools/io/output_file.hpp"
+#include "tools/io/scenario_reader.hpp"
+#include "tools/knockon/options.hpp"
+
+namespace knockon::cli {
+
+namespace {
+
+// The command line as typed, quoted where a shell would need it, for the report's record.
+std::string command_line(const std::string& command, const std::vector<std::string>& args) {
+    std::string out = "knockon " + command;
+    for (const std::string& a : args) {
+        const bool plain = !a.empty() && a.find_first_not_of("abcdefghijklmnopqrstuvwxyzABCDEFGHIJKLMNOPQRSTUVWXYZ"
+                                                             "0123456789-_./:=,@+%") == std::string::npos;
+        if (plain) {
+            out += " " + a;
+        } else {
+            std::string q = "'";
+            for (char c : a) q += c == '\'' ? std::string("'\\''") : std::string(1, c);
+            out += " " + q + "'";
+        }
+    }
+    return out;
+}
+
+}  // namespace
+
+// --from/--to/--all as a WindowRequest (shared with `plot`).
+WindowRequest window_request(const po::variables_map& vm) {
+    WindowRequest w;
+    w.all = vm.count("all") > 0;
+    auto time_option = [&](const char* name) -> std::optional<double> {
+        if (!vm.count(name)) return std::nullopt;
+        try {
+            return parse_time_of_day(vm[name].as<std::string>());
+        } catch (const UnitError& e) {
+            throw UsageError(std::string("--") + name + ": " + e.what());
+        }
+    };
+    w.from = time_option("from");
+    w.to = time_option("to");
+    return w;
+}
+
+void add_window_options(po::options_description& options) {
+    options.add_options()("from", po::value<std::string>(),
+                          "start of the time-distance window, HH:MM (default: the busiest clock hour)")(
+        "to", po::value<std::string>(), "end of the time-distance window, HH:MM")(
+        "all", "time-distance window over every train (from the first blocking to the last)");
+}
+
+TimeWindow checked_window(const PlanResult& plan, const WindowRequest& request, std::string* reason) {
+    try {
+        return choose_window(plan, request, reason);
+    } catch (const std::invalid_argument& e) {
+        throw UsageError(e.what());
+    }
+}
+
+int report(const std::vector<std::string>& args) {
+    po::options_description options("report options");
+    options.add_options()("output,o", po::value<std::string>(), "write the report to this HTML file (required)")(
+        "step", po::value<double>()->default_value(2.0), "distance step of the running-time integration [m]")(
+        "variant", po::value<std::string>(), "apply this variant of the scenario file (base: none)");
+    add_window_options(options);
+    po::variables_map vm;
+    if (!parse_command_line("report", args, options, vm)) return 0;
+    if (!vm.count("output")) throw UsageError("an output file is required: -o FILE.html");
+    const double step = vm["step"].as<double>();
+    if (!(step > 0.0 && step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
+    const WindowRequest request = window_request(vm);
+
+    const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
+    const Scenario scenario = read_scenario(vm["scenario"].as<std::string>(), variant);
+    const PlanResult plan = make_plan(scenario, RunOptions{step});
+
+    PlanReportOptions ro;
+    ro.window = checked_window(plan, request, &ro.window_reason);
+    ro.command_line = command_line("report", args);
+    const std::string path = vm["output"].as<std::string>();
+    write_file_atomically(path, render_html(plan_report(scenario, plan, ro)));
+    std::printf("wrote %s (time-distance window %s-%s)\n", path.c_str(), svg::format_hhmm(ro.window.from).c_str(),
+                svg::format_hhmm(ro.window.to).c_str());
+    return 0;
+}
+
+}  // namespace knockon::cli
