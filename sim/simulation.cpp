@@ -153,6 +153,19 @@ private:
         return s.leg >= 0 ? run_of(t).legs[static_cast<std::size_t>(s.leg)].trajectory : s.own;
     }
     bool start_leg(std::uint32_t t, double s_now);
+    // A train at a stop leaves only on a proceed aspect: a lineside signal ahead that is in sight
+    // from where it stands (the starter, even some way beyond the stopping mark) must show
+    // proceed; otherwise, and under cab signalling, its authority must reach beyond the stop.
+    bool may_depart(std::uint32_t t) const {
+        const TrainState& s = st_[t];
+        double beyond = s.s_stand;
+        for (const SimModel::Route& r : train(t).routes)
+            if (r.s_entry >= s.s_stand - kPositionTolerance) {
+                if (!std::isinf(r.read_point) && s.s_stand >= r.read_point - kPositionTolerance) beyond = r.s_entry;
+                break;
+            }
+        return s.eoa > beyond + kEps;
+    }
     void set_brake_point(std::uint32_t t);
     double head_position(std::uint32_t t) const;
     double head_speed(std::uint32_t t) const;
@@ -603,6 +616,11 @@ void Day::try_appear(std::uint32_t t) {
     s.stop_call = 0;
     const double entry = t < delays_.entry.size() ? delays_.entry[t] : 0.0;
     s.ready_time = std::max(run.calls[0].scheduled_departure + entry, now_ + dwell_at(t, 0));
+    // Kept off its platform by the previous occupant: what that costs it is knock-on.
+    const double ready_on_time =
+        std::max(run.calls[0].scheduled_departure + entry, run.appear_time + dwell_at(t, 0));
+    if (s.ready_time - ready_on_time > kNoiseFloor)
+        out_.timing[timing_index_[t][0]].knock_on += s.ready_time - ready_on_time;
     const auto& sec = run.path.sections;
     while (s.next_enter < sec.size() && sec[s.next_enter].s_from < kEps) {
         long r = record_for(t, s.next_enter);
@@ -672,7 +690,7 @@ void Day::check_authority(std::uint32_t t) {
         replan(t);
     } else if (s.phase == Phase::standing) {
         if (s.stop_call >= 0) {
-            if (s.ready) depart(t);
+            if (s.ready && may_depart(t)) depart(t);
         } else {
             end_hold(t);
             replan(t);
@@ -791,7 +809,7 @@ void Day::handle(const Event& e) {
         case kDepartReady:
             if (s.phase != Phase::standing || s.stop_call < 0) break;
             s.ready = true;
-            if (s.eoa > s.s_stand + kEps) depart(t);
+            if (may_depart(t)) depart(t);
             break;
         case kVanish: vanish(t); break;
         case kEnter: {

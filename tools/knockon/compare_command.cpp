@@ -281,9 +281,9 @@ int compare(const std::vector<std::string>& args) {
         "variants", po::value<std::string>(),
         "comma-separated variants to compare, the first being the reference, e.g. base,four_aspect "
         "(default: base and every variant of the file)")(
-        "replications", po::value<std::uint32_t>()->default_value(100), "simulated days per variant")(
-        "seed", po::value<std::uint64_t>()->default_value(1), "random seed, the same for every variant")(
-        "threads", po::value<unsigned>()->default_value(1), "threads (results do not depend on it)")(
+        "replications", po::value<std::string>()->default_value("100"), "simulated days per variant")(
+        "seed", po::value<std::string>()->default_value("1"), "random seed, the same for every variant")(
+        "threads", po::value<std::string>()->default_value("1"), "threads (results do not depend on it)")(
         "order", po::value<std::string>()->default_value("timetable"),
         "route-setting order at conflicts: timetable or first-come")(
         "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]")(
@@ -293,17 +293,15 @@ int compare(const std::vector<std::string>& args) {
     const std::string file = vm["scenario"].as<std::string>();
 
     StudyOptions opt;
-    opt.replications = vm["replications"].as<std::uint32_t>();
-    if (opt.replications == 0) throw UsageError("--replications must be at least 1");
-    opt.threads = vm["threads"].as<unsigned>();
-    if (opt.threads == 0 || opt.threads > 256) throw UsageError("--threads must be between 1 and 256");
+    opt.replications = static_cast<std::uint32_t>(count_option(vm, "replications", 1, 10'000'000));
+    opt.threads = static_cast<unsigned>(count_option(vm, "threads", 1, 256));
     const std::string order = vm["order"].as<std::string>();
     if (order == "timetable") opt.sim.route_order = RouteOrder::timetable;
     else if (order == "first-come") opt.sim.route_order = RouteOrder::first_come;
     else throw UsageError("--order must be timetable or first-come, not '" + order + "'");
     opt.sim.run.step = vm["step"].as<double>();
     if (!(opt.sim.run.step > 0.0 && opt.sim.run.step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
-    const std::uint64_t seed = vm["seed"].as<std::uint64_t>();
+    const std::uint64_t seed = count_option(vm, "seed", 0, UINT64_MAX);
 
     std::vector<VariantInfo> known = read_variants(file);
     std::vector<std::string> names;

@@ -1,8 +1,21 @@
 #include "tools/knockon/options.hpp"
 
+#include <charconv>
 #include <iostream>
 
 namespace knockon::cli {
+
+std::uint64_t count_option(const po::variables_map& vm, const char* name, std::uint64_t lo, std::uint64_t hi) {
+    const std::string text = vm[name].as<std::string>();
+    std::uint64_t value = 0;
+    const auto [end, ec] = std::from_chars(text.data(), text.data() + text.size(), value);
+    if (ec != std::errc() || end != text.data() + text.size() || text.empty())
+        throw UsageError(std::string("--") + name + " must be a whole number, not '" + text + "'");
+    if (value < lo || value > hi)
+        throw UsageError(std::string("--") + name + " must be between " + std::to_string(lo) + " and " +
+                         std::to_string(hi) + ", not " + text);
+    return value;
+}
 
 bool parse_command_line(const std::string& command, const std::vector<std::string>& args,
                         po::options_description& options, po::variables_map& vm) {

@@ -2,6 +2,7 @@
 // Shared command-line parsing: Boost.Program_options with one positional SCENARIO, turning
 // every parse error into a UsageError.
 #include <boost/program_options.hpp>
+#include <cstdint>
 #include <string>
 #include <vector>
 
@@ -13,6 +14,10 @@ namespace po = boost::program_options;
 
 // Parses args against `options` plus a positional "scenario"; returns false when --help was asked
 // (help text printed to stdout).
+// A whole-number option given as text (so that "-1" is refused rather than wrapped around),
+// within [lo, hi]; UsageError naming the option otherwise.
+std::uint64_t count_option(const po::variables_map& vm, const char* name, std::uint64_t lo, std::uint64_t hi);
+
 bool parse_command_line(const std::string& command, const std::vector<std::string>& args,
                         po::options_description& options, po::variables_map& vm);
 

@@ -121,10 +121,8 @@ std::string without_threads(const std::string& command_line) {
 int run_study_command(const po::variables_map& vm, const Scenario& scenario, const std::vector<TrainPlan>& plan,
                       const SimOptions& so, const std::string& command_line) {
     StudyOptions opt;
-    opt.replications = vm["replications"].as<std::uint32_t>();
-    if (opt.replications == 0) throw UsageError("--replications must be at least 1");
-    opt.threads = vm["threads"].as<unsigned>();
-    if (opt.threads == 0 || opt.threads > 256) throw UsageError("--threads must be between 1 and 256");
+    opt.replications = static_cast<std::uint32_t>(count_option(vm, "replications", 1, 10'000'000));
+    opt.threads = static_cast<unsigned>(count_option(vm, "threads", 1, 256));
     if (vm.count("until-ci")) {
         const double x = vm["until-ci"].as<double>();
         if (!(x > 0.0)) throw UsageError("--until-ci must be a positive number of minutes");
@@ -139,7 +137,7 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
         traces = *parsed;
     }
     opt.sim = so;
-    const std::uint64_t seed = vm["seed"].as<std::uint64_t>();
+    const std::uint64_t seed = count_option(vm, "seed", 0, UINT64_MAX);
     if (scenario.delays.empty())
         std::fprintf(stderr, "knockon simulate: note: the scenario has no `delays:` section, so every day is the same\n");
     opt.draw = [&](std::uint32_t k) { return draw_delays(scenario.delays, scenario.infrastructure, plan, seed, k); };
@@ -207,9 +205,9 @@ int simulate(const std::vector<std::string>& args) {
         "sample", po::value<double>()->default_value(0.0), "record trajectories every this many seconds (0: none)")(
         "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]")(
         "variant", po::value<std::string>(), "apply this variant of the scenario file (base: none)")(
-        "replications", po::value<std::uint32_t>(), "run a Monte Carlo study of this many days with drawn primary delays")(
-        "seed", po::value<std::uint64_t>()->default_value(1), "random seed of the study")(
-        "threads", po::value<unsigned>()->default_value(1), "threads for the study (results do not depend on it)")(
+        "replications", po::value<std::string>(), "run a Monte Carlo study of this many days with drawn primary delays")(
+        "seed", po::value<std::string>()->default_value("1"), "random seed of the study")(
+        "threads", po::value<std::string>()->default_value("1"), "threads for the study (results do not depend on it)")(
         "until-ci", po::value<double>(),
         "go on until the 95 % CI half-width of the mean knock-on per day is below this many minutes "
         "(--replications is then the cap)")(
