@@ -149,9 +149,10 @@ infrastructure:
     return parse_scenario(y, "departure-knockon.yaml");
 }
 
-// A plain line with signals every `spacing` km under one aspect system.  L starts at S
-// (stopping mark 4.5 km) at 08:00; F comes in over the line end at line speed and runs through S
-// at `follower_pass` and through Q (10.5 km) without stopping.
+// A plain line with signals every `spacing` km under one aspect system.  L starts at S at 08:00
+// (stopping mark 4.75 km: its starter stands at most 250 m ahead, within the 300 m sighting
+// distance); F comes in over the line end at line speed and runs through S at `follower_pass`
+// and through Q (10.5 km) without stopping.
 Scenario plain_line(const std::string& system, double spacing_km, double follower_pass) {
     std::string y = R"(knockon: 1
 name: Plain line ()" + system + R"() (test)
@@ -162,7 +163,7 @@ infrastructure:
   speed_limits: [{from: 0 km, value: 120 km/h}]
   tracks: [{id: U, from: 0 km, to: 12.5 km, directions: up}]
   stations:
-    - {id: S, name: Sallowfield, at: 4.5 km}
+    - {id: S, name: Sallowfield, at: 4.75 km}
     - {id: Q, name: Quenby Marsh, at: 10.5 km}
   signalling:
     areas: [{from: 0 km, to: 12.5 km, system: )" + system + R"(}]
