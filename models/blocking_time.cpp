@@ -41,7 +41,7 @@ long stop_in(const ServiceRun& run, double from, double to) {
     long found = -1;
     for (std::size_t k = 0; k < run.calls.size(); ++k) {
         const PlannedCall& c = run.calls[k];
-        if (c.stops && c.s >= from - 1e-6 && c.s < to - 1e-6 && !std::isnan(c.planned_departure))
+        if (c.stops && c.s > from + 1e-6 && c.s <= to + 1e-6 && !std::isnan(c.planned_departure))
             found = static_cast<long>(k);
     }
     return found;

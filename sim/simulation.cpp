@@ -327,8 +327,24 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
         const double entry = t < delays_.entry.size() ? delays_.entry[t] : 0.0;
         return run.head_reach(r.warning_point) + entry - lead;
     }
-    if (head_position(t) >= r.warning_point - kPositionTolerance) return now_;
+    const double head = head_position(t);
+    if (head >= r.warning_point - kPositionTolerance) return now_;
     double tw = time_at_head(t, r.warning_point);
+    if (s.phase == Phase::moving && !s.free_end) {
+        // A motion that brakes for the end of the authority, not for a stop, reaches the warning
+        // point late or never: the route is wanted for when the train would get there running on.
+        const ServiceRun& run = run_of(t);
+        const double stop = next_stop_s(t, head - kEps);
+        const bool to_end = std::isinf(stop);
+        const double end = to_end ? run.path.length : stop;
+        if (traj(t).s_end < end - kEps && r.warning_point <= end + kEps) {
+            // The planned motion over [head, warning point] (no stop lies between): a lower bound
+            // of the time it will take, so the request is never late (early by at most the
+            // re-acceleration the train still needs).
+            const double tf = now_ + std::max(0.0, run.head_reach(r.warning_point) - run.head_reach(head));
+            tw = std::isnan(tw) ? tf : std::min(tw, tf);
+        }
+    }
     return std::isnan(tw) ? kNoTime : tw - lead;
 }
 
@@ -383,6 +399,12 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
             return;
         }
         default: return;
+    }
+    // A train standing with its head on p, or braking to a stand there, has not passed p: the
+    // motion that takes it on schedules the point again.
+    if (kind == kEnter || kind == kPass) {
+        if (s.phase == Phase::standing && p >= s.s_stand - kEps) return;
+        if (s.phase == Phase::moving && !s.free_end && traj(t).v.back() <= 0.0 && p >= traj(t).s_end - kEps) return;
     }
     double when = time_at_head(t, p);
     if (!std::isnan(when)) push(when, kind, t, payload);
