@@ -135,7 +135,7 @@ std::string compare_text(const std::vector<const VariantRun*>& runs, const std::
     row(per_day, "knock-on delay", [](const VariantRun& r) { return minutes(r.summary.total_knock_on); });
     row(per_day, "mean arrival delay", [](const VariantRun& r) { return minutes(r.summary.mean_arrival_delay); });
     for (std::size_t i = 0; i < thresholds.size(); ++i)
-        row(per_day, fmt("punctual within %.0f min", thresholds[i] / 60.0),
+        row(per_day, fmt("punctual within %g min", thresholds[i] / 60.0),
             [i](const VariantRun& r) { return percent(r.summary.punctuality[i]); });
     row(per_day, "days ended in deadlock",
         [](const VariantRun& r) { return std::to_string(r.summary.deadlocked); });
@@ -156,7 +156,7 @@ std::string compare_text(const std::vector<const VariantRun*>& runs, const std::
         drow("mean arrival delay",
              [](const StudyComparison& c) { return signed_minutes(c.mean_arrival_delay.difference); });
         for (std::size_t i = 0; i < thresholds.size(); ++i)
-            drow(fmt("punctual within %.0f min", thresholds[i] / 60.0),
+            drow(fmt("punctual within %g min", thresholds[i] / 60.0),
                  [i](const StudyComparison& c) { return signed_points(c.punctuality[i].difference); });
         drow("primary delay injected",
              [](const StudyComparison& c) { return signed_minutes(c.total_primary.difference); });
@@ -288,6 +288,7 @@ int compare(const std::vector<std::string>& args) {
         "route-setting order at conflicts: timetable or first-come")(
         "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]")(
         "json", "print one JSON document instead of tables");
+    add_punctuality_option(options);
     po::variables_map vm;
     if (!parse_command_line("compare", args, options, vm)) return 0;
     const std::string file = vm["scenario"].as<std::string>();
@@ -295,6 +296,7 @@ int compare(const std::vector<std::string>& args) {
     StudyOptions opt;
     opt.replications = static_cast<std::uint32_t>(count_option(vm, "replications", 1, 10'000'000));
     opt.threads = static_cast<unsigned>(count_option(vm, "threads", 1, 256));
+    opt.thresholds = punctuality_thresholds(vm);
     const std::string order = vm["order"].as<std::string>();
     if (order == "timetable") opt.sim.route_order = RouteOrder::timetable;
     else if (order == "first-come") opt.sim.route_order = RouteOrder::first_come;

@@ -1,5 +1,6 @@
 #include "tools/knockon/options.hpp"
 
+#include <algorithm>
 #include <charconv>
 #include <iostream>
 
@@ -15,6 +16,33 @@ std::uint64_t count_option(const po::variables_map& vm, const char* name, std::u
         throw UsageError(std::string("--") + name + " must be between " + std::to_string(lo) + " and " +
                          std::to_string(hi) + ", not " + text);
     return value;
+}
+
+void add_punctuality_option(po::options_description& options) {
+    options.add_options()("punctuality", po::value<std::string>()->default_value("3,5"),
+                          "punctuality thresholds in minutes, comma separated; a delay counts as within N "
+                          "minutes when it is strictly below N minutes");
+}
+
+std::vector<double> punctuality_thresholds(const po::variables_map& vm) {
+    const std::string text = vm["punctuality"].as<std::string>();
+    std::vector<double> out;
+    std::size_t start = 0;
+    while (start <= text.size()) {
+        const std::size_t comma = std::min(text.find(',', start), text.size());
+        const std::string item = text.substr(start, comma - start);
+        double minutes = 0.0;
+        const auto [end, ec] = std::from_chars(item.data(), item.data() + item.size(), minutes);
+        if (item.empty() || ec != std::errc() || end != item.data() + item.size() || !(minutes > 0.0) ||
+            minutes > 1440.0)
+            throw UsageError("--punctuality must list thresholds in minutes (0 < N <= 1440), e.g. 3,5; not '" +
+                             text + "'");
+        out.push_back(60.0 * minutes);
+        start = comma + 1;
+    }
+    std::sort(out.begin(), out.end());
+    out.erase(std::unique(out.begin(), out.end()), out.end());
+    return out;
 }
 
 bool parse_command_line(const std::string& command, const std::vector<std::string>& args,

@@ -18,6 +18,11 @@ namespace po = boost::program_options;
 // within [lo, hi]; UsageError naming the option otherwise.
 std::uint64_t count_option(const po::variables_map& vm, const char* name, std::uint64_t lo, std::uint64_t hi);
 
+// `--punctuality 3,5`: thresholds in whole or decimal minutes, returned in seconds, ascending.
+// A delay counts as within a threshold when it is strictly below it (2:59 within 3 minutes).
+void add_punctuality_option(po::options_description& options);
+std::vector<double> punctuality_thresholds(const po::variables_map& vm);
+
 bool parse_command_line(const std::string& command, const std::vector<std::string>& args,
                         po::options_description& options, po::variables_map& vm);
 

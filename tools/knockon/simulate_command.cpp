@@ -41,7 +41,7 @@ std::string summary_text(const Scenario& sc, const SimResult& r, const DaySummar
     out << "Arrivals and passes recorded: " << d.arrivals << "; mean delay " << minutes(d.mean_arrival_delay) << ".\n";
     for (std::size_t i = 0; i < d.thresholds.size(); ++i) {
         char buf[96];
-        std::snprintf(buf, sizeof buf, "Punctuality within %.0f min (delay < %.0f s): %.1f %%\n", d.thresholds[i] / 60.0,
+        std::snprintf(buf, sizeof buf, "Punctuality within %g min (delay < %.0f s): %.1f %%\n", d.thresholds[i] / 60.0,
                       d.thresholds[i], 100.0 * d.punctuality[i]);
         out << buf;
     }
@@ -137,6 +137,7 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
         traces = *parsed;
     }
     opt.sim = so;
+    opt.thresholds = punctuality_thresholds(vm);
     const std::uint64_t seed = count_option(vm, "seed", 0, UINT64_MAX);
     if (scenario.delays.empty())
         std::fprintf(stderr, "knockon simulate: note: the scenario has no `delays:` section, so every day is the same\n");
@@ -214,6 +215,7 @@ int simulate(const std::vector<std::string>& args) {
         "traces", po::value<std::string>(),
         "with --replications and --out: days whose full records go into the file: none (default), all, or "
         "sample:K (K days spread evenly)");
+    add_punctuality_option(options);
     po::variables_map vm;
     if (!parse_command_line("simulate", args, options, vm)) return 0;
     SimOptions so;
@@ -239,7 +241,7 @@ int simulate(const std::vector<std::string>& args) {
         vm.count("delay") ? vm["delay"].as<std::vector<std::string>>() : std::vector<std::string>{}, plan);
     SimModel model(scenario.infrastructure, plan);
     SimResult result = simulate_day(model, delays, so);
-    DaySummary summary = summarize_day(result);
+    DaySummary summary = summarize_day(result, punctuality_thresholds(vm));
     if (vm.count("out")) {
         Hdf5RunInfo info;
         info.scenario_file = scenario.source_file;

@@ -40,7 +40,7 @@ std::string study_text(const Scenario& sc, const SimModel& model, const StudyRes
     out << fmt("  knock-on / primary       %.2f\n", s.knock_on_ratio, 0);
     out << "  mean arrival delay       " << minutes(s.mean_arrival_delay) << "\n";
     for (std::size_t i = 0; i < s.thresholds.size(); ++i)
-        out << fmt("  punctual within %.0f min  ", s.thresholds[i] / 60.0, 0) << percent(s.punctuality[i])
+        out << fmt("  punctual within %g min  ", s.thresholds[i] / 60.0, 0) << percent(s.punctuality[i])
             << " (delay below the threshold)\n";
 
     std::vector<TrainStats> trains = s.trains;
@@ -75,7 +75,7 @@ std::string study_text(const Scenario& sc, const SimModel& model, const StudyRes
         return a->punctuality[0].mean < b->punctuality[0].mean;
     });
     if (!s.thresholds.empty()) {
-        out << fmt("\nLeast punctual timing points (within %.0f min; arrival delay mean, p90, p95, max):\n",
+        out << fmt("\nLeast punctual timing points (within %g min; arrival delay mean, p90, p95, max):\n",
                    s.thresholds[0] / 60.0, 0);
         for (std::size_t i = 0; i < std::min<std::size_t>(10, tps.size()); ++i) {
             const TimingPointStats& tp = *tps[i];
