@@ -41,7 +41,7 @@ TEST_CASE("punctuality boundary: a delay counts within N minutes only when stric
     CHECK_FALSE(knockon::within(180.0, 180.0));
 }
 
-TEST_CASE("--punctuality sets the thresholds of a day and of a study", "[punctuality][cli]") {
+TEST_CASE("punctuality option sets the thresholds of a day and of a study", "[punctuality][cli]") {
     const Run day = run("simulate " + kTwo + " --json --punctuality 2,4.5");
     REQUIRE(day.status == 0);
     const auto j = nlohmann::json::parse(day.out);
