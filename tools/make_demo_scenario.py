@@ -373,7 +373,7 @@ ENTRY_DELAYS = [("stopping", 20, 1.3, "P5 suburban: 20 %, mean 1.3 min"),
 def delay_lines():
     lines = [
         "# Primary delays for `knockon simulate --replications` and `knockon compare`.  DEMO-GRADE, NOT",
-        "# FOR REAL STUDIES: the entry figures are a secondary transcription of one national capacity",
+        "# FOR REAL STUDIES: the entry figures come second-hand from one national capacity",
         "# guideline (REFERENCES.md P5), the shapes follow published fits (P6), and the dwell, running and",
         "# disruption figures are invented to make the demo show something.  A real study fits these to",
         "# the line's own delay records.",
