@@ -13,58 +13,18 @@
 
 #include <nlohmann/json.hpp>
 
+#include "cli_support.hpp"
+
 namespace fs = std::filesystem;
 using nlohmann::json;
 
 namespace {
 
-const std::string kExe = KNOCKON_EXE;
-const std::string kSource = KNOCKON_SOURCE_DIR;
+using namespace clitest;
+
 const std::string kDemo = kSource + "/scenarios/demo.yaml";
 const std::string kDelayedLine = kSource + "/tests/data/study/delayed_line.yaml";
 const std::string kTwoTrains = kSource + "/tests/data/two_trains.yaml";
-
-// A fresh directory for one test's files, removed afterwards.
-struct TempDir {
-    fs::path path;
-    TempDir() {
-        std::string tmpl = (fs::temp_directory_path() / "knockon_study_cli_XXXXXX").string();
-        REQUIRE(mkdtemp(tmpl.data()) != nullptr);
-        path = tmpl;
-    }
-    ~TempDir() {
-        std::error_code ec;
-        fs::remove_all(path, ec);
-    }
-    TempDir(const TempDir&) = delete;
-    TempDir& operator=(const TempDir&) = delete;
-};
-
-std::string read_text(const fs::path& p) {
-    std::ifstream in(p, std::ios::binary);
-    std::ostringstream s;
-    s << in.rdbuf();
-    return s.str();
-}
-
-struct Result {
-    int status = -1;   // exit status, -1 when killed by a signal
-    std::string out, err;
-};
-
-// Runs knockon with the given (already quoted) arguments, capturing stdout and stderr in files.
-Result knockon(const std::string& args, const TempDir& dir) {
-    const fs::path out = dir.path / "stdout.txt", err = dir.path / "stderr.txt";
-    const std::string cmd = "'" + kExe + "' " + args + " >'" + out.string() + "' 2>'" + err.string() + "'";
-    const int rc = std::system(cmd.c_str());
-    Result r;
-    r.status = (rc != -1 && WIFEXITED(rc)) ? WEXITSTATUS(rc) : -1;
-    r.out = read_text(out);
-    r.err = read_text(err);
-    return r;
-}
-
-std::string q(const std::string& s) { return "'" + s + "'"; }
 
 json parse(const Result& r) {
     INFO(r.err);
