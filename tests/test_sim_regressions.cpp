@@ -63,44 +63,6 @@ infrastructure:
     return parse_scenario(y, "departure-knockon.yaml");
 }
 
-// A plain line with signals every `spacing` km under one aspect system.  L starts at S
-// (stopping mark 4.5 km) at 08:00; F comes in over the line end at line speed and runs through S
-// at `follower_pass` and through Q (10.5 km) without stopping.
-Scenario plain_line(const std::string& system, double spacing_km, double follower_pass) {
-    std::string y = R"(knockon: 1
-name: Plain line ()" + system + R"() (test)
-line_type: suburban
-infrastructure:
-  length: 12.5 km
-  gradients: [{from: 0 km, value: 0 per mille}]
-  speed_limits: [{from: 0 km, value: 120 km/h}]
-  tracks: [{id: U, from: 0 km, to: 12.5 km, directions: up}]
-  stations:
-    - {id: S, name: Sallowfield, at: 4.75 km}
-    - {id: Q, name: Quenby Marsh, at: 10.5 km}
-  signalling:
-    areas: [{from: 0 km, to: 12.5 km, system: )" + system + R"(}]
-    defaults: {sighting_distance: 300 m, overlap: 100 m, distant_distance: 1200 m}
-    interlocking: {route_setup: 6 s, release: 3 s, sight_reaction: 12 s}
-  signals:
-)";
-    int k = 1;
-    for (double x = 0.0; x < 12.0 - 1e-9; x += spacing_km, ++k) {
-        char buf[96];
-        std::snprintf(buf, sizeof buf, "    - {id: U%02d, track: U, at: %.3f km, direction: up}\n", k, x);
-        y += buf;
-    }
-    y += kEmu;
-    y += R"(timetable:
-  rounding: 30 s
-  services:
-    - {id: L, type: EMU10, category: stopping, direction: up, leave: true,
-       calls: [{station: S, dep: "08:00"}, {station: Q, pass: auto}]}
-    - {id: F, type: EMU10, category: fast, direction: up, enter: {}, leave: true,
-       calls: [{station: S, pass: ")" + clock(follower_pass) + R"("}, {station: Q, pass: auto}]}
-)";
-    return parse_scenario(y, "plain-line-" + system + ".yaml");
-}
 
 constexpr double k0800 = 8 * 3600.0;
 
