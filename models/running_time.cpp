@@ -70,6 +70,27 @@ struct Motion {
     }
 };
 
+// Walks a path profile (gradient or speed limit) with ascending look-ups in amortised O(1), the
+// same value as PathProfile::at; falls back to the path's own look-up where it has no profile.
+class ProfileCursor {
+public:
+    ProfileCursor(const TrainPath& path, const PathProfile& profile, double (TrainPath::*fallback)(double) const)
+        : path_(path), profile_(profile), fallback_(fallback) {}
+    double at(double pos) {
+        const auto& s = profile_.s;
+        if (s.empty()) return (path_.*fallback_)(pos);
+        while (i_ + 1 < s.size() && s[i_ + 1] <= pos) ++i_;
+        while (i_ > 0 && s[i_] > pos) --i_;
+        return profile_.value[i_];
+    }
+
+private:
+    const TrainPath& path_;
+    const PathProfile& profile_;
+    double (TrainPath::*fallback_)(double) const;
+    std::size_t i_ = 0;
+};
+
 // The distance grid: points s0 + i*step, the last one at s_end exactly (its cell may be short).
 struct Grid {
     double s0, step, s_end;
@@ -97,6 +118,7 @@ void static_limits(const TrainType& type, const TrainPath& path, const Grid& gri
     cell.resize(total);
     queue.resize(total);
     const double s_floor = std::min(path.s_min, 0.0);
+    ProfileCursor limit(path, path.speed_limit, &TrainPath::speed_limit_at);
     for (std::size_t j = 0; j < total; ++j) {
         const bool behind = j < m;
         double a, b;
@@ -108,8 +130,8 @@ void static_limits(const TrainType& type, const TrainPath& path, const Grid& gri
             b = grid.at(j - m + 1);
         }
         const double delta = std::min(1e-6, 0.25 * (b - a));
-        const double lo = path.speed_limit_at(std::max(a + delta, s_floor));
-        const double hi = path.speed_limit_at(std::max(b - delta, s_floor));
+        const double lo = limit.at(std::max(a + delta, s_floor));
+        const double hi = limit.at(std::max(b - delta, s_floor));
         cell[j] = std::min({lo, hi, type.max_speed});
     }
     // Sliding-window minimum with a monotone queue of indices (one pass, no per-step allocation).
@@ -173,6 +195,36 @@ Trajectory run_leg(const TrainType& type, const TrainPath& path, double s_start,
 
 void run_leg_into(Trajectory& tr, const TrainType& type, const TrainPath& path, double s_start, double v_start,
                   double s_end, bool stop_at_end, const RunOptions& options) {
+    const LegGrid grid = make_leg_grid(type, path, s_start, s_end, options);
+    run_on_grid_into(tr, type, grid, s_start, v_start, s_end, stop_at_end, options);
+}
+
+void StepRuns::assign(const std::vector<double>& values, std::size_t n) {
+    first.clear();
+    value.clear();
+    for (std::size_t i = 0; i < n; ++i)
+        if (value.empty() || values[i] != value.back()) {
+            first.push_back(static_cast<std::uint32_t>(i));
+            value.push_back(values[i]);
+        }
+}
+
+void StepRuns::expand(std::size_t from, std::size_t count, double* out) const {
+    if (count == 0) return;
+    std::size_t r = static_cast<std::size_t>(std::upper_bound(first.begin(), first.end(), from) - first.begin());
+    r = r == 0 ? 0 : r - 1;
+    std::size_t i = from;
+    const std::size_t end = from + count;
+    while (i < end) {
+        const std::size_t stop = r + 1 < first.size() ? std::min<std::size_t>(first[r + 1], end) : end;
+        std::fill(out + (i - from), out + (stop - from), value[r]);
+        i = stop;
+        ++r;
+    }
+}
+
+LegGrid make_leg_grid(const TrainType& type, const TrainPath& path, double s_start, double s_end,
+                      const RunOptions& options) {
     check_type(type);
     if (!path.infrastructure || path.pieces.empty())
         throw std::invalid_argument("running time for " + describe(type) + ": the path has no track");
@@ -185,44 +237,97 @@ void run_leg_into(Trajectory& tr, const TrainType& type, const TrainPath& path, 
     if (s_start < std::min(path.s_min, 0.0) - 1e-6 || s_end > s_far + 1e-6)
         throw std::invalid_argument("running time for " + describe(type) + ": leg " + metres(s_start) + " to " +
                                     metres(s_end) + " leaves the path (" + metres(s_far) + " long)");
-    if (!(v_start >= 0.0) || !std::isfinite(v_start))
-        throw std::invalid_argument("running time for " + describe(type) + ": start speed must not be negative");
-
-    tr.s0 = s_start;
-    tr.step = options.step;
-    tr.s_end = s_end;
+    LegGrid g;
+    g.s0 = s_start;
+    g.step = options.step;
+    g.s_end = s_end;
     // Cells of the full step, the last one shortened to end at s_end; a remainder below a
     // millionth of a step is folded into the previous cell rather than left as a sliver.
     const double span = s_end - s_start;
-    std::size_t cells = span > 0.0 ? static_cast<std::size_t>(std::ceil(span / options.step - 1e-6)) : 0;
-    if (span > 0.0 && cells == 0) cells = 1;
-    const Grid grid{s_start, options.step, s_end, cells};
-    tr.v.assign(cells + 1, 0.0);
-    tr.t.assign(cells + 1, 0.0);
+    g.cells = span > 0.0 ? static_cast<std::size_t>(std::ceil(span / options.step - 1e-6)) : 0;
+    if (span > 0.0 && g.cells == 0) g.cells = 1;
+    thread_local std::vector<double> buffer;
+    buffer.resize(g.cells + 1);
+    if (g.cells == 0) {
+        buffer[0] = std::min(path.speed_limit_at(s_start), type.max_speed);
+        g.limit.assign(buffer, 1);
+        return g;
+    }
+    // Static limits (tail rule); gradients per cell at the cell's middle (the train is treated
+    // as a point mass at its head for the gradient force).
+    const Grid grid{g.s0, g.step, g.s_end, g.cells};
+    static_limits(type, path, grid, buffer);
+    g.limit.assign(buffer, g.cells + 1);
+    ProfileCursor slope(path, path.gradient, &TrainPath::gradient_at);
+    for (std::size_t i = 0; i < g.cells; ++i) buffer[i] = slope.at(0.5 * (grid.at(i) + grid.at(i + 1)));
+    g.gradient.assign(buffer, g.cells);
+    return g;
+}
+
+long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, double s_start, double v_start,
+                      double s_end, bool stop_at_end, const RunOptions& options, const Rejoin* rejoin) {
+    check_type(type);
+    const double tol = 1e-6 * g.step;
+    if (!std::isfinite(s_start) || !std::isfinite(s_end) || s_end < s_start || s_start < g.s0 - tol ||
+        s_end > g.s_end + tol)
+        throw std::invalid_argument("running time for " + describe(type) + ": run from " + metres(s_start) +
+                                    " to " + metres(s_end) + " is not within its grid " + metres(g.s0) + " to " +
+                                    metres(g.s_end));
+    if (!(v_start >= 0.0) || !std::isfinite(v_start))
+        throw std::invalid_argument("running time for " + describe(type) + ": start speed must not be negative");
+
+    // The grid cell k0 holding s_start: the run's point i >= 1 is the grid's point k0 + i.
+    std::size_t k0 = 0;
+    if (g.cells > 0 && s_start > g.s0) {
+        const double x = std::floor((s_start - g.s0) / g.step + 1e-6);
+        k0 = std::min(static_cast<std::size_t>(std::max(x, 0.0)), g.cells - 1);
+    }
+    const bool start_on_point = std::fabs(s_start - g.at(k0)) <= tol;
+    const double origin = g.s0;
+    std::size_t cells = 0;
+    if (s_end > s_start && g.cells > 0) {
+        const double x = std::ceil((s_end - (g.s0 + static_cast<double>(k0) * g.step)) / g.step - 1e-6);
+        cells = std::max<std::size_t>(1, static_cast<std::size_t>(std::max(x, 0.0)));
+        cells = std::min(cells, g.cells - k0);
+    }
+    tr.s0 = s_start;
+    tr.step = g.step;
+    tr.s_end = s_end;
+    tr.origin = origin;
+    tr.base = k0;
+    tr.v.resize(cells + 1);
+    tr.t.resize(cells + 1);
+    tr.t[0] = 0.0;
+    std::vector<double>& v = tr.v;
     if (cells == 0) {
-        tr.v[0] = stop_at_end ? 0.0 : std::min(v_start, std::min(path.speed_limit_at(s_start), type.max_speed));
-        return;
+        double lim;
+        g.limit.expand(k0, 1, &lim);
+        v[0] = stop_at_end ? 0.0 : std::min(v_start, lim);
+        return -1;
     }
 
-    // Static limits (tail rule) into v, gradients per cell at the cell's middle (the train is
-    // treated as a point mass at its head for the gradient force).
-    static_limits(type, path, grid, tr.v);
+    // Limits at the run's points from the grid's; a shortened end cell takes the lower of the
+    // limits at the grid points around it (each already the lower of its neighbouring cells).
+    g.limit.expand(k0, cells + 1, v.data());
+    if (!start_on_point) v[0] = std::min(v[0], v[1]);
+    const bool end_on_point = std::fabs(s_end - g.at(k0 + cells)) <= tol;
+    if (!end_on_point) v[cells] = std::min(v[cells], v[cells - 1]);
+    auto at = [&](std::size_t i) { return i == 0 ? s_start : i >= cells ? s_end : tr.point(i); };
     if (options.slow_factor < 1.0 && options.slow_to > options.slow_from)
         for (std::size_t i = 0; i <= cells; ++i)
-            if (grid.at(i) >= options.slow_from && grid.at(i) < options.slow_to) tr.v[i] *= options.slow_factor;
+            if (at(i) >= options.slow_from && at(i) < options.slow_to) v[i] *= options.slow_factor;
     thread_local std::vector<double> gradient;
     gradient.resize(cells);
-    for (std::size_t i = 0; i < cells; ++i) gradient[i] = path.gradient_at(0.5 * (grid.at(i) + grid.at(i + 1)));
+    g.gradient.expand(k0, cells, gradient.data());
 
     // Backward pass: braking envelope from the target and from every drop of the limit, in place
     // in v.  Same midpoint rule in v^2 as the forward pass (exact for constant braking).  Where
     // the limit does not fall, the envelope is the limit itself and no braking is evaluated.
-    std::vector<double>& v = tr.v;
     if (stop_at_end) v[cells] = 0.0;
     for (std::size_t i = cells; i-- > 0;) {
         const double v1 = v[i + 1];
         if (v[i] <= v1) continue;
-        const double ds = grid.length(i);
+        const double ds = at(i + 1) - at(i);
         const double w1 = v1 * v1;
         const double w_mid = w1 + braking_deceleration(type, v1, gradient[i]) * ds;
         const double w0 = w1 + 2.0 * braking_deceleration(type, std::sqrt(w_mid), gradient[i]) * ds;
@@ -234,31 +339,57 @@ void run_leg_into(Trajectory& tr, const TrainType& type, const TrainPath& path, 
     // trajectory: drivers anticipate a braking point they know; it enters stopping_distance.
     const Motion motion(type);
     v[0] = std::min(v_start, v[0]);
+    // One-entry memo of step_w: cruising at a limit repeats the same (speed, gradient, step)
+    // cell after cell, and step_w is a pure function of them.
+    double memo_v = -1.0, memo_g = 0.0, memo_ds = 0.0, memo_w = 0.0;
     for (std::size_t i = 0; i < cells; ++i) {
-        const double ds = grid.length(i);
+        const double ds = at(i + 1) - at(i);
         const double v0 = v[i];
         const double envelope = v[i + 1];
-        const double w1 = motion.step_w(v0, gradient[i], ds);
+        if (v0 != memo_v || gradient[i] != memo_g || ds != memo_ds) {
+            memo_v = v0;
+            memo_g = gradient[i];
+            memo_ds = ds;
+            memo_w = motion.step_w(v0, gradient[i], ds);
+        }
+        const double w1 = memo_w;
         double v1;
         if (w1 > 0.0)
             v1 = std::min(std::sqrt(w1), envelope);
         else if (envelope == 0.0)
             v1 = 0.0;  // stops at the target anyway
         else
-            throw std::runtime_error(describe(type) + " stalls at " + metres(grid.at(i)) +
+            throw std::runtime_error(describe(type) + " stalls at " + metres(at(i)) +
                                      ": tractive effort does not overcome resistance and gradient " +
                                      std::to_string(gradient[i] * 1000.0) + " per mille");
         if (!(v0 + v1 > 0.0))
-            throw std::runtime_error(describe(type) + " cannot pass " + metres(grid.at(i)) +
+            throw std::runtime_error(describe(type) + " cannot pass " + metres(at(i)) +
                                      ": speed limit zero there or no tractive effort from standstill");
         v[i + 1] = v1;
         tr.t[i + 1] = tr.t[i] + 2.0 * ds / (v0 + v1);
+        if (rejoin && i + 1 < cells) {
+            const std::size_t k = k0 + i + 1;
+            const double q = at(i + 1);
+            if (q >= rejoin->after && q < rejoin->before && k < rejoin->leg->v.size() && v1 == rejoin->leg->v[k]) {
+                v.resize(i + 2);
+                tr.t.resize(i + 2);
+                tr.s_end = q;
+                return static_cast<long>(k);
+            }
+        }
     }
+    return -1;
 }
 
 // --- Trajectory look-ups -------------------------------------------------------------------
 // Within a cell acceleration is constant (v^2 linear in s), so position, speed and time are
 // inverted exactly there, consistent with how the run was integrated.
+double Trajectory::point(std::size_t i) const {
+    if (i == 0) return s0;
+    if (i + 1 >= v.size()) return s_end;
+    return origin + static_cast<double>(base + i) * step;
+}
+
 namespace {
 
 struct Cell {
@@ -268,11 +399,11 @@ struct Cell {
 
 Cell cell_of(const Trajectory& tr, double s) {
     const std::size_t cells = tr.v.size() - 1;
-    const double x = std::floor((s - tr.s0) / tr.step);
+    const double x = std::floor((s - tr.origin) / tr.step) - static_cast<double>(tr.base);
     std::size_t k = x <= 0.0 ? 0 : static_cast<std::size_t>(x);
     k = std::min(k, cells - 1);
-    const double from = tr.s0 + static_cast<double>(k) * tr.step;
-    const double to = k + 1 == cells ? tr.s_end : from + tr.step;
+    const double from = tr.point(k);
+    const double to = tr.point(k + 1);
     return {k, from, to - from};
 }
 
@@ -305,9 +436,8 @@ double Trajectory::position_at(double time) const {
     if (time >= t.back()) return s_end;
     std::size_t k = static_cast<std::size_t>(std::upper_bound(t.begin(), t.end(), time) - t.begin());
     k = std::min(k == 0 ? 0 : k - 1, v.size() - 2);
-    const double from = s0 + static_cast<double>(k) * step;
-    const double to = k + 2 == v.size() ? s_end : from + step;
-    const double len = to - from;
+    const double from = point(k);
+    const double len = point(k + 1) - from;
     const double v0 = v[k], v1 = v[k + 1];
     const double a = (v1 * v1 - v0 * v0) / (2.0 * len);
     const double tau = time - t[k];

@@ -62,7 +62,10 @@ ServiceRun plan_service(const Infrastructure& infra, const Service& service, con
         double s0 = s_of(k, false), s1 = s_of(k + 1, true);
         double v0 = (k == 0 && service.enters_at_edge) ? entry_speed : 0.0;
         bool stop = !(k + 2 == halt_tp.size() && service.leaves_at_edge);
-        run.legs.push_back({run_leg(type, path, s0, v0, s1, stop, options), 0.0});
+        RunLeg leg;
+        leg.grid = make_leg_grid(type, path, s0, s1, options);
+        run_on_grid_into(leg.trajectory, type, leg.grid, s0, v0, s1, stop, options);
+        run.legs.push_back(std::move(leg));
     }
     // Which leg each timing point lies on (a stop belongs to the leg it ends, except the origin).
     auto leg_of = [&](double s, bool departing) {

@@ -38,6 +38,7 @@ struct PlannedCall {
 struct RunLeg {
     Trajectory trajectory;
     double start_time = 0.0;   // absolute departure at the leg's start [s]
+    LegGrid grid;              // its grid and static profile, to integrate again on the same points
 };
 
 struct ServiceRun {

@@ -40,6 +40,7 @@ enum Kind : std::uint32_t {
     kRequest,
     kArrive,
     kExit,
+    kJoin,         // a train integrated again is back on its planned leg's motion
     kBrakePoint,   // a train following its planned leg must start braking for its authority
     kDisruptionStart,   // not a train's: payload indexes InjectedDelays::blocked
     kDisruptionEnd,
@@ -79,6 +80,8 @@ private:
         long leg = -1;              // planned leg followed, or -1
         Trajectory own;
         double brake_from = kInf;   // on a planned leg: where braking for the authority would begin
+        long join_leg = -1;         // `own` ends where it rejoins this planned leg, at grid point join_point
+        std::size_t join_point = 0;
         bool free_end = false;      // the motion runs out over the line end
         double s_stand = 0.0;
         double stand_since = 0.0;
@@ -166,7 +169,26 @@ private:
             }
         return s.eoa > beyond + kEps;
     }
-    void set_brake_point(std::uint32_t t);
+    // Where a train following planned leg k must start braking for an authority ending at eoa
+    // (infinity: nowhere on the leg).
+    double brake_point(std::uint32_t t, std::size_t k, double eoa) const;
+    // Where the next slow running begins with the head beyond s (infinity: none).
+    double next_slow_start(std::uint32_t t, double s) const {
+        double from = kInf;
+        for (const SlowStretch& sl : slow_[t])
+            if (sl.to > s + kEps) from = std::min(from, sl.from);
+        return from;
+    }
+    // A train follows its planned leg until it must brake for the end of its authority or for
+    // slow running ahead (braking to a stop there: on the safe side).
+    void set_brake_point(std::uint32_t t) {
+        TrainState& s = st_[t];
+        const double limit = std::min(s.eoa, next_slow_start(t, head_position(t)));
+        s.brake_from = brake_point(t, static_cast<std::size_t>(s.leg), limit);
+    }
+    // The planned leg that holds [from, to], or -1.
+    long leg_holding(std::uint32_t t, double from, double to) const;
+    void join_leg(std::uint32_t t);
     double head_position(std::uint32_t t) const;
     double head_speed(std::uint32_t t) const;
     double time_at_head(std::uint32_t t, double s) const;   // NaN: not on the current motion
@@ -413,7 +435,8 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
 void Day::schedule_points(std::uint32_t t) {
     for (Kind k : {kEnter, kLeave, kClear, kSight, kPass, kCall, kRequest}) schedule_point(t, k);
     const TrainState& s = st_[t];
-    if (s.phase == Phase::moving) push(s.t0 + traj(t).duration(), s.free_end ? kExit : kArrive, t);
+    if (s.phase == Phase::moving)
+        push(s.t0 + traj(t).duration(), s.leg < 0 && s.join_leg >= 0 ? kJoin : s.free_end ? kExit : kArrive, t);
 }
 
 void Day::sample_until(std::uint32_t t, double until) {
@@ -447,28 +470,45 @@ void Day::sample_until(std::uint32_t t, double until) {
     for (double time = first; time <= until + 1e-9; time += dt) add(time);
 }
 
-void Day::set_brake_point(std::uint32_t t) {
-    TrainState& s = st_[t];
-    const Trajectory& leg = traj(t);
-    const auto& reach = train(t).leg_reach[static_cast<std::size_t>(s.leg)];
-    const auto it = std::upper_bound(reach.begin(), reach.end(), s.eoa);
-    if (it == reach.end()) {
-        s.brake_from = kInf;
-        return;
-    }
+double Day::brake_point(std::uint32_t t, std::size_t k, double eoa) const {
+    const Trajectory& leg = run_of(t).legs[k].trajectory;
+    const auto& reach = train(t).leg_reach[k];
+    const auto it = std::upper_bound(reach.begin(), reach.end(), eoa);
+    if (it == reach.end()) return kInf;
     const std::size_t j = static_cast<std::size_t>(it - reach.begin());
-    s.brake_from = j == 0 ? leg.s0 : std::min(leg.s0 + static_cast<double>(j - 1) * leg.step, leg.s_end);
+    return j == 0 ? leg.s0 : leg.point(j - 1);
+}
+
+long Day::leg_holding(std::uint32_t t, double from, double to) const {
+    const ServiceRun& run = run_of(t);
+    for (std::size_t k = 0; k < run.legs.size(); ++k) {
+        const Trajectory& lt = run.legs[k].trajectory;
+        if (from >= lt.s0 - kEps && to <= lt.s_end + kEps) return static_cast<long>(k);
+    }
+    return -1;
+}
+
+void Day::join_leg(std::uint32_t t) {
+    // The integrated motion has reached the planned leg's speed at one of its grid points: from
+    // there the leg's motion is the train's, shifted in time.
+    TrainState& s = st_[t];
+    const ServiceRun& run = run_of(t);
+    const std::size_t k = static_cast<std::size_t>(s.join_leg);
+    sample_until(t, now_);
+    s.t0 += s.own.duration() - run.legs[k].trajectory.t[s.join_point];
+    s.leg = static_cast<long>(k);
+    s.join_leg = -1;
+    s.free_end = k + 1 == run.legs.size() && run.path.ends_at_edge;
+    replan(t);
 }
 
 bool Day::start_leg(std::uint32_t t, double s_now) {
-    // The planned leg that starts here, if the train is to run it as planned (no slow running).
+    // The planned leg that starts here: the train follows it until it must brake (set_brake_point).
     TrainState& s = st_[t];
     const ServiceRun& run = run_of(t);
     for (std::size_t k = 0; k < run.legs.size(); ++k) {
         const Trajectory& lt = run.legs[k].trajectory;
         if (std::fabs(lt.s0 - s_now) > kEps) continue;
-        for (const SlowStretch& sl : slow_[t])
-            if (sl.to > lt.s0 + kEps && sl.from < lt.s_end) return false;
         s.leg = static_cast<long>(k);
         s.t0 = now_;
         s.free_end = k + 1 == run.legs.size() && run.path.ends_at_edge;
@@ -519,9 +559,29 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
             break;
         }
     s.leg = -1;
-    run_leg_into(s.own, *run.type, run.path, s_now, v_now, std::max(target, s_now), !free, ro);
+    s.join_leg = -1;
+    const double end = std::max(target, s_now);
+    // On a planned leg the motion is integrated on the leg's grid, and hands back to the leg
+    // where it regains the leg's speed, past the slow running it integrates and short of
+    // braking for the authority or the next slow running: a hindered train then costs
+    // integration only while it runs differently from its plan.
+    const long k = leg_holding(t, s_now, end);
+    if (k >= 0) {
+        const RunLeg& leg = run.legs[static_cast<std::size_t>(k)];
+        const double after = ro.slow_factor < 1.0 ? ro.slow_to : s_now;
+        const double before =
+            brake_point(t, static_cast<std::size_t>(k), std::min(s.eoa, next_slow_start(t, after)));
+        const Rejoin rejoin{&leg.trajectory, after, before};
+        const long j = run_on_grid_into(s.own, *run.type, leg.grid, s_now, v_now, end, !free, ro, &rejoin);
+        if (j >= 0) {
+            s.join_leg = k;
+            s.join_point = static_cast<std::size_t>(j);
+        }
+    } else {
+        run_leg_into(s.own, *run.type, run.path, s_now, v_now, end, !free, ro);
+    }
     s.t0 = now_;
-    s.free_end = free;
+    s.free_end = free && s.join_leg < 0;
     s.phase = Phase::moving;
     schedule_points(t);
 }
@@ -617,6 +677,7 @@ void Day::try_appear(std::uint32_t t) {
         generations_.bump(motion_entity(t));
         if (!start_leg(t, 0.0)) {
             s.leg = -1;
+            s.join_leg = -1;
             s.own = Trajectory{};
             s.own.s0 = s.own.s_end = 0.0;
             s.own.v = {run.entry_speed};
@@ -896,6 +957,7 @@ void Day::handle(const Event& e) {
         }
         case kArrive: begin_standing(t); break;
         case kBrakePoint: replan(t, true); break;
+        case kJoin: join_leg(t); break;
         case kDisruptionStart:
         case kDisruptionEnd: break;   // handled above: they belong to no train
         case kExit:
