@@ -68,6 +68,8 @@ Hdf5RunInfo small_info() {
     info.command_line = "knockon simulate scenarios/invented-line.yaml --hdf5 out.h5";
     info.seed = 9223372036854775813ULL;  // above 2^63: a signed or double round trip would change it
     info.program_version = "0.1.0-test";
+    info.variant = "base";
+    info.step = 1.5;
     return info;
 }
 
@@ -331,8 +333,10 @@ TEST_CASE("HDF5 results: root and /day attributes", "[sim_hdf5]") {
 
     // Layout of tools/io/HDF5_LAYOUT.md (our own spec).
     CHECK(f.attr_class("/", "schema_version") == H5T_INTEGER);
-    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 2);
+    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 3);
     CHECK(f.text_attr("/", "kind") == "day");
+    CHECK(f.text_attr("/", "variant") == "base");
+    CHECK(f.number_attr<double>("/", "step_m", H5T_NATIVE_DOUBLE) == 1.5);
     CHECK(f.text_attr("/", "program") == "knockon");
     CHECK(f.text_attr("/", "program_version") == "0.1.0-test");
     CHECK(f.text_attr("/", "scenario_file") == "scenarios/invented-line.yaml");

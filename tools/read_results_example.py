@@ -1,6 +1,7 @@
 #!/usr/bin/env python3
 """Read a knockon HDF5 results file (layout: tools/io/HDF5_LAYOUT.md): one simulated day
-(root attribute kind = "day") or a Monte Carlo study (kind = "study").
+(root attribute kind = "day"), a Monte Carlo study (kind = "study") or a comparison of variants
+(kind = "comparison").
 
     python3 tools/read_results_example.py results.h5
 
@@ -44,7 +45,7 @@ def attr_value(value):
 
 
 def file_kind(path):
-    """"day" or "study" (files written before the kind attribute existed hold one day)."""
+    """"day", "study" or "comparison" (files written before the kind attribute existed hold one day)."""
     with h5py.File(path, "r") as f:
         return attr_value(f.attrs.get("kind", b"day"))
 
@@ -100,6 +101,45 @@ def load_study(path):
     return facts, study_facts, units, frames, traced
 
 
+def load_comparison(path):
+    """Root facts, /comparison facts, the variants (in order) and the paired differences, and per
+    variant its study tables (laid out like /study), as DataFrames or NumPy structured arrays."""
+    with h5py.File(path, "r") as f:
+        facts = {k: attr_value(v) for k, v in f.attrs.items()}
+        comparison = f["comparison"]
+        comparison_facts = {k: attr_value(v) for k, v in comparison.attrs.items()}
+        variants = decode_text_fields(comparison["variants"][:])
+        differences = decode_text_fields(comparison["differences"][:])
+        studies = {}
+        for name in variants["name"]:
+            group = f["variants"][name]
+            studies[name] = {table: decode_text_fields(group[table][:]) for table in STUDY_TABLES}
+    if pd is not None:
+        variants = pd.DataFrame.from_records(variants, columns=variants.dtype.names)
+        differences = pd.DataFrame.from_records(differences, columns=differences.dtype.names)
+        studies = {name: {t: pd.DataFrame.from_records(r, columns=r.dtype.names) for t, r in tables.items()}
+                   for name, tables in studies.items()}
+    return facts, comparison_facts, variants, differences, studies
+
+
+def main_comparison(path):
+    facts, comparison_facts, variants, differences, studies = load_comparison(path)
+    print(f"{path}: {facts.get('program')} {facts.get('program_version')}, schema {facts.get('schema_version')}, "
+          f"comparison of scenario '{facts.get('scenario_name')}', seed {facts.get('seed')}, "
+          f"{facts.get('replications')} days per variant")
+    print(f"caution: {facts.get('caution')}")
+    print(f"variants: {', '.join(str(n) for n in variants['name'])} "
+          f"(differences against {comparison_facts['differences_against']})")
+    for name, tables in studies.items():
+        print(f"  {name}: per_day {len(tables['per_day'])} records")
+    print("\npaired differences (variant minus the first; plan figures have no interval):")
+    for i in range(len(differences)):
+        row = differences.iloc[i] if pd is not None else differences[i]
+        print(f"  {row['variant']} {row['figure']}: {row['mean']:+.4g} {row['unit']} "
+              f"[{row['ci95_lower']:.4g}, {row['ci95_upper']:.4g}] (n = {row['n']})")
+    return 0
+
+
 def show(name, table, units):
     print(f"\n{name}: {len(table)} records  [{units}]")
     if len(table):
@@ -135,8 +175,11 @@ def main(argv):
         print("usage: python3 tools/read_results_example.py RESULTS.h5", file=sys.stderr)
         return 2
     try:
-        if file_kind(argv[1]) == "study":
+        kind = file_kind(argv[1])
+        if kind == "study":
             return main_study(argv[1])
+        if kind == "comparison":
+            return main_comparison(argv[1])
         facts, day_facts, units, tables = load_day(argv[1])
     except (OSError, KeyError, IndexError, ValueError) as e:
         print(f"{argv[1]}: cannot read knockon results: {e}", file=sys.stderr)

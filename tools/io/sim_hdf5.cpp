@@ -177,6 +177,8 @@ void write_run_attributes(const h5::Group& root, const Hdf5RunInfo& info, const 
     a.set_u64("seed", info.seed);
     a.set_text("time_unit", kTimeUnit);
     a.set_text("caution", kSafetyCaution);
+    if (!info.variant.empty()) a.set_text("variant", info.variant);
+    a.set_f64("step_m", info.step);
 }
 
 void write_day(const h5::Group& day, const SimResult& result) {

@@ -18,7 +18,8 @@ class RecordTable;
 
 // The layout version written as the root attribute schema_version; raise it when the layout changes.
 // 2: root attribute `kind`, study files, knock_on in the timing table.
-inline constexpr int kSimHdf5SchemaVersion = 2;
+// 3: comparison files; root attributes `variant` (day and study files) and `step_m`.
+inline constexpr int kSimHdf5SchemaVersion = 3;
 
 // Facts about the run that the results alone do not carry.
 struct Hdf5RunInfo {
@@ -27,6 +28,9 @@ struct Hdf5RunInfo {
     std::string command_line;
     std::uint64_t seed = 0;
     std::string program_version;  // empty: this build's version
+    std::string variant;          // the scenario variant run ("base": as written); empty: not one
+                                  // variant (a comparison), not written
+    double step = 2.0;            // distance step of the motion integration [m]
 };
 
 // Writes `result` to `path` whole or not at all: built under a temporary name in the same directory
@@ -35,7 +39,7 @@ struct Hdf5RunInfo {
 void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5RunInfo& info);
 
 // The root attributes every results file has (schema and program version, scenario, command line,
-// seed, time unit, caution) plus `kind` ("day" or "study").
+// seed, time unit, caution, variant, step) plus `kind` ("day", "study" or "comparison").
 void write_run_attributes(const h5::Group& root, const Hdf5RunInfo& info, const std::string& kind);
 
 // The two text attributes every table carries. units: "field: unit" for every field in field order,

@@ -20,16 +20,6 @@ using h5::RecordTable;
 
 const double kNaN = std::numeric_limits<double>::quiet_NaN();
 
-// "3min" for whole minutes, else "150s": the suffix of the punctuality field names.
-std::string threshold_label(double seconds) {
-    char buf[48];
-    if (seconds >= 0.0 && std::fmod(seconds, 60.0) == 0.0)
-        std::snprintf(buf, sizeof buf, "%.0fmin", seconds / 60.0);
-    else
-        std::snprintf(buf, sizeof buf, "%gs", seconds);
-    return buf;
-}
-
 std::size_t longest(const std::vector<std::string>& values) {
     std::size_t n = 0;
     for (const std::string& v : values) n = std::max(n, v.size());
@@ -54,7 +44,7 @@ void write_per_day(const h5::Group& g, const StudyResult& study, const std::vect
         "replication: 0-based replication number, deadlocked: 1 = the day ended in deadlock / 0 = not, "
         "events: count, block_passages: count, total_primary: s, total_knock_on: s, mean_arrival_delay: s";
     for (double t : thresholds) {
-        const std::string name = "punctual_" + threshold_label(t);
+        const std::string name = punctuality_field(t);
         layout.add(name, FieldKind::f64);
         units += ", " + name + ": share of arrivals and passes (0 to 1)";
     }
@@ -87,7 +77,7 @@ void write_summary(const h5::Group& g, const StudySummary& s) {
                              {"total_knock_on", "s", s.total_knock_on},
                              {"mean_arrival_delay", "s", s.mean_arrival_delay}};
     for (std::size_t i = 0; i < s.thresholds.size() && i < s.punctuality.size(); ++i)
-        rows.push_back({"punctual_" + threshold_label(s.thresholds[i]), "share", s.punctuality[i]});
+        rows.push_back({punctuality_field(s.thresholds[i]), "share", s.punctuality[i]});
     std::vector<std::string> figures, units;
     for (const Row& r : rows) {
         figures.push_back(r.figure);
@@ -136,7 +126,7 @@ void write_timing_points(const h5::Group& g, const StudyResult& study, const Stu
         "stops: 1 = scheduled stop / 0 = pass, reached: days, delay_mean: s, delay_ci95_half_width: s, "
         "p50: s, p90: s, p95: s, max: s, knock_on_mean: s, knock_on_ci95_half_width: s";
     for (double t : s.thresholds) {
-        const std::string name = "punctual_" + threshold_label(t);
+        const std::string name = punctuality_field(t);
         layout.add(name + "_share", FieldKind::f64);
         layout.add(name + "_lower", FieldKind::f64);
         layout.add(name + "_upper", FieldKind::f64);
@@ -274,9 +264,9 @@ void write_buffers(const h5::Group& g, const SimModel& model, const StudySummary
              "10 % of days fell below, over the days both trains used the section.");
 }
 
-void write_study_group(const h5::Group& root, const SimModel& model, const StudyResult& study,
-                       const StudySummary& s) {
-    const h5::Group g = root.create_group("study");
+}  // namespace
+
+void write_study_tables(const h5::Group& g, const SimModel& model, const StudyResult& study, const StudySummary& s) {
     const h5::Attributes a = g.attributes();
     a.set_u32("replications", count32(study.replications.size()));
     a.set_u8("partial", study.partial ? 1 : 0);
@@ -297,9 +287,17 @@ void write_study_group(const h5::Group& root, const SimModel& model, const Study
                 "Detection section ids; the 'section' field of sections is an index into this table.");
 }
 
-}  // namespace
-
 // ---------------------------------------------------------------------------------------------
+
+std::string punctuality_field(double seconds) {
+    // "3min" for whole minutes, else "150s".
+    char buf[48];
+    if (seconds >= 0.0 && std::fmod(seconds, 60.0) == 0.0)
+        std::snprintf(buf, sizeof buf, "punctual_%.0fmin", seconds / 60.0);
+    else
+        std::snprintf(buf, sizeof buf, "punctual_%gs", seconds);
+    return buf;
+}
 
 bool TraceSelection::traced(std::uint32_t replication, std::uint32_t planned) const {
     switch (mode) {
@@ -381,7 +379,7 @@ void StudyHdf5Writer::finish(const SimModel& model, const StudyResult& study, co
         const h5::Group root = state_->file.root();
         root.attributes().set_u32("replications", count32(study.replications.size()));
         root.attributes().set_u8("partial", study.partial ? 1 : 0);
-        write_study_group(root, model, study, summary);
+        write_study_tables(root.create_group("study"), model, study, summary);
     }  // every group and dataset closed before the file
     state_->file.commit();
 }

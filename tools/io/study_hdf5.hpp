@@ -34,6 +34,17 @@ struct TraceSelection {
 // "none", "all" or "sample:K" with K a whole number >= 1; nullopt for anything else.
 std::optional<TraceSelection> parse_trace_selection(const std::string& text);
 
+// The name of the punctuality figure of a threshold [s] in the tables: "punctual_3min" for whole
+// minutes, else e.g. "punctual_150s".
+std::string punctuality_field(double threshold_seconds);
+
+// The attributes and tables of a study's figures (replications, partial, deadlocked_days,
+// knock_on_ratio, thresholds_s; per_day, summary, timing_points, trains, signals, sections, buffers,
+// trains_index, sections_index) into `group`: /study of a study file, /variants/<name> of a
+// comparison file.  `model` is the one the study ran on (it names the buffer pairs).
+void write_study_tables(const h5::Group& group, const SimModel& model, const StudyResult& study,
+                        const StudySummary& summary);
+
 // The /replications/<k> group name: the 0-based replication number with at least 6 digits.
 std::string replication_group_name(std::uint32_t replication);
 

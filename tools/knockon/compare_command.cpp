@@ -19,6 +19,7 @@
 #include "sim/delay_draws.hpp"
 #include "sim/simulation.hpp"
 #include "sim/study.hpp"
+#include "tools/io/comparison_hdf5.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/knockon/options.hpp"
@@ -32,6 +33,7 @@ struct VariantRun {
     Scenario scenario;
     PlanResult plan;
     PlanFigures figures;
+    std::unique_ptr<SimModel> model;   // the study's model, kept for the results file
     StudyResult study;
     StudySummary summary;
 };
@@ -287,7 +289,10 @@ int compare(const std::vector<std::string>& args) {
         "order", po::value<std::string>()->default_value("timetable"),
         "route-setting order at conflicts: timetable or first-come")(
         "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]")(
-        "json", "print one JSON document instead of tables");
+        "json", "print one JSON document instead of tables")(
+        "out", po::value<std::string>(),
+        "also write the results to this HDF5 file (kind comparison: each variant's study figures and "
+        "the paired differences)");
     add_punctuality_option(options);
     po::variables_map vm;
     if (!parse_command_line("compare", args, options, vm)) return 0;
@@ -337,6 +342,19 @@ int compare(const std::vector<std::string>& args) {
         std::fprintf(stderr, "knockon compare: note: %s has no `delays:` section, so every day is the same\n",
                      file.c_str());
 
+    // --out: created now under a temporary name, so a bad path fails before the studies run; it
+    // appears at its path only once complete.
+    std::unique_ptr<ComparisonHdf5Writer> out;
+    if (vm.count("out")) {
+        Hdf5RunInfo info;
+        info.scenario_file = file;
+        info.scenario_name = runs.front()->scenario.name;
+        info.command_line = command_line_without_threads(command_line);
+        info.seed = seed;
+        info.step = opt.sim.run.step;
+        out = std::make_unique<ComparisonHdf5Writer>(vm["out"].as<std::string>(), info);
+    }
+
     const bool tty = ::isatty(2);
     for (std::size_t v = 0; v < runs.size(); ++v) {
         VariantRun& r = *runs[v];
@@ -353,9 +371,9 @@ int compare(const std::vector<std::string>& args) {
                          planned, el > 0 ? done / el : 0.0);
             if (done == planned) std::fprintf(stderr, "\n");
         };
-        SimModel model(r.scenario.infrastructure, r.plan.trains);
-        r.study = run_study(model, o);
-        r.summary = summarize_study(model, r.study, o.thresholds);
+        r.model = std::make_unique<SimModel>(r.scenario.infrastructure, r.plan.trains);
+        r.study = run_study(*r.model, o);
+        r.summary = summarize_study(*r.model, r.study, o.thresholds);
     }
 
     std::vector<const VariantRun*> flat;
@@ -363,6 +381,13 @@ int compare(const std::vector<std::string>& args) {
     std::vector<StudyComparison> cmp;
     for (std::size_t v = 1; v < flat.size(); ++v)
         cmp.push_back(compare_studies(flat.front()->study, flat[v]->study, opt.thresholds));
+
+    if (out) {
+        std::vector<ComparedVariant> compared;
+        for (const VariantRun* r : flat)
+            compared.push_back({r->name, r->description, r->model.get(), &r->study, &r->summary, r->figures});
+        out->finish(compared, cmp, opt.thresholds);
+    }
 
     if (vm.count("json"))
         std::printf("%s\n",

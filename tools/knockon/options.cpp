@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <charconv>
 #include <iostream>
+#include <sstream>
 
 namespace knockon::cli {
 
@@ -45,22 +46,47 @@ std::vector<double> punctuality_thresholds(const po::variables_map& vm) {
     return out;
 }
 
+std::string command_line_without_threads(const std::string& command_line) {
+    std::istringstream in(command_line);
+    std::string out, token;
+    bool skip_value = false;
+    while (in >> token) {
+        if (skip_value) {
+            skip_value = false;
+            continue;
+        }
+        const std::string name = token.substr(0, token.find('='));
+        if (name.size() >= 4 && std::string("--threads").compare(0, name.size(), name) == 0) {
+            skip_value = name.size() == token.size();
+            continue;
+        }
+        out += (out.empty() ? "" : " ") + token;
+    }
+    return out;
+}
+
 bool parse_command_line(const std::string& command, const std::vector<std::string>& args,
-                        po::options_description& options, po::variables_map& vm) {
-    options.add_options()("help,h", "show this help")("scenario", po::value<std::string>(), "scenario file (YAML)");
+                        po::options_description& options, po::variables_map& vm, const std::string& positional,
+                        const std::string& usage_name) {
+    options.add_options()("help,h", "show this help");
+    // The positional input is not listed in the help's options (it is in the usage line).
+    po::options_description hidden;
+    hidden.add_options()(positional.c_str(), po::value<std::string>(), "input file");
+    po::options_description all;
+    all.add(options).add(hidden);
     po::positional_options_description pos;
-    pos.add("scenario", 1);
+    pos.add(positional.c_str(), 1);
     try {
-        po::store(po::command_line_parser(args).options(options).positional(pos).run(), vm);
+        po::store(po::command_line_parser(args).options(all).positional(pos).run(), vm);
         po::notify(vm);
     } catch (const po::error& e) {
         throw UsageError(e.what());
     }
     if (vm.count("help")) {
-        std::cout << "usage: knockon " << command << " SCENARIO [options]\n" << options;
+        std::cout << "usage: knockon " << command << " " << usage_name << " [options]\n" << options;
         return false;
     }
-    if (!vm.count("scenario")) throw UsageError("a SCENARIO file is required");
+    if (!vm.count(positional)) throw UsageError("a " + usage_name + " file is required");
     return true;
 }
 

@@ -23,7 +23,14 @@ std::uint64_t count_option(const po::variables_map& vm, const char* name, std::u
 void add_punctuality_option(po::options_description& options);
 std::vector<double> punctuality_thresholds(const po::variables_map& vm);
 
+// The command line as a results file stores it: without --threads (or an abbreviation such as
+// --thr, with its value), which changes neither the results nor, so, the file's bytes.
+std::string command_line_without_threads(const std::string& command_line);
+
+// The positional argument is stored under `positional` ("scenario" unless a command takes other
+// inputs too) and shown as `usage_name` in the help.
 bool parse_command_line(const std::string& command, const std::vector<std::string>& args,
-                        po::options_description& options, po::variables_map& vm);
+                        po::options_description& options, po::variables_map& vm,
+                        const std::string& positional = "scenario", const std::string& usage_name = "SCENARIO");
 
 }  // namespace knockon::cli

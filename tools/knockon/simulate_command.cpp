@@ -97,25 +97,9 @@ extern "C" void on_interrupt(int) {
     g_stop.store(true);
 }
 
-// The command line as a study file stores it: without --threads (or an abbreviation such as --thr,
-// with its value), which changes neither the results nor, so, the file's bytes.
-std::string without_threads(const std::string& command_line) {
-    std::istringstream in(command_line);
-    std::string out, token;
-    bool skip_value = false;
-    while (in >> token) {
-        if (skip_value) {
-            skip_value = false;
-            continue;
-        }
-        const std::string name = token.substr(0, token.find('='));
-        if (name.size() >= 4 && std::string("--threads").compare(0, name.size(), name) == 0) {
-            skip_value = name.size() == token.size();
-            continue;
-        }
-        out += (out.empty() ? "" : " ") + token;
-    }
-    return out;
+// The variant a results file records: "base" for the scenario as written.
+std::string variant_name(const po::variables_map& vm) {
+    return vm.count("variant") ? vm["variant"].as<std::string>() : std::string("base");
 }
 
 int run_study_command(const po::variables_map& vm, const Scenario& scenario, const std::vector<TrainPlan>& plan,
@@ -169,8 +153,10 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
         Hdf5RunInfo h5info;
         h5info.scenario_file = scenario.source_file;
         h5info.scenario_name = scenario.name;
-        h5info.command_line = without_threads(command_line);
+        h5info.command_line = command_line_without_threads(command_line);
         h5info.seed = seed;
+        h5info.variant = variant_name(vm);
+        h5info.step = so.run.step;
         out = std::make_unique<StudyHdf5Writer>(vm["out"].as<std::string>(), h5info, traces);
         if (traces.mode != TraceSelection::Mode::none) {
             opt.trace = [traces, planned = opt.replications](std::uint32_t k) { return traces.traced(k, planned); };
@@ -248,6 +234,8 @@ int simulate(const std::vector<std::string>& args) {
         info.scenario_name = scenario.name;
         info.command_line = command_line;
         info.program_version = KNOCKON_VERSION;
+        info.variant = variant_name(vm);
+        info.step = so.run.step;
         write_sim_hdf5(vm["out"].as<std::string>(), result, info);
     }
 

@@ -1,0 +1,46 @@
+#pragma once
+// Shared by the tests of results files, reports and plots (test_comparison_hdf5.cpp,
+// test_results_report.cpp): the study fixture of tests/data/study/delayed_line.yaml (16 stopping
+// trains with drawn primary delays, so that days differ) and a copy of it with a variant, and the
+// counting of elements by CSS class.
+#include <regex>
+#include <sstream>
+#include <string>
+
+#include "cli_support.hpp"
+
+namespace resultstest {
+
+using namespace clitest;
+
+inline const std::string kDelayedLine = kSource + "/tests/data/study/delayed_line.yaml";
+
+// delayed_line.yaml with the variant `slow_release` (sections released 20 s after the tail clears
+// them instead of 3 s: longer blocking times, so more knock-on), written into `dir`.
+inline fs::path write_variant_fixture(const TempDir& dir) {
+    const fs::path path = dir.path / "delayed_variants.yaml";
+    std::ofstream out(path);
+    out << read_text(kDelayedLine)
+        << "\nvariants:\n"
+           "  slow_release:\n"
+           "    description: sections released 20 s after the tail clears them\n"
+           "    infrastructure: {signalling: {interlocking: {release: 20 s}}}\n";
+    return path;
+}
+
+// clitest::knockon under a name that does not clash with namespace knockon.
+inline Result run_knockon(const std::string& args, const TempDir& dir) { return clitest::knockon(args, dir); }
+
+// Elements whose class attribute holds `cls` as one whole token.
+inline std::size_t count_class(const std::string& markup, const std::string& cls) {
+    static const std::regex attr(R"rx(class="([^"]*)")rx");
+    std::size_t n = 0;
+    for (auto it = std::sregex_iterator(markup.begin(), markup.end(), attr); it != std::sregex_iterator(); ++it) {
+        std::istringstream tokens((*it)[1].str());
+        std::string t;
+        while (tokens >> t) n += t == cls;
+    }
+    return n;
+}
+
+}  // namespace resultstest

@@ -1,0 +1,83 @@
+#pragma once
+// knockon's HDF5 results files read back (layout: tools/io/HDF5_LAYOUT.md) for the report and the
+// charts: a simulated day (kind "day"), a Monte Carlo study ("study") or a comparison of variants
+// ("comparison").  Figures come back in the types that produced them (SimResult for a day,
+// StudySummary and ReplicationStats for a study's figures, DifferenceRow for a comparison), so the
+// report reads a file exactly as the run's own output would have shown it.
+//
+// Every problem (missing file, not HDF5, another kind of file, a missing table or field, an index
+// out of range, a newer schema) throws ResultsFileError naming the file, the object and what is
+// wrong.
+#include <cstdint>
+#include <optional>
+#include <stdexcept>
+#include <string>
+#include <vector>
+
+#include "sim/comparison.hpp"
+#include "sim/sim_result.hpp"
+#include "sim/study.hpp"
+#include "tools/io/comparison_hdf5.hpp"
+
+namespace knockon {
+
+struct ResultsFileError : std::runtime_error {
+    using std::runtime_error::runtime_error;
+};
+
+enum class ResultsKind { day, study, comparison };
+std::string to_string(ResultsKind kind);
+
+// The root attributes.
+struct ResultsFacts {
+    ResultsKind kind = ResultsKind::day;
+    int schema_version = 0;
+    std::string program_version, scenario_file, scenario_name, command_line, caution;
+    std::string variant;          // "base" or a variant's name; empty when the file does not say
+                                  // (schema 2 and older, comparison files)
+    double step = 0.0;            // [m]; NaN when the file does not say (schema 2 and older)
+    std::uint64_t seed = 0;
+    std::uint32_t replications = 0;   // study and comparison files
+    bool partial = false;             // study files
+};
+
+// One consecutive pair of /study/buffers with its names resolved (summary.buffers[i].pair = i).
+struct BufferPairNames {
+    std::string leader, follower, line_section, section;
+};
+
+// The figures of one study: /study of a study file, /variants/<name> of a comparison file.
+// summary.timing_points[i].train and summary.trains[i].train index train_ids; the per-day records
+// hold the scalar figures only (replication, deadlocked, events, block_passages, totals, mean
+// arrival delay and punctuality shares).
+struct StudyFigures {
+    StudySummary summary;
+    std::vector<ReplicationStats> per_day;
+    std::vector<std::string> train_ids, section_ids;
+    std::vector<BufferPairNames> buffer_pairs;   // parallel to summary.buffers
+    bool partial = false;
+};
+
+struct VariantFigures {
+    std::string name, description;
+    PlanFigures plan;
+    StudyFigures study;
+};
+
+struct ResultsFile {
+    std::string path;
+    ResultsFacts facts;
+    std::optional<SimResult> day;              // kind day: /day (routes are not read)
+    std::optional<StudyFigures> study;         // kind study
+    std::string traces;                        // kind study: the --traces choice ("none", ...)
+    std::vector<std::uint32_t> traced;         // kind study: replications under /replications, ascending
+    std::vector<VariantFigures> variants;      // kind comparison: the reference first
+    std::vector<DifferenceRow> differences;    // kind comparison
+};
+
+ResultsFile read_results(const std::string& path);
+
+// A traced day of a study file, /replications/<k> (routes are not read).
+SimResult read_traced_day(const std::string& path, std::uint32_t replication);
+
+}  // namespace knockon
