@@ -64,9 +64,22 @@ std::uint8_t phase_of(Kind k) {
 
 bool is_motion(Kind k) { return k >= kEnter && k <= kBrakePoint; }
 
+// Integrated motions keep their buffers from one simulated day to the next on the same thread:
+// growing thousands of fresh vectors a day cost more than the integration in them.
+std::vector<Trajectory>& spare_trajectories() {
+    thread_local std::vector<Trajectory> spare;
+    return spare;
+}
+
 class Day {
 public:
     Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& options);
+    ~Day() {
+        std::vector<Trajectory>& spare = spare_trajectories();
+        for (TrainState& s : st_) spare.push_back(std::move(s.own));
+    }
+    Day(const Day&) = delete;
+    Day& operator=(const Day&) = delete;
     SimResult run();
 
 private:
@@ -226,6 +239,12 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
       generations_(2 * model.trains().size()) {
     const auto& trains = model.trains();
     st_.resize(trains.size());
+    std::vector<Trajectory>& spare = spare_trajectories();
+    for (TrainState& s : st_) {
+        if (spare.empty()) break;
+        s.own = std::move(spare.back());
+        spare.pop_back();
+    }
     out_.section_names = model.section_names();
     std::size_t calls = 0, sections = 0, routes = 0;
     for (const SimModel::Train& tr : trains) {
@@ -678,10 +697,10 @@ void Day::try_appear(std::uint32_t t) {
         if (!start_leg(t, 0.0)) {
             s.leg = -1;
             s.join_leg = -1;
-            s.own = Trajectory{};
-            s.own.s0 = s.own.s_end = 0.0;
-            s.own.v = {run.entry_speed};
-            s.own.t = {0.0};
+            s.own.s0 = s.own.s_end = s.own.origin = 0.0;
+            s.own.base = 0;
+            s.own.v.assign(1, run.entry_speed);   // keeps the buffers
+            s.own.t.assign(1, 0.0);
             s.free_end = false;
         }
         check_authority(t);
@@ -858,6 +877,11 @@ void Day::handle(const Event& e) {
     const std::uint32_t t = e.entity / 2;
     TrainState& s = st_[t];
     const TrainPath& path = run_of(t).path;
+    // A point event is for the next point of its kind only: a handler that recomputes the
+    // motion schedules the next point itself, and the copy it may leave behind must not count
+    // as passing a further point (a skipped signal would never be read: the train would wait
+    // at it for good).
+    auto stale_point = [&](std::size_t next) { return e.payload != next; };
     switch (static_cast<Kind>(e.kind)) {
         case kAppear:
             s.appear_due = true;
@@ -896,6 +920,7 @@ void Day::handle(const Event& e) {
             break;
         case kVanish: vanish(t); break;
         case kEnter: {
+            if (stale_point(s.next_enter)) break;
             long r = record_for(t, e.payload);
             if (!s.holds[e.payload]) {
                 // Unprotected stretch (no route covers it): occupied as the head enters.
@@ -908,11 +933,13 @@ void Day::handle(const Event& e) {
             break;
         }
         case kLeave:
+            if (stale_point(s.next_leave)) break;
             if (s.section_record[e.payload] >= 0) out_.sections[s.section_record[e.payload]].head_leaves = now_;
             ++s.next_leave;
             schedule_point(t, kLeave);
             break;
         case kClear: {
+            if (stale_point(s.next_clear)) break;
             const std::size_t k = e.payload;
             if (s.section_record[k] >= 0) out_.sections[s.section_record[k]].tail_clears = now_;
             if (s.holds[k]) push(now_ + times_.release, kRelease, t, static_cast<std::uint32_t>(k));
@@ -921,16 +948,19 @@ void Day::handle(const Event& e) {
             break;
         }
         case kSight:
+            if (stale_point(s.next_sight)) break;
             ++s.next_sight;
             check_authority(t);
             if (s.phase != Phase::finished) schedule_point(t, kSight);
             break;
         case kPass:
+            if (stale_point(s.next_pass)) break;
             ++s.next_pass;
             ++out_.block_passages;
             schedule_point(t, kPass);
             break;
         case kCall:
+            if (stale_point(s.next_call)) break;
             record_call(t, e.payload, now_, kNoTime);
             out_.timing[timing_index_[t][e.payload]].departure = now_;
             out_.timing[timing_index_[t][e.payload]].departure_delay =

@@ -213,6 +213,17 @@ TEST_CASE("demo: four-aspect signalling gives no more knock-on than three-aspect
     CHECK(c.total_knock_on.difference.mean <= c.total_knock_on.difference.half_width);
 }
 
+TEST_CASE("demo: no simulated day ends in deadlock", "[compare][demo][sim]") {
+    // A double-track line with an overtaking loop and timetable-order route setting cannot lock
+    // up (common practice, no source): every train can always run on to the line end or its
+    // terminus.  A deadlock here is an engine fault; days 1 and 3 of seed 1 once locked up when
+    // a duplicated sighting event skipped a signal, and the train waited at it for good.
+    const Run base = prepare(read_scenario(kDemo));
+    const StudyResult a = study(base, 1, 12);
+    REQUIRE(a.replications.size() == 12);
+    for (const ReplicationStats& d : a.replications) CHECK(!d.deadlocked);
+}
+
 TEST_CASE("knockon compare on the demo: text, JSON and bad input", "[compare][cli]") {
     const Result text = run_knockon("compare '" + kDemo + "' --variants base,four_aspect --replications 10");
     CHECK(text.status == 0);
