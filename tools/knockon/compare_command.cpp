@@ -22,6 +22,7 @@
 #include "tools/io/comparison_hdf5.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
+#include "tools/knockon/interrupt.hpp"
 #include "tools/knockon/options.hpp"
 
 namespace knockon::cli {
@@ -36,6 +37,7 @@ struct VariantRun {
     std::unique_ptr<SimModel> model;   // the study's model, kept for the results file
     StudyResult study;
     StudySummary summary;
+    bool finished = false;   // its study ran to the end (not stopped by Ctrl-C)
 };
 
 std::vector<std::string> split_names(const std::string& list) {
@@ -355,9 +357,19 @@ int compare(const std::vector<std::string>& args) {
         out = std::make_unique<ComparisonHdf5Writer>(vm["out"].as<std::string>(), info);
     }
 
+    // Ctrl-C stops the running study after its batch; a comparison pairs whole studies, so only
+    // the variants that finished are compared (and no file is written: it would not be the one
+    // asked for).
+    const InterruptGuard interrupt;
+    opt.stop = interrupt.stop_flag();
+    std::vector<std::string> not_compared;
     const bool tty = ::isatty(2);
     for (std::size_t v = 0; v < runs.size(); ++v) {
         VariantRun& r = *runs[v];
+        if (interrupt.interrupted()) {
+            not_compared.push_back(r.name + " (not run)");
+            continue;
+        }
         StudyOptions o = opt;
         // The same seed for every variant: replication k draws the same primary delays everywhere.
         o.draw = [&r, seed](std::uint32_t k) {
@@ -373,11 +385,29 @@ int compare(const std::vector<std::string>& args) {
         };
         r.model = std::make_unique<SimModel>(r.scenario.infrastructure, r.plan.trains);
         r.study = run_study(*r.model, o);
+        if (r.study.partial) {
+            not_compared.push_back(r.name + " (stopped after " + std::to_string(r.study.replications.size()) +
+                                   " of " + std::to_string(o.replications) + " days)");
+            continue;
+        }
         r.summary = summarize_study(*r.model, r.study, o.thresholds);
+        r.finished = true;
     }
 
     std::vector<const VariantRun*> flat;
-    for (const auto& r : runs) flat.push_back(r.get());
+    for (const auto& r : runs)
+        if (r->finished) flat.push_back(r.get());
+    if (!not_compared.empty()) {
+        std::string list;
+        for (const std::string& n : not_compared) list += (list.empty() ? "" : ", ") + n;
+        std::fprintf(stderr, "knockon compare: stopped by Ctrl-C; not compared: %s%s\n", list.c_str(),
+                     out ? "; no results file written" : "");
+        out.reset();   // removes its temporary file
+        if (flat.size() < 2) {
+            std::fprintf(stderr, "knockon compare: fewer than two variants finished: nothing to compare\n");
+            return kInterruptedStatus;
+        }
+    }
     std::vector<StudyComparison> cmp;
     for (std::size_t v = 1; v < flat.size(); ++v)
         cmp.push_back(compare_studies(flat.front()->study, flat[v]->study, opt.thresholds));
@@ -389,12 +419,20 @@ int compare(const std::vector<std::string>& args) {
         out->finish(compared, cmp, opt.thresholds);
     }
 
-    if (vm.count("json"))
-        std::printf("%s\n",
-                    compare_json(flat, cmp, seed, opt.threads, opt.thresholds, command_line).dump(1).c_str());
-    else
+    if (vm.count("json")) {
+        nlohmann::json j = compare_json(flat, cmp, seed, opt.threads, opt.thresholds, command_line);
+        j["partial"] = !not_compared.empty();
+        j["not_compared"] = not_compared;
+        std::printf("%s\n", j.dump(1).c_str());
+    } else {
+        if (!not_compared.empty()) {
+            std::string list;
+            for (const std::string& n : not_compared) list += "\n  " + n;
+            std::printf("PARTIAL: stopped by Ctrl-C; not compared:%s\n\n", list.c_str());
+        }
         std::fputs(compare_text(flat, cmp, seed, opt.threads, opt.thresholds).c_str(), stdout);
-    return 0;
+    }
+    return not_compared.empty() ? 0 : kInterruptedStatus;
 }
 
 }  // namespace knockon::cli

@@ -1,6 +1,5 @@
 #include <atomic>
 #include <chrono>
-#include <csignal>
 #include <cstdio>
 #include <memory>
 #include <sstream>
@@ -19,6 +18,7 @@
 #include "tools/io/sim_hdf5.hpp"
 #include "tools/io/study_hdf5.hpp"
 #include "tools/knockon/delay_option.hpp"
+#include "tools/knockon/interrupt.hpp"
 #include "tools/knockon/options.hpp"
 #include "tools/knockon/study_output.hpp"
 
@@ -90,13 +90,6 @@ nlohmann::json summary_json(const Scenario& sc, const SimResult& r, const DaySum
     return j;
 }
 
-volatile std::sig_atomic_t g_interrupted = 0;
-std::atomic<bool> g_stop{false};
-extern "C" void on_interrupt(int) {
-    g_interrupted = 1;
-    g_stop.store(true);
-}
-
 // The variant a results file records: "base" for the scenario as written.
 std::string variant_name(const po::variables_map& vm) {
     return vm.count("variant") ? vm["variant"].as<std::string>() : std::string("base");
@@ -138,12 +131,8 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
         std::fprintf(stderr, "\r%u/%u days  %.1f/s  ETA %.0f s   ", done, planned, rate, eta);
         if (done == planned) std::fprintf(stderr, "\n");
     };
-    opt.stop = &g_stop;
-    auto previous = std::signal(SIGINT, on_interrupt);
-    struct RestoreSigint {
-        void (*handler)(int);
-        ~RestoreSigint() { std::signal(SIGINT, handler); }
-    } restore{previous};   // after the file is done: Ctrl-C until then still ends with a whole file
+    const InterruptGuard interrupt;   // lives until the file is done: it still ends whole
+    opt.stop = interrupt.stop_flag();
 
     // --out: the file is open under a temporary name while the days run, the traced ones are written
     // as they are handed over (in replication order, on this thread), /study at the end; it appears
@@ -173,7 +162,7 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
         std::printf("%s\n", study_json(scenario, model, study, summary, info).dump(1).c_str());
     else
         std::fputs(study_text(scenario, model, study, summary, info).c_str(), stdout);
-    return g_interrupted ? 130 : 0;
+    return interrupt.interrupted() ? kInterruptedStatus : 0;
 }
 
 }  // namespace
