@@ -137,3 +137,16 @@ TEST_CASE("the HTML page escapes what the scenario says", "[svg][report]") {
     CHECK(tab.find("<tr class=\"warn\"><td>T&lt;1&gt;</td><td class=\"num\">-12 s</td></tr>") != std::string::npos);
     CHECK(tab.find("<tr><td>T2</td>") != std::string::npos);
 }
+
+TEST_CASE("a child added through an earlier reference lands in its group", "[svg]") {
+    // Charts keep a reference to a layer (e.g. the axis) and add to it after later layers: the
+    // reference must survive the siblings added in between.
+    svg::Element doc = svg::document(100, 100, "layers");
+    svg::Element& axis = doc.add(svg::group("axis"));
+    for (int i = 0; i < 100; ++i) doc.add(svg::group("layer"));
+    axis.add(svg::line(0, 0, 1, 1, "baseline"));
+    const std::string s = svg::to_string(doc, false);
+    CHECK(s.find("<g class=\"axis\">\n<line x1=\"0\" y1=\"0\" x2=\"1\" y2=\"1\" class=\"baseline\"/>\n</g>") !=
+          std::string::npos);
+    CHECK(svg::to_string(svg::path("M0,0 L1,1", "ci-whisker"), false) == "<path d=\"M0,0 L1,1\" class=\"ci-whisker\"/>\n");
+}

@@ -56,12 +56,8 @@ std::string km_text(double metres) { return svg::number(metres / 1000.0, 1) + " 
 
 const std::string& train_id(const PlanResult& plan, std::size_t i) { return plan.trains[i].run.service->id; }
 
-std::string paragraph(const std::string& text) { return "<p>" + html_escape(text) + "</p>\n"; }
-
-std::string figure(const svg::Element& chart, const std::string& caption) {
-    return "<figure>\n" + svg::to_string(chart, false) + "<figcaption>" + html_escape(caption) +
-           "</figcaption>\n</figure>\n";
-}
+std::string paragraph(const std::string& text) { return html_paragraph(text); }
+std::string figure(const svg::Element& chart, const std::string& caption) { return html_figure(chart, caption); }
 
 ReportSection time_distance_section(const Scenario& scenario, const PlanResult& plan,
                                     const PlanReportOptions& options) {
@@ -77,7 +73,8 @@ ReportSection time_distance_section(const Scenario& scenario, const PlanResult& 
         "set-up to release, over the detection sections from the entry signal to the end of the overlap "
         "beyond the exit signal. Hatched blocks with a black outline are conflicts: two trains' blocking "
         "times overlap on a section.");
-    html += figure(time_distance_chart(scenario.infrastructure, plan, w, chart),
+    if (!options.as_run_note.empty()) html += paragraph(options.as_run_note);
+    html += figure(time_distance_chart(scenario.infrastructure, plan, w, chart, options.as_run),
                    "Distance runs downwards along the line (chainage in km on the right, stations on the left, "
                    "main signals as ticks); time runs to the right. Pointing at a path, block or conflict "
                    "shows its details.");
@@ -169,6 +166,13 @@ ReportSection conflicts_section(const PlanResult& plan) {
 }  // namespace
 
 std::string html_escape(const std::string& text) { return svg::escape(text); }
+
+std::string html_paragraph(const std::string& text) { return "<p>" + html_escape(text) + "</p>\n"; }
+
+std::string html_figure(const svg::Element& chart, const std::string& caption) {
+    return "<figure>\n" + svg::to_string(chart, false) + "<figcaption>" + html_escape(caption) +
+           "</figcaption>\n</figure>\n";
+}
 
 std::string html_table(const HtmlTable& table) {
     auto numeric = [&](std::size_t i) { return i < table.numeric.size() && table.numeric[i]; };

@@ -35,6 +35,8 @@ struct PlanReportOptions {
     TimeWindow window;          // of the time-distance diagram
     std::string window_reason;  // why this window, e.g. "the busiest clock hour (14 departures and passes)"
     std::string command_line;   // as the user typed it, for the record
+    const AsRunOverlay* as_run = nullptr;   // a simulated day to draw over the plan
+    std::string as_run_note;    // said with the diagram: which day is drawn and why, or why none is
 };
 
 // Head and sections of the timetable analysis: time-distance diagram, capacity chart and
@@ -43,6 +45,9 @@ Report plan_report(const Scenario& scenario, const PlanResult& plan, const PlanR
 
 // Building blocks for report sections.
 std::string html_escape(const std::string& text);
+std::string html_paragraph(const std::string& text);   // <p> of plain text
+// A chart with its caption (plain text).
+std::string html_figure(const svg::Element& chart, const std::string& caption);
 // A table; cells are plain text (escaped here).  `numeric` marks right-aligned columns;
 // `highlight` rows get the "warn" class (shown bold with a marker, also in greyscale).
 struct HtmlTable {

@@ -16,17 +16,7 @@ using svg::Point;
 namespace {
 
 constexpr double kHour = 3600.0;
-constexpr std::size_t kCategoryStyles = 5;   // cat-0 .. cat-4 in chart_css(), then repeated
 constexpr std::size_t kMaxTrainLabels = 40;  // more trains than this in a window: tooltips only
-
-// Rough width of a text in the charts' sans-serif font, for laying out legends and labels.
-double text_width(const std::string& s, double font_px) { return 0.58 * font_px * static_cast<double>(s.size()); }
-
-std::string category_class(const std::vector<std::string>& categories, const std::string& category) {
-    auto it = std::find(categories.begin(), categories.end(), category);
-    const std::size_t k = it == categories.end() ? 0 : static_cast<std::size_t>(it - categories.begin());
-    return "cat-" + std::to_string(k % kCategoryStyles);
-}
 
 std::string km(double metres, int decimals = 3) { return svg::number(metres / 1000.0, decimals); }
 
@@ -56,31 +46,40 @@ std::vector<Point> clip_in_time(const std::vector<Point>& pts, double from, doub
     return out;
 }
 
-// Lays out legend items left to right, wrapping into rows; returns the height used.
-struct LegendItem {
-    Element sample;          // drawn in a 26 x 12 box whose top-left is (0, 0)
-    std::string label;
-};
-double draw_legend(Element& parent, std::vector<LegendItem> items, double x0, double y0, double width) {
-    Element& g = parent.add(svg::group("legend"));
-    const double row_h = 20.0, box_w = 26.0, gap = 18.0, font = 11.0;
-    double x = x0, y = y0;
-    for (LegendItem& item : items) {
-        const double w = box_w + 6.0 + text_width(item.label, font);
-        if (x > x0 && x + w > x0 + width) {
-            x = x0;
-            y += row_h;
-        }
-        Element& cell = g.add(svg::group());
-        cell.attr("transform", "translate(" + svg::number(x) + "," + svg::number(y) + ")");
-        cell.add(std::move(item.sample));
-        cell.add(svg::text(box_w + 6.0, 10.0, item.label, "legend-label"));
-        x += w + gap;
-    }
-    return y - y0 + row_h;
+// Keeps a point where time has moved on by at least `step` since the last one kept (and the
+// last point), so that a densely sampled trajectory costs about one point per pixel column.
+std::vector<Point> thin_in_time(const std::vector<Point>& pts, double step) {
+    std::vector<Point> out;
+    for (std::size_t i = 0; i < pts.size(); ++i)
+        if (out.empty() || i + 1 == pts.size() || pts[i].x - out.back().x >= step) out.push_back(pts[i]);
+    return out;
 }
 
-Element sample_line(const std::string& cls) { return svg::line(1, 6, 25, 6, cls); }
+// The as-run paths over the plan (each with a white halo so it stands out from the planned
+// paths and blocks beneath) and the stands at signals.
+void draw_as_run(Element& doc, const AsRunOverlay& as_run, const PlanResult& plan,
+                 const std::vector<std::string>& categories, TimeWindow window, const svg::LinearScale& X,
+                 const svg::LinearScale& Y, double step) {
+    Element& g = doc.add(svg::group("as-run"));
+    for (const AsRunPath& p : as_run.paths) {
+        if (p.train >= plan.trains.size()) continue;
+        std::vector<Point> pts = thin_in_time(clip_in_time(p.points, window.from, window.to), step);
+        if (pts.size() < 2) continue;
+        for (Point& q : pts) q = {X(q.x), Y(q.y)};
+        const ServiceRun& run = plan.trains[p.train].run;
+        g.add(svg::polyline(pts, "asrun-halo"));
+        g.add(svg::polyline(pts, "asrun-path " + category_class(categories, run.service->category)))
+            .tooltip(run.service->id + " as run (" + as_run.label + ")");
+    }
+    for (const AsRunHold& h : as_run.holds) {
+        const double t0 = std::max(h.from, window.from), t1 = std::min(h.to, window.to);
+        if (!(t1 > t0) || h.train >= plan.trains.size()) continue;
+        g.add(svg::line(X(t0), Y(h.chainage), std::max(X(t1), X(t0) + 1.5), Y(h.chainage), "asrun-hold"))
+            .tooltip(plan.trains[h.train].run.service->id + " stood at signal " + h.signal + " " +
+                     format_time_of_day(h.from) + "-" + format_time_of_day(h.to) + " (" +
+                     svg::number(h.to - h.from, 0) + " s)");
+    }
+}
 
 }  // namespace
 
@@ -190,7 +189,7 @@ ChainageSpan route_span(const TrainPlan& train, const RouteBlocking& route) {
 }
 
 Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan, TimeWindow window,
-                            const ChartOptions& options) {
+                            const ChartOptions& options, const AsRunOverlay* as_run) {
     const double W = options.width;
     const double left = 190.0, right = 70.0;
     const double top = options.title.empty() ? 16.0 : 46.0;
@@ -203,9 +202,12 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
 
     // The legend's height decides the drawing's height, so lay it out first.
     std::vector<LegendItem> legend;
-    for (std::size_t k = 0; k < categories.size(); ++k) {
-        const std::string cls = "cat-" + std::to_string(k % kCategoryStyles);
-        legend.push_back({sample_line("legend-line " + cls), "train path: " + categories[k]});
+    for (std::size_t k = 0; k < categories.size(); ++k)
+        legend.push_back({sample_line("legend-line " + category_style(k) + (as_run ? " dimmed" : "")),
+                          (as_run ? "planned path: " : "train path: ") + categories[k]});
+    if (as_run) {
+        legend.push_back({sample_line("legend-asrun cat-0"), as_run->label + " (solid, bold, in the train's colour)"});
+        legend.push_back({svg::line(4, 6, 22, 6, "legend-hold"), "standing at a signal showing stop"});
     }
     {
         Element block = svg::group();
@@ -218,15 +220,12 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
         sig.add(svg::line(15, 6, 22, 6, "legend-signal sig-down"));
         legend.push_back({std::move(sig), "main signal: left column up, right column down direction"});
     }
-    Element scratch("g");
-    const double legend_h = draw_legend(scratch, legend, left, 0.0, plot_w);
+    const double legend_h = legend_height(legend, plot_w);
     const double axis_bottom = top + plot_h;
     const double legend_y = axis_bottom + 52.0;
     const double H = legend_y + legend_h + (options.footnote.empty() ? 6.0 : 24.0);
 
-    Element doc = svg::document(W, H, options.title.empty() ? "time-distance diagram" : options.title);
-    doc.css_class("knockon-chart time-distance");
-    doc.add(svg::style(chart_css()));
+    Element doc = chart_document(W, H, "time-distance", options, "time-distance diagram", left);
     {
         Element& defs = doc.add(Element("defs"));
         Element& pat = defs.add(Element("pattern"));
@@ -235,8 +234,6 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
         pat.add(svg::rect(0, 0, 6, 6)).attr("fill", "#ffffff").attr("fill-opacity", "0.55");
         pat.add(svg::line(0, 0, 0, 6)).attr("stroke", "#000000").attr("stroke-width", 2.2);
     }
-    doc.add(svg::rect(0, 0, W, H, "background"));
-    if (!options.title.empty()) doc.add(svg::text(left, 26, options.title, "title"));
 
     // Grid: whole-clock time ticks and the stations.
     Element& grid = doc.add(svg::group("grid-layer"));
@@ -322,10 +319,12 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
         if (pts.empty()) continue;
         for (Point& p : pts) p = {X(p.x), Y(p.y)};
         const ServiceRun& r = tp.run;
-        paths.add(svg::polyline(pts, "train-path " + category_class(categories, r.service->category)))
+        paths.add(svg::polyline(pts, "train-path " + category_class(categories, r.service->category) +
+                                         (as_run ? " dimmed" : "")))
             .tooltip(r.service->id + " (" + r.service->category + ", " + r.type->id + ", " + to_string(r.path.direction) + ")");
         labels.push_back({&tp, pts.front()});
     }
+    if (as_run) draw_as_run(doc, *as_run, plan, categories, window, X, Y, step);
     if (labels.size() <= kMaxTrainLabels) {
         Element& g = doc.add(svg::group("train-labels"));
         for (const auto& [tp, p] : labels) {
@@ -344,7 +343,7 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
 
     doc.add(svg::rect(left, top, plot_w, plot_h, "frame"));
     draw_legend(doc, std::move(legend), left, legend_y, plot_w);
-    if (!options.footnote.empty()) doc.add(svg::text(left, H - 8, options.footnote, "footnote"));
+    draw_footnote(doc, options, left, H);
     return doc;
 }
 
@@ -395,16 +394,11 @@ Element capacity_chart(const PlanResult& plan, const ChartOptions& options) {
         legend.push_back({std::move(lim), "UIC 406 recommended limit for the window (as recalled)"});
     }
     legend.push_back({svg::text(13, 10, "88 %", "bar-value over", "middle"), "bold value: above the limit"});
-    Element scratch("g");
     const double legend_y = axis_bottom + label_h + 30.0;
-    const double legend_h = draw_legend(scratch, legend, left, 0.0, plot_w);
+    const double legend_h = legend_height(legend, plot_w);
     const double H = legend_y + legend_h + (options.footnote.empty() ? 6.0 : 24.0);
 
-    Element doc = svg::document(W, H, options.title.empty() ? "capacity consumption" : options.title);
-    doc.css_class("knockon-chart capacity");
-    doc.add(svg::style(chart_css()));
-    doc.add(svg::rect(0, 0, W, H, "background"));
-    if (!options.title.empty()) doc.add(svg::text(left, 28, options.title, "title"));
+    Element doc = chart_document(W, H, "capacity", options, "capacity consumption", left);
 
     Element& axis = doc.add(svg::group("axis"));
     for (double v : svg::nice_ticks(0.0, ymax_pct, 5)) {
@@ -461,57 +455,8 @@ Element capacity_chart(const PlanResult& plan, const ChartOptions& options) {
     axis.add(svg::text(left + plot_w / 2, axis_bottom + label_h + 12, "line section and direction", "axis-label",
                        "middle"));
     draw_legend(doc, std::move(legend), left, legend_y, plot_w);
-    if (!options.footnote.empty()) doc.add(svg::text(left, H - 8, options.footnote, "footnote"));
+    draw_footnote(doc, options, left, H);
     return doc;
-}
-
-const std::string& chart_css() {
-    // Train categories differ in lightness and dash pattern as well as in hue, so they stay apart
-    // in greyscale print and for colour-blind readers; no red/green pair is used anywhere.
-    static const std::string css = R"(
-.knockon-chart { font-family: "DejaVu Sans", "Liberation Sans", Arial, Helvetica, sans-serif; font-size: 11px; }
-.knockon-chart text { fill: #1a1a1a; }
-.knockon-chart .background { fill: #ffffff; stroke: none; }
-.knockon-chart .title { font-size: 15px; font-weight: bold; }
-.knockon-chart .axis-label { font-size: 12px; fill: #333333; }
-.knockon-chart .axis-label.small { font-size: 10px; }
-.knockon-chart .tick-label { font-size: 10.5px; fill: #333333; }
-.knockon-chart .tick { stroke: #555555; stroke-width: 1; }
-.knockon-chart .grid { stroke: #dddddd; stroke-width: 0.7; }
-.knockon-chart .baseline { stroke: #444444; stroke-width: 1; }
-.knockon-chart .frame { fill: none; stroke: #555555; stroke-width: 1; }
-.knockon-chart .station-line, .knockon-chart .legend-station { stroke: #999999; stroke-width: 0.8; stroke-dasharray: 4 2; }
-.knockon-chart .station-label { font-size: 11px; font-weight: bold; }
-.knockon-chart .signal-tick, .knockon-chart .legend-signal { stroke: #444444; stroke-width: 1.2; }
-.knockon-chart .sig-down { stroke: #777777; }
-.knockon-chart polyline.train-path, .knockon-chart line.legend-line { fill: none; stroke-width: 1.8; stroke-linejoin: round; }
-.knockon-chart .block, .knockon-chart .legend-block { stroke-width: 0.5; fill-opacity: 0.2; stroke-opacity: 0.55; }
-.knockon-chart .cat-0 { stroke: #1b3b6f; fill: #1b3b6f; }
-.knockon-chart .cat-1 { stroke: #b8660b; fill: #b8660b; }
-.knockon-chart .cat-2 { stroke: #6c3f99; fill: #6c3f99; }
-.knockon-chart .cat-3 { stroke: #3f3f3f; fill: #3f3f3f; }
-.knockon-chart .cat-4 { stroke: #2f8fc4; fill: #2f8fc4; }
-.knockon-chart .train-path.cat-1, .knockon-chart .legend-line.cat-1 { stroke-dasharray: 7 3; }
-.knockon-chart .train-path.cat-2, .knockon-chart .legend-line.cat-2 { stroke-dasharray: 1.5 2.5; stroke-width: 2.4; stroke-linecap: round; }
-.knockon-chart .train-path.cat-3, .knockon-chart .legend-line.cat-3 { stroke-dasharray: 9 3 2 3; }
-.knockon-chart .train-path.cat-4, .knockon-chart .legend-line.cat-4 { stroke-dasharray: 12 4; stroke-width: 1.4; }
-.knockon-chart .conflict, .knockon-chart .legend-conflict { fill: url(#knockon-hatch); stroke: #000000; stroke-width: 1.6; }
-.knockon-chart .train-label { font-size: 9px; fill: #222222; }
-.knockon-chart .legend-label { font-size: 11px; }
-.knockon-chart .empty-note { font-size: 14px; fill: #555555; }
-.knockon-chart .footnote { font-size: 9.5px; fill: #444444; }
-.knockon-chart .cap-bar, .knockon-chart .legend-bar { stroke: #1a1a1a; stroke-width: 0.6; }
-.knockon-chart .win-peak { fill: #1b3b6f; }
-.knockon-chart .win-day { fill: #a9c1e0; }
-.knockon-chart .win-other { fill: #b8660b; }
-.knockon-chart .cap-limit, .knockon-chart .legend-limit { stroke: #000000; stroke-width: 2.4; }
-.knockon-chart .cap-limit-halo { stroke: #ffffff; stroke-width: 5.5; }
-.knockon-chart .bar-value { font-size: 10px; }
-.knockon-chart .bar-value.over { font-weight: bold; font-size: 11px; }
-.knockon-chart .group-label { font-size: 11px; }
-.knockon-chart .group-sub { font-size: 10px; fill: #555555; }
-)";
-    return css;
 }
 
 }  // namespace knockon

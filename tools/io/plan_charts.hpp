@@ -6,7 +6,8 @@
 // The charts style their elements by CSS class only (chart_css()), so they can be restyled and
 // their elements counted: "train-path" (one polyline per train drawn), "block" (one rectangle
 // per route of a train drawn), "conflict", "cap-bar" (one bar per line section and window),
-// "cap-limit".
+// "cap-limit"; over a simulated day, "asrun-path" (one polyline per train drawn as run) and
+// "asrun-hold" (one mark per stand at a signal).
 #include <cstddef>
 #include <optional>
 #include <string>
@@ -14,6 +15,7 @@
 
 #include "models/infrastructure.hpp"
 #include "models/plan.hpp"
+#include "tools/io/chart_kit.hpp"
 #include "tools/io/svg.hpp"
 
 namespace knockon {
@@ -43,12 +45,6 @@ struct WindowRequest {
 };
 TimeWindow choose_window(const PlanResult& plan, const WindowRequest& request, std::string* reason = nullptr);
 
-struct ChartOptions {
-    double width = 1100.0;   // pixels of the drawing (it scales: the SVG has a viewBox)
-    std::string title;       // drawn at the top when not empty
-    std::string footnote;    // drawn at the bottom when not empty (e.g. the safety caution)
-};
-
 // A train's planned path as (time [s], chainage [m]) points: its legs sampled about every
 // `sample_step` seconds (leg ends always included, so a stop shows as a flat stretch between two
 // legs), clipped to the window with the crossing points interpolated.  Empty when the train does
@@ -62,13 +58,29 @@ struct ChainageSpan {
 };
 ChainageSpan route_span(const TrainPlan& train, const RouteBlocking& route);
 
+// One simulated day as run, to draw over the plan.
+struct AsRunPath {
+    std::size_t train = 0;            // index into PlanResult::trains
+    std::vector<svg::Point> points;   // (time [s], chainage [m]) in time order
+};
+struct AsRunHold {                    // a stand at a signal showing stop
+    std::size_t train = 0;
+    std::string signal;
+    double from = 0.0, to = 0.0;      // [s]
+    double chainage = 0.0;            // of the signal [m]
+};
+struct AsRunOverlay {
+    std::string label;                // for the legend, e.g. "as run, replication 7"
+    std::vector<AsRunPath> paths;
+    std::vector<AsRunHold> holds;
+};
+
+// With `as_run`, the planned paths are drawn lighter ("dimmed") and the as-run paths over them,
+// solid and bold in the train's colour, with the stands at signals marked.
 svg::Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan, TimeWindow window,
-                                 const ChartOptions& options = {});
+                                 const ChartOptions& options = {}, const AsRunOverlay* as_run = nullptr);
 
 svg::Element capacity_chart(const PlanResult& plan, const ChartOptions& options = {});
-
-// The style sheet the charts carry inside themselves (also valid inside an HTML page).
-const std::string& chart_css();
 
 // Distinct train categories in order of first appearance; a category's index picks its style.
 std::vector<std::string> train_categories(const PlanResult& plan);

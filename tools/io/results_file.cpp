@@ -119,8 +119,8 @@ SimResult read_day_group(const h5::InputFile& f, const std::string& g) {
     return day;
 }
 
-StudyFigures read_study_group(const h5::InputFile& f, const std::string& g) {
-    StudyFigures out;
+StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
+    StoredStudy out;
     StudySummary& s = out.summary;
     s.replications = static_cast<std::size_t>(f.number_attribute(g, "replications"));
     s.deadlocked = static_cast<std::size_t>(f.number_attribute(g, "deadlocked_days"));

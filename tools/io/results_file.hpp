@@ -50,7 +50,7 @@ struct BufferPairNames {
 // summary.timing_points[i].train and summary.trains[i].train index train_ids; the per-day records
 // hold the scalar figures only (replication, deadlocked, events, block_passages, totals, mean
 // arrival delay and punctuality shares).
-struct StudyFigures {
+struct StoredStudy {
     StudySummary summary;
     std::vector<ReplicationStats> per_day;
     std::vector<std::string> train_ids, section_ids;
@@ -61,14 +61,14 @@ struct StudyFigures {
 struct VariantFigures {
     std::string name, description;
     PlanFigures plan;
-    StudyFigures study;
+    StoredStudy study;
 };
 
 struct ResultsFile {
     std::string path;
     ResultsFacts facts;
     std::optional<SimResult> day;              // kind day: /day (routes are not read)
-    std::optional<StudyFigures> study;         // kind study
+    std::optional<StoredStudy> study;         // kind study
     std::string traces;                        // kind study: the --traces choice ("none", ...)
     std::vector<std::uint32_t> traced;         // kind study: replications under /replications, ascending
     std::vector<VariantFigures> variants;      // kind comparison: the reference first

@@ -236,6 +236,13 @@ Element polyline(const std::vector<Point>& points, const std::string& cls) {
     return l;
 }
 
+Element path(const std::string& d, const std::string& cls) {
+    Element p("path");
+    p.attr("d", d);
+    if (!cls.empty()) p.css_class(cls);
+    return p;
+}
+
 Element text(double x, double y, const std::string& content, const std::string& cls, const std::string& anchor) {
     Element t("text");
     t.attr("x", x).attr("y", y);

@@ -3,6 +3,7 @@
 // from data values to pixels, "nice" axis ticks for numbers and for times of day, and number
 // formatting that does not depend on the locale.  Charts style their elements through CSS
 // classes, so the same drawing reads the same standalone and inside the HTML report.
+#include <list>
 #include <string>
 #include <string_view>
 #include <utility>
@@ -56,11 +57,12 @@ public:
     Element& text(std::string content);
     // A <title> child: the tooltip browsers show on hover and the name screen readers read.
     Element& tooltip(std::string content);
-    // Appends a child and returns it, so that groups can be filled in place.
+    // Appends a child and returns it, so that groups can be filled in place.  The reference stays
+    // valid while further children are added (the children are kept in a list, not a vector).
     Element& add(Element child);
 
     const std::string& tag() const { return tag_; }
-    const std::vector<Element>& children() const { return children_; }
+    const std::list<Element>& children() const { return children_; }
     // Writes the element and its children as XML.
     void write(std::string& out) const;
 
@@ -68,7 +70,7 @@ private:
     std::string tag_;
     std::vector<std::pair<std::string, std::string>> attrs_;
     std::string text_;
-    std::vector<Element> children_;
+    std::list<Element> children_;
 };
 
 // The outer <svg> element with the SVG namespace, a viewBox of width x height and the same
@@ -78,6 +80,8 @@ Element group(const std::string& cls = "");
 Element rect(double x, double y, double width, double height, const std::string& cls = "");
 Element line(double x1, double y1, double x2, double y2, const std::string& cls = "");
 Element polyline(const std::vector<Point>& points, const std::string& cls = "");
+// A path from its "d" data (e.g. "M1,2 V8 M0,2 H2"), for marks made of several strokes.
+Element path(const std::string& d, const std::string& cls = "");
 // Text anchored at (x, y): anchor "start", "middle" or "end".
 Element text(double x, double y, const std::string& content, const std::string& cls = "",
              const std::string& anchor = "start");

@@ -1,12 +1,16 @@
 // `knockon plot`: one chart of the report as a standalone SVG file (for slides and documents).
+// Of a scenario: the plan's charts; of a results file also the charts of its results.
+#include <algorithm>
 #include <cstdio>
 
 #include "models/plan.hpp"
 #include "tools/io/output_file.hpp"
 #include "tools/io/plan_charts.hpp"
 #include "tools/io/plan_output.hpp"
+#include "tools/io/results_figures.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/knockon/options.hpp"
+#include "tools/knockon/results_input.hpp"
 
 namespace knockon::cli {
 
@@ -14,46 +18,93 @@ namespace knockon::cli {
 void add_window_options(po::options_description& options);
 WindowRequest window_request(const po::variables_map& vm);
 TimeWindow checked_window(const PlanResult& plan, const WindowRequest& request, std::string* reason);
+void refuse_day_options(const po::variables_map& vm);
+
+namespace {
+
+std::string chart_list() {
+    std::string out = "time-distance, capacity (any input); with a day or study file: ";
+    for (const std::string& n : result_chart_names(ResultsKind::study)) out += n + ", ";
+    out += "with a comparison file: ";
+    const std::vector<std::string> c = result_chart_names(ResultsKind::comparison);
+    for (std::size_t i = 0; i < c.size(); ++i) out += c[i] + (i + 1 < c.size() ? ", " : "");
+    return out;
+}
+
+}  // namespace
 
 int plot(const std::vector<std::string>& args) {
     po::options_description options("plot options");
-    options.add_options()("chart", po::value<std::string>(), "time-distance or capacity (required)")(
+    options.add_options()("chart", po::value<std::string>(), ("the chart (required): " + chart_list()).c_str())(
         "svg", po::value<std::string>(), "write the chart to this SVG file (required)")(
         "width", po::value<double>()->default_value(1100.0), "width of the drawing [px]; it scales")(
-        "step", po::value<double>()->default_value(2.0), "distance step of the running-time integration [m]")(
-        "variant", po::value<std::string>(), "apply this variant of the scenario file (base: none)");
+        "step", po::value<double>()->default_value(2.0),
+        "distance step of the running-time integration [m] (a results file's own by default)")(
+        "variant", po::value<std::string>(),
+        "apply this variant of the scenario file (base: none; a results file's own by default)");
     add_window_options(options);
+    add_results_options(options);
+    add_punctuality_option(options);
     po::variables_map vm;
-    if (!parse_command_line("plot", args, options, vm)) return 0;
-    if (!vm.count("chart")) throw UsageError("--chart time-distance|capacity is required");
+    if (!parse_command_line("plot", args, options, vm, "input", "SCENARIO|RESULTS.h5")) return 0;
+    if (!vm.count("chart")) throw UsageError("--chart is required: " + chart_list());
     const std::string chart = vm["chart"].as<std::string>();
-    if (chart != "time-distance" && chart != "capacity")
-        throw UsageError("--chart: unknown chart '" + chart + "'; known: time-distance, capacity");
     if (!vm.count("svg")) throw UsageError("an output file is required: --svg FILE.svg");
     const double width = vm["width"].as<double>();
     if (!(width >= 400.0 && width <= 20000.0)) throw UsageError("--width must be in [400, 20000] pixels");
     const double step = vm["step"].as<double>();
     if (!(step > 0.0 && step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
     const WindowRequest request = window_request(vm);
-    if (chart == "capacity" && (request.all || request.from || request.to))
+    if (chart != "time-distance" && (request.all || request.from || request.to))
         throw UsageError("--from, --to and --all apply to --chart time-distance only");
+    const std::string input = vm["input"].as<std::string>();
+    const bool results = is_results_file(input);
+    if (!results && chart != "time-distance" && chart != "capacity") {
+        const std::vector<std::string> a = result_chart_names(ResultsKind::study);
+        const std::vector<std::string> b = result_chart_names(ResultsKind::comparison);
+        const bool known = std::find(a.begin(), a.end(), chart) != a.end() || std::find(b.begin(), b.end(), chart) != b.end();
+        throw UsageError(known ? "--chart " + chart + " needs a results file (.h5) from simulate or compare"
+                               : "--chart: unknown chart '" + chart + "'; known: " + chart_list());
+    }
 
-    const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
-    const Scenario scenario = read_scenario(vm["scenario"].as<std::string>(), variant);
-    const PlanResult plan = make_plan(scenario, RunOptions{step});
+    std::unique_ptr<ResultsInput> in;
+    Scenario scenario;
+    PlanResult plan;
+    if (results) {
+        in = open_results(input, vm);
+    } else {
+        refuse_results_options(vm);
+        refuse_day_options(vm);
+        const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
+        scenario = read_scenario(input, variant);
+        plan = make_plan(scenario, RunOptions{step});
+    }
+    const Scenario& sc = in ? in->scenario : scenario;
+    const PlanResult& pl = in ? in->plan : plan;
 
     ChartOptions co;
     co.width = width;
     svg::Element doc("svg");
     if (chart == "time-distance") {
-        const TimeWindow w = checked_window(plan, request, nullptr);
-        co.title = scenario.name + ": time-distance diagram, " + svg::format_hhmm(w.from) + "-" + svg::format_hhmm(w.to);
+        const TimeWindow w = checked_window(pl, request, nullptr);
+        const AsRunOverlay* as_run = in && in->as_run ? &*in->as_run : nullptr;
+        co.title = sc.name + ": time-distance diagram, " + svg::format_hhmm(w.from) + "-" + svg::format_hhmm(w.to) +
+                   (as_run ? " (" + as_run->label + ")" : std::string());
         co.footnote = kSafetyCaution;
-        doc = time_distance_chart(scenario.infrastructure, plan, w, co);
-    } else {
-        co.title = scenario.name + ": capacity consumption per line section (UIC 406 compression)";
+        doc = time_distance_chart(sc.infrastructure, pl, w, co, as_run);
+    } else if (chart == "capacity") {
+        co.title = sc.name + ": capacity consumption per line section (UIC 406 compression)";
         co.footnote = kUic406Note;
-        doc = capacity_chart(plan, co);
+        doc = capacity_chart(pl, co);
+    } else {
+        try {
+            ResultChart c = make_result_chart(chart, in->view, width);
+            // What the figures are and where they come from, for whoever reads the file.
+            c.svg.add(svg::Element("desc")).text(c.caption);
+            doc = std::move(c.svg);
+        } catch (const std::invalid_argument& e) {
+            throw UsageError(input + ": --chart: " + e.what());
+        }
     }
     const std::string path = vm["svg"].as<std::string>();
     write_file_atomically(path, svg::to_string(doc, true));

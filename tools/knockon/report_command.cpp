@@ -1,14 +1,17 @@
-// `knockon report`: the study report as one self-contained HTML file.  For now the plan part
-// (time-distance diagram, capacity consumption, thinnest buffers, conflicts); results of
-// simulate/compare will be further sections of the same Report (tools/io/html_report.hpp).
+// `knockon report`: the study report as one self-contained HTML file.  Of a scenario: the plan
+// (time-distance diagram, capacity consumption, thinnest buffers, conflicts).  Of a results file
+// (simulate --out, compare --out): the plan of the scenario it came from with the simulated day
+// drawn over it, and the results' sections (tools/io/results_report.hpp).
 #include <cstdio>
 
 #include "models/plan.hpp"
 #include "models/units.hpp"
 #include "tools/io/html_report.hpp"
+#include "tools/io/results_report.hpp"
 #include "tools/io/output_file.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/knockon/options.hpp"
+#include "tools/knockon/results_input.hpp"
 
 namespace knockon::cli {
 
@@ -65,28 +68,46 @@ TimeWindow checked_window(const PlanResult& plan, const WindowRequest& request, 
     }
 }
 
+void refuse_day_options(const po::variables_map& vm) {
+    if (!vm["punctuality"].defaulted()) throw UsageError("--punctuality applies to a day results file (.h5)");
+}
+
 int report(const std::vector<std::string>& args) {
     po::options_description options("report options");
     options.add_options()("output,o", po::value<std::string>(), "write the report to this HTML file (required)")(
-        "step", po::value<double>()->default_value(2.0), "distance step of the running-time integration [m]")(
-        "variant", po::value<std::string>(), "apply this variant of the scenario file (base: none)");
+        "step", po::value<double>()->default_value(2.0),
+        "distance step of the running-time integration [m] (a results file's own by default)")(
+        "variant", po::value<std::string>(),
+        "apply this variant of the scenario file (base: none; a results file's own by default)");
     add_window_options(options);
+    add_results_options(options);
+    add_punctuality_option(options);
     po::variables_map vm;
-    if (!parse_command_line("report", args, options, vm)) return 0;
+    if (!parse_command_line("report", args, options, vm, "input", "SCENARIO|RESULTS.h5")) return 0;
     if (!vm.count("output")) throw UsageError("an output file is required: -o FILE.html");
     const double step = vm["step"].as<double>();
     if (!(step > 0.0 && step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
     const WindowRequest request = window_request(vm);
-
-    const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
-    const Scenario scenario = read_scenario(vm["scenario"].as<std::string>(), variant);
-    const PlanResult plan = make_plan(scenario, RunOptions{step});
+    const std::string input = vm["input"].as<std::string>();
+    const std::string path = vm["output"].as<std::string>();
 
     PlanReportOptions ro;
-    ro.window = checked_window(plan, request, &ro.window_reason);
     ro.command_line = command_line("report", args);
-    const std::string path = vm["output"].as<std::string>();
-    write_file_atomically(path, render_html(plan_report(scenario, plan, ro)));
+    if (is_results_file(input)) {
+        const std::unique_ptr<ResultsInput> in = open_results(input, vm);
+        ro.window = checked_window(in->plan, request, &ro.window_reason);
+        ro.as_run = in->as_run ? &*in->as_run : nullptr;
+        ro.as_run_note = in->as_run_note;
+        write_file_atomically(path, render_html(results_report(in->view, ro)));
+    } else {
+        refuse_results_options(vm);
+        refuse_day_options(vm);
+        const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
+        const Scenario scenario = read_scenario(input, variant);
+        const PlanResult plan = make_plan(scenario, RunOptions{step});
+        ro.window = checked_window(plan, request, &ro.window_reason);
+        write_file_atomically(path, render_html(plan_report(scenario, plan, ro)));
+    }
     std::printf("wrote %s (time-distance window %s-%s)\n", path.c_str(), svg::format_hhmm(ro.window.from).c_str(),
                 svg::format_hhmm(ro.window.to).c_str());
     return 0;

@@ -1,0 +1,156 @@
+#include "tools/io/as_run.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <limits>
+#include <map>
+#include <stdexcept>
+
+namespace knockon {
+
+namespace {
+
+std::map<std::string, std::size_t> plan_index(const PlanResult& plan) {
+    std::map<std::string, std::size_t> out;
+    for (std::size_t i = 0; i < plan.trains.size(); ++i) out.emplace(plan.trains[i].run.service->id, i);
+    return out;
+}
+
+std::string minutes_text(double s) {
+    char buf[48];
+    std::snprintf(buf, sizeof buf, "%.1f min", s / 60.0);
+    return buf;
+}
+
+}  // namespace
+
+double median(std::vector<double> v) {
+    if (v.empty()) return std::numeric_limits<double>::quiet_NaN();
+    std::sort(v.begin(), v.end());
+    const std::size_t n = v.size();
+    return n % 2 ? v[n / 2] : (v[n / 2 - 1] + v[n / 2]) / 2.0;
+}
+
+std::optional<ReplicationChoice> choose_replication(const std::vector<ReplicationStats>& per_day,
+                                                    const std::vector<std::uint32_t>& traced,
+                                                    std::optional<std::uint32_t> requested) {
+    if (requested) {
+        if (std::find(traced.begin(), traced.end(), *requested) == traced.end()) {
+            std::string list;
+            for (std::size_t i = 0; i < traced.size() && i < 20; ++i) list += (i ? ", " : "") + std::to_string(traced[i]);
+            if (traced.size() > 20) list += ", ...";
+            throw std::invalid_argument("replication " + std::to_string(*requested) + " was not traced; " +
+                                        (traced.empty() ? std::string("the file holds no traced day")
+                                                        : "traced: " + list));
+        }
+        return ReplicationChoice{*requested, "replication " + std::to_string(*requested) + ", as asked for"};
+    }
+    if (traced.empty()) return std::nullopt;
+    std::vector<double> all;
+    std::map<std::uint32_t, double> knock_on;
+    for (const ReplicationStats& r : per_day) {
+        all.push_back(r.total_knock_on);
+        knock_on[r.replication] = r.total_knock_on;
+    }
+    const double m = median(all);
+    std::optional<std::uint32_t> best;
+    double best_gap = INFINITY;
+    for (std::uint32_t k : traced) {   // ascending: the lower number wins a tie
+        const auto it = knock_on.find(k);
+        if (it == knock_on.end()) continue;
+        const double gap = std::abs(it->second - m);
+        if (gap < best_gap) {
+            best_gap = gap;
+            best = k;
+        }
+    }
+    if (!best) best = traced.front();   // no per-day figures for the traced days: the first one
+    const auto it = knock_on.find(*best);
+    std::string reason = "replication " + std::to_string(*best) + ", the traced day";
+    if (it != knock_on.end() && std::isfinite(m))
+        reason += " whose knock-on delay (" + minutes_text(it->second) + ") is nearest the median over all " +
+                  std::to_string(all.size()) + " days (" + minutes_text(m) + ")";
+    reason += "; " + std::to_string(traced.size()) + " day" + (traced.size() == 1 ? " was" : "s were") +
+              " traced; --replication K draws another";
+    return ReplicationChoice{*best, reason};
+}
+
+AsRunOverlay as_run_overlay(const SimResult& day, const Infrastructure& infra, const PlanResult& plan,
+                            const std::string& label) {
+    AsRunOverlay out;
+    out.label = label;
+    const std::map<std::string, std::size_t> index = plan_index(plan);
+    std::vector<std::optional<std::size_t>> to_plan(day.train_ids.size());
+    for (std::size_t t = 0; t < day.train_ids.size(); ++t) {
+        const auto it = index.find(day.train_ids[t]);
+        if (it != index.end()) to_plan[t] = it->second;
+    }
+    std::map<std::string, double> station_at, signal_at;
+    for (const Station& s : infra.stations) station_at[s.id] = s.at;
+    for (const Signal& s : infra.signals) signal_at[s.id] = s.at;
+
+    std::vector<std::vector<svg::Point>> pts(day.train_ids.size());
+    std::vector<bool> sampled(day.train_ids.size(), false);
+    for (const TrajectorySample& s : day.samples)
+        if (s.train < pts.size() && std::isfinite(s.time) && std::isfinite(s.chainage)) {
+            pts[s.train].push_back({s.time, s.chainage});
+            sampled[s.train] = true;
+        }
+    auto add = [&](std::uint32_t train, double time, double chainage) {
+        if (train < pts.size() && !sampled[train] && std::isfinite(time) && std::isfinite(chainage))
+            pts[train].push_back({time, chainage});
+    };
+    for (const TimingRecord& r : day.timing) {
+        const auto it = station_at.find(r.station);
+        if (it == station_at.end()) continue;
+        add(r.train, r.arrival, it->second);
+        add(r.train, r.departure, it->second);
+    }
+    for (const SectionRecord& r : day.sections) {
+        if (r.train >= to_plan.size() || !to_plan[r.train] || r.section >= day.section_names.size()) continue;
+        const TrainPlan& tp = plan.trains[*to_plan[r.train]];
+        const std::string& name = day.section_names[r.section];
+        const auto sb = std::find_if(tp.stairway.sections.begin(), tp.stairway.sections.end(),
+                                     [&](const SectionBlocking& b) { return b.section == name; });
+        if (sb == tp.stairway.sections.end()) continue;
+        const bool up = tp.run.path.direction == Direction::up;
+        add(r.train, r.head_enters, up ? sb->x_lo : sb->x_hi);
+        add(r.train, r.head_leaves, up ? sb->x_hi : sb->x_lo);
+    }
+    for (const HoldRecord& h : day.holds) {
+        const auto it = signal_at.find(h.signal);
+        if (it == signal_at.end()) continue;
+        add(h.train, h.from, it->second);
+        add(h.train, h.to, it->second);
+        if (h.train < to_plan.size() && to_plan[h.train])
+            out.holds.push_back({*to_plan[h.train], h.signal, h.from, h.to, it->second});
+    }
+
+    for (std::size_t t = 0; t < pts.size(); ++t) {
+        if (!to_plan[t] || pts[t].size() < 2) continue;
+        std::vector<svg::Point>& p = pts[t];
+        std::stable_sort(p.begin(), p.end(), [](const svg::Point& a, const svg::Point& b) { return a.x < b.x; });
+        // The head runs from the path's start to its end: a section's far boundary behind an
+        // originating train's stopping mark, or beyond its terminus, is where the head never was.
+        const TrainPath& path = plan.trains[*to_plan[t]].run.path;
+        const double a = path.chainage_at(0.0), b = path.chainage_at(path.length);
+        for (svg::Point& q : p) q.y = std::clamp(q.y, std::min(a, b), std::max(a, b));
+        // A train never runs back: where records disagree by a few metres (a stand just short of
+        // a signal, a section boundary a metre off), the path keeps its furthest point.
+        const bool up = path.direction == Direction::up;
+        for (std::size_t i = 1; i < p.size(); ++i) p[i].y = up ? std::max(p[i].y, p[i - 1].y) : std::min(p[i].y, p[i - 1].y);
+        out.paths.push_back({*to_plan[t], std::move(p)});
+    }
+    return out;
+}
+
+std::vector<std::string> unknown_trains(const SimResult& day, const PlanResult& plan) {
+    const std::map<std::string, std::size_t> index = plan_index(plan);
+    std::vector<std::string> out;
+    for (const std::string& id : day.train_ids)
+        if (!index.count(id)) out.push_back(id);
+    return out;
+}
+
+}  // namespace knockon

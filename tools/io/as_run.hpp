@@ -1,0 +1,47 @@
+#pragma once
+// One simulated day drawn over the plan: the as-run paths of the trains in the time-distance
+// diagram, built from the day's records, and which traced day of a study to draw.
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "models/infrastructure.hpp"
+#include "models/plan.hpp"
+#include "sim/sim_result.hpp"
+#include "sim/study.hpp"
+#include "tools/io/plan_charts.hpp"
+
+namespace knockon {
+
+// The sample median: the middle value of the sorted values, or the mean of the two middle ones
+// (NaN when empty).
+double median(std::vector<double> values);
+
+struct ReplicationChoice {
+    std::uint32_t replication = 0;
+    std::string reason;   // for the reader: why this day
+};
+
+// Which traced day of a study to draw.  `requested`: that one, if it was traced (otherwise
+// std::invalid_argument naming the traced ones).  Otherwise the traced day whose total knock-on
+// delay is nearest the median total knock-on over all days of `per_day` (the lower replication
+// number on a tie), so the picture shows a typical day rather than a lucky or a bad one.
+// nullopt when no day was traced.
+std::optional<ReplicationChoice> choose_replication(const std::vector<ReplicationStats>& per_day,
+                                                    const std::vector<std::uint32_t>& traced,
+                                                    std::optional<std::uint32_t> requested);
+
+// The as-run paths of `day` as (time, chainage) points, for the trains the plan knows by id.
+// From the sampled trajectories where the day has them for a train; otherwise through the
+// timing points (arrival and departure at the station's stopping mark), the moments the head
+// entered and left each detection section (at the section's ends, from the plan's stairway) and
+// the stands at signals (at the signal), in time order and never running backwards: linear
+// between these moments, so a path is exact at every one of them.
+AsRunOverlay as_run_overlay(const SimResult& day, const Infrastructure& infra, const PlanResult& plan,
+                            const std::string& label);
+
+// Train ids of `day` that the plan does not know (the scenario changed since the run).
+std::vector<std::string> unknown_trains(const SimResult& day, const PlanResult& plan);
+
+}  // namespace knockon

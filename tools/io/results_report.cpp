@@ -1,0 +1,403 @@
+#include "tools/io/results_report.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <map>
+
+#include "models/units.hpp"
+#include "sim/day_summary.hpp"
+#include "tools/io/plan_output.hpp"
+#include "tools/io/study_hdf5.hpp"
+
+namespace knockon {
+
+namespace {
+
+constexpr std::size_t kTableRows = 30;         // rows of the ranked tables
+constexpr std::size_t kTimingPointRows = 15;   // least punctual timing points
+constexpr std::size_t kBufferRows = 10;
+
+std::string fmt(const char* f, double a, double b = 0.0, double c = 0.0) {
+    char buf[128];
+    std::snprintf(buf, sizeof buf, f, a, b, c);
+    return buf;
+}
+std::string min1(double s) { return std::isfinite(s) ? fmt("%.1f min", s / 60.0) : "-"; }
+std::string min_ci(const Estimate& e) {
+    return e.n > 1 ? fmt("%.2f \u00B1 %.2f min", e.mean / 60.0, e.half_width / 60.0) : min1(e.mean);
+}
+std::string pct(double share) { return std::isfinite(share) ? fmt("%.1f %%", 100.0 * share) : "-"; }
+std::string pct_ci(const Estimate& e) {
+    if (!std::isfinite(e.mean)) return "-";
+    if (!(e.n > 1) || !std::isfinite(e.lower)) return pct(e.mean);
+    return fmt("%.1f %% (%.1f-%.1f)", 100.0 * e.mean, 100.0 * e.lower, 100.0 * e.upper);
+}
+std::string sec(double s) { return std::isfinite(s) ? fmt("%.0f s", s) : "-"; }
+std::string threshold_text(double t) { return svg::number(t / 60.0, 1) + " min"; }
+
+std::string figure_of(const ResultChart& c) { return html_figure(c.svg, c.caption); }
+
+const std::string& reference(const ResultsView& v) { return v.file->variants.front().name; }
+
+// ---- head -------------------------------------------------------------------------------------
+
+void add_facts(Report& r, const ResultsView& v) {
+    const ResultsFacts& f = v.file->facts;
+    for (auto& [label, value] : r.facts)
+        if (label == "command") label = "report command";
+    std::vector<std::pair<std::string, std::string>> facts = {{"results file", v.file->path},
+                                                              {"kind of results", to_string(f.kind)}};
+    if (f.kind == ResultsKind::study) {
+        const StoredStudy& s = *v.file->study;
+        facts.push_back({"simulated days", std::to_string(s.summary.replications) +
+                                               (s.partial ? " (partial: stopped before the planned days)" : "")});
+        facts.push_back({"traced days", v.file->traced.empty()
+                                            ? std::string("none (--traces ") + v.file->traces + ")"
+                                            : std::to_string(v.file->traced.size()) + " (--traces " +
+                                                  v.file->traces + ")"});
+    } else if (f.kind == ResultsKind::comparison) {
+        std::string names;
+        for (const VariantFigures& vf : v.file->variants) names += (names.empty() ? "" : ", ") + vf.name;
+        facts.push_back({"variants", names + " (differences against " + reference(v) + ")"});
+        facts.push_back({"simulated days per variant", std::to_string(f.replications)});
+        facts.push_back({"plan drawn for", reference(v)});
+    }
+    if (!f.variant.empty()) facts.push_back({"variant", f.variant});
+    facts.push_back({"seed", std::to_string(f.seed)});
+    facts.push_back({"results command", f.command_line});
+    facts.push_back({"results written by", "knockon " + f.program_version + " (schema " +
+                                               std::to_string(f.schema_version) + ")"});
+    r.facts.insert(r.facts.begin() + std::min<std::size_t>(2, r.facts.size()), facts.begin(), facts.end());
+    r.notes.push_back(
+        "Primary delay: what was injected into a train itself (late start or entry, extra dwell, slower "
+        "running). Knock-on delay: time lost to other trains and to disruptions beyond that. Arrival delay "
+        "counts arrivals and passes at timing points, early as 0; punctual within N minutes means strictly "
+        "below N minutes.");
+    r.notes.push_back("Confidence intervals are 95 %: Student t for means over days, Wilson score for shares of "
+                      "arrivals.");
+}
+
+// ---- results at a glance ------------------------------------------------------------------------
+
+ReportSection glance_section(const ResultsView& v) {
+    HtmlTable t;
+    t.headers = {"figure", "value"};
+    t.numeric = {false, true};
+    std::string intro;
+    if (v.file->study) {
+        const StudySummary& s = v.file->study->summary;
+        t.caption = "Per simulated day, mean with 95 % CI half-width (or interval)";
+        t.rows = {{"primary delay injected", min_ci(s.total_primary)},
+                  {"knock-on delay", min_ci(s.total_knock_on)},
+                  {"knock-on / primary", fmt("%.2f", s.knock_on_ratio)},
+                  {"mean arrival delay", min_ci(s.mean_arrival_delay)}};
+        for (std::size_t i = 0; i < s.thresholds.size() && i < s.punctuality.size(); ++i)
+            t.rows.push_back({"punctual within " + threshold_text(s.thresholds[i]), pct_ci(s.punctuality[i])});
+        t.rows.push_back({"days that ended in deadlock", std::to_string(s.deadlocked) + " of " +
+                                                             std::to_string(s.replications)});
+        t.highlight.assign(t.rows.size(), false);
+        t.highlight.back() = s.deadlocked > 0;
+        intro = "A Monte Carlo study: " + std::to_string(s.replications) +
+                " simulated days, each with primary delays drawn afresh from the scenario's delays section.";
+    } else {
+        const SimResult& d = *v.day;
+        const DaySummary s = summarize_day(d, v.thresholds());
+        double knock_on = 0.0;
+        for (const TimingRecord& r : d.timing) knock_on += r.knock_on;
+        t.caption = "The simulated day";
+        t.rows = {{"trains", std::to_string(s.trains)},
+                  {"reached their last timing point", std::to_string(s.finished)},
+                  {"arrivals and passes recorded", std::to_string(s.arrivals)},
+                  {"mean arrival delay", min1(s.mean_arrival_delay)},
+                  {"knock-on delay, all trains", min1(knock_on)},
+                  {"delay at the last timing points, all trains", min1(s.total_final_delay)},
+                  {"time standing at signals, all trains", min1(s.total_held)}};
+        for (std::size_t i = 0; i < s.thresholds.size(); ++i)
+            t.rows.push_back({"punctual within " + threshold_text(s.thresholds[i]), pct(s.punctuality[i])});
+        t.rows.push_back({"deadlock", d.deadlock.deadlocked ? "yes, at " + format_time_of_day(d.deadlock.time) : std::string("no")});
+        t.highlight.assign(t.rows.size(), false);
+        t.highlight.back() = d.deadlock.deadlocked;
+        intro = "One simulated day (knockon simulate --out).";
+    }
+    std::string html = html_paragraph(intro) + html_table(t);
+    if (v.day && v.day->deadlock.deadlocked && v.file->facts.kind == ResultsKind::day)
+        html += html_paragraph("Deadlock: " + v.day->deadlock.description);
+    return {"results", "Results at a glance", html};
+}
+
+// ---- delays -------------------------------------------------------------------------------------
+
+ReportSection delays_section(const ResultsView& v) {
+    std::string html = html_paragraph(
+        "How late trains reached their timing points, and how much of that they brought with them (primary) "
+        "and how much other trains gave them (knock-on).");
+    html += figure_of(make_result_chart("delay-cdf", v));
+
+    html += figure_of(make_result_chart("punctuality", v));
+    const std::vector<double> thresholds = v.thresholds();
+    HtmlTable p;
+    p.caption = "Punctuality by station (95 % Wilson interval of the pooled arrivals and passes)";
+    p.headers = {"station", "km", "arrivals and passes"};
+    p.numeric = {false, true, true};
+    for (double t : thresholds) {
+        p.headers.push_back("within " + threshold_text(t));
+        p.numeric.push_back(true);
+    }
+    for (const StationPunctuality& s : station_punctuality(v)) {
+        std::vector<std::string> row = {s.name + " (" + s.station + ")",
+                                        std::isfinite(s.chainage) ? svg::number(s.chainage / 1000.0, 1) : "-",
+                                        std::to_string(s.arrivals)};
+        for (const Estimate& e : s.within) row.push_back(pct_ci(e));
+        p.rows.push_back(std::move(row));
+    }
+    html += html_table(p);
+
+    html += figure_of(make_result_chart("primary-knock-on", v));
+    HtmlTable c;
+    c.caption = "Delay per day by train category";
+    c.headers = {"category", "trains", "primary", "knock-on", "knock-on / primary"};
+    c.numeric = {false, true, true, true, true};
+    for (const CategoryDelay& d : category_delays(v))
+        c.rows.push_back({d.category, std::to_string(d.trains), min1(d.primary), min1(d.knock_on),
+                          std::isfinite(d.primary) && d.primary > 0.0 ? fmt("%.2f", d.knock_on / d.primary) : "-"});
+    html += html_table(c);
+
+    if (v.file->study) {
+        // The least punctual timing points, with the Wilson intervals the study file stores.
+        const StoredStudy& s = *v.file->study;
+        std::vector<const TimingPointStats*> tps;
+        for (const TimingPointStats& tp : s.summary.timing_points)
+            if (tp.reached > 0 && !tp.punctuality.empty()) tps.push_back(&tp);
+        std::stable_sort(tps.begin(), tps.end(), [](const TimingPointStats* a, const TimingPointStats* b) {
+            return a->punctuality[0].mean < b->punctuality[0].mean;
+        });
+        HtmlTable t;
+        t.caption = "Least punctual timing points (share of days within " + threshold_text(thresholds.front()) +
+                    ", 95 % Wilson interval)";
+        t.headers = {"train", "station", "days reached", "within " + threshold_text(thresholds.front()),
+                     "mean delay", "p90", "p95", "max", "knock-on gathered"};
+        t.numeric = {false, false, true, true, true, true, true, true, true};
+        for (std::size_t i = 0; i < tps.size() && i < kTimingPointRows; ++i) {
+            const TimingPointStats& tp = *tps[i];
+            t.rows.push_back({s.train_ids[tp.train], tp.station, std::to_string(tp.reached), pct_ci(tp.punctuality[0]),
+                              min1(tp.delay.mean), min1(tp.delay_quantiles.p90), min1(tp.delay_quantiles.p95),
+                              min1(tp.delay_quantiles.max), min1(tp.knock_on.mean)});
+        }
+        if (!t.rows.empty()) html += html_table(t);
+    }
+    return {"delays", "Delays and punctuality", html};
+}
+
+// ---- where delays grow ----------------------------------------------------------------------------
+
+ReportSection growth_section(const ResultsView& v) {
+    std::string html = html_paragraph(
+        "Knock-on delay arises where trains are held: at signals showing stop because the route ahead is not "
+        "free, and at stops waiting for a late train to clear. The signals are ranked by the time trains "
+        "stood at them.");
+    html += figure_of(make_result_chart("signals", v));
+    std::map<std::string, const Signal*> signals;
+    for (const Signal& s : v.scenario->infrastructure.signals) signals[s.id] = &s;
+    const std::vector<SignalStats> held = held_at_signals(v);
+    double total = 0.0;
+    for (const SignalStats& s : held) total += s.held.mean;
+    HtmlTable t;
+    t.caption = "Signals where trains stood at stop, per day";
+    t.headers = {"rank", "signal", "track", "direction", "km", "time held", "share of all time held"};
+    t.numeric = {true, false, false, false, true, true, true};
+    for (std::size_t i = 0; i < held.size() && i < kTableRows; ++i) {
+        const auto it = signals.find(held[i].signal);
+        const Signal* s = it == signals.end() ? nullptr : it->second;
+        t.rows.push_back({std::to_string(i + 1), held[i].signal, s ? s->track : "-", s ? to_string(s->direction) : "-",
+                          s ? svg::number(s->at / 1000.0, 2) : "-", min_ci(held[i].held),
+                          total > 0.0 ? pct(held[i].held.mean / total) : "-"});
+    }
+    if (t.rows.empty())
+        html += html_paragraph("No train stood at a signal showing stop.");
+    else
+        html += html_table(t);
+    if (held.size() > kTableRows)
+        html += html_paragraph("... and " + std::to_string(held.size() - kTableRows) + " more signals.");
+
+    // Knock-on gathered by station: the run there from the previous timing point and the wait to
+    // leave it.
+    std::map<std::string, double> by_station;
+    if (v.file->study) {
+        for (const TimingPointStats& tp : v.file->study->summary.timing_points) by_station[tp.station] += tp.knock_on.mean;
+    } else {
+        for (const TimingRecord& r : v.day->timing) by_station[r.station] += r.knock_on;
+    }
+    std::vector<std::pair<std::string, double>> rows(by_station.begin(), by_station.end());
+    std::stable_sort(rows.begin(), rows.end(), [](const auto& a, const auto& b) { return a.second > b.second; });
+    HtmlTable k;
+    k.caption = "Knock-on delay gathered on the way to each timing point and waiting to leave it, per day";
+    k.headers = {"station", "knock-on, all trains"};
+    k.numeric = {false, true};
+    for (const auto& [station, seconds] : rows) k.rows.push_back({station, min1(seconds)});
+    html += html_table(k);
+    return {"delay-growth", "Where delays grow", html};
+}
+
+// ---- capacity and buffers --------------------------------------------------------------------------
+
+void add_as_run_capacity(ReportSection& capacity, const ResultsView& v) {
+    std::string html = html_paragraph(
+        "As run: how much of the day each detection section was blocked for trains (from the locking of a "
+        "route through it to its release), the busiest first.");
+    html += figure_of(make_result_chart("blocked-share", v));
+    HtmlTable t;
+    t.caption = "Busiest detection sections as run";
+    t.headers = {"detection section", "blocked share of 24 h"};
+    t.numeric = {false, true};
+    const std::vector<SectionShare> shares = blocked_shares(v);
+    for (std::size_t i = 0; i < shares.size() && i < kTableRows; ++i)
+        t.rows.push_back({shares[i].section, pct_ci(shares[i].share)});
+    capacity.html += html + html_table(t);
+}
+
+void add_as_run_buffers(ReportSection& buffers, const ResultsView& v) {
+    if (!v.file->study) return;
+    const StoredStudy& s = *v.file->study;
+    HtmlTable t;
+    t.caption = "Thinnest buffers as run (consecutive trains of the plan on their critical section)";
+    t.headers = {"leader", "follower", "line section", "section", "planned", "as run", "10 % of days below"};
+    t.numeric = {false, false, false, false, true, true, true};
+    for (std::size_t i = 0; i < s.summary.buffers.size() && i < kBufferRows; ++i) {
+        const BufferStats& b = s.summary.buffers[i];
+        const BufferPairNames& n = s.buffer_pairs[i];
+        t.rows.push_back({n.leader, n.follower, n.line_section, n.section, sec(b.planned),
+                          fmt("%.0f \u00B1 %.0f s", b.as_run.mean, b.as_run.half_width), sec(b.p10)});
+        t.highlight.push_back(b.as_run.mean < 0.0);
+    }
+    std::string html = html_paragraph(
+        "As run, over the study's days: the follower's blocking start minus the leader's blocking end on the "
+        "section where the planned buffer is thinnest (negative: the follower was held up by the leader).");
+    buffers.html += html + (t.rows.empty() ? html_paragraph("No consecutive pair used its critical section.")
+                                           : html_table(t));
+}
+
+// ---- comparison ---------------------------------------------------------------------------------
+
+ReportSection variants_section(const ResultsView& v) {
+    const auto& vs = v.file->variants;
+    const std::vector<double> thresholds = v.thresholds();
+    std::string html = html_paragraph(
+        "The same study was run on each variant with the same seed, so replication k of every variant saw the "
+        "same primary delays (common random numbers) and the day-to-day spread cancels in the differences.");
+    HtmlTable d;
+    d.caption = "Variants";
+    d.headers = {"variant", "description"};
+    for (const VariantFigures& f : vs) d.rows.push_back({f.name, f.description});
+    html += html_table(d);
+
+    HtmlTable s;
+    s.caption = "Per simulated day (mean with 95 % CI) and from the plan";
+    s.headers = {"figure"};
+    s.numeric = {false};
+    for (const VariantFigures& f : vs) {
+        s.headers.push_back(f.name);
+        s.numeric.push_back(true);
+    }
+    auto row = [&](const std::string& label, auto cell) {
+        std::vector<std::string> r = {label};
+        for (const VariantFigures& f : vs) r.push_back(cell(f));
+        s.rows.push_back(std::move(r));
+    };
+    row("primary delay injected", [](const VariantFigures& f) { return min_ci(f.study.summary.total_primary); });
+    row("knock-on delay", [](const VariantFigures& f) { return min_ci(f.study.summary.total_knock_on); });
+    row("mean arrival delay", [](const VariantFigures& f) { return min_ci(f.study.summary.mean_arrival_delay); });
+    for (std::size_t i = 0; i < thresholds.size(); ++i)
+        row("punctual within " + threshold_text(thresholds[i]),
+            [i](const VariantFigures& f) { return pct_ci(f.study.summary.punctuality.at(i)); });
+    row("days ended in deadlock", [](const VariantFigures& f) { return std::to_string(f.study.summary.deadlocked); });
+    row("plan: mean minimum headway", [](const VariantFigures& f) { return fmt("%.1f s", f.plan.mean_minimum_headway); });
+    row("plan: peak-hour consumption (max)",
+        [](const VariantFigures& f) { return pct(f.plan.peak_consumption) + " " + f.plan.peak_section; });
+    row("plan: day consumption (max)",
+        [](const VariantFigures& f) { return pct(f.plan.day_consumption) + " " + f.plan.day_section; });
+    html += html_table(s);
+
+    HtmlTable t;
+    t.caption = "Paired differences against " + reference(v) + " (variant minus " + reference(v) +
+                "; mean with 95 % CI; marked where the interval excludes 0)";
+    t.headers = {"variant", "figure", "difference", "95 % CI", "days"};
+    t.numeric = {false, false, true, true, true};
+    for (const DifferenceRow& r : v.file->differences) {
+        const Estimate& e = r.difference;
+        const bool share = r.unit == "share";
+        auto value = [&](double x) {
+            if (!std::isfinite(x)) return std::string("-");
+            return share ? fmt("%+.2f pts", 100.0 * x) : fmt("%+.2f min", x / 60.0);
+        };
+        std::string figure = r.figure;
+        for (double th : thresholds)
+            if (r.figure == punctuality_field(th)) figure = "punctual within " + threshold_text(th);
+        if (r.figure == "total_knock_on") figure = "knock-on delay per day";
+        if (r.figure == "mean_arrival_delay") figure = "mean arrival delay";
+        if (r.figure == "total_primary") figure = "primary delay per day";
+        if (r.figure == "plan_mean_minimum_headway") figure = "plan: mean minimum headway";
+        if (r.figure == "plan_peak_hour_consumption") figure = "plan: peak-hour consumption (max)";
+        if (r.figure == "plan_day_consumption") figure = "plan: day consumption (max)";
+        if (r.figure == "plan_mean_minimum_headway") {
+            t.rows.push_back({r.variant, figure, fmt("%+.1f s", e.mean), "(plan, no interval)", "-"});
+        } else {
+            t.rows.push_back({r.variant, figure, value(e.mean),
+                              r.paired() ? value(e.lower) + " to " + value(e.upper) : "(plan, no interval)",
+                              r.paired() ? std::to_string(e.n) : "-"});
+        }
+        t.highlight.push_back(r.paired() && (e.lower > 0.0 || e.upper < 0.0));
+    }
+    html += html_table(t);
+    for (const std::string& name : result_chart_names(ResultsKind::comparison))
+        html += figure_of(make_result_chart(name, v));
+    return {"variants", "Variants compared", html};
+}
+
+std::size_t section_index(const Report& r, const std::string& id) {
+    for (std::size_t i = 0; i < r.sections.size(); ++i)
+        if (r.sections[i].id == id) return i;
+    return r.sections.size();
+}
+
+}  // namespace
+
+Report results_report(const ResultsView& v, const PlanReportOptions& options) {
+    Report r = plan_report(*v.scenario, *v.plan, options);
+    const ResultsKind kind = v.file->facts.kind;
+    r.title = (kind == ResultsKind::day ? "Simulated day report: "
+               : kind == ResultsKind::study ? "Study report: "
+                                            : "Comparison report: ") +
+              v.scenario->name;
+    add_facts(r, v);
+
+    std::vector<ReportSection> sections;
+    auto take = [&](const std::string& id) {
+        const std::size_t i = section_index(r, id);
+        return i < r.sections.size() ? r.sections[i] : ReportSection{id, id, ""};
+    };
+    if (kind == ResultsKind::comparison) {
+        sections.push_back(variants_section(v));
+        for (const char* id : {"time-distance", "capacity", "buffers", "conflicts"}) {
+            ReportSection s = take(id);
+            s.title += " (" + reference(v) + ")";
+            sections.push_back(std::move(s));
+        }
+    } else {
+        sections.push_back(glance_section(v));
+        sections.push_back(take("time-distance"));
+        sections.push_back(delays_section(v));
+        sections.push_back(growth_section(v));
+        ReportSection capacity = take("capacity");
+        add_as_run_capacity(capacity, v);
+        sections.push_back(std::move(capacity));
+        ReportSection buffers = take("buffers");
+        add_as_run_buffers(buffers, v);
+        sections.push_back(std::move(buffers));
+        sections.push_back(take("conflicts"));
+    }
+    r.sections = std::move(sections);
+    return r;
+}
+
+}  // namespace knockon

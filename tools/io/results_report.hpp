@@ -1,0 +1,17 @@
+#pragma once
+// The report of a results file (`knockon report RESULTS.h5`): the plan's report of the scenario
+// the results came from (html_report.hpp), with the simulated day drawn over the time-distance
+// diagram, and sections of results: the figures at a glance, delay distributions, punctuality
+// and primary vs knock-on delay, where delays grow, the as-run use of the sections and buffers,
+// and for a comparison the variants side by side with their paired differences.
+#include <string>
+
+#include "tools/io/html_report.hpp"
+#include "tools/io/results_figures.hpp"
+
+namespace knockon {
+
+// `options` as for plan_report (its as_run and as_run_note say what the diagram draws).
+Report results_report(const ResultsView& view, const PlanReportOptions& options);
+
+}  // namespace knockon
