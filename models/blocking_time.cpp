@@ -49,6 +49,36 @@ long stop_in(const ServiceRun& run, double from, double to) {
 
 }  // namespace
 
+std::vector<WarningShortfall> warning_shortfalls(const ServiceRun& run) {
+    std::vector<WarningShortfall> out;
+    const TrainPath& path = run.path;
+    for (std::size_t i = 0; i < path.signals.size(); ++i) {
+        const PathSignal& sig = path.signals[i];
+        if (sig.s < -1e-6 || sig.s >= path.length - 1e-6) continue;
+        double from = kNoTime;   // where the first warning is given
+        switch (sig.system) {
+            case AspectSystem::two_aspect:
+                if (sig.signal->distant_distance) from = sig.s - *sig.signal->distant_distance;
+                break;
+            case AspectSystem::three_aspect:
+                if (i >= 1) from = path.signals[i - 1].s;
+                break;
+            case AspectSystem::four_aspect:
+                if (i >= 2) from = path.signals[i - 2].s;
+                break;
+            case AspectSystem::cab_fixed_block: break;   // the braking curve is the warning
+        }
+        if (std::isnan(from) || from < path.s_min) continue;
+        const double v = run.speed_at(std::max(from, 0.0));
+        // Gradient as warning_point takes it: at the signal.
+        const double needed = stopping_distance(*run.type, v, path.gradient_at(sig.s));
+        const double available = sig.s - from;
+        // A metre of slack: whole-metre layouts meet the rule exactly at the limit.
+        if (needed > available + 1.0) out.push_back({i, available, needed, v});
+    }
+    return out;
+}
+
 Stairway blocking_stairway(const ServiceRun& run, const InterlockingTimes& times) {
     Stairway st;
     const TrainPath& path = run.path;

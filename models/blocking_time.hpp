@@ -49,4 +49,18 @@ struct Stairway {
 
 Stairway blocking_stairway(const ServiceRun& run, const InterlockingTimes& times);
 
+// A signal whose first warning comes too late for the train (REFERENCES.md B6): the distance
+// its aspect system gives the driver to stop (three aspects: the block before the signal; four:
+// the two blocks before it; two: the distant signal's distance) is shorter than the train's
+// stopping distance from its planned speed where the warning is given.  Blocking times take the
+// warning as given there; a driver (and the simulation) must brake earlier, so the plan is
+// optimistic at such a signal.
+struct WarningShortfall {
+    std::size_t signal = 0;    // index into run.path.signals
+    double available = 0.0;    // [m]
+    double needed = 0.0;       // stopping distance [m]
+    double speed = 0.0;        // planned speed where the warning is given [m/s]
+};
+std::vector<WarningShortfall> warning_shortfalls(const ServiceRun& run);
+
 }  // namespace knockon

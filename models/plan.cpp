@@ -79,6 +79,20 @@ void add_capacity(const LineSection& ls, const std::vector<SectionStairway>& ord
     plan.capacity.push_back(figure("day", 0.0, kDay, limit.day));
 }
 
+void add_spacing_warnings(PlanResult& plan) {
+    std::map<std::string, SpacingWarning> worst;
+    for (std::size_t t = 0; t < plan.trains.size(); ++t) {
+        const ServiceRun& run = plan.trains[t].run;
+        for (const WarningShortfall& w : warning_shortfalls(run)) {
+            const std::string& id = run.path.signals[w.signal].signal->id;
+            auto it = worst.find(id);
+            if (it == worst.end() || w.needed - w.available > it->second.needed - it->second.available)
+                worst[id] = {id, t, w.available, w.needed, w.speed};
+        }
+    }
+    for (auto& [id, w] : worst) plan.spacing_warnings.push_back(w);
+}
+
 void add_conflicts(PlanResult& plan) {
     struct Use {
         std::size_t train;
@@ -135,6 +149,7 @@ PlanResult make_plan(const Scenario& scenario, const RunOptions& options) {
         add_capacity(ls, ordered, scenario.line_type, plan);
     }
     add_conflicts(plan);
+    add_spacing_warnings(plan);
     return plan;
 }
 

@@ -54,6 +54,13 @@ struct CapacityFigure {
     double limit = 0.0;                  // UIC 406 recommended limit (as recalled)
 };
 
+// The worst train at a signal whose warning comes too late (warning_shortfalls).
+struct SpacingWarning {
+    std::string signal;
+    std::size_t train = 0;            // index into PlanResult::trains
+    double available = 0.0, needed = 0.0, speed = 0.0;   // [m], [m], [m/s]
+};
+
 struct PlanResult {
     std::vector<TrainPlan> trains;
     std::vector<LineSection> line_sections;
@@ -61,6 +68,7 @@ struct PlanResult {
     std::vector<HeadwayMatrixEntry> headway_matrix;
     std::vector<Conflict> conflicts;
     std::vector<CapacityFigure> capacity;
+    std::vector<SpacingWarning> spacing_warnings;   // by signal id
 };
 
 PlanResult make_plan(const Scenario& scenario, const RunOptions& options = {});

@@ -123,6 +123,18 @@ Table conflicts(const PlanResult& plan) {
     return t;
 }
 
+Table spacing_warnings(const PlanResult& plan) {
+    Table t{"spacing_warnings",
+            "Signals whose warning is shorter than a train's stopping distance (worst train; the plan is "
+            "optimistic there)",
+            {{"signal", K::text}, {"train", K::text}, {"speed_kmh", K::number}, {"warning_m", K::number},
+             {"stopping_distance_m", K::number}},
+            {}};
+    for (const SpacingWarning& w : plan.spacing_warnings)
+        t.rows.push_back({w.signal, train_id(plan, w.train), w.speed * 3.6, w.available, w.needed});
+    return t;
+}
+
 Table capacity(const PlanResult& plan) {
     Table t{"capacity", "Capacity consumption (UIC 406 compression)",
             {{"line_section", K::text}, {"direction", K::text}, {"window", K::text}, {"from", K::time_of_day},
@@ -139,7 +151,7 @@ Table capacity(const PlanResult& plan) {
 
 std::vector<Table> plan_tables(const Scenario&, const PlanResult& plan) {
     return {trains(plan), running_times(plan), blocking_routes(plan), blocking_sections(plan),
-            headways(plan), headway_matrix(plan), conflicts(plan), capacity(plan)};
+            headways(plan), headway_matrix(plan), conflicts(plan), capacity(plan), spacing_warnings(plan)};
 }
 
 nlohmann::json table_json(const Table& t) {
@@ -212,6 +224,13 @@ std::string plan_text(const Scenario& scenario, const PlanResult& plan) {
     out += to_text(cf, 20) + "\n";
     out += to_text(find("headway_matrix")) + "\n";
     out += to_text(find("capacity")) + "\n";
+    if (!plan.spacing_warnings.empty()) {
+        Table sw = find("spacing_warnings");
+        sw.title = "Warning: " + std::to_string(sw.rows.size()) +
+                   " signal(s) give less warning than a train needs to stop (REFERENCES B6 spacing rule); " +
+                   "blocking times there assume the warning suffices";
+        out += to_text(sw, 20) + "\n";
+    }
     out += std::string("Note: ") + kUic406Note + "\n";
     return out;
 }
