@@ -310,8 +310,11 @@ ResultsFacts read_facts(const h5::InputFile& f) {
         throw ResultsFileError(f.path() + ": schema version " + std::to_string(r.schema_version) +
                                " is newer than this knockon reads (up to " + std::to_string(kSimHdf5SchemaVersion) +
                                ")");
-    // Schema 1 held day files only, without the kind attribute.
-    const std::string kind = f.has_attribute("/", "kind") ? f.text_attribute("/", "kind") : std::string("day");
+    // Schema 1 day files lack the kind attribute and the knock-on of each timing record.
+    if (r.schema_version < 2)
+        throw ResultsFileError(f.path() + ": schema version " + std::to_string(r.schema_version) +
+                               " is older than this knockon reads (2 and later); simulate the day again");
+    const std::string kind = f.text_attribute("/", "kind");
     if (kind == "day") r.kind = ResultsKind::day;
     else if (kind == "study") r.kind = ResultsKind::study;
     else if (kind == "comparison") r.kind = ResultsKind::comparison;

@@ -24,7 +24,8 @@ namespace {
 
 std::string chart_list() {
     std::string out = "time-distance, capacity (any input); with a day or study file: ";
-    for (const std::string& n : result_chart_names(ResultsKind::study)) out += n + ", ";
+    const std::vector<std::string> s = result_chart_names(ResultsKind::study);
+    for (std::size_t i = 0; i < s.size(); ++i) out += s[i] + (i + 1 < s.size() ? ", " : "; ");
     out += "with a comparison file: ";
     const std::vector<std::string> c = result_chart_names(ResultsKind::comparison);
     for (std::size_t i = 0; i < c.size(); ++i) out += c[i] + (i + 1 < c.size() ? ", " : "");
