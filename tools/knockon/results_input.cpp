@@ -125,8 +125,9 @@ std::unique_ptr<ResultsInput> open_results(const std::string& path, const po::va
         } else {
             in->as_run_note =
                 "As-run paths are not available: this study kept no traced days (--traces " + f.traces +
-                "). To draw one over the plan, run the study with traced days, e.g. knockon simulate SCENARIO "
-                "--replications N --traces sample:5 --out study.h5, and report on that file.";
+                "). To draw one over the plan, run the study with traced days (--traces sample:K for K days "
+                "spread over the study, or all), e.g. knockon simulate SCENARIO --replications N --traces sample:5 "
+                "--out study.h5, and report on that file.";
         }
     } else {
         in->as_run_note = "The plan of " + f.variants.front().name +
