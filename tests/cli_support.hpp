@@ -3,7 +3,13 @@
 // printed and wrote.
 #include <catch2/catch.hpp>
 
+#include <signal.h>
 #include <sys/wait.h>
+#include <unistd.h>
+
+#include <chrono>
+#include <thread>
+#include <vector>
 
 #include <cstdlib>
 #include <filesystem>
@@ -55,6 +61,43 @@ inline Result knockon(const std::string& args, const TempDir& dir) {
     r.status = (rc != -1 && WIFEXITED(rc)) ? WEXITSTATUS(rc) : -1;
     r.out = read_text(out);
     r.err = read_text(err);
+    return r;
+}
+
+// Ctrl-C in the middle of a command: runs knockon with `args` in a child process (stdout and
+// stderr to the given files), waits until the results file's temporary copy `<out>.partial-<pid>`
+// exists (the command is under way, its Ctrl-C handler in place), lets it run `run_for` longer,
+// then sends SIGINT.  `started` says whether the temporary file showed up within a minute.
+struct Interrupted {
+    int status = 0;   // as from waitpid
+    bool started = false;
+    fs::path temporary;
+};
+inline Interrupted interrupt_knockon(const std::vector<std::string>& args, const fs::path& out,
+                                     const fs::path& stdout_file, const fs::path& stderr_file,
+                                     std::chrono::milliseconds run_for = std::chrono::milliseconds(300)) {
+    std::vector<char*> argv;
+    std::vector<std::string> all = {kExe};
+    all.insert(all.end(), args.begin(), args.end());
+    for (std::string& a : all) argv.push_back(a.data());
+    argv.push_back(nullptr);
+    const pid_t pid = ::fork();
+    REQUIRE(pid >= 0);
+    if (pid == 0) {
+        std::freopen(stdout_file.c_str(), "w", stdout);
+        std::freopen(stderr_file.c_str(), "w", stderr);
+        ::execv(kExe.c_str(), argv.data());
+        ::_exit(127);
+    }
+    Interrupted r;
+    r.temporary = out.string() + ".partial-" + std::to_string(pid);
+    const auto deadline = std::chrono::steady_clock::now() + std::chrono::seconds(60);
+    while (!fs::exists(r.temporary) && std::chrono::steady_clock::now() < deadline)
+        std::this_thread::sleep_for(std::chrono::milliseconds(10));
+    r.started = fs::exists(r.temporary);
+    std::this_thread::sleep_for(run_for);
+    ::kill(pid, SIGINT);
+    ::waitpid(pid, &r.status, 0);
     return r;
 }
 

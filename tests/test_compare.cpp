@@ -3,18 +3,14 @@
 // end.
 #include <catch2/catch.hpp>
 
-#include <signal.h>
 #include <sys/wait.h>
-#include <unistd.h>
 
-#include <chrono>
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
 #include <sstream>
 #include <stdexcept>
 #include <string>
-#include <thread>
 #include <vector>
 
 #include <nlohmann/json.hpp>
@@ -25,6 +21,7 @@
 #include "sim/simulation.hpp"
 #include "sim/study.hpp"
 #include "tools/io/scenario_reader.hpp"
+#include "cli_support.hpp"
 
 using namespace knockon;
 using Catch::Matchers::Contains;
@@ -283,36 +280,17 @@ TEST_CASE("knockon compare: Ctrl-C during the first study stops cleanly and writ
     // A comparison pairs whole studies: with the first variant stopped there is nothing to
     // compare, so the command says so, exits 130 (the shell's code for an interrupted command)
     // and leaves neither the results file nor its temporary file behind.
-    std::string tmpl = (fs::temp_directory_path() / "knockon_compare_int_XXXXXX").string();
-    REQUIRE(mkdtemp(tmpl.data()) != nullptr);
-    const fs::path dir = tmpl;
-    const fs::path out = dir / "cmp.h5", err_log = dir / "err.txt";
-    const pid_t pid = ::fork();
-    REQUIRE(pid >= 0);
-    if (pid == 0) {
-        std::freopen("/dev/null", "w", stdout);
-        std::freopen(err_log.c_str(), "w", stderr);
-        ::execl(kExe.c_str(), kExe.c_str(), "compare", kDemo.c_str(), "--variants", "base,four_aspect",
-                "--replications", "10000000", "--out", out.c_str(), static_cast<char*>(nullptr));
-        ::_exit(127);
-    }
     // The temporary file is created once every variant is planned, just before the studies run.
-    const fs::path temporary = out.string() + ".partial-" + std::to_string(pid);
-    const auto deadline = std::chrono::steady_clock::now() + std::chrono::seconds(60);
-    while (!fs::exists(temporary) && std::chrono::steady_clock::now() < deadline)
-        std::this_thread::sleep_for(std::chrono::milliseconds(10));
-    const bool started = fs::exists(temporary);
-    std::this_thread::sleep_for(std::chrono::milliseconds(300));
-    ::kill(pid, SIGINT);
-    int status = 0;
-    ::waitpid(pid, &status, 0);
+    const clitest::TempDir dir;
+    const fs::path out = dir.path / "cmp.h5", err_log = dir.path / "err.txt";
+    const clitest::Interrupted run = clitest::interrupt_knockon(
+        {"compare", kDemo, "--variants", "base,four_aspect", "--replications", "10000000", "--out", out.string()}, out,
+        "/dev/null", err_log);
     const std::string err = read_text(err_log);
-    std::error_code ec;
-    const bool out_exists = fs::exists(out), temporary_exists = fs::exists(temporary);
-    fs::remove_all(dir, ec);
-    REQUIRE(started);
-    REQUIRE(WIFEXITED(status));
-    CHECK(WEXITSTATUS(status) == 130);
+    const bool out_exists = fs::exists(out), temporary_exists = fs::exists(run.temporary);
+    REQUIRE(run.started);
+    REQUIRE(WIFEXITED(run.status));
+    CHECK(WEXITSTATUS(run.status) == 130);
     CHECK_THAT(err, Contains("stopped by Ctrl-C"));
     CHECK_THAT(err, Contains("base (stopped after"));
     CHECK_THAT(err, Contains("four_aspect (not run)"));

@@ -26,6 +26,7 @@
 
 #include <nlohmann/json.hpp>
 
+#include "cli_support.hpp"
 #include "tools/io/study_hdf5.hpp"
 
 using namespace knockon;
@@ -462,32 +463,15 @@ TEST_CASE("study HDF5: bad --traces values are usage errors naming the option", 
 TEST_CASE("study HDF5: Ctrl-C writes a whole file of the days finished", "[study_hdf5]") {
     Fixture fx("interrupt");
     const fs::path out = fx.dir / "study.h5";
-    const std::string exe = KNOCKON_EXE, scenario = fx.scenario.string(), path = out.string();
-    const pid_t pid = ::fork();
-    REQUIRE(pid >= 0);
-    if (pid == 0) {
-        const std::string log = (fx.dir / "child.out").string();
-        std::freopen(log.c_str(), "w", stdout);
-        std::freopen("/dev/null", "w", stderr);
-        ::execl(exe.c_str(), exe.c_str(), "simulate", scenario.c_str(), "--replications", "10000000", "--threads", "2",
-                "--traces", "sample:10000", "--out", path.c_str(), static_cast<char*>(nullptr));
-        ::_exit(127);
-    }
-    // The temporary file exists once the Ctrl-C handler is in place and the days are running.
-    const fs::path temporary = out.string() + ".partial-" + std::to_string(pid);
-    const auto deadline = std::chrono::steady_clock::now() + std::chrono::seconds(30);
-    while (!fs::exists(temporary) && std::chrono::steady_clock::now() < deadline)
-        std::this_thread::sleep_for(std::chrono::milliseconds(10));
-    const bool started = fs::exists(temporary);
-    std::this_thread::sleep_for(std::chrono::milliseconds(300));
-    ::kill(pid, SIGINT);
-    int status = 0;
-    ::waitpid(pid, &status, 0);
-    REQUIRE(started);
-    REQUIRE(WIFEXITED(status));
-    CHECK(WEXITSTATUS(status) == 130);  // the shell's code for an interrupted command
+    const clitest::Interrupted run = clitest::interrupt_knockon(
+        {"simulate", fx.scenario.string(), "--replications", "10000000", "--threads", "2", "--traces", "sample:10000",
+         "--out", out.string()},
+        out, fx.dir / "child.out", "/dev/null");
+    REQUIRE(run.started);
+    REQUIRE(WIFEXITED(run.status));
+    CHECK(WEXITSTATUS(run.status) == 130);  // the shell's code for an interrupted command
     REQUIRE(fs::exists(out));
-    CHECK_FALSE(fs::exists(temporary));
+    CHECK_FALSE(fs::exists(run.temporary));
 
     Reader f(out);
     CHECK(f.number_attr<std::uint8_t>("/", "partial", H5T_NATIVE_UINT8) == 1);
