@@ -5,10 +5,12 @@
                      [--scratch DIR] [--window-size W,H] [--screenshot-out PNG]
     check_reports.py --self-test [--scratch DIR]
 
-Without --page it builds the demo's plan report (knockon report scenarios/demo.yaml -o
-SCRATCH/plan.html) and checks it against the "plan" preset below; each --page adds a file of your
-own, checked against a preset name or a list of CSS selectors. --screenshot-out keeps the demo
-report's screenshot (the README's picture). --self-test feeds the checker deliberately broken
+With --knockon it builds the demo's plan report (knockon report scenarios/demo.yaml -o
+SCRATCH/plan.html) and a small demo study's report (simulate --replications 20 --traces sample:4
+--out SCRATCH/study.h5, then report SCRATCH/study.h5) and checks them against the "plan" and
+"study" presets below; each --page adds a file of your own, checked against a preset name or a
+list of CSS selectors. --screenshot-out keeps the demo study report's screenshot (the README's
+picture). --self-test feeds the checker deliberately broken
 pages and fails unless it catches every one.
 
 Exit status: 0 passed, 1 failed (Chromium missing included), 77 skipped because
@@ -29,9 +31,8 @@ from page_check import Expect, check_page
 ROOT = pathlib.Path(__file__).resolve().parents[2]
 SKIPPED = 77
 
-# What each kind of report must show, by the classes and ids tools/io/html_report.cpp and
-# tools/io/plan_charts.cpp write.  The study report (knockon report STUDY.h5) gets its own entry
-# here when it lands, and a builder in demo_reports() below.
+# What each kind of report must show, by the classes and ids tools/io/html_report.cpp,
+# tools/io/plan_charts.cpp, tools/io/results_report.cpp and tools/io/result_charts.cpp write.
 PRESETS = {
     "plan": Expect(
         selectors=[
@@ -44,6 +45,32 @@ PRESETS = {
             "section#capacity svg.knockon-chart.capacity",
             "svg.knockon-chart.capacity .cap-bar",
             "svg.knockon-chart.capacity .cap-limit",
+            "section#buffers table",
+            "footer",
+        ],
+        texts=[
+            ("div.caution", "Planning estimates only"),
+            ("div.caution", "licensed signalling engineers"),
+            ("footer", "Planning estimates only"),
+        ],
+        min_colours=16,
+        min_ink_share=0.03,
+    ),
+    # knockon report STUDY.h5: the plan's sections plus the results of the study, with the as-run
+    # paths of a traced day over the planned ones.
+    "study": Expect(
+        selectors=[
+            "div.caution",
+            "section#results table",
+            "section#time-distance svg.knockon-chart.time-distance",
+            "svg.knockon-chart.time-distance .train-path",
+            "svg.knockon-chart.time-distance .asrun-path",
+            "svg.knockon-chart.time-distance .block",
+            "section#delays svg.knockon-chart",
+            "section#delays svg.knockon-chart .bar",
+            "section#delays svg.knockon-chart .ci-whisker",
+            "section#delay-growth svg.knockon-chart.hbars .hbar",
+            "section#capacity svg.knockon-chart.capacity .cap-bar",
             "section#buffers table",
             "footer",
         ],
@@ -76,11 +103,12 @@ def demo_reports(knockon, scratch):
     plan = scratch / "plan.html"
     run([knockon, "report", "scenarios/demo.yaml", "-o", shown(plan)])
     yield plan, "plan"
-    # Hook for the study report: once `knockon report STUDY.h5` exists, build it here, e.g.
-    #   run([knockon, "simulate", demo, "--replications", "20", "--out", str(scratch / "study.h5")])
-    #   run([knockon, "report", str(scratch / "study.h5"), "-o", str(scratch / "study.html")])
-    #   yield scratch / "study.html", "study"
-    # with a "study" entry in PRESETS.
+    # The README's study: a small one here (20 days, 4 traced), the same commands.
+    h5, study = scratch / "study.h5", scratch / "study.html"
+    run([knockon, "simulate", "scenarios/demo.yaml", "--replications", "20", "--traces", "sample:4",
+         "--out", shown(h5)])
+    run([knockon, "report", shown(h5), "-o", shown(study)])
+    yield study, "study"
 
 
 def expectation(spec):
@@ -109,7 +137,7 @@ def main():
                         help="FILE.html then a preset name or CSS selectors; repeatable")
     parser.add_argument("--scratch", help="working directory (emptied first; default: a temporary one)")
     parser.add_argument("--window-size", default="1400,2000", help="browser window W,H in px")
-    parser.add_argument("--screenshot-out", help="keep the demo plan report's screenshot here (PNG)")
+    parser.add_argument("--screenshot-out", help="keep the demo study report's screenshot here (PNG)")
     parser.add_argument("--chromium", help="browser executable (default: $CHROMIUM or chromium)")
     parser.add_argument("--self-test", action="store_true", help="check the checker with broken pages")
     args = parser.parse_args()
@@ -131,13 +159,15 @@ def main():
         status = self_test.run(chromium, scratch / "self_test")
     else:
         pages = [(pathlib.Path(spec[0]), expectation(spec[1:])) for spec in args.page]
+        keep_at = None
         if args.knockon:
             knockon = str(pathlib.Path(args.knockon).resolve())
-            pages = [(f, PRESETS[p]) for f, p in demo_reports(knockon, scratch)] + pages
+            demo = [(f, PRESETS[p]) for f, p in demo_reports(knockon, scratch)]
+            keep_at = len(demo) - 1 if args.screenshot_out else None   # the study report
+            pages = demo + pages
         if not pages:
             parser.error("nothing to check: give --knockon, --page or --self-test")
-        keep = args.screenshot_out if args.knockon else None
-        status = check_pages(chromium, pages, scratch, window, keep)
+        status = check_pages(chromium, pages, scratch, window, args.screenshot_out, keep_at)
     if status:
         print(f"pages, DOM dumps and screenshots are in {scratch}")
     elif not args.scratch:
@@ -145,8 +175,8 @@ def main():
     return status
 
 
-def check_pages(chromium, pages, scratch, window, screenshot_out):
-    """Checks each (file, Expect); keeps the first page's screenshot as `screenshot_out` if it passed."""
+def check_pages(chromium, pages, scratch, window, screenshot_out=None, keep_at=None):
+    """Checks each (file, Expect); keeps page keep_at's screenshot as `screenshot_out` if it passed."""
     failed = 0
     names = [html.stem for html, _ in pages]
     for i, (html, expect) in enumerate(pages):
@@ -159,7 +189,7 @@ def check_pages(chromium, pages, scratch, window, screenshot_out):
                 print(f"  [{f.kind}] {f.message}")
             continue
         print(f"ok   {html}: {result.summary}")
-        if i == 0 and screenshot_out:
+        if i == keep_at and screenshot_out:
             tmp = pathlib.Path(screenshot_out + ".tmp")
             shutil.copyfile(result.screenshot, tmp)
             os.replace(tmp, screenshot_out)   # whole or absent
