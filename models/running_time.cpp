@@ -264,6 +264,10 @@ LegGrid make_leg_grid(const TrainType& type, const TrainPath& path, double s_sta
     return g;
 }
 
+namespace {
+constexpr double kNoPoint = -std::numeric_limits<double>::infinity();
+}  // namespace
+
 long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, double s_start, double v_start,
                       double s_end, bool stop_at_end, const RunOptions& options, const Rejoin* rejoin) {
     check_type(type);
@@ -313,6 +317,11 @@ long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, d
     const bool end_on_point = std::fabs(s_end - g.at(k0 + cells)) <= tol;
     if (!end_on_point) v[cells] = std::min(v[cells], v[cells - 1]);
     auto at = [&](std::size_t i) { return i == 0 ? s_start : i >= cells ? s_end : tr.point(i); };
+    // Cell lengths: the grid step exactly, except the (possibly shortened) first and last cells.
+    // Exact steps keep the plan and a motion integrated again on its grid in step to the last
+    // bit, and let the memo below recognise a cruise.
+    const double first_length = at(1) - at(0), last_length = at(cells) - at(cells - 1);
+    auto length = [&](std::size_t i) { return i == 0 ? first_length : i + 1 == cells ? last_length : g.step; };
     if (options.slow_factor < 1.0 && options.slow_to > options.slow_from)
         for (std::size_t i = 0; i <= cells; ++i)
             if (at(i) >= options.slow_from && at(i) < options.slow_to) v[i] *= options.slow_factor;
@@ -327,7 +336,7 @@ long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, d
     for (std::size_t i = cells; i-- > 0;) {
         const double v1 = v[i + 1];
         if (v[i] <= v1) continue;
-        const double ds = at(i + 1) - at(i);
+        const double ds = length(i);
         const double w1 = v1 * v1;
         const double w_mid = w1 + braking_deceleration(type, v1, gradient[i]) * ds;
         const double w0 = w1 + 2.0 * braking_deceleration(type, std::sqrt(w_mid), gradient[i]) * ds;
@@ -343,7 +352,7 @@ long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, d
     // cell after cell, and step_w is a pure function of them.
     double memo_v = -1.0, memo_g = 0.0, memo_ds = 0.0, memo_w = 0.0;
     for (std::size_t i = 0; i < cells; ++i) {
-        const double ds = at(i + 1) - at(i);
+        const double ds = length(i);
         const double v0 = v[i];
         const double envelope = v[i + 1];
         if (v0 != memo_v || gradient[i] != memo_g || ds != memo_ds) {
@@ -369,8 +378,8 @@ long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, d
         tr.t[i + 1] = tr.t[i] + 2.0 * ds / (v0 + v1);
         if (rejoin && i + 1 < cells) {
             const std::size_t k = k0 + i + 1;
-            const double q = at(i + 1);
-            if (q >= rejoin->after && q < rejoin->before && k < rejoin->leg->v.size() && v1 == rejoin->leg->v[k]) {
+            const double q = k < rejoin->leg->v.size() && v1 == rejoin->leg->v[k] ? at(i + 1) : kNoPoint;
+            if (q >= rejoin->after && q < rejoin->before) {
                 v.resize(i + 2);
                 tr.t.resize(i + 2);
                 tr.s_end = q;
