@@ -1,83 +1,31 @@
 #include "sim/study.hpp"
 
 #include <algorithm>
-#include <cmath>
 #include <map>
 #include <mutex>
 #include <stdexcept>
+#include <string>
 #include <thread>
 
-#include <boost/math/distributions/students_t.hpp>
-
-#include "sim/day_summary.hpp"
-
 namespace knockon {
-
-ReplicationStats replication_stats(const SimModel& model, const SimResult& day, const InjectedDelays& delays,
-                                   const std::vector<double>& thresholds, std::uint32_t replication) {
-    ReplicationStats r;
-    r.replication = replication;
-    r.deadlocked = day.deadlock.deadlocked;
-    r.events = day.events;
-    r.block_passages = day.block_passages;
-    const DaySummary d = summarize_day(day, thresholds);
-    r.mean_arrival_delay = d.mean_arrival_delay;
-    r.punctuality = d.punctuality;
-    const std::size_t n = day.train_ids.size();
-    r.train_primary.assign(n, 0.0f);
-    r.train_knock_on.assign(n, 0.0f);
-    r.train_final_delay.assign(n, 0.0f);
-    for (const TrainDelay& td : d.trains_by_delay) r.train_final_delay[td.train] = static_cast<float>(td.final_delay);
-    for (std::size_t t = 0; t < n; ++t) {
-        double p = t < delays.entry.size() ? delays.entry[t] : 0.0;
-        for (const auto* v : {&delays.dwell, &delays.running})
-            if (t < v->size())
-                for (double x : (*v)[t]) p += x;
-        r.train_primary[t] = static_cast<float>(p);
-        r.total_primary += p;
-    }
-    r.arrival_delay.reserve(day.timing.size());
-    r.knock_on.reserve(day.timing.size());
-    for (const TimingRecord& tr : day.timing) {
-        r.arrival_delay.push_back(static_cast<float>(tr.arrival_delay));
-        r.knock_on.push_back(static_cast<float>(tr.knock_on));
-        r.train_knock_on[tr.train] += static_cast<float>(tr.knock_on);
-        r.total_knock_on += tr.knock_on;
-    }
-    for (const HoldRecord& h : day.holds) r.held[h.signal] += h.to - h.from;
-    r.section_blocked.assign(day.section_names.size(), 0.0f);
-    for (const SectionRecord& s : day.sections)
-        if (!std::isnan(s.released) && !std::isnan(s.locked))
-            r.section_blocked[s.section] += static_cast<float>(s.released - s.locked);
-    // As-run buffers on the planned critical sections.
-    std::map<std::pair<std::uint32_t, std::uint32_t>, const SectionRecord*> use;   // (train, section)
-    for (const SectionRecord& s : day.sections) use.emplace(std::make_pair(s.train, s.section), &s);
-    for (const SimModel::BufferPair& bp : model.buffer_pairs()) {
-        auto l = use.find({bp.leader, bp.section}), f = use.find({bp.follower, bp.section});
-        double b = std::nanf("");
-        if (l != use.end() && f != use.end()) b = f->second->locked - l->second->released;
-        r.buffer.push_back(static_cast<float>(b));
-    }
-    return r;
-}
 
 StudyResult run_study(const SimModel& model, const StudyOptions& options) {
     if (!options.draw) throw std::invalid_argument("run_study: no primary-delay draw given");
     if (options.replications == 0) throw std::invalid_argument("run_study: at least one replication is needed");
     StudyResult out;
+    out.figures = StudyFigures(options.thresholds, options.replications);
     const unsigned threads = std::max(1u, options.threads);
     const std::uint32_t cap = options.replications;
     const std::uint32_t batch = std::max<std::uint32_t>(1, options.batch);
 
-    std::vector<ReplicationStats> done;
     std::map<std::uint32_t, SimResult> traces;   // finished but not yet handed over, by replication
     std::uint32_t next_trace = 0;
     std::mutex trace_mutex;
 
-    auto run_one = [&](std::uint32_t k, ReplicationStats& slot) {
+    auto run_one = [&](std::uint32_t k, ReplicationFigures& slot) {
         InjectedDelays delays = options.draw(k);
         SimResult day = simulate_day(model, delays, options.sim);
-        slot = replication_stats(model, day, delays, options.thresholds, k);
+        slot = replication_figures(model, day, delays, options.thresholds, k);
         if (k == 0) {
             std::lock_guard<std::mutex> lock(trace_mutex);
             out.train_ids = day.train_ids;
@@ -95,7 +43,7 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
         // One batch: a fixed number of replications whatever the thread count, so that stopping
         // decisions (until_ci, Ctrl-C) fall on the same replication for any --threads.
         const std::uint32_t end = std::min(cap, started + batch);
-        std::vector<ReplicationStats> slots(end - started);
+        std::vector<ReplicationFigures> slots(end - started);
         std::atomic<std::uint32_t> next{started};
         std::exception_ptr failure;
         std::mutex failure_mutex;
@@ -114,7 +62,12 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
         worker();
         for (std::thread& th : pool) th.join();
         if (failure) std::rethrow_exception(failure);
-        for (ReplicationStats& r : slots) done.push_back(std::move(r));
+        // Fold the batch in on this thread, in replication order: the running sums then add up in
+        // the same order whatever the thread count.  The day's detail goes with its slot.
+        for (ReplicationFigures& r : slots) {
+            out.figures.add(r);
+            out.replications.push_back(std::move(r.stats));
+        }
         started = end;
 
         // Hand over traces in replication order.
@@ -135,67 +88,14 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
             out.partial = started < cap;
             break;
         }
-        if (options.until_ci > 0.0 && done.size() >= 10) {
+        if (options.until_ci > 0.0 && out.replications.size() >= 10) {
             std::vector<double> k;
-            for (const ReplicationStats& r : done) k.push_back(r.total_knock_on);
+            k.reserve(out.replications.size());
+            for (const ReplicationStats& r : out.replications) k.push_back(r.total_knock_on);
             if (estimate_mean(k).half_width < options.until_ci) break;
         }
     }
-    out.replications = std::move(done);
     return out;
-}
-
-Estimate estimate_mean(const std::vector<double>& values) {
-    Estimate e;
-    e.n = values.size();
-    if (values.empty()) return e;
-    double sum = 0.0;
-    for (double v : values) sum += v;
-    e.mean = sum / static_cast<double>(e.n);
-    e.lower = e.upper = e.mean;
-    if (e.n < 2) return e;
-    double ss = 0.0;
-    for (double v : values) ss += (v - e.mean) * (v - e.mean);
-    const double sd = std::sqrt(ss / static_cast<double>(e.n - 1));
-    boost::math::students_t t(static_cast<double>(e.n - 1));
-    e.half_width = boost::math::quantile(t, 0.975) * sd / std::sqrt(static_cast<double>(e.n));
-    e.lower = e.mean - e.half_width;
-    e.upper = e.mean + e.half_width;
-    return e;
-}
-
-Estimate estimate_share(std::size_t successes, std::size_t n) {
-    Estimate e;
-    e.n = n;
-    if (n == 0) return e;
-    // Wilson score interval (z = 1.96): stays inside [0, 1] and is sound near 0 and 1.
-    const double z = 1.959963984540054, nn = static_cast<double>(n);
-    const double p = static_cast<double>(successes) / nn;
-    const double denom = 1.0 + z * z / nn;
-    const double centre = (p + z * z / (2.0 * nn)) / denom;
-    const double half = z * std::sqrt(p * (1.0 - p) / nn + z * z / (4.0 * nn * nn)) / denom;
-    e.mean = p;
-    e.half_width = half;
-    e.lower = centre - half;
-    e.upper = centre + half;
-    return e;
-}
-
-Quantiles quantiles(std::vector<double> v) {
-    Quantiles q;
-    if (v.empty()) return q;
-    std::sort(v.begin(), v.end());
-    auto at = [&](double p) {
-        const double pos = p * static_cast<double>(v.size() - 1);
-        const std::size_t lo = static_cast<std::size_t>(std::floor(pos));
-        const std::size_t hi = std::min(lo + 1, v.size() - 1);
-        return v[lo] + (pos - static_cast<double>(lo)) * (v[hi] - v[lo]);
-    };
-    q.p50 = at(0.5);
-    q.p90 = at(0.9);
-    q.p95 = at(0.95);
-    q.max = v.back();
-    return q;
 }
 
 StudySummary summarize_study(const SimModel& model, const StudyResult& study, const std::vector<double>& thresholds) {
@@ -204,6 +104,14 @@ StudySummary summarize_study(const SimModel& model, const StudyResult& study, co
     s.replications = reps.size();
     s.thresholds = thresholds;
     if (reps.empty()) return s;
+    const StudyFigures& fig = study.figures;
+    if (fig.days() != reps.size())
+        throw std::invalid_argument("summarize_study: the study's figures hold " + std::to_string(fig.days()) +
+                                    " days but it has " + std::to_string(reps.size()) + " replications");
+    if (fig.thresholds() != thresholds)
+        throw std::invalid_argument("summarize_study: the punctuality thresholds differ from those the study ran with");
+
+    // Per-day scalars: two passes over the kept days.
     auto collect = [&](auto field) {
         std::vector<double> v;
         v.reserve(reps.size());
@@ -220,67 +128,48 @@ StudySummary summarize_study(const SimModel& model, const StudyResult& study, co
 
     // Per timing point.
     const auto& tmpl = study.timing_template;
+    if (tmpl.size() != fig.timing().size())
+        throw std::invalid_argument("summarize_study: the timing template does not match the study's timing records");
     for (std::size_t k = 0; k < tmpl.size(); ++k) {
+        const TimingRecordFigures& f = fig.timing()[k];
         TimingPointStats tp;
         tp.train = tmpl[k].train;
         tp.station = tmpl[k].station;
         tp.stops = tmpl[k].stops;
-        std::vector<double> delays, knock;
-        std::vector<std::size_t> within_count(thresholds.size(), 0);
-        for (const ReplicationStats& r : reps) {
-            knock.push_back(r.knock_on[k]);
-            const double d = r.arrival_delay[k];
-            if (std::isnan(d)) continue;
-            delays.push_back(std::max(0.0, d));
+        tp.reached = f.reached();
+        tp.knock_on = f.knock_on.estimate();
+        if (tp.reached > 0) {
+            tp.delay = f.delay.estimate();
+            tp.delay_quantiles = quantiles(f.delays());
             for (std::size_t i = 0; i < thresholds.size(); ++i)
-                if (within(d, thresholds[i])) ++within_count[i];
-        }
-        tp.reached = delays.size();
-        tp.knock_on = estimate_mean(knock);
-        if (!delays.empty()) {
-            tp.delay = estimate_mean(delays);
-            tp.delay_quantiles = quantiles(delays);
-            for (std::size_t i = 0; i < thresholds.size(); ++i)
-                tp.punctuality.push_back(estimate_share(within_count[i], delays.size()));
+                tp.punctuality.push_back(estimate_share(f.within[i], tp.reached));
         }
         s.timing_points.push_back(std::move(tp));
     }
     // Per train.
-    for (std::uint32_t t = 0; t < study.train_ids.size(); ++t) {
-        TrainStats ts;
-        ts.train = t;
-        ts.primary = estimate_mean(collect([&](const ReplicationStats& r) { return r.train_primary[t]; }));
-        ts.knock_on = estimate_mean(collect([&](const ReplicationStats& r) { return r.train_knock_on[t]; }));
-        ts.final_delay = estimate_mean(collect([&](const ReplicationStats& r) { return r.train_final_delay[t]; }));
-        s.trains.push_back(ts);
+    for (std::uint32_t t = 0; t < fig.trains().size(); ++t) {
+        const TrainFigures& f = fig.trains()[t];
+        s.trains.push_back({t, f.primary.estimate(), f.knock_on.estimate(), f.final_delay.estimate()});
     }
     // Signals where trains stood, largest first.
-    std::map<std::string, std::vector<double>> held;
-    for (const ReplicationStats& r : reps)
-        for (const auto& [sig, secs] : r.held) held[sig];
-    for (auto& [sig, v] : held)
-        for (const ReplicationStats& r : reps) {
-            auto it = r.held.find(sig);
-            v.push_back(it == r.held.end() ? 0.0 : it->second);
-        }
-    for (auto& [sig, v] : held) s.signals.push_back({sig, estimate_mean(v)});
+    for (const auto& [signal, held] : fig.held()) s.signals.push_back({signal, held.estimate()});
     std::stable_sort(s.signals.begin(), s.signals.end(),
                      [](const SignalStats& a, const SignalStats& b) { return a.held.mean > b.held.mean; });
     // As-run blocked share of the day per section.
-    for (std::size_t k = 0; k < study.section_names.size(); ++k)
-        s.section_blocked_share.push_back(
-            estimate_mean(collect([&](const ReplicationStats& r) { return r.section_blocked[k] / 86400.0; })));
-    for (std::size_t k = 0; k < model.buffer_pairs().size(); ++k) {
-        std::vector<double> v;
-        for (const ReplicationStats& r : reps)
-            if (k < r.buffer.size() && !std::isnan(r.buffer[k])) v.push_back(r.buffer[k]);
-        if (v.empty()) continue;
+    for (const RunningMean& m : fig.section_blocked_share()) s.section_blocked_share.push_back(m.estimate());
+    // As-run buffers, thinnest first.
+    for (std::size_t k = 0; k < fig.buffers().size() && k < model.buffer_pairs().size(); ++k) {
+        const BufferFigures& f = fig.buffers()[k];
+        const std::size_t n = f.as_run.count();
+        if (n == 0) continue;
+        const std::vector<double> lowest = f.lowest.sorted();
+        const std::size_t at = buffer_p10_index(n);
+        if (at >= lowest.size()) throw std::logic_error("summarize_study: too few buffer values kept for the 10th percentile");
         BufferStats b;
         b.pair = k;
         b.planned = model.buffer_pairs()[k].planned_buffer;
-        b.as_run = estimate_mean(v);
-        std::sort(v.begin(), v.end());
-        b.p10 = v[static_cast<std::size_t>(0.1 * static_cast<double>(v.size() - 1))];
+        b.as_run = f.as_run.estimate();
+        b.p10 = lowest[at];
         s.buffers.push_back(b);
     }
     std::stable_sort(s.buffers.begin(), s.buffers.end(), [](const BufferStats& a, const BufferStats& b) {

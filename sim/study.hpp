@@ -5,33 +5,14 @@
 #include <atomic>
 #include <cstdint>
 #include <functional>
-#include <map>
 #include <string>
 #include <vector>
 
+#include "sim/estimates.hpp"
 #include "sim/simulation.hpp"
+#include "sim/study_figures.hpp"
 
 namespace knockon {
-
-// What one simulated day contributes to the study.
-struct ReplicationStats {
-    std::uint32_t replication = 0;
-    bool deadlocked = false;
-    std::uint64_t events = 0, block_passages = 0;
-    double total_primary = 0.0;      // primary delay injected into all trains [s]
-    double total_knock_on = 0.0;     // knock-on (secondary) delay of all trains [s]
-    double mean_arrival_delay = 0.0; // over arrivals and passes, early counted as 0 [s]
-    std::vector<double> punctuality; // share of arrivals within each threshold
-    std::vector<float> arrival_delay;   // per timing record (SimResult::timing order) [s]; NaN: not reached
-    std::vector<float> knock_on;        // per timing record [s]
-    std::vector<float> train_primary, train_knock_on, train_final_delay;   // per train [s]
-    std::map<std::string, double> held;   // signal id -> time trains stood at it [s]
-    std::vector<float> section_blocked;   // per section: as-run blocked time [s]
-    std::vector<float> buffer;            // per SimModel::buffer_pairs(): as-run buffer [s]
-};
-
-ReplicationStats replication_stats(const SimModel& model, const SimResult& day, const InjectedDelays& delays,
-                                   const std::vector<double>& thresholds, std::uint32_t replication);
 
 struct StudyOptions {
     std::uint32_t replications = 100;
@@ -57,26 +38,12 @@ struct StudyResult {
     bool partial = false;                         // stopped before the planned replications
     std::vector<std::string> train_ids, section_names;
     std::vector<TimingRecord> timing_template;    // scheduled times, stations (from replication 0)
+    StudyFigures figures;                         // the other across-day figures, of the same days
 };
 
 StudyResult run_study(const SimModel& model, const StudyOptions& options);
 
-// ---- Statistics across replications ----------------------------------------------------------
-
-struct Estimate {
-    double mean = 0.0;
-    double half_width = 0.0;         // of the 95 % confidence interval; 0 with one value
-    double lower = 0.0, upper = 0.0; // the interval itself (not always symmetric: see shares)
-    std::size_t n = 0;
-};
-Estimate estimate_mean(const std::vector<double>& values);
-// Share of successes with the 95 % Wilson score interval (lower, upper); half_width is half its width.
-Estimate estimate_share(std::size_t successes, std::size_t n);
-
-struct Quantiles {
-    double p50 = 0.0, p90 = 0.0, p95 = 0.0, max = 0.0;
-};
-Quantiles quantiles(std::vector<double> values);   // linear interpolation between order statistics
+// ---- Statistics across replications (Estimate, Quantiles: sim/estimates.hpp) ----------------
 
 struct TimingPointStats {
     std::uint32_t train = 0;
@@ -121,6 +88,8 @@ struct StudySummary {
     std::vector<BufferStats> buffers;   // thinnest first (smallest mean as-run buffer)
 };
 
+// `thresholds` must be those the study ran with (StudyOptions::thresholds); otherwise
+// std::invalid_argument.
 StudySummary summarize_study(const SimModel& model, const StudyResult& study, const std::vector<double>& thresholds);
 
 }  // namespace knockon

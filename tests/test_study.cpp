@@ -1,7 +1,8 @@
 // The Monte Carlo study runner (sim/study): knock-on of a chain of trains against the max-plus
 // recursion, determinism across thread counts and replication counts, --until-ci stopping,
-// the statistics helpers against closed forms and published values, and the accounting of
-// primary and knock-on delay.
+// the statistics helpers against closed forms and published values, the accounting of
+// primary and knock-on delay, and the figures gathered day by day against two passes over the
+// same days.
 #include <catch2/catch.hpp>
 
 #include <algorithm>
@@ -70,7 +71,6 @@ StudyOptions drawn_study(const Loaded& f, std::uint64_t seed, std::uint32_t repl
 // Bitwise equality, so that NaN (a timing point not reached) equals NaN and 0.0 differs from -0.0:
 // "identical" means identical bytes.
 bool same_bits(double a, double b) { return std::bit_cast<std::uint64_t>(a) == std::bit_cast<std::uint64_t>(b); }
-bool same_bits(float a, float b) { return std::bit_cast<std::uint32_t>(a) == std::bit_cast<std::uint32_t>(b); }
 template <class T>
 bool same_bits(const std::vector<T>& a, const std::vector<T>& b) {
     if (a.size() != b.size()) return false;
@@ -90,18 +90,6 @@ void require_identical(const ReplicationStats& a, const ReplicationStats& b) {
     REQUIRE(same_bits(a.total_knock_on, b.total_knock_on));
     REQUIRE(same_bits(a.mean_arrival_delay, b.mean_arrival_delay));
     REQUIRE(same_bits(a.punctuality, b.punctuality));
-    REQUIRE(same_bits(a.arrival_delay, b.arrival_delay));
-    REQUIRE(same_bits(a.knock_on, b.knock_on));
-    REQUIRE(same_bits(a.train_primary, b.train_primary));
-    REQUIRE(same_bits(a.train_knock_on, b.train_knock_on));
-    REQUIRE(same_bits(a.train_final_delay, b.train_final_delay));
-    REQUIRE(a.held.size() == b.held.size());
-    for (auto ia = a.held.begin(), ib = b.held.begin(); ia != a.held.end(); ++ia, ++ib) {
-        REQUIRE(ia->first == ib->first);
-        REQUIRE(same_bits(ia->second, ib->second));
-    }
-    REQUIRE(same_bits(a.section_blocked, b.section_blocked));
-    REQUIRE(same_bits(a.buffer, b.buffer));
 }
 
 void flatten(const Estimate& e, std::vector<double>& out) {
@@ -583,6 +571,63 @@ TEST_CASE("quantiles: linear interpolation between order statistics", "[study][s
     CHECK(quantiles({}).max == 0.0);
 }
 
+TEST_CASE("RunningMean: the estimate of estimate_mean, one value at a time", "[study][stats]") {
+    auto running = [](const std::vector<double>& values) {
+        RunningMean m;
+        for (double v : values) m.add(v);
+        return m.estimate();
+    };
+    // 1..10: mean 5.5, sum of squared deviations n(n^2 - 1)/12 = 82.5 (closed form).
+    std::vector<double> v;
+    for (int i = 1; i <= 10; ++i) v.push_back(i);
+    const double t9 = boost::math::quantile(boost::math::students_t(9.0), 0.975);
+    const Estimate e = running(v);
+    CHECK(e.n == 10);
+    CHECK(e.mean == 5.5);
+    CHECK(e.half_width == Approx(t9 * std::sqrt(82.5 / 9.0) / std::sqrt(10.0)).epsilon(1e-14));
+    CHECK(same_bits(e.mean, estimate_mean(v).mean));   // the same sum over the same n
+
+    // Small spread on a large mean, where the sum of squares would cancel (sum x^2 is about 1e17,
+    // whose rounding step is 16): 1e8 + 1..10 has the same spread as 1..10 (closed form).
+    std::vector<double> far;
+    for (double x : v) far.push_back(1e8 + x);
+    const Estimate f = running(far);
+    CHECK(f.mean == 1e8 + 5.5);
+    CHECK(f.half_width == Approx(e.half_width).epsilon(1e-12));
+    CHECK(f.half_width == Approx(estimate_mean(far).half_width).epsilon(1e-12));
+
+    // Uneven, unsorted values: against the two-pass estimate (mean identical, half-width to a few
+    // units in the last place: Welford's update and the two-pass sum round differently).
+    std::vector<double> uneven;
+    for (int i = 0; i < 1000; ++i) uneven.push_back(std::fmod(i * 7919.0, 613.0) * 0.37 + (i % 3 == 0 ? 3600.0 : 0.0));
+    const Estimate u = running(uneven), u2 = estimate_mean(uneven);
+    CHECK(same_bits(u.mean, u2.mean));
+    CHECK(u.half_width == Approx(u2.half_width).epsilon(1e-13));
+    CHECK(u.lower == Approx(u2.lower).epsilon(1e-13));
+    CHECK(u.upper == Approx(u2.upper).epsilon(1e-13));
+    CHECK(u.n == u2.n);
+
+    // Constant whole seconds: exactly no spread, as the two-pass gives.
+    CHECK(running({300.0, 300.0, 300.0, 300.0}).half_width == 0.0);
+    // One value: no spread to estimate; none: all zero.
+    const Estimate one = running({42.0});
+    CHECK(one.mean == 42.0);
+    CHECK(one.half_width == 0.0);
+    CHECK(one.lower == 42.0);
+    CHECK(running({}).n == 0);
+    CHECK(running({}).mean == 0.0);
+
+    // zeros(k): the state k values of 0 leave, so a figure first seen on day k+1 counts the days
+    // before it as 0.
+    RunningMean late = RunningMean::zeros(3);
+    late.add(12.0);
+    late.add(0.0);
+    const Estimate l = late.estimate(), l2 = running({0.0, 0.0, 0.0, 12.0, 0.0});
+    CHECK(l.n == 5);
+    CHECK(same_bits(l.mean, l2.mean));
+    CHECK(same_bits(l.half_width, l2.half_width));
+}
+
 // ---- 5. Knock-on accounting ------------------------------------------------------------------
 
 TEST_CASE("Knock-on: a late leader's follower gathers knock-on but no primary delay", "[study][knock_on]") {
@@ -600,38 +645,43 @@ TEST_CASE("Knock-on: a late leader's follower gathers knock-on but no primary de
     };
     const StudyResult r = run_study(*f.model, opt);
     REQUIRE(r.replications.size() == 3);
-    // The same delays every day: the same day every day, apart from its number.
+    // The same delays every day: the same day every day, apart from its number, and the day
+    // simulated here on its own.
+    const InjectedDelays delays = opt.draw(0);
+    const ReplicationFigures s =
+        replication_figures(*f.model, simulate_day(*f.model, delays, opt.sim), delays, opt.thresholds, 0);
     for (ReplicationStats other : r.replications) {
         other.replication = 0;
-        require_identical(r.replications[0], other);
+        require_identical(s.stats, other);
     }
-    const ReplicationStats& s = r.replications[0];
     const std::size_t p1 = f.train_index("P1"), p2 = f.train_index("P2");
-    CHECK(s.total_primary == 300.0);
+    CHECK(s.stats.total_primary == 300.0);
     CHECK(s.train_primary[p1] == 300.0f);
     CHECK(s.train_primary[p2] == 0.0f);
     CHECK(s.train_knock_on[p1] == 0.0f);   // its own late start is primary, not knock-on
     CHECK(s.train_knock_on[p2] > 100.0f);
     double sum = 0.0;
     for (float k : s.train_knock_on) sum += k;
-    CHECK(s.total_knock_on == Approx(sum).epsilon(1e-6));
+    CHECK(s.stats.total_knock_on == Approx(sum).epsilon(1e-6));
     double per_point = 0.0;
     for (float k : s.knock_on) per_point += k;
-    CHECK(s.total_knock_on == Approx(per_point).epsilon(1e-6));
+    CHECK(s.stats.total_knock_on == Approx(per_point).epsilon(1e-6));
 
     const StudySummary sum_up = summarize_study(*f.model, r, opt.thresholds);
     CHECK(sum_up.total_primary.mean == 300.0);
     CHECK(sum_up.total_primary.half_width == 0.0);   // every day the same
-    CHECK(sum_up.knock_on_ratio == Approx(s.total_knock_on / 300.0));
+    CHECK(sum_up.knock_on_ratio == Approx(s.stats.total_knock_on / 300.0));
+    CHECK(sum_up.trains[p1].primary.mean == 300.0);
+    CHECK(sum_up.trains[p1].primary.half_width == 0.0);
     CHECK(sum_up.trains[p2].primary.mean == 0.0);
     CHECK(sum_up.trains[p2].knock_on.mean == Approx(s.train_knock_on[p2]));
 }
 
-TEST_CASE("Knock-on: replication_stats adds up the day's timing records", "[study][knock_on]") {
+TEST_CASE("Knock-on: replication_figures adds up the day's timing records", "[study][knock_on]") {
     Loaded f(kDelayedLine);
     const InjectedDelays d = draw_delays(f.scenario.delays, f.scenario.infrastructure, f.plan, 11, 4);
     const SimResult day = simulate_day(*f.model, d, SimOptions{});
-    const ReplicationStats s = replication_stats(*f.model, day, d, {180.0, 300.0}, 4);
+    const ReplicationFigures s = replication_figures(*f.model, day, d, {180.0, 300.0}, 4);
     double knock = 0.0;
     std::vector<double> per_train(f.plan.size(), 0.0);
     for (const TimingRecord& tr : day.timing) {
@@ -644,8 +694,9 @@ TEST_CASE("Knock-on: replication_stats adds up the day's timing records", "[stud
         for (double x : v) primary += x;
     for (const auto& v : d.running)
         for (double x : v) primary += x;
-    CHECK(s.total_knock_on == Approx(knock).epsilon(1e-12));
-    CHECK(s.total_primary == Approx(primary).epsilon(1e-12));
+    CHECK(s.stats.replication == 4);
+    CHECK(s.stats.total_knock_on == Approx(knock).epsilon(1e-12));
+    CHECK(s.stats.total_primary == Approx(primary).epsilon(1e-12));
     for (std::size_t t = 0; t < per_train.size(); ++t) CHECK(s.train_knock_on[t] == Approx(per_train[t]).epsilon(1e-5));
     CHECK(s.arrival_delay.size() == day.timing.size());
     CHECK(s.buffer.size() == f.model->buffer_pairs().size());
@@ -658,10 +709,200 @@ TEST_CASE("Knock-on: an undisturbed day has none at all", "[study][knock_on]") {
         const InjectedDelays none;
         const SimResult day = simulate_day(*f.model, none, SimOptions{});
         REQUIRE_FALSE(day.deadlock.deadlocked);
-        const ReplicationStats s = replication_stats(*f.model, day, none, {180.0, 300.0}, 0);
-        CHECK(s.total_primary == 0.0);
-        CHECK(s.total_knock_on == 0.0);   // exactly: losses below 0.5 s are not counted
+        const ReplicationFigures s = replication_figures(*f.model, day, none, {180.0, 300.0}, 0);
+        CHECK(s.stats.total_primary == 0.0);
+        CHECK(s.stats.total_knock_on == 0.0);   // exactly: losses below 0.5 s are not counted
         for (float k : s.knock_on) CHECK(k == 0.0f);
         CHECK(s.held.empty());
+    }
+}
+
+// ---- 6. Bounded memory: figures gathered day by day ------------------------------------------
+
+namespace {
+
+// A figure gathered day by day against the same figure from two passes over the kept days.  The
+// mean is the same sum in the same order over the same n: identical.  The half-width comes from
+// Welford's running sum of squared deviations instead of the two-pass one, so it may differ in
+// the last bits: a tight relative tolerance (1e-10; the days' spread here is far above rounding),
+// and a margin of 1e-12 of the mean for figures whose spread is itself rounding noise.
+void check_same_estimate(const Estimate& got, const Estimate& want) {
+    CHECK(got.n == want.n);
+    CHECK(same_bits(got.mean, want.mean));
+    const double margin = 1e-12 * std::abs(want.mean);
+    CHECK(got.half_width == Approx(want.half_width).epsilon(1e-10).margin(margin));
+    CHECK(got.lower == Approx(want.lower).epsilon(1e-10).margin(margin));
+    CHECK(got.upper == Approx(want.upper).epsilon(1e-10).margin(margin));
+}
+
+}  // namespace
+
+TEST_CASE("Study figures gathered day by day equal two passes over the same days", "[study][memory]") {
+    Loaded f(kDelayedLine);
+    StudyOptions opt = drawn_study(f, 5, 40, 1);
+    opt.batch = 7;   // several batches, the last one short
+    const StudyResult study = run_study(*f.model, opt);
+    const StudySummary s = summarize_study(*f.model, study, opt.thresholds);
+    REQUIRE(study.replications.size() == 40);
+    CHECK(study.figures.days() == 40);
+
+    // The days again, one by one, each kept whole.
+    std::vector<ReplicationFigures> days;
+    for (std::uint32_t k = 0; k < 40; ++k) {
+        const InjectedDelays d = opt.draw(k);
+        days.push_back(replication_figures(*f.model, simulate_day(*f.model, d, opt.sim), d, opt.thresholds, k));
+        require_identical(days.back().stats, study.replications[k]);
+    }
+    auto column = [&](auto value) {
+        std::vector<double> v;
+        for (const ReplicationFigures& day : days) v.push_back(value(day));
+        return v;
+    };
+
+    // Per timing record: knock-on over all days; delay (early as 0), quantiles and punctuality
+    // over the days reached.
+    REQUIRE(s.timing_points.size() == days[0].arrival_delay.size());
+    std::size_t some_late = 0, some_on_time = 0;
+    for (std::size_t k = 0; k < s.timing_points.size(); ++k) {
+        INFO("timing record " << k);
+        const TimingPointStats& tp = s.timing_points[k];
+        check_same_estimate(tp.knock_on, estimate_mean(column([k](const ReplicationFigures& d) { return d.knock_on[k]; })));
+        std::vector<double> delays;
+        std::vector<std::size_t> within_count(opt.thresholds.size(), 0);
+        for (const ReplicationFigures& day : days) {
+            const double d = day.arrival_delay[k];
+            if (std::isnan(d)) continue;
+            delays.push_back(std::max(0.0, d));
+            for (std::size_t i = 0; i < opt.thresholds.size(); ++i) within_count[i] += d < opt.thresholds[i] ? 1 : 0;
+        }
+        CHECK(tp.reached == delays.size());
+        if (delays.empty()) continue;
+        some_late += std::count_if(delays.begin(), delays.end(), [](double d) { return d > 0.0; }) > 0 ? 1 : 0;
+        some_on_time += std::count(delays.begin(), delays.end(), 0.0) > 0 ? 1 : 0;
+        check_same_estimate(tp.delay, estimate_mean(delays));
+        const Quantiles q = quantiles(delays);
+        CHECK(same_bits(std::vector<double>{tp.delay_quantiles.p50, tp.delay_quantiles.p90, tp.delay_quantiles.p95,
+                                            tp.delay_quantiles.max},
+                        std::vector<double>{q.p50, q.p90, q.p95, q.max}));
+        REQUIRE(tp.punctuality.size() == opt.thresholds.size());
+        for (std::size_t i = 0; i < opt.thresholds.size(); ++i) {
+            const Estimate w = estimate_share(within_count[i], delays.size());
+            CHECK(same_bits(std::vector<double>{tp.punctuality[i].mean, tp.punctuality[i].lower, tp.punctuality[i].upper},
+                            std::vector<double>{w.mean, w.lower, w.upper}));
+        }
+    }
+    // Not a trivial fixture: timing points late on some days and on time on others.
+    CHECK(some_late > 5);
+    CHECK(some_on_time > 5);
+
+    // Per train.
+    REQUIRE(s.trains.size() == f.plan.size());
+    for (std::size_t t = 0; t < s.trains.size(); ++t) {
+        INFO("train " << t);
+        check_same_estimate(s.trains[t].primary, estimate_mean(column([t](const ReplicationFigures& d) { return d.train_primary[t]; })));
+        check_same_estimate(s.trains[t].knock_on, estimate_mean(column([t](const ReplicationFigures& d) { return d.train_knock_on[t]; })));
+        check_same_estimate(s.trains[t].final_delay,
+                            estimate_mean(column([t](const ReplicationFigures& d) { return d.train_final_delay[t]; })));
+    }
+
+    // Signals: every signal held on any day, 0 on the days it was not.
+    std::set<std::string> held_signals;
+    for (const ReplicationFigures& day : days)
+        for (const auto& [signal, seconds] : day.held) held_signals.insert(signal);
+    REQUIRE(s.signals.size() == held_signals.size());
+    CHECK(s.signals.size() >= 2);
+    for (std::size_t i = 0; i < s.signals.size(); ++i) {
+        const SignalStats& g = s.signals[i];
+        INFO("signal " << g.signal);
+        CHECK(held_signals.count(g.signal) == 1);
+        check_same_estimate(g.held, estimate_mean(column([&g](const ReplicationFigures& d) {
+                                const auto it = d.held.find(g.signal);
+                                return it == d.held.end() ? 0.0 : it->second;
+                            })));
+        if (i > 0) CHECK(s.signals[i - 1].held.mean >= g.held.mean);   // largest first
+    }
+
+    // Sections.
+    REQUIRE(s.section_blocked_share.size() == f.model->section_names().size());
+    for (std::size_t k = 0; k < s.section_blocked_share.size(); ++k)
+        check_same_estimate(s.section_blocked_share[k],
+                            estimate_mean(column([k](const ReplicationFigures& d) { return d.section_blocked[k] / 86400.0; })));
+
+    // Buffers: over the days both trains ran; p10 the order statistic at floor(0.1 (n - 1)).
+    std::size_t buffers_seen = 0;
+    for (std::size_t k = 0; k < f.model->buffer_pairs().size(); ++k) {
+        INFO("buffer pair " << k);
+        std::vector<double> v;
+        for (const ReplicationFigures& day : days)
+            if (!std::isnan(day.buffer[k])) v.push_back(day.buffer[k]);
+        const auto it = std::find_if(s.buffers.begin(), s.buffers.end(), [k](const BufferStats& b) { return b.pair == k; });
+        if (v.empty()) {
+            CHECK(it == s.buffers.end());
+            continue;
+        }
+        REQUIRE(it != s.buffers.end());
+        ++buffers_seen;
+        check_same_estimate(it->as_run, estimate_mean(v));
+        std::sort(v.begin(), v.end());
+        CHECK(same_bits(it->p10, v[static_cast<std::size_t>(0.1 * static_cast<double>(v.size() - 1))]));
+        CHECK(it->planned == f.model->buffer_pairs()[k].planned_buffer);
+    }
+    CHECK(buffers_seen == s.buffers.size());
+    CHECK(buffers_seen > 5);
+
+    // Gathered in replication order on the calling thread: two threads, other batches, the same
+    // summary to the bit.
+    StudyOptions two = opt;
+    two.threads = 2;
+    two.batch = 3;
+    const StudyResult study2 = run_study(*f.model, two);
+    const FlatSummary a = flatten(s), b = flatten(summarize_study(*f.model, study2, two.thresholds));
+    CHECK(same_bits(a.numbers, b.numbers));
+    CHECK(a.names == b.names);
+
+    // Summarised with other thresholds than it ran with: refused, not misread.
+    CHECK_THROWS_AS(summarize_study(*f.model, study, {60.0}), std::invalid_argument);
+}
+
+TEST_CASE("StudyFigures refuses a day of another shape", "[study][memory]") {
+    auto day = [](std::size_t records, std::uint32_t k) {
+        ReplicationFigures d;
+        d.stats.replication = k;
+        d.arrival_delay.assign(records, 10.0f);
+        d.knock_on.assign(records, 0.0f);
+        return d;
+    };
+    StudyFigures figures({180.0}, 3);
+    figures.add(day(3, 0));
+    figures.add(day(3, 1));
+    CHECK(figures.days() == 2);
+    CHECK(figures.timing()[0].reached() == 2);
+    CHECK(figures.timing()[0].within[0] == 2);
+    CHECK_THROWS_AS(figures.add(day(4, 2)), std::logic_error);
+    figures.add(day(3, 2));
+    CHECK_THROWS_AS(figures.add(day(3, 3)), std::logic_error);   // beyond the 3 days planned
+}
+
+TEST_CASE("The smallest tenth of the planned buffers holds the 10th percentile of any prefix", "[study][memory]") {
+    // The buffer p10 is the order statistic at floor(0.1 (n - 1)) (README; no interpolation): for
+    // n up to the planned P it lies among the smallest floor(0.1 (P - 1)) + 1 values.
+    for (std::size_t planned : {1u, 2u, 10u, 11u, 95u, 400u}) {
+        INFO("planned " << planned);
+        SmallestValues lowest(buffer_p10_index(planned) + 1);
+        std::vector<double> all;
+        for (std::size_t n = 1; n <= planned; ++n) {
+            // Scrambled, with repeats and negative values (a follower held up).
+            const float x = static_cast<float>(static_cast<int>((n * 7919) % 211) - 40) * 1.5f;
+            lowest.add(x);
+            all.push_back(x);
+            std::vector<double> sorted = all;
+            std::sort(sorted.begin(), sorted.end());
+            const std::size_t at = static_cast<std::size_t>(0.1 * static_cast<double>(n - 1));
+            CHECK(buffer_p10_index(n) == at);
+            const std::vector<double> kept = lowest.sorted();
+            REQUIRE(at < kept.size());
+            CHECK(kept[at] == sorted[at]);
+            CHECK(kept.size() == std::min(n, buffer_p10_index(planned) + 1));
+        }
     }
 }
