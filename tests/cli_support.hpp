@@ -101,6 +101,15 @@ inline Interrupted interrupt_knockon(const std::vector<std::string>& args, const
     return r;
 }
 
+// A python3 with h5py and numpy (Debian's python3-h5py, which tools/setup.sh installs), or "".
+inline std::string python_with_h5py() {
+    for (const char* candidate : {"python3", "/usr/bin/python3"}) {
+        const std::string probe = std::string(candidate) + " -c 'import h5py, numpy' >/dev/null 2>&1";
+        if (std::system(probe.c_str()) == 0) return candidate;
+    }
+    return "";
+}
+
 inline std::string q(const std::string& s) { return "'" + s + "'"; }
 inline std::string q(const fs::path& p) { return q(p.string()); }
 

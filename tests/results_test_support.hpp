@@ -8,6 +8,7 @@
 #include <string>
 
 #include "cli_support.hpp"
+#include "page_test_support.hpp"
 
 namespace resultstest {
 
@@ -31,16 +32,7 @@ inline fs::path write_variant_fixture(const TempDir& dir) {
 // clitest::knockon under a name that does not clash with namespace knockon.
 inline Result run_knockon(const std::string& args, const TempDir& dir) { return clitest::knockon(args, dir); }
 
-// Elements whose class attribute holds `cls` as one whole token.
-inline std::size_t count_class(const std::string& markup, const std::string& cls) {
-    static const std::regex attr(R"rx(class="([^"]*)")rx");
-    std::size_t n = 0;
-    for (auto it = std::sregex_iterator(markup.begin(), markup.end(), attr); it != std::sregex_iterator(); ++it) {
-        std::istringstream tokens((*it)[1].str());
-        std::string t;
-        while (tokens >> t) n += t == cls;
-    }
-    return n;
-}
+using pagetest::check_self_contained;
+using pagetest::count_class;
 
 }  // namespace resultstest

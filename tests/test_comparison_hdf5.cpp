@@ -182,14 +182,7 @@ TEST_CASE("compare --out: bad input writes no file", "[comparison_hdf5][cli]") {
 
 TEST_CASE("comparison file: the Python example reads it", "[comparison_hdf5][python]") {
     // Runs tools/read_results_example.py where some python3 has h5py; skipped (with a warning) elsewhere.
-    std::string python;
-    for (const char* candidate : {"python3", "/usr/bin/python3"}) {
-        const std::string probe = std::string(candidate) + " -c 'import h5py, numpy' >/dev/null 2>&1";
-        if (std::system(probe.c_str()) == 0) {
-            python = candidate;
-            break;
-        }
-    }
+    const std::string python = clitest::python_with_h5py();
     if (python.empty()) {
         WARN("no python3 with h5py: example not run");
         return;

@@ -34,19 +34,6 @@ fs::path traced_study(const TempDir& dir, const std::string& name = "study.h5") 
     return out;
 }
 
-// The page holds no scripts and refers to nothing outside itself.
-void check_self_contained(const std::string& page) {
-    CHECK(page.rfind("<!DOCTYPE html>", 0) == 0);
-    CHECK(page.find("<script") == std::string::npos);
-    std::string rest = page;
-    const std::string ns = "http://www.w3.org/2000/svg";
-    for (std::size_t p; (p = rest.find(ns)) != std::string::npos;) rest.erase(p, ns.size());
-    CHECK(rest.find("http://") == std::string::npos);
-    CHECK(rest.find("https://") == std::string::npos);
-    CHECK(rest.find("src=") == std::string::npos);
-    CHECK(rest.find("<link") == std::string::npos);
-}
-
 // Bad input: exit status 2, the message says `what`, and `output` was not written.
 void check_refused(const std::string& args, const TempDir& dir, const fs::path& output, const std::string& what) {
     const Result r = run_knockon(args, dir);

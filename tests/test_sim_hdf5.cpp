@@ -18,6 +18,7 @@
 
 #include <unistd.h>
 
+#include "cli_support.hpp"
 #include "tools/io/hdf5_file.hpp"
 #include "tools/io/output_file.hpp"
 #include "tools/io/plan_output.hpp"
@@ -451,14 +452,7 @@ TEST_CASE("HDF5 results: a failed final rename leaves no temporary file", "[sim_
 
 TEST_CASE("HDF5 results: the Python example reads the file", "[sim_hdf5][python]") {
     // Runs tools/read_results_example.py where some python3 has h5py; skipped (with a warning) elsewhere.
-    std::string python;
-    for (const char* candidate : {"python3", "/usr/bin/python3"}) {
-        const std::string probe = std::string(candidate) + " -c 'import h5py, numpy' >/dev/null 2>&1";
-        if (std::system(probe.c_str()) == 0) {
-            python = candidate;
-            break;
-        }
-    }
+    const std::string python = clitest::python_with_h5py();
     if (python.empty()) {
         WARN("no python3 with h5py: example not run");
         return;

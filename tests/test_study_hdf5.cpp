@@ -522,14 +522,7 @@ TEST_CASE("study HDF5: which days --traces picks", "[study_hdf5]") {
 
 TEST_CASE("study HDF5: the Python example reads a study file", "[study_hdf5][python]") {
     // Runs tools/read_results_example.py where some python3 has h5py; skipped (with a warning) elsewhere.
-    std::string python;
-    for (const char* candidate : {"python3", "/usr/bin/python3"}) {
-        const std::string probe = std::string(candidate) + " -c 'import h5py, numpy' >/dev/null 2>&1";
-        if (std::system(probe.c_str()) == 0) {
-            python = candidate;
-            break;
-        }
-    }
+    const std::string python = clitest::python_with_h5py();
     if (python.empty()) {
         WARN("no python3 with h5py: example not run");
         return;

@@ -33,6 +33,17 @@ SKIPPED = 77
 
 # What each kind of report must show, by the classes and ids tools/io/html_report.cpp,
 # tools/io/plan_charts.cpp, tools/io/results_report.cpp and tools/io/result_charts.cpp write.
+# Every report carries the safety caution at the top and at the foot, and is no blank page.
+EVERY_REPORT = dict(
+    texts=[
+        ("div.caution", "Planning estimates only"),
+        ("div.caution", "licensed signalling engineers"),
+        ("footer", "Planning estimates only"),
+    ],
+    min_colours=16,
+    min_ink_share=0.03,
+)
+
 PRESETS = {
     "plan": Expect(
         selectors=[
@@ -48,13 +59,7 @@ PRESETS = {
             "section#buffers table",
             "footer",
         ],
-        texts=[
-            ("div.caution", "Planning estimates only"),
-            ("div.caution", "licensed signalling engineers"),
-            ("footer", "Planning estimates only"),
-        ],
-        min_colours=16,
-        min_ink_share=0.03,
+        **EVERY_REPORT,
     ),
     # knockon report STUDY.h5: the plan's sections plus the results of the study, with the as-run
     # paths of a traced day over the planned ones.
@@ -74,13 +79,7 @@ PRESETS = {
             "section#buffers table",
             "footer",
         ],
-        texts=[
-            ("div.caution", "Planning estimates only"),
-            ("div.caution", "licensed signalling engineers"),
-            ("footer", "Planning estimates only"),
-        ],
-        min_colours=16,
-        min_ink_share=0.03,
+        **EVERY_REPORT,
     ),
 }
 
