@@ -20,6 +20,7 @@
 #include "tools/io/plan_charts.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
+#include "cli_support.hpp"
 #include "page_test_support.hpp"
 
 namespace fs = std::filesystem;
@@ -27,53 +28,18 @@ using namespace knockon;
 
 namespace {
 
-const std::string kExe = KNOCKON_EXE;
-const std::string kSource = KNOCKON_SOURCE_DIR;
+using clitest::kSource;
+using clitest::q;
+using clitest::read_text;
+using clitest::Result;
+using clitest::TempDir;
 const std::string kTwoTrains = kSource + "/tests/data/two_trains.yaml";
 const std::string kTwoSpeed = kSource + "/tests/data/plan/two_speed_line.yaml";
 const std::string kDemo = kSource + "/scenarios/demo.yaml";
 const TimeWindow kWholeDay{0.0, 86400.0};
 
-struct TempDir {
-    fs::path path;
-    TempDir() {
-        std::string tmpl = (fs::temp_directory_path() / "knockon_report_XXXXXX").string();
-        REQUIRE(mkdtemp(tmpl.data()) != nullptr);
-        path = tmpl;
-    }
-    ~TempDir() {
-        std::error_code ec;
-        fs::remove_all(path, ec);
-    }
-    TempDir(const TempDir&) = delete;
-    TempDir& operator=(const TempDir&) = delete;
-};
-
-std::string read_text(const fs::path& p) {
-    std::ifstream in(p, std::ios::binary);
-    std::ostringstream s;
-    s << in.rdbuf();
-    return s.str();
-}
-
-struct Result {
-    int status = -1;
-    std::string out, err;
-};
-
-Result run_knockon(const std::string& args, const TempDir& dir) {
-    const fs::path out = dir.path / "stdout.txt", err = dir.path / "stderr.txt";
-    const std::string cmd = "'" + kExe + "' " + args + " >'" + out.string() + "' 2>'" + err.string() + "'";
-    const int rc = std::system(cmd.c_str());
-    Result r;
-    r.status = (rc != -1 && WIFEXITED(rc)) ? WEXITSTATUS(rc) : -1;
-    r.out = read_text(out);
-    r.err = read_text(err);
-    return r;
-}
-
-std::string q(const std::string& s) { return "'" + s + "'"; }
-std::string q(const fs::path& p) { return q(p.string()); }
+// clitest::knockon under a name that does not clash with namespace knockon.
+Result run_knockon(const std::string& args, const TempDir& dir) { return clitest::knockon(args, dir); }
 
 using pagetest::check_self_contained;
 using pagetest::count_class;
