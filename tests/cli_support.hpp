@@ -33,7 +33,11 @@ struct TempDir {
         path = tmpl;
     }
     ~TempDir() {
+        // Tests may have made the directory or its entries read-only (unwritable outputs).
         std::error_code ec;
+        fs::permissions(path, fs::perms::owner_all, fs::perm_options::add, ec);
+        for (const auto& e : fs::directory_iterator(path, ec))
+            fs::permissions(e.path(), fs::perms::owner_all, fs::perm_options::add, ec);
         fs::remove_all(path, ec);
     }
     TempDir(const TempDir&) = delete;
@@ -52,10 +56,12 @@ struct Result {
     std::string out, err;
 };
 
-// Runs knockon with the given (already quoted) arguments, capturing stdout and stderr in files.
-inline Result knockon(const std::string& args, const TempDir& dir) {
+// Runs knockon with the given (already quoted) arguments, capturing stdout and stderr in files;
+// with timeout_s > 0 the run is killed after that long (a guard against a hang: status -1 or 124).
+inline Result knockon(const std::string& args, const TempDir& dir, int timeout_s = 0) {
     const fs::path out = dir.path / "stdout.txt", err = dir.path / "stderr.txt";
-    const std::string cmd = "'" + kExe + "' " + args + " >'" + out.string() + "' 2>'" + err.string() + "'";
+    const std::string guard = timeout_s > 0 ? "timeout " + std::to_string(timeout_s) + " " : "";
+    const std::string cmd = guard + "'" + kExe + "' " + args + " >'" + out.string() + "' 2>'" + err.string() + "'";
     const int rc = std::system(cmd.c_str());
     Result r;
     r.status = (rc != -1 && WIFEXITED(rc)) ? WEXITSTATUS(rc) : -1;

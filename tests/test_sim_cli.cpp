@@ -17,61 +17,23 @@
 #include "models/plan.hpp"
 #include "sim/simulation.hpp"
 #include "tools/io/scenario_reader.hpp"
+#include "cli_support.hpp"
 
 namespace fs = std::filesystem;
 using namespace knockon;
 
 namespace {
 
-const std::string kExe = KNOCKON_EXE;
-const std::string kSource = KNOCKON_SOURCE_DIR;
+using clitest::kSource;
+using clitest::q;
+using clitest::read_text;
+using clitest::Result;
+using clitest::TempDir;
 const std::string kTwoTrains = kSource + "/tests/data/two_trains.yaml";
 const std::string kDeadlock = kSource + "/tests/data/sim/single_line_deadlock.yaml";
 
-// A fresh directory for one test's files, removed afterwards.
-struct TempDir {
-    fs::path path;
-    TempDir() {
-        std::string tmpl = (fs::temp_directory_path() / "knockon_sim_cli_XXXXXX").string();
-        REQUIRE(mkdtemp(tmpl.data()) != nullptr);
-        path = tmpl;
-    }
-    ~TempDir() {
-        std::error_code ec;
-        fs::permissions(path, fs::perms::owner_all, fs::perm_options::add, ec);
-        for (const auto& e : fs::directory_iterator(path, ec))
-            fs::permissions(e.path(), fs::perms::owner_all, fs::perm_options::add, ec);
-        fs::remove_all(path, ec);
-    }
-    TempDir(const TempDir&) = delete;
-    TempDir& operator=(const TempDir&) = delete;
-};
-
-std::string read_text(const fs::path& p) {
-    std::ifstream in(p, std::ios::binary);
-    std::ostringstream s;
-    s << in.rdbuf();
-    return s.str();
-}
-
-struct Result {
-    int status = -1;   // exit status, -1 when killed by a signal
-    std::string out, err;
-};
-
-std::string q(const std::string& s) { return "'" + s + "'"; }
-
-// Runs knockon with the given (already quoted) arguments; `timeout` guards against a hang.
-Result run_knockon(const std::string& args, const TempDir& dir) {
-    const fs::path out = dir.path / "stdout.txt", err = dir.path / "stderr.txt";
-    const std::string cmd = "timeout 20 " + q(kExe) + " " + args + " >" + q(out.string()) + " 2>" + q(err.string());
-    const int rc = std::system(cmd.c_str());
-    Result r;
-    r.status = (rc != -1 && WIFEXITED(rc)) ? WEXITSTATUS(rc) : -1;
-    r.out = read_text(out);
-    r.err = read_text(err);
-    return r;
-}
+// Every run under a 20 s guard: a deadlocked day must be reported, not hang.
+Result run_knockon(const std::string& args, const TempDir& dir) { return clitest::knockon(args, dir, 20); }
 
 // Number of records of a 1-D dataset, read with the HDF5 C API.
 hsize_t records(hid_t file, const char* dataset) {
