@@ -70,6 +70,56 @@ struct Motion {
     }
 };
 
+// A lower bound on the acceleration step_w can use in a cell of at most `max_ds` started at a
+// speed of at least kBoundFrom: least tractive effort, most resistance over every speed the
+// midpoint can reach.  Where even this bound carries the train above the braking envelope, the
+// cell ends on the envelope whatever step_w gives, so braking cells skip the force evaluation
+// and the result is the same to the last bit.
+struct AccelBound {
+    static constexpr double kBoundFrom = 1.0;   // [m/s]; below it power curves are unbounded
+    double base = -std::numeric_limits<double>::infinity();   // at level track [m/s^2]
+    double per_gradient = 0.0;                                 // g / rho
+
+    AccelBound(const TrainType& type, double max_ds) {
+        const double mass = type.rotating_mass_factor * type.mass;
+        // Most force at or above kBoundFrom (the midpoint speed is not below the start speed
+        // when accelerating, and the bound matters only then), least force at any speed.
+        double f_hi = 0.0, f_lo = 0.0;
+        if (!type.force_table.empty()) {
+            for (const auto& p : type.force_table) {
+                f_hi = std::max(f_hi, p.second);
+                f_lo = std::min(f_lo, p.second);
+            }
+        } else if (type.max_force > 0.0 || type.power > 0.0) {
+            const double cap = type.max_force > 0.0 ? type.max_force : std::numeric_limits<double>::infinity();
+            f_hi = std::min(cap, type.power > 0.0 ? type.power / kBoundFrom : cap);
+        }
+        const double perf = std::max(type.performance, 0.0);
+        f_hi *= perf;
+        f_lo *= perf;
+        if (!std::isfinite(f_hi) || !(mass > 0.0)) return;   // no bound: never skip
+        // The midpoint speed reaches at most sqrt(v_max^2 + a_hi ds) (v0 is under the limits).
+        const double v_hi = std::sqrt(type.max_speed * type.max_speed + f_hi / mass * max_ds) + 1.0;
+        double r_hi = std::max(type.resistance(0.0), type.resistance(v_hi));
+        if (type.davis_c < 0.0) {
+            const double vertex = -type.davis_b / (2.0 * type.davis_c);
+            if (vertex > 0.0 && vertex < v_hi) r_hi = std::max(r_hi, type.resistance(vertex));
+        }
+        base = (f_lo - r_hi) / mass;
+        per_gradient = type.mass * kGravity / mass;
+    }
+
+    // True when a cell of length ds from v0 on `gradient` surely ends at or above `envelope`.
+    bool reaches(double v0, double gradient, double ds, double envelope) const {
+        if (!(v0 >= kBoundFrom)) return false;
+        const double a = base - per_gradient * gradient;
+        const double w = v0 * v0 + 2.0 * a * ds;
+        const double target = envelope * envelope;
+        // A relative margin far above rounding keeps the test on the safe side.
+        return w - 1e-9 * (v0 * v0 + target + 1.0) >= target;
+    }
+};
+
 // Walks a path profile (gradient or speed limit) with ascending look-ups in amortised O(1), the
 // same value as PathProfile::at; falls back to the path's own look-up where it has no profile.
 class ProfileCursor {
@@ -333,13 +383,22 @@ long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, d
     // in v.  Same midpoint rule in v^2 as the forward pass (exact for constant braking).  Where
     // the limit does not fall, the envelope is the limit itself and no braking is evaluated.
     if (stop_at_end) v[cells] = 0.0;
+    // Without a braking table the deceleration does not depend on speed, and the midpoint rule
+    // is a single evaluation (the same value twice).
+    const bool constant_braking = type.braking_table.empty();
     for (std::size_t i = cells; i-- > 0;) {
         const double v1 = v[i + 1];
         if (v[i] <= v1) continue;
         const double ds = length(i);
         const double w1 = v1 * v1;
-        const double w_mid = w1 + braking_deceleration(type, v1, gradient[i]) * ds;
-        const double w0 = w1 + 2.0 * braking_deceleration(type, std::sqrt(w_mid), gradient[i]) * ds;
+        double b;
+        if (constant_braking) {
+            b = braking_deceleration(type, v1, gradient[i]);
+        } else {
+            const double w_mid = w1 + braking_deceleration(type, v1, gradient[i]) * ds;
+            b = braking_deceleration(type, std::sqrt(w_mid), gradient[i]);
+        }
+        const double w0 = w1 + 2.0 * b * ds;
         v[i] = std::min(v[i], std::sqrt(w0));
     }
 
@@ -348,29 +407,34 @@ long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, d
     // trajectory: drivers anticipate a braking point they know; it enters stopping_distance.
     const Motion motion(type);
     v[0] = std::min(v_start, v[0]);
+    // The speed at the end of cell i from v^2 = w1 under the envelope.
+    auto limited_speed = [&](double w1, double envelope, std::size_t i) {
+        if (w1 > 0.0) return std::min(std::sqrt(w1), envelope);
+        if (envelope == 0.0) return 0.0;   // stops at the target anyway
+        throw std::runtime_error(describe(type) + " stalls at " + metres(at(i)) +
+                                 ": tractive effort does not overcome resistance and gradient " +
+                                 std::to_string(gradient[i] * 1000.0) + " per mille");
+    };
     // One-entry memo of step_w: cruising at a limit repeats the same (speed, gradient, step)
     // cell after cell, and step_w is a pure function of them.
     double memo_v = -1.0, memo_g = 0.0, memo_ds = 0.0, memo_w = 0.0;
+    const AccelBound bound(type, std::max({g.step, first_length, last_length}));
     for (std::size_t i = 0; i < cells; ++i) {
         const double ds = length(i);
         const double v0 = v[i];
         const double envelope = v[i + 1];
-        if (v0 != memo_v || gradient[i] != memo_g || ds != memo_ds) {
-            memo_v = v0;
-            memo_g = gradient[i];
-            memo_ds = ds;
-            memo_w = motion.step_w(v0, gradient[i], ds);
-        }
-        const double w1 = memo_w;
         double v1;
-        if (w1 > 0.0)
-            v1 = std::min(std::sqrt(w1), envelope);
-        else if (envelope == 0.0)
-            v1 = 0.0;  // stops at the target anyway
-        else
-            throw std::runtime_error(describe(type) + " stalls at " + metres(at(i)) +
-                                     ": tractive effort does not overcome resistance and gradient " +
-                                     std::to_string(gradient[i] * 1000.0) + " per mille");
+        if (envelope < v0 && bound.reaches(v0, gradient[i], ds, envelope)) {
+            v1 = envelope;   // braking: the envelope binds (see AccelBound)
+        } else {
+            if (v0 != memo_v || gradient[i] != memo_g || ds != memo_ds) {
+                memo_v = v0;
+                memo_g = gradient[i];
+                memo_ds = ds;
+                memo_w = motion.step_w(v0, gradient[i], ds);
+            }
+            v1 = limited_speed(memo_w, envelope, i);
+        }
         if (!(v0 + v1 > 0.0))
             throw std::runtime_error(describe(type) + " cannot pass " + metres(at(i)) +
                                      ": speed limit zero there or no tractive effort from standstill");

@@ -91,6 +91,7 @@ private:
         // The motion: a planned leg followed as planned (no integration needed) while the
         // authority allows, else integrated from the train's state (`own`).
         long leg = -1;              // planned leg followed, or -1
+        bool leg_scheduled = false; // the leg's points are in the queue (false: just started it)
         Trajectory own;
         double brake_from = kInf;   // on a planned leg: where braking for the authority would begin
         long join_leg = -1;         // `own` ends where it rejoins this planned leg, at grid point join_point
@@ -144,11 +145,24 @@ private:
 
     const SimModel::Train& train(std::uint32_t t) const { return model_.trains()[t]; }
     const ServiceRun& run_of(std::uint32_t t) const { return train(t).plan->run; }
-    std::uint32_t motion_entity(std::uint32_t t) const { return 2 * t; }
-    std::uint32_t fixed_entity(std::uint32_t t) const { return 2 * t + 1; }
+    // Each train's events fall in three groups cancelled separately: its motion (points along
+    // the way, arrival), the brake point for its authority (which moves whenever the authority
+    // grows, while the motion stays), and the rest.
+    static constexpr std::uint32_t kEntitiesPerTrain = 3;
+    std::uint32_t motion_entity(std::uint32_t t) const { return kEntitiesPerTrain * t; }
+    std::uint32_t fixed_entity(std::uint32_t t) const { return kEntitiesPerTrain * t + 1; }
+    std::uint32_t brake_entity(std::uint32_t t) const { return kEntitiesPerTrain * t + 2; }
+    std::uint32_t train_of(std::uint32_t entity) const { return entity / kEntitiesPerTrain; }
+    void cancel_motion(std::uint32_t t) {
+        generations_.bump(motion_entity(t));
+        generations_.bump(brake_entity(t));
+    }
 
     void push(double time, Kind kind, std::uint32_t t, std::uint32_t payload = 0) {
-        std::uint32_t entity = t == kNoTrain ? no_entity : is_motion(kind) ? motion_entity(t) : fixed_entity(t);
+        std::uint32_t entity = t == kNoTrain       ? no_entity
+                               : kind == kBrakePoint ? brake_entity(t)
+                               : is_motion(kind)     ? motion_entity(t)
+                                                     : fixed_entity(t);
         SimTime when = SimTime::from_seconds(std::max(time, now_));
         if (when < queue_.now()) when = queue_.now();
         queue_.push(when, phase_of(kind), kind, entity, generations_.current(entity), payload);
@@ -236,7 +250,7 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
       options_(options),
       times_(model.infrastructure().interlocking),
       interlocking_(model.section_names().size(), options.route_order, model.planned_order()),
-      generations_(2 * model.trains().size()) {
+      generations_(kEntitiesPerTrain * model.trains().size()) {
     const auto& trains = model.trains();
     st_.resize(trains.size());
     std::vector<Trajectory>& spare = spare_trajectories();
@@ -516,6 +530,7 @@ void Day::join_leg(std::uint32_t t) {
     sample_until(t, now_);
     s.t0 += s.own.duration() - run.legs[k].trajectory.t[s.join_point];
     s.leg = static_cast<long>(k);
+    s.leg_scheduled = false;
     s.join_leg = -1;
     s.free_end = k + 1 == run.legs.size() && run.path.ends_at_edge;
     replan(t);
@@ -529,6 +544,7 @@ bool Day::start_leg(std::uint32_t t, double s_now) {
         const Trajectory& lt = run.legs[k].trajectory;
         if (std::fabs(lt.s0 - s_now) > kEps) continue;
         s.leg = static_cast<long>(k);
+        s.leg_scheduled = false;
         s.t0 = now_;
         s.free_end = k + 1 == run.legs.size() && run.path.ends_at_edge;
         s.phase = Phase::moving;
@@ -543,9 +559,15 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
     if (s.phase == Phase::moving && s.leg >= 0 && !leave_leg) {
         set_brake_point(t);
         if (s.brake_from > head_position(t) + kPositionTolerance) {
-            // Still free to run the plan: only the points ahead need rescheduling.
-            generations_.bump(motion_entity(t));
-            schedule_points(t);
+            // Still free to run the plan: the points ahead stand (once scheduled for this leg),
+            // only the brake point moves.
+            if (!s.leg_scheduled) {
+                cancel_motion(t);
+                schedule_points(t);
+                s.leg_scheduled = true;
+            } else {
+                generations_.bump(brake_entity(t));
+            }
             if (s.brake_from < traj(t).s_end) push(time_at_head(t, s.brake_from), kBrakePoint, t);
             return;
         }
@@ -561,7 +583,7 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
         target = run.path.length;
         free = true;
     }
-    generations_.bump(motion_entity(t));
+    cancel_motion(t);
     if (target - s_now < 1e-3 && v_now <= 1e-6) {
         s.phase = Phase::standing;
         s.s_stand = s_now;
@@ -693,7 +715,7 @@ void Day::try_appear(std::uint32_t t) {
         }
         // Motion starts at entry speed on the planned first leg; authority is read at once
         // (signals in sight), and the motion follows from it.
-        generations_.bump(motion_entity(t));
+        cancel_motion(t);
         if (!start_leg(t, 0.0)) {
             s.leg = -1;
             s.join_leg = -1;
@@ -734,7 +756,7 @@ void Day::try_appear(std::uint32_t t) {
     record_call(t, 0, kNoTime, kNoTime);
     s.next_call = 1;
     push(s.ready_time, kDepartReady, t);
-    generations_.bump(motion_entity(t));
+    cancel_motion(t);
     schedule_points(t);
 }
 
@@ -847,7 +869,7 @@ void Day::begin_standing(std::uint32_t t) {
     } else {
         s.hold_from = now_;
     }
-    generations_.bump(motion_entity(t));
+    cancel_motion(t);
     schedule_points(t);
 }
 
@@ -862,7 +884,7 @@ void Day::vanish(std::uint32_t t) {
         push(now_ + times_.release, kRelease, t, static_cast<std::uint32_t>(k));
     }
     s.phase = Phase::finished;
-    generations_.bump(motion_entity(t));
+    cancel_motion(t);
 }
 
 void Day::handle(const Event& e) {
@@ -874,7 +896,7 @@ void Day::handle(const Event& e) {
         if (e.kind == kDisruptionEnd) grant_pending();
         return;
     }
-    const std::uint32_t t = e.entity / 2;
+    const std::uint32_t t = train_of(e.entity);
     TrainState& s = st_[t];
     const TrainPath& path = run_of(t).path;
     // A point event is for the next point of its kind only: a handler that recomputes the
@@ -1036,7 +1058,7 @@ SimResult Day::run() {
     Event e;
     while (queue_.pop_current(e, generations_)) {
         now_ = e.time.to_seconds();
-        if (trace_ != kNoTrain && e.entity != no_entity && e.entity / 2 == trace_)
+        if (trace_ != kNoTrain && e.entity != no_entity && train_of(e.entity) == trace_)
             std::fprintf(stderr, "%.3f kind %u payload %u phase %d s=%.1f eoa=%.1f req=%zu pend=%d\n", now_, e.kind, e.payload,
                          static_cast<int>(st_[trace_].phase), head_position(trace_), st_[trace_].eoa,
                          st_[trace_].next_request, (int)st_[trace_].request_pending);
