@@ -3,6 +3,7 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <ranges>
 #include <sstream>
 #include <stdexcept>
 #include <string>
@@ -371,42 +372,56 @@ long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, d
     // Exact steps keep the plan and a motion integrated again on its grid in step to the last
     // bit, and let the memo below recognise a cruise.
     const double first_length = at(1) - at(0), last_length = at(cells) - at(cells - 1);
-    auto length = [&](std::size_t i) { return i == 0 ? first_length : i + 1 == cells ? last_length : g.step; };
-    if (options.slow_factor < 1.0 && options.slow_to > options.slow_from)
-        for (std::size_t i = 0; i <= cells; ++i)
-            if (at(i) >= options.slow_from && at(i) < options.slow_to) v[i] *= options.slow_factor;
-    thread_local std::vector<double> gradient;
-    gradient.resize(cells);
-    g.gradient.expand(k0, cells, gradient.data());
+    const double step = g.step;
+    auto length = [first_length, last_length, step, cells](std::size_t i) {
+        return i == 0 ? first_length : i + 1 == cells ? last_length : step;
+    };
+    if (options.slow_factor < 1.0 && options.slow_to > options.slow_from) {
+        // Points are in ascending order: find the first inside the stretch, scale until past it.
+        std::size_t i = *std::ranges::partition_point(std::views::iota(std::size_t{0}, cells + 1),
+                                                      [&](std::size_t j) { return at(j) < options.slow_from; });
+        for (; i <= cells && at(i) < options.slow_to; ++i) v[i] *= options.slow_factor;
+    }
+    thread_local std::vector<double> gradient_buffer;
+    gradient_buffer.resize(cells);
+    g.gradient.expand(k0, cells, gradient_buffer.data());
+    const double* gradient = gradient_buffer.data();
+    double* const vp = v.data();
+    double* const tp = tr.t.data();
 
     // Backward pass: braking envelope from the target and from every drop of the limit, in place
     // in v.  Same midpoint rule in v^2 as the forward pass (exact for constant braking).  Where
     // the limit does not fall, the envelope is the limit itself and no braking is evaluated.
-    if (stop_at_end) v[cells] = 0.0;
-    // Without a braking table the deceleration does not depend on speed, and the midpoint rule
-    // is a single evaluation (the same value twice).
+    if (stop_at_end) vp[cells] = 0.0;
+    // Without a braking table the deceleration depends on the gradient alone: the midpoint rule
+    // is a single evaluation (the same value twice), kept from one cell to the next.
     const bool constant_braking = type.braking_table.empty();
+    double braking_g = std::numeric_limits<double>::quiet_NaN(), braking_b = 0.0;
     for (std::size_t i = cells; i-- > 0;) {
-        const double v1 = v[i + 1];
-        if (v[i] <= v1) continue;
+        const double v1 = vp[i + 1];
+        if (vp[i] <= v1) continue;
         const double ds = length(i);
         const double w1 = v1 * v1;
         double b;
         if (constant_braking) {
-            b = braking_deceleration(type, v1, gradient[i]);
+            if (!(gradient[i] == braking_g)) {
+                braking_g = gradient[i];
+                braking_b = braking_deceleration(type, v1, braking_g);
+            }
+            b = braking_b;
         } else {
             const double w_mid = w1 + braking_deceleration(type, v1, gradient[i]) * ds;
             b = braking_deceleration(type, std::sqrt(w_mid), gradient[i]);
         }
         const double w0 = w1 + 2.0 * b * ds;
-        v[i] = std::min(v[i], std::sqrt(w0));
+        vp[i] = std::min(vp[i], std::sqrt(w0));
     }
 
     // Forward pass: flat out under the envelope.  v[i+1] still holds the envelope when cell i
     // is integrated, so the pass overwrites v in place.  The brake delay stays out of the
     // trajectory: drivers anticipate a braking point they know; it enters stopping_distance.
     const Motion motion(type);
-    v[0] = std::min(v_start, v[0]);
+    vp[0] = std::min(v_start, vp[0]);
     // The speed at the end of cell i from v^2 = w1 under the envelope.
     auto limited_speed = [&](double w1, double envelope, std::size_t i) {
         if (w1 > 0.0) return std::min(std::sqrt(w1), envelope);
@@ -418,36 +433,41 @@ long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, d
     // One-entry memo of step_w: cruising at a limit repeats the same (speed, gradient, step)
     // cell after cell, and step_w is a pure function of them.
     double memo_v = -1.0, memo_g = 0.0, memo_ds = 0.0, memo_w = 0.0;
-    const AccelBound bound(type, std::max({g.step, first_length, last_length}));
+    const AccelBound bound(type, std::max({step, first_length, last_length}));
+    // Rejoining: the leg's speeds at the run's points (grid point k0 + i).
+    const double* leg_v = rejoin ? rejoin->leg->v.data() + k0 : nullptr;
+    const std::size_t leg_points =
+        rejoin && rejoin->leg->v.size() > k0 ? std::min(rejoin->leg->v.size() - k0, cells) : 0;
     for (std::size_t i = 0; i < cells; ++i) {
         const double ds = length(i);
-        const double v0 = v[i];
-        const double envelope = v[i + 1];
+        const double v0 = vp[i];
+        const double envelope = vp[i + 1];
+        const double grade = gradient[i];
         double v1;
-        if (envelope < v0 && bound.reaches(v0, gradient[i], ds, envelope)) {
+        if (envelope < v0 && bound.reaches(v0, grade, ds, envelope)) {
             v1 = envelope;   // braking: the envelope binds (see AccelBound)
         } else {
-            if (v0 != memo_v || gradient[i] != memo_g || ds != memo_ds) {
+            if (v0 != memo_v || grade != memo_g || ds != memo_ds) {
                 memo_v = v0;
-                memo_g = gradient[i];
+                memo_g = grade;
                 memo_ds = ds;
-                memo_w = motion.step_w(v0, gradient[i], ds);
+                memo_w = motion.step_w(v0, grade, ds);
             }
             v1 = limited_speed(memo_w, envelope, i);
         }
         if (!(v0 + v1 > 0.0))
             throw std::runtime_error(describe(type) + " cannot pass " + metres(at(i)) +
                                      ": speed limit zero there or no tractive effort from standstill");
-        v[i + 1] = v1;
-        tr.t[i + 1] = tr.t[i] + 2.0 * ds / (v0 + v1);
-        if (rejoin && i + 1 < cells) {
-            const std::size_t k = k0 + i + 1;
-            const double q = k < rejoin->leg->v.size() && v1 == rejoin->leg->v[k] ? at(i + 1) : kNoPoint;
+        vp[i + 1] = v1;
+        tp[i + 1] = tp[i] + 2.0 * ds / (v0 + v1);
+        // Back on the leg's motion at an interior point in the rejoin window: hand over.
+        if (i + 1 < leg_points && v1 == leg_v[i + 1]) {
+            const double q = at(i + 1);
             if (q >= rejoin->after && q < rejoin->before) {
                 v.resize(i + 2);
                 tr.t.resize(i + 2);
                 tr.s_end = q;
-                return static_cast<long>(k);
+                return static_cast<long>(k0 + i + 1);
             }
         }
     }
@@ -482,14 +502,22 @@ Cell cell_of(const Trajectory& tr, double s) {
 
 }  // namespace
 
+namespace {
+
+// Speed at s within cell c (v^2 linear in s).
+double speed_in(const Trajectory& tr, const Cell& c, double s) {
+    const double f = c.length > 0.0 ? std::clamp((s - c.s_from) / c.length, 0.0, 1.0) : 0.0;
+    const double w0 = tr.v[c.k] * tr.v[c.k], w1 = tr.v[c.k + 1] * tr.v[c.k + 1];
+    return std::sqrt(std::max(0.0, w0 + f * (w1 - w0)));
+}
+
+}  // namespace
+
 double Trajectory::speed_at(double s) const {
     if (v.empty()) return 0.0;
     if (v.size() == 1) return v[0];
     s = std::clamp(s, s0, s_end);
-    const Cell c = cell_of(*this, s);
-    const double f = c.length > 0.0 ? std::clamp((s - c.s_from) / c.length, 0.0, 1.0) : 0.0;
-    const double w0 = v[c.k] * v[c.k], w1 = v[c.k + 1] * v[c.k + 1];
-    return std::sqrt(std::max(0.0, w0 + f * (w1 - w0)));
+    return speed_in(*this, cell_of(*this, s), s);
 }
 
 double Trajectory::time_at(double s) const {
@@ -497,9 +525,10 @@ double Trajectory::time_at(double s) const {
     s = std::clamp(s, s0, s_end);
     const Cell c = cell_of(*this, s);
     const double ds = std::clamp(s - c.s_from, 0.0, c.length);
-    const double vs = speed_at(s);
     const double v0 = v[c.k];
-    if (ds <= 0.0 || !(v0 + vs > 0.0)) return t[c.k];
+    if (ds <= 0.0) return t[c.k];
+    const double vs = speed_in(*this, c, s);
+    if (!(v0 + vs > 0.0)) return t[c.k];
     return std::min(t[c.k + 1], t[c.k] + 2.0 * ds / (v0 + vs));
 }
 
