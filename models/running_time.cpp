@@ -438,8 +438,9 @@ long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, d
     const double* leg_v = rejoin ? rejoin->leg->v.data() + k0 : nullptr;
     const std::size_t leg_points =
         rejoin && rejoin->leg->v.size() > k0 ? std::min(rejoin->leg->v.size() - k0, cells) : 0;
+    const std::size_t last = cells - 1;
     for (std::size_t i = 0; i < cells; ++i) {
-        const double ds = length(i);
+        const double ds = i == 0 ? first_length : i == last ? last_length : step;
         const double v0 = vp[i];
         const double envelope = vp[i + 1];
         const double grade = gradient[i];
