@@ -48,6 +48,12 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
         Train tr;
         tr.plan = &tp;
         for (const PathSection& sec : path.sections) tr.section_index.push_back(section_of(sec.id));
+        const double length = tp.run.type->length;
+        for (std::size_t k = 0; k < path.sections.size(); ++k)
+            if (path.sections[k].s_from < kEps && path.sections[k].s_to > -length + kEps) {
+                tr.origin_sections.push_back(tr.section_index[k]);
+                tr.origin_path_sections.push_back(static_cast<std::uint32_t>(k));
+            }
 
         // Routes: the same ones, in the same order, as the planned stairway.
         std::size_t sig_i = 0;
@@ -66,7 +72,10 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
             for (std::size_t k = 0; k < path.sections.size(); ++k) {
                 const PathSection& sec = path.sections[k];
                 if (std::min(rb.s_exit + rb.overlap, sec.s_to) - std::max(rb.s_entry, sec.s_from) > kEps)
+                {
                     r.sections.push_back(tr.section_index[k]);
+                    r.path_sections.push_back(static_cast<std::uint32_t>(k));
+                }
             }
             tr.routes.push_back(std::move(r));
         }

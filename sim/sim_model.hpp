@@ -23,11 +23,14 @@ public:
         int aspect_cap = 2;
         long after_stop = -1;          // timing point of a planned stop before the signal, else -1
         std::vector<std::uint32_t> sections;   // global section indices, body and overlap
+        std::vector<std::uint32_t> path_sections;   // the same sections as indices into the path
     };
     struct Train {
         const TrainPlan* plan = nullptr;
         std::vector<Route> routes;
         std::vector<std::uint32_t> section_index;   // per path section: global index
+        // Sections an originating train stands on when it appears: global and path indices.
+        std::vector<std::uint32_t> origin_sections, origin_path_sections;
         // Per planned leg and grid point j: the largest s_i + D(v_i) over i <= j, where D is a
         // braking distance on the safe side.  A train following the leg as planned with its
         // authority ending at E need not leave the plan before the first point where this

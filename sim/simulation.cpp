@@ -230,7 +230,9 @@ private:
     void sample_until(std::uint32_t t, double until);
 
     long record_for(std::uint32_t t, std::size_t k);
-    void take_sections(std::uint32_t t, const std::vector<std::uint32_t>& globals);
+    // A grant: the train holds these sections (global indices, and the same as path indices).
+    void take_sections(std::uint32_t t, const std::vector<std::uint32_t>& globals,
+                       const std::vector<std::uint32_t>& path_sections);
     void grant_pending();
     void try_appear(std::uint32_t t);
     void begin_standing(std::uint32_t t);
@@ -641,39 +643,27 @@ long Day::record_for(std::uint32_t t, std::size_t k) {
     return s.section_record[k];
 }
 
-void Day::take_sections(std::uint32_t t, const std::vector<std::uint32_t>& globals) {
+void Day::take_sections(std::uint32_t t, const std::vector<std::uint32_t>& globals,
+                        const std::vector<std::uint32_t>& path_sections) {
     interlocking_.take(t, globals);
-    const auto& idx = train(t).section_index;
-    for (std::uint32_t g : globals)
-        for (std::size_t k = 0; k < idx.size(); ++k)
-            if (idx[k] == g && !st_[t].holds[k]) {
-                st_[t].holds[k] = 1;
-                record_for(t, k);
-                break;
-            }
-}
-
-// Sections an originating train stands on when it appears.
-std::vector<std::uint32_t> origin_sections(const SimModel::Train& tr) {
-    std::vector<std::uint32_t> out;
-    const TrainPath& path = tr.plan->run.path;
-    const double L = tr.plan->run.type->length;
-    for (std::size_t k = 0; k < path.sections.size(); ++k)
-        if (path.sections[k].s_from < kEps && path.sections[k].s_to > -L + kEps) out.push_back(tr.section_index[k]);
-    return out;
+    for (std::uint32_t k : path_sections)
+        if (!st_[t].holds[k]) {
+            st_[t].holds[k] = 1;
+            record_for(t, k);
+        }
 }
 
 void Day::grant_pending() {
     for (std::size_t i = 0; i < pending_.size();) {
         const Pending p = pending_[i];
         if (p.route < 0) {
-            std::vector<std::uint32_t> secs = origin_sections(train(p.train));
-            if (!interlocking_.can_take(p.train, secs)) {
+            const SimModel::Train& tr = train(p.train);
+            if (!interlocking_.can_take(p.train, tr.origin_sections)) {
                 ++i;
                 continue;
             }
             pending_.erase(pending_.begin() + static_cast<long>(i));
-            take_sections(p.train, secs);
+            take_sections(p.train, tr.origin_sections, tr.origin_path_sections);
             try_appear(p.train);
             i = 0;  // a grant changes nothing that frees others, but keep the order simple
             continue;
@@ -684,7 +674,7 @@ void Day::grant_pending() {
             continue;
         }
         pending_.erase(pending_.begin() + static_cast<long>(i));
-        take_sections(p.train, r.sections);
+        take_sections(p.train, r.sections, r.path_sections);
         out_.routes[st_[p.train].route_record[p.route]].granted = now_;
         push(now_ + times_.route_setup, kRouteSet, p.train, static_cast<std::uint32_t>(p.route));
         st_[p.train].request_pending = false;
@@ -1032,8 +1022,8 @@ void Day::report_deadlock() {
             << path.chainage_at(std::clamp(s.s_stand, path.s_min, path.s_max)) / 1000.0 << " km";
         for (const Pending& p : pending_) {
             if (p.train != t) continue;
-            std::vector<std::uint32_t> secs =
-                p.route < 0 ? origin_sections(train(t)) : train(t).routes[p.route].sections;
+            const std::vector<std::uint32_t>& secs =
+                p.route < 0 ? train(t).origin_sections : train(t).routes[p.route].sections;
             msg << (p.route < 0 ? ", waiting to appear" : ", waiting for the route from " +
                                                              train(t).routes[p.route].entry_signal);
             for (std::uint32_t g : secs) {
