@@ -11,10 +11,6 @@
 namespace knockon {
 namespace {
 
-// Standard gravity [m/s^2].  Gradient force is m*g*i with i the gradient as a ratio: the
-// small-angle form of m*g*sin(atan i), 0.005 % high at 10 per mille (REFERENCES.md D5).
-constexpr double kGravity = 9.81;
-
 // Floor on the effective braking deceleration.  On a falling gradient steeper than the brakes
 // can hold, b(v) + g*i would reach zero or below and the braking distance would be infinite;
 // the floor keeps the envelope finite (such a line needs a lower speed limit anyway, which the

@@ -1,10 +1,16 @@
 #pragma once
 // Rolling stock: what a train type can do.  SI units: m, kg, N, W, m/s, m/s^2, s.
+#include <algorithm>
+#include <limits>
 #include <string>
 #include <utility>
 #include <vector>
 
 namespace knockon {
+
+// Standard gravity [m/s^2]: the adhesion weight here and the gradient force m*g*i in the
+// running-time calculation (small-angle form, REFERENCES.md D5).
+inline constexpr double kGravity = 9.81;
 
 // Running-time supplement by the rule of UIC Code 451-1: a percentage of the technical running
 // time plus minutes per 100 km, the distance part dropped on paths not longer than a threshold.
@@ -41,10 +47,45 @@ struct TrainType {
     double min_dwell = 30.0;             // default minimum dwell at a stop [s]
     SupplementRule supplement;
 
-    // Forces and decelerations, all at speed v [m/s].
+    // Forces and decelerations, all at speed v [m/s].  The first two are inline: the running-time
+    // integration evaluates them millions of times a simulated day.
     double tractive_force(double v) const;      // available at the wheel, times performance
-    double resistance(double v) const;          // Davis
+    double resistance(double v) const { return davis_a + davis_b * v + davis_c * v * v; }   // Davis
     double service_deceleration(double v) const;
+
+private:
+    double table_force(double v) const;      // force_table, interpolated
+    double adhesion_limit(double v) const;   // Curtius-Kniffler adhesion times adhesion weight
 };
+
+inline double TrainType::adhesion_limit(double v) const {
+    // Curtius-Kniffler adhesion coefficient, V in km/h (REFERENCES.md D6).
+    const double kmh = v * 3.6;
+    const double mu = 0.161 + 7.5 / (kmh + 44.0);
+    return mu * adhesion_mass * kGravity;
+}
+
+inline double TrainType::tractive_force(double v) const {
+    if (!(performance > 0.0)) return 0.0;  // no effort used (also keeps 0 * infinity out)
+    v = std::max(v, 0.0);
+    double f;
+    if (!force_table.empty()) {
+        f = table_force(v);
+    } else if (max_force <= 0.0 && power <= 0.0) {
+        f = 0.0;  // neither a force cap nor a power curve: the type has no traction (coasts)
+    } else {
+        // max_force 0 = no force cap, power 0 = no power curve.  An uncapped power curve gives
+        // an infinite force at standstill; the integrator starts such a train by the
+        // constant-power closed form, and an adhesion mass caps it below.
+        constexpr double kNone = std::numeric_limits<double>::infinity();
+        const double cap = max_force > 0.0 ? max_force : kNone;
+        const double by_power = power > 0.0 ? (v > 0.0 ? power / v : kNone) : kNone;
+        f = std::min(cap, by_power);
+    }
+    if (adhesion_mass > 0.0) f = std::min(f, adhesion_limit(v));
+    // The driver's share of the available effort.  The speed cap (max_speed) is a limit the
+    // running-time calculation enforces, not a force that vanishes here.
+    return f * performance;
+}
 
 }  // namespace knockon
