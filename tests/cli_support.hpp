@@ -119,4 +119,12 @@ inline std::string python_with_h5py() {
 inline std::string q(const std::string& s) { return "'" + s + "'"; }
 inline std::string q(const fs::path& p) { return q(p.string()); }
 
+// Runs tools/read_results_example.py with `python` (from python_with_h5py()) on `results`, its
+// output and errors to `log`; returns the status std::system gives.
+inline int run_read_results_example(const std::string& python, const fs::path& results, const fs::path& log) {
+    const std::string cmd =
+        python + " " + kSource + "/tools/read_results_example.py " + q(results) + " >" + q(log) + " 2>&1";
+    return std::system(cmd.c_str());
+}
+
 }  // namespace clitest

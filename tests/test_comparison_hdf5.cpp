@@ -192,8 +192,7 @@ TEST_CASE("comparison file: the Python example reads it", "[comparison_hdf5][pyt
     const fs::path out = dir.path / "cmp.h5";
     REQUIRE(run_knockon(compare_args(scenario, out), dir).status == 0);
     const fs::path log = dir.path / "log.txt";
-    const std::string cmd = python + " " + kSource + "/tools/read_results_example.py " + q(out) + " >" + q(log) + " 2>&1";
-    const int rc = std::system(cmd.c_str());
+    const int rc = run_read_results_example(python, out, log);
     INFO(read_text(log));
     REQUIRE(rc == 0);
     CHECK_THAT(read_text(log), Contains("variants: base, slow_release (differences against base)"));

@@ -2,7 +2,6 @@
 // (tools/io/HDF5_LAYOUT.md), a failed write, the deadlock exit status, and refused --delay options.
 #include <catch2/catch.hpp>
 
-#include <hdf5.h>
 #include <sys/wait.h>
 
 #include <cstdlib>
@@ -18,6 +17,7 @@
 #include "sim/simulation.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "cli_support.hpp"
+#include "hdf5_test_support.hpp"
 
 namespace fs = std::filesystem;
 using namespace knockon;
@@ -34,19 +34,6 @@ const std::string kDeadlock = kSource + "/tests/data/sim/single_line_deadlock.ya
 
 // Every run under a 20 s guard: a deadlocked day must be reported, not hang.
 Result run_knockon(const std::string& args, const TempDir& dir) { return clitest::knockon(args, dir, 20); }
-
-// Number of records of a 1-D dataset, read with the HDF5 C API.
-hsize_t records(hid_t file, const char* dataset) {
-    hid_t d = H5Dopen2(file, dataset, H5P_DEFAULT);
-    REQUIRE(d >= 0);
-    hid_t s = H5Dget_space(d);
-    REQUIRE(H5Sget_simple_extent_ndims(s) == 1);
-    hsize_t dims[1] = {0};
-    H5Sget_simple_extent_dims(s, dims, nullptr);
-    H5Sclose(s);
-    H5Dclose(d);
-    return dims[0];
-}
 
 }  // namespace
 
@@ -68,13 +55,11 @@ TEST_CASE("simulate --out writes /day/timing, /day/occupancy and /day/routes wit
     for (const TrainPlan& tp : plan) calls += tp.run.service->calls.size();
     REQUIRE(calls == 6);   // two trains calling at A, B and C
 
-    hid_t file = H5Fopen(h5.c_str(), H5F_ACC_RDONLY, H5P_DEFAULT);
-    REQUIRE(file >= 0);
-    CHECK(records(file, "/day/timing") == calls);
-    CHECK(records(file, "/day/occupancy") == day.sections.size());
-    CHECK(records(file, "/day/routes") == day.routes.size());
+    const h5test::Reader file(h5);
+    CHECK(file.count("/day/timing") == calls);
+    CHECK(file.count("/day/occupancy") == day.sections.size());
+    CHECK(file.count("/day/routes") == day.routes.size());
     CHECK(day.sections.size() >= 2 * 8);   // each train passes every block of the line
-    H5Fclose(file);
 }
 
 TEST_CASE("simulate --out into an unwritable directory fails and leaves no file", "[sim][cli][hdf5]") {

@@ -11,7 +11,6 @@
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
-#include <iterator>
 #include <limits>
 #include <string>
 #include <vector>
@@ -19,6 +18,7 @@
 #include <unistd.h>
 
 #include "cli_support.hpp"
+#include "hdf5_test_support.hpp"
 #include "tools/io/hdf5_file.hpp"
 #include "tools/io/output_file.hpp"
 #include "tools/io/plan_output.hpp"
@@ -27,6 +27,8 @@
 using namespace knockon;
 using Catch::Matchers::Contains;
 namespace fs = std::filesystem;
+using clitest::read_text;
+using h5test::Reader;
 
 namespace {
 
@@ -90,129 +92,6 @@ struct TempDir {
         std::vector<std::string> out;
         for (const auto& e : fs::directory_iterator(path)) out.push_back(e.path().filename().string());
         return out;
-    }
-};
-
-std::string file_bytes(const fs::path& p) {
-    std::ifstream in(p, std::ios::binary);
-    return std::string(std::istreambuf_iterator<char>(in), {});
-}
-
-// Read-only access through the C API.
-struct Reader {
-    hid_t file = H5I_INVALID_HID;
-    explicit Reader(const fs::path& p) {
-        file = H5Fopen(p.c_str(), H5F_ACC_RDONLY, H5P_DEFAULT);
-        REQUIRE(file >= 0);
-    }
-    ~Reader() { H5Fclose(file); }
-
-    bool exists(const std::string& path) const { return H5Lexists(file, path.c_str(), H5P_DEFAULT) > 0; }
-
-    hsize_t count(const std::string& dataset) const {
-        hid_t d = H5Dopen2(file, dataset.c_str(), H5P_DEFAULT);
-        REQUIRE(d >= 0);
-        hid_t s = H5Dget_space(d);
-        hsize_t dims[1] = {0}, max_dims[1] = {0};
-        REQUIRE(H5Sget_simple_extent_ndims(s) == 1);
-        H5Sget_simple_extent_dims(s, dims, max_dims);
-        CHECK(max_dims[0] == H5S_UNLIMITED);  // extendible, so later work can append
-        H5Sclose(s);
-        H5Dclose(d);
-        return dims[0];
-    }
-
-    // One numeric field of every record, converted by HDF5 (fields are matched by name).
-    template <class T>
-    std::vector<T> column(const std::string& dataset, const std::string& field, hid_t native) const {
-        hid_t d = H5Dopen2(file, dataset.c_str(), H5P_DEFAULT);
-        REQUIRE(d >= 0);
-        hid_t s = H5Dget_space(d);
-        std::vector<T> out(static_cast<std::size_t>(H5Sget_simple_extent_npoints(s)));
-        hid_t t = H5Tcreate(H5T_COMPOUND, sizeof(T));
-        H5Tinsert(t, field.c_str(), 0, native);
-        REQUIRE(H5Dread(d, t, H5S_ALL, H5S_ALL, H5P_DEFAULT, out.data()) >= 0);
-        H5Tclose(t);
-        H5Sclose(s);
-        H5Dclose(d);
-        return out;
-    }
-
-    std::vector<std::string> text_column(const std::string& dataset, const std::string& field) const {
-        hid_t d = H5Dopen2(file, dataset.c_str(), H5P_DEFAULT);
-        REQUIRE(d >= 0);
-        hid_t ftype = H5Dget_type(d);
-        int member = H5Tget_member_index(ftype, field.c_str());
-        REQUIRE(member >= 0);
-        hid_t stype = H5Tget_member_type(ftype, static_cast<unsigned>(member));
-        REQUIRE(H5Tget_class(stype) == H5T_STRING);
-        REQUIRE(H5Tis_variable_str(stype) == 0);
-        const std::size_t width = H5Tget_size(stype);
-        hid_t s = H5Dget_space(d);
-        const auto n = static_cast<std::size_t>(H5Sget_simple_extent_npoints(s));
-        std::vector<char> raw(n * width + 1, '\0');
-        hid_t t = H5Tcreate(H5T_COMPOUND, width);
-        H5Tinsert(t, field.c_str(), 0, stype);
-        REQUIRE(H5Dread(d, t, H5S_ALL, H5S_ALL, H5P_DEFAULT, raw.data()) >= 0);
-        std::vector<std::string> out;
-        for (std::size_t i = 0; i < n; ++i) {
-            std::string v(raw.data() + i * width, width);
-            v.erase(v.find_last_not_of('\0') + 1);  // null padding
-            out.push_back(v);
-        }
-        H5Tclose(t);
-        H5Sclose(s);
-        H5Tclose(stype);
-        H5Tclose(ftype);
-        H5Dclose(d);
-        return out;
-    }
-
-    std::vector<std::string> field_names(const std::string& dataset) const {
-        hid_t d = H5Dopen2(file, dataset.c_str(), H5P_DEFAULT);
-        REQUIRE(d >= 0);
-        hid_t t = H5Dget_type(d);
-        std::vector<std::string> out;
-        for (int i = 0; i < H5Tget_nmembers(t); ++i) {
-            char* n = H5Tget_member_name(t, static_cast<unsigned>(i));
-            out.emplace_back(n);
-            H5free_memory(n);
-        }
-        H5Tclose(t);
-        H5Dclose(d);
-        return out;
-    }
-
-    std::string text_attr(const std::string& object, const std::string& name) const {
-        hid_t a = H5Aopen_by_name(file, object.c_str(), name.c_str(), H5P_DEFAULT, H5P_DEFAULT);
-        REQUIRE(a >= 0);
-        hid_t t = H5Aget_type(a);
-        REQUIRE(H5Tget_class(t) == H5T_STRING);
-        std::vector<char> buf(H5Tget_size(t) + 1, '\0');
-        REQUIRE(H5Aread(a, t, buf.data()) >= 0);
-        H5Tclose(t);
-        H5Aclose(a);
-        return std::string(buf.data());
-    }
-
-    template <class T>
-    T number_attr(const std::string& object, const std::string& name, hid_t native) const {
-        hid_t a = H5Aopen_by_name(file, object.c_str(), name.c_str(), H5P_DEFAULT, H5P_DEFAULT);
-        REQUIRE(a >= 0);
-        T v{};
-        REQUIRE(H5Aread(a, native, &v) >= 0);
-        H5Aclose(a);
-        return v;
-    }
-
-    H5T_class_t attr_class(const std::string& object, const std::string& name) const {
-        hid_t a = H5Aopen_by_name(file, object.c_str(), name.c_str(), H5P_DEFAULT, H5P_DEFAULT);
-        REQUIRE(a >= 0);
-        hid_t t = H5Aget_type(a);
-        const H5T_class_t c = H5Tget_class(t);
-        H5Tclose(t);
-        H5Aclose(a);
-        return c;
     }
 };
 
@@ -408,12 +287,12 @@ TEST_CASE("HDF5 results: writing twice gives the same bytes, with no time stamps
     const fs::path a = dir.path / "a.h5";
     const fs::path b = dir.path / "b.h5";
     write_sim_hdf5(a.string(), small_result(), small_info());
-    const std::string first = file_bytes(a);
+    const std::string first = read_text(a);
     write_sim_hdf5(a.string(), small_result(), small_info());  // over the existing file
     write_sim_hdf5(b.string(), small_result(), small_info());  // under another name
     REQUIRE(first.size() > 0);
-    CHECK(file_bytes(a) == first);
-    CHECK(file_bytes(b) == first);
+    CHECK(read_text(a) == first);
+    CHECK(read_text(b) == first);
 
     // ENGINEERING.md "HDF5": object time tracking off, else bytes change from one second to the next.
     Reader f(a);
@@ -461,15 +340,13 @@ TEST_CASE("HDF5 results: the Python example reads the file", "[sim_hdf5][python]
     const fs::path out = dir.path / "run.h5";
     write_sim_hdf5(out.string(), small_result(), small_info());
     const fs::path log = dir.path / "log.txt";
-    const std::string cmd = python + " " + KNOCKON_SOURCE_DIR + "/tools/read_results_example.py '" + out.string() +
-                            "' >'" + log.string() + "' 2>&1";
-    const int rc = std::system(cmd.c_str());
-    INFO(file_bytes(log));
+    const int rc = clitest::run_read_results_example(python, out, log);
+    INFO(read_text(log));
     REQUIRE(rc == 0);
     // The example prints each table with its record count.
-    CHECK_THAT(file_bytes(log), Contains("timing: 4 records"));
-    CHECK_THAT(file_bytes(log), Contains("trajectories: 0 records"));
-    CHECK_THAT(file_bytes(log), Contains("regional-2040"));
+    CHECK_THAT(read_text(log), Contains("timing: 4 records"));
+    CHECK_THAT(read_text(log), Contains("trajectories: 0 records"));
+    CHECK_THAT(read_text(log), Contains("regional-2040"));
 }
 
 TEST_CASE("HDF5 wrapper: failures name the file and the object", "[sim_hdf5]") {

@@ -15,7 +15,6 @@
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
-#include <iterator>
 #include <set>
 #include <string>
 #include <thread>
@@ -27,18 +26,16 @@
 #include <nlohmann/json.hpp>
 
 #include "cli_support.hpp"
+#include "hdf5_test_support.hpp"
 #include "tools/io/study_hdf5.hpp"
 
 using namespace knockon;
 using Catch::Matchers::Contains;
 namespace fs = std::filesystem;
+using clitest::read_text;
+using h5test::Reader;
 
 namespace {
-
-std::string file_bytes(const fs::path& p) {
-    std::ifstream in(p, std::ios::binary);
-    return std::string(std::istreambuf_iterator<char>(in), {});
-}
 
 // A fresh directory holding the fixture: tests/data/two_trains.yaml with a `delays:` section, so
 // that days differ (half the trains start late, exponential with a mean of 2 min).
@@ -50,7 +47,7 @@ struct Fixture {
         fs::create_directories(dir);
         scenario = dir / "delayed.yaml";
         std::ofstream out(scenario);
-        out << file_bytes(fs::path(KNOCKON_SOURCE_DIR) / "tests/data/two_trains.yaml")
+        out << read_text(fs::path(KNOCKON_SOURCE_DIR) / "tests/data/two_trains.yaml")
             << "\ndelays: {entry: [{probability: 50 %, distribution: exponential, mean: 2 min}]}\n";
     }
     ~Fixture() {
@@ -70,140 +67,8 @@ struct Fixture {
         const int rc = std::system(cmd.c_str());
         return WIFEXITED(rc) ? WEXITSTATUS(rc) : -1;
     }
-    std::string out(const std::string& tag = "run") const { return file_bytes(dir / (tag + ".out")); }
-    std::string err(const std::string& tag = "run") const { return file_bytes(dir / (tag + ".err")); }
-};
-
-// Read-only access through the C API.
-struct Reader {
-    hid_t file = H5I_INVALID_HID;
-    explicit Reader(const fs::path& p) {
-        file = H5Fopen(p.c_str(), H5F_ACC_RDONLY, H5P_DEFAULT);
-        REQUIRE(file >= 0);
-    }
-    ~Reader() { H5Fclose(file); }
-
-    bool exists(const std::string& path) const { return H5Lexists(file, path.c_str(), H5P_DEFAULT) > 0; }
-
-    hsize_t count(const std::string& dataset) const {
-        hid_t d = H5Dopen2(file, dataset.c_str(), H5P_DEFAULT);
-        REQUIRE(d >= 0);
-        hid_t s = H5Dget_space(d);
-        const auto n = static_cast<hsize_t>(H5Sget_simple_extent_npoints(s));
-        H5Sclose(s);
-        H5Dclose(d);
-        return n;
-    }
-
-    std::vector<std::string> members(const std::string& group) const {
-        hid_t g = H5Gopen2(file, group.c_str(), H5P_DEFAULT);
-        REQUIRE(g >= 0);
-        H5G_info_t info{};
-        REQUIRE(H5Gget_info(g, &info) >= 0);
-        std::vector<std::string> out;
-        for (hsize_t i = 0; i < info.nlinks; ++i) {
-            char name[64] = {};
-            H5Lget_name_by_idx(g, ".", H5_INDEX_NAME, H5_ITER_INC, i, name, sizeof name, H5P_DEFAULT);
-            out.emplace_back(name);
-        }
-        H5Gclose(g);
-        return out;
-    }
-
-    template <class T>
-    std::vector<T> column(const std::string& dataset, const std::string& field, hid_t native) const {
-        hid_t d = H5Dopen2(file, dataset.c_str(), H5P_DEFAULT);
-        REQUIRE(d >= 0);
-        hid_t s = H5Dget_space(d);
-        std::vector<T> out(static_cast<std::size_t>(H5Sget_simple_extent_npoints(s)));
-        hid_t t = H5Tcreate(H5T_COMPOUND, sizeof(T));
-        H5Tinsert(t, field.c_str(), 0, native);
-        const herr_t read = H5Dread(d, t, H5S_ALL, H5S_ALL, H5P_DEFAULT, out.data());
-        H5Tclose(t);
-        H5Sclose(s);
-        H5Dclose(d);
-        INFO(dataset << " field " << field);
-        REQUIRE(read >= 0);
-        return out;
-    }
-    std::vector<double> f64(const std::string& dataset, const std::string& field) const {
-        return column<double>(dataset, field, H5T_NATIVE_DOUBLE);
-    }
-
-    std::vector<std::string> text_column(const std::string& dataset, const std::string& field) const {
-        hid_t d = H5Dopen2(file, dataset.c_str(), H5P_DEFAULT);
-        REQUIRE(d >= 0);
-        hid_t ftype = H5Dget_type(d);
-        const int member = H5Tget_member_index(ftype, field.c_str());
-        REQUIRE(member >= 0);
-        hid_t stype = H5Tget_member_type(ftype, static_cast<unsigned>(member));
-        const std::size_t width = H5Tget_size(stype);
-        hid_t s = H5Dget_space(d);
-        const auto n = static_cast<std::size_t>(H5Sget_simple_extent_npoints(s));
-        std::vector<char> raw(n * width + 1, '\0');
-        hid_t t = H5Tcreate(H5T_COMPOUND, width);
-        H5Tinsert(t, field.c_str(), 0, stype);
-        REQUIRE(H5Dread(d, t, H5S_ALL, H5S_ALL, H5P_DEFAULT, raw.data()) >= 0);
-        std::vector<std::string> out;
-        for (std::size_t i = 0; i < n; ++i) {
-            std::string v(raw.data() + i * width, width);
-            v.erase(v.find_last_not_of('\0') + 1);
-            out.push_back(v);
-        }
-        H5Tclose(t);
-        H5Sclose(s);
-        H5Tclose(stype);
-        H5Tclose(ftype);
-        H5Dclose(d);
-        return out;
-    }
-
-    std::vector<std::string> field_names(const std::string& dataset) const {
-        hid_t d = H5Dopen2(file, dataset.c_str(), H5P_DEFAULT);
-        REQUIRE(d >= 0);
-        hid_t t = H5Dget_type(d);
-        std::vector<std::string> out;
-        for (int i = 0; i < H5Tget_nmembers(t); ++i) {
-            char* n = H5Tget_member_name(t, static_cast<unsigned>(i));
-            out.emplace_back(n);
-            H5free_memory(n);
-        }
-        H5Tclose(t);
-        H5Dclose(d);
-        return out;
-    }
-
-    std::string text_attr(const std::string& object, const std::string& name) const {
-        hid_t a = H5Aopen_by_name(file, object.c_str(), name.c_str(), H5P_DEFAULT, H5P_DEFAULT);
-        REQUIRE(a >= 0);
-        hid_t t = H5Aget_type(a);
-        std::vector<char> buf(H5Tget_size(t) + 1, '\0');
-        REQUIRE(H5Aread(a, t, buf.data()) >= 0);
-        H5Tclose(t);
-        H5Aclose(a);
-        return std::string(buf.data());
-    }
-
-    template <class T>
-    T number_attr(const std::string& object, const std::string& name, hid_t native) const {
-        hid_t a = H5Aopen_by_name(file, object.c_str(), name.c_str(), H5P_DEFAULT, H5P_DEFAULT);
-        REQUIRE(a >= 0);
-        T v{};
-        REQUIRE(H5Aread(a, native, &v) >= 0);
-        H5Aclose(a);
-        return v;
-    }
-
-    std::vector<double> f64_array_attr(const std::string& object, const std::string& name) const {
-        hid_t a = H5Aopen_by_name(file, object.c_str(), name.c_str(), H5P_DEFAULT, H5P_DEFAULT);
-        REQUIRE(a >= 0);
-        hid_t s = H5Aget_space(a);
-        std::vector<double> v(static_cast<std::size_t>(H5Sget_simple_extent_npoints(s)));
-        REQUIRE(H5Aread(a, H5T_NATIVE_DOUBLE, v.data()) >= 0);
-        H5Sclose(s);
-        H5Aclose(a);
-        return v;
-    }
+    std::string out(const std::string& tag = "run") const { return read_text(dir / (tag + ".out")); }
+    std::string err(const std::string& tag = "run") const { return read_text(dir / (tag + ".err")); }
 };
 
 // Row of /study/summary for one figure.
@@ -409,11 +274,11 @@ TEST_CASE("study HDF5: the same seed gives the same bytes with 1 or 2 threads", 
     // 120 days: more than one batch of 50, so the threads interleave across batches.
     const std::string args = "--replications 120 --seed 7 --traces sample:7 --out '" + out.string() + "'";
     REQUIRE(fx.simulate(args + " --threads 1") == 0);
-    const std::string one = file_bytes(out);
+    const std::string one = read_text(out);
     REQUIRE(fx.simulate(args + " --threads 2") == 0);
-    const std::string two = file_bytes(out);
+    const std::string two = read_text(out);
     REQUIRE(fx.simulate("--threads=2 " + args) == 0);
-    const std::string two_again = file_bytes(out);
+    const std::string two_again = read_text(out);
     REQUIRE(one.size() > 0);
     // ENGINEERING.md "Random numbers and reproducibility": results do not depend on the thread count.
     CHECK(one == two);
@@ -531,13 +396,11 @@ TEST_CASE("study HDF5: the Python example reads a study file", "[study_hdf5][pyt
     const fs::path out = fx.dir / "study.h5";
     REQUIRE(fx.simulate("--replications 20 --traces sample:2 --out '" + out.string() + "'") == 0);
     const fs::path log = fx.dir / "log.txt";
-    const std::string cmd = python + " " + KNOCKON_SOURCE_DIR + "/tools/read_results_example.py '" + out.string() +
-                            "' >'" + log.string() + "' 2>&1";
-    const int rc = std::system(cmd.c_str());
-    INFO(file_bytes(log));
+    const int rc = clitest::run_read_results_example(python, out, log);
+    INFO(read_text(log));
     REQUIRE(rc == 0);
-    CHECK_THAT(file_bytes(log), Contains("per_day: 20 records"));
-    CHECK_THAT(file_bytes(log), Contains("total_knock_on"));
-    CHECK_THAT(file_bytes(log), Contains("traced days: 2 (000009, 000019)"));
-    CHECK_THAT(file_bytes(log), Contains("timing 6"));  // the first traced day, read like /day
+    CHECK_THAT(read_text(log), Contains("per_day: 20 records"));
+    CHECK_THAT(read_text(log), Contains("total_knock_on"));
+    CHECK_THAT(read_text(log), Contains("traced days: 2 (000009, 000019)"));
+    CHECK_THAT(read_text(log), Contains("timing 6"));  // the first traced day, read like /day
 }
