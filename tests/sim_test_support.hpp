@@ -1,6 +1,7 @@
 #pragma once
 // Shared by the simulation tests: a simulated day kept with its scenario and plan, look-ups of
-// records by train id and station, and the train type the inline fixtures use.
+// records by train id and station, and the inline fixtures (the train type, a plain line, the
+// departure line).
 #include <catch2/catch.hpp>
 
 #include <cmath>
@@ -13,6 +14,7 @@
 #include "models/plan.hpp"
 #include "sim/simulation.hpp"
 #include "tools/io/scenario_reader.hpp"
+#include "scenario_text_support.hpp"
 
 namespace knockon::simtest {
 
@@ -85,42 +87,24 @@ inline std::string clock(double seconds) {
 
 // --- Inline fixtures ---------------------------------------------------------------------------
 
-const char* const kEmu = R"(
-train_types:
-  - id: EMU10
-    length: 100 m
-    mass: 200 t
-    rotating_mass_factor: 1.08
-    max_speed: 120 km/h
-    traction: {max_force: 200 kN, power: 2 MW}
-    resistance: {a: 2 kN, b: 20 N/(m/s), c: 5 N/(m/s)2}
-    braking: {deceleration: 0.8 m/s2, delay: 2 s}
-    min_dwell: 30 s
-    supplement: {percent: 5 %, per_100km: 1 min, threshold: 30 km}
-)";
+// The train type of the inline fixtures (after a blank line, to follow the signals).
+inline const std::string kEmu = [] {
+    std::string y = "\n";
+    y += scenariotext::emu_train_types("EMU10", "{percent: 5 %, per_100km: 1 min, threshold: 30 km}");
+    return y;
+}();
 
 // A plain line with signals every `spacing` km under one aspect system.  L starts at S at 08:00
 // (stopping mark 4.75 km: its starter stands at most 250 m ahead, within the 300 m sighting
 // distance); F comes in over the line end at line speed and runs through S at `follower_pass`
 // and through Q (10.5 km) without stopping.
 inline Scenario plain_line(const std::string& system, double spacing_km, double follower_pass) {
-    std::string y = R"(knockon: 1
-name: Plain line ()" + system + R"() (test)
-line_type: suburban
-infrastructure:
-  length: 12.5 km
-  gradients: [{from: 0 km, value: 0 per mille}]
-  speed_limits: [{from: 0 km, value: 120 km/h}]
-  tracks: [{id: U, from: 0 km, to: 12.5 km, directions: up}]
-  stations:
-    - {id: S, name: Sallowfield, at: 4.75 km}
-    - {id: Q, name: Quenby Marsh, at: 10.5 km}
-  signalling:
-    areas: [{from: 0 km, to: 12.5 km, system: )" + system + R"(}]
-    defaults: {sighting_distance: 300 m, overlap: 100 m, distant_distance: 1200 m}
-    interlocking: {route_setup: 6 s, release: 3 s, sight_reaction: 12 s}
-  signals:
-)";
+    std::string y = scenariotext::up_line_head({.name = "Plain line (" + system + ") (test)",
+                                                .length = "12.5 km",
+                                                .stations = {"{id: S, name: Sallowfield, at: 4.75 km}",
+                                                             "{id: Q, name: Quenby Marsh, at: 10.5 km}"},
+                                                .system = system,
+                                                .overlap = "100 m"});
     int k = 1;
     for (double x = 0.0; x < 12.0 - 1e-9; x += spacing_km, ++k) {
         char buf[96];
@@ -137,6 +121,43 @@ infrastructure:
        calls: [{station: S, pass: ")" + clock(follower_pass) + R"("}, {station: Q, pass: auto}]}
 )";
     return parse_scenario(y, "plain-line-" + system + ".yaml");
+}
+
+// The 12 km line of the departure tests: stations S (stopping mark `station_km`) and X (8 km),
+// three-aspect signalling with 200 m overlaps; the caller writes the signals.
+inline std::string departure_line_head(const std::string& name, const std::string& station_km) {
+    return scenariotext::up_line_head({.name = name,
+                                       .stations = {"{id: S, name: Starling Quay, at: " + station_km + "}",
+                                                    "{id: X, name: Oxhey Bottom, at: 8 km}"}});
+}
+
+// Trains start from the platform road at S (stopping mark 1.0 km, starter U02 300 m beyond,
+// within sight), L at 08:00:00 and each follower (id, departure) after it; then a long first
+// block (to 4.0 km) and 0.8 km blocks, so that the route out of S is the critical one for two
+// trains starting there (blocking time theory: it holds the slow start).  All run through X and
+// off the line end.
+inline Scenario departure_scenario(const std::vector<std::pair<std::string, double>>& followers,
+                                   const std::string& starter_km = "1.3") {
+    std::string y = departure_line_head("Knock-on at a shared departure road (test)", "1 km");
+    y += R"(    - {id: U01, track: U, at: 0 km, direction: up}
+    - {id: U02, track: U, at: )" + starter_km + R"( km, direction: up}
+    - {id: U03, track: U, at: 4 km, direction: up}
+)";
+    const char* ids[] = {"U04", "U05", "U06", "U07", "U08", "U09", "U10", "U11"};
+    for (int k = 0; k < 8; ++k)
+        y += "    - {id: " + std::string(ids[k]) + ", track: U, at: " + std::to_string(4.8 + 0.8 * k) +
+             " km, direction: up}\n";
+    y += kEmu;
+    y += R"(timetable:
+  rounding: 30 s
+  services:
+    - {id: L, type: EMU10, category: stopping, direction: up, leave: true,
+       calls: [{station: S, dep: "08:00:00"}, {station: X, pass: auto}]}
+)";
+    for (const auto& [id, dep] : followers)
+        y += "    - {id: " + id + ", type: EMU10, category: stopping, direction: up, leave: true,\n"
+             "       calls: [{station: S, dep: \"" + clock(dep) + "\"}, {station: X, pass: auto}]}\n";
+    return parse_scenario(y, "departure-knockon.yaml");
 }
 
 }  // namespace knockon::simtest

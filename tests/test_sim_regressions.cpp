@@ -21,49 +21,6 @@ namespace {
 
 using namespace knockon::simtest;
 
-// Both trains start from the platform road at S (stopping mark 1.0 km, starter U02 300 m beyond,
-// within sight), L at 08:00:00 and F at `follower_dep`; then a long first block (to 4.0 km) and
-// 0.8 km blocks, so that the route out of S is the critical one for two trains starting there
-// (blocking time theory: it holds the slow start).  Both run through X and off the line end.
-Scenario departure_scenario(const std::vector<double>& follower_deps, const std::string& starter_km = "1.3") {
-    std::string y = R"(knockon: 1
-name: Knock-on at a shared departure road (test)
-line_type: suburban
-infrastructure:
-  length: 12 km
-  gradients: [{from: 0 km, value: 0 per mille}]
-  speed_limits: [{from: 0 km, value: 120 km/h}]
-  tracks: [{id: U, from: 0 km, to: 12 km, directions: up}]
-  stations:
-    - {id: S, name: Starling Quay, at: 1 km}
-    - {id: X, name: Oxhey Bottom, at: 8 km}
-  signalling:
-    areas: [{from: 0 km, to: 12 km, system: three_aspect}]
-    defaults: {sighting_distance: 300 m, overlap: 200 m, distant_distance: 1200 m}
-    interlocking: {route_setup: 6 s, release: 3 s, sight_reaction: 12 s}
-  signals:
-    - {id: U01, track: U, at: 0 km, direction: up}
-    - {id: U02, track: U, at: )" + starter_km + R"( km, direction: up}
-    - {id: U03, track: U, at: 4 km, direction: up}
-)";
-    const char* ids[] = {"U04", "U05", "U06", "U07", "U08", "U09", "U10", "U11"};
-    for (int k = 0; k < 8; ++k)
-        y += "    - {id: " + std::string(ids[k]) + ", track: U, at: " + std::to_string(4.8 + 0.8 * k) +
-             " km, direction: up}\n";
-    y += kEmu;
-    y += R"(timetable:
-  rounding: 30 s
-  services:
-    - {id: L, type: EMU10, category: stopping, direction: up, leave: true,
-       calls: [{station: S, dep: "08:00:00"}, {station: X, pass: auto}]}
-)";
-    for (std::size_t k = 0; k < follower_deps.size(); ++k)
-        y += "    - {id: F" + std::to_string(k + 1) + ", type: EMU10, category: stopping, direction: up, leave: true,\n"
-             "       calls: [{station: S, dep: \"" + clock(follower_deps[k]) + "\"}, {station: X, pass: auto}]}\n";
-    return parse_scenario(y, "departure-knockon.yaml");
-}
-
-
 constexpr double k0800 = 8 * 3600.0;
 
 }  // namespace
@@ -73,8 +30,8 @@ TEST_CASE("a departure waits for the starter: follower's departure delay = max(0
     // proceed aspect"; blocking_time.hpp: "it may not start against a signal at stop".
     // Observed: F leaves S on time whatever D, runs 300 m to the starter U02 and stands there
     // (a HoldRecord at U02); its recorded departure is not gated by the route.
-    const double h_min = make_plan(departure_scenario({k0800 + 300.0})).headways.at(0).minimum_headway;
-    const Scenario sc = departure_scenario({k0800 + std::ceil(h_min) + 60.0});
+    const double h_min = make_plan(departure_scenario({{"F1", k0800 + 300.0}})).headways.at(0).minimum_headway;
+    const Scenario sc = departure_scenario({{"F1", k0800 + std::ceil(h_min) + 60.0}});
     const double b = headway_pair(make_plan(sc), "S-X", "L", "F1").buffer;
     for (double D : {120.0, 300.0}) {
         const DayPtr d = simulate(sc, {{"L", D}});
@@ -88,9 +45,9 @@ TEST_CASE("max-plus chain of three departures (REFERENCES.md P3)", "[sim]") {
     // Goverde's max-plus timetable model: x_k = max(d_k, x_{k-1} + h_min): with buffers b1, b2
     // the delays are d1 = max(0, D - b1), d2 = max(0, d1 - b2).  Needs departures gated at the
     // platform so that F1's whole stairway shifts by d1.
-    const double h = make_plan(departure_scenario({k0800 + 300.0})).headways.at(0).minimum_headway;
+    const double h = make_plan(departure_scenario({{"F1", k0800 + 300.0}})).headways.at(0).minimum_headway;
     const double f1 = k0800 + std::ceil(h) + 60.0, f2 = f1 + std::ceil(h) + 30.0;
-    const Scenario sc = departure_scenario({f1, f2});
+    const Scenario sc = departure_scenario({{"F1", f1}, {"F2", f2}});
     const PlanResult p = make_plan(sc);
     const double b1 = headway_pair(p, "S-X", "L", "F1").buffer, b2 = headway_pair(p, "S-X", "F1", "F2").buffer;
     for (double D : {30.0, 120.0, 300.0}) {
@@ -133,23 +90,8 @@ TEST_CASE("a starter at the stopping mark: its route is needed for the departure
     // its head at the starter gets the starter's route blocked from its appearance (departure -
     // dwell - 18 s) and the NEXT route marked as the departure route; the simulation locks the
     // starter's route at appearance.  Both should use departure - sight/reaction - set-up.
-    std::string y = R"(knockon: 1
-name: Starter at the stopping mark (test)
-line_type: suburban
-infrastructure:
-  length: 12 km
-  gradients: [{from: 0 km, value: 0 per mille}]
-  speed_limits: [{from: 0 km, value: 120 km/h}]
-  tracks: [{id: U, from: 0 km, to: 12 km, directions: up}]
-  stations:
-    - {id: S, name: Starling Quay, at: 1.3 km}
-    - {id: X, name: Oxhey Bottom, at: 8 km}
-  signalling:
-    areas: [{from: 0 km, to: 12 km, system: three_aspect}]
-    defaults: {sighting_distance: 300 m, overlap: 200 m, distant_distance: 1200 m}
-    interlocking: {route_setup: 6 s, release: 3 s, sight_reaction: 12 s}
-  signals:
-    - {id: U01, track: U, at: 0 km, direction: up}
+    std::string y = departure_line_head("Starter at the stopping mark (test)", "1.3 km");
+    y += R"(    - {id: U01, track: U, at: 0 km, direction: up}
     - {id: U02, track: U, at: 1.3 km, direction: up}
     - {id: U03, track: U, at: 4 km, direction: up}
     - {id: U04, track: U, at: 6 km, direction: up}

@@ -28,48 +28,6 @@ namespace {
 
 using namespace knockon::simtest;
 
-// Both trains start from the platform road at S (stopping mark 1.0 km, starter U02 300 m beyond,
-// within sight), L at 08:00:00 and F at `follower_dep`; then a long first block (to 4.0 km) and
-// 0.8 km blocks, so that the route out of S is the critical one for two trains starting there
-// (blocking time theory: it holds the slow start).  Both run through X and off the line end.
-Scenario departure_scenario(double follower_dep) {
-    std::string y = R"(knockon: 1
-name: Knock-on at a shared departure road (test)
-line_type: suburban
-infrastructure:
-  length: 12 km
-  gradients: [{from: 0 km, value: 0 per mille}]
-  speed_limits: [{from: 0 km, value: 120 km/h}]
-  tracks: [{id: U, from: 0 km, to: 12 km, directions: up}]
-  stations:
-    - {id: S, name: Starling Quay, at: 1 km}
-    - {id: X, name: Oxhey Bottom, at: 8 km}
-  signalling:
-    areas: [{from: 0 km, to: 12 km, system: three_aspect}]
-    defaults: {sighting_distance: 300 m, overlap: 200 m, distant_distance: 1200 m}
-    interlocking: {route_setup: 6 s, release: 3 s, sight_reaction: 12 s}
-  signals:
-    - {id: U01, track: U, at: 0 km, direction: up}
-    - {id: U02, track: U, at: 1.3 km, direction: up}
-    - {id: U03, track: U, at: 4 km, direction: up}
-)";
-    const char* ids[] = {"U04", "U05", "U06", "U07", "U08", "U09", "U10", "U11"};
-    for (int k = 0; k < 8; ++k)
-        y += "    - {id: " + std::string(ids[k]) + ", track: U, at: " + std::to_string(4.8 + 0.8 * k) +
-             " km, direction: up}\n";
-    y += kEmu;
-    y += R"(timetable:
-  rounding: 30 s
-  services:
-    - {id: L, type: EMU10, category: stopping, direction: up, leave: true,
-       calls: [{station: S, dep: "08:00:00"}, {station: X, pass: auto}]}
-    - {id: F, type: EMU10, category: stopping, direction: up, leave: true,
-       calls: [{station: S, dep: ")" + clock(follower_dep) + R"("}, {station: X, pass: auto}]}
-)";
-    return parse_scenario(y, "departure-knockon.yaml");
-}
-
-
 constexpr double k0800 = 8 * 3600.0;
 
 }  // namespace
@@ -127,9 +85,9 @@ TEST_CASE("Knock-on at a shared departure road: the follower's route is set max(
     // departure should follow the same rule, a departure waiting for a proceed aspect; the engine
     // lets F leave on time and draw up to the starter instead, so that is not asserted here.)
     const double leader_dep = k0800;
-    const double h_min = make_plan(departure_scenario(leader_dep + 300.0)).headways.at(0).minimum_headway;
+    const double h_min = make_plan(departure_scenario({{"F", leader_dep + 300.0}})).headways.at(0).minimum_headway;
     for (double target_buffer : {60.0, 120.0}) {
-        const Scenario sc = departure_scenario(leader_dep + std::ceil(h_min) + target_buffer);
+        const Scenario sc = departure_scenario({{"F", leader_dep + std::ceil(h_min) + target_buffer}});
         const PlanResult p = make_plan(sc);
         const HeadwayPair& pair = headway_pair(p, "S-X", "L", "F");
         const double b = pair.buffer;

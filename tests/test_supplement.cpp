@@ -8,6 +8,7 @@
 #include "models/service_run.hpp"
 #include "models/supplement.hpp"
 #include "tools/io/scenario_reader.hpp"
+#include "scenario_text_support.hpp"
 
 using namespace knockon;
 
@@ -26,42 +27,17 @@ SupplementRule rule(double share, double minutes_per_100km, double threshold_km 
 
 // A level 10 km line, one stopping train A -> B over 9 km; the supplement rule is spliced in.
 std::string stopping_line(const std::string& supplement) {
-    return R"(knockon: 1
-name: Supplement test line
-line_type: suburban
-infrastructure:
-  length: 10 km
-  gradients:
-    - {from: 0 km, value: 0 per mille}
-  speed_limits:
-    - {from: 0 km, value: 120 km/h}
-  tracks:
-    - {id: U, from: 0 km, to: 10 km, directions: up}
-  stations:
-    - {id: A, name: Amberlow, at: 0.5 km}
-    - {id: B, name: Bexcote, at: 9.5 km}
-  signalling:
-    areas:
-      - {from: 0 km, to: 10 km, system: three_aspect}
-    defaults: {sighting_distance: 300 m, overlap: 200 m}
-    interlocking: {route_setup: 6 s, release: 3 s, sight_reaction: 12 s}
-  signals:
-    - {id: U1, track: U, at: 0 km, direction: up}
+    using namespace scenariotext;
+    return up_line_head({.name = "Supplement test line",
+                         .length = "10 km",
+                         .stations = {"{id: A, name: Amberlow, at: 0.5 km}", "{id: B, name: Bexcote, at: 9.5 km}"},
+                         .distant_distance = ""}) +
+           R"(    - {id: U1, track: U, at: 0 km, direction: up}
     - {id: U2, track: U, at: 0.8 km, direction: up}
     - {id: U3, track: U, at: 5 km, direction: up}
     - {id: U4, track: U, at: 9.8 km, direction: up}
-train_types:
-  - id: EMU
-    length: 100 m
-    mass: 200 t
-    rotating_mass_factor: 1.08
-    max_speed: 120 km/h
-    traction: {max_force: 200 kN, power: 2 MW}
-    resistance: {a: 2 kN, b: 20 N/(m/s), c: 5 N/(m/s)2}
-    braking: {deceleration: 0.8 m/s2, delay: 2 s}
-    min_dwell: 30 s
-    supplement: )" + supplement + R"(
-timetable:
+)" + emu_train_types("EMU", supplement) +
+           R"(timetable:
   rounding: 30 s
   services:
     - id: T1
