@@ -24,6 +24,13 @@ namespace fs = std::filesystem;
 inline const std::string kExe = KNOCKON_EXE;
 inline const std::string kSource = KNOCKON_SOURCE_DIR;
 
+// Scenarios the end-to-end tests run.
+inline const std::string kTwoTrains = kSource + "/tests/data/two_trains.yaml";
+inline const std::string kTwoSpeed = kSource + "/tests/data/plan/two_speed_line.yaml";
+inline const std::string kDemo = kSource + "/scenarios/demo.yaml";
+// 16 stopping trains with drawn primary delays, so that days differ.
+inline const std::string kDelayedLine = kSource + "/tests/data/study/delayed_line.yaml";
+
 // A fresh directory for one test's files, removed afterwards.
 struct TempDir {
     fs::path path;

@@ -1,8 +1,8 @@
 #pragma once
 // Shared by the tests of results files, reports and plots (test_comparison_hdf5.cpp,
-// test_results_report.cpp): the study fixture of tests/data/study/delayed_line.yaml (16 stopping
-// trains with drawn primary delays, so that days differ) and a copy of it with a variant, and the
-// counting of elements by CSS class.
+// test_results_report.cpp, test_report_cli.cpp): the CLI runner, a copy of the study fixture
+// tests/data/study/delayed_line.yaml (clitest::kDelayedLine) with a variant, and the counting of
+// elements by CSS class.
 #include <regex>
 #include <sstream>
 #include <string>
@@ -13,8 +13,6 @@
 namespace resultstest {
 
 using namespace clitest;
-
-inline const std::string kDelayedLine = kSource + "/tests/data/study/delayed_line.yaml";
 
 // delayed_line.yaml with the variant `slow_release` (sections released 20 s after the tail clears
 // them instead of 3 s: longer blocking times, so more knock-on), written into `dir`.

@@ -25,10 +25,6 @@ namespace {
 
 using namespace clitest;
 
-const std::string kDemo = kSource + "/scenarios/demo.yaml";
-const std::string kTwoSpeed = kSource + "/tests/data/plan/two_speed_line.yaml";
-
-
 std::vector<std::string> split_csv_line(const std::string& line) {
     // The fixtures' cells hold no commas or quotes, so a plain split is enough here.
     std::vector<std::string> cells;

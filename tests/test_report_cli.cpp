@@ -20,29 +20,16 @@
 #include "tools/io/plan_charts.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
-#include "cli_support.hpp"
-#include "page_test_support.hpp"
+#include "results_test_support.hpp"
 
 namespace fs = std::filesystem;
 using namespace knockon;
 
 namespace {
 
-using clitest::kSource;
-using clitest::q;
-using clitest::read_text;
-using clitest::Result;
-using clitest::TempDir;
-const std::string kTwoTrains = kSource + "/tests/data/two_trains.yaml";
-const std::string kTwoSpeed = kSource + "/tests/data/plan/two_speed_line.yaml";
-const std::string kDemo = kSource + "/scenarios/demo.yaml";
+using namespace resultstest;
+
 const TimeWindow kWholeDay{0.0, 86400.0};
-
-// clitest::knockon under a name that does not clash with namespace knockon.
-Result run_knockon(const std::string& args, const TempDir& dir) { return clitest::knockon(args, dir); }
-
-using pagetest::check_self_contained;
-using pagetest::count_class;
 
 // The train-path polylines: train id (first word of the tooltip) -> number of points.
 std::map<std::string, std::size_t> train_paths(const std::string& markup) {

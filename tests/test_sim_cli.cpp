@@ -24,12 +24,8 @@ using namespace knockon;
 
 namespace {
 
-using clitest::kSource;
-using clitest::q;
-using clitest::read_text;
-using clitest::Result;
-using clitest::TempDir;
-const std::string kTwoTrains = kSource + "/tests/data/two_trains.yaml";
+using namespace clitest;
+
 const std::string kDeadlock = kSource + "/tests/data/sim/single_line_deadlock.yaml";
 
 // Every run under a 20 s guard: a deadlocked day must be reported, not hang.

@@ -22,10 +22,6 @@ namespace {
 
 using namespace clitest;
 
-const std::string kDemo = kSource + "/scenarios/demo.yaml";
-const std::string kDelayedLine = kSource + "/tests/data/study/delayed_line.yaml";
-const std::string kTwoTrains = kSource + "/tests/data/two_trains.yaml";
-
 json parse(const Result& r) {
     INFO(r.err);
     REQUIRE(r.status == 0);
