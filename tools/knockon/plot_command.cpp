@@ -14,8 +14,9 @@
 
 namespace knockon::cli {
 
-// In report_command.cpp: the time-window options both commands take.
-void add_window_options(po::options_description& options);
+// In report_command.cpp: the options both commands take.
+void add_drawing_options(po::options_description& options);
+double step_option(const po::variables_map& vm);
 WindowRequest window_request(const po::variables_map& vm);
 TimeWindow checked_window(const PlanResult& plan, const WindowRequest& request, std::string* reason);
 void refuse_day_options(const po::variables_map& vm);
@@ -38,14 +39,8 @@ int plot(const std::vector<std::string>& args) {
     po::options_description options("plot options");
     options.add_options()("chart", po::value<std::string>(), ("the chart (required): " + chart_list()).c_str())(
         "svg", po::value<std::string>(), "write the chart to this SVG file (required)")(
-        "width", po::value<double>()->default_value(1100.0), "width of the drawing [px]; it scales")(
-        "step", po::value<double>()->default_value(2.0),
-        "distance step of the running-time integration [m] (a results file's own by default)")(
-        "variant", po::value<std::string>(),
-        "apply this variant of the scenario file (base: none; a results file's own by default)");
-    add_window_options(options);
-    add_results_options(options);
-    add_punctuality_option(options);
+        "width", po::value<double>()->default_value(1100.0), "width of the drawing [px]; it scales");
+    add_drawing_options(options);
     po::variables_map vm;
     if (!parse_command_line("plot", args, options, vm, "input", "SCENARIO|RESULTS.h5")) return 0;
     if (!vm.count("chart")) throw UsageError("--chart is required: " + chart_list());
@@ -53,8 +48,7 @@ int plot(const std::vector<std::string>& args) {
     if (!vm.count("svg")) throw UsageError("an output file is required: --svg FILE.svg");
     const double width = vm["width"].as<double>();
     if (!(width >= 400.0 && width <= 20000.0)) throw UsageError("--width must be in [400, 20000] pixels");
-    const double step = vm["step"].as<double>();
-    if (!(step > 0.0 && step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
+    const double step = step_option(vm);
     const WindowRequest request = window_request(vm);
     if (chart != "time-distance" && (request.all || request.from || request.to))
         throw UsageError("--from, --to and --all apply to --chart time-distance only");

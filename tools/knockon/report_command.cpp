@@ -68,25 +68,37 @@ TimeWindow checked_window(const PlanResult& plan, const WindowRequest& request, 
     }
 }
 
+// The options `report` and `plot` both take after their own: the plan's --step and --variant, the
+// time-distance window, the results-file options and --punctuality.
+void add_drawing_options(po::options_description& options) {
+    options.add_options()("step", po::value<double>()->default_value(2.0),
+                          "distance step of the running-time integration [m] (a results file's own by default)")(
+        "variant", po::value<std::string>(),
+        "apply this variant of the scenario file (base: none; a results file's own by default)");
+    add_window_options(options);
+    add_results_options(options);
+    add_punctuality_option(options);
+}
+
+// --step, checked (shared with `plot`).
+double step_option(const po::variables_map& vm) {
+    const double step = vm["step"].as<double>();
+    if (!(step > 0.0 && step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
+    return step;
+}
+
 void refuse_day_options(const po::variables_map& vm) {
     if (!vm["punctuality"].defaulted()) throw UsageError("--punctuality applies to a day results file (.h5)");
 }
 
 int report(const std::vector<std::string>& args) {
     po::options_description options("report options");
-    options.add_options()("output,o", po::value<std::string>(), "write the report to this HTML file (required)")(
-        "step", po::value<double>()->default_value(2.0),
-        "distance step of the running-time integration [m] (a results file's own by default)")(
-        "variant", po::value<std::string>(),
-        "apply this variant of the scenario file (base: none; a results file's own by default)");
-    add_window_options(options);
-    add_results_options(options);
-    add_punctuality_option(options);
+    options.add_options()("output,o", po::value<std::string>(), "write the report to this HTML file (required)");
+    add_drawing_options(options);
     po::variables_map vm;
     if (!parse_command_line("report", args, options, vm, "input", "SCENARIO|RESULTS.h5")) return 0;
     if (!vm.count("output")) throw UsageError("an output file is required: -o FILE.html");
-    const double step = vm["step"].as<double>();
-    if (!(step > 0.0 && step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
+    const double step = step_option(vm);
     const WindowRequest request = window_request(vm);
     const std::string input = vm["input"].as<std::string>();
     const std::string path = vm["output"].as<std::string>();
