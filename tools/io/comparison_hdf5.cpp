@@ -64,16 +64,12 @@ void write_variants(const h5::Group& g, const std::vector<ComparedVariant>& vari
 }
 
 void write_differences(const h5::Group& g, const std::vector<DifferenceRow>& rows) {
-    RecordTable t(g, "differences",
-                  RecordLayout()
-                      .add_text("variant", longest(rows, [](auto& r) -> auto& { return r.variant; }))
-                      .add_text("figure", longest(rows, [](auto& r) -> auto& { return r.figure; }))
-                      .add_text("unit", longest(rows, [](auto& r) -> auto& { return r.unit; }))
-                      .add("mean", FieldKind::f64)
-                      .add("ci95_half_width", FieldKind::f64)
-                      .add("ci95_lower", FieldKind::f64)
-                      .add("ci95_upper", FieldKind::f64)
-                      .add("n", FieldKind::u64));
+    RecordLayout layout;
+    layout.add_text("variant", longest(rows, [](auto& r) -> auto& { return r.variant; }))
+        .add_text("figure", longest(rows, [](auto& r) -> auto& { return r.figure; }))
+        .add_text("unit", longest(rows, [](auto& r) -> auto& { return r.unit; }));
+    add_estimate_fields(layout);
+    RecordTable t(g, "differences", layout);
     for (const DifferenceRow& r : rows) {
         const Estimate& e = r.difference;
         t.begin().text(r.variant).text(r.figure).text(r.unit).f64(e.mean);
@@ -84,9 +80,7 @@ void write_differences(const h5::Group& g, const std::vector<DifferenceRow>& row
         t.u64(e.n);
     }
     t.flush();
-    describe(t,
-             "variant: text, figure: text, unit: text (s or share), mean: in unit, ci95_half_width: in unit, "
-             "ci95_lower: in unit, ci95_upper: in unit, n: days",
+    describe(t, std::string("variant: text, figure: text, unit: text (s or share), ") + kEstimateUnits,
              "Each variant after the first minus the first (the reference): for the per-day figures the "
              "mean of the day-by-day differences (common random numbers) with its 95 % Student-t interval "
              "over n days; for the plan figures (plan_*, deterministic) the difference alone, interval NaN "

@@ -42,6 +42,27 @@ private:
     std::size_t rows_;
 };
 
+// The columns of an estimate with its 95 % interval (mean, ci95_half_width, ci95_lower,
+// ci95_upper, n), as /study/summary and /comparison/differences hold them.
+class EstimateColumns {
+public:
+    explicit EstimateColumns(const Table& t)
+        : mean_(t.num("mean")), half_(t.num("ci95_half_width")), lower_(t.num("ci95_lower")),
+          upper_(t.num("ci95_upper")), n_(t.num("n")) {}
+    Estimate at(std::size_t i) const {
+        Estimate e;
+        e.mean = mean_[i];
+        e.half_width = half_[i];
+        e.lower = lower_[i];
+        e.upper = upper_[i];
+        e.n = static_cast<std::size_t>(n_[i]);
+        return e;
+    }
+
+private:
+    std::vector<double> mean_, half_, lower_, upper_, n_;
+};
+
 std::vector<std::string> ids(const h5::InputFile& f, const std::string& table) { return f.text_column(table, "id"); }
 
 Estimate mean_estimate(double mean, double half, std::size_t n) {
@@ -156,20 +177,12 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
     {
         const Table t(f, g + "/summary");
         const auto figure = t.text("figure");
-        const auto mean = t.num("mean"), half = t.num("ci95_half_width"), lo = t.num("ci95_lower"),
-                   hi = t.num("ci95_upper"), n = t.num("n");
+        const EstimateColumns estimates(t);
         auto find = [&](const std::string& name) {
             const auto it = std::find(figure.begin(), figure.end(), name);
             if (it == figure.end())
                 throw ResultsFileError(f.path() + ": " + t.path() + ": no record for figure '" + name + "'");
-            const std::size_t i = static_cast<std::size_t>(it - figure.begin());
-            Estimate e;
-            e.mean = mean[i];
-            e.half_width = half[i];
-            e.lower = lo[i];
-            e.upper = hi[i];
-            e.n = static_cast<std::size_t>(n[i]);
-            return e;
+            return estimates.at(static_cast<std::size_t>(it - figure.begin()));
         };
         s.total_primary = find("total_primary");
         s.total_knock_on = find("total_knock_on");
@@ -285,17 +298,9 @@ void read_comparison(const h5::InputFile& f, ResultsFile& out) {
                                std::to_string(out.variants.size()));
     const Table t(f, "/comparison/differences");
     const auto variant = t.text("variant"), figure = t.text("figure"), unit = t.text("unit");
-    const auto mean = t.num("mean"), half = t.num("ci95_half_width"), lo = t.num("ci95_lower"),
-               hi = t.num("ci95_upper"), n = t.num("n");
-    for (std::size_t i = 0; i < t.rows(); ++i) {
-        Estimate e;
-        e.mean = mean[i];
-        e.half_width = half[i];
-        e.lower = lo[i];
-        e.upper = hi[i];
-        e.n = static_cast<std::size_t>(n[i]);
-        out.differences.push_back({variant[i], figure[i], unit[i], e});
-    }
+    const EstimateColumns estimates(t);
+    for (std::size_t i = 0; i < t.rows(); ++i)
+        out.differences.push_back({variant[i], figure[i], unit[i], estimates.at(i)});
 }
 
 ResultsFacts read_facts(const h5::InputFile& f) {

@@ -83,22 +83,15 @@ void write_summary(const h5::Group& g, const StudySummary& s) {
         figures.push_back(r.figure);
         units.push_back(r.unit);
     }
-    RecordTable table(g, "summary",
-                      RecordLayout()
-                          .add_text("figure", longest(figures))
-                          .add_text("unit", longest(units))
-                          .add("mean", FieldKind::f64)
-                          .add("ci95_half_width", FieldKind::f64)
-                          .add("ci95_lower", FieldKind::f64)
-                          .add("ci95_upper", FieldKind::f64)
-                          .add("n", FieldKind::u64));
+    RecordLayout layout;
+    layout.add_text("figure", longest(figures)).add_text("unit", longest(units));
+    add_estimate_fields(layout);
+    RecordTable table(g, "summary", layout);
     for (const Row& r : rows)
         table.begin().text(r.figure).text(r.unit).f64(r.e.mean).f64(r.e.half_width).f64(r.e.lower).f64(r.e.upper).u64(
             r.e.n);
     table.flush();
-    describe(table,
-             "figure: name of a per_day field, unit: text (s or share), mean: in unit, ci95_half_width: in unit, "
-             "ci95_lower: in unit, ci95_upper: in unit, n: days",
+    describe(table, std::string("figure: name of a per_day field, unit: text (s or share), ") + kEstimateUnits,
              "Mean over the days of one per_day field with its 95 % confidence interval (Student t); the "
              "same figures as the JSON output's per_day.");
 }
@@ -288,6 +281,14 @@ void write_study_tables(const h5::Group& g, const SimModel& model, const StudyRe
 }
 
 // ---------------------------------------------------------------------------------------------
+
+void add_estimate_fields(RecordLayout& layout) {
+    layout.add("mean", FieldKind::f64)
+        .add("ci95_half_width", FieldKind::f64)
+        .add("ci95_lower", FieldKind::f64)
+        .add("ci95_upper", FieldKind::f64)
+        .add("n", FieldKind::u64);
+}
 
 std::string punctuality_field(double seconds) {
     // "3min" for whole minutes, else "150s".

@@ -20,6 +20,10 @@
 
 namespace knockon {
 
+namespace h5 {
+class RecordLayout;
+}
+
 // Which replications keep their full records: none, all, or K of the N planned spread evenly
 // (replication k is traced when floor((k+1)K/N) > floor(kK/N): the last of each N/K block).
 struct TraceSelection {
@@ -37,6 +41,13 @@ std::optional<TraceSelection> parse_trace_selection(const std::string& text);
 // The name of the punctuality figure of a threshold [s] in the tables: "punctual_3min" for whole
 // minutes, else e.g. "punctual_150s".
 std::string punctuality_field(double threshold_seconds);
+
+// The fields of an estimate with its 95 % interval in a table of figures (/study/summary,
+// /comparison/differences): mean, ci95_half_width, ci95_lower, ci95_upper (f64) and n (u64), in the
+// unit the record's `unit` field names; and their units as describe() takes them.
+void add_estimate_fields(h5::RecordLayout& layout);
+inline constexpr const char* kEstimateUnits =
+    "mean: in unit, ci95_half_width: in unit, ci95_lower: in unit, ci95_upper: in unit, n: days";
 
 // The attributes and tables of a study's figures (replications, partial, deadlocked_days,
 // knock_on_ratio, thresholds_s; per_day, summary, timing_points, trains, signals, sections, buffers,
