@@ -9,7 +9,7 @@ namespace knockon {
 namespace {
 
 constexpr double kInf = std::numeric_limits<double>::infinity();
-constexpr double kEps = 1e-6;
+constexpr double kEps = kSamePlace;
 
 int aspect_cap(AspectSystem a) {
     switch (a) {
@@ -28,6 +28,15 @@ double read_point(const PathSignal& sig) {
             return sig.s - sig.signal->distant_distance.value_or(0.0) - sig.signal->sighting_distance;
         default: return sig.s - sig.signal->sighting_distance;
     }
+}
+
+LegTime leg_time(const ServiceRun& run, double place) {
+    for (std::size_t k = 0; k < run.legs.size(); ++k) {
+        const Trajectory& lt = run.legs[k].trajectory;
+        if (place > lt.s0 + kEps && place <= lt.s_end + kEps)
+            return {static_cast<long>(k), lt.time_at(std::min(place, lt.s_end))};
+    }
+    return {};
 }
 
 }  // namespace
@@ -97,6 +106,17 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
             }
             tr.leg_reach.push_back(std::move(reach));
         }
+        for (const PathSection& sec : path.sections) {
+            tr.enters.push_back(leg_time(tp.run, sec.s_from));
+            tr.leaves.push_back(leg_time(tp.run, sec.s_to));
+            tr.clears.push_back(leg_time(tp.run, sec.s_to + length));
+        }
+        for (const Route& r : tr.routes) {
+            tr.sightings.push_back(leg_time(tp.run, r.read_point));
+            tr.passes.push_back(leg_time(tp.run, r.s_entry));
+            tr.warnings.push_back(leg_time(tp.run, r.warning_point));
+        }
+        for (const PlannedCall& c : tp.run.calls) tr.calls.push_back(leg_time(tp.run, c.s));
         for (const SectionBlocking& b : tp.stairway.sections) {
             std::uint32_t s = section_of(b.section);
             if (starts.size() <= s) starts.resize(s + 1);

@@ -10,6 +10,15 @@
 
 namespace knockon {
 
+// Positions closer than this are the same place [m].
+inline constexpr double kSamePlace = 1e-6;
+
+// When a train's head reaches a fixed place on the planned leg that holds it.
+struct LegTime {
+    long leg = -1;    // the leg with s0 + kSamePlace < place <= s_end + kSamePlace, or -1
+    double t = 0.0;   // from the leg's start, as the leg's Trajectory::time_at gives it [s]
+};
+
 class SimModel {
 public:
     SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& plan);
@@ -36,6 +45,11 @@ public:
         // authority ending at E need not leave the plan before the first point where this
         // exceeds E: up to there the planned motion stands, and the engine integrates nothing.
         std::vector<std::vector<double>> leg_reach;
+        // The fixed places the engine schedules events at, timed on the planned legs once, so
+        // that a train running as planned needs no look-up in its long leg motions:
+        std::vector<LegTime> enters, leaves, clears;       // per path section: start, end, end + length
+        std::vector<LegTime> sightings, passes, warnings;  // per route: read point, entry, warning point
+        std::vector<LegTime> calls;                        // per timing point
     };
 
     const Infrastructure& infrastructure() const { return infra_; }

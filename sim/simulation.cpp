@@ -15,7 +15,7 @@ namespace knockon {
 namespace {
 
 constexpr double kInf = std::numeric_limits<double>::infinity();
-constexpr double kEps = 1e-6;
+constexpr double kEps = kSamePlace;
 // Positions recomputed from event times (rounded to the tick) may fall short of the point the
 // event was for by speed x 1 ms; comparisons with such points allow this much [m].
 constexpr double kPositionTolerance = 0.5;
@@ -219,6 +219,13 @@ private:
     double head_position(std::uint32_t t) const;
     double head_speed(std::uint32_t t) const;
     double time_at_head(std::uint32_t t, double s) const;   // NaN: not on the current motion
+    // The same for a fixed place timed on the planned legs (`at`), straight from the model
+    // while the train runs its planned leg.
+    double time_at_place(std::uint32_t t, double s, const LegTime& at) const {
+        const TrainState& st = st_[t];
+        if (st.phase == Phase::moving && st.leg >= 0 && at.leg == st.leg) return st.t0 + at.t;
+        return time_at_head(t, s);
+    }
     double next_stop_s(std::uint32_t t, double s) const;
     double desired_request_time(std::uint32_t t, std::size_t route) const;
 
@@ -386,7 +393,7 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
     }
     const double head = head_position(t);
     if (head >= r.warning_point - kPositionTolerance) return now_;
-    double tw = time_at_head(t, r.warning_point);
+    double tw = time_at_place(t, r.warning_point, train(t).warnings[i]);
     if (s.phase == Phase::moving && !s.free_end) {
         // A motion that brakes for the end of the authority, not for a stop, reaches the warning
         // point late or never: the route is wanted for when the train would get there running on.
@@ -412,22 +419,26 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
     const double L = run_of(t).type->length;
     double p = kNoTime;
     std::uint32_t payload = 0;
+    const LegTime* at = nullptr;
     switch (kind) {
         case kEnter:
             if (s.next_enter >= path.sections.size()) return;
             p = path.sections[s.next_enter].s_from;
+            at = &tr.enters[s.next_enter];
             if (p >= path.length - kEps && !path.ends_at_edge) return;
             payload = static_cast<std::uint32_t>(s.next_enter);
             break;
         case kLeave:
             if (s.next_leave >= path.sections.size()) return;
             p = path.sections[s.next_leave].s_to;
+            at = &tr.leaves[s.next_leave];
             if (p > path.length + kEps && !path.ends_at_edge) return;
             payload = static_cast<std::uint32_t>(s.next_leave);
             break;
         case kClear:
             if (s.next_clear >= path.sections.size()) return;
             p = path.sections[s.next_clear].s_to + L;
+            at = &tr.clears[s.next_clear];
             payload = static_cast<std::uint32_t>(s.next_clear);
             break;
         case kSight:
@@ -435,17 +446,20 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
                 ++st_[t].next_sight;
             if (s.next_sight >= tr.routes.size()) return;
             p = tr.routes[s.next_sight].read_point;
+            at = &tr.sightings[s.next_sight];
             payload = static_cast<std::uint32_t>(s.next_sight);
             break;
         case kPass:
             if (s.next_pass >= tr.routes.size()) return;
             p = tr.routes[s.next_pass].s_entry;
+            at = &tr.passes[s.next_pass];
             payload = static_cast<std::uint32_t>(s.next_pass);
             break;
         case kCall: {
             const auto& calls = run_of(t).calls;
             if (s.next_call >= calls.size() || calls[s.next_call].stops) return;
             p = calls[s.next_call].s;
+            at = &tr.calls[s.next_call];
             payload = static_cast<std::uint32_t>(s.next_call);
             break;
         }
@@ -463,7 +477,7 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
         if (s.phase == Phase::standing && p >= s.s_stand - kEps) return;
         if (s.phase == Phase::moving && !s.free_end && traj(t).v.back() <= 0.0 && p >= traj(t).s_end - kEps) return;
     }
-    double when = time_at_head(t, p);
+    const double when = time_at_place(t, p, *at);
     if (!std::isnan(when)) push(when, kind, t, payload);
 }
 
