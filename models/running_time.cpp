@@ -312,11 +312,10 @@ LegGrid make_leg_grid(const TrainType& type, const TrainPath& path, double s_sta
 }
 
 namespace {
-constexpr double kNoPoint = -std::numeric_limits<double>::infinity();
-}  // namespace
 
-long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, double s_start, double v_start,
-                      double s_end, bool stop_at_end, const RunOptions& options, const Rejoin* rejoin) {
+// run_on_grid_into without the time index.
+long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, double s_start, double v_start,
+                       double s_end, bool stop_at_end, const RunOptions& options, const Rejoin* rejoin) {
     check_type(type);
     const double tol = 1e-6 * g.step;
     if (!std::isfinite(s_start) || !std::isfinite(s_end) || s_end < s_start || s_start < g.s0 - tol ||
@@ -471,6 +470,15 @@ long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, d
     return -1;
 }
 
+}  // namespace
+
+long run_on_grid_into(Trajectory& tr, const TrainType& type, const LegGrid& g, double s_start, double v_start,
+                      double s_end, bool stop_at_end, const RunOptions& options, const Rejoin* rejoin) {
+    const long joined = integrate_on_grid(tr, type, g, s_start, v_start, s_end, stop_at_end, options, rejoin);
+    tr.time_index.build(tr.t);
+    return joined;
+}
+
 // --- Trajectory look-ups -------------------------------------------------------------------
 // Within a cell acceleration is constant (v^2 linear in s), so position, speed and time are
 // inverted exactly there, consistent with how the run was integrated.
@@ -533,7 +541,7 @@ double Trajectory::position_at(double time) const {
     if (v.size() < 2) return s0;
     if (time <= 0.0) return s0;
     if (time >= t.back()) return s_end;
-    std::size_t k = static_cast<std::size_t>(std::upper_bound(t.begin(), t.end(), time) - t.begin());
+    std::size_t k = time_index.upper_bound(t, time);
     k = std::min(k == 0 ? 0 : k - 1, v.size() - 2);
     const double from = point(k);
     const double len = point(k + 1) - from;

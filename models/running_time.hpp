@@ -11,6 +11,7 @@
 #include <vector>
 
 #include "models/path.hpp"
+#include "models/sorted_index.hpp"
 #include "models/train_type.hpp"
 
 namespace knockon {
@@ -34,6 +35,7 @@ struct Trajectory {
     double s_end = 0.0;
     double origin = 0.0;
     std::size_t base = 0;
+    SortedIndex time_index;  // over t, for position_at; built by the integration
 
     double point(std::size_t i) const;    // s of point i
 

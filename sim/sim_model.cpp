@@ -104,6 +104,7 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
                 run_max = std::max(run_max, sj + d);
                 reach[j] = run_max;
             }
+            tr.leg_reach_index.emplace_back().build(reach);
             tr.leg_reach.push_back(std::move(reach));
         }
         for (const PathSection& sec : path.sections) {

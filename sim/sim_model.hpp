@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "models/plan.hpp"
+#include "models/sorted_index.hpp"
 
 namespace knockon {
 
@@ -45,6 +46,7 @@ public:
         // authority ending at E need not leave the plan before the first point where this
         // exceeds E: up to there the planned motion stands, and the engine integrates nothing.
         std::vector<std::vector<double>> leg_reach;
+        std::vector<SortedIndex> leg_reach_index;   // per leg, over leg_reach
         // The fixed places the engine schedules events at, timed on the planned legs once, so
         // that a train running as planned needs no look-up in its long leg motions:
         std::vector<LegTime> enters, leaves, clears;       // per path section: start, end, end + length

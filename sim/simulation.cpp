@@ -522,9 +522,8 @@ void Day::sample_until(std::uint32_t t, double until) {
 double Day::brake_point(std::uint32_t t, std::size_t k, double eoa) const {
     const Trajectory& leg = run_of(t).legs[k].trajectory;
     const auto& reach = train(t).leg_reach[k];
-    const auto it = std::upper_bound(reach.begin(), reach.end(), eoa);
-    if (it == reach.end()) return kInf;
-    const std::size_t j = static_cast<std::size_t>(it - reach.begin());
+    const std::size_t j = train(t).leg_reach_index[k].upper_bound(reach, eoa);
+    if (j == reach.size()) return kInf;
     return j == 0 ? leg.s0 : leg.point(j - 1);
 }
 
@@ -727,6 +726,7 @@ void Day::try_appear(std::uint32_t t) {
             s.own.base = 0;
             s.own.v.assign(1, run.entry_speed);   // keeps the buffers
             s.own.t.assign(1, 0.0);
+            s.own.time_index.clear();
             s.free_end = false;
         }
         check_authority(t);
