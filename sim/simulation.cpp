@@ -115,6 +115,15 @@ private:
         std::vector<std::uint8_t> holds;      // per path section: it holds the section now
         bool request_pending = false;
         double last_sample = -kInf;
+        // head_position is asked several times per event, and a leg's motion is mostly out of
+        // cache: the last answer is kept with everything it depends on.
+        std::uint64_t own_version = 0;   // counts writes of `own`
+        struct {
+            double now = kNoTime, t0 = kNoTime, position = 0.0;
+            long leg = -2;
+            std::uint64_t own_version = 0;
+            bool free_end = false;
+        } mutable head_memo;
     };
 
     // A stretch run slower by an injected running-time extension.
@@ -336,11 +345,24 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
 double Day::head_position(std::uint32_t t) const {
     const TrainState& s = st_[t];
     if (s.phase != Phase::moving) return s.s_stand;
-    if (traj(t).v.size() <= 1) return traj(t).s0;
-    double dt = now_ - s.t0;
-    if (s.free_end && dt > traj(t).duration())
-        return traj(t).s_end + (dt - traj(t).duration()) * traj(t).v.back();
-    return traj(t).position_at(dt);
+    auto& m = s.head_memo;
+    if (m.now == now_ && m.t0 == s.t0 && m.leg == s.leg && m.own_version == s.own_version && m.free_end == s.free_end)
+        return m.position;
+    double position;
+    const double dt = now_ - s.t0;
+    if (traj(t).v.size() <= 1)
+        position = traj(t).s0;
+    else if (s.free_end && dt > traj(t).duration())
+        position = traj(t).s_end + (dt - traj(t).duration()) * traj(t).v.back();
+    else
+        position = traj(t).position_at(dt);
+    m.now = now_;
+    m.t0 = s.t0;
+    m.leg = s.leg;
+    m.own_version = s.own_version;
+    m.free_end = s.free_end;
+    m.position = position;
+    return position;
 }
 
 double Day::head_speed(std::uint32_t t) const {
@@ -628,12 +650,14 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
         const double before =
             brake_point(t, static_cast<std::size_t>(k), std::min(s.eoa, next_slow_start(t, after)));
         const Rejoin rejoin{&leg.trajectory, after, before};
+        ++s.own_version;
         const long j = run_on_grid_into(s.own, *run.type, leg.grid, s_now, v_now, end, !free, ro, &rejoin);
         if (j >= 0) {
             s.join_leg = k;
             s.join_point = static_cast<std::size_t>(j);
         }
     } else {
+        ++s.own_version;
         run_leg_into(s.own, *run.type, run.path, s_now, v_now, end, !free, ro);
     }
     s.t0 = now_;
@@ -722,6 +746,7 @@ void Day::try_appear(std::uint32_t t) {
         if (!start_leg(t, 0.0)) {
             s.leg = -1;
             s.join_leg = -1;
+            ++s.own_version;
             s.own.s0 = s.own.s_end = s.own.origin = 0.0;
             s.own.base = 0;
             s.own.v.assign(1, run.entry_speed);   // keeps the buffers
