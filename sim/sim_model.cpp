@@ -107,6 +107,17 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
             tr.leg_reach_index.emplace_back().build(reach);
             tr.leg_reach.push_back(std::move(reach));
         }
+        // Authority ends the engine can meet: route entries and ends, the path's ends, and the
+        // timing points (slow running starts at one and is braked for like an authority end).
+        std::vector<double> ends = {0.0, path.length};
+        for (const Route& r : tr.routes) ends.insert(ends.end(), {r.s_entry, r.authority_end});
+        for (const PlannedCall& c : tp.run.calls) ends.push_back(c.s);
+        std::sort(ends.begin(), ends.end());
+        ends.erase(std::unique(ends.begin(), ends.end()), ends.end());
+        for (std::size_t k = 0; k < tp.run.legs.size(); ++k) {
+            auto& table = tr.leg_brake_points.emplace_back();
+            for (double e : ends) table.emplace_back(e, tr.brake_point_searched(k, e));
+        }
         for (const PathSection& sec : path.sections) {
             tr.enters.push_back(leg_time(tp.run, sec.s_from));
             tr.leaves.push_back(leg_time(tp.run, sec.s_to));
@@ -137,6 +148,22 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
         std::stable_sort(starts[s].begin(), starts[s].end());
         for (auto& [time, train] : starts[s]) planned_order_[s].push_back(train);
     }
+}
+
+double SimModel::Train::brake_point_searched(std::size_t k, double eoa) const {
+    const Trajectory& leg = plan->run.legs[k].trajectory;
+    const auto& reach = leg_reach[k];
+    const std::size_t j = leg_reach_index[k].upper_bound(reach, eoa);
+    if (j == reach.size()) return kInf;
+    return j == 0 ? leg.s0 : leg.point(j - 1);
+}
+
+double SimModel::Train::brake_point(std::size_t k, double eoa) const {
+    const auto& table = leg_brake_points[k];
+    const auto it = std::lower_bound(table.begin(), table.end(), eoa,
+                                     [](const std::pair<double, double>& e, double x) { return e.first < x; });
+    if (it != table.end() && it->first == eoa) return it->second;
+    return brake_point_searched(k, eoa);
 }
 
 }  // namespace knockon

@@ -47,6 +47,13 @@ public:
         // exceeds E: up to there the planned motion stands, and the engine integrates nothing.
         std::vector<std::vector<double>> leg_reach;
         std::vector<SortedIndex> leg_reach_index;   // per leg, over leg_reach
+        // Where a train following planned leg k must start braking for an authority ending at
+        // eoa (infinity: nowhere on the leg): the first grid point whose reach exceeds eoa.
+        double brake_point(std::size_t k, double eoa) const;
+        // The same, worked out once per leg for the authority ends the engine meets (signals,
+        // ends of routes and path, timing points where slow running starts), sorted by end.
+        std::vector<std::vector<std::pair<double, double>>> leg_brake_points;
+        double brake_point_searched(std::size_t k, double eoa) const;
         // The fixed places the engine schedules events at, timed on the planned legs once, so
         // that a train running as planned needs no look-up in its long leg motions:
         std::vector<LegTime> enters, leaves, clears;       // per path section: start, end, end + length

@@ -205,9 +205,7 @@ private:
             }
         return s.eoa > beyond + kEps;
     }
-    // Where a train following planned leg k must start braking for an authority ending at eoa
-    // (infinity: nowhere on the leg).
-    double brake_point(std::uint32_t t, std::size_t k, double eoa) const;
+    double brake_point(std::uint32_t t, std::size_t k, double eoa) const { return train(t).brake_point(k, eoa); }
     // Where the next slow running begins with the head beyond s (infinity: none).
     double next_slow_start(std::uint32_t t, double s) const {
         double from = kInf;
@@ -539,14 +537,6 @@ void Day::sample_until(std::uint32_t t, double until) {
         s.last_sample = time;
     };
     for (double time = first; time <= until + 1e-9; time += dt) add(time);
-}
-
-double Day::brake_point(std::uint32_t t, std::size_t k, double eoa) const {
-    const Trajectory& leg = run_of(t).legs[k].trajectory;
-    const auto& reach = train(t).leg_reach[k];
-    const std::size_t j = train(t).leg_reach_index[k].upper_bound(reach, eoa);
-    if (j == reach.size()) return kInf;
-    return j == 0 ? leg.s0 : leg.point(j - 1);
 }
 
 long Day::leg_holding(std::uint32_t t, double from, double to) const {
