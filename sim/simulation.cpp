@@ -810,23 +810,36 @@ void Day::check_authority(std::uint32_t t) {
     TrainState& s = st_[t];
     if (s.phase == Phase::finished) return;
     const auto& routes = train(t).routes;
-    const double head = s.phase == Phase::waiting ? 0.0 : head_position(t);
-    double eoa = s.eoa;
-    // Signals at or ahead of the head (a train standing at a signal still reads it).
-    for (std::size_t j = s.next_pass > 0 ? s.next_pass - 1 : 0; j < routes.size(); ++j) {
-        if (routes[j].s_entry < head - kPositionTolerance) continue;
-        if (head < routes[j].read_point - kPositionTolerance) break;
-        int k = 0;
-        while (k < routes[j].aspect_cap && j + k < routes.size()) {
-            double set = s.route_set[j + k];
-            if (std::isnan(set) || set + times_.sight_reaction > now_ + kEps) break;
-            ++k;
+    // The end of authority the signals in view give to a head anywhere in [low, high]: signals
+    // at or ahead of the head (a train standing at a signal still reads it) whose aspect it
+    // can read.  A wider span can only see more signals, so it bounds the answer from above.
+    auto signalled_end = [&](double low, double high) {
+        double eoa = s.eoa;
+        for (std::size_t j = s.next_pass > 0 ? s.next_pass - 1 : 0; j < routes.size(); ++j) {
+            if (routes[j].s_entry < low - kPositionTolerance) continue;
+            if (high < routes[j].read_point - kPositionTolerance) break;
+            int k = 0;
+            while (k < routes[j].aspect_cap && j + k < routes.size()) {
+                double set = s.route_set[j + k];
+                if (std::isnan(set) || set + times_.sight_reaction > now_ + kEps) break;
+                ++k;
+            }
+            if (k == 0) continue;
+            double end = routes[j + k - 1].authority_end;
+            if (j + k < routes.size()) end = routes[j + k].s_entry;
+            eoa = std::max(eoa, end);
         }
-        if (k == 0) continue;
-        double end = routes[j + k - 1].authority_end;
-        if (j + k < routes.size()) end = routes[j + k].s_entry;
-        eoa = std::max(eoa, end);
+        return eoa;
+    };
+    double head = 0.0;
+    if (s.phase != Phase::waiting) {
+        // Nothing to gain anywhere the head can be (up to the end of its motion): the exact
+        // head position, a search in the motion, is not needed.
+        const double furthest = s.phase == Phase::standing ? s.s_stand : s.free_end ? kInf : traj(t).s_end;
+        if (signalled_end(-kInf, furthest) <= s.eoa + kEps) return;
+        head = head_position(t);
     }
+    const double eoa = signalled_end(head, head);
     if (eoa <= s.eoa + kEps) return;
     s.eoa = eoa;
     if (s.phase == Phase::moving) {
