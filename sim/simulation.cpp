@@ -217,7 +217,7 @@ private:
     // slow running ahead (braking to a stop there: on the safe side).
     void set_brake_point(std::uint32_t t) {
         TrainState& s = st_[t];
-        const double limit = std::min(s.eoa, next_slow_start(t, head_position(t)));
+        const double limit = slow_[t].empty() ? s.eoa : std::min(s.eoa, next_slow_start(t, head_position(t)));
         s.brake_from = brake_point(t, static_cast<std::size_t>(s.leg), limit);
     }
     // The planned leg that holds [from, to], or -1.
@@ -585,7 +585,7 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
     const ServiceRun& run = run_of(t);
     if (s.phase == Phase::moving && s.leg >= 0 && !leave_leg) {
         set_brake_point(t);
-        if (s.brake_from > head_position(t) + kPositionTolerance) {
+        if (std::isinf(s.brake_from) || s.brake_from > head_position(t) + kPositionTolerance) {
             // Still free to run the plan: the points ahead stand (once scheduled for this leg),
             // only the brake point moves.
             if (!s.leg_scheduled) {
