@@ -150,18 +150,19 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
     }
 }
 
-double SimModel::Train::brake_point_searched(std::size_t k, double eoa) const {
+SimModel::Train::BrakePoint SimModel::Train::brake_point_searched(std::size_t k, double eoa) const {
     const Trajectory& leg = plan->run.legs[k].trajectory;
     const auto& reach = leg_reach[k];
     const std::size_t j = leg_reach_index[k].upper_bound(reach, eoa);
-    if (j == reach.size()) return kInf;
-    return j == 0 ? leg.s0 : leg.point(j - 1);
+    if (j == reach.size()) return {};
+    const double s = j == 0 ? leg.s0 : leg.point(j - 1);
+    return {s, leg.time_at(std::min(s, leg.s_end))};
 }
 
-double SimModel::Train::brake_point(std::size_t k, double eoa) const {
+SimModel::Train::BrakePoint SimModel::Train::brake_point(std::size_t k, double eoa) const {
     const auto& table = leg_brake_points[k];
     const auto it = std::lower_bound(table.begin(), table.end(), eoa,
-                                     [](const std::pair<double, double>& e, double x) { return e.first < x; });
+                                     [](const auto& e, double x) { return e.first < x; });
     if (it != table.end() && it->first == eoa) return it->second;
     return brake_point_searched(k, eoa);
 }

@@ -3,6 +3,7 @@
 // indices, and what lets the engine follow planned legs without integrating; per section the
 // planned order of trains.  Built once from the plan and shared by every simulated day.
 #include <cstdint>
+#include <limits>
 #include <string>
 #include <vector>
 
@@ -48,12 +49,17 @@ public:
         std::vector<std::vector<double>> leg_reach;
         std::vector<SortedIndex> leg_reach_index;   // per leg, over leg_reach
         // Where a train following planned leg k must start braking for an authority ending at
-        // eoa (infinity: nowhere on the leg): the first grid point whose reach exceeds eoa.
-        double brake_point(std::size_t k, double eoa) const;
+        // eoa (infinity: nowhere on the leg): the first grid point whose reach exceeds eoa, and
+        // when the head reaches it from the leg's start (as Trajectory::time_at gives it).
+        struct BrakePoint {
+            double s = std::numeric_limits<double>::infinity();
+            double t = 0.0;
+        };
+        BrakePoint brake_point(std::size_t k, double eoa) const;
         // The same, worked out once per leg for the authority ends the engine meets (signals,
         // ends of routes and path, timing points where slow running starts), sorted by end.
-        std::vector<std::vector<std::pair<double, double>>> leg_brake_points;
-        double brake_point_searched(std::size_t k, double eoa) const;
+        std::vector<std::vector<std::pair<double, BrakePoint>>> leg_brake_points;
+        BrakePoint brake_point_searched(std::size_t k, double eoa) const;
         // The fixed places the engine schedules events at, timed on the planned legs once, so
         // that a train running as planned needs no look-up in its long leg motions:
         std::vector<LegTime> enters, leaves, clears;       // per path section: start, end, end + length

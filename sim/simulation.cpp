@@ -94,6 +94,7 @@ private:
         bool leg_scheduled = false; // the leg's points are in the queue (false: just started it)
         Trajectory own;
         double brake_from = kInf;   // on a planned leg: where braking for the authority would begin
+        double brake_time = 0.0;    // and when, from the leg's start
         long join_leg = -1;         // `own` ends where it rejoins this planned leg, at grid point join_point
         std::size_t join_point = 0;
         bool free_end = false;      // the motion runs out over the line end
@@ -205,7 +206,7 @@ private:
             }
         return s.eoa > beyond + kEps;
     }
-    double brake_point(std::uint32_t t, std::size_t k, double eoa) const { return train(t).brake_point(k, eoa); }
+    double brake_point(std::uint32_t t, std::size_t k, double eoa) const { return train(t).brake_point(k, eoa).s; }
     // Where the next slow running begins with the head beyond s (infinity: none).
     double next_slow_start(std::uint32_t t, double s) const {
         double from = kInf;
@@ -218,7 +219,9 @@ private:
     void set_brake_point(std::uint32_t t) {
         TrainState& s = st_[t];
         const double limit = slow_[t].empty() ? s.eoa : std::min(s.eoa, next_slow_start(t, head_position(t)));
-        s.brake_from = brake_point(t, static_cast<std::size_t>(s.leg), limit);
+        const SimModel::Train::BrakePoint b = train(t).brake_point(static_cast<std::size_t>(s.leg), limit);
+        s.brake_from = b.s;
+        s.brake_time = b.t;
     }
     // The planned leg that holds [from, to], or -1.
     long leg_holding(std::uint32_t t, double from, double to) const;
@@ -595,7 +598,9 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
             } else {
                 generations_.bump(brake_entity(t));
             }
-            if (s.brake_from < traj(t).s_end) push(time_at_head(t, s.brake_from), kBrakePoint, t);
+            // (time_at_head, without a look-up in the leg's motion)
+            if (s.brake_from < traj(t).s_end)
+                push(s.brake_from <= traj(t).s0 + kEps ? now_ : s.t0 + s.brake_time, kBrakePoint, t);
             return;
         }
     }
