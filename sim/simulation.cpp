@@ -26,7 +26,6 @@ constexpr double kNoiseFloor = 0.5;
 enum Kind : std::uint32_t {
     kAppear,
     kRelease,
-    kRouteSet,
     kAuthorityCheck,
     kDepartReady,
     kVanish,
@@ -50,7 +49,6 @@ enum Kind : std::uint32_t {
 std::uint8_t phase_of(Kind k) {
     switch (k) {
         case kRelease: return 0;
-        case kRouteSet: return 1;
         case kAuthorityCheck: return 2;
         case kRequest: return 3;
         case kAppear: return 4;
@@ -107,7 +105,7 @@ private:
         double hold_from = kNoTime; // standing at a signal since
         std::size_t next_enter = 0, next_leave = 0, next_clear = 0;
         std::size_t next_sight = 0, next_pass = 0, next_request = 0, next_call = 0;
-        std::vector<double> route_set;        // when each route was set for it (NaN: not yet)
+        std::vector<double> route_set;        // when each route is set for it (NaN: not granted yet)
         std::vector<long> route_record;       // per route: index into result.routes
         bool appear_due = false;              // its appearance time has come
         double last_departure = kNoTime;      // from the previous timing point (or entry)
@@ -707,8 +705,15 @@ void Day::grant_pending() {
         }
         pending_.erase(pending_.begin() + static_cast<long>(i));
         take_sections(p.train, r.sections, r.path_sections);
-        out_.routes[st_[p.train].route_record[p.route]].granted = now_;
-        push(now_ + times_.route_setup, kRouteSet, p.train, static_cast<std::uint32_t>(p.route));
+        // The route is set after the setting time (at that event tick), and the driver reacts to
+        // the aspect after the reaction time.  Until then route_set lies in the future, which
+        // every reader takes as "not set yet".
+        RouteRecord& record = out_.routes[st_[p.train].route_record[p.route]];
+        record.granted = now_;
+        const double set = SimTime::from_seconds(now_ + times_.route_setup).to_seconds();
+        st_[p.train].route_set[p.route] = set;
+        record.cleared = set;
+        push(set + times_.sight_reaction, kAuthorityCheck, p.train);
         st_[p.train].request_pending = false;
         ++st_[p.train].next_request;
         schedule_point(p.train, kRequest);
@@ -960,11 +965,6 @@ void Day::handle(const Event& e) {
             grant_pending();
             break;
         }
-        case kRouteSet:
-            s.route_set[e.payload] = now_;
-            out_.routes[s.route_record[e.payload]].cleared = now_;
-            push(now_ + times_.sight_reaction, kAuthorityCheck, t);
-            break;
         case kAuthorityCheck:
             if (s.phase == Phase::waiting) {
                 if (s.appear_due && path.starts_at_edge) try_appear(t);
