@@ -431,8 +431,14 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
     const AccelBound bound(type, std::max({step, first_length, last_length}));
     // Rejoining: the leg's speeds at the run's points (grid point k0 + i).
     const double* leg_v = rejoin ? rejoin->leg->v.data() + k0 : nullptr;
-    const std::size_t leg_points =
+    std::size_t leg_points =
         rejoin && rejoin->leg->v.size() > k0 ? std::min(rejoin->leg->v.size() - k0, cells) : 0;
+    if (leg_points > 0 && std::isfinite(rejoin->before)) {
+        // No point at or beyond `before` can hand over: stop comparing there (the bound has a
+        // point of margin; the window test below stays exact).
+        const double x = std::ceil((rejoin->before - origin) / step) - static_cast<double>(k0) + 2.0;
+        leg_points = x <= 0.0 ? 0 : std::min(leg_points, static_cast<std::size_t>(x));
+    }
     const std::size_t last = cells - 1;
     for (std::size_t i = 0; i < cells; ++i) {
         const double ds = i == 0 ? first_length : i == last ? last_length : step;
