@@ -349,6 +349,7 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
     tr.t.resize(cells + 1);
     tr.t[0] = 0.0;
     std::vector<double>& v = tr.v;
+    tr.settled = 0;
     if (cells == 0) {
         double lim;
         g.limit.expand(k0, 1, &lim);
@@ -388,13 +389,20 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
     // in v.  Same midpoint rule in v^2 as the forward pass (exact for constant braking).  Where
     // the limit does not fall, the envelope is the limit itself and no braking is evaluated.
     if (stop_at_end) vp[cells] = 0.0;
+    // The braking for the stop reaches back as long as each point's envelope comes from the
+    // next one's braking curve below its own limit; points before that are settled.
+    bool stop_chain = stop_at_end;
+    std::size_t chain_from = cells;
     // Without a braking table the deceleration depends on the gradient alone: the midpoint rule
     // is a single evaluation (the same value twice), kept from one cell to the next.
     const bool constant_braking = type.braking_table.empty();
     double braking_g = std::numeric_limits<double>::quiet_NaN(), braking_b = 0.0;
     for (std::size_t i = cells; i-- > 0;) {
         const double v1 = vp[i + 1];
-        if (vp[i] <= v1) continue;
+        if (vp[i] <= v1) {
+            stop_chain = false;
+            continue;
+        }
         const double ds = length(i);
         const double w1 = v1 * v1;
         double b;
@@ -409,8 +417,16 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
             b = braking_deceleration(type, std::sqrt(w_mid), gradient[i]);
         }
         const double w0 = w1 + 2.0 * b * ds;
-        vp[i] = std::min(vp[i], std::sqrt(w0));
+        const double braked = std::sqrt(w0);
+        if (braked < vp[i]) {
+            vp[i] = braked;
+            if (stop_chain) chain_from = i;
+        } else {
+            stop_chain = false;
+        }
     }
+    // chain_from <= cells, and the last cell's length (to point `cells`) depends on the end too.
+    tr.settled = chain_from == 0 ? 0 : chain_from - 1;
 
     // Forward pass: flat out under the envelope.  v[i+1] still holds the envelope when cell i
     // is integrated, so the pass overwrites v in place.  The brake delay stays out of the
@@ -469,6 +485,7 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
                 v.resize(i + 2);
                 tr.t.resize(i + 2);
                 tr.s_end = q;
+                tr.settled = std::min(tr.settled, i + 1);
                 return static_cast<long>(k0 + i + 1);
             }
         }

@@ -36,6 +36,9 @@ struct Trajectory {
     double origin = 0.0;
     std::size_t base = 0;
     SortedIndex time_index;  // over t, for position_at; built by the integration
+    // Points 0..settled are the same for any end further on (same grid, start and options): the
+    // braking for the stop at s_end, and the last cell's length, touch only points beyond.
+    std::size_t settled = 0;
 
     double point(std::size_t i) const;    // s of point i
 

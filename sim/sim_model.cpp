@@ -155,8 +155,9 @@ SimModel::Train::BrakePoint SimModel::Train::brake_point_searched(std::size_t k,
     const auto& reach = leg_reach[k];
     const std::size_t j = leg_reach_index[k].upper_bound(reach, eoa);
     if (j == reach.size()) return {};
-    const double s = j == 0 ? leg.s0 : leg.point(j - 1);
-    return {s, leg.time_at(std::min(s, leg.s_end))};
+    const std::size_t i = j == 0 ? 0 : j - 1;
+    const double s = leg.point(i);
+    return {s, leg.time_at(std::min(s, leg.s_end)), i};
 }
 
 SimModel::Train::BrakePoint SimModel::Train::brake_point(std::size_t k, double eoa) const {

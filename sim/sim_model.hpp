@@ -54,6 +54,7 @@ public:
         struct BrakePoint {
             double s = std::numeric_limits<double>::infinity();
             double t = 0.0;
+            std::size_t index = 0;   // the point on the leg's motion
         };
         BrakePoint brake_point(std::size_t k, double eoa) const;
         // The same, worked out once per leg for the authority ends the engine meets (signals,

@@ -93,6 +93,10 @@ private:
         Trajectory own;
         double brake_from = kInf;   // on a planned leg: where braking for the authority would begin
         double brake_time = 0.0;    // and when, from the leg's start
+        std::size_t brake_index = 0;   // and its point on the leg's motion
+        // `own` brakes to a stop at own_target; when the authority grows, it still stands up to
+        // its settled point (own.settled), where the engine integrates again (a brake event).
+        double own_target = kNoTime;
         long join_leg = -1;         // `own` ends where it rejoins this planned leg, at grid point join_point
         std::size_t join_point = 0;
         bool free_end = false;      // the motion runs out over the line end
@@ -220,6 +224,7 @@ private:
         const SimModel::Train::BrakePoint b = train(t).brake_point(static_cast<std::size_t>(s.leg), limit);
         s.brake_from = b.s;
         s.brake_time = b.t;
+        s.brake_index = b.index;
     }
     // The planned leg that holds [from, to], or -1.
     long leg_holding(std::uint32_t t, double from, double to) const;
@@ -242,6 +247,9 @@ private:
     // Recomputes the motion after the authority or the state changed.  A train on a planned leg
     // stays on it while the authority allows (leave_leg: it must not).
     void replan(std::uint32_t t, bool leave_leg = false);
+    // An integrated motion that the authority just extended stands as it is for now (same stop,
+    // or a rejoin or a brake event comes first): nothing to integrate yet.
+    bool motion_stands(std::uint32_t t);
     void sample_until(std::uint32_t t, double until);
 
     long record_for(std::uint32_t t, std::size_t k);
@@ -602,8 +610,20 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
             return;
         }
     }
-    const double s_now = head_position(t);
-    const double v_now = head_speed(t);
+    if (s.phase == Phase::moving && s.leg < 0 && !leave_leg && motion_stands(t)) return;
+    // Where the new motion starts: at a brake event, exactly at the point the current motion
+    // hands over (its time, place and speed there); otherwise where the head is now.
+    double s_now, v_now, t_start = now_;
+    if (s.phase == Phase::moving && leave_leg) {
+        const Trajectory& from = traj(t);
+        const std::size_t i = s.leg >= 0 ? s.brake_index : from.settled;
+        s_now = from.point(i);
+        v_now = from.v[i];
+        t_start = s.t0 + from.t[i];
+    } else {
+        s_now = head_position(t);
+        v_now = head_speed(t);
+    }
     sample_until(t, now_);
 
     const double stop_s = next_stop_s(t, s_now - kEps);
@@ -631,6 +651,7 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
         }
     s.leg = -1;
     s.join_leg = -1;
+    s.own_target = free ? kNoTime : target;
     const double end = std::max(target, s_now);
     // On a planned leg the motion is integrated on the leg's grid, and hands back to the leg
     // where it regains the leg's speed, past the slow running it integrates and short of
@@ -653,10 +674,27 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
         ++s.own_version;
         run_leg_into(s.own, *run.type, run.path, s_now, v_now, end, !free, ro);
     }
-    s.t0 = now_;
+    s.t0 = t_start;
     s.free_end = free && s.join_leg < 0;
     s.phase = Phase::moving;
     schedule_points(t);
+}
+
+bool Day::motion_stands(std::uint32_t t) {
+    // The authority grew while the train runs an integrated motion braking for its old end.
+    TrainState& s = st_[t];
+    if (std::isnan(s.own_target)) return false;
+    const double head = head_position(t);
+    const ServiceRun& run = run_of(t);
+    const double target = std::min({next_stop_s(t, head - kEps), s.eoa, run.path.ends_at_edge ? kInf : run.path.length});
+    if (target == s.own_target) return true;        // it stops at the same place anyway
+    if (s.join_leg >= 0) return true;                // it rejoins its leg first, which reads the authority
+    const Trajectory& own = s.own;
+    if (!(own.point(own.settled) > head + kPositionTolerance)) return false;
+    // Up to the settled point the motion is the same for any further end: integrate there.
+    generations_.bump(brake_entity(t));
+    push(s.t0 + own.t[own.settled], kBrakePoint, t);
+    return true;
 }
 
 long Day::record_for(std::uint32_t t, std::size_t k) {
@@ -747,6 +785,7 @@ void Day::try_appear(std::uint32_t t) {
             s.leg = -1;
             s.join_leg = -1;
             ++s.own_version;
+            s.own_target = kNoTime;
             s.own.s0 = s.own.s_end = s.own.origin = 0.0;
             s.own.base = 0;
             s.own.v.assign(1, run.entry_speed);   // keeps the buffers

@@ -342,3 +342,40 @@ TEST_CASE("Balancing speed", "[running_time]") {
     t.davis_a = 20e3;
     CHECK(balancing_speed(t) == 0.0);
 }
+
+TEST_CASE("A run's settled points are the same for any further stop", "[running_time]") {
+    // The engine keeps an integrated motion up to its settled point when the authority grows,
+    // and integrates again only from there: that is exact only if a further stop changes none
+    // of those points, to the last bit.
+    TestLine line(8000.0, {{0.0, 8000.0, 120 * kmh}, {3600.0, 4200.0, 60 * kmh}});
+    TrainType type = level_train(300e3);
+    type.length = 120.0;
+    type.max_force = 200e3;
+    type.power = 3e6;
+    type.davis_a = 3000.0;
+    type.davis_c = 6.0;
+    SECTION("constant braking") {}
+    SECTION("braking table") { type.braking_table = {{0.0, 0.7}, {20.0, 0.6}, {40.0, 0.45}}; }
+    const LegGrid grid = make_leg_grid(type, line.path, 0.0, 8000.0);
+    const double start = 501.0, v_start = 12.0;   // off the grid, as a hindered train restarts
+    Trajectory near;
+    run_on_grid_into(near, type, grid, start, v_start, 2500.0, true);
+    REQUIRE(near.settled > 100);
+    REQUIRE(near.settled + 1 < near.v.size());
+    CHECK(near.v[near.settled + 1] < near.v[near.settled] + 1.0);   // braking begins just after
+    for (double end : {2500.0 + 0.7, 3100.0, 3999.0, 5200.0, 8000.0}) {
+        Trajectory far;
+        run_on_grid_into(far, type, grid, start, v_start, end, true);
+        INFO("end " << end);
+        REQUIRE(far.v.size() > near.settled);
+        CHECK(far.settled >= near.settled);
+        bool same = true;
+        for (std::size_t i = 0; i <= near.settled; ++i)
+            same = same && far.v[i] == near.v[i] && far.t[i] == near.t[i];
+        CHECK(same);
+    }
+    // Without a stop at the end nothing is braked for: every point but the end's is settled.
+    Trajectory free;
+    run_on_grid_into(free, type, grid, start, v_start, 3000.0, false);
+    CHECK(free.settled + 2 == free.v.size());
+}
