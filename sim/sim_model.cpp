@@ -90,6 +90,7 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
         }
         for (const RunLeg& leg : tp.run.legs) {
             const Trajectory& lt = leg.trajectory;
+            tr.leg_ends.push_back({lt.s0, lt.s_end, lt.duration(), lt.v.back()});
             double b_min = kInf;
             for (std::size_t j = 0; j < lt.v.size(); ++j) {
                 const double sj = std::min(lt.s0 + static_cast<double>(j) * lt.step, lt.s_end);

@@ -61,6 +61,11 @@ public:
         // ends of routes and path, timing points where slow running starts), sorted by end.
         std::vector<std::vector<std::pair<double, BrakePoint>>> leg_brake_points;
         BrakePoint brake_point_searched(std::size_t k, double eoa) const;
+        // Each planned leg's ends, kept together (the legs' motions are long and mostly cold).
+        struct LegEnds {
+            double s0 = 0.0, s_end = 0.0, duration = 0.0, v_end = 0.0;
+        };
+        std::vector<LegEnds> leg_ends;
         // The fixed places the engine schedules events at, timed on the planned legs once, so
         // that a train running as planned needs no look-up in its long leg motions:
         std::vector<LegTime> enters, leaves, clears;       // per path section: start, end, end + length

@@ -194,6 +194,12 @@ private:
         const TrainState& s = st_[t];
         return s.leg >= 0 ? run_of(t).legs[static_cast<std::size_t>(s.leg)].trajectory : s.own;
     }
+    // The current motion's ends, read from the model for a planned leg (its motion is cold).
+    SimModel::Train::LegEnds ends(std::uint32_t t) const {
+        const TrainState& s = st_[t];
+        if (s.leg >= 0) return train(t).leg_ends[static_cast<std::size_t>(s.leg)];
+        return {s.own.s0, s.own.s_end, s.own.duration(), s.own.v.back()};
+    }
     bool start_leg(std::uint32_t t, double s_now);
     // A train at a stop leaves only on a proceed aspect: a lineside signal ahead that is in sight
     // from where it stands (the starter, even some way beyond the stopping mark) must show
@@ -359,8 +365,8 @@ double Day::head_position(std::uint32_t t) const {
     const double dt = now_ - s.t0;
     if (traj(t).v.size() <= 1)
         position = traj(t).s0;
-    else if (s.free_end && dt > traj(t).duration())
-        position = traj(t).s_end + (dt - traj(t).duration()) * traj(t).v.back();
+    else if (const auto e = ends(t); s.free_end && dt > e.duration)
+        position = e.s_end + (dt - e.duration) * e.v_end;
     else
         position = traj(t).position_at(dt);
     m.now = now_;
@@ -384,9 +390,10 @@ double Day::time_at_head(std::uint32_t t, double p) const {
     const TrainState& s = st_[t];
     if (s.phase == Phase::standing) return p <= s.s_stand + kEps ? now_ : kNoTime;
     if (s.phase != Phase::moving) return kNoTime;
-    if (p <= traj(t).s0 + kEps) return now_;
-    if (p <= traj(t).s_end + kEps) return s.t0 + traj(t).time_at(std::min(p, traj(t).s_end));
-    if (s.free_end) return s.t0 + traj(t).duration() + (p - traj(t).s_end) / std::max(traj(t).v.back(), 0.1);
+    const auto e = ends(t);
+    if (p <= e.s0 + kEps) return now_;
+    if (p <= e.s_end + kEps) return s.t0 + traj(t).time_at(std::min(p, e.s_end));
+    if (s.free_end) return s.t0 + e.duration + (p - e.s_end) / std::max(e.v_end, 0.1);
     return kNoTime;
 }
 
@@ -404,9 +411,9 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
     if (r.after_stop >= 0) {
         const PlannedCall& c = run_of(t).calls[r.after_stop];
         if (s.phase == Phase::standing && s.stop_call == r.after_stop) return s.ready_time - lead;
-        if (s.phase == Phase::moving && std::fabs(traj(t).s_end - c.s) < kEps && !s.free_end) {
+        if (s.phase == Phase::moving && std::fabs(ends(t).s_end - c.s) < kEps && !s.free_end) {
             // Heading for that stop: ready when both the schedule and the dwell allow.
-            const double arrival = s.t0 + traj(t).duration();
+            const double arrival = s.t0 + ends(t).duration;
             return std::max(c.scheduled_departure, arrival + dwell_at(t, r.after_stop)) - lead;
         }
         if (s.next_call > static_cast<std::size_t>(r.after_stop)) return now_;  // already left it
@@ -430,7 +437,7 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
         const double stop = next_stop_s(t, head - kEps);
         const bool to_end = std::isinf(stop);
         const double end = to_end ? run.path.length : stop;
-        if (traj(t).s_end < end - kEps && r.warning_point <= end + kEps) {
+        if (ends(t).s_end < end - kEps && r.warning_point <= end + kEps) {
             // The planned motion over [head, warning point] (no stop lies between): a lower bound
             // of the time it will take, so the request is never late (early by at most the
             // re-acceleration the train still needs).
@@ -504,7 +511,10 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
     // motion that takes it on schedules the point again.
     if (kind == kEnter || kind == kPass) {
         if (s.phase == Phase::standing && p >= s.s_stand - kEps) return;
-        if (s.phase == Phase::moving && !s.free_end && traj(t).v.back() <= 0.0 && p >= traj(t).s_end - kEps) return;
+        if (s.phase == Phase::moving && !s.free_end) {
+            const auto e = ends(t);
+            if (e.v_end <= 0.0 && p >= e.s_end - kEps) return;
+        }
     }
     const double when = time_at_place(t, p, *at);
     if (!std::isnan(when)) push(when, kind, t, payload);
@@ -514,7 +524,7 @@ void Day::schedule_points(std::uint32_t t) {
     for (Kind k : {kEnter, kLeave, kClear, kSight, kPass, kCall, kRequest}) schedule_point(t, k);
     const TrainState& s = st_[t];
     if (s.phase == Phase::moving)
-        push(s.t0 + traj(t).duration(), s.leg < 0 && s.join_leg >= 0 ? kJoin : s.free_end ? kExit : kArrive, t);
+        push(s.t0 + ends(t).duration, s.leg < 0 && s.join_leg >= 0 ? kJoin : s.free_end ? kExit : kArrive, t);
 }
 
 void Day::sample_until(std::uint32_t t, double until) {
@@ -605,8 +615,8 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
                 generations_.bump(brake_entity(t));
             }
             // (time_at_head, without a look-up in the leg's motion)
-            if (s.brake_from < traj(t).s_end)
-                push(s.brake_from <= traj(t).s0 + kEps ? now_ : s.t0 + s.brake_time, kBrakePoint, t);
+            if (const auto e = ends(t); s.brake_from < e.s_end)
+                push(s.brake_from <= e.s0 + kEps ? now_ : s.t0 + s.brake_time, kBrakePoint, t);
             return;
         }
     }
@@ -884,7 +894,7 @@ void Day::check_authority(std::uint32_t t) {
     if (s.phase != Phase::waiting) {
         // Nothing to gain anywhere the head can be (up to the end of its motion): the exact
         // head position, a search in the motion, is not needed.
-        const double furthest = s.phase == Phase::standing ? s.s_stand : s.free_end ? kInf : traj(t).s_end;
+        const double furthest = s.phase == Phase::standing ? s.s_stand : s.free_end ? kInf : ends(t).s_end;
         if (signalled_end(-kInf, furthest) <= s.eoa + kEps) return;
         head = head_position(t);
     }
