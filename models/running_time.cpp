@@ -397,14 +397,20 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
     // is a single evaluation (the same value twice), kept from one cell to the next.
     const bool constant_braking = type.braking_table.empty();
     double braking_g = std::numeric_limits<double>::quiet_NaN(), braking_b = 0.0;
+    // Along a braking curve v^2 is carried from cell to cell as it was summed, rather than taken
+    // again from the rounded speed: the additions then form the chain from one cell to the
+    // next, and the square roots stay off it.
+    bool carried = false;
+    double w_carried = 0.0;
     for (std::size_t i = cells; i-- > 0;) {
         const double v1 = vp[i + 1];
         if (vp[i] <= v1) {
             stop_chain = false;
+            carried = false;
             continue;
         }
         const double ds = length(i);
-        const double w1 = v1 * v1;
+        const double w1 = carried ? w_carried : v1 * v1;
         double b;
         if (constant_braking) {
             if (!(gradient[i] == braking_g)) {
@@ -420,9 +426,12 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
         const double braked = std::sqrt(w0);
         if (braked < vp[i]) {
             vp[i] = braked;
+            carried = true;
+            w_carried = w0;
             if (stop_chain) chain_from = i;
         } else {
             stop_chain = false;
+            carried = false;
         }
     }
     // chain_from <= cells, and the last cell's length (to point `cells`) depends on the end too.
