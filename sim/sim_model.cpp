@@ -30,13 +30,12 @@ double read_point(const PathSignal& sig) {
     }
 }
 
-LegTime leg_time(const ServiceRun& run, double place) {
+Place place_on(const ServiceRun& run, double s, bool skip = false) {
     for (std::size_t k = 0; k < run.legs.size(); ++k) {
         const Trajectory& lt = run.legs[k].trajectory;
-        if (place > lt.s0 + kEps && place <= lt.s_end + kEps)
-            return {static_cast<long>(k), lt.time_at(std::min(place, lt.s_end))};
+        if (s > lt.s0 + kEps && s <= lt.s_end + kEps) return {s, static_cast<long>(k), lt.time_at(std::min(s, lt.s_end)), skip};
     }
-    return {};
+    return {s, -1, 0.0, skip};
 }
 
 }  // namespace
@@ -119,17 +118,18 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
             auto& table = tr.leg_brake_points.emplace_back();
             for (double e : ends) table.emplace_back(e, tr.brake_point_searched(k, e));
         }
+        // (the engine's rules for which places get no event, decided once here)
         for (const PathSection& sec : path.sections) {
-            tr.enters.push_back(leg_time(tp.run, sec.s_from));
-            tr.leaves.push_back(leg_time(tp.run, sec.s_to));
-            tr.clears.push_back(leg_time(tp.run, sec.s_to + length));
+            tr.enters.push_back(place_on(tp.run, sec.s_from, sec.s_from >= path.length - kEps && !path.ends_at_edge));
+            tr.leaves.push_back(place_on(tp.run, sec.s_to, sec.s_to > path.length + kEps && !path.ends_at_edge));
+            tr.clears.push_back(place_on(tp.run, sec.s_to + length));
         }
         for (const Route& r : tr.routes) {
-            tr.sightings.push_back(leg_time(tp.run, r.read_point));
-            tr.passes.push_back(leg_time(tp.run, r.s_entry));
-            tr.warnings.push_back(leg_time(tp.run, r.warning_point));
+            tr.sightings.push_back(place_on(tp.run, r.read_point, std::isinf(r.read_point)));
+            tr.passes.push_back(place_on(tp.run, r.s_entry));
+            tr.warnings.push_back(place_on(tp.run, r.warning_point));
         }
-        for (const PlannedCall& c : tp.run.calls) tr.calls.push_back(leg_time(tp.run, c.s));
+        for (const PlannedCall& c : tp.run.calls) tr.calls.push_back(place_on(tp.run, c.s, c.stops));
         for (const SectionBlocking& b : tp.stairway.sections) {
             std::uint32_t s = section_of(b.section);
             if (starts.size() <= s) starts.resize(s + 1);

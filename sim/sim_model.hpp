@@ -15,10 +15,13 @@ namespace knockon {
 // Positions closer than this are the same place [m].
 inline constexpr double kSamePlace = 1e-6;
 
-// When a train's head reaches a fixed place on the planned leg that holds it.
-struct LegTime {
-    long leg = -1;    // the leg with s0 + kSamePlace < place <= s_end + kSamePlace, or -1
+// A fixed place on a train's path that the engine schedules an event at, with when the head
+// reaches it on the planned leg that holds it.
+struct Place {
+    double s = 0.0;   // on the path [m]
+    long leg = -1;    // the leg with s0 + kSamePlace < s <= s_end + kSamePlace, or -1
     double t = 0.0;   // from the leg's start, as the leg's Trajectory::time_at gives it [s]
+    bool skip = false;   // no event here (beyond the path's end, a stop, a signal never read)
 };
 
 class SimModel {
@@ -68,9 +71,9 @@ public:
         std::vector<LegEnds> leg_ends;
         // The fixed places the engine schedules events at, timed on the planned legs once, so
         // that a train running as planned needs no look-up in its long leg motions:
-        std::vector<LegTime> enters, leaves, clears;       // per path section: start, end, end + length
-        std::vector<LegTime> sightings, passes, warnings;  // per route: read point, entry, warning point
-        std::vector<LegTime> calls;                        // per timing point
+        std::vector<Place> enters, leaves, clears;       // per path section: start, end, end + length
+        std::vector<Place> sightings, passes, warnings;  // per route: read point, entry, warning point
+        std::vector<Place> calls;                        // per timing point
     };
 
     const Infrastructure& infrastructure() const { return infra_; }

@@ -238,12 +238,12 @@ private:
     double head_position(std::uint32_t t) const;
     double head_speed(std::uint32_t t) const;
     double time_at_head(std::uint32_t t, double s) const;   // NaN: not on the current motion
-    // The same for a fixed place timed on the planned legs (`at`), straight from the model
-    // while the train runs its planned leg.
-    double time_at_place(std::uint32_t t, double s, const LegTime& at) const {
+    // The same for a fixed place timed on the planned legs, straight from the model while the
+    // train runs its planned leg.
+    double time_at_place(std::uint32_t t, const Place& at) const {
         const TrainState& st = st_[t];
         if (st.phase == Phase::moving && st.leg >= 0 && at.leg == st.leg) return st.t0 + at.t;
-        return time_at_head(t, s);
+        return time_at_head(t, at.s);
     }
     double next_stop_s(std::uint32_t t, double s) const;
     double desired_request_time(std::uint32_t t, std::size_t route) const;
@@ -429,7 +429,7 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
     }
     const double head = head_position(t);
     if (head >= r.warning_point - kPositionTolerance) return now_;
-    double tw = time_at_place(t, r.warning_point, train(t).warnings[i]);
+    double tw = time_at_place(t, train(t).warnings[i]);
     if (s.phase == Phase::moving && !s.free_end) {
         // A motion that brakes for the end of the authority, not for a stop, reaches the warning
         // point late or never: the route is wanted for when the train would get there running on.
@@ -449,56 +449,24 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
 }
 
 void Day::schedule_point(std::uint32_t t, Kind kind) {
-    const TrainState& s = st_[t];
+    TrainState& s = st_[t];
     const SimModel::Train& tr = train(t);
-    const TrainPath& path = run_of(t).path;
-    const double L = run_of(t).type->length;
-    double p = kNoTime;
-    std::uint32_t payload = 0;
-    const LegTime* at = nullptr;
+    // The next place of this kind (a skipped one waits, except signals never read, passed over).
+    auto next = [&](const std::vector<Place>& places, std::size_t i) -> const Place* {
+        return i < places.size() && !places[i].skip ? &places[i] : nullptr;
+    };
+    const Place* at = nullptr;
+    std::size_t index = 0;
     switch (kind) {
-        case kEnter:
-            if (s.next_enter >= path.sections.size()) return;
-            p = path.sections[s.next_enter].s_from;
-            at = &tr.enters[s.next_enter];
-            if (p >= path.length - kEps && !path.ends_at_edge) return;
-            payload = static_cast<std::uint32_t>(s.next_enter);
-            break;
-        case kLeave:
-            if (s.next_leave >= path.sections.size()) return;
-            p = path.sections[s.next_leave].s_to;
-            at = &tr.leaves[s.next_leave];
-            if (p > path.length + kEps && !path.ends_at_edge) return;
-            payload = static_cast<std::uint32_t>(s.next_leave);
-            break;
-        case kClear:
-            if (s.next_clear >= path.sections.size()) return;
-            p = path.sections[s.next_clear].s_to + L;
-            at = &tr.clears[s.next_clear];
-            payload = static_cast<std::uint32_t>(s.next_clear);
-            break;
+        case kEnter: at = next(tr.enters, index = s.next_enter); break;
+        case kLeave: at = next(tr.leaves, index = s.next_leave); break;
+        case kClear: at = next(tr.clears, index = s.next_clear); break;
         case kSight:
-            while (s.next_sight < tr.routes.size() && std::isinf(tr.routes[s.next_sight].read_point))
-                ++st_[t].next_sight;
-            if (s.next_sight >= tr.routes.size()) return;
-            p = tr.routes[s.next_sight].read_point;
-            at = &tr.sightings[s.next_sight];
-            payload = static_cast<std::uint32_t>(s.next_sight);
+            while (s.next_sight < tr.sightings.size() && tr.sightings[s.next_sight].skip) ++s.next_sight;
+            at = next(tr.sightings, index = s.next_sight);
             break;
-        case kPass:
-            if (s.next_pass >= tr.routes.size()) return;
-            p = tr.routes[s.next_pass].s_entry;
-            at = &tr.passes[s.next_pass];
-            payload = static_cast<std::uint32_t>(s.next_pass);
-            break;
-        case kCall: {
-            const auto& calls = run_of(t).calls;
-            if (s.next_call >= calls.size() || calls[s.next_call].stops) return;
-            p = calls[s.next_call].s;
-            at = &tr.calls[s.next_call];
-            payload = static_cast<std::uint32_t>(s.next_call);
-            break;
-        }
+        case kPass: at = next(tr.passes, index = s.next_pass); break;
+        case kCall: at = next(tr.calls, index = s.next_call); break;
         case kRequest: {
             if (s.next_request >= tr.routes.size() || s.request_pending) return;
             double when = desired_request_time(t, s.next_request);
@@ -507,6 +475,9 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
         }
         default: return;
     }
+    if (!at) return;
+    const double p = at->s;
+    const std::uint32_t payload = static_cast<std::uint32_t>(index);
     // A train standing with its head on p, or braking to a stand there, has not passed p: the
     // motion that takes it on schedules the point again.
     if (kind == kEnter || kind == kPass) {
@@ -516,7 +487,7 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
             if (e.v_end <= 0.0 && p >= e.s_end - kEps) return;
         }
     }
-    const double when = time_at_place(t, p, *at);
+    const double when = time_at_place(t, *at);
     if (!std::isnan(when)) push(when, kind, t, payload);
 }
 
