@@ -1,8 +1,6 @@
 #include "models/train_type.hpp"
 
 #include <algorithm>
-#include <cmath>
-#include <limits>
 
 namespace knockon {
 namespace {

@@ -246,6 +246,12 @@ private:
         return time_at_head(t, at.s);
     }
     double next_stop_s(std::uint32_t t, double s) const;
+    // Where a motion from s must end: the next stop, the end of authority or the path's end
+    // (infinity: it runs out over the line end).
+    double motion_target(std::uint32_t t, double s) const {
+        const ServiceRun& run = run_of(t);
+        return std::min({next_stop_s(t, s - kEps), st_[t].eoa, run.path.ends_at_edge ? kInf : run.path.length});
+    }
     double desired_request_time(std::uint32_t t, std::size_t route) const;
 
     void schedule_points(std::uint32_t t);
@@ -607,8 +613,7 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
     }
     sample_until(t, now_);
 
-    const double stop_s = next_stop_s(t, s_now - kEps);
-    double target = std::min({stop_s, s.eoa, run.path.ends_at_edge ? kInf : run.path.length});
+    double target = motion_target(t, s_now);
     bool free = false;
     if (std::isinf(target)) {
         target = run.path.length;
@@ -666,9 +671,7 @@ bool Day::motion_stands(std::uint32_t t) {
     TrainState& s = st_[t];
     if (std::isnan(s.own_target)) return false;
     const double head = head_position(t);
-    const ServiceRun& run = run_of(t);
-    const double target = std::min({next_stop_s(t, head - kEps), s.eoa, run.path.ends_at_edge ? kInf : run.path.length});
-    if (target == s.own_target) return true;        // it stops at the same place anyway
+    if (motion_target(t, head) == s.own_target) return true;        // it stops at the same place anyway
     if (s.join_leg >= 0) return true;                // it rejoins its leg first, which reads the authority
     const Trajectory& own = s.own;
     if (!(own.point(own.settled) > head + kPositionTolerance)) return false;
