@@ -581,7 +581,9 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
     const ServiceRun& run = run_of(t);
     if (s.phase == Phase::moving && s.leg >= 0 && !leave_leg) {
         set_brake_point(t);
-        if (std::isinf(s.brake_from) || s.brake_from > head_position(t) + kPositionTolerance) {
+        // (compared in time, not place: the leg's time at its brake point is known, the head
+        // position would need a look-up in the leg's long motion)
+        if (std::isinf(s.brake_from) || s.t0 + s.brake_time > now_) {
             // Still free to run the plan: the points ahead stand (once scheduled for this leg),
             // only the brake point moves.
             if (!s.leg_scheduled) {
@@ -777,6 +779,10 @@ void Day::try_appear(std::uint32_t t) {
             s.own.time_index.clear();
             s.free_end = false;
         }
+        // Signals whose read point lies at or behind the line end are in view as it enters.
+        const auto& sightings = train(t).sightings;
+        while (s.next_sight < sightings.size() && (sightings[s.next_sight].skip || sightings[s.next_sight].s <= kEps))
+            ++s.next_sight;
         check_authority(t);
         if (s.eoa <= kEps) {
             // No authority yet: it must stop at the line end (approximation: it waits outside).
@@ -842,37 +848,26 @@ void Day::record_call(std::uint32_t t, std::size_t tp, double arrival, double de
 void Day::check_authority(std::uint32_t t) {
     TrainState& s = st_[t];
     if (s.phase == Phase::finished) return;
-    const auto& routes = train(t).routes;
-    // The end of authority the signals in view give to a head anywhere in [low, high]: signals
-    // at or ahead of the head (a train standing at a signal still reads it) whose aspect it
-    // can read.  A wider span can only see more signals, so it bounds the answer from above.
-    auto signalled_end = [&](double low, double high) {
-        double eoa = s.eoa;
-        for (std::size_t j = s.next_pass > 0 ? s.next_pass - 1 : 0; j < routes.size(); ++j) {
-            if (routes[j].s_entry < low - kPositionTolerance) continue;
-            if (high < routes[j].read_point - kPositionTolerance) break;
-            int k = 0;
-            while (k < routes[j].aspect_cap && j + k < routes.size()) {
-                double set = s.route_set[j + k];
-                if (std::isnan(set) || set + times_.sight_reaction > now_ + kEps) break;
-                ++k;
-            }
-            if (k == 0) continue;
-            double end = routes[j + k - 1].authority_end;
-            if (j + k < routes.size()) end = routes[j + k].s_entry;
-            eoa = std::max(eoa, end);
+    const SimModel::Train& tr = train(t);
+    const auto& routes = tr.routes;
+    // The end of authority the signals in view give: a signal is in view from the sight event
+    // at its read point (always under cab signalling) until the head passes it (its pass
+    // event; a train standing at a signal still reads it).  Counting events, not looking the
+    // head up in the motion, keeps this off the long, mostly cold motion arrays.
+    double eoa = s.eoa;
+    for (std::size_t j = s.next_pass; j < routes.size(); ++j) {
+        if (j >= s.next_sight && !tr.sightings[j].skip) break;
+        int k = 0;
+        while (k < routes[j].aspect_cap && j + k < routes.size()) {
+            double set = s.route_set[j + k];
+            if (std::isnan(set) || set + times_.sight_reaction > now_ + kEps) break;
+            ++k;
         }
-        return eoa;
-    };
-    double head = 0.0;
-    if (s.phase != Phase::waiting) {
-        // Nothing to gain anywhere the head can be (up to the end of its motion): the exact
-        // head position, a search in the motion, is not needed.
-        const double furthest = s.phase == Phase::standing ? s.s_stand : s.free_end ? kInf : ends(t).s_end;
-        if (signalled_end(-kInf, furthest) <= s.eoa + kEps) return;
-        head = head_position(t);
+        if (k == 0) continue;
+        double end = routes[j + k - 1].authority_end;
+        if (j + k < routes.size()) end = routes[j + k].s_entry;
+        eoa = std::max(eoa, end);
     }
-    const double eoa = signalled_end(head, head);
     if (eoa <= s.eoa + kEps) return;
     s.eoa = eoa;
     if (s.phase == Phase::moving) {
