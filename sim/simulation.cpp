@@ -433,17 +433,21 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
         const double entry = t < delays_.entry.size() ? delays_.entry[t] : 0.0;
         return run.head_reach(r.warning_point) + entry - lead;
     }
-    const double head = head_position(t);
-    if (head >= r.warning_point - kPositionTolerance) return now_;
+    if (s.phase == Phase::standing && s.s_stand >= r.warning_point - kPositionTolerance) return now_;
+    // (a warning point already passed gives a time in the past: the request goes out now)
     double tw = time_at_place(t, train(t).warnings[i]);
     if (s.phase == Phase::moving && !s.free_end) {
         // A motion that brakes for the end of the authority, not for a stop, reaches the warning
         // point late or never: the route is wanted for when the train would get there running on.
+        // (No stop lies between the motion's start and the head, other than one at the start.)
         const ServiceRun& run = run_of(t);
-        const double stop = next_stop_s(t, head - kEps);
+        const auto e = ends(t);
+        const double stop = next_stop_s(t, e.s0);
         const bool to_end = std::isinf(stop);
         const double end = to_end ? run.path.length : stop;
-        if (ends(t).s_end < end - kEps && r.warning_point <= end + kEps) {
+        if (e.s_end < end - kEps && r.warning_point <= end + kEps) {
+            const double head = head_position(t);
+            if (head >= r.warning_point - kPositionTolerance) return now_;
             // The planned motion over [head, warning point] (no stop lies between): a lower bound
             // of the time it will take, so the request is never late (early by at most the
             // re-acceleration the train still needs).
