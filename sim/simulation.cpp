@@ -350,7 +350,8 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
     // Disruptions: sections out of use over their drawn interval (unknown sections: no train
     // uses them, so they cannot matter).
     std::map<std::string, std::uint32_t> index;
-    for (std::uint32_t k = 0; k < out_.section_names.size(); ++k) index[out_.section_names[k]] = k;
+    if (!delays.blocked.empty())   // (most days have none: no name look-up built for them)
+        for (std::uint32_t k = 0; k < out_.section_names.size(); ++k) index[out_.section_names[k]] = k;
     for (std::uint32_t b = 0; b < delays.blocked.size(); ++b) {
         disrupted_.emplace_back();
         auto it = index.find(delays.blocked[b].section);
