@@ -74,6 +74,10 @@ public:
         std::vector<Place> enters, leaves, clears;       // per path section: start, end, end + length
         std::vector<Place> sightings, passes, warnings;  // per route: read point, entry, warning point
         std::vector<Place> calls;                        // per timing point
+        // Where a section's end or a signal lies where a section begins (the usual case), the
+        // head reaching it is one event, the enter's: per leave place and per pass place, the
+        // index of the enter place at the same spot, or -1.
+        std::vector<long> leave_at_enter, pass_at_enter;
     };
 
     const Infrastructure& infrastructure() const { return infra_; }

@@ -278,6 +278,18 @@ private:
     void record_call(std::uint32_t t, std::size_t tp, double arrival, double departure);
 
     void handle(const Event& e);
+    // The head reaches the end of its next section / its next signal.
+    void head_leaves(std::uint32_t t) {
+        TrainState& s = st_[t];
+        if (s.section_record[s.next_leave] >= 0) out_.sections[s.section_record[s.next_leave]].head_leaves = now_;
+        ++s.next_leave;
+        schedule_point(t, kLeave);
+    }
+    void passes_signal(std::uint32_t t) {
+        ++st_[t].next_pass;
+        ++out_.block_passages;
+        schedule_point(t, kPass);
+    }
     void report_deadlock();
 };
 
@@ -491,12 +503,20 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
     const std::uint32_t payload = static_cast<std::uint32_t>(index);
     // A train standing with its head on p, or braking to a stand there, has not passed p: the
     // motion that takes it on schedules the point again.
-    if (kind == kEnter || kind == kPass) {
-        if (s.phase == Phase::standing && p >= s.s_stand - kEps) return;
-        if (s.phase == Phase::moving && !s.free_end) {
-            const auto e = ends(t);
-            if (e.v_end <= 0.0 && p >= e.s_end - kEps) return;
-        }
+    auto held_short = [&] {
+        if (s.phase == Phase::standing) return p >= s.s_stand - kEps;
+        if (s.phase != Phase::moving || s.free_end) return false;
+        const auto e = ends(t);
+        return e.v_end <= 0.0 && p >= e.s_end - kEps;
+    };
+    if ((kind == kEnter || kind == kPass) && held_short()) return;
+    // A leave or a signal at the spot of an enter still to come rides on the enter's event (it
+    // has the same time; enters come in order), unless the train comes to a stand there: the
+    // head then reaches the end of the section behind on arrival, the next section only when it
+    // moves on.  Every new motion schedules its points again, so this holds for each motion.
+    if (kind == kLeave || kind == kPass) {
+        const long with = (kind == kLeave ? tr.leave_at_enter : tr.pass_at_enter)[index];
+        if (with >= 0 && static_cast<std::size_t>(with) >= s.next_enter && (kind == kPass || !held_short())) return;
     }
     const double when = time_at_place(t, *at);
     if (!std::isnan(when)) push(when, kind, t, payload);
@@ -1012,13 +1032,16 @@ void Day::handle(const Event& e) {
             out_.sections[r].head_enters = now_;
             ++s.next_enter;
             schedule_point(t, kEnter);
+            // The section end and the signal at the same spot (see schedule_point).
+            const SimModel::Train& tr = train(t);
+            const long here = static_cast<long>(e.payload);
+            if (s.next_leave < tr.leaves.size() && tr.leave_at_enter[s.next_leave] == here) head_leaves(t);
+            if (s.next_pass < tr.passes.size() && tr.pass_at_enter[s.next_pass] == here) passes_signal(t);
             break;
         }
         case kLeave:
             if (stale_point(s.next_leave)) break;
-            if (s.section_record[e.payload] >= 0) out_.sections[s.section_record[e.payload]].head_leaves = now_;
-            ++s.next_leave;
-            schedule_point(t, kLeave);
+            head_leaves(t);
             break;
         case kClear: {
             if (stale_point(s.next_clear)) break;
@@ -1037,9 +1060,7 @@ void Day::handle(const Event& e) {
             break;
         case kPass:
             if (stale_point(s.next_pass)) break;
-            ++s.next_pass;
-            ++out_.block_passages;
-            schedule_point(t, kPass);
+            passes_signal(t);
             break;
         case kCall:
             if (stale_point(s.next_call)) break;

@@ -281,3 +281,50 @@ TEST_CASE("Two runs with the same delays give identical records", "[sim][determi
         if (!std::isnan(r.arrival_delay)) worst = std::max(worst, r.arrival_delay);
     CHECK(worst > 120.0);
 }
+
+TEST_CASE("The head reaches a section's end together with the next section, unless it stands there",
+          "[sim][events]") {
+    // Common practice, no source: sections along a path touch, so the head leaves one as it
+    // enters the next; only a train standing with its head on the boundary (at a signal at
+    // danger) has left the one behind (on arrival) and not yet entered the next (on moving off).
+    // The engine handles such coinciding places as one event; every signal passed still counts.
+    const Scenario sc = read_scenario(kSource + "/scenarios/demo.yaml");
+    const std::vector<TrainPlan> plan = plan_trains(sc);
+    InjectedDelays delays = no_delays(plan);
+    for (std::size_t t = 0; t < plan.size(); t += 3) delays.entry[t] = 420.0;   // many trains held at signals
+    const SimModel model(sc.infrastructure, plan);
+    const SimResult day = simulate_day(model, delays, {});
+    REQUIRE_FALSE(day.deadlock.deadlocked);
+    REQUIRE_FALSE(day.holds.empty());
+
+    std::size_t signals = 0;
+    for (const SimModel::Train& tr : model.trains()) signals += tr.routes.size();
+    CHECK(day.block_passages == signals);
+
+    std::size_t touching = 0, stood = 0;
+    for (std::uint32_t t = 0; t < plan.size(); ++t) {
+        const TrainPath& path = plan[t].run.path;
+        std::map<std::uint32_t, const SectionRecord*> by_section;   // global section index
+        for (const SectionRecord& r : day.sections)
+            if (r.train == t) by_section.emplace(r.section, &r);
+        for (std::size_t k = 0; k + 1 < path.sections.size(); ++k) {
+            if (std::fabs(path.sections[k].s_to - path.sections[k + 1].s_from) > 1e-6) continue;
+            const auto a = by_section.find(model.trains()[t].section_index[k]);
+            const auto b = by_section.find(model.trains()[t].section_index[k + 1]);
+            if (a == by_section.end() || b == by_section.end()) continue;
+            const double left = a->second->head_leaves, entered = b->second->head_enters;
+            if (std::isnan(left) || std::isnan(entered)) continue;
+            ++touching;
+            INFO(plan[t].run.service->id << " at " << path.sections[k].s_to << " m");
+            if (left == entered) continue;
+            // Otherwise it stood there: a hold from its arrival to its moving off.
+            ++stood;
+            const bool held = std::any_of(day.holds.begin(), day.holds.end(), [&](const HoldRecord& h) {
+                return h.train == t && std::fabs(h.from - left) < 1e-6 && std::fabs(h.to - entered) < 1e-6;
+            });
+            CHECK(held);
+        }
+    }
+    CHECK(touching > 1000);
+    CHECK(stood > 0);
+}
