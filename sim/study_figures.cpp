@@ -48,12 +48,18 @@ ReplicationFigures replication_figures(const SimModel& model, const SimResult& d
         if (!std::isnan(sr.released) && !std::isnan(sr.locked))
             r.section_blocked[sr.section] += static_cast<float>(sr.released - sr.locked);
     // As-run buffers on the planned critical sections.
-    std::map<std::pair<std::uint32_t, std::uint32_t>, const SectionRecord*> use;   // (train, section)
-    for (const SectionRecord& sr : day.sections) use.emplace(std::make_pair(sr.train, sr.section), &sr);
+    // A train's first record of each section, by (train, section) in a flat table.
+    const std::size_t sections = day.section_names.size();
+    std::vector<const SectionRecord*> use(n * sections, nullptr);
+    for (const SectionRecord& sr : day.sections) {
+        const SectionRecord*& slot = use[std::size_t{sr.train} * sections + sr.section];
+        if (!slot) slot = &sr;
+    }
     for (const SimModel::BufferPair& bp : model.buffer_pairs()) {
-        auto l = use.find({bp.leader, bp.section}), f = use.find({bp.follower, bp.section});
+        const SectionRecord* l = bp.leader < n ? use[std::size_t{bp.leader} * sections + bp.section] : nullptr;
+        const SectionRecord* f = bp.follower < n ? use[std::size_t{bp.follower} * sections + bp.section] : nullptr;
         double b = std::nanf("");
-        if (l != use.end() && f != use.end()) b = f->second->locked - l->second->released;
+        if (l && f) b = f->locked - l->released;
         r.buffer.push_back(static_cast<float>(b));
     }
     return r;
