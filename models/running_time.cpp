@@ -450,9 +450,18 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
                                  ": tractive effort does not overcome resistance and gradient " +
                                  std::to_string(gradient[i] * 1000.0) + " per mille");
     };
+    // Time over cell i between speeds v0 and v1 (constant acceleration).
+    auto cell_time = [&](double v0, double v1, double ds, std::size_t i) {
+        if (!(v0 + v1 > 0.0))
+            throw std::runtime_error(describe(type) + " cannot pass " + metres(at(i)) +
+                                     ": speed limit zero there or no tractive effort from standstill");
+        return 2.0 * ds / (v0 + v1);
+    };
     // One-entry memo of step_w: cruising at a limit repeats the same (speed, gradient, step)
-    // cell after cell, and step_w is a pure function of them.
+    // cell after cell, and step_w is a pure function of them.  With the same envelope as well,
+    // the cell's end speed and time are the same too (cruising: no square root, no division).
     double memo_v = -1.0, memo_g = 0.0, memo_ds = 0.0, memo_w = 0.0;
+    double memo_envelope = -1.0, memo_v1 = 0.0, memo_dt = 0.0;
     const AccelBound bound(type, std::max({step, first_length, last_length}));
     // Rejoining: the leg's speeds at the run's points (grid point k0 + i).
     const double* leg_v = rejoin ? rejoin->leg->v.data() + k0 : nullptr;
@@ -470,9 +479,13 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
         const double v0 = vp[i];
         const double envelope = vp[i + 1];
         const double grade = gradient[i];
-        double v1;
+        double v1, dt;
         if (envelope < v0 && bound.reaches(v0, grade, ds, envelope)) {
             v1 = envelope;   // braking: the envelope binds (see AccelBound)
+            dt = cell_time(v0, v1, ds, i);
+        } else if (v0 == memo_v && grade == memo_g && ds == memo_ds && envelope == memo_envelope) {
+            v1 = memo_v1;
+            dt = memo_dt;
         } else {
             if (v0 != memo_v || grade != memo_g || ds != memo_ds) {
                 memo_v = v0;
@@ -481,12 +494,13 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
                 memo_w = motion.step_w(v0, grade, ds);
             }
             v1 = limited_speed(memo_w, envelope, i);
+            dt = cell_time(v0, v1, ds, i);
+            memo_envelope = envelope;
+            memo_v1 = v1;
+            memo_dt = dt;
         }
-        if (!(v0 + v1 > 0.0))
-            throw std::runtime_error(describe(type) + " cannot pass " + metres(at(i)) +
-                                     ": speed limit zero there or no tractive effort from standstill");
         vp[i + 1] = v1;
-        tp[i + 1] = tp[i] + 2.0 * ds / (v0 + v1);
+        tp[i + 1] = tp[i] + dt;
         // Back on the leg's motion at an interior point in the rejoin window: hand over.
         if (i + 1 < leg_points && v1 == leg_v[i + 1]) {
             const double q = at(i + 1);
