@@ -40,11 +40,17 @@ void check_type(const TrainType& type) {
 struct Motion {
     const TrainType& type;
     double inv_effective_mass;  // 1 / (rho m)
+    double power_limited_from;  // see TrainType::power_limited_from
 
-    explicit Motion(const TrainType& t) : type(t), inv_effective_mass(1.0 / (t.rotating_mass_factor * t.mass)) {}
+    explicit Motion(const TrainType& t)
+        : type(t),
+          inv_effective_mass(1.0 / (t.rotating_mass_factor * t.mass)),
+          power_limited_from(t.power_limited_from()) {}
 
     double accel(double v, double gradient) const {
-        return (type.tractive_force(v) - type.resistance(v) - type.mass * kGravity * gradient) * inv_effective_mass;
+        // (the power curve alone where it is the least of the limits: the same value, sooner)
+        const double f = v >= power_limited_from ? type.power / v * type.performance : type.tractive_force(v);
+        return (f - type.resistance(v) - type.mass * kGravity * gradient) * inv_effective_mass;
     }
 
     // v^2 after a cell of length ds started at v0, by a two-stage midpoint rule in w = v^2

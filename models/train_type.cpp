@@ -1,6 +1,8 @@
 #include "models/train_type.hpp"
 
 #include <algorithm>
+#include <cmath>
+#include <limits>
 
 namespace knockon {
 namespace {
@@ -21,6 +23,28 @@ double interpolate(const std::vector<std::pair<double, double>>& table, double v
 }
 
 }  // namespace
+
+double TrainType::power_limited_from() const {
+    constexpr double kNever = std::numeric_limits<double>::infinity();
+    if (!force_table.empty() || !(power > 0.0) || !(performance > 0.0)) return kNever;
+    // Relative margin on each crossing: far above rounding, far below any effect on speed.
+    constexpr double kMargin = 1e-6;
+    double from = 0.0;
+    // power / v <= max_force from v = power / max_force on.
+    if (max_force > 0.0) from = power / max_force;
+    if (adhesion_mass > 0.0) {
+        // Adhesion times v, mu(v) v m_a g, grows with v; it equals the power where
+        // (A v + B v / (k v + C)) m_a g = P, i.e. A k v^2 + (A C + B - k P') v - C P' = 0 with
+        // P' = P / (m_a g) and V = k v (Curtius-Kniffler, as adhesion_limit).
+        using namespace curtius_kniffler;
+        const double p = power / (adhesion_mass * kGravity);
+        const double a = kA * kKmh, b = kA * kC + kB - kKmh * p, c = -kC * p;
+        const double root = (-b + std::sqrt(b * b - 4.0 * a * c)) / (2.0 * a);
+        if (!std::isfinite(root)) return kNever;
+        from = std::max(from, root);
+    }
+    return from * (1.0 + kMargin) + 1e-9;
+}
 
 double TrainType::table_force(double v) const { return interpolate(force_table, v); }
 

@@ -50,6 +50,11 @@ struct TrainType {
     // Forces and decelerations, all at speed v [m/s].  The first two are inline: the running-time
     // integration evaluates them millions of times a simulated day.
     double tractive_force(double v) const;      // available at the wheel, times performance
+    // The speed from which tractive_force(v) is power / v * performance alone: the force cap and
+    // the adhesion limit lie above the power curve there, with a margin far above rounding, so
+    // that shortcut gives the same value to the last bit.  Infinity when there is no such speed
+    // (a force table, no power curve, no effort used).
+    double power_limited_from() const;
     double resistance(double v) const { return davis_a + davis_b * v + davis_c * v * v; }   // Davis
     double service_deceleration(double v) const;
 
@@ -58,10 +63,15 @@ private:
     double adhesion_limit(double v) const;   // Curtius-Kniffler adhesion times adhesion weight
 };
 
+// Curtius-Kniffler adhesion coefficient mu = A + B / (V + C), V in km/h (REFERENCES.md D6).
+namespace curtius_kniffler {
+inline constexpr double kA = 0.161, kB = 7.5, kC = 44.0, kKmh = 3.6;
+}
+
 inline double TrainType::adhesion_limit(double v) const {
-    // Curtius-Kniffler adhesion coefficient, V in km/h (REFERENCES.md D6).
-    const double kmh = v * 3.6;
-    const double mu = 0.161 + 7.5 / (kmh + 44.0);
+    using namespace curtius_kniffler;
+    const double kmh = v * kKmh;
+    const double mu = kA + kB / (kmh + kC);
     return mu * adhesion_mass * kGravity;
 }
 

@@ -67,6 +67,38 @@ TEST_CASE("Tractive-effort envelope min(F_max, adhesion, P/v)", "[dynamics]") {
     CHECK(t.tractive_force(100 * kmh) == Approx(0.8 * 5600e3 / (100 * kmh)));
 }
 
+TEST_CASE("From power_limited_from on the effort is the power curve alone, to the bit", "[dynamics]") {
+    // The integrator's shortcut (header contract, no outside source): the crossing of the power
+    // curve with adhesion and the force cap, found in closed form, must be tight and safe.
+    TrainType t;
+    t.max_force = 300e3;
+    t.power = 5600e3;
+    t.adhesion_mass = 84000;
+    for (double performance : {1.0, 0.7}) {
+        t.performance = performance;
+        const double from = t.power_limited_from();
+        REQUIRE(std::isfinite(from));
+        // The crossing lies where the two curves meet: the REFERENCES.md D7 locomotive is
+        // adhesion-limited at 100 km/h and power-limited at 140 km/h.
+        CHECK(from > 100 * kmh);
+        CHECK(from < 140 * kmh);
+        for (double v = from; v < 250 * kmh; v += 0.37)
+            CHECK(t.tractive_force(v) == t.power / v * t.performance);
+        // Just below it adhesion binds (the margin is small).
+        const double below = from * (1.0 - 1e-4);
+        CHECK(t.tractive_force(below) < t.power / below * t.performance);
+    }
+    // Without adhesion the crossing is the force cap's, P / F_max.
+    t.adhesion_mass = 0;
+    CHECK(t.power_limited_from() == Approx(5600e3 / 300e3).epsilon(1e-5));
+    // No power curve or a force table: no shortcut.
+    t.power = 0;
+    CHECK(std::isinf(t.power_limited_from()));
+    t.power = 5600e3;
+    t.force_table = {{0.0, 300e3}, {50.0, 100e3}};
+    CHECK(std::isinf(t.power_limited_from()));
+}
+
 TEST_CASE("Force cap and power curve may each be absent", "[dynamics]") {
     // Header contract (no outside source): max_force 0 = no cap, power 0 = no power curve,
     // both 0 with no table = no traction at all.
