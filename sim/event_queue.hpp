@@ -5,7 +5,11 @@
 //
 // Why this shape (see ENGINEERING.md, "Event kernel"): a 4-ary implicit heap over plain structs
 // is several times faster than node-based heaps, and cancelling by bumping a generation (and
-// dropping stale entries when they surface) is cheaper than handle-based erase.
+// dropping stale entries when they surface) is cheaper than handle-based erase.  Events that a
+// driver schedules in order anyway (a constant delay after the current time, say) may go to a
+// first-in-first-out lane instead: the queue takes the earliest of the heap's top and the
+// lanes' fronts, so the order is the same, without the heap's work for them.
+#include <array>
 #include <cstddef>
 #include <cstdint>
 #include <stdexcept>
@@ -79,32 +83,44 @@ public:
     // exactly now() is fine, whatever its phase: it comes out after the one being handled.
     std::uint64_t push(SimTime time, std::uint8_t phase, std::uint32_t kind, std::uint32_t entity,
                        std::uint32_t generation, std::uint32_t payload = 0) {
-        if (time < now_)
-            throw std::logic_error("EventQueue: event of kind " + std::to_string(kind) +
-                                   " for entity " + std::to_string(entity) + " scheduled at " +
-                                   to_string(time) + ", before the current time " +
-                                   to_string(now_));
-        const std::uint64_t seq = next_seq_++;
-        heap_.push(Event{time, phase, seq, kind, entity, generation, payload});
-        return seq;
+        const Event e = make(time, phase, kind, entity, generation, payload);
+        heap_.push(e);
+        return e.seq;
     }
 
-    bool empty() const { return heap_.empty(); }
+    // The same, into FIFO lane `lane` (< kLanes) when the event comes no earlier than the last
+    // one there (else into the heap: the order stays right either way).
+    static constexpr std::size_t kLanes = 2;
+    std::uint64_t push_in_order(std::size_t lane, SimTime time, std::uint8_t phase, std::uint32_t kind,
+                                std::uint32_t entity, std::uint32_t generation, std::uint32_t payload = 0) {
+        const Event e = make(time, phase, kind, entity, generation, payload);
+        Lane& l = lanes_.at(lane);
+        if (l.empty() || !earlier(e, l.events.back())) l.events.push_back(e);
+        else heap_.push(e);
+        return e.seq;
+    }
+
+    bool empty() const { return size() == 0; }
     // Pending events, stale ones included (they leave only when they reach the top).
-    std::size_t size() const { return heap_.size(); }
+    std::size_t size() const {
+        std::size_t n = heap_.size();
+        for (const Lane& l : lanes_) n += l.size();
+        return n;
+    }
     void reserve(std::size_t n) { heap_.reserve(n); }
 
     // The earliest pending event, stale or not.
     const Event& top() const {
-        if (heap_.empty()) throw std::logic_error("EventQueue::top on an empty queue");
-        return heap_.top();
+        const int from = earliest();
+        if (from == kNone) throw std::logic_error("EventQueue::top on an empty queue");
+        return from == kHeap ? heap_.top() : lanes_[from].front();
     }
 
     // Removes and returns the earliest pending event, stale or not, and advances now().
     Event pop() {
-        if (heap_.empty()) throw std::logic_error("EventQueue::pop on an empty queue");
-        Event e = heap_.top();
-        heap_.pop();
+        const int from = earliest();
+        if (from == kNone) throw std::logic_error("EventQueue::pop on an empty queue");
+        Event e = take(from);
         now_ = e.time;
         return e;
     }
@@ -113,15 +129,12 @@ public:
     // stale ones on the way; false when the queue ran empty. Dropped events do not advance
     // now(): it stays the time of the last event actually delivered.
     bool pop_current(Event& out, const GenerationTable& generations) {
-        while (!heap_.empty()) {
-            const Event& e = heap_.top();
-            if (generations.is_current(e.entity, e.generation)) {
-                out = e;
-                heap_.pop();
+        for (int from = earliest(); from != kNone; from = earliest()) {
+            out = take(from);
+            if (generations.is_current(out.entity, out.generation)) {
                 now_ = out.time;
                 return true;
             }
-            heap_.pop();
             ++stale_dropped_;
         }
         return false;
@@ -139,7 +152,55 @@ private:
     struct Later {
         bool operator()(const Event& a, const Event& b) const { return earlier(b, a); }
     };
+    // A FIFO over a vector: taken from `head`, emptied (capacity kept) once all are taken.
+    struct Lane {
+        std::vector<Event> events;
+        std::size_t head = 0;
+        bool empty() const { return head == events.size(); }
+        std::size_t size() const { return events.size() - head; }
+        const Event& front() const { return events[head]; }
+    };
+    static constexpr int kNone = -2, kHeap = -1;
+
+    Event make(SimTime time, std::uint8_t phase, std::uint32_t kind, std::uint32_t entity, std::uint32_t generation,
+               std::uint32_t payload) {
+        if (time < now_)
+            throw std::logic_error("EventQueue: event of kind " + std::to_string(kind) +
+                                   " for entity " + std::to_string(entity) + " scheduled at " +
+                                   to_string(time) + ", before the current time " +
+                                   to_string(now_));
+        return Event{time, phase, next_seq_++, kind, entity, generation, payload};
+    }
+    // Where the earliest pending event is: kHeap, a lane's index, or kNone.
+    int earliest() const {
+        int from = heap_.empty() ? kNone : kHeap;
+        const Event* best = heap_.empty() ? nullptr : &heap_.top();
+        for (std::size_t i = 0; i < kLanes; ++i) {
+            const Lane& l = lanes_[i];
+            if (!l.empty() && (best == nullptr || earlier(l.front(), *best))) {
+                best = &l.front();
+                from = static_cast<int>(i);
+            }
+        }
+        return from;
+    }
+    Event take(int from) {
+        if (from == kHeap) {
+            Event e = heap_.top();
+            heap_.pop();
+            return e;
+        }
+        Lane& l = lanes_[static_cast<std::size_t>(from)];
+        Event e = l.front();
+        if (++l.head == l.events.size()) {
+            l.events.clear();
+            l.head = 0;
+        }
+        return e;
+    }
+
     boost::heap::d_ary_heap<Event, boost::heap::arity<4>, boost::heap::compare<Later>> heap_;
+    std::array<Lane, kLanes> lanes_;
     SimTime now_;
     std::uint64_t next_seq_ = 0;
     std::uint64_t stale_dropped_ = 0;

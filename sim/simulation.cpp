@@ -177,7 +177,13 @@ private:
                                                      : fixed_entity(t);
         SimTime when = SimTime::from_seconds(std::max(time, now_));
         if (when < queue_.now()) when = queue_.now();
-        queue_.push(when, phase_of(kind), kind, entity, generations_.current(entity), payload);
+        // Releases and authority checks come a constant time after the event that makes them:
+        // they are pushed in order, and their own lanes spare the heap a third of the events.
+        if (kind == kRelease || kind == kAuthorityCheck)
+            queue_.push_in_order(kind == kRelease ? 0 : 1, when, phase_of(kind), kind, entity,
+                                 generations_.current(entity), payload);
+        else
+            queue_.push(when, phase_of(kind), kind, entity, generations_.current(entity), payload);
     }
 
     double delay_of(const std::vector<std::vector<double>>& v, std::uint32_t t, std::size_t call) const {

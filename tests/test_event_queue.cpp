@@ -167,6 +167,44 @@ TEST_CASE("Heap pops in the same order as a sorted vector", "[sim][queue]") {
     CHECK(pops > 10000);   // the run really exercised the heap
 }
 
+TEST_CASE("Events in the FIFO lanes keep the same total order as the heap", "[sim][queue]") {
+    // As above, with a third of the pushes to each lane: constant delays after now() (in order,
+    // as the simulation uses them) and some random ones (out of order: these fall back to the
+    // heap).  The pop order must still be the sorted vector's.
+    std::mt19937_64 rng(20261202);
+    EventQueue q;
+    SortedVectorQueue ref;
+    std::size_t pops = 0, laned = 0;
+    for (int op = 0; op < 20000; ++op) {
+        if (ref.v.empty() || rng() % 100 < 55) {
+            const int where = static_cast<int>(rng() % 3);   // heap, lane 0, lane 1
+            std::int64_t dt = (rng() % 4 == 0) ? 0 : static_cast<std::int64_t>(rng() % 50);
+            if (where > 0 && rng() % 5 != 0) dt = where == 1 ? 30 : 45;   // constant delay: in order
+            const SimTime when = q.now() + SimDuration{dt};
+            const auto phase = static_cast<std::uint8_t>(where > 0 && rng() % 5 != 0 ? where - 1 : rng() % 3);
+            const auto kind = static_cast<std::uint32_t>(rng() % 7);
+            const auto entity = static_cast<std::uint32_t>(rng() % 100);
+            const std::uint64_t seq = where == 0 ? q.push(when, phase, kind, entity, 0, 0)
+                                                 : q.push_in_order(where - 1, when, phase, kind, entity, 0, 0);
+            laned += where > 0;
+            ref.push(Event{when, phase, seq, kind, entity, 0, 0});
+        } else {
+            REQUIRE(q.size() == ref.v.size());
+            const Event want = ref.pop();
+            REQUIRE(same_event(q.top(), want));
+            REQUIRE(same_event(q.pop(), want));
+            ++pops;
+        }
+    }
+    while (!ref.v.empty()) {
+        REQUIRE(same_event(q.pop(), ref.pop()));
+        ++pops;
+    }
+    CHECK(q.empty());
+    CHECK(laned > 5000);
+    CHECK(pops > 10000);
+}
+
 TEST_CASE("Scheduling into the past throws", "[sim][queue]") {
     EventQueue q(SimTime{1000});
     CHECK_THROWS_AS(q.push(SimTime{999}, 0, 0, 0, 0), std::logic_error);
