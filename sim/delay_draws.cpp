@@ -21,11 +21,9 @@ const DelayRule* match(const std::vector<DelayRule>& rules, const std::string& c
     return nullptr;
 }
 
-// The delay drawn for one place, or 0 when no rule applies.
-double draw_at(const RandomStream& rng, StreamKind kind, const std::vector<DelayRule>& rules,
-               const std::string& category, const std::string& station, std::uint32_t train_key,
+// The delay drawn for one place by `rule`, or 0 when no rule applies.
+double draw_at(const RandomStream& rng, StreamKind kind, const DelayRule* rule, std::uint32_t train_key,
                std::uint32_t place_key) {
-    const DelayRule* rule = match(rules, category, station);
     if (rule == nullptr) return 0.0;
     const UniformPair u = rng.uniforms(kind, train_key, place_key);
     return rule->distribution.sample(u.first, u.second);
@@ -48,43 +46,33 @@ std::map<std::string, SectionExtent> known_sections(const std::vector<TrainPlan>
 InjectedDelays draw_delays(const PrimaryDelayModel& model, const Infrastructure& infra,
                            const std::vector<TrainPlan>& trains, std::uint64_t seed,
                            std::uint32_t replication) {
-    const RandomStream rng(seed, replication);
-    InjectedDelays d;
-    d.entry.assign(trains.size(), 0.0);
-    d.dwell.resize(trains.size());
-    d.running.resize(trains.size());
-    for (std::size_t t = 0; t < trains.size(); ++t) {
-        const Service& svc = *trains[t].run.service;
+    return DelayDrawer(model, infra, trains).draw(seed, replication);
+}
+
+DelayDrawer::DelayDrawer(const PrimaryDelayModel& model, const Infrastructure& infra,
+                         const std::vector<TrainPlan>& trains)
+    : model_(model), trains_(trains) {
+    for (const TrainPlan& tp : trains) {
+        const Service& svc = *tp.run.service;
+        Train& t = resolved_.emplace_back();
+        if (svc.calls.empty()) continue;
+        t.key = stable_key(svc.id);
+        t.entry = match(model.entry, svc.category, svc.calls.front().station);
         const std::size_t n = svc.calls.size();
-        d.dwell[t].assign(n, 0.0);
-        d.running[t].assign(n, 0.0);
-        if (n == 0) continue;
-        const std::uint32_t train_key = stable_key(svc.id);
-        d.entry[t] = draw_at(rng, StreamKind::entry, model.entry, svc.category, svc.calls.front().station,
-                             train_key, 0);
         for (std::size_t c = 0; c < n; ++c) {
             const Call& call = svc.calls[c];
             const bool last = c + 1 == n;
-            const std::uint32_t place_key = stable_key(call.station);
+            Place& p = t.calls.emplace_back();
+            p.key = stable_key(call.station);
             // No dwell at the terminus: the train leaves the model there.
-            if (call.stops && !(last && !svc.leaves_at_edge))
-                d.dwell[t][c] = draw_at(rng, StreamKind::dwell, model.dwell, svc.category, call.station,
-                                        train_key, place_key);
-            if (!last || svc.leaves_at_edge)
-                d.running[t][c] = draw_at(rng, StreamKind::running, model.running, svc.category,
-                                          call.station, train_key, place_key);
+            if (call.stops && !(last && !svc.leaves_at_edge)) p.dwell = match(model.dwell, svc.category, call.station);
+            if (!last || svc.leaves_at_edge) p.running = match(model.running, svc.category, call.station);
         }
     }
-
-    if (model.disruptions.empty()) return d;
+    // The sections each disruption rule blocks: every detection section of its track that
+    // overlaps [from, to), as the trains' paths know them, in chainage order.
     const auto sections = known_sections(trains);
-    for (std::size_t k = 0; k < model.disruptions.size(); ++k) {
-        const DisruptionRule& rule = model.disruptions[k];
-        const auto place_key = static_cast<std::uint32_t>(k);
-        const UniformPair when = rng.uniforms(StreamKind::disruption, 0, place_key, 0);
-        if (!(when.first < rule.daily_probability)) continue;
-        const double start = rule.window_from + when.second * (rule.window_to - rule.window_from);
-        const double length = rule.duration.quantile(rng.uniform(StreamKind::disruption, 0, place_key, 1));
+    for (const DisruptionRule& rule : model.disruptions) {
         // The range as far as the track goes (the reader has checked it lies on the track).
         double from = rule.from, to = rule.to;
         if (const Track* tr = infra.find_track(rule.track)) {
@@ -97,7 +85,41 @@ InjectedDelays draw_delays(const PrimaryDelayModel& model, const Infrastructure&
             if (id.compare(0, prefix.size(), prefix) == 0 && ext.x_lo < to && ext.x_hi > from)
                 hit.emplace_back(ext.x_lo, id);
         std::sort(hit.begin(), hit.end());
-        for (const auto& [x, id] : hit) d.blocked.push_back({id, start, start + length});
+        std::vector<std::string>& ids = disrupted_.emplace_back();
+        for (auto& [x, id] : hit) ids.push_back(std::move(id));
+    }
+}
+
+InjectedDelays DelayDrawer::draw(std::uint64_t seed, std::uint32_t replication) const {
+    const PrimaryDelayModel& model = model_;
+    const std::vector<TrainPlan>& trains = trains_;
+    const RandomStream rng(seed, replication);
+    InjectedDelays d;
+    d.entry.assign(trains.size(), 0.0);
+    d.dwell.resize(trains.size());
+    d.running.resize(trains.size());
+    for (std::size_t t = 0; t < trains.size(); ++t) {
+        const Train& tr = resolved_[t];
+        const std::size_t n = tr.calls.size();
+        d.dwell[t].assign(n, 0.0);
+        d.running[t].assign(n, 0.0);
+        if (n == 0) continue;
+        d.entry[t] = draw_at(rng, StreamKind::entry, tr.entry, tr.key, 0);
+        for (std::size_t c = 0; c < n; ++c) {
+            const Place& p = tr.calls[c];
+            d.dwell[t][c] = draw_at(rng, StreamKind::dwell, p.dwell, tr.key, p.key);
+            d.running[t][c] = draw_at(rng, StreamKind::running, p.running, tr.key, p.key);
+        }
+    }
+
+    for (std::size_t k = 0; k < model.disruptions.size(); ++k) {
+        const DisruptionRule& rule = model.disruptions[k];
+        const auto place_key = static_cast<std::uint32_t>(k);
+        const UniformPair when = rng.uniforms(StreamKind::disruption, 0, place_key, 0);
+        if (!(when.first < rule.daily_probability)) continue;
+        const double start = rule.window_from + when.second * (rule.window_to - rule.window_from);
+        const double length = rule.duration.quantile(rng.uniform(StreamKind::disruption, 0, place_key, 1));
+        for (const std::string& id : disrupted_[k]) d.blocked.push_back({id, start, start + length});
     }
     return d;
 }

@@ -7,6 +7,7 @@
 // other trains, or change the signalling, and its draws stay the same.  Disruption rule k uses
 // (disruption, 0, k, 0) for occurrence and start, and draw 1 for the duration.
 #include <cstdint>
+#include <string>
 #include <vector>
 
 #include "models/infrastructure.hpp"
@@ -23,5 +24,30 @@ namespace knockon {
 InjectedDelays draw_delays(const PrimaryDelayModel& model, const Infrastructure& infra,
                            const std::vector<TrainPlan>& trains, std::uint64_t seed,
                            std::uint32_t replication);
+
+// The same draws for many replications: which rule applies where, and the keys, are worked out
+// once (a study draws thousands of days).  Holds references to the model and the plans.
+class DelayDrawer {
+public:
+    DelayDrawer(const PrimaryDelayModel& model, const Infrastructure& infra, const std::vector<TrainPlan>& trains);
+    InjectedDelays draw(std::uint64_t seed, std::uint32_t replication) const;
+
+private:
+    struct Place {
+        std::uint32_t key = 0;                 // stable_key of the station
+        const DelayRule* dwell = nullptr;      // the rule that applies, if any
+        const DelayRule* running = nullptr;
+    };
+    struct Train {
+        std::uint32_t key = 0;                 // stable_key of the service id
+        const DelayRule* entry = nullptr;
+        std::vector<Place> calls;
+    };
+    const PrimaryDelayModel& model_;
+    const std::vector<TrainPlan>& trains_;
+    std::vector<Train> resolved_;
+    std::vector<std::vector<std::string>> disrupted_;   // per disruption rule: section ids
+
+};
 
 }  // namespace knockon

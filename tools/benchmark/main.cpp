@@ -38,7 +38,8 @@ Measure run(const knockon::SimModel& model, const knockon::Scenario& sc, const s
     knockon::StudyOptions opt;
     opt.replications = replications;
     opt.threads = threads;
-    opt.draw = [&](std::uint32_t k) { return knockon::draw_delays(sc.delays, sc.infrastructure, plan, 1, k); };
+    const knockon::DelayDrawer drawer(sc.delays, sc.infrastructure, plan);
+    opt.draw = [&](std::uint32_t k) { return drawer.draw(1, k); };
     const double c0 = cpu_seconds();
     const auto w0 = std::chrono::steady_clock::now();
     knockon::StudyResult r = knockon::run_study(model, opt);

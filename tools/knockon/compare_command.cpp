@@ -372,9 +372,8 @@ int compare(const std::vector<std::string>& args) {
         }
         StudyOptions o = opt;
         // The same seed for every variant: replication k draws the same primary delays everywhere.
-        o.draw = [&r, seed](std::uint32_t k) {
-            return draw_delays(r.scenario.delays, r.scenario.infrastructure, r.plan.trains, seed, k);
-        };
+        const DelayDrawer drawer(r.scenario.delays, r.scenario.infrastructure, r.plan.trains);
+        o.draw = [&drawer, seed](std::uint32_t k) { return drawer.draw(seed, k); };
         const auto t0 = std::chrono::steady_clock::now();
         o.progress = [&, v](std::uint32_t done, std::uint32_t planned) {
             if (!tty) return;

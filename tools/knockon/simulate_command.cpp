@@ -118,7 +118,8 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
     const std::uint64_t seed = count_option(vm, "seed", 0, UINT64_MAX);
     if (scenario.delays.empty())
         std::fprintf(stderr, "knockon simulate: note: the scenario has no `delays:` section, so every day is the same\n");
-    opt.draw = [&](std::uint32_t k) { return draw_delays(scenario.delays, scenario.infrastructure, plan, seed, k); };
+    const DelayDrawer drawer(scenario.delays, scenario.infrastructure, plan);
+    opt.draw = [&](std::uint32_t k) { return drawer.draw(seed, k); };
 
     // Progress on stderr only when it is a terminal, a few times a second at most.
     const bool tty = ::isatty(2);
