@@ -62,10 +62,16 @@ std::uint8_t phase_of(Kind k) {
 
 bool is_motion(Kind k) { return k >= kEnter && k <= kBrakePoint; }
 
-// Integrated motions keep their buffers from one simulated day to the next on the same thread:
-// growing thousands of fresh vectors a day cost more than the integration in them.
-std::vector<Trajectory>& spare_trajectories() {
-    thread_local std::vector<Trajectory> spare;
+// A train's buffers are kept from one simulated day to the next on the same thread: growing
+// thousands of fresh vectors a day cost more than the integration in them.
+struct TrainBuffers {
+    Trajectory own;
+    std::vector<double> route_set;
+    std::vector<long> route_record, section_record;
+    std::vector<std::uint8_t> holds;
+};
+std::vector<TrainBuffers>& spare_buffers() {
+    thread_local std::vector<TrainBuffers> spare;
     return spare;
 }
 
@@ -73,8 +79,10 @@ class Day {
 public:
     Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& options);
     ~Day() {
-        std::vector<Trajectory>& spare = spare_trajectories();
-        for (TrainState& s : st_) spare.push_back(std::move(s.own));
+        std::vector<TrainBuffers>& spare = spare_buffers();
+        for (TrainState& s : st_)
+            spare.push_back({std::move(s.own), std::move(s.route_set), std::move(s.route_record),
+                             std::move(s.section_record), std::move(s.holds)});
     }
     Day(const Day&) = delete;
     Day& operator=(const Day&) = delete;
@@ -149,7 +157,7 @@ private:
     std::vector<TrainState> st_;
     std::vector<Pending> pending_;
     SimResult out_;
-    std::vector<std::vector<long>> timing_index_;   // [train][call] -> out_.timing
+    std::vector<long> timing_first_;   // [train] -> its first record in out_.timing (then one per call)
     std::vector<std::vector<SlowStretch>> slow_;     // [train]
     std::vector<std::vector<std::uint32_t>> disrupted_;   // per InjectedDelays::blocked entry: sections
     double now_ = 0.0;
@@ -308,10 +316,15 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
       generations_(kEntitiesPerTrain * model.trains().size()) {
     const auto& trains = model.trains();
     st_.resize(trains.size());
-    std::vector<Trajectory>& spare = spare_trajectories();
+    std::vector<TrainBuffers>& spare = spare_buffers();
     for (TrainState& s : st_) {
         if (spare.empty()) break;
-        s.own = std::move(spare.back());
+        TrainBuffers& b = spare.back();
+        s.own = std::move(b.own);
+        s.route_set = std::move(b.route_set);
+        s.route_record = std::move(b.route_record);
+        s.section_record = std::move(b.section_record);
+        s.holds = std::move(b.holds);
         spare.pop_back();
     }
     out_.section_names = model.section_names();
@@ -324,16 +337,18 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
     out_.timing.reserve(calls);
     out_.sections.reserve(sections + sections / 8);
     out_.routes.reserve(routes);
-    timing_index_.resize(trains.size());
+    timing_first_.resize(trains.size());
+    const char* const trace_id = std::getenv("KNOCKON_TRACE");
     for (std::uint32_t t = 0; t < trains.size(); ++t) {
         const ServiceRun& run = run_of(t);
         out_.train_ids.push_back(run.service->id);
-        if (const char* tr = std::getenv("KNOCKON_TRACE"); tr && run.service->id == tr) trace_ = t;
+        if (trace_id && run.service->id == trace_id) trace_ = t;
         TrainState& s = st_[t];
         s.route_set.assign(train(t).routes.size(), kNoTime);
         s.route_record.assign(train(t).routes.size(), -1);
         s.section_record.assign(run.path.sections.size(), -1);
         s.holds.assign(run.path.sections.size(), 0);
+        timing_first_[t] = static_cast<long>(out_.timing.size());
         for (const PlannedCall& c : run.calls) {
             TimingRecord r;
             r.train = t;
@@ -344,7 +359,6 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
             r.scheduled_departure = c.scheduled_departure;
             r.arrival = r.departure = kNoTime;
             r.arrival_delay = r.departure_delay = kNoTime;
-            timing_index_[t].push_back(static_cast<long>(out_.timing.size()));
             out_.timing.push_back(r);
         }
         // Running-time extensions become slower running over the stretch to the next timing
@@ -792,7 +806,7 @@ void Day::try_appear(std::uint32_t t) {
         {
             // Held outside the model beyond its (possibly late) entry: knock-on at the first call.
             const double due = run.appear_time + (t < delays_.entry.size() ? delays_.entry[t] : 0.0);
-            out_.timing[timing_index_[t][0]].knock_on += std::max(0.0, now_ - due);
+            out_.timing[timing_first_[t]].knock_on += std::max(0.0, now_ - due);
             s.last_departure = now_;
         }
         // Motion starts at entry speed on the planned first leg; authority is read at once
@@ -833,7 +847,7 @@ void Day::try_appear(std::uint32_t t) {
     const double ready_on_time =
         std::max(run.calls[0].scheduled_departure + entry, run.appear_time + dwell_at(t, 0));
     if (s.ready_time - ready_on_time > kNoiseFloor)
-        out_.timing[timing_index_[t][0]].knock_on += s.ready_time - ready_on_time;
+        out_.timing[timing_first_[t]].knock_on += s.ready_time - ready_on_time;
     const auto& sec = run.path.sections;
     while (s.next_enter < sec.size() && sec[s.next_enter].s_from < kEps) {
         long r = record_for(t, s.next_enter);
@@ -850,7 +864,7 @@ void Day::try_appear(std::uint32_t t) {
 }
 
 void Day::record_call(std::uint32_t t, std::size_t tp, double arrival, double departure) {
-    TimingRecord& r = out_.timing[timing_index_[t][tp]];
+    TimingRecord& r = out_.timing[timing_first_[t] + static_cast<long>(tp)];
     TrainState& s = st_[t];
     const ServiceRun& run = run_of(t);
     if (!std::isnan(arrival)) {
@@ -1071,9 +1085,9 @@ void Day::handle(const Event& e) {
         case kCall:
             if (stale_point(s.next_call)) break;
             record_call(t, e.payload, now_, kNoTime);
-            out_.timing[timing_index_[t][e.payload]].departure = now_;
-            out_.timing[timing_index_[t][e.payload]].departure_delay =
-                now_ - out_.timing[timing_index_[t][e.payload]].scheduled_departure;
+            out_.timing[timing_first_[t] + e.payload].departure = now_;
+            out_.timing[timing_first_[t] + e.payload].departure_delay =
+                now_ - out_.timing[timing_first_[t] + e.payload].scheduled_departure;
             st_[t].last_departure = now_;
             ++s.next_call;
             schedule_point(t, kCall);
