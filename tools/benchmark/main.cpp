@@ -5,6 +5,12 @@
 // Runs the same study on 1 thread and on T threads and prints replications per second, simulated
 // train-km and block passages per CPU-second, events per second, the speed-up, and the peak
 // resident memory.  Speed targets are checked here, never by timed unit tests.
+//
+// On a shared machine one core may run markedly slower than another, and a single-thread run lands
+// on either.  The T-thread run uses T cores, so the single-thread run is made once on each of the
+// first T cores the process may use (pinned), each shown, and the speed-up compares with their
+// mean.  With fewer cores allowed (under taskset, say) it runs once, unpinned.
+#include <sched.h>
 #include <sys/resource.h>
 
 #include <chrono>
@@ -13,6 +19,7 @@
 #include <cstring>
 #include <ctime>
 #include <string>
+#include <vector>
 
 #include "models/plan.hpp"
 #include "sim/delay_draws.hpp"
@@ -82,19 +89,45 @@ int main(int argc, char** argv) {
 
         std::printf("knockon_benchmark: %s, %u replications, %zu trains, %.0f train-km per day\n", file.c_str(),
                     replications, plan.size(), train_km);
-        const Measure one = run(model, sc, plan, replications, 1);
-        const Measure many = run(model, sc, plan, replications, threads);
         auto report = [&](const char* label, const Measure& m) {
-            std::printf("%-10s %8.1f replications/s  %10.0f train-km/CPU-s  %10.0f block passages/CPU-s  "
+            std::printf("%-15s %8.1f replications/s  %10.0f train-km/CPU-s  %10.0f block passages/CPU-s  "
                         "%11.0f events/s  (wall %.2f s, CPU %.2f s)\n",
                         label, m.replications / m.wall, train_km * m.replications / m.cpu, m.passages / m.cpu,
                         m.events / m.wall, m.wall, m.cpu);
         };
+        // Single thread: on each of the first `threads` allowed cores in turn, or once unpinned.
+        cpu_set_t allowed;
+        CPU_ZERO(&allowed);
+        std::vector<int> cores;
+        if (threads > 1 && sched_getaffinity(0, sizeof allowed, &allowed) == 0)
+            for (int c = 0; c < CPU_SETSIZE && cores.size() < threads; ++c)
+                if (CPU_ISSET(c, &allowed)) cores.push_back(c);
+        if (cores.size() < 2) cores.clear();
+        Measure one;
+        for (int c : cores) {
+            cpu_set_t only;
+            CPU_ZERO(&only);
+            CPU_SET(c, &only);
+            sched_setaffinity(0, sizeof only, &only);
+            const Measure m = run(model, sc, plan, replications, 1);
+            char label[32];
+            std::snprintf(label, sizeof label, "1 thread, cpu %d", c);
+            report(label, m);
+            one.wall += m.wall;
+            one.cpu += m.cpu;
+            one.events += m.events;
+            one.passages += m.passages;
+            one.replications += m.replications;
+        }
+        if (!cores.empty()) sched_setaffinity(0, sizeof allowed, &allowed);
+        else one = run(model, sc, plan, replications, 1);
+        const Measure many = run(model, sc, plan, replications, threads);
         report("1 thread", one);
         char label[32];
         std::snprintf(label, sizeof label, "%u threads", threads);
         report(label, many);
-        std::printf("speed-up %u threads / 1 thread: %.2fx\n", threads, one.wall / many.wall);
+        std::printf("speed-up %u threads / 1 thread%s: %.2fx\n", threads, cores.empty() ? "" : " (mean over the cores)",
+                    (one.wall / one.replications) / (many.wall / many.replications));
         rusage ru{};
         getrusage(RUSAGE_SELF, &ru);
         std::printf("peak resident memory: %.1f MB\n", ru.ru_maxrss / 1024.0);
