@@ -39,8 +39,12 @@ Place place_on(const ServiceRun& run, double s, bool skip = false) {
 }
 
 // Per place of `others`, the index of the enter place (not skipped) at the same spot, or -1.
+// (Sections follow the path, so their starts ascend.)
 std::vector<long> enter_at_same_place(const std::vector<Place>& enters, const std::vector<Place>& others) {
     std::vector<long> out(others.size(), -1);
+    const bool ascending =
+        std::is_sorted(enters.begin(), enters.end(), [](const Place& a, const Place& b) { return a.s < b.s; });
+    if (!ascending) return out;   // no merged events: each place keeps its own
     for (std::size_t i = 0; i < others.size(); ++i) {
         if (others[i].skip) continue;
         auto e = std::lower_bound(enters.begin(), enters.end(), others[i].s - kSamePlace,
