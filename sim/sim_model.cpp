@@ -38,22 +38,20 @@ Place place_on(const ServiceRun& run, double s, bool skip = false) {
     return {s, -1, 0.0, skip};
 }
 
-// Per place of `others`, the index of the enter place (not skipped) at the same spot, or -1.
+// Sets Place::at_enter of `others`: the enter place (not skipped) at the same spot.
 // (Sections follow the path, so their starts ascend.)
-std::vector<long> enter_at_same_place(const std::vector<Place>& enters, const std::vector<Place>& others) {
-    std::vector<long> out(others.size(), -1);
+void mark_enter_at_same_place(const std::vector<Place>& enters, std::vector<Place>& others) {
     const bool ascending =
         std::is_sorted(enters.begin(), enters.end(), [](const Place& a, const Place& b) { return a.s < b.s; });
-    if (!ascending) return out;   // no merged events: each place keeps its own
+    if (!ascending) return;   // no merged events: each place keeps its own
     for (std::size_t i = 0; i < others.size(); ++i) {
         if (others[i].skip) continue;
         auto e = std::lower_bound(enters.begin(), enters.end(), others[i].s - kSamePlace,
                                   [](const Place& p, double s) { return p.s < s; });
         if (e != enters.end() && !e->skip && std::fabs(e->s - others[i].s) <= kSamePlace && e->leg == others[i].leg &&
             e->t == others[i].t)
-            out[i] = static_cast<long>(e - enters.begin());
+            others[i].at_enter = static_cast<std::int32_t>(e - enters.begin());
     }
-    return out;
 }
 
 }  // namespace
@@ -148,8 +146,8 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
             tr.warnings.push_back(place_on(tp.run, r.warning_point));
         }
         for (const PlannedCall& c : tp.run.calls) tr.calls.push_back(place_on(tp.run, c.s, c.stops));
-        tr.leave_at_enter = enter_at_same_place(tr.enters, tr.leaves);
-        tr.pass_at_enter = enter_at_same_place(tr.enters, tr.passes);
+        mark_enter_at_same_place(tr.enters, tr.leaves);
+        mark_enter_at_same_place(tr.enters, tr.passes);
         for (const SectionBlocking& b : tp.stairway.sections) {
             std::uint32_t s = section_of(b.section);
             if (starts.size() <= s) starts.resize(s + 1);

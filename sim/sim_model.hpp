@@ -22,6 +22,9 @@ struct Place {
     long leg = -1;    // the leg with s0 + kSamePlace < s <= s_end + kSamePlace, or -1
     double t = 0.0;   // from the leg's start, as the leg's Trajectory::time_at gives it [s]
     bool skip = false;   // no event here (beyond the path's end, a stop, a signal never read)
+    // A section's end or a signal where a section begins (the usual case): the index of that
+    // enter place, whose event the head reaching this place rides on; else -1.
+    std::int32_t at_enter = -1;
 };
 
 class SimModel {
@@ -74,10 +77,6 @@ public:
         std::vector<Place> enters, leaves, clears;       // per path section: start, end, end + length
         std::vector<Place> sightings, passes, warnings;  // per route: read point, entry, warning point
         std::vector<Place> calls;                        // per timing point
-        // Where a section's end or a signal lies where a section begins (the usual case), the
-        // head reaching it is one event, the enter's: per leave place and per pass place, the
-        // index of the enter place at the same spot, or -1.
-        std::vector<long> leave_at_enter, pass_at_enter;
     };
 
     const Infrastructure& infrastructure() const { return infra_; }

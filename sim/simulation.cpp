@@ -535,8 +535,9 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
     // head then reaches the end of the section behind on arrival, the next section only when it
     // moves on.  Every new motion schedules its points again, so this holds for each motion.
     if (kind == kLeave || kind == kPass) {
-        const long with = (kind == kLeave ? tr.leave_at_enter : tr.pass_at_enter)[index];
-        if (with >= 0 && static_cast<std::size_t>(with) >= s.next_enter && (kind == kPass || !held_short())) return;
+        if (at->at_enter >= 0 && static_cast<std::size_t>(at->at_enter) >= s.next_enter &&
+            (kind == kPass || !held_short()))
+            return;
     }
     const double when = time_at_place(t, *at);
     if (!std::isnan(when)) push(when, kind, t, payload);
@@ -1054,9 +1055,9 @@ void Day::handle(const Event& e) {
             schedule_point(t, kEnter);
             // The section end and the signal at the same spot (see schedule_point).
             const SimModel::Train& tr = train(t);
-            const long here = static_cast<long>(e.payload);
-            if (s.next_leave < tr.leaves.size() && tr.leave_at_enter[s.next_leave] == here) head_leaves(t);
-            if (s.next_pass < tr.passes.size() && tr.pass_at_enter[s.next_pass] == here) passes_signal(t);
+            const std::int32_t here = static_cast<std::int32_t>(e.payload);
+            if (s.next_leave < tr.leaves.size() && tr.leaves[s.next_leave].at_enter == here) head_leaves(t);
+            if (s.next_pass < tr.passes.size() && tr.passes[s.next_pass].at_enter == here) passes_signal(t);
             break;
         }
         case kLeave:
