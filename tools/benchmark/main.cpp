@@ -104,11 +104,16 @@ int main(int argc, char** argv) {
                 if (CPU_ISSET(c, &allowed)) cores.push_back(c);
         if (cores.size() < 2) cores.clear();
         Measure one;
+        bool pinned = !cores.empty();
         for (int c : cores) {
             cpu_set_t only;
             CPU_ZERO(&only);
             CPU_SET(c, &only);
-            sched_setaffinity(0, sizeof only, &only);
+            if (sched_setaffinity(0, sizeof only, &only) != 0) {
+                std::fprintf(stderr, "knockon_benchmark: cannot pin to cpu %d; the single-thread run is not pinned\n", c);
+                pinned = false;
+                break;
+            }
             const Measure m = run(model, sc, plan, replications, 1);
             char label[32];
             std::snprintf(label, sizeof label, "1 thread, cpu %d", c);
@@ -120,7 +125,10 @@ int main(int argc, char** argv) {
             one.replications += m.replications;
         }
         if (!cores.empty()) sched_setaffinity(0, sizeof allowed, &allowed);
-        else one = run(model, sc, plan, replications, 1);
+        if (!pinned) {
+            cores.clear();
+            one = run(model, sc, plan, replications, 1);
+        }
         const Measure many = run(model, sc, plan, replications, threads);
         report("1 thread", one);
         char label[32];
