@@ -8,6 +8,9 @@
 #include <stdexcept>
 #include <string>
 
+#include "models/full_power_curve.hpp"
+#include "models/motion.hpp"
+
 namespace knockon {
 namespace {
 
@@ -34,44 +37,6 @@ void check_type(const TrainType& type) {
     if (!(type.max_speed > 0.0) || !std::isfinite(type.max_speed)) fail("max speed must be positive");
     if (!(type.length >= 0.0) || !std::isfinite(type.length)) fail("length must not be negative");
 }
-
-// Net acceleration at speed v on gradient i (positive climbing): (F - R - m g i) / (rho m).
-// Infinite only at standstill for an uncapped power curve.
-struct Motion {
-    const TrainType& type;
-    double inv_effective_mass;  // 1 / (rho m)
-    double power_limited_from;  // see TrainType::power_limited_from
-
-    explicit Motion(const TrainType& t)
-        : type(t),
-          inv_effective_mass(1.0 / (t.rotating_mass_factor * t.mass)),
-          power_limited_from(t.power_limited_from()) {}
-
-    double accel(double v, double gradient) const {
-        // (the power curve alone where it is the least of the limits: the same value, sooner)
-        const double f = v >= power_limited_from ? type.power / v * type.performance : type.tractive_force(v);
-        return (f - type.resistance(v) - type.mass * kGravity * gradient) * inv_effective_mass;
-    }
-
-    // v^2 after a cell of length ds started at v0, by a two-stage midpoint rule in w = v^2
-    // (dw/ds = 2a): exact for constant acceleration, second order otherwise, which is what
-    // keeps constant-power runs accurate (REFERENCES.md D9).  May return <= 0: the train stalls.
-    double step_w(double v0, double gradient, double ds) const {
-        const double w0 = v0 * v0;
-        const double a0 = accel(v0, gradient);
-        double w_mid;
-        if (std::isfinite(a0)) {
-            w_mid = w0 + a0 * ds;
-        } else {
-            // Uncapped power from rest: v^3 = 3 P s / (rho m) over the first half cell, then the
-            // midpoint slope accounts for resistance and gradient.
-            const double p = type.power * type.performance;
-            w_mid = std::pow(3.0 * p * 0.5 * ds * inv_effective_mass, 2.0 / 3.0);
-        }
-        if (w_mid <= 0.0) return w_mid;
-        return w0 + 2.0 * accel(std::sqrt(w_mid), gradient) * ds;
-    }
-};
 
 // A lower bound on the acceleration step_w can use in a cell of at most `max_ds` started at a
 // speed of at least kBoundFrom: least tractive effort, most resistance over every speed the
@@ -469,6 +434,10 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
     double memo_v = -1.0, memo_g = 0.0, memo_ds = 0.0, memo_w = 0.0;
     double memo_envelope = -1.0, memo_v1 = 0.0, memo_dt = 0.0;
     const AccelBound bound(type, std::max({step, first_length, last_length}));
+    FullPowerCurves& curves = full_power_curves(type);
+    FullPowerCurve* curve = nullptr;
+    double curve_g = std::numeric_limits<double>::quiet_NaN();
+    std::size_t curve_hint = 0;
     // Rejoining: the leg's speeds at the run's points (grid point k0 + i).
     const double* leg_v = rejoin ? rejoin->leg->v.data() + k0 : nullptr;
     std::size_t leg_points =
@@ -497,7 +466,16 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
                 memo_v = v0;
                 memo_g = grade;
                 memo_ds = ds;
-                memo_w = motion.step_w(v0, grade, ds);
+                memo_w = std::numeric_limits<double>::quiet_NaN();
+                if (ds == step) {
+                    // Read off the full-power curve where it covers v0 (full cells only).
+                    if (!(grade == curve_g)) {
+                        curve = &curves.at(grade, step);
+                        curve_g = grade;
+                    }
+                    memo_w = curve->step_w(v0, curve_hint);
+                }
+                if (std::isnan(memo_w)) memo_w = motion.step_w(v0, grade, ds);
             }
             v1 = limited_speed(memo_w, envelope, i);
             dt = cell_time(v0, v1, ds, i);

@@ -5,7 +5,10 @@
 //
 // Method: on a uniform distance grid, a backward pass builds the braking envelope (limits and
 // the target), then a forward pass accelerates under it; speed is integrated in v^2 over
-// distance (exact for piecewise-constant acceleration), time from dt = 2 ds / (v0 + v1).
+// distance (exact for piecewise-constant acceleration), time from dt = 2 ds / (v0 + v1).  Full
+// cells that accelerate (or lose speed on a climb) under full power from 1 m/s up are read off
+// the type's full-power curve for the cell's gradient (models/full_power_curve.hpp); the rest are
+// integrated by Motion::step_w (models/motion.hpp).
 #include <cstdint>
 #include <optional>
 #include <vector>

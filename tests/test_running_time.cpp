@@ -379,3 +379,31 @@ TEST_CASE("A run's settled points are the same for any further stop", "[running_
     run_on_grid_into(free, type, grid, start, v_start, 3000.0, false);
     CHECK(free.settled + 2 == free.v.size());
 }
+
+TEST_CASE("A motion started on a leg's point at the leg's speed runs as the leg", "[running_time]") {
+    // The engine hands a hindered train back to its planned leg where their speeds meet at a
+    // grid point: exact only if each cell is a function of its start speed, place and gradient
+    // alone, whether it is integrated or read off a full-power curve.
+    TestLine line(9000.0, {{0.0, 9000.0, 140 * kmh}, {4000.0, 4600.0, 80 * kmh}},
+                  {{0.0, 3000.0, 0.0}, {3000.0, 6000.0, 0.008}, {6000.0, 9000.0, -0.005}});
+    TrainType type = level_train(450e3);
+    type.length = 150.0;
+    type.rotating_mass_factor = 1.06;
+    type.max_force = 220e3;
+    type.power = 3.2e6;
+    type.davis_a = 4000.0;
+    type.davis_b = 60.0;
+    type.davis_c = 7.0;
+    const LegGrid grid = make_leg_grid(type, line.path, 0.0, 9000.0);
+    Trajectory leg;
+    run_on_grid_into(leg, type, grid, 0.0, 0.0, 9000.0, true);
+    for (std::size_t k : {40u, 400u, 1300u, 1700u, 2400u, 3200u}) {   // accelerating, cruising, braking
+        Trajectory again;
+        run_on_grid_into(again, type, grid, grid.at(k), leg.v[k], 9000.0, true);
+        INFO("from grid point " << k << " at " << leg.v[k] << " m/s");
+        REQUIRE(again.v.size() + k == leg.v.size());
+        bool same = true;
+        for (std::size_t i = 0; i < again.v.size(); ++i) same = same && again.v[i] == leg.v[k + i];
+        CHECK(same);
+    }
+}

@@ -1,0 +1,93 @@
+#pragma once
+// Full-power curves: a train type's speed over distance running flat out on a constant gradient,
+// sampled finely, so that the running-time integration can read an accelerating cell off the
+// curve instead of evaluating the forces.
+//
+// Why: a cell integrated by Motion::step_w is a chain of two force evaluations (each with a
+// division) and two square roots, every one waiting for the last; accelerating cells were about
+// a tenth of a simulated day.  Read off the curve, a cell is a bracket look-up, two products and
+// one square root.
+//
+// The map stays a function of the start speed alone (where the curve passes v0, what it reaches
+// one cell further on), so a motion that meets its planned leg's speed at a grid point still runs
+// as the leg from there on.  The curve is integrated by the same midpoint rule on a step a
+// quarter of the cell's and interpolated linearly in v^2 (exact for constant acceleration); a
+// cell read off it differs from a step_w cell by far less than a millimetre per second.
+//
+// The curve is kept in bands of speed, each integrated from the band's own edge and only when
+// a cell first needs it: the work and memory follow the speeds trains actually run at on that
+// gradient, however many gradients a line has.
+#include <cstddef>
+#include <deque>
+#include <vector>
+
+#include "models/motion.hpp"
+
+namespace knockon {
+
+class FullPowerCurve {
+public:
+    // Samples per cell: the curve's step is ds / kSamplesPerCell.
+    static constexpr std::size_t kSamplesPerCell = 4;
+    // Below this speed [m/s] cells are integrated: from rest the curve bends too sharply for
+    // linear interpolation in v^2 (an uncapped power curve rises as s^(2/3)).
+    static constexpr double kFromSpeed = 1.0;
+    // Width of a band of speed [m/s].
+    static constexpr double kBand = 2.5;
+
+    FullPowerCurve(const Motion& motion, double gradient, double ds);
+
+    // v^2 at the end of a cell of length ds (this curve's) started at v0, or NaN where the curve
+    // does not cover v0 (below kFromSpeed or above the type's top speed; close to the balancing
+    // speed, where speed hardly changes): the caller integrates that cell itself.  `hint` is a
+    // bracket guess kept between calls (any value is safe).
+    double step_w(double v0, std::size_t& hint);
+
+    double gradient() const { return gradient_; }
+    double cell() const { return ds_; }
+    std::size_t samples() const { return samples_; }
+
+private:
+    // Samples of one stretch of the curve, ascending in u: u = v^2 rising from the band's lower
+    // edge, u = -v^2 falling from its upper edge (full power cannot hold that speed).
+    struct Branch {
+        std::vector<double> u;       // at each sample
+        std::vector<double> slope;   // 1 / (u[j+1] - u[j])
+        double map(double u0, std::size_t& hint) const;   // u one cell on; NaN if not covered
+    };
+    struct Band {
+        bool built = false;
+        Branch rising, falling;
+    };
+    void build(std::size_t band);
+    void sample(double v_from, double v_to, bool rising, Branch& out) const;
+
+    const Motion& motion_;
+    double gradient_, ds_;
+    std::vector<Band> bands_;
+    std::size_t samples_ = 0;
+};
+
+// The curves of one train type, each built on first use.
+class FullPowerCurves {
+public:
+    explicit FullPowerCurves(const TrainType& type) : type_(type), motion_(type_) {}
+    FullPowerCurves(const FullPowerCurves&) = delete;             // motion_ refers to type_
+    FullPowerCurves& operator=(const FullPowerCurves&) = delete;
+    const TrainType& type() const { return type_; }
+    FullPowerCurve& at(double gradient, double ds);
+    std::size_t samples() const;
+
+private:
+    TrainType type_;   // a copy: the key, and what motion_ reads
+    Motion motion_;
+    std::deque<FullPowerCurve> curves_;   // (a deque: references stay valid as it grows)
+};
+
+// The curves of `type` (compared by everything its motion depends on), kept per thread: no
+// locking, and results do not depend on which thread built what, as a curve is a function of
+// its key alone.  Valid until the thread's next call, which may drop the cache when it has
+// grown large.
+FullPowerCurves& full_power_curves(const TrainType& type);
+
+}  // namespace knockon
