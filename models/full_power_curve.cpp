@@ -39,15 +39,18 @@ void FullPowerCurve::build(std::size_t band) {
     const double lo = static_cast<double>(band) * kBand, hi = lo + kBand;
     // Full power gains speed at the band's lower edge: the rising stretch from there.  It loses
     // speed at the upper edge: the falling stretch from there (a train entering a climb faster
-    // than it can climb it).  Between them lies the balancing speed, if anywhere.
-    sample(lo, hi, true, b.rising);
-    if (motion_.accel(hi, gradient_) < 0.0) sample(hi, lo, false, b.falling);
+    // than it can climb it).  Between them lies the balancing speed, if anywhere; the two never
+    // cover the same speed.
+    b.rising.sign = 1.0;
+    sample(lo, hi, b.rising);
+    b.falling.sign = -1.0;
+    if (motion_.accel(hi, gradient_) < 0.0) sample(hi, lo, b.falling);
     samples_ += b.rising.u.size() + b.falling.u.size();
 }
 
-void FullPowerCurve::sample(double v_from, double v_to, bool rising, Branch& out) const {
+void FullPowerCurve::sample(double v_from, double v_to, Branch& out) const {
     const double h = ds_ / static_cast<double>(kSamplesPerCell);
-    const double sign = rising ? 1.0 : -1.0;
+    const double sign = out.sign;
     const double w_to = v_to * v_to;
     double w = v_from * v_from;
     out.u.push_back(sign * w);
@@ -63,38 +66,24 @@ void FullPowerCurve::sample(double v_from, double v_to, bool rising, Branch& out
     }
     out.slope.resize(out.u.size() - 1);
     for (std::size_t j = 0; j + 1 < out.u.size(); ++j) out.slope[j] = 1.0 / (out.u[j + 1] - out.u[j]);
+    // Usable brackets j need samples j + kSamplesPerCell + 1; fewer samples: none usable.
+    out.usable = out.u.size() >= kSamplesPerCell + 2;
+    out.last = out.usable ? out.u.size() - kSamplesPerCell - 2 : 0;
 }
 
-double FullPowerCurve::Branch::map(double u0, std::size_t& hint) const {
-    constexpr std::size_t k = kSamplesPerCell;
-    const std::size_t n = u.size();
-    if (n < k + 2) return kNaN;
-    const std::size_t last = n - k - 2;   // the last bracket with a sample one cell on and the next
-    if (!(u0 >= u[0] && u0 < u[last + 1])) return kNaN;
-    std::size_t j = hint;
-    if (!(j <= last && u[j] <= u0 && u0 < u[j + 1])) {
-        if (j + 1 <= last && u[j + 1] <= u0 && u0 < u[j + 2]) {
-            ++j;   // a cell read on from the last one, rounded up into the next bracket
-        } else {
-            const auto end = u.begin() + static_cast<std::ptrdiff_t>(last + 2);
-            j = static_cast<std::size_t>(std::upper_bound(u.begin(), end, u0) - u.begin()) - 1;
-        }
-    }
-    hint = j + k;
-    const double f = (u0 - u[j]) * slope[j];
-    return u[j + k] + f * (u[j + k + 1] - u[j + k]);
-}
-
-double FullPowerCurve::step_w(double v0, std::size_t& hint) {
-    if (!(v0 >= kFromSpeed)) return kNaN;
-    const std::size_t band = static_cast<std::size_t>(v0 / kBand);
-    if (band >= bands_.size()) return kNaN;
+double FullPowerCurve::search(double v0, std::size_t band, Cursor& cursor) {
+    if (!(v0 >= kFromSpeed) || band >= bands_.size()) return kNaN;
     if (!bands_[band].built) build(band);
     const Band& b = bands_[band];
-    const double w0 = v0 * v0;
-    const double up = b.rising.map(w0, hint);
-    if (!std::isnan(up)) return up;
-    return -b.falling.map(-w0, hint);
+    for (const Branch* br : {&b.rising, &b.falling}) {
+        const double u0 = br->sign * (v0 * v0);
+        if (!br->usable || !(u0 >= br->u.front() && u0 < br->u[br->last + 1])) continue;
+        const auto end = br->u.begin() + static_cast<std::ptrdiff_t>(br->last + 2);
+        const std::size_t j = static_cast<std::size_t>(std::upper_bound(br->u.begin(), end, u0) - br->u.begin()) - 1;
+        cursor = {this, band, br, j + kSamplesPerCell};
+        return br->sign * br->read(j, u0);
+    }
+    return kNaN;
 }
 
 FullPowerCurve& FullPowerCurves::at(double gradient, double ds) {

@@ -32,16 +32,25 @@ public:
     // Below this speed [m/s] cells are integrated: from rest the curve bends too sharply for
     // linear interpolation in v^2 (an uncapped power curve rises as s^(2/3)).
     static constexpr double kFromSpeed = 1.0;
-    // Width of a band of speed [m/s].
-    static constexpr double kBand = 2.5;
+    // Width of a band of speed [m/s] (a power of two: the band of a speed is found exactly by a
+    // product, not a division).
+    static constexpr double kBand = 2.0;
+
+    // Where the last cell was read: the next one usually lies in the same band, one cell on.
+    struct Cursor {
+        const FullPowerCurve* curve = nullptr;
+        std::size_t band = 0;
+        const void* branch = nullptr;
+        std::size_t j = 0;
+    };
 
     FullPowerCurve(const Motion& motion, double gradient, double ds);
 
     // v^2 at the end of a cell of length ds (this curve's) started at v0, or NaN where the curve
     // does not cover v0 (below kFromSpeed or above the type's top speed; close to the balancing
-    // speed, where speed hardly changes): the caller integrates that cell itself.  `hint` is a
-    // bracket guess kept between calls (any value is safe).
-    double step_w(double v0, std::size_t& hint);
+    // speed, where speed hardly changes): the caller integrates that cell itself.  The cursor
+    // only saves the search (any cursor of this curve gives the same result).
+    double step_w(double v0, Cursor& cursor);
 
     double gradient() const { return gradient_; }
     double cell() const { return ds_; }
@@ -51,22 +60,46 @@ private:
     // Samples of one stretch of the curve, ascending in u: u = v^2 rising from the band's lower
     // edge, u = -v^2 falling from its upper edge (full power cannot hold that speed).
     struct Branch {
+        double sign = 1.0;           // u = sign * v^2
         std::vector<double> u;       // at each sample
         std::vector<double> slope;   // 1 / (u[j+1] - u[j])
-        double map(double u0, std::size_t& hint) const;   // u one cell on; NaN if not covered
+        bool usable = false;         // enough samples for one bracket
+        std::size_t last = 0;        // the last usable bracket (one cell on and the next sample exist)
+        bool holds(std::size_t j, double u0) const { return usable && j <= last && u[j] <= u0 && u0 < u[j + 1]; }
+        double read(std::size_t j, double u0) const {   // u one cell on from u0 in bracket j
+            constexpr std::size_t k = kSamplesPerCell;
+            const double f = (u0 - u[j]) * slope[j];
+            return u[j + k] + f * (u[j + k + 1] - u[j + k]);
+        }
     };
     struct Band {
         bool built = false;
         Branch rising, falling;
     };
     void build(std::size_t band);
-    void sample(double v_from, double v_to, bool rising, Branch& out) const;
+    void sample(double v_from, double v_to, Branch& out) const;
+    double search(double v0, std::size_t band, Cursor& cursor);
 
     const Motion& motion_;
     double gradient_, ds_;
     std::vector<Band> bands_;
     std::size_t samples_ = 0;
 };
+
+inline double FullPowerCurve::step_w(double v0, Cursor& cursor) {
+    // The cell after the last one read: same band and stretch, the next bracket (or the one after,
+    // where rounding the end speed to v and squaring it again lands just beyond).
+    if (cursor.curve == this && v0 >= kFromSpeed && static_cast<std::size_t>(v0 * (1.0 / kBand)) == cursor.band) {
+        const Branch& b = *static_cast<const Branch*>(cursor.branch);
+        const double u0 = b.sign * (v0 * v0);
+        for (std::size_t j = cursor.j; j <= cursor.j + 1; ++j)
+            if (b.holds(j, u0)) {
+                cursor.j = j + kSamplesPerCell;
+                return b.sign * b.read(j, u0);
+            }
+    }
+    return search(v0, static_cast<std::size_t>(v0 * (1.0 / kBand)), cursor);
+}
 
 // The curves of one train type, each built on first use.
 class FullPowerCurves {

@@ -437,7 +437,7 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
     FullPowerCurves& curves = full_power_curves(type);
     FullPowerCurve* curve = nullptr;
     double curve_g = std::numeric_limits<double>::quiet_NaN();
-    std::size_t curve_hint = 0;
+    FullPowerCurve::Cursor curve_cursor;
     // Rejoining: the leg's speeds at the run's points (grid point k0 + i).
     const double* leg_v = rejoin ? rejoin->leg->v.data() + k0 : nullptr;
     std::size_t leg_points =
@@ -473,7 +473,7 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
                         curve = &curves.at(grade, step);
                         curve_g = grade;
                     }
-                    memo_w = curve->step_w(v0, curve_hint);
+                    memo_w = curve->step_w(v0, curve_cursor);
                 }
                 if (std::isnan(memo_w)) memo_w = motion.step_w(v0, grade, ds);
             }
