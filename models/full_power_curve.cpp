@@ -33,57 +33,78 @@ FullPowerCurve::FullPowerCurve(const Motion& motion, double gradient, double ds)
     bands_.resize(static_cast<std::size_t>(std::ceil(motion.type.max_speed / kBand)) + 1);
 }
 
-void FullPowerCurve::build(std::size_t band) {
-    Band& b = bands_[band];
-    b.built = true;
-    const double lo = static_cast<double>(band) * kBand, hi = lo + kBand;
-    // Full power gains speed at the band's lower edge: the rising stretch from there.  It loses
-    // speed at the upper edge: the falling stretch from there (a train entering a climb faster
-    // than it can climb it).  Between them lies the balancing speed, if anywhere; the two never
-    // cover the same speed.
-    b.rising.sign = 1.0;
-    sample(lo, hi, b.rising);
-    b.falling.sign = -1.0;
-    if (motion_.accel(hi, gradient_) < 0.0) sample(hi, lo, b.falling);
-    samples_ += b.rising.u.size() + b.falling.u.size();
+void FullPowerCurve::start(Branch& b, double v_from, double v_to, double sign) const {
+    b.sign = sign;
+    b.w = v_from * v_from;
+    b.w_to = v_to * v_to;
+    b.u.push_back(sign * b.w);
+    b.complete = false;
 }
 
-void FullPowerCurve::sample(double v_from, double v_to, Branch& out) const {
+void FullPowerCurve::extend(Branch& b) const {
+    // Some samples at a time: a cell that needs the stretch further usually needs more soon.
+    constexpr std::size_t kChunk = 64;
     const double h = ds_ / static_cast<double>(kSamplesPerCell);
-    const double sign = out.sign;
-    const double w_to = v_to * v_to;
-    double w = v_from * v_from;
-    out.u.push_back(sign * w);
-    // A cell started anywhere short of v_to reads one cell on, and the sample after that.
-    std::size_t beyond = 0;
-    while (out.u.size() < kMaxSamples) {
-        const double next = motion_.step_w(std::sqrt(w), gradient_, h);
-        if (!(next > 0.0)) break;                                   // stalls
-        if (!(sign * (next - w) > kSettled * w)) break;             // settled (or turned)
-        out.u.push_back(sign * next);
-        w = next;
-        if (sign * (w - w_to) >= 0.0 && ++beyond > kSamplesPerCell + 1) break;
+    const std::size_t from = b.u.size();
+    while (!b.complete && b.u.size() < from + kChunk) {
+        const double next = motion_.step_w(std::sqrt(b.w), gradient_, h);
+        // Stalls; settles at the balancing speed (or turns); as far as a stretch goes.
+        if (!(next > 0.0) || !(b.sign * (next - b.w) > kSettled * b.w) || b.u.size() >= kMaxSamples) {
+            b.complete = true;
+            break;
+        }
+        b.u.push_back(b.sign * next);
+        b.w = next;
+        // A cell started anywhere short of the band's far edge reads one cell on, and the
+        // sample after that.
+        if (b.sign * (b.w - b.w_to) >= 0.0 && ++b.beyond > kSamplesPerCell + 1) b.complete = true;
     }
-    out.slope.resize(out.u.size() - 1);
-    for (std::size_t j = 0; j + 1 < out.u.size(); ++j) out.slope[j] = 1.0 / (out.u[j + 1] - out.u[j]);
-    // Usable brackets j need samples j + kSamplesPerCell + 1; fewer samples: none usable.
-    out.usable = out.u.size() >= kSamplesPerCell + 2;
-    out.last = out.usable ? out.u.size() - kSamplesPerCell - 2 : 0;
+    b.slope.resize(b.u.size() - 1);
+    for (std::size_t j = from == 0 ? 0 : from - 1; j + 1 < b.u.size(); ++j) b.slope[j] = 1.0 / (b.u[j + 1] - b.u[j]);
+    b.usable = b.u.size() >= kSamplesPerCell + 2;
+    b.last = b.usable ? b.u.size() - kSamplesPerCell - 2 : 0;
 }
 
 double FullPowerCurve::search(double v0, std::size_t band, Cursor& cursor) {
     if (!(v0 >= kFromSpeed) || band >= bands_.size()) return kNaN;
-    if (!bands_[band].built) build(band);
-    const Band& b = bands_[band];
-    for (const Branch* br : {&b.rising, &b.falling}) {
-        const double u0 = br->sign * (v0 * v0);
-        if (!br->usable || !(u0 >= br->u.front() && u0 < br->u[br->last + 1])) continue;
-        const auto end = br->u.begin() + static_cast<std::ptrdiff_t>(br->last + 2);
-        const std::size_t j = static_cast<std::size_t>(std::upper_bound(br->u.begin(), end, u0) - br->u.begin()) - 1;
-        cursor = {this, band, br, j + kSamplesPerCell};
-        return br->sign * br->read(j, u0);
+    Band& b = bands_[band];
+    if (!b.started) {
+        b.started = true;
+        const double lo = static_cast<double>(band) * kBand, hi = lo + kBand;
+        start(b.rising, lo, hi, 1.0);
+        start(b.falling, hi, lo, -1.0);
     }
-    return kNaN;
+    auto covers = [](const Branch& br, double u0) {
+        return br.usable && u0 >= br.u.front() && u0 < br.u[br.last + 1];
+    };
+    auto read_at = [&](Branch& br, double u0) {
+        // Usually a cell just crossed into the band, near the stretch's start.
+        std::size_t j = 0;
+        while (j <= br.last && j < 8 && !(u0 < br.u[j + 1])) ++j;
+        if (!br.holds(j, u0)) {
+            const auto end = br.u.begin() + static_cast<std::ptrdiff_t>(br.last + 2);
+            j = static_cast<std::size_t>(std::upper_bound(br.u.begin(), end, u0) - br.u.begin()) - 1;
+        }
+        cursor = {this, band, &br, j + kSamplesPerCell};
+        return br.sign * br.read(j, u0);
+    };
+    const double w0 = v0 * v0;
+    // Full power gains speed where the rising stretch from the band's lower edge runs, and loses
+    // it where the falling one from its upper edge runs (a train entering a climb faster than
+    // it can climb it); between them lies the balancing speed, if anywhere, and no speed lies on
+    // both.  A stretch sampled far enough already is the one; else the sign of the acceleration
+    // says which to sample further.
+    if (covers(b.rising, w0)) return read_at(b.rising, w0);
+    if (covers(b.falling, -w0)) return read_at(b.falling, -w0);
+    const double a = motion_.accel(v0, gradient_);
+    if (!(a != 0.0)) return kNaN;
+    Branch& br = a > 0.0 ? b.rising : b.falling;
+    const double u0 = br.sign * w0;
+    if (!(u0 >= br.u.front())) return kNaN;
+    const std::size_t before = br.u.size();
+    while (!covers(br, u0) && !br.complete) extend(br);
+    samples_ += br.u.size() - before;
+    return covers(br, u0) ? read_at(br, u0) : kNaN;
 }
 
 FullPowerCurve& FullPowerCurves::at(double gradient, double ds) {

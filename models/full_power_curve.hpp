@@ -14,8 +14,8 @@
 // quarter of the cell's and interpolated linearly in v^2 (exact for constant acceleration); a
 // cell read off it differs from a step_w cell by far less than a millimetre per second.
 //
-// The curve is kept in bands of speed, each integrated from the band's own edge and only when
-// a cell first needs it: the work and memory follow the speeds trains actually run at on that
+// The curve is kept in bands of speed, each integrated from the band's own edge and only as far
+// as cells need it: the work and memory follow the speeds trains actually run at on that
 // gradient, however many gradients a line has.
 #include <cstddef>
 #include <deque>
@@ -58,13 +58,18 @@ public:
 
 private:
     // Samples of one stretch of the curve, ascending in u: u = v^2 rising from the band's lower
-    // edge, u = -v^2 falling from its upper edge (full power cannot hold that speed).
+    // edge, u = -v^2 falling from its upper edge (full power cannot hold that speed).  Sampled
+    // on demand, a stretch is the same however far it has been taken.
     struct Branch {
         double sign = 1.0;           // u = sign * v^2
         std::vector<double> u;       // at each sample
         std::vector<double> slope;   // 1 / (u[j+1] - u[j])
         bool usable = false;         // enough samples for one bracket
         std::size_t last = 0;        // the last usable bracket (one cell on and the next sample exist)
+        // Where sampling goes on: v^2 at the last sample, the band's far edge, samples beyond it.
+        double w = 0.0, w_to = 0.0;
+        std::size_t beyond = 0;
+        bool complete = true;        // nothing more to sample (also: never started)
         bool holds(std::size_t j, double u0) const { return usable && j <= last && u[j] <= u0 && u0 < u[j + 1]; }
         double read(std::size_t j, double u0) const {   // u one cell on from u0 in bracket j
             constexpr std::size_t k = kSamplesPerCell;
@@ -73,11 +78,11 @@ private:
         }
     };
     struct Band {
-        bool built = false;
+        bool started = false;
         Branch rising, falling;
     };
-    void build(std::size_t band);
-    void sample(double v_from, double v_to, Branch& out) const;
+    void start(Branch& b, double v_from, double v_to, double sign) const;
+    void extend(Branch& b) const;
     double search(double v0, std::size_t band, Cursor& cursor);
 
     const Motion& motion_;
