@@ -373,9 +373,12 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
     // next, and the square roots stay off it.
     bool carried = false;
     double w_carried = 0.0;
+    double v_next = vp[cells];   // vp[i + 1], kept in a register (as in the forward pass)
     for (std::size_t i = cells; i-- > 0;) {
-        const double v1 = vp[i + 1];
-        if (vp[i] <= v1) {
+        const double v1 = v_next;
+        const double limit_here = vp[i];
+        v_next = limit_here;
+        if (limit_here <= v1) {
             stop_chain = false;
             carried = false;
             continue;
@@ -395,8 +398,9 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
         }
         const double w0 = w1 + 2.0 * b * ds;
         const double braked = std::sqrt(w0);
-        if (braked < vp[i]) {
+        if (braked < limit_here) {
             vp[i] = braked;
+            v_next = braked;
             carried = true;
             w_carried = w0;
             if (stop_chain) chain_from = i;
@@ -449,9 +453,11 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
         leg_points = x <= 0.0 ? 0 : std::min(leg_points, static_cast<std::size_t>(x));
     }
     const std::size_t last = cells - 1;
+    // The speed and time at the cell's start ride in registers from one cell to the next: read
+    // back from v and t, each cell would wait for the last one's stores.
+    double v0 = vp[0], t_now = tp[0];
     for (std::size_t i = 0; i < cells; ++i) {
         const double ds = i == 0 ? first_length : i == last ? last_length : step;
-        const double v0 = vp[i];
         const double envelope = vp[i + 1];
         const double grade = gradient[i];
         double v1, dt;
@@ -484,7 +490,9 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
             memo_dt = dt;
         }
         vp[i + 1] = v1;
-        tp[i + 1] = tp[i] + dt;
+        t_now += dt;
+        tp[i + 1] = t_now;
+        v0 = v1;
         // Back on the leg's motion at an interior point in the rejoin window: hand over.
         if (i + 1 < leg_points && v1 == leg_v[i + 1]) {
             const double q = at(i + 1);
