@@ -12,10 +12,13 @@ constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 // A stretch ends where v^2 changes by less than this share per sample: the speed has settled
 // at the balancing speed (it approaches it ever more slowly), and the integration takes over.
 constexpr double kSettled = 1e-7;
-// At most this many samples in one stretch (thousands of kilometres would be far more).
-constexpr std::size_t kMaxSamples = std::size_t{1} << 16;
-// Each thread drops its curves when they hold more samples than this (about 64 MB).
-constexpr std::size_t kMaxCachedSamples = std::size_t{4} << 20;
+// At most this many samples in one stretch (512 KB).
+constexpr std::size_t kMaxSamples = std::size_t{1} << 15;
+// Each thread drops its curves when they hold more samples than this (about 32 MB); they are
+// sampled again as cells need them.
+constexpr std::size_t kMaxCachedSamples = std::size_t{2} << 20;
+// Samples this thread's curves hold.
+thread_local std::size_t held_samples = 0;
 
 // Everything Motion::accel reads: types equal in these have the same curves.
 bool same_motion(const TrainType& a, const TrainType& b) {
@@ -104,6 +107,7 @@ double FullPowerCurve::search(double v0, std::size_t band, Cursor& cursor) {
     const std::size_t before = br.u.size();
     while (!covers(br, u0) && !br.complete) extend(br);
     samples_ += br.u.size() - before;
+    held_samples += br.u.size() - before;
     return covers(br, u0) ? read_at(br, u0) : kNaN;
 }
 
@@ -122,12 +126,14 @@ std::size_t FullPowerCurves::samples() const {
 FullPowerCurves& full_power_curves(const TrainType& type) {
     thread_local std::vector<std::unique_ptr<FullPowerCurves>> cache;
     thread_local FullPowerCurves* last = nullptr;
+    if (held_samples > kMaxCachedSamples) {   // (no reference from an earlier call is in use)
+        cache.clear();
+        last = nullptr;
+        held_samples = 0;
+    }
     if (last && same_motion(last->type(), type)) return *last;
     for (auto& c : cache)
         if (same_motion(c->type(), type)) return *(last = c.get());
-    std::size_t held = 0;
-    for (const auto& c : cache) held += c->samples();
-    if (held > kMaxCachedSamples) cache.clear();
     cache.push_back(std::make_unique<FullPowerCurves>(type));
     return *(last = cache.back().get());
 }

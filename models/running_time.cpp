@@ -168,6 +168,31 @@ void static_limits(const TrainType& type, const TrainPath& path, const Grid& gri
     out[grid.cells] = prev_window;
 }
 
+// Per cell (into `out`, size cells): 1 where the stretch of the path's gradient profile holding
+// the cell's middle at one value is at least LegGrid::kCurveStretch long.  A property of the
+// place alone, so that a cell's map is the same on any grid over it.  Without a profile: 0.
+void long_gradient_stretches(const TrainPath& path, const Grid& grid, std::vector<double>& out) {
+    const auto& s = path.gradient.s;
+    const auto& value = path.gradient.value;
+    std::size_t k = 0;            // the profile piece holding the cell's middle
+    std::size_t from = 0, to = 0;  // the pieces [from, to) of its stretch of one value
+    for (std::size_t i = 0; i < grid.cells; ++i) {
+        if (s.empty()) {
+            out[i] = 0.0;
+            continue;
+        }
+        const double mid = 0.5 * (grid.at(i) + grid.at(i + 1));
+        while (k + 1 < s.size() && s[k + 1] <= mid) ++k;
+        if (i == 0 || k >= to) {
+            for (from = k; from > 0 && value[from - 1] == value[k];) --from;
+            for (to = k + 1; to < s.size() && value[to] == value[k];) ++to;
+        }
+        const double start = from == 0 ? std::min(path.s_min, s.front()) : s[from];
+        const double end = to < s.size() ? s[to] : std::max(path.s_max, path.length);
+        out[i] = end - start >= LegGrid::kCurveStretch ? 1.0 : 0.0;
+    }
+}
+
 }  // namespace
 
 double braking_deceleration(const TrainType& type, double v, double gradient) {
@@ -279,6 +304,8 @@ LegGrid make_leg_grid(const TrainType& type, const TrainPath& path, double s_sta
     ProfileCursor slope(path, path.gradient, &TrainPath::gradient_at);
     for (std::size_t i = 0; i < g.cells; ++i) buffer[i] = slope.at(0.5 * (grid.at(i) + grid.at(i + 1)));
     g.gradient.assign(buffer, g.cells);
+    long_gradient_stretches(path, grid, buffer);
+    g.on_curve.assign(buffer, g.cells);
     return g;
 }
 
@@ -353,6 +380,11 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
     gradient_buffer.resize(cells);
     g.gradient.expand(k0, cells, gradient_buffer.data());
     const double* gradient = gradient_buffer.data();
+    // Where cells may be read off a full-power curve: the runs of g.on_curve, walked along.
+    const std::vector<std::uint32_t>& curve_first = g.on_curve.first;
+    std::size_t curve_run =
+        static_cast<std::size_t>(std::upper_bound(curve_first.begin(), curve_first.end(), k0) - curve_first.begin());
+    curve_run = curve_run == 0 ? 0 : curve_run - 1;
     double* const vp = v.data();
     double* const tp = tr.t.data();
 
@@ -460,6 +492,11 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
         const double ds = i == 0 ? first_length : i == last ? last_length : step;
         const double envelope = vp[i + 1];
         const double grade = gradient[i];
+        // Into the next run of on_curve: the memo below holds a cell of the other kind.
+        while (curve_run + 1 < curve_first.size() && curve_first[curve_run + 1] <= k0 + i) {
+            ++curve_run;
+            memo_v = -1.0;
+        }
         double v1, dt;
         if (envelope < v0 && bound.reaches(v0, grade, ds, envelope)) {
             v1 = envelope;   // braking: the envelope binds (see AccelBound)
@@ -473,7 +510,7 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
                 memo_g = grade;
                 memo_ds = ds;
                 memo_w = std::numeric_limits<double>::quiet_NaN();
-                if (ds == step) {
+                if (ds == step && curve_run < curve_first.size() && g.on_curve.value[curve_run] != 0.0) {
                     // Read off the full-power curve where it covers v0 (full cells only).
                     if (!(grade == curve_g)) {
                         curve = &curves.at(grade, step);

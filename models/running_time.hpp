@@ -80,6 +80,10 @@ struct LegGrid {
     std::size_t cells = 0;
     StepRuns limit;      // per point [m/s]
     StepRuns gradient;   // per cell (positive climbing)
+    // Per cell: 1 where its gradient holds for at least kCurveStretch along the path, so that
+    // reading accelerating cells off a full-power curve pays for sampling it; else 0.
+    StepRuns on_curve;
+    static constexpr double kCurveStretch = 500.0;   // [m]
     double at(std::size_t i) const { return i >= cells ? s_end : s0 + static_cast<double>(i) * step; }
 };
 

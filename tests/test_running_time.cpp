@@ -2,6 +2,7 @@
 // balancing speed.
 #include <catch2/catch.hpp>
 
+#include <algorithm>
 #include <cmath>
 #include <optional>
 #include <stdexcept>
@@ -36,6 +37,22 @@ struct TestLine {
         path.s_min = 0.0;
         path.s_max = length;
         path.pieces.push_back({&infra.tracks.front(), 0.0, length, 0.0, length});
+        // Gradient and speed profiles as a path built from a scenario carries them: a piece per
+        // stretch between any two band edges.
+        std::vector<double> breaks{0.0};
+        for (const auto* bands : {&infra.gradients, &infra.speed_limits})
+            for (const ChainageBand& b : *bands)
+                for (double x : {b.from, b.to})
+                    if (x > 0.0 && x < length) breaks.push_back(x);
+        std::sort(breaks.begin(), breaks.end());
+        breaks.erase(std::unique(breaks.begin(), breaks.end()), breaks.end());
+        for (std::size_t k = 0; k < breaks.size(); ++k) {
+            const double mid = 0.5 * (breaks[k] + (k + 1 < breaks.size() ? breaks[k + 1] : length));
+            path.gradient.s.push_back(breaks[k]);
+            path.gradient.value.push_back(infra.gradient_at(mid));
+            path.speed_limit.s.push_back(breaks[k]);
+            path.speed_limit.value.push_back(infra.line_speed_at(mid));
+        }
     }
     TestLine(const TestLine&) = delete;
     TestLine& operator=(const TestLine&) = delete;
@@ -406,4 +423,40 @@ TEST_CASE("A motion started on a leg's point at the leg's speed runs as the leg"
         for (std::size_t i = 0; i < again.v.size(); ++i) same = same && again.v[i] == leg.v[k + i];
         CHECK(same);
     }
+}
+
+TEST_CASE("Full-power curves are read only on long stretches of one gradient", "[running_time]") {
+    // Sampling a curve costs hundreds of cells' worth of integration; on a profile of short
+    // gradient stretches (survey data, say) it would never pay back.  The rule is a property of
+    // the place, the same on any grid over it, so that a cell's map does not depend on where
+    // its leg began.
+    TestLine line(6000.0, {{0.0, 6000.0, 120 * kmh}, {1000.0, 1400.0, 80 * kmh}},
+                  {{0.0, 300.0, 0.004},          // 300 m: short
+                   {300.0, 2000.0, 0.0},         // 1700 m, split by the speed limit's breaks: long
+                   {2000.0, 2200.0, 0.010},      // 200 m: short
+                   {2200.0, 2500.0, 0.010},      // ... and 300 m more at the same value: 500 m, long
+                   {2500.0, 6000.0, -0.002}});   // long
+    TrainType type = level_train(300e3);
+    type.power = 3e6;
+    auto flag_at = [](const LegGrid& g, double s) {
+        std::vector<double> v(1);
+        g.on_curve.expand(static_cast<std::size_t>((s - g.s0) / g.step), 1, v.data());
+        return v[0];
+    };
+    const LegGrid whole = make_leg_grid(type, line.path, 0.0, 6000.0);
+    CHECK(flag_at(whole, 100.0) == 0.0);
+    CHECK(flag_at(whole, 1200.0) == 1.0);
+    CHECK(flag_at(whole, 2100.0) == 1.0);
+    CHECK(flag_at(whole, 2400.0) == 1.0);
+    CHECK(flag_at(whole, 5000.0) == 1.0);
+    // A grid starting inside the long stretch (a leg from a station there) sees the same.
+    const LegGrid part = make_leg_grid(type, line.path, 1800.0, 6000.0);
+    for (double s : {1900.0, 2100.0, 2400.0, 5000.0}) CHECK(flag_at(part, s) == flag_at(whole, s));
+    TestLine bumpy(3000.0, {{0.0, 3000.0, 120 * kmh}},
+                   {{0.0, 400.0, 0.0}, {400.0, 800.0, 0.006}, {800.0, 1200.0, 0.0}, {1200.0, 3000.0, 0.003}});
+    const LegGrid b = make_leg_grid(type, bumpy.path, 0.0, 3000.0);
+    CHECK(flag_at(b, 200.0) == 0.0);
+    CHECK(flag_at(b, 600.0) == 0.0);
+    CHECK(flag_at(b, 1000.0) == 0.0);
+    CHECK(flag_at(b, 2000.0) == 1.0);
 }
