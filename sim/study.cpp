@@ -1,6 +1,9 @@
 #include "sim/study.hpp"
 
 #include <algorithm>
+#include <atomic>
+#include <condition_variable>
+#include <functional>
 #include <map>
 #include <mutex>
 #include <stdexcept>
@@ -8,6 +11,66 @@
 #include <thread>
 
 namespace knockon {
+
+namespace {
+
+// Threads that run the same piece of work once per batch, together with the calling thread,
+// and wait in between.  Joined when it goes out of scope, also when a batch throws.
+class WorkerPool {
+public:
+    WorkerPool(unsigned workers, std::function<void()> work) : work_(std::move(work)) {
+        for (unsigned i = 0; i < workers; ++i) threads_.emplace_back([this] { loop(); });
+    }
+    WorkerPool(const WorkerPool&) = delete;
+    WorkerPool& operator=(const WorkerPool&) = delete;
+    ~WorkerPool() {
+        {
+            std::lock_guard<std::mutex> lock(mutex_);
+            quit_ = true;
+        }
+        start_.notify_all();
+        for (std::thread& t : threads_) t.join();
+    }
+
+    // Runs the work on every worker and on this thread; returns when all are done.
+    void run_batch() {
+        {
+            std::lock_guard<std::mutex> lock(mutex_);
+            busy_ = threads_.size();
+            ++batch_;
+        }
+        start_.notify_all();
+        work_();
+        std::unique_lock<std::mutex> lock(mutex_);
+        done_.wait(lock, [this] { return busy_ == 0; });
+    }
+
+private:
+    void loop() {
+        std::uint64_t seen = 0;
+        while (true) {
+            {
+                std::unique_lock<std::mutex> lock(mutex_);
+                start_.wait(lock, [&] { return quit_ || batch_ != seen; });
+                if (quit_) return;
+                seen = batch_;
+            }
+            work_();   // (the work catches what the replications throw)
+            std::lock_guard<std::mutex> lock(mutex_);
+            if (--busy_ == 0) done_.notify_one();
+        }
+    }
+
+    std::function<void()> work_;
+    std::vector<std::thread> threads_;
+    std::mutex mutex_;
+    std::condition_variable start_, done_;
+    std::uint64_t batch_ = 0;
+    std::size_t busy_ = 0;
+    bool quit_ = false;
+};
+
+}  // namespace
 
 StudyResult run_study(const SimModel& model, const StudyOptions& options) {
     if (!options.draw) throw std::invalid_argument("run_study: no primary-delay draw given");
@@ -38,29 +101,32 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
         }
     };
 
-    std::uint32_t started = 0;
+    // The batch being run: replications [started, end) into slots, handed out one at a time.
+    std::uint32_t started = 0, end = 0;
+    std::vector<ReplicationFigures> slots;
+    std::atomic<std::uint32_t> next{0};
+    std::exception_ptr failure;
+    std::mutex failure_mutex;
+    auto work = [&] {
+        for (std::uint32_t k; (k = next.fetch_add(1)) < end;) {
+            try {
+                run_one(k, slots[k - started]);
+            } catch (...) {
+                std::lock_guard<std::mutex> lock(failure_mutex);
+                if (!failure) failure = std::current_exception();
+            }
+        }
+    };
+    // The other threads live for the whole study, not a batch: what each keeps per thread (its
+    // full-power curves, its buffers) is built once, not once per batch.
+    WorkerPool pool(threads - 1, work);
     while (started < cap) {
         // One batch: a fixed number of replications whatever the thread count, so that stopping
         // decisions (until_ci, Ctrl-C) fall on the same replication for any --threads.
-        const std::uint32_t end = std::min(cap, started + batch);
-        std::vector<ReplicationFigures> slots(end - started);
-        std::atomic<std::uint32_t> next{started};
-        std::exception_ptr failure;
-        std::mutex failure_mutex;
-        auto worker = [&] {
-            for (std::uint32_t k; (k = next.fetch_add(1)) < end;) {
-                try {
-                    run_one(k, slots[k - started]);
-                } catch (...) {
-                    std::lock_guard<std::mutex> lock(failure_mutex);
-                    if (!failure) failure = std::current_exception();
-                }
-            }
-        };
-        std::vector<std::thread> pool;
-        for (unsigned i = 1; i < threads; ++i) pool.emplace_back(worker);
-        worker();
-        for (std::thread& th : pool) th.join();
+        end = std::min(cap, started + batch);
+        slots.assign(end - started, ReplicationFigures{});
+        next = started;
+        pool.run_batch();   // the pool and this thread work through the batch together
         if (failure) std::rethrow_exception(failure);
         // Fold the batch in on this thread, in replication order: the running sums then add up in
         // the same order whatever the thread count.  The day's detail goes with its slot.
