@@ -106,7 +106,6 @@ double FullPowerCurve::search(double v0, std::size_t band, Cursor& cursor) {
     if (!(u0 >= br.u.front())) return kNaN;
     const std::size_t before = br.u.size();
     while (!covers(br, u0) && !br.complete) extend(br);
-    samples_ += br.u.size() - before;
     held_samples += br.u.size() - before;
     return covers(br, u0) ? read_at(br, u0) : kNaN;
 }
@@ -115,12 +114,6 @@ FullPowerCurve& FullPowerCurves::at(double gradient, double ds) {
     for (FullPowerCurve& c : curves_)
         if (c.gradient() == gradient && c.cell() == ds) return c;
     return curves_.emplace_back(motion_, gradient, ds);
-}
-
-std::size_t FullPowerCurves::samples() const {
-    std::size_t n = 0;
-    for (const FullPowerCurve& c : curves_) n += c.samples();
-    return n;
 }
 
 FullPowerCurves& full_power_curves(const TrainType& type) {

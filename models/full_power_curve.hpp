@@ -16,7 +16,8 @@
 //
 // The curve is kept in bands of speed, each integrated from the band's own edge and only as far
 // as cells need it: the work and memory follow the speeds trains actually run at on that
-// gradient, however many gradients a line has.
+// gradient.  The integration reads curves only on long stretches of one gradient
+// (LegGrid::on_curve), where they pay for their sampling.
 #include <cstddef>
 #include <deque>
 #include <vector>
@@ -26,6 +27,8 @@
 namespace knockon {
 
 class FullPowerCurve {
+    struct Branch;   // (below)
+
 public:
     // Samples per cell: the curve's step is ds / kSamplesPerCell.
     static constexpr std::size_t kSamplesPerCell = 4;
@@ -40,7 +43,7 @@ public:
     struct Cursor {
         const FullPowerCurve* curve = nullptr;
         std::size_t band = 0;
-        const void* branch = nullptr;
+        const Branch* branch = nullptr;
         std::size_t j = 0;
     };
 
@@ -54,7 +57,6 @@ public:
 
     double gradient() const { return gradient_; }
     double cell() const { return ds_; }
-    std::size_t samples() const { return samples_; }
 
 private:
     // Samples of one stretch of the curve, ascending in u: u = v^2 rising from the band's lower
@@ -88,14 +90,13 @@ private:
     const Motion& motion_;
     double gradient_, ds_;
     std::vector<Band> bands_;
-    std::size_t samples_ = 0;
 };
 
 inline double FullPowerCurve::step_w(double v0, Cursor& cursor) {
     // The cell after the last one read: same band and stretch, the next bracket (or the one after,
     // where rounding the end speed to v and squaring it again lands just beyond).
     if (cursor.curve == this && v0 >= kFromSpeed && static_cast<std::size_t>(v0 * (1.0 / kBand)) == cursor.band) {
-        const Branch& b = *static_cast<const Branch*>(cursor.branch);
+        const Branch& b = *cursor.branch;
         const double u0 = b.sign * (v0 * v0);
         for (std::size_t j = cursor.j; j <= cursor.j + 1; ++j)
             if (b.holds(j, u0)) {
@@ -114,7 +115,6 @@ public:
     FullPowerCurves& operator=(const FullPowerCurves&) = delete;
     const TrainType& type() const { return type_; }
     FullPowerCurve& at(double gradient, double ds);
-    std::size_t samples() const;
 
 private:
     TrainType type_;   // a copy: the key, and what motion_ reads
