@@ -64,8 +64,6 @@ void FullPowerCurve::extend(Branch& b) const {
     }
     b.slope.resize(b.u.size() - 1);
     for (std::size_t j = from == 0 ? 0 : from - 1; j + 1 < b.u.size(); ++j) b.slope[j] = 1.0 / (b.u[j + 1] - b.u[j]);
-    b.usable = b.u.size() >= kSamplesPerCell + 2;
-    b.last = b.usable ? b.u.size() - kSamplesPerCell - 2 : 0;
 }
 
 double FullPowerCurve::search(double v0, std::size_t band, Cursor& cursor) {
@@ -77,15 +75,12 @@ double FullPowerCurve::search(double v0, std::size_t band, Cursor& cursor) {
         start(b.rising, lo, hi, 1.0);
         start(b.falling, hi, lo, -1.0);
     }
-    auto covers = [](const Branch& br, double u0) {
-        return br.usable && u0 >= br.u.front() && u0 < br.u[br.last + 1];
-    };
     auto read_at = [&](Branch& br, double u0) {
         // Usually a cell just crossed into the band, near the stretch's start.
         std::size_t j = 0;
-        while (j <= br.last && j < 8 && !(u0 < br.u[j + 1])) ++j;
+        while (j + 1 < br.brackets() && j < 8 && !(u0 < br.u[j + 1])) ++j;
         if (!br.holds(j, u0)) {
-            const auto end = br.u.begin() + static_cast<std::ptrdiff_t>(br.last + 2);
+            const auto end = br.u.begin() + static_cast<std::ptrdiff_t>(br.brackets() + 1);
             j = static_cast<std::size_t>(std::upper_bound(br.u.begin(), end, u0) - br.u.begin()) - 1;
         }
         cursor = {this, band, &br, j + kSamplesPerCell};
@@ -97,17 +92,17 @@ double FullPowerCurve::search(double v0, std::size_t band, Cursor& cursor) {
     // it can climb it); between them lies the balancing speed, if anywhere, and no speed lies on
     // both.  A stretch sampled far enough already is the one; else the sign of the acceleration
     // says which to sample further.
-    if (covers(b.rising, w0)) return read_at(b.rising, w0);
-    if (covers(b.falling, -w0)) return read_at(b.falling, -w0);
+    if (b.rising.covers(w0)) return read_at(b.rising, w0);
+    if (b.falling.covers(-w0)) return read_at(b.falling, -w0);
     const double a = motion_.accel(v0, gradient_);
     if (!(a != 0.0)) return kNaN;
     Branch& br = a > 0.0 ? b.rising : b.falling;
     const double u0 = br.sign * w0;
     if (!(u0 >= br.u.front())) return kNaN;
     const std::size_t before = br.u.size();
-    while (!covers(br, u0) && !br.complete) extend(br);
+    while (!br.covers(u0) && !br.complete) extend(br);
     held_samples += br.u.size() - before;
-    return covers(br, u0) ? read_at(br, u0) : kNaN;
+    return br.covers(u0) ? read_at(br, u0) : kNaN;
 }
 
 FullPowerCurve& FullPowerCurves::at(double gradient, double ds) {

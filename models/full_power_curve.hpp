@@ -66,13 +66,15 @@ private:
         double sign = 1.0;           // u = sign * v^2
         std::vector<double> u;       // at each sample
         std::vector<double> slope;   // 1 / (u[j+1] - u[j])
-        bool usable = false;         // enough samples for one bracket
-        std::size_t last = 0;        // the last usable bracket (one cell on and the next sample exist)
         // Where sampling goes on: v^2 at the last sample, the band's far edge, samples beyond it.
         double w = 0.0, w_to = 0.0;
         std::size_t beyond = 0;
         bool complete = true;        // nothing more to sample (also: never started)
-        bool holds(std::size_t j, double u0) const { return usable && j <= last && u[j] <= u0 && u0 < u[j + 1]; }
+        // Brackets [u[j], u[j+1]) a cell can start in: those with the sample one cell on and the
+        // next one sampled.
+        std::size_t brackets() const { return u.size() > kSamplesPerCell + 1 ? u.size() - kSamplesPerCell - 1 : 0; }
+        bool holds(std::size_t j, double u0) const { return j < brackets() && u[j] <= u0 && u0 < u[j + 1]; }
+        bool covers(double u0) const { return brackets() > 0 && u0 >= u.front() && u0 < u[brackets()]; }
         double read(std::size_t j, double u0) const {   // u one cell on from u0 in bracket j
             constexpr std::size_t k = kSamplesPerCell;
             const double f = (u0 - u[j]) * slope[j];

@@ -8,7 +8,8 @@
 namespace knockon {
 
 // Net acceleration at speed v on gradient i (positive climbing): (F - R - m g i) / (rho m).
-// Infinite only at standstill for an uncapped power curve.
+// Infinite only at standstill for an uncapped power curve.  What it reads of the train type is
+// listed again in full_power_curve.cpp (same_motion), the key of the curves: keep the two alike.
 struct Motion {
     const TrainType& type;
     double inv_effective_mass;  // 1 / (rho m)

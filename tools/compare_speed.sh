@@ -16,7 +16,11 @@ scenario=$(realpath "$(dirname "$0")/../scenarios/demo.yaml")
 scratch=$(mktemp -d)
 trap 'rm -rf "$scratch"' EXIT
 rate() {   # rate CORE BINARY: block passages per CPU-second of a single-thread study
-  taskset -c "$1" "$2" "$scenario" --replications 150 --threads 1 | awk '/^1 thread /{print $7}'
+  # One round (builds from before --rounds refuse the option: run those without it).
+  local out
+  out=$(taskset -c "$1" "$2" "$scenario" --replications 150 --threads 1 --rounds 1 2>/dev/null) ||
+    out=$(taskset -c "$1" "$2" "$scenario" --replications 150 --threads 1)
+  awk '/^1 thread /{print $7; exit}' <<< "$out"
 }
 ratios=()
 for _ in $(seq "$rounds"); do

@@ -101,18 +101,19 @@ int main(int argc, char** argv) {
                         label, m.replications / m.wall, train_km * m.replications / m.cpu, m.passages / m.cpu,
                         m.events / m.wall, m.wall, m.cpu);
         };
+        // Single thread: on each of the first `threads` allowed cores in turn, or once unpinned
+        // (also for the rounds after one where pinning failed).
+        cpu_set_t allowed;
+        CPU_ZERO(&allowed);
+        std::vector<int> cores;
+        if (threads > 1 && sched_getaffinity(0, sizeof allowed, &allowed) == 0)
+            for (int c = 0; c < CPU_SETSIZE && cores.size() < threads; ++c)
+                if (CPU_ISSET(c, &allowed)) cores.push_back(c);
+        if (cores.size() < 2) cores.clear();
         // Per round: block passages per CPU-second on 1 and on T threads, and the speed-up.
         std::vector<double> one_rate, many_rate, speed_up;
         for (int round = 1; round <= rounds; ++round) {
             if (rounds > 1) std::printf("round %d of %d\n", round, rounds);
-            // Single thread: on each of the first `threads` allowed cores in turn, or once unpinned.
-            cpu_set_t allowed;
-            CPU_ZERO(&allowed);
-            std::vector<int> cores;
-            if (threads > 1 && sched_getaffinity(0, sizeof allowed, &allowed) == 0)
-                for (int c = 0; c < CPU_SETSIZE && cores.size() < threads; ++c)
-                    if (CPU_ISSET(c, &allowed)) cores.push_back(c);
-            if (cores.size() < 2) cores.clear();
             Measure one;
             bool pinned = !cores.empty();
             for (int c : cores) {
