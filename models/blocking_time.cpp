@@ -6,37 +6,92 @@
 namespace knockon {
 namespace {
 
-// Where the driver must first see the route ahead of signal i clear.
-double warning_point(const ServiceRun& run, std::size_t i) {
+// The braking point of the planned motion for a stop at `target`: the last grid point of the
+// leg that reaches `target` from which the train, running as planned, can still stop there on
+// the braking curve the running-time integration uses (per cell gradient).  This is where the
+// simulated train leaves its planned motion when its authority ends at `target`, so the driver
+// must know the route beyond it before: by the brake build-up time earlier (REFERENCES.md D11:
+// reaction distance v t plus braking distance), which keeps rounding on the safe side too.
+// When the train could not even start from the leg's start (a stop) on such an authority, just
+// before that stop (the departure needs the route); entering over the line end, the stopping
+// distance from the entry speed in rear of the target, beyond the line end.
+double braking_start(const ServiceRun& run, double target) {
+    const RunLeg* leg = nullptr;
+    for (const RunLeg& l : run.legs)
+        if (l.trajectory.s0 < target - 1e-6 && target <= l.trajectory.s_end + 1e-6) leg = &l;
+    if (!leg) return target - stopping_distance(*run.type, run.speed_at(target), run.path.gradient_at(target));
+    const Trajectory& tr = leg->trajectory;
+    const std::size_t points = tr.v.size();
+    // The last point at or before the target.
+    std::size_t j = 0;
+    while (j + 1 < points && tr.point(j + 1) <= target + 1e-9) ++j;
+    std::vector<double> gradient(leg->grid.cells);
+    leg->grid.gradient.expand(0, leg->grid.cells, gradient.data());
+    // v^2 of the braking curve to the target, back from point j.
+    std::vector<double> envelope(j + 1);
+    double w = 0.0, next = target;
+    for (std::size_t p = j + 1; p-- > 0;) {
+        const double ds = next - tr.point(p);
+        const double g = p < gradient.size() ? gradient[p] : run.path.gradient_at(tr.point(p));
+        w += 2.0 * braking_deceleration(*run.type, std::sqrt(w), g) * ds;
+        envelope[p] = w;
+        next = tr.point(p);
+    }
+    for (std::size_t p = 0; p <= j; ++p) {
+        if (!(tr.v[p] * tr.v[p] > envelope[p])) continue;
+        if (p == 0) {
+            if (leg == &run.legs.front() && run.path.starts_at_edge)
+                return target - stopping_distance(*run.type, tr.v[0], run.path.gradient_at(target));
+            return tr.s0 - 1e-3;
+        }
+        return tr.point(p - 1) - tr.v[p - 1] * run.type->brake_delay;
+    }
+    return target;   // the plan stops there anyway
+}
+
+// Where the driver must first see the route ahead of signal i clear, by the aspect system: the
+// signal in rear (three aspects), one or two signals back as the braking distance needs (four
+// aspects), the distant signal (two aspects), or the braking point (cab signalling, and the
+// first routes of a path, which no signal in rear shows).
+double system_warning_point(const ServiceRun& run, std::size_t i) {
     const TrainPath& path = run.path;
     const PathSignal& sig = path.signals[i];
-    const double g = path.gradient_at(sig.s);
-    auto braking_from = [&](double s) { return stopping_distance(*run.type, run.speed_at(s), g); };
+    const double brake = braking_start(run, sig.s);
     switch (sig.system) {
         case AspectSystem::two_aspect:
-            return sig.s - sig.signal->distant_distance.value_or(braking_from(sig.s));
+            return sig.signal->distant_distance ? sig.s - *sig.signal->distant_distance : brake;
         case AspectSystem::three_aspect:
-            if (i >= 1) return path.signals[i - 1].s;
-            return sig.s - braking_from(sig.s);
+            return i >= 1 ? path.signals[i - 1].s : brake;
         case AspectSystem::four_aspect:
-            // One block back when it holds the braking distance, else two (the most a
-            // preliminary caution can give); before the first signals of the path, the braking
-            // distance itself.
-            if (i >= 1 && sig.s - path.signals[i - 1].s >= braking_from(path.signals[i - 1].s))
-                return path.signals[i - 1].s;
+            if (i >= 1 && brake >= path.signals[i - 1].s) return path.signals[i - 1].s;
             if (i >= 2) return path.signals[i - 2].s;
-            return std::min(i >= 1 ? path.signals[i - 1].s : sig.s, sig.s - braking_from(sig.s));
-        case AspectSystem::cab_fixed_block: {
-            // The braking-curve point: solve w = s_i - D(v(w)) by a few fixed-point steps.
-            double w = sig.s - braking_from(sig.s);
-            for (int k = 0; k < 4; ++k) w = sig.s - braking_from(std::max(w, path.s_min));
-            return w;
-        }
+            return std::min(i >= 1 ? path.signals[i - 1].s : sig.s, brake);
+        case AspectSystem::cab_fixed_block: return brake;
     }
     return sig.s;
 }
 
-// The last planned stop in [from, to) (index into run.calls), or -1.
+// Where the driver must first see the route ahead of signal i clear.  Where no signal on the
+// path shows that route (the first routes of a path), the warning is the braking distance in rear
+// of the signal; on a path entering over the line end, when the driver cannot read the signal
+// itself from there, the signals beyond the line end (outside the model) must give it: the
+// warning point is then the line end, and the train is let in only once it knows the route.
+double warning_point(const ServiceRun& run, std::size_t i) {
+    const TrainPath& path = run.path;
+    double w = system_warning_point(run, i);
+    const bool shown_in_rear = (path.signals[i].system == AspectSystem::three_aspect && i >= 1) ||
+                               (path.signals[i].system == AspectSystem::four_aspect && i >= 2) ||
+                               path.signals[i].system == AspectSystem::two_aspect ||
+                               path.signals[i].system == AspectSystem::cab_fixed_block;
+    if (!shown_in_rear && path.starts_at_edge && w > 0.0) {
+        double read = INFINITY;   // the earliest read point of a signal on the path that shows it
+        for (std::size_t j = 0; j <= i; ++j) read = std::min(read, aspect_read_point(path.signals[j]));
+        if (read > w) w = 0.0;
+    }
+    return w;
+}
+
+// The last planned stop in (from, to] (index into run.calls), or -1.
 long stop_in(const ServiceRun& run, double from, double to) {
     long found = -1;
     for (std::size_t k = 0; k < run.calls.size(); ++k) {
@@ -48,6 +103,15 @@ long stop_in(const ServiceRun& run, double from, double to) {
 }
 
 }  // namespace
+
+double aspect_read_point(const PathSignal& sig) {
+    switch (sig.system) {
+        case AspectSystem::cab_fixed_block: return -INFINITY;
+        case AspectSystem::two_aspect:
+            return sig.s - sig.signal->distant_distance.value_or(0.0) - sig.signal->sighting_distance;
+        default: return sig.s - sig.signal->sighting_distance;
+    }
+}
 
 std::vector<WarningShortfall> warning_shortfalls(const ServiceRun& run) {
     std::vector<WarningShortfall> out;

@@ -49,6 +49,10 @@ struct Stairway {
 
 Stairway blocking_stairway(const ServiceRun& run, const InterlockingTimes& times);
 
+// Where the driver can first read a lineside signal's aspect: its sighting distance in rear (of
+// its distant signal, under two aspects); -infinity under cab signalling (always known).
+double aspect_read_point(const PathSignal& sig);
+
 // A signal whose first warning comes too late for the train (REFERENCES.md B6): the distance
 // its aspect system gives the driver to stop (three aspects: the block before the signal; four:
 // the two blocks before it; two: the distant signal's distance) is shorter than the train's

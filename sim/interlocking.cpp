@@ -27,11 +27,6 @@ std::uint32_t Interlocking::blocker(std::uint32_t train, std::uint32_t section) 
     return kNoTrain;
 }
 
-bool Interlocking::can_take(std::uint32_t train, const std::vector<std::uint32_t>& sections) const {
-    return std::all_of(sections.begin(), sections.end(),
-                       [&](std::uint32_t s) { return blocker(train, s) == kNoTrain; });
-}
-
 void Interlocking::take(std::uint32_t train, const std::vector<std::uint32_t>& sections) {
     for (std::uint32_t s : sections) holder_[s] = train;
 }

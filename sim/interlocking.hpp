@@ -27,7 +27,6 @@ public:
     // Why `train` may not take `section` now: the holding train, its predecessor in planned
     // order that has not released yet, or kNoTrain when it may.
     std::uint32_t blocker(std::uint32_t train, std::uint32_t section) const;
-    bool can_take(std::uint32_t train, const std::vector<std::uint32_t>& sections) const;
     void take(std::uint32_t train, const std::vector<std::uint32_t>& sections);
     // The train gives the section up.  Its place in the planned order is used up.
     void release(std::uint32_t train, std::uint32_t section);

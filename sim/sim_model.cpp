@@ -21,15 +21,6 @@ int aspect_cap(AspectSystem a) {
     return 2;
 }
 
-double read_point(const PathSignal& sig) {
-    switch (sig.system) {
-        case AspectSystem::cab_fixed_block: return -kInf;
-        case AspectSystem::two_aspect:
-            return sig.s - sig.signal->distant_distance.value_or(0.0) - sig.signal->sighting_distance;
-        default: return sig.s - sig.signal->sighting_distance;
-    }
-}
-
 Place place_on(const ServiceRun& run, double s, bool skip = false) {
     for (std::size_t k = 0; k < run.legs.size(); ++k) {
         const Trajectory& lt = run.legs[k].trajectory;
@@ -73,8 +64,12 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
         tr.plan = &tp;
         for (const PathSection& sec : path.sections) tr.section_index.push_back(section_of(sec.id));
         const double length = tp.run.type->length;
+        // Sections it appears on: where it stands at its origin, or, entering over the line end,
+        // those before the first signal (no route of its own protects them).
+        const double first_signal = tp.stairway.routes.empty() ? path.length : tp.stairway.routes.front().s_entry;
         for (std::size_t k = 0; k < path.sections.size(); ++k)
-            if (path.sections[k].s_from < kEps && path.sections[k].s_to > -length + kEps) {
+            if (path.starts_at_edge ? path.sections[k].s_from < first_signal - kEps
+                                    : path.sections[k].s_from < kEps && path.sections[k].s_to > -length + kEps) {
                 tr.origin_sections.push_back(tr.section_index[k]);
                 tr.origin_path_sections.push_back(static_cast<std::uint32_t>(k));
             }
@@ -90,9 +85,17 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
             r.s_entry = rb.s_entry;
             r.authority_end = rb.exit_signal.empty() && path.ends_at_edge ? kInf : rb.s_exit;
             r.warning_point = rb.warning_point;
-            r.read_point = read_point(ps);
+            r.read_point = aspect_read_point(ps);
             r.aspect_cap = aspect_cap(ps.system);
             r.after_stop = rb.departure_call;
+            if (r.after_stop < 0)
+                for (std::size_t k = 0; k < tp.run.calls.size(); ++k) {
+                    const PlannedCall& c = tp.run.calls[k];
+                    if (c.stops && !std::isnan(c.planned_departure) && c.s < rb.warning_point - kEps) {
+                        r.stop_before_warning = static_cast<long>(k);
+                        r.warning_after_departure = tp.run.head_reach(rb.warning_point) - c.planned_departure;
+                    }
+                }
             for (std::size_t k = 0; k < path.sections.size(); ++k) {
                 const PathSection& sec = path.sections[k];
                 if (std::min(rb.s_exit + rb.overlap, sec.s_to) - std::max(rb.s_entry, sec.s_from) > kEps)

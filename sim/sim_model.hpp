@@ -38,7 +38,17 @@ public:
         double warning_point = 0.0;
         double read_point = 0.0;       // from here the driver can read the entry signal's aspect
         int aspect_cap = 2;
+        // The one rule the plan's blocking times also follow (models/blocking_time): a route is
+        // wanted when the driver must know its aspect, at the warning point or, where a planned
+        // stop lies between the warning point (or the signal in rear) and the signal, at the
+        // departure from that stop (after_stop).  Such a stop's departure waits for the route,
+        // and the driver standing there knows its aspect (in sight, or told by a repeater).
         long after_stop = -1;          // timing point of a planned stop before the signal, else -1
+        // Otherwise, where the train stops before the warning point: that stop (the last one
+        // with a departure, else -1) and the planned time from its departure to the warning
+        // point, to forecast the request from the train's own departure.
+        long stop_before_warning = -1;
+        double warning_after_departure = 0.0;
         std::vector<std::uint32_t> sections;   // global section indices, body and overlap
         std::vector<std::uint32_t> path_sections;   // the same sections as indices into the path
     };
@@ -46,7 +56,8 @@ public:
         const TrainPlan* plan = nullptr;
         std::vector<Route> routes;
         std::vector<std::uint32_t> section_index;   // per path section: global index
-        // Sections an originating train stands on when it appears: global and path indices.
+        // Sections a train needs free to appear: where an originating train stands, or those up
+        // to the first signal for a train entering over the line end.  Global and path indices.
         std::vector<std::uint32_t> origin_sections, origin_path_sections;
         // Per planned leg and grid point j: the largest s_i + D(v_i) over i <= j, where D is a
         // braking distance on the safe side.  A train following the leg as planned with its

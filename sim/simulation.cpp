@@ -119,7 +119,8 @@ private:
         std::size_t next_sight = 0, next_pass = 0, next_request = 0, next_call = 0;
         std::vector<double> route_set;        // when each route is set for it (NaN: not granted yet)
         std::vector<long> route_record;       // per route: index into result.routes
-        bool appear_due = false;              // its appearance time has come
+        bool appear_granted = false;          // its appearance time has come and the sections it
+                                              // appears on are its own
         double last_departure = kNoTime;      // from the previous timing point (or entry)
         double appeared = kNoTime;
         std::vector<long> section_record;     // per path section: index into result.sections
@@ -215,18 +216,37 @@ private:
         return {s.own.s0, s.own.s_end, s.own.duration(), s.own.v.back()};
     }
     bool start_leg(std::uint32_t t, double s_now);
-    // A train at a stop leaves only on a proceed aspect: a lineside signal ahead that is in sight
-    // from where it stands (the starter, even some way beyond the stopping mark) must show
-    // proceed; otherwise, and under cab signalling, its authority must reach beyond the stop.
+    // A train at a stop leaves once the driver knows that every route its departure needs (the
+    // routes the plan blocks from this departure, SimModel::Route::after_stop) is set: the
+    // starter shows proceed, whether in sight of the stopping mark or repeated there.  Where no
+    // route is needed for the departure, its authority must reach beyond the stop.
     bool may_depart(std::uint32_t t) const {
         const TrainState& s = st_[t];
-        double beyond = s.s_stand;
-        for (const SimModel::Route& r : train(t).routes)
-            if (r.s_entry >= s.s_stand - kPositionTolerance) {
-                if (!std::isinf(r.read_point) && s.s_stand >= r.read_point - kPositionTolerance) beyond = r.s_entry;
-                break;
+        const auto& routes = train(t).routes;
+        bool needs_route = false;
+        for (std::size_t j = s.next_pass; j < routes.size(); ++j) {
+            if (routes[j].after_stop != s.stop_call) {
+                if (needs_route) break;
+                continue;
             }
-        return s.eoa > beyond + kEps;
+            needs_route = true;
+            if (!route_known(t, j)) return false;
+        }
+        return needs_route || s.eoa > s.s_stand + kEps;
+    }
+    // The route is set and the driver has had the reaction time since.
+    bool route_known(std::uint32_t t, std::size_t j) const {
+        const double set = st_[t].route_set[j];
+        return !std::isnan(set) && set + times_.sight_reaction <= now_ + kEps;
+    }
+    // The driver can read the aspect of route j's entry signal: from its read point (always under
+    // cab signalling) until the head passes it, and while standing at a stop whose departure
+    // needs the route.
+    bool signal_in_view(std::uint32_t t, std::size_t j) const {
+        const TrainState& s = st_[t];
+        const SimModel::Train& tr = train(t);
+        return j < s.next_sight || tr.sightings[j].skip ||
+               (s.phase == Phase::standing && s.stop_call >= 0 && tr.routes[j].after_stop == s.stop_call);
     }
     double brake_point(std::uint32_t t, std::size_t k, double eoa) const { return train(t).brake_point(k, eoa).s; }
     // Where the next slow running begins with the head beyond s (infinity: none).
@@ -283,6 +303,11 @@ private:
     void take_sections(std::uint32_t t, const std::vector<std::uint32_t>& globals,
                        const std::vector<std::uint32_t>& path_sections);
     void grant_pending();
+    const std::vector<std::uint32_t>& sections_of(const Pending& p) const;
+    // Train a's pending requests wait, directly or through other waiting trains, for train b.
+    bool waits_on(std::uint32_t a, std::uint32_t b, std::vector<std::uint8_t>& seen) const;
+    // The interlocking may give train t these sections now (see grant_pending).
+    bool may_take(std::uint32_t t, const std::vector<std::uint32_t>& sections) const;
     void try_appear(std::uint32_t t);
     void begin_standing(std::uint32_t t);
     void end_hold(std::uint32_t t);
@@ -446,17 +471,35 @@ double Day::next_stop_s(std::uint32_t t, double from) const {
 double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
     const SimModel::Route& r = train(t).routes[i];
     const TrainState& s = st_[t];
-    const double lead = times_.sight_reaction + times_.route_setup;
+    // The route must be known by `when`: asked for setting plus reaction time earlier, counted
+    // from `when`'s own tick, so that the driver learns it on the very tick the head reaches the
+    // place timed by the same sum (a signal passed then is still read).
+    auto ask_for = [&](double when) {
+        return SimTime::from_seconds(when).to_seconds() - (times_.sight_reaction + times_.route_setup);
+    };
     if (r.after_stop >= 0) {
         const PlannedCall& c = run_of(t).calls[r.after_stop];
-        if (s.phase == Phase::standing && s.stop_call == r.after_stop) return s.ready_time - lead;
+        if (s.phase == Phase::standing && s.stop_call == r.after_stop) return ask_for(s.ready_time);
         if (s.phase == Phase::moving && std::fabs(ends(t).s_end - c.s) < kEps && !s.free_end) {
             // Heading for that stop: ready when both the schedule and the dwell allow.
             const double arrival = s.t0 + ends(t).duration;
-            return std::max(c.scheduled_departure, arrival + dwell_at(t, r.after_stop)) - lead;
+            return ask_for(std::max(c.scheduled_departure, arrival + dwell_at(t, r.after_stop)));
         }
         if (s.next_call > static_cast<std::size_t>(r.after_stop)) return now_;  // already left it
         return kNoTime;
+    }
+    if (r.stop_before_warning >= 0 && s.next_call <= static_cast<std::size_t>(r.stop_before_warning) + 1) {
+        // The warning point lies beyond a stop the train stands at or heads for: forecast from its
+        // departure there, as the plan times it from the planned departure.
+        const long k = r.stop_before_warning;
+        const PlannedCall& c = run_of(t).calls[k];
+        if (s.phase == Phase::standing && s.stop_call == k && !std::isnan(s.ready_time))
+            return ask_for(s.ready_time + r.warning_after_departure);
+        if (s.phase == Phase::moving && !s.free_end && std::fabs(ends(t).s_end - c.s) < kEps &&
+            s.next_call == static_cast<std::size_t>(k)) {
+            const double arrival = s.t0 + ends(t).duration;
+            return ask_for(std::max(c.scheduled_departure, arrival + dwell_at(t, k)) + r.warning_after_departure);
+        }
     }
     if (s.phase == Phase::waiting) {
         // Not yet in the model: the planned approach (extrapolated beyond the line end) is the
@@ -464,7 +507,10 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
         const ServiceRun& run = run_of(t);
         if (!run.path.starts_at_edge) return kNoTime;
         const double entry = t < delays_.entry.size() ? delays_.entry[t] : 0.0;
-        return run.head_reach(r.warning_point) + entry - lead;
+        // (on its first leg, timed as the engine will time the place: from the appearance's tick)
+        const Place& w = train(t).warnings[i];
+        if (w.leg == 0) return ask_for(SimTime::from_seconds(run.appear_time + entry).to_seconds() + w.t);
+        return ask_for(run.head_reach(r.warning_point) + entry);
     }
     if (s.phase == Phase::standing && s.s_stand >= r.warning_point - kPositionTolerance) return now_;
     // (a warning point already passed gives a time in the past: the request goes out now)
@@ -488,7 +534,7 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
             tw = std::isnan(tw) ? tf : std::min(tw, tf);
         }
     }
-    return std::isnan(tw) ? kNoTime : tw - lead;
+    return std::isnan(tw) ? kNoTime : ask_for(tw);
 }
 
 void Day::schedule_point(std::uint32_t t, Kind kind) {
@@ -753,23 +799,57 @@ void Day::take_sections(std::uint32_t t, const std::vector<std::uint32_t>& globa
         }
 }
 
+const std::vector<std::uint32_t>& Day::sections_of(const Pending& p) const {
+    return p.route < 0 ? train(p.train).origin_sections : train(p.train).routes[p.route].sections;
+}
+
+bool Day::waits_on(std::uint32_t a, std::uint32_t b, std::vector<std::uint8_t>& seen) const {
+    if (seen[a]) return false;
+    seen[a] = 1;
+    for (const Pending& p : pending_) {
+        if (p.train != a) continue;
+        for (std::uint32_t g : sections_of(p)) {
+            const std::uint32_t c = interlocking_.blocker(a, g);
+            if (c == b) return true;
+            if (c < st_.size() && waits_on(c, b, seen)) return true;
+        }
+    }
+    return false;
+}
+
+bool Day::may_take(std::uint32_t t, const std::vector<std::uint32_t>& sections) const {
+    for (std::uint32_t g : sections) {
+        const std::uint32_t b = interlocking_.blocker(t, g);
+        if (b == kNoTrain) continue;
+        // Held, or out of use: it must wait.  Promised to a train planned earlier: it waits for
+        // that train, unless that train itself waits (directly or through others) for this one:
+        // then the promise can never be kept (the other train is behind it, or held up by it),
+        // and the order is given up for this section rather than locking both for good.
+        if (b == kDisruption || interlocking_.holder(g) == b) return false;
+        std::vector<std::uint8_t> seen(st_.size(), 0);
+        if (!waits_on(b, t, seen)) return false;
+    }
+    return true;
+}
+
 void Day::grant_pending() {
     for (std::size_t i = 0; i < pending_.size();) {
         const Pending p = pending_[i];
         if (p.route < 0) {
             const SimModel::Train& tr = train(p.train);
-            if (!interlocking_.can_take(p.train, tr.origin_sections)) {
+            if (!may_take(p.train, tr.origin_sections)) {
                 ++i;
                 continue;
             }
             pending_.erase(pending_.begin() + static_cast<long>(i));
             take_sections(p.train, tr.origin_sections, tr.origin_path_sections);
+            st_[p.train].appear_granted = true;
             try_appear(p.train);
             i = 0;  // a grant changes nothing that frees others, but keep the order simple
             continue;
         }
         const SimModel::Route& r = train(p.train).routes[p.route];
-        if (!interlocking_.can_take(p.train, r.sections)) {
+        if (!may_take(p.train, r.sections)) {
             ++i;
             continue;
         }
@@ -794,11 +874,15 @@ void Day::try_appear(std::uint32_t t) {
     TrainState& s = st_[t];
     const ServiceRun& run = run_of(t);
     if (run.path.starts_at_edge) {
-        // Enters once the driver knows the first route is set; until then it waits outside.
+        // The plan needs the driver to know every route whose warning point lies at or behind the
+        // line end before the head crosses it (the signals beyond the line end, outside the model,
+        // show it): until then the train waits outside.  Without such a route it enters on the
+        // authority the last signal outside gave it, up to the first signal in the model.
         const auto& routes = train(t).routes;
-        if (!routes.empty() && routes[0].s_entry <= kEps) {
-            double set = s.route_set[0];
-            if (std::isnan(set) || set + times_.sight_reaction > now_ + kEps) return;
+        std::size_t known_outside = 0;
+        while (known_outside < routes.size() && routes[known_outside].warning_point <= kEps) {
+            if (!route_known(t, known_outside)) return;
+            ++known_outside;
         }
         s.phase = Phase::moving;
         s.t0 = now_;
@@ -807,7 +891,7 @@ void Day::try_appear(std::uint32_t t) {
         {
             // Held outside the model beyond its (possibly late) entry: knock-on at the first call.
             const double due = run.appear_time + (t < delays_.entry.size() ? delays_.entry[t] : 0.0);
-            out_.timing[timing_first_[t]].knock_on += std::max(0.0, now_ - due);
+            if (now_ - due > kNoiseFloor) out_.timing[timing_first_[t]].knock_on += now_ - due;
             s.last_departure = now_;
         }
         // Motion starts at entry speed on the planned first leg; authority is read at once
@@ -825,11 +909,17 @@ void Day::try_appear(std::uint32_t t) {
             s.own.time_index.clear();
             s.free_end = false;
         }
-        // Signals whose read point lies at or behind the line end are in view as it enters.
+        // Signals whose read point lies at or behind the line end, or whose route the driver had
+        // to know there, are in view as it enters.
         const auto& sightings = train(t).sightings;
-        while (s.next_sight < sightings.size() && (sightings[s.next_sight].skip || sightings[s.next_sight].s <= kEps))
+        while (s.next_sight < sightings.size() &&
+               (sightings[s.next_sight].skip || sightings[s.next_sight].s <= kEps || s.next_sight < known_outside))
             ++s.next_sight;
         check_authority(t);
+        if (!routes.empty() && s.eoa < routes[0].s_entry - kEps) {
+            s.eoa = routes[0].s_entry;
+            replan(t);
+        }
         if (s.eoa <= kEps) {
             // No authority yet: it must stop at the line end (approximation: it waits outside).
             s.phase = Phase::waiting;
@@ -902,13 +992,9 @@ void Day::check_authority(std::uint32_t t) {
     // head up in the motion, keeps this off the long, mostly cold motion arrays.
     double eoa = s.eoa;
     for (std::size_t j = s.next_pass; j < routes.size(); ++j) {
-        if (j >= s.next_sight && !tr.sightings[j].skip) break;
+        if (!signal_in_view(t, j)) break;
         int k = 0;
-        while (k < routes[j].aspect_cap && j + k < routes.size()) {
-            double set = s.route_set[j + k];
-            if (std::isnan(set) || set + times_.sight_reaction > now_ + kEps) break;
-            ++k;
-        }
+        while (k < routes[j].aspect_cap && j + k < routes.size() && route_known(t, j + k)) ++k;
         if (k == 0) continue;
         double end = routes[j + k - 1].authority_end;
         if (j + k < routes.size()) end = routes[j + k].s_entry;
@@ -1012,13 +1098,10 @@ void Day::handle(const Event& e) {
     auto stale_point = [&](std::size_t next) { return e.payload != next; };
     switch (static_cast<Kind>(e.kind)) {
         case kAppear:
-            s.appear_due = true;
-            if (!run_of(t).path.starts_at_edge) {
-                pending_.push_back({t, -1});
-                grant_pending();
-            } else {
-                try_appear(t);
-            }
+            // First the sections it appears on (a train entering over the line end: those up to
+            // the first signal, which no route of its own protects) must be free.
+            pending_.push_back({t, -1});
+            grant_pending();
             break;
         case kRelease: {
             const std::size_t k = e.payload;
@@ -1031,7 +1114,7 @@ void Day::handle(const Event& e) {
         }
         case kAuthorityCheck:
             if (s.phase == Phase::waiting) {
-                if (s.appear_due && path.starts_at_edge) try_appear(t);
+                if (s.appear_granted && path.starts_at_edge) try_appear(t);
             } else {
                 check_authority(t);
             }

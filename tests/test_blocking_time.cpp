@@ -232,8 +232,11 @@ TEST_CASE("Warning points by aspect system", "[blocking][aspects]") {
         for (const char* id : {"S3000", "S5000", "S7000"}) {
             const RouteBlocking& r = route_from(p.trains[0], id);
             INFO("route from " << id);
-            CHECK(r.s_entry - r.warning_point == Approx(d).margin(0.5));
-            CHECK(r.approach == Approx(d / kV).margin(0.02));  // 46.44 s
+            // The braking point is a point of the running-time grid (2 m): up to one step in rear
+            // of the closed form, never beyond it.
+            CHECK(r.s_entry - r.warning_point >= d - 1e-6);
+            CHECK(r.s_entry - r.warning_point <= d + 2.0);
+            CHECK(r.approach == Approx(d / kV).margin(2.0 / kV + 0.01));  // 46.44 s
         }
     }
 }

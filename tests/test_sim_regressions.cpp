@@ -139,3 +139,71 @@ TEST_CASE("a train standing at a signal has not entered the section beyond it", 
         if (x.train == f && r.section_names[x.section] == "U:4.500-4.700") CHECK(x.head_enters >= hold->to - 0.01);
 }
 
+
+// ---- One rule for plan and simulation (tests/data/trust/) -----------------------------------------
+
+namespace {
+
+DayPtr simulate_file(const std::string& name, const std::vector<std::pair<std::string, double>>& entry = {}) {
+    return simulate(read_scenario(kSource + "/tests/data/trust/" + name), entry);
+}
+
+// Every train of an undisturbed day runs as planned: no hold, no knock-on, no deadlock, each
+// timing point within 0.5 s of the plan.
+void check_runs_as_planned(const Day& d) {
+    CHECK_FALSE(d.result.deadlock.deadlocked);
+    CHECK(d.result.holds.empty());
+    std::vector<std::size_t> next(d.plan.size(), 0);
+    for (const TimingRecord& r : d.result.timing) {
+        INFO("train " << d.result.train_ids[r.train] << " at " << r.station);
+        const PlannedCall& c = d.plan[r.train].run.calls.at(next[r.train]++);
+        CHECK(r.knock_on == 0.0);
+        if (!std::isnan(c.planned_arrival)) CHECK(r.arrival == Approx(c.planned_arrival).margin(0.5));
+    }
+}
+
+}  // namespace
+
+TEST_CASE("no knock-on from nowhere: a starter 100 m beyond the stop", "[sim][trust]") {
+    // The route beyond the starter is wanted while the train still stands: asked for from its
+    // departure as the plan times it (it once came at departure, and the driver met a caution).
+    check_runs_as_planned(*simulate_file("starter_100m_beyond_stop.yaml"));
+}
+
+TEST_CASE("no knock-on from nowhere: a lone freight and an undisturbed single line", "[sim][trust]") {
+    check_runs_as_planned(*simulate_file("lone_freight_single_line.yaml"));
+    check_runs_as_planned(*simulate_file("single_line_no_delays.yaml"));
+}
+
+TEST_CASE("trains enter over a line end whose first signal is out of sight", "[sim][trust]") {
+    // First signal 500 m in, sighting 300 m: they once never entered (every day deadlocked).
+    const DayPtr d = simulate_file("first_signal_out_of_sight_of_line_end.yaml");
+    check_runs_as_planned(*d);
+    CHECK(d->result.events > 0);
+}
+
+TEST_CASE("a starter out of sight of the stop: delays pass on as the plan's buffers say", "[sim][trust]") {
+    // REFERENCES.md P1 (max-plus): a follower's delay is max(0, leader's delay - buffer), the
+    // buffers read from the plan's minimum headways.  The departure needs the route out in the
+    // plan and in the simulation alike, starter in sight or not.
+    const Scenario sc = read_scenario(kSource + "/tests/data/trust/starter_out_of_sight.yaml");
+    const PlanResult plan = make_plan(sc);
+    const DayPtr d = simulate_file("starter_out_of_sight.yaml", {{"T1", 300.0}});
+    double delay = timing_of(*d, "T1", "BW").arrival_delay;
+    CHECK(delay == Approx(300.0).margin(1.0));
+    for (const auto& [leader, follower] : {std::pair{"T1", "T2"}, std::pair{"T2", "T3"}}) {
+        const double b = headway_pair(plan, "AV-BW", leader, follower).buffer;
+        delay = std::max(0.0, delay - b);
+        INFO(follower << " behind " << leader << ", buffer " << b << " s");
+        CHECK(timing_of(*d, follower, "BW").arrival_delay == Approx(delay).margin(0.5));
+    }
+}
+
+TEST_CASE("no section is promised to a train behind the one holding it", "[sim][trust]") {
+    // The plan has a conflict at the junction; under the timetable order the branch train got
+    // ahead of the main-line train and then waited for sections promised to it, while it waited
+    // behind: a deadlock on plain double track.
+    const DayPtr d = simulate_file("junction_conflict_in_plan.yaml");
+    CHECK_FALSE(d->result.deadlock.deadlocked);
+    for (const TimingRecord& r : d->result.timing) CHECK_FALSE((std::isnan(r.arrival) && std::isnan(r.departure)));
+}

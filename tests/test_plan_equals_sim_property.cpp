@@ -1,0 +1,93 @@
+// Property: on every valid layout, a day with no primary delays runs exactly as planned.  The
+// plan's blocking times and the engine read one rule for when each route is asked for, when a
+// standing train may leave and where the driver must know an aspect, so an undisturbed train is
+// never held, books no knock-on and passes every timing point at its planned time.  Checked on
+// random layouts (tests/layout_generator.hpp); a failure prints the seed and the scenario.
+#include <catch2/catch.hpp>
+
+#include <cmath>
+#include <cstdio>
+#include <cstdlib>
+#include <fstream>
+#include <sstream>
+
+#include "layout_generator.hpp"
+#include "models/plan.hpp"
+#include "sim/simulation.hpp"
+#include "sim_test_support.hpp"
+#include "tools/io/scenario_reader.hpp"
+
+namespace knockon {
+namespace {
+
+// What went wrong with one case, or "" when the day ran as planned.
+std::string undisturbed_day_mismatch(const Scenario& scenario, const PlanResult& plan) {
+    const SimModel model(scenario.infrastructure, plan.trains);
+    const SimResult day = simulate_day(model, simtest::no_delays(plan.trains), SimOptions{});
+    std::ostringstream why;
+    if (day.deadlock.deadlocked) why << "deadlock: " << day.deadlock.description << "\n";
+    for (const auto& h : day.holds)
+        why << "train " << day.train_ids[h.train] << " held at " << h.signal << " from " << h.from << " to " << h.to << "\n";
+    for (const TimingRecord& r : day.timing) {
+        if (r.knock_on != 0.0)
+            why << "train " << day.train_ids[r.train] << " books " << r.knock_on << " s knock-on at " << r.station << "\n";
+    }
+    // Timing points against the plan, train by train in call order.
+    std::vector<std::size_t> next(plan.trains.size(), 0);
+    for (const TimingRecord& r : day.timing) {
+        const auto& calls = plan.trains[r.train].run.calls;
+        const PlannedCall& c = calls.at(next[r.train]++);
+        auto off = [&](double as_run, double planned, const char* what) {
+            if (std::isnan(planned)) return;
+            if (std::isnan(as_run) || std::fabs(as_run - planned) > 0.5)
+                why << "train " << day.train_ids[r.train] << " " << what << " " << r.station << " at " << as_run
+                    << ", planned " << planned << "\n";
+        };
+        off(r.arrival, c.planned_arrival, "arrives at");
+        if (!(next[r.train] == calls.size() && c.stops)) off(r.departure, c.planned_departure, "leaves");
+    }
+    return why.str();
+}
+
+TEST_CASE("An undisturbed day equals the plan on random valid layouts", "[property][simulation]") {
+    // KNOCKON_PROPERTY_SEED=<n> reruns one case; KNOCKON_PROPERTY_CASES sets how many.
+    std::uint64_t first = 1, cases = 240;
+    if (const char* s = std::getenv("KNOCKON_PROPERTY_SEED")) first = std::strtoull(s, nullptr, 10), cases = 1;
+    if (const char* n = std::getenv("KNOCKON_PROPERTY_CASES")) cases = std::strtoull(n, nullptr, 10);
+    std::size_t checked = 0, set_aside = 0;
+    for (std::uint64_t seed = first; seed < first + cases; ++seed) {
+        const layoutgen::Layout layout = layoutgen::random_layout(seed);
+        INFO("seed " << seed << " (rerun: KNOCKON_PROPERTY_SEED=" << seed << "): " << layout.summary << "\n"
+                     << layout.yaml);
+        Scenario scenario;
+        REQUIRE_NOTHROW(scenario = parse_scenario(layout.yaml, "random-" + std::to_string(seed) + ".yaml"));
+        PlanResult plan;
+        try {
+            plan = make_plan(scenario);
+        } catch (const std::exception& e) {
+            FAIL("plan failed: " << e.what());
+        }
+        // A layout that breaks the spacing rule, or a timetable with a conflict, is not one the
+        // property speaks of.
+        if (!plan.spacing_warnings.empty() || !plan.conflicts.empty()) {
+            ++set_aside;
+            continue;
+        }
+        ++checked;
+        const std::string mismatch = undisturbed_day_mismatch(scenario, plan);
+        // (KNOCKON_PROPERTY_BRIEF=1: one line per failing case on stderr, to survey many at once)
+        if (!mismatch.empty() && std::getenv("KNOCKON_PROPERTY_BRIEF"))
+            std::fprintf(stderr, "seed %llu | %s | %s\n", static_cast<unsigned long long>(seed),
+                         layout.summary.substr(0, layout.summary.find(',', layout.summary.find(',') + 1)).c_str(),
+                         mismatch.substr(0, mismatch.find('\n')).c_str());
+        // (KNOCKON_PROPERTY_DUMP=DIR: each failing case's scenario written there, to run the CLI on)
+        if (const char* dir = std::getenv("KNOCKON_PROPERTY_DUMP"); dir && !mismatch.empty())
+            std::ofstream(std::string(dir) + "/random-" + std::to_string(seed) + ".yaml") << layout.yaml;
+        CHECK(mismatch == "");
+    }
+    INFO(checked << " layouts checked, " << set_aside << " set aside");
+    CHECK(checked >= (cases == 1 ? 0 : 200));
+}
+
+}  // namespace
+}  // namespace knockon
