@@ -1,5 +1,6 @@
 #pragma once
 // The timetable: services, their calls at stations, expanded from clock-face patterns.
+#include <cstdint>
 #include <optional>
 #include <string>
 #include <vector>
@@ -20,8 +21,17 @@ struct Call {
     std::optional<double> min_dwell;     // [s]; default from the train type
 };
 
+// Who a service is for its primary-delay draws (sim/delay_draws): a name and, for a run of a repeat
+// pattern, which run it is.  Unlike the id of a run ("S1-0630"), neither changes when the service
+// is retimed, so a retimed train keeps its draws (common random numbers across timetable variants).
+struct DrawIdentity {
+    std::string name;                          // the service's draw_key, else its (pattern's) id
+    std::optional<std::uint32_t> occurrence;   // a repeat's run: 0, 1, 2, ... in time order
+};
+
 struct Service {
-    std::string id;
+    std::string id;                      // unique; a repeat's runs get "-HHMM" of their first time
+    DrawIdentity draw;                   // empty name: the id (services made in code)
     std::string train_type;
     std::string category;                // free label used for grouping results (e.g. "stopping")
     Direction direction = Direction::up;
@@ -31,6 +41,8 @@ struct Service {
     std::optional<double> entry_speed;   // [m/s]
     bool leaves_at_edge = false;         // runs on beyond the far line end
     std::vector<Call> calls;             // in running order; at least one
+
+    const std::string& draw_name() const { return draw.name.empty() ? id : draw.name; }
 };
 
 struct Timetable {

@@ -2,8 +2,9 @@
 // Comparing variants of a scenario (README, "Variants and `compare`").
 //
 // The studies being compared are run with the same seed, so replication k of every variant sees
-// the same primary delays (common random numbers: the draws are keyed by seed, replication, train
-// and station, never by anything a variant changes).  The day-to-day spread of the delays then
+// the same primary delays (common random numbers: the draws are keyed by seed, replication, the
+// train's draw key and run number, and the station, never by a time, a signal or a position in a
+// list, see sim/delay_draws.hpp).  The day-to-day spread of the delays then
 // cancels in the difference figure(variant, k) - figure(first, k), and the mean of those paired
 // differences has a far narrower confidence interval than the difference of two independent
 // means: a small effect of the signalling shows through a large effect of the dice.

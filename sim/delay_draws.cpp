@@ -23,9 +23,9 @@ const DelayRule* match(const std::vector<DelayRule>& rules, const std::string& c
 
 // The delay drawn for one place by `rule`, or 0 when no rule applies.
 double draw_at(const RandomStream& rng, StreamKind kind, const DelayRule* rule, std::uint32_t train_key,
-               std::uint32_t place_key) {
+               std::uint32_t run, std::uint32_t place_key) {
     if (rule == nullptr) return 0.0;
-    const UniformPair u = rng.uniforms(kind, train_key, place_key);
+    const UniformPair u = rng.uniforms(kind, train_key, place_key, run);
     return rule->distribution.sample(u.first, u.second);
 }
 
@@ -56,7 +56,9 @@ DelayDrawer::DelayDrawer(const PrimaryDelayModel& model, const Infrastructure& i
         const Service& svc = *tp.run.service;
         Train& t = resolved_.emplace_back();
         if (svc.calls.empty()) continue;
-        t.key = stable_key(svc.id);
+        t.key = stable_key(svc.draw_name());
+        // A service of its own keeps run 0, the word its draws have always had.
+        if (svc.draw.occurrence) t.run = *svc.draw.occurrence + 1;
         t.entry = match(model.entry, svc.category, svc.calls.front().station);
         const std::size_t n = svc.calls.size();
         for (std::size_t c = 0; c < n; ++c) {
@@ -104,11 +106,11 @@ InjectedDelays DelayDrawer::draw(std::uint64_t seed, std::uint32_t replication) 
         d.dwell[t].assign(n, 0.0);
         d.running[t].assign(n, 0.0);
         if (n == 0) continue;
-        d.entry[t] = draw_at(rng, StreamKind::entry, tr.entry, tr.key, 0);
+        d.entry[t] = draw_at(rng, StreamKind::entry, tr.entry, tr.key, tr.run, 0);
         for (std::size_t c = 0; c < n; ++c) {
             const Place& p = tr.calls[c];
-            d.dwell[t][c] = draw_at(rng, StreamKind::dwell, p.dwell, tr.key, p.key);
-            d.running[t][c] = draw_at(rng, StreamKind::running, p.running, tr.key, p.key);
+            d.dwell[t][c] = draw_at(rng, StreamKind::dwell, p.dwell, tr.key, tr.run, p.key);
+            d.running[t][c] = draw_at(rng, StreamKind::running, p.running, tr.key, tr.run, p.key);
         }
     }
 

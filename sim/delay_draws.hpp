@@ -2,10 +2,13 @@
 // Primary delays of one simulated day drawn from the scenario's delay model.
 //
 // Each draw takes its uniforms from RandomStream(seed, replication) at the counter
-// (kind, stable_key(service id), stable_key(station id), 0) -- place key 0 for entry -- so the
-// draws of a train depend on its id and the ids of its stations only: add, remove or reorder
-// other trains, or change the signalling, and its draws stay the same.  Disruption rule k uses
-// (disruption, 0, k, 0) for occurrence and start, and draw 1 for the duration.
+// (kind, stable_key(draw name), stable_key(station id), run) -- place key 0 for entry -- where the
+// draw name is the service's draw_key, else its id (for a repeat pattern the pattern's id), and
+// run is 0 for a service of its own and 1 + the occurrence for a repeat's runs (0, 1, 2, ... in
+// time order).  So a train's draws depend on who it is and where, never on times or positions in
+// a list: retime it, add, remove or reorder other trains, or change the signalling, and its draws
+// stay the same.  Disruption rule k uses (disruption, 0, k, 0) for occurrence and start, and
+// index 1 for the duration; neither depends on any train.
 #include <cstdint>
 #include <string>
 #include <vector>
@@ -39,7 +42,8 @@ private:
         const DelayRule* running = nullptr;
     };
     struct Train {
-        std::uint32_t key = 0;                 // stable_key of the service id
+        std::uint32_t key = 0;                 // stable_key of the service's draw name
+        std::uint32_t run = 0;                 // 0, or 1 + the occurrence of a repeat's run
         const DelayRule* entry = nullptr;
         std::vector<Place> calls;
     };

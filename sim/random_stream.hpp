@@ -1,11 +1,12 @@
 #pragma once
 // Counter-based uniform random numbers for Monte Carlo studies (Random123 Philox4x32-10).
 //
-// Every number is a pure function of (seed, replication, kind, train key, place key, draw): no
+// Every number is a pure function of (seed, replication, kind, train key, place key, index): no
 // generator state is carried along.  So replications are independent of each other and of the
-// thread that runs them, and because the keys come from ids (stable_key), not from positions in
+// thread that runs them, and because the keys come from names (stable_key), not from positions in
 // a list, the same train at the same station gets the same draws in every variant of a scenario
-// that keeps its id (common random numbers), whatever other trains or signals change.
+// that keeps its draw identity (common random numbers), whatever other trains or signals change.
+// What the keys and the index stand for is decided by the caller (sim/delay_draws).
 #include <cstdint>
 #include <string_view>
 
@@ -46,18 +47,19 @@ public:
     RandomStream(std::uint64_t seed, std::uint32_t replication)
         : key_{{static_cast<std::uint32_t>(seed) ^ static_cast<std::uint32_t>(seed >> 32), replication}} {}
 
-    // Two independent uniforms from one Philox block: words 0-1 and words 2-3.
+    // Two independent uniforms from one Philox block: words 0-1 and words 2-3.  The counter is
+    // (kind, train key, place key, index); `index` tells apart draws the other words do not.
     UniformPair uniforms(StreamKind kind, std::uint32_t train_key, std::uint32_t place_key,
-                         std::uint32_t draw = 0) const {
+                         std::uint32_t index = 0) const {
         const r123::Philox4x32::ctr_type ctr = {
-            {static_cast<std::uint32_t>(kind), train_key, place_key, draw}};
+            {static_cast<std::uint32_t>(kind), train_key, place_key, index}};
         const r123::Philox4x32::ctr_type out = r123::Philox4x32()(ctr, key_);
         return {open_unit(out[0], out[1]), open_unit(out[2], out[3])};
     }
     // The first of the pair.
     double uniform(StreamKind kind, std::uint32_t train_key, std::uint32_t place_key,
-                   std::uint32_t draw = 0) const {
-        return uniforms(kind, train_key, place_key, draw).first;
+                   std::uint32_t index = 0) const {
+        return uniforms(kind, train_key, place_key, index).first;
     }
 
 private:

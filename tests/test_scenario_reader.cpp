@@ -3,6 +3,7 @@
 #include <catch2/catch.hpp>
 
 #include <algorithm>
+#include <cstdint>
 #include <string>
 #include <vector>
 
@@ -305,6 +306,70 @@ TEST_CASE("a repeat that gives clashing ids is an error", "[reader]") {
                                "      category: stopping\n      repeat: {every: 30 s, until: \"06:01\"}\n");
     const auto e = errors_of(t);
     CHECK(reported(e, loc(t, "S1"), "timetable.services[0].id", "\"S1-0600\" is used twice"));
+}
+
+TEST_CASE("draw identity: the id or the draw_key and a repeat's run number", "[reader]") {
+    const Scenario plain = parse_scenario(kValid, "t.yaml");
+    REQUIRE(plain.timetable.services.size() == 2);
+    CHECK(plain.timetable.services[0].draw.name == "S1");
+    CHECK_FALSE(plain.timetable.services[0].draw.occurrence.has_value());
+    CHECK(plain.timetable.services[1].draw_name() == "G1");
+
+    // Runs of a pattern: the pattern's id (or its draw_key) and the run's number, in time order.
+    const std::string t = with("      category: stopping\n",
+                               "      category: stopping\n      repeat: {every: 15 min, until: \"07:00\"}\n");
+    const Scenario runs = parse_scenario(t, "t.yaml");
+    REQUIRE(runs.timetable.services.size() == 6);
+    for (std::uint32_t k = 0; k < 5; ++k) {
+        CHECK(runs.timetable.services[k].draw.name == "S1");
+        CHECK(runs.timetable.services[k].draw.occurrence == k);
+    }
+    const Scenario keyed = parse_scenario(with("    - id: S1\n", "    - id: S1\n      draw_key: morning stopper\n", t), "t.yaml");
+    CHECK(keyed.timetable.services[3].id == "S1-0645");
+    CHECK(keyed.timetable.services[3].draw.name == "morning stopper");
+    CHECK(keyed.timetable.services[3].draw.occurrence == 3u);
+    const Scenario keyed_single = parse_scenario(with("    - id: G1\n", "    - id: G1\n      draw_key: 4711\n"), "t.yaml");
+    CHECK(keyed_single.timetable.services[1].draw_name() == "4711");
+    CHECK_FALSE(keyed_single.timetable.services[1].draw.occurrence.has_value());
+}
+
+TEST_CASE("draw_key: empty or shared keys are located errors", "[reader]") {
+    SECTION("empty") {
+        const std::string t = with("    - id: G1\n", "    - id: G1\n      draw_key: \"\"\n");
+        const auto e = errors_of(t);
+        CHECK(e.size() == 1);
+        CHECK(reported(e, loc(t, "\"\""), "timetable.services[1].draw_key", "must not be empty"));
+    }
+    SECTION("not a single value") {
+        const std::string t = with("    - id: G1\n", "    - id: G1\n      draw_key: [a, b]\n");
+        const auto e = errors_of(t);
+        CHECK(e.size() == 1);
+        CHECK(reported(e, loc(t, "[a, b]"), "timetable.services[1].draw_key", ""));
+    }
+    SECTION("another service's id") {
+        // Both would get the same primary delays every day.
+        const std::string t = with("    - id: G1\n", "    - id: G1\n      draw_key: S1\n");
+        const auto e = errors_of(t);
+        CHECK(e.size() == 1);
+        CHECK(reported(e, loc(t, "S1", 1), "timetable.services[1].draw_key",
+                       "primary delays are drawn by the key \"S1\" here and in timetable.services[0] too"));
+    }
+    SECTION("two patterns of one id: their runs 0, 1, ... would share draws; once per pair") {
+        const std::string pattern = "      category: stopping\n      repeat: {every: 30 min, until: \"07:00\"}\n";
+        const std::string t = with("      category: stopping\n", pattern) +
+                              "    - id: S1\n      type: EMU\n      direction: up\n"
+                              "      repeat: {every: 30 min, until: \"07:15\"}\n"
+                              "      calls:\n        - {station: AA, dep: \"06:15\"}\n        - {station: CC}\n";
+        const auto e = errors_of(t);
+        CHECK(e.size() == 1);
+        CHECK(reported(e, loc(t, "S1", 1), "timetable.services[2].id",
+                       "primary delays are drawn by the key \"S1\" run 0 here and in timetable.services[0] too"));
+        CHECK_THAT(all(e), Contains("give one of them a draw_key of its own"));
+        // The way out the message gives.
+        CHECK_NOTHROW(parse_scenario(with("    - id: S1\n      type: EMU\n      direction: up\n      repeat",
+                                          "    - id: S1\n      draw_key: S1 late\n      type: EMU\n      direction: up\n      repeat", t),
+                                     "t.yaml"));
+    }
 }
 
 TEST_CASE("unknown key", "[reader]") {

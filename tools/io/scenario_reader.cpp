@@ -5,12 +5,14 @@
 #include <array>
 #include <cerrno>
 #include <cmath>
+#include <cstdint>
 #include <cstdio>
 #include <cstring>
 #include <filesystem>
 #include <fstream>
 #include <map>
 #include <optional>
+#include <set>
 #include <sstream>
 #include <utility>
 
@@ -728,7 +730,8 @@ private:
 
     std::optional<ServiceSource> read_service(const YAML::Node& node, const std::string& path) {
         MapFields f(errors_, node, path,
-                    {"id", "type", "category", "direction", "enter", "leave", "repeat", "calls"});
+                    {"id", "type", "category", "direction", "enter", "leave", "repeat", "draw_key",
+                     "calls"});
         if (!f.ok()) return std::nullopt;
         ServiceSource src{Service{}, f, {}, std::nullopt, std::nullopt, true};
         Service& svc = src.service;
@@ -739,6 +742,15 @@ private:
         if (!id || !type || !dir) src.ok = false;
         bool calls_ok = dir.has_value();  // what the checks on times and call order need
         if (id) svc.id = *id;
+        // What the draws are keyed by (models/timetable.hpp DrawIdentity); runs of a repeat
+        // pattern get their occurrence in expand().
+        if (auto key = f.text("draw_key", false)) {
+            svc.draw.name = *key;
+        } else if (f.has("draw_key")) {
+            src.ok = false;
+        } else if (id) {
+            svc.draw.name = *id;
+        }
         if (type) {
             svc.train_type = *type;
             if (train_type_lines_.count(*type) == 0) {
@@ -944,6 +956,29 @@ private:
         }
     }
 
+    // Two trains with one draw identity would share their primary delays.  Ids are unique, so this
+    // only happens through a draw_key or two repeat patterns of one id (one from 06:00, one from
+    // 06:30: each has a run 0 of "S1"); reported once per pair of services as written.
+    void check_draw_identities(const std::vector<ServiceSource>& sources, const std::vector<std::size_t>& origin) {
+        const auto& out = sc_.timetable.services;
+        std::map<std::pair<std::string, long>, std::size_t> seen;   // (name, occurrence or -1) -> source
+        std::set<std::pair<std::size_t, std::size_t>> reported;
+        for (std::size_t k = 0; k < out.size(); ++k) {
+            const DrawIdentity& d = out[k].draw;
+            const long occurrence = d.occurrence ? static_cast<long>(*d.occurrence) : -1;
+            auto [pos, fresh] = seen.emplace(std::make_pair(d.name, occurrence), origin[k]);
+            if (fresh || !reported.emplace(pos->second, origin[k]).second) continue;
+            const ServiceSource& src = sources[origin[k]];
+            const std::string other = sources[pos->second].fields.path();
+            const bool keyed = src.fields.has("draw_key");
+            src.fields.error(keyed ? "draw_key" : "id",
+                             "primary delays are drawn by the key \"" + d.name + "\"" +
+                                 (d.occurrence ? " run " + std::to_string(*d.occurrence) : std::string()) +
+                                 " here and in " + other +
+                                 " too, so the two would share their delays; give one of them a draw_key of its own");
+        }
+    }
+
     // Repeat patterns into one Service per run, then unique ids, then the paths.
     void expand(std::vector<ServiceSource>& sources) {
         auto& out = sc_.timetable.services;
@@ -982,18 +1017,23 @@ private:
                     if (c.departure) *c.departure += shift;
                 }
                 copy.id = src.service.id + "-" + hhmm(t0 + shift);
+                copy.draw.occurrence = static_cast<std::uint32_t>(k);
                 out.push_back(std::move(copy));
                 origin.push_back(i);
             }
         }
         std::map<std::string, std::size_t> seen;  // id -> source
+        bool ids_unique = true;
         for (std::size_t k = 0; k < out.size(); ++k) {
             auto [pos, fresh] = seen.emplace(out[k].id, origin[k]);
-            if (!fresh)
+            if (!fresh) {
+                ids_unique = false;
                 sources[origin[k]].fields.error(
                     "id", "service id \"" + out[k].id + "\" is used twice (also by " +
                               sources[pos->second].fields.path() + ")");
+            }
         }
+        if (ids_unique) check_draw_identities(sources, origin);
         // Paths are laid only on a scenario without other errors: the path builder trusts
         // the infrastructure it is given.
         if (!errors_.empty()) return;
