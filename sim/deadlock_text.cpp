@@ -216,7 +216,7 @@ std::string deadlock_cause(const std::vector<DeadlockWait>& waiting, const Names
     const std::size_t others = waiting.size() - chain.size();
     if (others > 0)
         out += "; " + std::to_string(others) + (others == 1 ? " other train waits" : " other trains wait") +
-               " behind them";
+               " behind";
     return out;
 }
 
