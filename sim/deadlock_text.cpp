@@ -139,11 +139,12 @@ std::string describe_wait(const DeadlockWait& w, const Names& trains, const Name
                    format_time_of_day(w.route_set) + ", but signal " + w.signal + " comes into view only at " +
                    km(w.read_from) + ", inside the line";
         case DeadlockWait::For::route:
-            return id + " stands " + where_it_stands(w) + (w.station.empty() ? " since " : ", ready to leave since ") + since +
+            return id + " stands " + where_it_stands(w) +
+                   (w.station.empty() ? " since " : ", ready to leave since ") + since +
                    ", waiting for the route from " + w.signal + (blocks.empty() ? "" : ": " + blocks);
         case DeadlockWait::For::view:
-            return id + " stands " + where_it_stands(w) + " since " + since + ": the route from " + w.signal + " was set at " +
-                   format_time_of_day(w.route_set) + ", but signal " + w.signal +
+            return id + " stands " + where_it_stands(w) + " since " + since + ": the route from " + w.signal +
+                   " was set at " + format_time_of_day(w.route_set) + ", but signal " + w.signal +
                    " is not in view from there (it comes into view at " + km(w.read_from) + ")";
         case DeadlockWait::For::request:
             return id + " stands " + where_it_stands(w) + " since " + since + ": the route from " + w.signal +

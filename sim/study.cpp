@@ -133,8 +133,10 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
         // the same order whatever the thread count.  The day's detail goes with its slot.
         // A deadlocked day keeps its per-day record only: it is a result, never a figure.
         for (ReplicationFigures& r : slots) {
-            if (!r.stats.deadlocked) out.figures.add(r);
-            else if (!out.first_deadlock) out.first_deadlock = DeadlockedDay{r.stats.replication, std::move(r.deadlock)};
+            if (!r.stats.deadlocked)
+                out.figures.add(r);
+            else if (!out.first_deadlock)
+                out.first_deadlock = DeadlockedDay{r.stats.replication, std::move(r.deadlock)};
             out.replications.push_back(std::move(r.stats));
         }
         started = end;

@@ -169,7 +169,8 @@ TEST_CASE("A deadlocked single day shows what it did and who waits, never a punc
     CHECK(w["summary"]["punctuality"][0]["share"].is_number());
 }
 
-TEST_CASE("compare with deadlocked days pairs the complete days and exits 3 unless allowed", "[cli][compare][deadlock]") {
+TEST_CASE("compare with deadlocked days pairs the complete days and exits 3 unless allowed",
+          "[cli][compare][deadlock]") {
     TempDir dir;
     const fs::path h5 = dir.path / "cmp.h5";
     const std::string args = "compare " + q(kCrossings) + " --variants base,cab --replications 30 --order first-come";

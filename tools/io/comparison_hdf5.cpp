@@ -84,8 +84,8 @@ void write_differences(const h5::Group& g, const std::vector<DifferenceRow>& row
     describe(t, std::string("variant: text, figure: text, unit: text (s or share), ") + kEstimateUnits,
              "Each variant after the first minus the first (the reference): for the per-day figures the "
              "mean of the day-by-day differences (common random numbers) with its 95 % Student-t interval "
-             "over the n days complete in both (not ended in deadlock); for the plan figures (plan_*, deterministic) the difference alone, interval NaN "
-             "and n = 0.");
+             "over the n days complete in both (not ended in deadlock); for the plan figures (plan_*, "
+             "deterministic) the difference alone, interval NaN and n = 0.");
 }
 
 }  // namespace

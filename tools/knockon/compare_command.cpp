@@ -66,13 +66,18 @@ std::string fmt(const char* f, double a, double b = 0.0) {
     std::snprintf(buf, sizeof buf, f, a, b);
     return buf;
 }
-std::string minutes(const Estimate& e) { return fmt("%.2f ± %.2f min", e.mean / 60.0, e.half_width / 60.0); }
-std::string signed_minutes(const Estimate& e) {
-    return fmt("%+.2f ± %.2f min", e.mean / 60.0, e.half_width / 60.0);
+// "-" for a figure there is none of (no complete day to take it over).
+std::string minutes(const Estimate& e) {
+    return std::isfinite(e.mean) ? fmt("%.2f ± %.2f min", e.mean / 60.0, e.half_width / 60.0) : "-";
 }
-std::string percent(const Estimate& e) { return fmt("%.1f ± %.1f %%", 100.0 * e.mean, 100.0 * e.half_width); }
+std::string signed_minutes(const Estimate& e) {
+    return std::isfinite(e.mean) ? fmt("%+.2f ± %.2f min", e.mean / 60.0, e.half_width / 60.0) : "-";
+}
+std::string percent(const Estimate& e) {
+    return std::isfinite(e.mean) ? fmt("%.1f ± %.1f %%", 100.0 * e.mean, 100.0 * e.half_width) : "-";
+}
 std::string signed_points(const Estimate& e) {
-    return fmt("%+.2f ± %.2f pts", 100.0 * e.mean, 100.0 * e.half_width);
+    return std::isfinite(e.mean) ? fmt("%+.2f ± %.2f pts", 100.0 * e.mean, 100.0 * e.half_width) : "-";
 }
 
 // A text table: first column labels, then one column per variant, left-aligned.
