@@ -218,8 +218,8 @@ int simulate(const std::vector<std::string>& args) {
         "seed", po::value<std::string>()->default_value("1"), "random seed of the study")(
         "threads", po::value<std::string>()->default_value("1"), "threads for the study (results do not depend on it)")(
         "until-ci", po::value<double>(),
-        "go on until the 95 % CI half-width of the mean knock-on per day is below this many minutes "
-        "(--replications is then the cap)")(
+        "go on until the 95 % CI half-width of the mean knock-on per day (over the complete days, at least "
+        "10) is below this many minutes (--replications is then the cap)")(
         "traces", po::value<std::string>(),
         "with --replications and --out: days whose full records go into the file: none (default), all, or "
         "sample:K (K days spread evenly)");
