@@ -32,9 +32,12 @@ std::string study_text(const Scenario& sc, const SimModel& model, const StudyRes
     std::ostringstream out;
     out << "knockon study: " << sc.name << " (" << sc.source_file << ")\n";
     // Deadlocked days first, before any figure.
+    // (A study stopped by Ctrl-C exits 130 all the same.)
     if (s.deadlocked > 0)
         out << study_deadlock_notice(s)
-            << (info.allow_deadlock ? " Accepted with --allow-deadlock." : " Exit status 3 (--allow-deadlock accepts it).")
+            << (info.allow_deadlock ? " Accepted with --allow-deadlock."
+                : study.partial     ? ""
+                                    : " Exit status 3 (--allow-deadlock accepts it).")
             << "\n";
     out << "Caution: " << kSafetyCaution << "\n\n";
     out << s.replications << " simulated days (seed " << info.seed << ", " << info.threads << " thread"
