@@ -1,5 +1,6 @@
 #include "sim/comparison.hpp"
 
+#include <limits>
 #include <stdexcept>
 
 namespace knockon {
@@ -8,6 +9,11 @@ PairedFigure paired_figure(const std::vector<double>& first, const std::vector<d
     if (first.size() != other.size())
         throw std::invalid_argument("paired comparison: " + std::to_string(first.size()) + " and " +
                                     std::to_string(other.size()) + " replications; they must be equal");
+    if (first.empty()) {   // no day to pair: no figure rather than a zero that looks like one
+        Estimate none;
+        none.mean = none.half_width = none.lower = none.upper = std::numeric_limits<double>::quiet_NaN();
+        return {none, none, none};
+    }
     std::vector<double> diff(first.size());
     for (std::size_t k = 0; k < first.size(); ++k) diff[k] = other[k] - first[k];
     return {estimate_mean(first), estimate_mean(other), estimate_mean(diff)};
@@ -27,16 +33,22 @@ StudyComparison compare_studies(const StudyResult& first, const StudyResult& oth
         if (a[k].punctuality.size() != thresholds.size() || b[k].punctuality.size() != thresholds.size())
             throw std::invalid_argument("paired comparison: punctuality shares do not match the thresholds");
     }
-    auto collect = [](const std::vector<ReplicationStats>& reps, auto field) {
+    // Only the days that ran to the end in both studies are paired: a day deadlocked in either
+    // is a result, never a figure.
+    std::vector<std::size_t> both;
+    for (std::size_t k = 0; k < a.size(); ++k)
+        if (!a[k].deadlocked && !b[k].deadlocked) both.push_back(k);
+    auto collect = [&](const std::vector<ReplicationStats>& reps, auto field) {
         std::vector<double> v;
-        v.reserve(reps.size());
-        for (const ReplicationStats& r : reps) v.push_back(field(r));
+        v.reserve(both.size());
+        for (std::size_t k : both) v.push_back(field(reps[k]));
         return v;
     };
     auto pair = [&](auto field) { return paired_figure(collect(a, field), collect(b, field)); };
 
     StudyComparison c;
     c.replications = a.size();
+    c.paired = both.size();
     c.thresholds = thresholds;
     c.total_knock_on = pair([](const ReplicationStats& r) { return r.total_knock_on; });
     c.mean_arrival_delay = pair([](const ReplicationStats& r) { return r.mean_arrival_delay; });

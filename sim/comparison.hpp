@@ -26,6 +26,7 @@ struct PairedFigure {
 
 struct StudyComparison {
     std::size_t replications = 0;
+    std::size_t paired = 0;                   // days complete in both studies: the days paired
     std::vector<double> thresholds;           // punctuality thresholds [s]
     PairedFigure total_knock_on;              // knock-on delay per day, all trains [s]
     PairedFigure mean_arrival_delay;          // [s]
@@ -34,11 +35,13 @@ struct StudyComparison {
 };
 
 // Per-replication paired difference estimate: mean and 95 % CI of other[k] - first[k].
-// Throws std::invalid_argument when the lengths differ.
+// Throws std::invalid_argument when the lengths differ; no values give NaN estimates (n = 0).
 PairedFigure paired_figure(const std::vector<double>& first, const std::vector<double>& other);
 
 // Both studies must hold the same replications (same count, same replication numbers, in order)
-// and punctuality shares for `thresholds`; otherwise std::invalid_argument.
+// and punctuality shares for `thresholds`; otherwise std::invalid_argument.  Each study's own
+// figures are over its complete days; the differences over the days complete in both (a day
+// that deadlocked in either is left out of the pairs).
 StudyComparison compare_studies(const StudyResult& first, const StudyResult& other,
                                 const std::vector<double>& thresholds);
 

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <limits>
 
 namespace knockon {
 
@@ -15,7 +16,9 @@ DaySummary summarize_day(const SimResult& r, const std::vector<double>& threshol
     std::vector<TrainDelay> per(s.trains);
     for (std::uint32_t t = 0; t < s.trains; ++t) per[t].train = t;
     double sum = 0.0;
-    for (const TimingRecord& tr : r.timing) {
+    for (std::size_t i = 0; i < r.timing.size(); ++i) {
+        const TimingRecord& tr = r.timing[i];
+        if (!std::isnan(tr.arrival) || !std::isnan(tr.departure)) per[tr.train].last_reached = static_cast<long>(i);
         if (std::isnan(tr.arrival_delay)) continue;
         ++s.arrivals;
         const double d = std::max(0.0, tr.arrival_delay);
@@ -37,7 +40,16 @@ DaySummary summarize_day(const SimResult& r, const std::vector<double>& threshol
     // A train has finished when its last timing point was reached (records are per train, in order).
     for (std::size_t i = 0; i < r.timing.size(); ++i) {
         bool last = i + 1 == r.timing.size() || r.timing[i + 1].train != r.timing[i].train;
-        if (last && !std::isnan(r.timing[i].arrival)) ++s.finished;
+        if (last && !std::isnan(r.timing[i].arrival)) {
+            ++s.finished;
+            per[r.timing[i].train].finished = true;
+        }
+    }
+    if (r.deadlock.deadlocked) {
+        s.complete = false;
+        const double none = std::numeric_limits<double>::quiet_NaN();
+        s.punctuality.assign(thresholds.size(), none);
+        s.mean_arrival_delay = s.total_final_delay = none;
     }
     s.trains_by_delay = per;
     std::stable_sort(s.trains_by_delay.begin(), s.trains_by_delay.end(),

@@ -3,6 +3,7 @@
 // blocking of every section, route setting, time held at signals, optional trajectories.
 // Plain records, in SI (seconds after midnight, metres, m/s); writers at the edge lay them out.
 #include <cstdint>
+#include <limits>
 #include <string>
 #include <vector>
 
@@ -53,10 +54,55 @@ struct TrajectorySample {
     double time = 0.0, position = 0.0, chainage = 0.0, speed = 0.0;
 };
 
+// Why a train that a deadlocked day left waiting could not go on: one section it needed, and
+// who kept it from the train.
+struct DeadlockBlock {
+    enum class By : std::uint8_t {
+        held,         // another train holds it
+        promised,     // it is free, but promised to `train`, planned to use it first (timetable order)
+        disruption,   // out of use (a disruption); `train` is not used
+    };
+    std::uint32_t section = 0;   // index into SimResult::section_names
+    By by = By::held;
+    std::uint32_t train = 0;     // index into SimResult::train_ids: the holder, or whom it is promised to
+};
+
+// A train that had not finished when the day stopped: where it was and what it waited for.
+// Times in s after midnight, places in m along the line; NaN where a field does not apply.
+struct DeadlockWait {
+    enum class For : std::uint8_t {
+        appear,       // to appear at its origin: the sections it would stand on are not free
+        enter,        // to enter over the line end: the route from `signal` is not granted
+        entry_view,   // to enter: the route from `signal` is set, but the signal is not in view
+                      // from outside the line
+        route,        // on the line: the route from `signal` is not granted
+        view,         // on the line: the route from `signal` is set, but the signal is not in view
+                      // from where the train stands
+        request,      // the route from `signal` was never asked for
+        other,        // none of these (the engine should not leave a train so: a fault to report)
+    };
+    static constexpr double kNone = std::numeric_limits<double>::quiet_NaN();
+
+    std::uint32_t train = 0;   // index into SimResult::train_ids
+    For waits_for = For::other;
+    double chainage = kNone;   // where its head stands; NaN when it is not on the line
+    std::string station;       // the timing point where it stands at a scheduled stop (waiting to
+                               // appear: its origin), else empty
+    double since = kNone;      // when it began to wait: stood still, was ready to leave, or was due
+    std::string signal;        // entry signal of the route it waits for (empty: waits to appear)
+    double route_set = kNone;  // entry_view and view: when that route was set
+    double read_from = kNone;  // entry_view and view: where the signal comes into view
+    std::vector<DeadlockBlock> blocks;   // the sections it needs that others keep from it
+};
+
 struct DeadlockReport {
     bool deadlocked = false;
     double time = 0.0;        // when the last event happened
-    std::string description;  // which trains wait for which sections, held by whom
+    std::vector<DeadlockWait> waiting;   // every train not finished, in train order
+    // In words (sim/deadlock_text): the cause in one line (the trains that wait for each other,
+    // or the chain of waits down to what holds them all), and a line per waiting train.
+    std::string cause;
+    std::string description;
 };
 
 struct SimResult {

@@ -6,9 +6,9 @@
 #include <cmath>
 #include <limits>
 #include <map>
-#include <sstream>
 #include <stdexcept>
 
+#include "sim/deadlock_text.hpp"
 #include "sim/event_queue.hpp"
 
 namespace knockon {
@@ -1206,37 +1206,76 @@ void Day::handle(const Event& e) {
 }
 
 void Day::report_deadlock() {
-    std::ostringstream msg;
-    std::size_t stuck = 0;
+    // Every train not finished, with what it waits for and who keeps that from it (sim_result.hpp,
+    // DeadlockWait); the words follow from these (sim/deadlock_text).
+    DeadlockReport& report = out_.deadlock;
+    report.time = now_;
+    report.waiting.clear();
     for (std::uint32_t t = 0; t < st_.size(); ++t) {
         const TrainState& s = st_[t];
         if (s.phase == Phase::finished) continue;
-        ++stuck;
-        const TrainPath& path = run_of(t).path;
-        msg << "train " << run_of(t).service->id << " stands at "
-            << path.chainage_at(std::clamp(s.s_stand, path.s_min, path.s_max)) / 1000.0 << " km";
-        for (const Pending& p : pending_) {
-            if (p.train != t) continue;
-            const std::vector<std::uint32_t>& secs =
-                p.route < 0 ? train(t).origin_sections : train(t).routes[p.route].sections;
-            msg << (p.route < 0 ? ", waiting to appear" : ", waiting for the route from " +
-                                                             train(t).routes[p.route].entry_signal);
-            for (std::uint32_t g : secs) {
-                std::uint32_t b = interlocking_.blocker(t, g);
-                if (b == kNoTrain) continue;
-                if (b == kDisruption) {
-                    msg << "; section " << model_.section_names()[g] << " out of use (disruption)";
-                    continue;
+        const ServiceRun& run = run_of(t);
+        const TrainPath& path = run.path;
+        const auto& routes = train(t).routes;
+        auto chainage = [&](double p) {
+            return std::isfinite(p) ? path.chainage_at(std::clamp(p, path.s_min, path.s_max)) : kNoTime;
+        };
+        const bool outside = s.phase == Phase::waiting;
+        DeadlockWait w;
+        w.train = t;
+        if (!outside) w.chainage = chainage(head_position(t));
+        if (s.phase == Phase::standing && s.stop_call >= 0) w.station = run.calls[s.stop_call].station;
+        if (outside) w.since = run.appear_time + (t < delays_.entry.size() ? delays_.entry[t] : 0.0);
+        else if (s.phase == Phase::moving) w.since = s.t0;
+        else w.since = s.stop_call >= 0 && !std::isnan(s.ready_time) ? s.ready_time : s.stand_since;
+
+        const Pending* pending = nullptr;
+        for (const Pending& p : pending_)
+            if (p.train == t) pending = &p;
+        const std::vector<std::uint32_t>* needed = nullptr;
+        if (pending && pending->route < 0) {
+            w.waits_for = DeadlockWait::For::appear;
+            if (!run.calls.empty()) w.station = run.calls.front().station;
+            needed = &train(t).origin_sections;
+        } else if (pending) {
+            const SimModel::Route& r = routes[static_cast<std::size_t>(pending->route)];
+            w.waits_for = outside ? DeadlockWait::For::enter : DeadlockWait::For::route;
+            w.signal = r.entry_signal;
+            needed = &r.sections;
+        } else if (s.phase != Phase::moving) {
+            // Nothing it asked for is outstanding: the route that would take its authority on is
+            // set but not seen, or was never asked for.
+            std::size_t j = 0;
+            while (j < routes.size() && routes[j].s_entry < s.eoa - kPositionTolerance) ++j;
+            if (j < routes.size()) {
+                w.signal = routes[j].entry_signal;
+                if (std::isnan(s.route_set[j])) {
+                    w.waits_for = DeadlockWait::For::request;
+                } else {
+                    w.waits_for = outside ? DeadlockWait::For::entry_view : DeadlockWait::For::view;
+                    w.route_set = s.route_set[j];
+                    w.read_from = chainage(routes[j].read_point);
                 }
-                msg << "; section " << model_.section_names()[g] << " held by or promised to train "
-                    << run_of(b).service->id;
             }
         }
-        msg << "\n";
+        if (needed)
+            for (std::uint32_t g : *needed) {
+                const std::uint32_t b = interlocking_.blocker(t, g);
+                if (b == kNoTrain) continue;
+                DeadlockBlock block;
+                block.section = g;
+                if (b == kDisruption) {
+                    block.by = DeadlockBlock::By::disruption;
+                } else {
+                    block.train = b;
+                    block.by = interlocking_.holder(g) == b ? DeadlockBlock::By::held : DeadlockBlock::By::promised;
+                }
+                w.blocks.push_back(block);
+            }
+        report.waiting.push_back(std::move(w));
     }
-    out_.deadlock.deadlocked = stuck > 0;
-    out_.deadlock.time = now_;
-    out_.deadlock.description = msg.str();
+    report.deadlocked = !report.waiting.empty();
+    put_deadlock_into_words(report, out_.train_ids, out_.section_names);
 }
 
 SimResult Day::run() {

@@ -4,6 +4,7 @@
 #include <atomic>
 #include <condition_variable>
 #include <functional>
+#include <limits>
 #include <map>
 #include <mutex>
 #include <stdexcept>
@@ -130,8 +131,12 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
         if (failure) std::rethrow_exception(failure);
         // Fold the batch in on this thread, in replication order: the running sums then add up in
         // the same order whatever the thread count.  The day's detail goes with its slot.
+        // A deadlocked day keeps its per-day record only: it is a result, never a figure.
         for (ReplicationFigures& r : slots) {
-            out.figures.add(r);
+            if (!r.stats.deadlocked)
+                out.figures.add(r);
+            else if (!out.first_deadlock)
+                out.first_deadlock = DeadlockedDay{r.stats.replication, std::move(r.deadlock)};
             out.replications.push_back(std::move(r.stats));
         }
         started = end;
@@ -154,11 +159,12 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
             out.partial = started < cap;
             break;
         }
-        if (options.until_ci > 0.0 && out.replications.size() >= 10) {
+        if (options.until_ci > 0.0) {
             std::vector<double> k;
             k.reserve(out.replications.size());
-            for (const ReplicationStats& r : out.replications) k.push_back(r.total_knock_on);
-            if (estimate_mean(k).half_width < options.until_ci) break;
+            for (const ReplicationStats& r : out.replications)
+                if (!r.deadlocked) k.push_back(r.total_knock_on);
+            if (k.size() >= 10 && estimate_mean(k).half_width < options.until_ci) break;
         }
     }
     return out;
@@ -169,22 +175,33 @@ StudySummary summarize_study(const SimModel& model, const StudyResult& study, co
     const auto& reps = study.replications;
     s.replications = reps.size();
     s.thresholds = thresholds;
-    if (reps.empty()) return s;
+    for (const ReplicationStats& r : reps) s.deadlocked += r.deadlocked ? 1 : 0;
+    s.complete = s.replications - s.deadlocked;
+    s.first_deadlock = study.first_deadlock;
+    if (s.complete == 0) {
+        // No day ran to the end: no figure at all, rather than zeros that look like one.
+        Estimate none;
+        none.mean = none.half_width = none.lower = none.upper = std::numeric_limits<double>::quiet_NaN();
+        s.total_primary = s.total_knock_on = s.mean_arrival_delay = none;
+        s.knock_on_ratio = none.mean;
+        s.punctuality.assign(thresholds.size(), none);
+        return s;
+    }
     const StudyFigures& fig = study.figures;
-    if (fig.days() != reps.size())
+    if (fig.days() != s.complete)
         throw std::invalid_argument("summarize_study: the study's figures hold " + std::to_string(fig.days()) +
-                                    " days but it has " + std::to_string(reps.size()) + " replications");
+                                    " days but it has " + std::to_string(s.complete) + " complete days");
     if (fig.thresholds() != thresholds)
         throw std::invalid_argument("summarize_study: the punctuality thresholds differ from those the study ran with");
 
-    // Per-day scalars: two passes over the kept days.
+    // Per-day scalars: two passes over the complete days.
     auto collect = [&](auto field) {
         std::vector<double> v;
-        v.reserve(reps.size());
-        for (const ReplicationStats& r : reps) v.push_back(field(r));
+        v.reserve(s.complete);
+        for (const ReplicationStats& r : reps)
+            if (!r.deadlocked) v.push_back(field(r));
         return v;
     };
-    for (const ReplicationStats& r : reps) s.deadlocked += r.deadlocked ? 1 : 0;
     s.total_primary = estimate_mean(collect([](const ReplicationStats& r) { return r.total_primary; }));
     s.total_knock_on = estimate_mean(collect([](const ReplicationStats& r) { return r.total_knock_on; }));
     s.mean_arrival_delay = estimate_mean(collect([](const ReplicationStats& r) { return r.mean_arrival_delay; }));

@@ -5,6 +5,7 @@
 #include <atomic>
 #include <cstdint>
 #include <functional>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -18,7 +19,8 @@ struct StudyOptions {
     std::uint32_t replications = 100;
     unsigned threads = 1;
     double until_ci = 0.0;              // >0: go on until the 95 % CI half-width of the mean total
-                                        // knock-on per day is below this [s] (replications = cap)
+                                        // knock-on per day (over the complete days, at least 10 of
+                                        // them) is below this [s] (replications = cap)
     std::uint32_t batch = 50;           // replications between checks of until_ci / stop
     std::vector<double> thresholds = {180.0, 300.0};
     SimOptions sim;
@@ -33,12 +35,22 @@ struct StudyOptions {
     const std::atomic<bool>* stop = nullptr;   // set (e.g. by Ctrl-C): finish the batch, then stop
 };
 
+// The first day of a study, in replication order, that ended in deadlock: which, and why.
+struct DeadlockedDay {
+    std::uint32_t replication = 0;
+    DeadlockReport report;   // read back from a results file: time, cause and description only
+};
+
+// A day that ended in deadlock is a result, never a figure: it keeps its per-day record
+// (ReplicationStats, flagged `deadlocked`), but enters no figure across days (StudyFigures, the
+// summary, the --until-ci rule); those are of the days that ran to the end.
 struct StudyResult {
-    std::vector<ReplicationStats> replications;   // in replication order, 0..n-1
+    std::vector<ReplicationStats> replications;   // in replication order, 0..n-1, deadlocked days too
     bool partial = false;                         // stopped before the planned replications
     std::vector<std::string> train_ids, section_names;
     std::vector<TimingRecord> timing_template;    // scheduled times, stations (from replication 0)
-    StudyFigures figures;                         // the other across-day figures, of the same days
+    StudyFigures figures;                         // the other across-day figures, of the complete days
+    std::optional<DeadlockedDay> first_deadlock;  // none when no day deadlocked
 };
 
 StudyResult run_study(const SimModel& model, const StudyOptions& options);
@@ -75,8 +87,12 @@ struct SignalStats {
     Estimate held;   // time trains stood at it, per day [s]
 };
 
+// Every figure is over the complete days alone (none when no day ran to the end: NaN means,
+// empty tables).
 struct StudySummary {
-    std::size_t replications = 0, deadlocked = 0;
+    std::size_t replications = 0, deadlocked = 0;   // days simulated; of them, ended in deadlock
+    std::size_t complete = 0;                       // the rest: the days every figure is over
+    std::optional<DeadlockedDay> first_deadlock;
     std::vector<double> thresholds;
     Estimate total_primary, total_knock_on, mean_arrival_delay;
     double knock_on_ratio = 0.0;        // mean knock-on / mean primary per day

@@ -16,6 +16,7 @@ ReplicationFigures replication_figures(const SimModel& model, const SimResult& d
     ReplicationStats& s = r.stats;
     s.replication = replication;
     s.deadlocked = day.deadlock.deadlocked;
+    if (s.deadlocked) r.deadlock = day.deadlock;
     s.events = day.events;
     s.block_passages = day.block_passages;
     const DaySummary d = summarize_day(day, thresholds);

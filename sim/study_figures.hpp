@@ -25,21 +25,24 @@
 
 namespace knockon {
 
-// The figures of one simulated day that are kept for every day of a study.
+// The figures of one simulated day that are kept for every day of a study.  A day that ended in
+// deadlock keeps its sums up to the deadlock, but no mean or share over the arrivals it recorded
+// (NaN: DaySummary); it enters no figure across days.
 struct ReplicationStats {
     std::uint32_t replication = 0;
     bool deadlocked = false;
     std::uint64_t events = 0, block_passages = 0;
     double total_primary = 0.0;      // primary delay injected into all trains [s]
     double total_knock_on = 0.0;     // knock-on (secondary) delay of all trains [s]
-    double mean_arrival_delay = 0.0; // over arrivals and passes, early counted as 0 [s]
-    std::vector<double> punctuality; // share of arrivals within each threshold
+    double mean_arrival_delay = 0.0; // over arrivals and passes, early counted as 0 [s]; NaN if deadlocked
+    std::vector<double> punctuality; // share of arrivals within each threshold; NaN if deadlocked
 };
 
 // Everything one simulated day contributes to a study: its ReplicationStats, and the detail that
 // StudyFigures folds into its running figures before the day is dropped.
 struct ReplicationFigures {
     ReplicationStats stats;
+    DeadlockReport deadlock;            // the day's, when it ended in deadlock (else empty)
     std::vector<float> arrival_delay;   // per timing record (SimResult::timing order) [s]; NaN: not reached
     std::vector<float> knock_on;        // per timing record [s]
     std::vector<float> train_primary, train_knock_on, train_final_delay;   // per train [s]

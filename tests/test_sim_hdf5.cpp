@@ -22,10 +22,12 @@
 #include "tools/io/hdf5_file.hpp"
 #include "tools/io/output_file.hpp"
 #include "tools/io/plan_output.hpp"
+#include "tools/io/results_file.hpp"
 #include "tools/io/sim_hdf5.hpp"
 
 using namespace knockon;
 using Catch::Matchers::Contains;
+using Catch::Matchers::StartsWith;
 namespace fs = std::filesystem;
 using clitest::read_text;
 using h5test::Reader;
@@ -58,7 +60,26 @@ SimResult small_result() {
     // samples stay empty: the trajectories dataset must still exist, with 0 records.
     r.deadlock.deadlocked = true;
     r.deadlock.time = 30000.5;
+    r.deadlock.cause = "frt9 waits for regional-2040";
     r.deadlock.description = "train frt9 waits for S02, held by regional-2040";
+    // frt9 stands at a signal, kept from its route by each kind of block; regional-2040 cannot
+    // enter: its route is set, but its signal is out of view from outside the line.
+    DeadlockWait frt9;
+    frt9.train = 2;
+    frt9.waits_for = DeadlockWait::For::route;
+    frt9.chainage = 12345.5;
+    frt9.since = 29990.25;
+    frt9.signal = "S02";
+    frt9.blocks = {{1, DeadlockBlock::By::held, 1}, {2, DeadlockBlock::By::promised, 0},
+                   {3, DeadlockBlock::By::disruption, 0}};
+    DeadlockWait regional;
+    regional.train = 1;
+    regional.waits_for = DeadlockWait::For::entry_view;
+    regional.since = 28860.0;
+    regional.signal = "U01";
+    regional.route_set = 28851.5;
+    regional.read_from = 150.0;
+    r.deadlock.waiting = {frt9, regional};
     r.events = 1234567;
     r.block_passages = 42;
     return r;
@@ -95,8 +116,9 @@ struct TempDir {
     }
 };
 
-const char* const kDatasets[] = {"/day/trains",  "/day/sections", "/day/timing",      "/day/occupancy",
-                                 "/day/routes", "/day/holds",    "/day/trajectories"};
+const char* const kDatasets[] = {"/day/trains",       "/day/sections", "/day/timing",   "/day/occupancy",
+                                 "/day/routes",       "/day/holds",    "/day/trajectories", "/day/deadlock",
+                                 "/day/deadlock_blocks"};
 
 }  // namespace
 
@@ -115,6 +137,8 @@ TEST_CASE("HDF5 results: every dataset exists with its record count", "[sim_hdf5
     CHECK(f.count("/day/routes") == 2);
     CHECK(f.count("/day/holds") == 1);
     CHECK(f.count("/day/trajectories") == 0);  // empty, but created
+    CHECK(f.count("/day/deadlock") == 2);         // one per waiting train
+    CHECK(f.count("/day/deadlock_blocks") == 3);  // one per section kept from one
 
     // HDF5_LAYOUT.md: the fields of each table, in order.
     using Names = std::vector<std::string>;
@@ -129,6 +153,9 @@ TEST_CASE("HDF5 results: every dataset exists with its record count", "[sim_hdf5
           Names{"train", "entry_signal", "exit_signal", "requested", "granted", "cleared"});
     CHECK(f.field_names("/day/holds") == Names{"train", "signal", "from", "to"});
     CHECK(f.field_names("/day/trajectories") == Names{"train", "time", "position", "chainage", "speed"});
+    CHECK(f.field_names("/day/deadlock") == Names{"train", "waits_for", "chainage", "station", "since", "signal",
+                                                  "route_set", "read_from", "text"});
+    CHECK(f.field_names("/day/deadlock_blocks") == Names{"train", "section", "by", "holder"});
 
     for (const char* name : kDatasets) {
         INFO(name);
@@ -213,7 +240,7 @@ TEST_CASE("HDF5 results: root and /day attributes", "[sim_hdf5]") {
 
     // Layout of tools/io/HDF5_LAYOUT.md (our own spec).
     CHECK(f.attr_class("/", "schema_version") == H5T_INTEGER);
-    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 3);
+    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 4);
     CHECK(f.text_attr("/", "kind") == "day");
     CHECK(f.text_attr("/", "variant") == "base");
     CHECK(f.number_attr<double>("/", "step_m", H5T_NATIVE_DOUBLE) == 1.5);
@@ -232,7 +259,66 @@ TEST_CASE("HDF5 results: root and /day attributes", "[sim_hdf5]") {
     CHECK(f.number_attr<std::uint64_t>("/day", "block_passages", H5T_NATIVE_UINT64) == 42);
     CHECK(f.number_attr<std::uint8_t>("/day", "deadlocked", H5T_NATIVE_UINT8) == 1);
     CHECK(f.text_attr("/day", "deadlock_description") == "train frt9 waits for S02, held by regional-2040");
+    CHECK(f.text_attr("/day", "deadlock_cause") == "frt9 waits for regional-2040");
     CHECK(f.number_attr<double>("/day", "last_event_time", H5T_NATIVE_DOUBLE) == 30000.5);
+    // ic101 reached CC, its last timing point; regional-2040 only left AA; frt9 has no record.
+    CHECK(f.number_attr<std::uint32_t>("/day", "trains_not_finished", H5T_NATIVE_UINT32) == 2);
+    // The deadlock is stated first, on the root: how many days (a day file: 1) and what happened
+    // (30000.5 s is 08:20:01 to the nearest second).
+    CHECK(f.number_attr<std::uint32_t>("/", "deadlocked_days", H5T_NATIVE_UINT32) == 1);
+    CHECK_THAT(f.text_attr("/", "deadlock_notice"), StartsWith("DEADLOCK at 08:20:01"));
+    CHECK_THAT(f.text_attr("/", "deadlock_notice"),
+               Contains("2 of 3 trains never reached their last timing point") &&
+                   Contains("Cause: frt9 waits for regional-2040.") && Contains("no punctuality"));
+}
+
+TEST_CASE("HDF5 results: the deadlock report reads back as written", "[sim_hdf5][deadlock]") {
+    // tools/io/HDF5_LAYOUT.md /day/deadlock and /day/deadlock_blocks, read by read_results.
+    TempDir dir("deadlock");
+    const fs::path out = dir.path / "run.h5";
+    const SimResult r = small_result();
+    write_sim_hdf5(out.string(), r, small_info());
+    const ResultsFile file = read_results(out.string());
+    REQUIRE(file.day);
+    const DeadlockReport& got = file.day->deadlock;
+    CHECK(got.deadlocked);
+    CHECK(got.time == 30000.5);
+    CHECK(got.cause == r.deadlock.cause);
+    CHECK(got.description == r.deadlock.description);
+    REQUIRE(got.waiting.size() == 2);
+    for (std::size_t i = 0; i < 2; ++i) {
+        const DeadlockWait &a = got.waiting[i], &b = r.deadlock.waiting[i];
+        INFO("waiting train " << i);
+        CHECK(a.train == b.train);
+        CHECK(a.waits_for == b.waits_for);
+        CHECK(std::isnan(a.chainage) == std::isnan(b.chainage));
+        if (!std::isnan(b.chainage)) CHECK(a.chainage == b.chainage);
+        CHECK(a.station == b.station);
+        CHECK(a.since == b.since);
+        CHECK(a.signal == b.signal);
+        CHECK(std::isnan(a.route_set) == std::isnan(b.route_set));
+        CHECK(std::isnan(a.read_from) == std::isnan(b.read_from));
+        REQUIRE(a.blocks.size() == b.blocks.size());
+        for (std::size_t k = 0; k < a.blocks.size(); ++k) {
+            CHECK(a.blocks[k].section == b.blocks[k].section);
+            CHECK(a.blocks[k].by == b.blocks[k].by);
+            if (b.blocks[k].by != DeadlockBlock::By::disruption) CHECK(a.blocks[k].train == b.blocks[k].train);
+        }
+    }
+    CHECK(got.waiting[1].route_set == 28851.5);
+    CHECK(got.waiting[1].read_from == 150.0);
+
+    // A day that ran to the end: empty tables, root says 0 days and no notice.
+    SimResult clean = small_result();
+    clean.deadlock = DeadlockReport{};
+    const fs::path plain = dir.path / "plain.h5";
+    write_sim_hdf5(plain.string(), clean, small_info());
+    Reader f(plain);
+    CHECK(f.count("/day/deadlock") == 0);
+    CHECK(f.count("/day/deadlock_blocks") == 0);
+    CHECK(f.number_attr<std::uint32_t>("/", "deadlocked_days", H5T_NATIVE_UINT32) == 0);
+    CHECK(f.text_attr("/", "deadlock_notice").empty());
+    CHECK(read_results(plain.string()).day->deadlock.waiting.empty());
 }
 
 TEST_CASE("HDF5 results: an empty program_version means this build's version", "[sim_hdf5]") {

@@ -20,6 +20,8 @@ except ImportError:  # optional
     pd = None
 
 TABLES = ("trains", "sections", "timing", "occupancy", "routes", "holds", "trajectories")
+# Schema 4 and later: the trains a deadlocked day left waiting (empty when the day ran to the end).
+DEADLOCK_TABLES = ("deadlock", "deadlock_blocks")
 STUDY_TABLES = ("per_day", "summary", "timing_points", "trains", "signals", "sections", "trains_index",
                 "sections_index")
 
@@ -59,10 +61,11 @@ def load_day(path, group="day"):
     """
     with h5py.File(path, "r") as f:
         day = f[group]
-        tables = {name: decode_text_fields(day[name][:]) for name in TABLES}
+        names = TABLES + tuple(name for name in DEADLOCK_TABLES if name in day)
+        tables = {name: decode_text_fields(day[name][:]) for name in names}
         facts = {k: attr_value(v) for k, v in f.attrs.items()}
         day_facts = {k: attr_value(v) for k, v in day.attrs.items()}
-        units = {name: attr_value(day[name].attrs["units"]) for name in TABLES}
+        units = {name: attr_value(day[name].attrs["units"]) for name in names}
     if pd is None:
         return facts, day_facts, units, tables
     train_ids = tables["trains"]["id"]
@@ -71,7 +74,9 @@ def load_day(path, group="day"):
     for name, frame in frames.items():
         if name not in ("trains", "sections"):
             frame["train_id"] = train_ids[frame["train"].to_numpy()]
-    frames["occupancy"]["section_id"] = section_ids[frames["occupancy"]["section"].to_numpy()]
+    for name in ("occupancy", "deadlock_blocks"):
+        if name in frames:
+            frames[name]["section_id"] = section_ids[frames[name]["section"].to_numpy()]
     return facts, day_facts, units, frames
 
 
@@ -127,6 +132,7 @@ def main_comparison(path):
     print(f"{path}: {facts.get('program')} {facts.get('program_version')}, schema {facts.get('schema_version')}, "
           f"comparison of scenario '{facts.get('scenario_name')}', seed {facts.get('seed')}, "
           f"{facts.get('replications')} days per variant")
+    show_deadlock(facts)
     print(f"caution: {facts.get('caution')}")
     print(f"variants: {', '.join(str(n) for n in variants['name'])} "
           f"(differences against {comparison_facts['differences_against']})")
@@ -140,6 +146,12 @@ def main_comparison(path):
     return 0
 
 
+def show_deadlock(facts):
+    """Deadlocked days come first (schema 4 and later): the figures leave them out."""
+    if facts.get("deadlock_notice"):
+        print(facts["deadlock_notice"])
+
+
 def show(name, table, units):
     print(f"\n{name}: {len(table)} records  [{units}]")
     if len(table):
@@ -150,6 +162,7 @@ def main_study(path):
     facts, study_facts, units, tables, traced = load_study(path)
     print(f"{path}: {facts.get('program')} {facts.get('program_version')}, schema {facts.get('schema_version')}, "
           f"study of scenario '{facts.get('scenario_name')}', seed {facts.get('seed')}")
+    show_deadlock(facts)
     print(f"caution: {facts.get('caution')}")
     print(f"study: {study_facts['replications']} days{' (PARTIAL)' if study_facts['partial'] else ''}, "
           f"{study_facts['deadlocked_days']} deadlocked, knock-on/primary {study_facts['knock_on_ratio']:.2f}, "
@@ -187,10 +200,11 @@ def main(argv):
 
     print(f"{argv[1]}: {facts.get('program')} {facts.get('program_version')}, "
           f"schema {facts.get('schema_version')}, scenario '{facts.get('scenario_name')}', seed {facts.get('seed')}")
+    show_deadlock(facts)
     print(f"caution: {facts.get('caution')}")
     print(f"day: {day_facts.get('events')} events, {day_facts.get('block_passages')} block passages, "
           f"deadlocked={bool(day_facts.get('deadlocked'))}")
-    for name in TABLES:
+    for name in tables:
         show(name, tables[name], units[name])
 
     timing = tables["timing"]

@@ -47,9 +47,15 @@ std::optional<ReplicationChoice> choose_replication(const std::vector<Replicatio
         return ReplicationChoice{*requested, "replication " + std::to_string(*requested) + ", as asked for"};
     }
     if (traced.empty()) return std::nullopt;
+    // Deadlocked days are no typical day: they enter neither the median nor the choice.
     std::vector<double> all;
     std::map<std::uint32_t, double> knock_on;
+    std::size_t deadlocked_traced = 0;
     for (const ReplicationStats& r : per_day) {
+        if (r.deadlocked) {
+            deadlocked_traced += std::count(traced.begin(), traced.end(), r.replication);
+            continue;
+        }
         all.push_back(r.total_knock_on);
         knock_on[r.replication] = r.total_knock_on;
     }
@@ -65,12 +71,17 @@ std::optional<ReplicationChoice> choose_replication(const std::vector<Replicatio
             best = k;
         }
     }
-    if (!best) best = traced.front();   // no per-day figures for the traced days: the first one
+    if (!best) best = traced.front();   // no complete traced day (or no per-day figures): the first one
     const auto it = knock_on.find(*best);
     std::string reason = "replication " + std::to_string(*best) + ", the traced day";
     if (it != knock_on.end() && std::isfinite(m))
         reason += " whose knock-on delay (" + minutes_text(it->second) + ") is nearest the median over all " +
-                  std::to_string(all.size()) + " days (" + minutes_text(m) + ")";
+                  std::to_string(all.size()) + " complete days (" + minutes_text(m) + ")";
+    else if (deadlocked_traced == traced.size())
+        reason += " first traced: every traced day ended in deadlock";
+    if (deadlocked_traced > 0 && deadlocked_traced < traced.size())
+        reason += "; " + std::to_string(deadlocked_traced) + " traced day" + (deadlocked_traced == 1 ? "" : "s") +
+                  " that ended in deadlock left out";
     reason += "; " + std::to_string(traced.size()) + " day" + (traced.size() == 1 ? " was" : "s were") +
               " traced; --replication K draws another";
     return ReplicationChoice{*best, reason};

@@ -25,9 +25,10 @@ struct ReplicationChoice {
 
 // Which traced day of a study to draw.  `requested`: that one, if it was traced (otherwise
 // std::invalid_argument naming the traced ones).  Otherwise the traced day whose total knock-on
-// delay is nearest the median total knock-on over all days of `per_day` (the lower replication
-// number on a tie), so the picture shows a typical day rather than a lucky or a bad one.
-// nullopt when no day was traced.
+// delay is nearest the median total knock-on over all complete days of `per_day` (the lower
+// replication number on a tie), so the picture shows a typical day rather than a lucky or a bad
+// one; days that ended in deadlock are left out of both (the first traced day when every traced
+// day deadlocked).  nullopt when no day was traced.
 std::optional<ReplicationChoice> choose_replication(const std::vector<ReplicationStats>& per_day,
                                                     const std::vector<std::uint32_t>& traced,
                                                     std::optional<std::uint32_t> requested);

@@ -85,6 +85,34 @@ void draw_footnote(svg::Element& doc, const ChartOptions& options, double x, dou
     if (!options.footnote.empty()) doc.add(svg::text(x, height - 8, options.footnote, "footnote"));
 }
 
+svg::Element with_alert(svg::Element chart, const std::string& statement) {
+    constexpr double kFont = 13.0, kLine = 17.0, kPad = 10.0;
+    const double width = std::stod(chart.attribute("width")), height = std::stod(chart.attribute("height"));
+    // Words wrapped greedily to the width.
+    std::vector<std::string> lines(1);
+    std::size_t start = 0;
+    while (start < statement.size()) {
+        std::size_t end = statement.find(' ', start);
+        if (end == std::string::npos) end = statement.size();
+        const std::string word = statement.substr(start, end - start);
+        const std::string joined = lines.back().empty() ? word : lines.back() + " " + word;
+        if (!lines.back().empty() && text_width(joined, kFont) > width - 4.0 * kPad) lines.push_back(word);
+        else lines.back() = joined;
+        start = end + 1;
+    }
+    const double band = 2.0 * kPad + kLine * static_cast<double>(lines.size()) + kPad;
+    svg::Element doc = svg::document(width, height + band, statement);
+    doc.css_class("knockon-chart with-alert");
+    doc.add(svg::style(chart_css()));
+    doc.add(svg::rect(0, 0, width, height + band, "background"));
+    doc.add(svg::rect(kPad / 2.0, kPad / 2.0, width - kPad, band - kPad, "alert-box"));
+    for (std::size_t i = 0; i < lines.size(); ++i)
+        doc.add(svg::text(2.0 * kPad, kPad + kLine * static_cast<double>(i + 1), lines[i], "alert"));
+    chart.attr("y", band);
+    doc.add(std::move(chart));
+    return doc;
+}
+
 const std::string& chart_css() {
     // Train categories differ in lightness and dash pattern as well as in hue, and bar series in
     // lightness, so they stay apart in greyscale print and for colour-blind readers; no red/green
@@ -130,6 +158,8 @@ const std::string& chart_css() {
 .knockon-chart .legend-label { font-size: 11px; }
 .knockon-chart .empty-note { font-size: 14px; fill: #555555; }
 .knockon-chart .footnote { font-size: 9.5px; fill: #444444; }
+.knockon-chart .alert { font-size: 13px; font-weight: bold; }
+.knockon-chart .alert-box { fill: #ffffff; stroke: #1a1a1a; stroke-width: 2.5; }
 .knockon-chart .cap-bar, .knockon-chart .legend-bar, .knockon-chart .bar, .knockon-chart .hbar { stroke: #1a1a1a; stroke-width: 0.6; }
 .knockon-chart .win-peak, .knockon-chart .ser-0 { fill: #1b3b6f; }
 .knockon-chart .win-day, .knockon-chart .ser-1 { fill: #a9c1e0; }

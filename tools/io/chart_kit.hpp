@@ -49,4 +49,9 @@ svg::Element chart_document(double width, double height, const std::string& clas
 // The footnote at the bottom-left (if any).
 void draw_footnote(svg::Element& doc, const ChartOptions& options, double x, double height);
 
+// A finished chart (from chart_document) under a framed statement that must be read before its
+// figures, e.g. that days ended in deadlock: a new outer <svg> ("knockon-chart with-alert") that
+// holds the statement (class "alert", wrapped to the width) and, below it, the chart unchanged.
+svg::Element with_alert(svg::Element chart, const std::string& statement);
+
 }  // namespace knockon

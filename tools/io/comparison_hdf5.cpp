@@ -5,6 +5,7 @@
 #include <optional>
 #include <stdexcept>
 
+#include "tools/io/deadlock_output.hpp"
 #include "tools/io/hdf5_file.hpp"
 #include "tools/io/study_hdf5.hpp"
 
@@ -83,8 +84,8 @@ void write_differences(const h5::Group& g, const std::vector<DifferenceRow>& row
     describe(t, std::string("variant: text, figure: text, unit: text (s or share), ") + kEstimateUnits,
              "Each variant after the first minus the first (the reference): for the per-day figures the "
              "mean of the day-by-day differences (common random numbers) with its 95 % Student-t interval "
-             "over n days; for the plan figures (plan_*, deterministic) the difference alone, interval NaN "
-             "and n = 0.");
+             "over the n days complete in both (not ended in deadlock); for the plan figures (plan_*, "
+             "deterministic) the difference alone, interval NaN and n = 0.");
 }
 
 }  // namespace
@@ -142,6 +143,9 @@ void ComparisonHdf5Writer::finish(const std::vector<ComparedVariant>& variants,
         const h5::Group root = state_->file.root();
         const std::size_t days = variants.front().study->replications.size();
         root.attributes().set_u32("replications", static_cast<std::uint32_t>(days));
+        std::vector<NamedSummary> named;
+        for (const ComparedVariant& v : variants) named.push_back({v.name, v.summary});
+        write_deadlock_attributes(root, deadlocked_days(named), comparison_deadlock_notice(named));
         {
             const h5::Group all = root.create_group("variants");
             for (const ComparedVariant& v : variants)

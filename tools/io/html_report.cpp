@@ -23,6 +23,8 @@ h2 { font-size: 1.25em; border-bottom: 2px solid #1b3b6f; padding-bottom: 2px; m
 p { max-width: 60em; }
 .caution { border: 2px solid #1a1a1a; border-left-width: 10px; background: #fff4e0; padding: 10px 14px;
            font-size: 1.05em; margin: 12px 0 16px; max-width: 60em; }
+.alert { border: 3px solid #1a1a1a; background: #ffffff; padding: 10px 14px; font-size: 1.05em;
+         margin: 12px 0 16px; max-width: 60em; }
 .notes { font-size: 0.92em; color: #333333; padding-left: 1.2em; }
 table { border-collapse: collapse; font-size: 0.9em; margin: 8px 0 16px; }
 caption { text-align: left; font-weight: bold; padding: 4px 0; }
@@ -43,7 +45,7 @@ footer { margin-top: 2.5em; border-top: 1px solid #b5b5b5; padding-top: 6px; fon
   body { max-width: none; padding: 0; font-size: 10pt; }
   nav { display: none; }
   section.page { break-before: page; }
-  figure, table, .caution, h2 { break-inside: avoid; }
+  figure, table, .caution, .alert, h2 { break-inside: avoid; }
   h2 { break-after: avoid; }
   thead { display: table-header-group; }
   a { color: inherit; text-decoration: none; }
@@ -200,6 +202,8 @@ std::string render_html(const Report& report) {
     out += std::string("<meta name=\"generator\" content=\"knockon ") + KNOCKON_VERSION + "\">\n";
     out += "<title>" + html_escape(report.title) + "</title>\n<style>" + kPageCss + "</style>\n</head>\n<body>\n";
     out += "<header>\n<h1>" + html_escape(report.title) + "</h1>\n";
+    for (const std::string& a : report.alerts)
+        out += "<div class=\"alert\" role=\"alert\"><strong>Read first.</strong> " + html_escape(a) + "</div>\n";
     if (!report.caution.empty())
         out += "<div class=\"caution\" role=\"note\"><strong>Caution.</strong> " + html_escape(report.caution) +
                "</div>\n";

@@ -23,6 +23,7 @@ struct ReportSection {
 
 struct Report {
     std::string title;                                        // plain text
+    std::vector<std::string> alerts;                          // plain text, first of all (e.g. a deadlock)
     std::vector<std::pair<std::string, std::string>> facts;   // label, value (plain text)
     std::string caution;                                      // shown prominently at the top
     std::vector<std::string> notes;                           // plain text, under the facts

@@ -6,6 +6,7 @@
 #include <stdexcept>
 
 #include "sim/day_summary.hpp"
+#include "tools/io/deadlock_output.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/study_hdf5.hpp"
 
@@ -82,6 +83,13 @@ const StoredStudy& study_of(const ResultsView& v) {
 
 bool is_study(const ResultsView& v) { return v.file && v.file->facts.kind == ResultsKind::study; }
 
+// "all 200 days", or "the 129 complete days" when some ended in deadlock.
+std::string days_of(const StudySummary& s) {
+    if (s.deadlocked == 0) return "all " + std::to_string(s.replications) + " days";
+    return "the " + std::to_string(s.complete) + " complete days (" + std::to_string(s.deadlocked) + " of " +
+           std::to_string(s.replications) + " ended in deadlock and are left out)";
+}
+
 const SimResult& day_of(const ResultsView& v) {
     if (!v.day) throw std::invalid_argument("this chart needs a day file");
     return *v.day;
@@ -109,9 +117,8 @@ CdfChart delay_cdf(const ResultsView& v, std::string& source) {
                 chart.series.push_back({categories[k], category_style(k),
                                         quantile_mixture_cdf(by_category[categories[k]], s.summary.thresholds)});
         all = quantile_mixture_cdf(every, s.summary.thresholds);
-        source = "From the study's statistics of every timing point over all " +
-                 std::to_string(s.summary.replications) +
-                 " days: its delay quantiles (p50, p90, p95, max) and its share of days within each threshold, "
+        source = "From the study's statistics of every timing point over " + days_of(s.summary) +
+                 ": its delay quantiles (p50, p90, p95, max) and its share of days within each threshold, "
                  "joined linearly and pooled over the timing points (each weighted by the days the train got "
                  "there); exact at those points only, an approximation between them.";
     } else {
@@ -153,8 +160,8 @@ GroupedBars punctuality_chart_data(const ResultsView& v, std::string& source) {
     if (is_study(v)) {
         const StudySummary& s = study_of(v).summary;
         for (const Estimate& e : s.punctuality) all.values.push_back({e.mean, e.lower, e.upper});
-        source = "All stations: the mean of the daily shares over " + std::to_string(s.replications) +
-                 " days with its 95 % Student-t interval. Each station: its arrivals and passes of all days "
+        source = "All stations: the mean of the daily shares over " + days_of(s) +
+                 " with its 95 % Student-t interval. Each station: its arrivals and passes of all days "
                  "pooled, with the 95 % Wilson score interval of the pooled count; arrivals of one day are "
                  "not independent of each other, so read these intervals as the least uncertainty there is.";
     } else {
@@ -192,8 +199,8 @@ GroupedBars primary_knock_on_data(const ResultsView& v, std::string& source) {
                              {s.total_knock_on.mean, s.total_knock_on.lower, s.total_knock_on.upper}}});
         source = "Per category the sum of its trains' mean delay per day (number of trains in brackets); all "
                  "trains: the mean per day over " +
-                 std::to_string(s.replications) +
-                 " days with its 95 % Student-t interval. Primary delay is what the study injected into the "
+                 days_of(s) +
+                 " with its 95 % Student-t interval. Primary delay is what the study injected into the "
                  "trains themselves; knock-on delay is what they lost to other trains and disruptions.";
     } else {
         double total = 0.0;
@@ -276,8 +283,10 @@ HBars variants_knock_on_data(const ResultsView& v, std::string& source) {
         const Estimate& e = vs[i].study.summary.total_knock_on;
         h.bars.push_back({vs[i].name, {e.mean, e.lower, e.upper}, i, ""});
     }
-    source = "Mean knock-on delay of all trains per day over " + std::to_string(v.file->facts.replications) +
-             " days, each variant with its 95 % Student-t interval; every variant saw the same primary delays.";
+    source = "Mean knock-on delay of all trains per day over each variant's complete days (" +
+             std::to_string(v.file->facts.replications) +
+             " simulated, those that ended in deadlock left out), with its 95 % Student-t interval; every variant "
+             "saw the same primary delays.";
     return h;
 }
 
@@ -336,6 +345,28 @@ std::vector<double> ResultsView::thresholds() const {
     return day_thresholds;
 }
 
+bool incomplete_day(const ResultsView& v) {
+    return v.file && v.file->facts.kind == ResultsKind::day && v.day && v.day->deadlock.deadlocked;
+}
+
+std::string results_deadlock_notice(const ResultsView& v) {
+    if (!v.file) return "";
+    switch (v.file->facts.kind) {
+        case ResultsKind::day: {
+            if (!v.day) return "";
+            const DaySummary d = summarize_day(*v.day, v.thresholds());
+            return day_deadlock_notice(v.day->deadlock, d.trains, d.trains - d.finished);
+        }
+        case ResultsKind::study: return v.file->study ? study_deadlock_notice(v.file->study->summary) : "";
+        case ResultsKind::comparison: {
+            std::vector<NamedSummary> named;
+            for (const VariantFigures& f : v.file->variants) named.push_back({f.name, &f.study.summary});
+            return comparison_deadlock_notice(named);
+        }
+    }
+    return "";
+}
+
 std::vector<std::string> result_chart_names(ResultsKind kind) {
     if (kind == ResultsKind::comparison)
         return {"variants-knock-on", "variants-punctuality", "differences-knock-on", "differences-punctuality"};
@@ -350,6 +381,10 @@ ResultChart make_result_chart(const std::string& name, const ResultsView& v, dou
         throw std::invalid_argument("unknown chart '" + name + "' for a " + to_string(v.file->facts.kind) +
                                     " file; known: " + list);
     }
+    if ((name == "delay-cdf" || name == "punctuality") && incomplete_day(v))
+        throw std::invalid_argument("chart '" + name + "' is not drawn for a day that ended in deadlock: " +
+                                    "a share of the arrivals it recorded is no punctuality of the day (" +
+                                    results_deadlock_notice(v) + ")");
     ResultChart c;
     c.name = name;
     ChartOptions o;

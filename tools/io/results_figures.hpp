@@ -30,6 +30,13 @@ struct ResultsView {
     std::vector<double> thresholds() const;
 };
 
+// What the file states first about deadlock (tools/io/deadlock_output): of a day file that day's,
+// of a study its deadlocked days, of a comparison each variant's; empty when none.
+std::string results_deadlock_notice(const ResultsView& view);
+// A day file whose day ended in deadlock: an incomplete day, of which no punctuality or delay
+// distribution is drawn.
+bool incomplete_day(const ResultsView& view);
+
 // The charts a file of this kind offers besides `time-distance` and `capacity` (the plan's).
 std::vector<std::string> result_chart_names(ResultsKind kind);
 
@@ -38,7 +45,8 @@ struct ResultChart {
     std::string caption;   // what the chart shows and where its figures come from
     svg::Element svg{"svg"};
 };
-// Throws std::invalid_argument naming the charts of the file's kind when `name` is not one.
+// Throws std::invalid_argument naming the charts of the file's kind when `name` is not one, and
+// saying why for delay-cdf and punctuality of an incomplete day.
 ResultChart make_result_chart(const std::string& name, const ResultsView& view, double width = 1100.0);
 
 // ---- The figures behind the charts (also used by the report's tables) ---------------------------

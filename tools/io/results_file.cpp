@@ -3,7 +3,9 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <map>
 
+#include "sim/deadlock_text.hpp"
 #include "tools/io/hdf5_read.hpp"
 #include "tools/io/sim_hdf5.hpp"
 #include "tools/io/study_hdf5.hpp"
@@ -75,6 +77,54 @@ Estimate mean_estimate(double mean, double half, std::size_t n) {
     return e;
 }
 
+// The trains a deadlocked day left waiting, /deadlock and /deadlock_blocks of a day group
+// (schema 4 and later).
+void read_deadlock(const h5::InputFile& f, const std::string& g, SimResult& day) {
+    const std::size_t trains = day.train_ids.size(), sections = day.section_names.size();
+    std::map<std::uint32_t, std::size_t> wait_of;   // train -> its entry
+    {
+        const Table t(f, g + "/deadlock");
+        const auto train = t.index("train", trains, "trains");
+        const auto kind = t.text("waits_for"), station = t.text("station"), signal = t.text("signal");
+        const auto chainage = t.num("chainage"), since = t.num("since"), set = t.num("route_set"),
+                   read_from = t.num("read_from");
+        for (std::size_t i = 0; i < t.rows(); ++i) {
+            const auto waits = wait_from_name(kind[i]);
+            if (!waits)
+                throw ResultsFileError(f.path() + ": " + t.path() + ": waits_for '" + kind[i] + "' is not a kind of wait");
+            DeadlockWait w;
+            w.train = train[i];
+            w.waits_for = *waits;
+            w.chainage = chainage[i];
+            w.station = station[i];
+            w.since = since[i];
+            w.signal = signal[i];
+            w.route_set = set[i];
+            w.read_from = read_from[i];
+            wait_of[w.train] = day.deadlock.waiting.size();
+            day.deadlock.waiting.push_back(std::move(w));
+        }
+    }
+    const Table t(f, g + "/deadlock_blocks");
+    const auto train = t.index("train", trains, "trains");
+    const auto section = t.index("section", sections, "sections");
+    const auto by = t.text("by"), holder = t.text("holder");
+    for (std::size_t i = 0; i < t.rows(); ++i) {
+        const auto kind = block_from_name(by[i]);
+        const auto it = wait_of.find(train[i]);
+        const auto held_by = std::find(day.train_ids.begin(), day.train_ids.end(), holder[i]);
+        if (!kind || it == wait_of.end() || (*kind != DeadlockBlock::By::disruption && held_by == day.train_ids.end()))
+            throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) +
+                                   " names no waiting train, kind of block or holding train of the day");
+        DeadlockBlock b;
+        b.section = section[i];
+        b.by = *kind;
+        if (*kind != DeadlockBlock::By::disruption)
+            b.train = static_cast<std::uint32_t>(held_by - day.train_ids.begin());
+        day.deadlock.waiting[it->second].blocks.push_back(b);
+    }
+}
+
 SimResult read_day_group(const h5::InputFile& f, const std::string& g) {
     SimResult day;
     day.events = static_cast<std::uint64_t>(f.number_attribute(g, "events"));
@@ -85,6 +135,8 @@ SimResult read_day_group(const h5::InputFile& f, const std::string& g) {
     day.train_ids = ids(f, g + "/trains");
     day.section_names = ids(f, g + "/sections");
     const std::size_t trains = day.train_ids.size(), sections = day.section_names.size();
+    if (f.has_attribute(g, "deadlock_cause")) day.deadlock.cause = f.text_attribute(g, "deadlock_cause");
+    if (f.exists(g + "/deadlock")) read_deadlock(f, g, day);
 
     {
         const Table t(f, g + "/timing");
@@ -145,6 +197,18 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
     StudySummary& s = out.summary;
     s.replications = static_cast<std::size_t>(f.number_attribute(g, "replications"));
     s.deadlocked = static_cast<std::size_t>(f.number_attribute(g, "deadlocked_days"));
+    // Schema 3 and older kept deadlocked days in the figures and did not count the complete ones.
+    s.complete = f.has_attribute(g, "complete_days") ? static_cast<std::size_t>(f.number_attribute(g, "complete_days"))
+                                                     : s.replications - std::min(s.deadlocked, s.replications);
+    if (f.has_attribute(g, "first_deadlock_replication")) {
+        DeadlockedDay d;
+        d.replication = static_cast<std::uint32_t>(f.number_attribute(g, "first_deadlock_replication"));
+        d.report.deadlocked = true;
+        d.report.time = f.number_attribute(g, "first_deadlock_time");
+        d.report.cause = f.text_attribute(g, "first_deadlock_cause");
+        d.report.description = f.text_attribute(g, "first_deadlock_description");
+        s.first_deadlock = std::move(d);
+    }
     s.knock_on_ratio = f.number_attribute(g, "knock_on_ratio");
     s.thresholds = f.number_array_attribute(g, "thresholds_s");
     out.partial = f.number_attribute(g, "partial") != 0.0;
@@ -211,7 +275,7 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
             tp.stops = stops[i] != 0.0;
             tp.reached = static_cast<std::size_t>(reached[i]);
             tp.delay = mean_estimate(dm[i], dh[i], tp.reached);
-            tp.knock_on = mean_estimate(km[i], kh[i], s.replications);
+            tp.knock_on = mean_estimate(km[i], kh[i], s.complete);
             tp.delay_quantiles = {p50[i], p90[i], p95[i], mx[i]};
             for (std::size_t k = 0; k < fields.size(); ++k) {
                 Estimate e;
@@ -231,16 +295,16 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
         const auto km = t.num("knock_on_mean"), kh = t.num("knock_on_ci95_half_width");
         const auto fm = t.num("final_delay_mean"), fh = t.num("final_delay_ci95_half_width");
         for (std::size_t i = 0; i < t.rows(); ++i)
-            s.trains.push_back({train[i], mean_estimate(pm[i], ph[i], s.replications),
-                                mean_estimate(km[i], kh[i], s.replications),
-                                mean_estimate(fm[i], fh[i], s.replications)});
+            s.trains.push_back({train[i], mean_estimate(pm[i], ph[i], s.complete),
+                                mean_estimate(km[i], kh[i], s.complete),
+                                mean_estimate(fm[i], fh[i], s.complete)});
     }
     {
         const Table t(f, g + "/signals");
         const auto signal = t.text("signal");
         const auto hm = t.num("held_mean"), hh = t.num("held_ci95_half_width");
         for (std::size_t i = 0; i < t.rows(); ++i)
-            s.signals.push_back({signal[i], mean_estimate(hm[i], hh[i], s.replications)});
+            s.signals.push_back({signal[i], mean_estimate(hm[i], hh[i], s.complete)});
     }
     {
         const Table t(f, g + "/sections");
@@ -248,7 +312,7 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
         const auto bm = t.num("blocked_share_mean"), bh = t.num("blocked_share_ci95_half_width");
         s.section_blocked_share.assign(sections, Estimate{});
         for (std::size_t i = 0; i < t.rows(); ++i)
-            s.section_blocked_share[section[i]] = mean_estimate(bm[i], bh[i], s.replications);
+            s.section_blocked_share[section[i]] = mean_estimate(bm[i], bh[i], s.complete);
     }
     {
         const Table t(f, g + "/buffers");

@@ -7,6 +7,7 @@
 
 #include "models/units.hpp"
 #include "sim/day_summary.hpp"
+#include "sim/deadlock_text.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/study_hdf5.hpp"
 
@@ -51,7 +52,10 @@ void add_facts(Report& r, const ResultsView& v) {
     if (f.kind == ResultsKind::study) {
         const StoredStudy& s = *v.file->study;
         facts.push_back({"simulated days", std::to_string(s.summary.replications) +
-                                               (s.partial ? " (partial: stopped before the planned days)" : "")});
+                                               (s.partial ? " (partial: stopped before the planned days)" : "") +
+                                               (s.summary.deadlocked ? "; " + std::to_string(s.summary.deadlocked) +
+                                                                           " ended in deadlock"
+                                                                     : std::string())});
         facts.push_back({"traced days", v.file->traced.empty()
                                             ? std::string("none (--traces ") + v.file->traces + ")"
                                             : std::to_string(v.file->traced.size()) + " (--traces " +
@@ -80,6 +84,28 @@ void add_facts(Report& r, const ResultsView& v) {
 
 // ---- results at a glance ------------------------------------------------------------------------
 
+// The trains a deadlocked day left waiting: where, what for, and who kept it from them.
+std::string waiting_table(const SimResult& d) {
+    HtmlTable t;
+    t.caption = "Trains left waiting when the day stopped";
+    t.headers = {"train", "where", "waiting since", "waits", "kept from it by"};
+    t.numeric = {false, false, true, false, false};
+    for (const DeadlockWait& w : d.deadlock.waiting) {
+        std::string kept;
+        for (const DeadlockBlock& b : w.blocks) {
+            const std::string who = b.by == DeadlockBlock::By::disruption ? std::string("a disruption")
+                                    : b.train < d.train_ids.size()        ? d.train_ids[b.train]
+                                                                          : std::string("?");
+            kept += (kept.empty() ? "" : "; ") + (b.section < d.section_names.size() ? d.section_names[b.section] : "?") +
+                    ": " + (b.by == DeadlockBlock::By::promised ? "promised to " : "") + who;
+        }
+        t.rows.push_back({w.train < d.train_ids.size() ? d.train_ids[w.train] : "?", where_it_stands(w),
+                          std::isfinite(w.since) ? format_time_of_day(w.since) : "-", what_it_waits_for(w),
+                          kept.empty() ? "-" : kept});
+    }
+    return html_table(t);
+}
+
 ReportSection glance_section(const ResultsView& v) {
     HtmlTable t;
     t.headers = {"figure", "value"};
@@ -87,19 +113,47 @@ ReportSection glance_section(const ResultsView& v) {
     std::string intro;
     if (v.file->study) {
         const StudySummary& s = v.file->study->summary;
-        t.caption = "Per simulated day, mean with 95 % CI half-width (or interval)";
-        t.rows = {{"primary delay injected", min_ci(s.total_primary)},
-                  {"knock-on delay", min_ci(s.total_knock_on)},
-                  {"knock-on / primary", fmt("%.2f", s.knock_on_ratio)},
-                  {"mean arrival delay", min_ci(s.mean_arrival_delay)}};
+        // Deadlocked days first: they are no figure.
+        t.rows = {{"days that ended in deadlock", std::to_string(s.deadlocked) + " of " + std::to_string(s.replications)},
+                  {"complete days, which every figure is of", std::to_string(s.complete)}};
+        t.caption = s.deadlocked > 0 ? "Per complete simulated day, mean with 95 % CI half-width (or interval); "
+                                       "the days that ended in deadlock are left out"
+                                     : "Per simulated day, mean with 95 % CI half-width (or interval)";
+        t.rows.push_back({"primary delay injected", min_ci(s.total_primary)});
+        t.rows.push_back({"knock-on delay", min_ci(s.total_knock_on)});
+        t.rows.push_back({"knock-on / primary", std::isfinite(s.knock_on_ratio) ? fmt("%.2f", s.knock_on_ratio) : "-"});
+        t.rows.push_back({"mean arrival delay", min_ci(s.mean_arrival_delay)});
         for (std::size_t i = 0; i < s.thresholds.size() && i < s.punctuality.size(); ++i)
             t.rows.push_back({"punctual within " + threshold_text(s.thresholds[i]), pct_ci(s.punctuality[i])});
-        t.rows.push_back({"days that ended in deadlock", std::to_string(s.deadlocked) + " of " +
-                                                             std::to_string(s.replications)});
         t.highlight.assign(t.rows.size(), false);
-        t.highlight.back() = s.deadlocked > 0;
+        t.highlight.front() = s.deadlocked > 0;
         intro = "A Monte Carlo study: " + std::to_string(s.replications) +
                 " simulated days, each with primary delays drawn afresh from the scenario's delays section.";
+        if (s.first_deadlock)
+            intro += " The first day that ended in deadlock is replication " +
+                     std::to_string(s.first_deadlock->replication) + ": " + s.first_deadlock->report.cause + ".";
+    } else if (incomplete_day(v)) {
+        // What the day did before it stopped, and no share or mean that would pass for the day's.
+        const SimResult& d = *v.day;
+        const DaySummary s = summarize_day(d, v.thresholds());
+        double knock_on = 0.0;
+        for (const TimingRecord& r : d.timing) knock_on += r.knock_on;
+        const std::string none = "not given: the day is incomplete";
+        t.caption = "The simulated day, INCOMPLETE: it ended in deadlock";
+        t.rows = {{"deadlock", "yes, the last event at " + format_time_of_day(d.deadlock.time)},
+                  {"trains", std::to_string(s.trains)},
+                  {"reached their last timing point", std::to_string(s.finished)},
+                  {"never reached their last timing point", std::to_string(s.trains - s.finished)},
+                  {"arrivals and passes recorded before the deadlock", std::to_string(s.arrivals)},
+                  {"knock-on delay before the deadlock, all trains", min1(knock_on)},
+                  {"time standing at signals, stands ended before the deadlock", min1(s.total_held)},
+                  {"mean arrival delay", none},
+                  {"delay at the last timing points", none}};
+        for (std::size_t i = 0; i < s.thresholds.size(); ++i)
+            t.rows.push_back({"punctual within " + threshold_text(s.thresholds[i]), none});
+        t.highlight.assign(t.rows.size(), false);
+        t.highlight[0] = t.highlight[3] = true;
+        intro = "One simulated day (knockon simulate --out), which ended in deadlock: " + d.deadlock.cause + ".";
     } else {
         const SimResult& d = *v.day;
         const DaySummary s = summarize_day(d, v.thresholds());
@@ -121,21 +175,13 @@ ReportSection glance_section(const ResultsView& v) {
         intro = "One simulated day (knockon simulate --out).";
     }
     std::string html = html_paragraph(intro) + html_table(t);
-    if (v.day && v.day->deadlock.deadlocked && v.file->facts.kind == ResultsKind::day)
-        html += html_paragraph("Deadlock: " + v.day->deadlock.description);
+    if (incomplete_day(v)) html += waiting_table(*v.day);
     return {"results", "Results at a glance", html};
 }
 
 // ---- delays -------------------------------------------------------------------------------------
 
-ReportSection delays_section(const ResultsView& v) {
-    std::string html = html_paragraph(
-        "How late trains reached their timing points, and how much of that they brought with them (primary) "
-        "and how much other trains gave them (knock-on).");
-    html += figure_of(make_result_chart("delay-cdf", v));
-
-    html += figure_of(make_result_chart("punctuality", v));
-    const std::vector<double> thresholds = v.thresholds();
+std::string punctuality_table(const ResultsView& v, const std::vector<double>& thresholds) {
     HtmlTable p;
     p.caption = "Punctuality by station (95 % Wilson interval of the pooled arrivals and passes)";
     p.headers = {"station", "km", "arrivals and passes"};
@@ -151,8 +197,24 @@ ReportSection delays_section(const ResultsView& v) {
         for (const Estimate& e : s.within) row.push_back(pct_ci(e));
         p.rows.push_back(std::move(row));
     }
-    html += html_table(p);
+    return html_table(p);
+}
 
+ReportSection delays_section(const ResultsView& v) {
+    std::string html = html_paragraph(
+        "How late trains reached their timing points, and how much of that they brought with them (primary) "
+        "and how much other trains gave them (knock-on).");
+    const std::vector<double> thresholds = v.thresholds();
+    if (incomplete_day(v)) {
+        html += html_paragraph(
+            "No distribution of arrival delay and no punctuality are given for this day: it ended in deadlock, so "
+            "the trains left waiting never reached the rest of their timing points, and a share of the arrivals "
+            "it did record would not be the day's.");
+    } else {
+        html += figure_of(make_result_chart("delay-cdf", v));
+        html += figure_of(make_result_chart("punctuality", v));
+        html += punctuality_table(v, thresholds);
+    }
     html += figure_of(make_result_chart("primary-knock-on", v));
     HtmlTable c;
     c.caption = "Delay per day by train category";
@@ -292,7 +354,8 @@ ReportSection variants_section(const ResultsView& v) {
     html += html_table(d);
 
     HtmlTable s;
-    s.caption = "Per simulated day (mean with 95 % CI) and from the plan";
+    s.caption = "Per complete simulated day (mean with 95 % CI; days that ended in deadlock left out) and from the "
+                "plan";
     s.headers = {"figure"};
     s.numeric = {false};
     for (const VariantFigures& f : vs) {
@@ -311,6 +374,8 @@ ReportSection variants_section(const ResultsView& v) {
         row("punctual within " + threshold_text(thresholds[i]),
             [i](const VariantFigures& f) { return pct_ci(f.study.summary.punctuality.at(i)); });
     row("days ended in deadlock", [](const VariantFigures& f) { return std::to_string(f.study.summary.deadlocked); });
+    row("complete days, which its figures are of",
+        [](const VariantFigures& f) { return std::to_string(f.study.summary.complete); });
     row("plan: mean minimum headway", [](const VariantFigures& f) { return fmt("%.1f s", f.plan.mean_minimum_headway); });
     row("plan: peak-hour consumption (max)",
         [](const VariantFigures& f) { return pct(f.plan.peak_consumption) + " " + f.plan.peak_section; });
@@ -320,8 +385,9 @@ ReportSection variants_section(const ResultsView& v) {
 
     HtmlTable t;
     t.caption = "Paired differences against " + reference(v) + " (variant minus " + reference(v) +
-                "; mean with 95 % CI; marked where the interval excludes 0)";
-    t.headers = {"variant", "figure", "difference", "95 % CI", "days"};
+                ", day by day over the days complete in both; mean with 95 % CI; marked where the interval "
+                "excludes 0)";
+    t.headers = {"variant", "figure", "difference", "95 % CI", "days paired"};
     t.numeric = {false, false, true, true, true};
     for (const DifferenceRow& r : v.file->differences) {
         const Estimate& e = r.difference;
@@ -370,6 +436,8 @@ Report results_report(const ResultsView& v, const PlanReportOptions& options) {
                                             : "Comparison report: ") +
               v.scenario->name;
     add_facts(r, v);
+    // A deadlock is said first of all, above the caution and the facts.
+    if (const std::string notice = results_deadlock_notice(v); !notice.empty()) r.alerts.push_back(notice);
 
     std::vector<ReportSection> sections;
     auto take = [&](const std::string& id) {

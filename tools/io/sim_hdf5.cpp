@@ -4,6 +4,9 @@
 #include <stdexcept>
 #include <vector>
 
+#include "sim/day_summary.hpp"
+#include "sim/deadlock_text.hpp"
+#include "tools/io/deadlock_output.hpp"
 #include "tools/io/hdf5_file.hpp"
 #include "tools/io/plan_output.hpp"
 
@@ -163,7 +166,82 @@ void write_trajectories(const h5::Group& day, const std::vector<TrajectorySample
              "Sampled motion of each train (empty unless trajectories were requested).");
 }
 
+// One record per train the day left waiting, and one per section kept from such a train.
+void write_deadlock(const h5::Group& day, const SimResult& r) {
+    const std::vector<DeadlockWait>& waiting = r.deadlock.waiting;
+    std::vector<std::string> texts, kinds;
+    for (const DeadlockWait& w : waiting) {
+        texts.push_back(describe_wait(w, r.train_ids, r.section_names));
+        kinds.push_back(wait_name(w.waits_for));
+    }
+    RecordTable t(day, "deadlock",
+                  RecordLayout()
+                      .add("train", FieldKind::u32)
+                      .add_text("waits_for", longest(kinds, [](auto& s) -> auto& { return s; }))
+                      .add("chainage", FieldKind::f64)
+                      .add_text("station", longest(waiting, [](auto& w) -> auto& { return w.station; }))
+                      .add("since", FieldKind::f64)
+                      .add_text("signal", longest(waiting, [](auto& w) -> auto& { return w.signal; }))
+                      .add("route_set", FieldKind::f64)
+                      .add("read_from", FieldKind::f64)
+                      .add_text("text", longest(texts, [](auto& s) -> auto& { return s; })));
+    for (std::size_t i = 0; i < waiting.size(); ++i) {
+        const DeadlockWait& w = waiting[i];
+        t.begin()
+            .u32(w.train)
+            .text(kinds[i])
+            .f64(w.chainage)
+            .text(w.station)
+            .f64(w.since)
+            .text(w.signal)
+            .f64(w.route_set)
+            .f64(w.read_from)
+            .text(texts[i]);
+    }
+    t.flush();
+    describe(t,
+             "train: index into trains, waits_for: appear / enter / entry_view / route / view / request / other, "
+             "chainage: m along the line, station: text, since: s after midnight, signal: text, "
+             "route_set: s after midnight, read_from: m along the line, text: text",
+             "Each train a deadlocked day left waiting (none if the day ran to the end): where its head stood "
+             "(NaN: not on the line), the timing point it stood at, since when it waited, what it waited for "
+             "and at which signal, and for a route set but not seen when it was set and where the signal "
+             "comes into view; text says it in words. The sections kept from it are in deadlock_blocks.");
+
+    struct Block {
+        std::uint32_t train, section;
+        std::string by, holder;
+    };
+    std::vector<Block> blocks;
+    for (const DeadlockWait& w : waiting)
+        for (const DeadlockBlock& b : w.blocks)
+            blocks.push_back({w.train, b.section, block_name(b.by),
+                              b.by == DeadlockBlock::By::disruption || b.train >= r.train_ids.size()
+                                  ? std::string()
+                                  : r.train_ids[b.train]});
+    RecordTable bt(day, "deadlock_blocks",
+                   RecordLayout()
+                       .add("train", FieldKind::u32)
+                       .add("section", FieldKind::u32)
+                       .add_text("by", longest(blocks, [](auto& b) -> auto& { return b.by; }))
+                       .add_text("holder", longest(blocks, [](auto& b) -> auto& { return b.holder; })));
+    for (const Block& b : blocks) bt.begin().u32(b.train).u32(b.section).text(b.by).text(b.holder);
+    bt.flush();
+    describe(bt,
+             "train: index into trains, section: index into sections, by: held / promised / disruption, "
+             "holder: train id",
+             "For each train a deadlocked day left waiting, each section it needed that it could not have: held "
+             "by another train, free but promised to a train planned to use it first (timetable order), or out "
+             "of use (disruption; holder empty).");
+}
+
 }  // namespace
+
+void write_deadlock_attributes(const h5::Group& root, std::size_t deadlocked_days, const std::string& notice) {
+    const h5::Attributes a = root.attributes();
+    a.set_u32("deadlocked_days", static_cast<std::uint32_t>(deadlocked_days));
+    a.set_text("deadlock_notice", notice);
+}
 
 void write_run_attributes(const h5::Group& root, const Hdf5RunInfo& info, const std::string& kind) {
     const h5::Attributes a = root.attributes();
@@ -186,8 +264,11 @@ void write_day(const h5::Group& day, const SimResult& result) {
     d.set_u64("events", result.events);
     d.set_u64("block_passages", result.block_passages);
     d.set_u8("deadlocked", result.deadlock.deadlocked ? 1 : 0);
+    d.set_text("deadlock_cause", result.deadlock.cause);
     d.set_text("deadlock_description", result.deadlock.description);
     d.set_f64("last_event_time", result.deadlock.time);
+    const DaySummary summary = summarize_day(result);
+    d.set_u32("trains_not_finished", static_cast<std::uint32_t>(summary.trains - summary.finished));
 
     write_names(day, "trains", result.train_ids,
                 "Train ids; the 'train' field of the other tables is an index into this table.");
@@ -198,6 +279,7 @@ void write_day(const h5::Group& day, const SimResult& result) {
     write_routes(day, result.routes);
     write_holds(day, result.holds);
     write_trajectories(day, result.samples);
+    write_deadlock(day, result);
 }
 
 void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5RunInfo& info) {
@@ -206,6 +288,10 @@ void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5
         {
             const h5::Group root = file.root();
             write_run_attributes(root, info, "day");
+            const DaySummary summary = summarize_day(result);
+            write_deadlock_attributes(root, result.deadlock.deadlocked ? 1 : 0,
+                                      day_deadlock_notice(result.deadlock, summary.trains,
+                                                          summary.trains - summary.finished));
             write_day(root.create_group("day"), result);
         }  // every group and dataset handle is closed here, before the file
         file.commit();

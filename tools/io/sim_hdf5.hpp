@@ -19,7 +19,10 @@ class RecordTable;
 // The layout version written as the root attribute schema_version; raise it when the layout changes.
 // 2: root attribute `kind`, study files, knock_on in the timing table.
 // 3: comparison files; root attributes `variant` (day and study files) and `step_m`.
-inline constexpr int kSimHdf5SchemaVersion = 3;
+// 4: days that ended in deadlock enter no study figure; root attributes deadlocked_days and
+//    deadlock_notice; /day deadlock_cause, trains_not_finished and the tables deadlock and
+//    deadlock_blocks; study groups complete_days and first_deadlock_*.
+inline constexpr int kSimHdf5SchemaVersion = 4;
 
 // Facts about the run that the results alone do not carry.
 struct Hdf5RunInfo {
@@ -42,6 +45,11 @@ void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5
 // seed, time unit, caution, variant, step) plus `kind` ("day", "study" or "comparison").
 void write_run_attributes(const h5::Group& root, const Hdf5RunInfo& info, const std::string& kind);
 
+// The root attributes that state the deadlock first: deadlocked_days (u32; a day file: 0 or 1) and
+// deadlock_notice (text, tools/io/deadlock_output; empty when none).  Written when the results
+// are known (a study's or comparison's at the end).
+void write_deadlock_attributes(const h5::Group& root, std::size_t deadlocked_days, const std::string& notice);
+
 // The two text attributes every table carries. units: "field: unit" for every field in field order,
 // comma-separated (no commas inside a unit); description: what one record is.
 void describe(const h5::RecordTable& table, const std::string& units, const std::string& description);
@@ -51,7 +59,7 @@ void write_names(const h5::Group& group, const std::string& name, const std::vec
                  const std::string& description);
 
 // One day's facts (attributes) and tables (trains, sections, timing, occupancy, routes, holds,
-// trajectories) into `group`, e.g. /day or /replications/000042.
+// trajectories, deadlock, deadlock_blocks) into `group`, e.g. /day or /replications/000042.
 void write_day(const h5::Group& group, const SimResult& result);
 
 }  // namespace knockon

@@ -8,6 +8,7 @@
 #include <stdexcept>
 #include <vector>
 
+#include "tools/io/deadlock_output.hpp"
 #include "tools/io/hdf5_file.hpp"
 
 namespace knockon {
@@ -65,7 +66,9 @@ void write_per_day(const h5::Group& g, const StudyResult& study, const std::vect
     describe(table, units,
              "One record per simulated day, in replication order: primary delay injected into all trains, "
              "knock-on delay of all trains, mean arrival delay (early counted as 0) and the share of "
-             "arrivals and passes with delay strictly below each threshold.");
+             "arrivals and passes with delay strictly below each threshold. A day that ended in deadlock "
+             "(deadlocked = 1) keeps its sums up to the deadlock, has NaN mean and shares, and enters no "
+             "figure of the other tables.");
 }
 
 void write_summary(const h5::Group& g, const StudySummary& s) {
@@ -92,8 +95,8 @@ void write_summary(const h5::Group& g, const StudySummary& s) {
             r.e.n);
     table.flush();
     describe(table, std::string("figure: name of a per_day field, unit: text (s or share), ") + kEstimateUnits,
-             "Mean over the days of one per_day field with its 95 % confidence interval (Student t); the "
-             "same figures as the JSON output's per_day.");
+             "Mean over the complete days (not ended in deadlock) of one per_day field with its 95 % "
+             "confidence interval (Student t); the same figures as the JSON output's per_day.");
 }
 
 // Row k is timing record k of every day (SimResult::timing order, as in /replications/<k>/timing).
@@ -264,6 +267,14 @@ void write_study_tables(const h5::Group& g, const SimModel& model, const StudyRe
     a.set_u32("replications", count32(study.replications.size()));
     a.set_u8("partial", study.partial ? 1 : 0);
     a.set_u32("deadlocked_days", count32(s.deadlocked));
+    a.set_u32("complete_days", count32(s.complete));
+    if (s.first_deadlock) {
+        const DeadlockedDay& d = *s.first_deadlock;
+        a.set_u32("first_deadlock_replication", d.replication);
+        a.set_f64("first_deadlock_time", d.report.time);
+        a.set_text("first_deadlock_cause", d.report.cause);
+        a.set_text("first_deadlock_description", d.report.description);
+    }
     a.set_f64("knock_on_ratio", s.knock_on_ratio);
     a.set_f64_array("thresholds_s", s.thresholds);
 
@@ -378,6 +389,7 @@ void StudyHdf5Writer::finish(const SimModel& model, const StudyResult& study, co
     state_->replications.reset();
     {
         const h5::Group root = state_->file.root();
+        write_deadlock_attributes(root, summary.deadlocked, study_deadlock_notice(summary));
         root.attributes().set_u32("replications", count32(study.replications.size()));
         root.attributes().set_u8("partial", study.partial ? 1 : 0);
         write_study_tables(root.create_group("study"), model, study, summary);

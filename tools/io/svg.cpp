@@ -131,6 +131,12 @@ Element& Element::attr(std::string name, std::string value) {
     return *this;
 }
 
+std::string Element::attribute(const std::string& name) const {
+    for (const auto& [n, v] : attrs_)
+        if (n == name) return v;
+    return "";
+}
+
 Element& Element::attr(std::string name, double value) { return attr(std::move(name), number(value)); }
 
 Element& Element::text(std::string content) {

@@ -62,6 +62,8 @@ public:
     Element& add(Element child);
 
     const std::string& tag() const { return tag_; }
+    // The value of an attribute, or "" when it has none.
+    std::string attribute(const std::string& name) const;
     const std::list<Element>& children() const { return children_; }
     // Writes the element and its children as XML.
     void write(std::string& out) const;

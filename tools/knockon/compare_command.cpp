@@ -20,6 +20,7 @@
 #include "sim/simulation.hpp"
 #include "sim/study.hpp"
 #include "tools/io/comparison_hdf5.hpp"
+#include "tools/io/deadlock_output.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/knockon/interrupt.hpp"
@@ -65,13 +66,18 @@ std::string fmt(const char* f, double a, double b = 0.0) {
     std::snprintf(buf, sizeof buf, f, a, b);
     return buf;
 }
-std::string minutes(const Estimate& e) { return fmt("%.2f ± %.2f min", e.mean / 60.0, e.half_width / 60.0); }
-std::string signed_minutes(const Estimate& e) {
-    return fmt("%+.2f ± %.2f min", e.mean / 60.0, e.half_width / 60.0);
+// "-" for a figure there is none of (no complete day to take it over).
+std::string minutes(const Estimate& e) {
+    return std::isfinite(e.mean) ? fmt("%.2f ± %.2f min", e.mean / 60.0, e.half_width / 60.0) : "-";
 }
-std::string percent(const Estimate& e) { return fmt("%.1f ± %.1f %%", 100.0 * e.mean, 100.0 * e.half_width); }
+std::string signed_minutes(const Estimate& e) {
+    return std::isfinite(e.mean) ? fmt("%+.2f ± %.2f min", e.mean / 60.0, e.half_width / 60.0) : "-";
+}
+std::string percent(const Estimate& e) {
+    return std::isfinite(e.mean) ? fmt("%.1f ± %.1f %%", 100.0 * e.mean, 100.0 * e.half_width) : "-";
+}
 std::string signed_points(const Estimate& e) {
-    return fmt("%+.2f ± %.2f pts", 100.0 * e.mean, 100.0 * e.half_width);
+    return std::isfinite(e.mean) ? fmt("%+.2f ± %.2f pts", 100.0 * e.mean, 100.0 * e.half_width) : "-";
 }
 
 // A text table: first column labels, then one column per variant, left-aligned.
@@ -110,11 +116,24 @@ private:
     std::vector<std::pair<std::string, std::vector<std::string>>> rows_;
 };
 
+std::vector<NamedSummary> named_summaries(const std::vector<const VariantRun*>& runs) {
+    std::vector<NamedSummary> out;
+    for (const VariantRun* r : runs) out.push_back({r->name, &r->summary});
+    return out;
+}
+
 std::string compare_text(const std::vector<const VariantRun*>& runs, const std::vector<StudyComparison>& cmp,
-                         std::uint64_t seed, unsigned threads, const std::vector<double>& thresholds) {
+                         std::uint64_t seed, unsigned threads, const std::vector<double>& thresholds,
+                         bool allow_deadlock) {
     const VariantRun& first = *runs.front();
     std::ostringstream out;
     out << "knockon compare: " << first.scenario.name << " (" << first.scenario.source_file << ")\n";
+    // Deadlocked days first, before any figure.
+    const std::string notice = comparison_deadlock_notice(named_summaries(runs));
+    if (!notice.empty())
+        out << notice
+            << (allow_deadlock ? " Accepted with --allow-deadlock." : " Exit status 3 (--allow-deadlock accepts it).")
+            << "\n";
     out << "Caution: " << kSafetyCaution << "\n\n";
     out << first.study.replications.size() << " simulated days per variant (seed " << seed << ", " << threads
         << " thread" << (threads == 1 ? "" : "s") << ").  Every variant sees the same primary delays\n"
@@ -127,7 +146,7 @@ std::string compare_text(const std::vector<const VariantRun*>& runs, const std::
     for (const VariantRun* r : runs) names.push_back(r->name);
     const std::size_t lw = 30;
 
-    out << "\nPer day (mean ± 95 % CI half-width):\n";
+    out << "\nPer day (mean ± 95 % CI half-width, over each variant's complete days):\n";
     TextColumns per_day(lw);
     per_day.row("", names);
     auto row = [&](TextColumns& t, const std::string& label, auto cell) {
@@ -143,11 +162,14 @@ std::string compare_text(const std::vector<const VariantRun*>& runs, const std::
             [i](const VariantRun& r) { return percent(r.summary.punctuality[i]); });
     row(per_day, "days ended in deadlock",
         [](const VariantRun& r) { return std::to_string(r.summary.deadlocked); });
+    row(per_day, "complete days",
+        [](const VariantRun& r) { return std::to_string(r.summary.complete); });
     out << per_day.str();
 
     if (runs.size() > 1) {
         out << "\nPaired differences against " << first.name
-            << " (variant minus " << first.name << ", day by day; mean ± 95 % CI half-width):\n";
+            << " (variant minus " << first.name
+            << ", day by day over the days complete in both; mean ± 95 % CI half-width):\n";
         TextColumns diff(lw);
         std::vector<std::string> others(names.begin() + 1, names.end());
         diff.row("", others);
@@ -164,6 +186,7 @@ std::string compare_text(const std::vector<const VariantRun*>& runs, const std::
                  [i](const StudyComparison& c) { return signed_points(c.punctuality[i].difference); });
         drow("primary delay injected",
              [](const StudyComparison& c) { return signed_minutes(c.total_primary.difference); });
+        drow("days paired", [](const StudyComparison& c) { return std::to_string(c.paired); });
         out << diff.str();
         out << "  (A difference whose interval excludes 0 is unlikely to be chance; primary delay differs\n"
                "  only where a variant changes the delays or the trains themselves.)\n";
@@ -221,6 +244,22 @@ nlohmann::json plan_json_figures(const PlanFigures& f) {
             {"day_line_section", f.day_section}};
 }
 
+// "deadlock" first: the days that deadlocked over all variants, and per variant how many and the
+// first one's replication and cause.
+nlohmann::json compare_deadlock_json(const std::vector<const VariantRun*>& runs, bool allow_deadlock) {
+    const std::vector<NamedSummary> named = named_summaries(runs);
+    nlohmann::json j = {{"deadlocked_days", deadlocked_days(named)},
+                        {"notice", comparison_deadlock_notice(named)},
+                        {"accepted", allow_deadlock}};
+    j["variants"] = nlohmann::json::array();
+    for (const VariantRun* r : runs) {
+        nlohmann::json v = study_deadlock_json(r->summary);
+        v["name"] = r->name;
+        j["variants"].push_back(std::move(v));
+    }
+    return j;
+}
+
 nlohmann::json compare_json(const std::vector<const VariantRun*>& runs, const std::vector<StudyComparison>& cmp,
                             std::uint64_t seed, unsigned threads, const std::vector<double>& thresholds,
                             const std::string& command_line) {
@@ -241,7 +280,8 @@ nlohmann::json compare_json(const std::vector<const VariantRun*>& runs, const st
         nlohmann::json per_day = {{"total_primary_s", est(s.total_primary)},
                                   {"total_knock_on_s", est(s.total_knock_on)},
                                   {"mean_arrival_delay_s", est(s.mean_arrival_delay)},
-                                  {"deadlocked_days", s.deadlocked}};
+                                  {"deadlocked_days", s.deadlocked},
+                                  {"complete_days", s.complete}};
         for (std::size_t i = 0; i < thresholds.size(); ++i)
             per_day["punctuality"].push_back({{"threshold_s", thresholds[i]}, {"share", est(s.punctuality[i])}});
         nlohmann::json jv = {{"name", r.name},
@@ -254,6 +294,7 @@ nlohmann::json compare_json(const std::vector<const VariantRun*>& runs, const st
             const StudyComparison& c = cmp[v - 1];
             const PlanFigures &f = r.figures, &b = runs.front()->figures;
             nlohmann::json d = {{"against", runs.front()->name},
+                                {"paired_days", c.paired},
                                 {"total_knock_on_s", est(c.total_knock_on.difference)},
                                 {"mean_arrival_delay_s", est(c.mean_arrival_delay.difference)},
                                 {"total_primary_s", est(c.total_primary.difference)},
@@ -267,8 +308,9 @@ nlohmann::json compare_json(const std::vector<const VariantRun*>& runs, const st
         }
         j["variants"].push_back(std::move(jv));
     }
-    j["notes"] = {"Per-day figures are means over the simulated days with 95 % confidence intervals; differences "
-                  "are variant minus the first variant, replication by replication, with the same primary delays "
+    j["notes"] = {"Per-day figures are means over each variant's complete days (days that ended in deadlock are "
+                  "left out) with 95 % confidence intervals; differences are variant minus the first variant, "
+                  "replication by replication over the days complete in both, with the same primary delays "
                   "(common random numbers).",
                   "Times in seconds; shares 0..1; consumption is the largest over the line sections.",
                   kUic406Note};
@@ -295,6 +337,7 @@ int compare(const std::vector<std::string>& args) {
         "out", po::value<std::string>(),
         "also write the results to this HDF5 file (kind comparison: each variant's study figures and "
         "the paired differences)");
+    add_deadlock_option(options);
     add_punctuality_option(options);
     po::variables_map vm;
     if (!parse_command_line("compare", args, options, vm)) return 0;
@@ -422,16 +465,19 @@ int compare(const std::vector<std::string>& args) {
         nlohmann::json j = compare_json(flat, cmp, seed, opt.threads, opt.thresholds, command_line);
         j["partial"] = !not_compared.empty();
         j["not_compared"] = not_compared;
-        std::printf("%s\n", j.dump(1).c_str());
+        std::printf("%s\n", deadlock_first(compare_deadlock_json(flat, allow_deadlock(vm)), j).dump(1).c_str());
     } else {
         if (!not_compared.empty()) {
             std::string list;
             for (const std::string& n : not_compared) list += "\n  " + n;
             std::printf("PARTIAL: stopped by Ctrl-C; not compared:%s\n\n", list.c_str());
         }
-        std::fputs(compare_text(flat, cmp, seed, opt.threads, opt.thresholds).c_str(), stdout);
+        std::fputs(compare_text(flat, cmp, seed, opt.threads, opt.thresholds, allow_deadlock(vm)).c_str(), stdout);
     }
-    return not_compared.empty() ? 0 : kInterruptedStatus;
+    if (!not_compared.empty()) return kInterruptedStatus;
+    std::size_t days = 0;
+    for (const VariantRun* r : flat) days += r->summary.replications;
+    return deadlock_status("compare", deadlocked_days(named_summaries(flat)), days, vm);
 }
 
 }  // namespace knockon::cli

@@ -1,6 +1,7 @@
 // knockon: command-line entry.  Each subcommand lives in its own file; this one dispatches and
 // turns every failure into a message and an exit status (0 ok, 1 failure while running,
-// 2 bad input or usage, 3 the simulated day ended in deadlock).
+// 2 bad input or usage, 3 a simulated day, or days of a study or comparison, ended in deadlock and
+// --allow-deadlock was not given; 130 interrupted).
 #include <cstdio>
 #include <cstring>
 #include <exception>

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <charconv>
+#include <cstdio>
 #include <iostream>
 #include <sstream>
 
@@ -44,6 +45,30 @@ std::vector<double> punctuality_thresholds(const po::variables_map& vm) {
     std::sort(out.begin(), out.end());
     out.erase(std::unique(out.begin(), out.end()), out.end());
     return out;
+}
+
+void add_deadlock_option(po::options_description& options) {
+    options.add_options()("allow-deadlock",
+                          "accept days that end in deadlock: exit status 0 instead of 3 (their figures are left "
+                          "out either way, and the outputs say so first)");
+}
+
+bool allow_deadlock(const po::variables_map& vm) { return vm.count("allow-deadlock") > 0; }
+
+int deadlock_status(const std::string& command, std::size_t deadlocked, std::size_t days, const po::variables_map& vm) {
+    if (deadlocked == 0) return 0;
+    const std::string which = days == 1 ? std::string("the simulated day ended in deadlock")
+                                        : std::to_string(deadlocked) + " of " + std::to_string(days) +
+                                              " simulated days ended in deadlock";
+    if (allow_deadlock(vm)) {
+        std::fprintf(stderr, "knockon %s: note: %s; accepted (--allow-deadlock)\n", command.c_str(), which.c_str());
+        return 0;
+    }
+    std::fprintf(stderr,
+                 "knockon %s: %s (see the output; any files asked for are written whole); exit status %d "
+                 "(--allow-deadlock accepts it with status 0)\n",
+                 command.c_str(), which.c_str(), kDeadlockStatus);
+    return kDeadlockStatus;
 }
 
 std::string command_line_without_threads(const std::string& command_line) {

@@ -23,6 +23,16 @@ std::uint64_t count_option(const po::variables_map& vm, const char* name, std::u
 void add_punctuality_option(po::options_description& options);
 std::vector<double> punctuality_thresholds(const po::variables_map& vm);
 
+// --allow-deadlock: days that ended in deadlock are accepted, exit status 0.  Without it a
+// simulated day, a study or a comparison with any deadlocked day exits with kDeadlockStatus once
+// its outputs are written whole.  Either way no deadlocked day enters a figure.
+inline constexpr int kDeadlockStatus = 3;
+void add_deadlock_option(po::options_description& options);
+bool allow_deadlock(const po::variables_map& vm);
+// 0 or kDeadlockStatus for `deadlocked` of `days` simulated days, with a line on stderr saying
+// which and why when there are any.
+int deadlock_status(const std::string& command, std::size_t deadlocked, std::size_t days, const po::variables_map& vm);
+
 // The command line as a results file stores it: without --threads (or an abbreviation such as
 // --thr, with its value), which changes neither the results nor, so, the file's bytes.
 std::string command_line_without_threads(const std::string& command_line);

@@ -4,6 +4,7 @@
 #include <cstdio>
 
 #include "models/plan.hpp"
+#include "tools/io/chart_kit.hpp"
 #include "tools/io/output_file.hpp"
 #include "tools/io/plan_charts.hpp"
 #include "tools/io/plan_output.hpp"
@@ -101,6 +102,10 @@ int plot(const std::vector<std::string>& args) {
             throw UsageError(input + ": --chart: " + e.what());
         }
     }
+    // Of a results file with deadlocked days (or an incomplete day) every chart says so first.
+    if (in)
+        if (const std::string notice = results_deadlock_notice(in->view); !notice.empty())
+            doc = with_alert(std::move(doc), notice);
     const std::string path = vm["svg"].as<std::string>();
     write_file_atomically(path, svg::to_string(doc, true));
     std::printf("wrote %s\n", path.c_str());

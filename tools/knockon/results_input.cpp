@@ -4,6 +4,7 @@
 #include <filesystem>
 #include <stdexcept>
 
+#include "models/units.hpp"
 #include "tools/io/hdf5_read.hpp"
 #include "tools/io/scenario_reader.hpp"
 
@@ -135,6 +136,9 @@ std::unique_ptr<ResultsInput> open_results(const std::string& path, const po::va
                           "SCENARIO --variant NAME --replications N --traces sample:5 --out FILE.h5 and report on "
                           "that file.";
     }
+    if (day && day->deadlock.deadlocked)
+        in->as_run_note += " This day ended in deadlock (its last event at " + format_time_of_day(day->deadlock.time) +
+                           "): the paths of the trains left waiting end where they stood.";
     if (day) {
         const std::string label =
             choice ? "as run, replication " + std::to_string(choice->replication) : std::string("as run");

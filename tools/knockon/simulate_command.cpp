@@ -13,6 +13,7 @@
 #include "sim/delay_draws.hpp"
 #include "sim/simulation.hpp"
 #include "sim/study.hpp"
+#include "tools/io/deadlock_output.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/io/sim_hdf5.hpp"
@@ -31,13 +32,40 @@ std::string minutes(double s) {
     return buf;
 }
 
+// "left QLM at 06:00:00, 0.0 min late": where an unfinished train got to.
+std::string last_reached(const SimResult& r, const TrainDelay& td) {
+    if (td.last_reached < 0) return "not yet on the line";
+    const TimingRecord& t = r.timing[static_cast<std::size_t>(td.last_reached)];
+    const bool left = !std::isnan(t.departure);
+    const double at = left ? t.departure : t.arrival;
+    const double delay = left ? t.departure_delay : t.arrival_delay;
+    std::string out = std::string(!t.stops ? "passed " : left ? "left " : "reached ") + t.station + " at " +
+                      format_time_of_day(at);
+    if (!std::isnan(delay)) out += ", " + minutes(std::max(0.0, delay)) + " late";
+    return out;
+}
+
 std::string summary_text(const Scenario& sc, const SimResult& r, const DaySummary& d) {
     std::ostringstream out;
     out << "knockon simulate: " << sc.name << " (" << sc.source_file << ")\n";
+    // A deadlock first, before any figure: the day is incomplete.
+    if (!d.complete) out << day_deadlock_notice(r.deadlock, d.trains, d.trains - d.finished) << "\n";
     out << "Caution: " << kSafetyCaution << "\n\n";
     out << d.trains << " trains, " << d.finished << " reached their last timing point; " << r.events
         << " events, " << r.block_passages << " block passages.\n";
-    if (r.deadlock.deadlocked) out << "DEADLOCK at " << format_time_of_day(r.deadlock.time) << ":\n" << r.deadlock.description;
+    if (!d.complete) {
+        out << "DEADLOCK at " << format_time_of_day(r.deadlock.time) << ": the trains left waiting:\n";
+        std::istringstream lines(r.deadlock.description);
+        for (std::string line; std::getline(lines, line);) out << "  " << line << "\n";
+        out << "\nWhat the INCOMPLETE day did before it stopped (no punctuality, mean or total delay: "
+            << d.trains - d.finished << " of " << d.trains << " trains never reached their last timing point):\n";
+        out << "Arrivals and passes recorded: " << d.arrivals << ".\n";
+        out << "Time standing at signals, stands ended before the deadlock: " << minutes(d.total_held) << ".\n";
+        out << "\nTrains that never reached their last timing point (where they got to):\n";
+        for (const TrainDelay& td : d.trains_by_delay)
+            if (!td.finished) out << "  " << r.train_ids[td.train] << ": " << last_reached(r, td) << "\n";
+        return out.str();
+    }
     out << "Arrivals and passes recorded: " << d.arrivals << "; mean delay " << minutes(d.mean_arrival_delay) << ".\n";
     for (std::size_t i = 0; i < d.thresholds.size(); ++i) {
         char buf[96];
@@ -58,22 +86,23 @@ std::string summary_text(const Scenario& sc, const SimResult& r, const DaySummar
     return out.str();
 }
 
-nlohmann::json summary_json(const Scenario& sc, const SimResult& r, const DaySummary& d) {
+nlohmann::ordered_json summary_json(const Scenario& sc, const SimResult& r, const DaySummary& d) {
     nlohmann::json j;
     j["tool"] = {{"name", "knockon"}, {"version", KNOCKON_VERSION}};
     j["scenario"] = scenario_facts(sc);
     j["caution"] = kSafetyCaution;
     j["events"] = r.events;
     j["block_passages"] = r.block_passages;
-    j["deadlock"] = {{"deadlocked", r.deadlock.deadlocked}, {"time", r.deadlock.time},
-                     {"description", r.deadlock.description}};
-    j["summary"] = {{"trains", d.trains}, {"finished", d.finished}, {"arrivals", d.arrivals},
-                    {"mean_arrival_delay_s", d.mean_arrival_delay}, {"total_final_delay_s", d.total_final_delay},
-                    {"total_held_s", d.total_held}};
-    for (std::size_t i = 0; i < d.thresholds.size(); ++i)
-        j["summary"]["punctuality"].push_back({{"threshold_s", d.thresholds[i]}, {"share", d.punctuality[i]},
-                                               {"rule", "delay strictly below the threshold"}});
     auto num = [](double v) { return std::isnan(v) ? nlohmann::json(nullptr) : nlohmann::json(v); };
+    // An incomplete day (deadlock) has no punctuality, mean or total delay: null, with `complete`
+    // false and the trains that never reached their last timing point counted.
+    j["summary"] = {{"complete", d.complete}, {"trains", d.trains}, {"finished", d.finished},
+                    {"trains_not_finished", d.trains - d.finished}, {"arrivals", d.arrivals},
+                    {"mean_arrival_delay_s", num(d.mean_arrival_delay)},
+                    {"total_final_delay_s", num(d.total_final_delay)}, {"total_held_s", d.total_held}};
+    for (std::size_t i = 0; i < d.thresholds.size(); ++i)
+        j["summary"]["punctuality"].push_back({{"threshold_s", d.thresholds[i]}, {"share", num(d.punctuality[i])},
+                                               {"rule", "delay strictly below the threshold"}});
     for (const TimingRecord& t : r.timing)
         j["timing"].push_back({{"train", r.train_ids[t.train]}, {"station", t.station}, {"stops", t.stops},
                                {"scheduled_arrival", num(t.scheduled_arrival)},
@@ -87,7 +116,9 @@ nlohmann::json summary_json(const Scenario& sc, const SimResult& r, const DaySum
     j["holds"] = nlohmann::json::array();
     for (const HoldRecord& h : r.holds)
         j["holds"].push_back({{"train", r.train_ids[h.train]}, {"signal", h.signal}, {"from", h.from}, {"to", h.to}});
-    return j;
+    nlohmann::json deadlock = day_deadlock_json(r.deadlock, r.train_ids, r.section_names, d.trains - d.finished);
+    deadlock["notice"] = day_deadlock_notice(r.deadlock, d.trains, d.trains - d.finished);
+    return deadlock_first(deadlock, j);
 }
 
 // The variant a results file records: "base" for the scenario as written.
@@ -158,12 +189,13 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
     if (tty) std::fprintf(stderr, "\n");
     StudySummary summary = summarize_study(model, study, opt.thresholds);
     if (out) out->finish(model, study, summary);
-    StudyRunInfo info{seed, opt.threads, command_line};
+    StudyRunInfo info{seed, opt.threads, command_line, allow_deadlock(vm)};
     if (vm.count("json"))
         std::printf("%s\n", study_json(scenario, model, study, summary, info).dump(1).c_str());
     else
         std::fputs(study_text(scenario, model, study, summary, info).c_str(), stdout);
-    return interrupt.interrupted() ? kInterruptedStatus : 0;
+    if (interrupt.interrupted()) return kInterruptedStatus;
+    return deadlock_status("simulate", summary.deadlocked, summary.replications, vm);
 }
 
 }  // namespace
@@ -186,11 +218,12 @@ int simulate(const std::vector<std::string>& args) {
         "seed", po::value<std::string>()->default_value("1"), "random seed of the study")(
         "threads", po::value<std::string>()->default_value("1"), "threads for the study (results do not depend on it)")(
         "until-ci", po::value<double>(),
-        "go on until the 95 % CI half-width of the mean knock-on per day is below this many minutes "
-        "(--replications is then the cap)")(
+        "go on until the 95 % CI half-width of the mean knock-on per day (over the complete days, at least "
+        "10) is below this many minutes (--replications is then the cap)")(
         "traces", po::value<std::string>(),
         "with --replications and --out: days whose full records go into the file: none (default), all, or "
         "sample:K (K days spread evenly)");
+    add_deadlock_option(options);
     add_punctuality_option(options);
     po::variables_map vm;
     if (!parse_command_line("simulate", args, options, vm)) return 0;
@@ -233,7 +266,7 @@ int simulate(const std::vector<std::string>& args) {
         std::printf("%s\n", summary_json(scenario, result, summary).dump(1).c_str());
     else
         std::fputs(summary_text(scenario, result, summary).c_str(), stdout);
-    return result.deadlock.deadlocked ? 3 : 0;
+    return deadlock_status("simulate", result.deadlock.deadlocked ? 1 : 0, 1, vm);
 }
 
 }  // namespace knockon::cli

@@ -4,6 +4,7 @@
 #include <cstdio>
 #include <sstream>
 
+#include "tools/io/deadlock_output.hpp"
 #include "tools/io/plan_output.hpp"
 
 namespace knockon::cli {
@@ -30,10 +31,24 @@ std::string study_text(const Scenario& sc, const SimModel& model, const StudyRes
                        const StudyRunInfo& info) {
     std::ostringstream out;
     out << "knockon study: " << sc.name << " (" << sc.source_file << ")\n";
+    // Deadlocked days first, before any figure.
+    // (A study stopped by Ctrl-C exits 130 all the same.)
+    if (s.deadlocked > 0)
+        out << study_deadlock_notice(s)
+            << (info.allow_deadlock ? " Accepted with --allow-deadlock."
+                : study.partial     ? ""
+                                    : " Exit status 3 (--allow-deadlock accepts it).")
+            << "\n";
     out << "Caution: " << kSafetyCaution << "\n\n";
     out << s.replications << " simulated days (seed " << info.seed << ", " << info.threads << " thread"
         << (info.threads == 1 ? "" : "s") << ")" << (study.partial ? ", PARTIAL: stopped before the planned number" : "")
-        << "; " << s.deadlocked << " ended in deadlock.\n";
+        << "; " << s.deadlocked << " ended in deadlock";
+    if (s.deadlocked > 0) out << "; the figures below are of the " << s.complete << " complete days";
+    out << ".\n";
+    if (s.complete == 0) {
+        out << "No day ran to the end: there are no figures to give.\n";
+        return out.str();
+    }
     out << "Per day (mean ± 95 % CI half-width):\n";
     out << "  primary delay injected   " << minutes(s.total_primary) << "\n";
     out << "  knock-on delay           " << minutes(s.total_knock_on) << "\n";
@@ -87,14 +102,15 @@ std::string study_text(const Scenario& sc, const SimModel& model, const StudyRes
     return out.str();
 }
 
-nlohmann::json study_json(const Scenario& sc, const SimModel& model, const StudyResult& study, const StudySummary& s,
-                          const StudyRunInfo& info) {
+nlohmann::ordered_json study_json(const Scenario& sc, const SimModel& model, const StudyResult& study,
+                                  const StudySummary& s, const StudyRunInfo& info) {
     nlohmann::json j;
     j["tool"] = {{"name", "knockon"}, {"version", KNOCKON_VERSION}};
     j["scenario"] = scenario_facts(sc);
     j["caution"] = kSafetyCaution;
     j["study"] = {{"replications", s.replications}, {"seed", info.seed}, {"threads", info.threads},
-                  {"partial", study.partial}, {"deadlocked_days", s.deadlocked}, {"command_line", info.command_line}};
+                  {"partial", study.partial}, {"deadlocked_days", s.deadlocked}, {"complete_days", s.complete},
+                  {"command_line", info.command_line}};
     j["per_day"] = {{"total_primary_s", est(s.total_primary)}, {"total_knock_on_s", est(s.total_knock_on)},
                     {"knock_on_ratio", s.knock_on_ratio}, {"mean_arrival_delay_s", est(s.mean_arrival_delay)}};
     for (std::size_t i = 0; i < s.thresholds.size(); ++i)
@@ -127,7 +143,9 @@ nlohmann::json study_json(const Scenario& sc, const SimModel& model, const Study
     j["sections"] = nlohmann::json::array();
     for (std::size_t k = 0; k < s.section_blocked_share.size(); ++k)
         j["sections"].push_back({{"section", study.section_names[k]}, {"blocked_share", est(s.section_blocked_share[k])}});
-    return j;
+    nlohmann::json deadlock = study_deadlock_json(s);
+    deadlock["accepted"] = info.allow_deadlock;   // --allow-deadlock
+    return deadlock_first(deadlock, j);
 }
 
 }  // namespace knockon::cli

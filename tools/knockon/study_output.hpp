@@ -1,5 +1,6 @@
 #pragma once
 // What `knockon simulate --replications N` prints: a readable study summary or one JSON document.
+// Days that ended in deadlock are stated first and enter no figure (tools/io/deadlock_output).
 #include <string>
 
 #include <nlohmann/json.hpp>
@@ -13,11 +14,13 @@ struct StudyRunInfo {
     std::uint64_t seed = 0;
     unsigned threads = 1;
     std::string command_line;
+    bool allow_deadlock = false;   // --allow-deadlock: deadlocked days accepted (said in the output)
 };
 
 std::string study_text(const Scenario& sc, const SimModel& model, const StudyResult& study, const StudySummary& s,
                        const StudyRunInfo& info);
-nlohmann::json study_json(const Scenario& sc, const SimModel& model, const StudyResult& study, const StudySummary& s,
+// "deadlock" comes first: how many days deadlocked, the first one's replication and cause.
+nlohmann::ordered_json study_json(const Scenario& sc, const SimModel& model, const StudyResult& study, const StudySummary& s,
                           const StudyRunInfo& info);
 
 }  // namespace knockon::cli
