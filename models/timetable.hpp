@@ -1,5 +1,6 @@
 #pragma once
 // The timetable: services, their calls at stations, expanded from clock-face patterns.
+#include <cstddef>
 #include <optional>
 #include <string>
 #include <vector>
@@ -31,6 +32,9 @@ struct Service {
     std::optional<double> entry_speed;   // [m/s]
     bool leaves_at_edge = false;         // runs on beyond the far line end
     std::vector<Call> calls;             // in running order; at least one
+    // Index of the timetable entry it was written as (the runs of a repeat pattern share it):
+    // where messages about it point (Scenario::where).
+    std::size_t entry = 0;
 };
 
 struct Timetable {

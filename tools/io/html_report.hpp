@@ -25,6 +25,7 @@ struct Report {
     std::string title;                                        // plain text
     std::vector<std::pair<std::string, std::string>> facts;   // label, value (plain text)
     std::string caution;                                      // shown prominently at the top
+    std::vector<std::string> warnings;                        // plain text, listed under the caution
     std::vector<std::string> notes;                           // plain text, under the facts
     std::vector<ReportSection> sections;
 };
