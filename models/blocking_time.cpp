@@ -134,8 +134,9 @@ std::vector<WarningShortfall> warning_shortfalls(const ServiceRun& run) {
         }
         if (std::isnan(from) || from < path.s_min) continue;
         const double v = run.speed_at(std::max(from, 0.0));
-        // Gradient as warning_point takes it: at the signal.
-        const double needed = stopping_distance(*run.type, v, path.gradient_at(sig.s));
+        // On the steepest fall over the whole braking distance, not only at the signal: a fall
+        // just in rear of the signal lengthens the braking as much as one at it.
+        const double needed = stopping_distance_before(*run.type, v, path, from, sig.s);
         const double available = sig.s - from;
         // A metre of slack: whole-metre layouts meet the rule exactly at the limit.
         if (needed > available + 1.0) out.push_back({i, available, needed, v});

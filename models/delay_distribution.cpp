@@ -2,12 +2,15 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <stdexcept>
 
 #include <boost/math/distributions/exponential.hpp>
 #include <boost/math/distributions/gamma.hpp>
 #include <boost/math/distributions/lognormal.hpp>
 #include <boost/math/distributions/weibull.hpp>
+
+#include "models/input_ranges.hpp"
 
 namespace knockon {
 
@@ -118,6 +121,29 @@ std::string DelayDistribution::check() const {
             break;
         }
     }
+    return "";
+}
+
+std::string DelayDistribution::size_problem() const {
+    auto hours = [](double seconds) {
+        char buf[64];
+        std::snprintf(buf, sizeof buf, "%.4g h", seconds / 3600.0);
+        return std::string(buf);
+    };
+    double mean_s = 0.0, high = 0.0;
+    try {
+        mean_s = conditional_mean();
+        high = quantile(kDelayQuantileChecked);
+    } catch (const std::exception&) {   // Boost.Math overflow: far beyond any day
+        return "these parameters give delays too long to compute with";
+    }
+    const std::string limit = hours(kLongestDelay);
+    if (!(mean_s <= kLongestDelay))
+        return "these parameters give a mean delay of " + hours(mean_s) + ", more than " + limit +
+               " (a delay must stay within a day)";
+    if (!(high <= kLongestDelay))
+        return "these parameters put the 99.9 % quantile of the delay at " + hours(high) + ", more than " +
+               limit + " (a delay must stay within a day)";
     return "";
 }
 

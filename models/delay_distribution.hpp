@@ -35,6 +35,10 @@ struct DelayDistribution {
     // What is wrong with the parameters for this kind ("" when they are fine).  Readers give
     // located messages of their own; this guards models built in code.
     std::string check() const;
+    // What makes the delays too long to simulate ("" when nothing does): the mean or the 99.9 %
+    // quantile beyond a day (README, "Input ranges"); parameters each in range may still combine
+    // to that, e.g. a Weibull shape of 0.1 multiplies the scale by Gamma(11) = 3 628 800.
+    std::string size_problem() const;
 };
 
 }  // namespace knockon

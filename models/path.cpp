@@ -109,6 +109,18 @@ double PathProfile::at(double pos) const {
     return value[it == s.begin() ? 0 : static_cast<std::size_t>(it - s.begin()) - 1];
 }
 
+ProfileStretch PathProfile::lowest(double from, double to) const {
+    constexpr double kInf = std::numeric_limits<double>::infinity();
+    ProfileStretch best{kInf, from, to};
+    for (std::size_t k = 0; k < value.size(); ++k) {
+        const double lo = k == 0 ? -kInf : s[k];
+        const double hi = k + 1 < s.size() ? s[k + 1] : kInf;
+        if (lo > to || hi <= from) continue;   // no part of [from, to]
+        if (value[k] < best.value) best = {value[k], std::max(lo, from), std::min(hi, to)};
+    }
+    return best;
+}
+
 std::string section_id(const std::string& track, double x_from, double x_to) {
     return track + ":" + km(x_from) + "-" + km(x_to);
 }
@@ -271,6 +283,19 @@ double TrainPath::gradient_at(double s) const {
     if (!gradient.s.empty()) return gradient.at(s);
     double g = infrastructure->gradient_at(chainage_at(s));
     return direction == Direction::up ? g : -g;
+}
+
+ProfileStretch TrainPath::steepest_fall(double from, double to) const {
+    if (!gradient.s.empty()) return gradient.lowest(from, to);
+    // A path laid by hand without profiles: the bands of the line, as gradient_at reads them.
+    ProfileStretch best{gradient_at(from), from, to};
+    for (const ChainageBand& b : infrastructure->gradients) {
+        const double sa = s_at_chainage(b.from), sb = s_at_chainage(b.to);
+        for (double at : {sa, sb})
+            if (std::isfinite(at) && at > from && at < to && gradient_at(at) < best.value)
+                best = {gradient_at(at), at, to};
+    }
+    return best;
 }
 
 double TrainPath::speed_limit_at(double s) const {

@@ -40,10 +40,19 @@ struct TimingPoint {
     bool stops = true;
 };
 
+// A stretch of a path over which a profile holds one value.
+struct ProfileStretch {
+    double value = 0.0;
+    double s_from = 0.0, s_to = 0.0;
+};
+
 // A piecewise-constant quantity along a path: value[k] holds from s[k] to s[k+1].
 struct PathProfile {
     std::vector<double> s, value;
     double at(double pos) const;   // before the first break: the first value
+    // The lowest value anywhere in [from, to], with the part of [from, to] it holds over (the
+    // first such stretch on ties).  Needs at least one value.
+    ProfileStretch lowest(double from, double to) const;
 };
 
 struct TrainPath {
@@ -68,6 +77,9 @@ struct TrainPath {
     double s_at_chainage(double x) const;
     // Gradient met by the train at s: positive when it climbs.
     double gradient_at(double s) const;
+    // The steepest fall met anywhere in [from, to] (the lowest gradient: a climb where nothing
+    // falls), with where it lies.  The one rule for "the gradient a braking train meets".
+    ProfileStretch steepest_fall(double from, double to) const;
     // Static speed limit at s for the head (line speed capped by the track's limit) [m/s].
     double speed_limit_at(double s) const;
 };

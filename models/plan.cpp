@@ -2,7 +2,11 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <map>
+#include <stdexcept>
+
+#include "models/scenario_error.hpp"
 
 namespace knockon {
 namespace {
@@ -93,6 +97,32 @@ void add_spacing_warnings(PlanResult& plan) {
     for (auto& [id, w] : worst) plan.spacing_warnings.push_back(w);
 }
 
+// Times the timetable leaves out are constructed from the last stop or given time, rounded up
+// cumulatively, so one stretch between constructed passes may be short of its own running time
+// while the train keeps time.  The check runs from each such anchor to every later call: only a
+// given time (or an arrival held to a given departure) can fall short.
+void add_tight_stretches(PlanResult& plan) {
+    for (std::size_t t = 0; t < plan.trains.size(); ++t) {
+        const ServiceRun& run = plan.trains[t].run;
+        const std::vector<PlannedCall>& calls = run.calls;
+        std::size_t anchor = 0;
+        double scheduled = 0.0, technical = 0.0;
+        for (std::size_t k = 1; k < calls.size(); ++k) {
+            const PlannedCall& c = calls[k];
+            scheduled += c.scheduled_running;
+            technical += c.technical_running;
+            const double timetabled = c.scheduled_arrival - calls[anchor].scheduled_departure;
+            if (timetabled - scheduled < -kTightTolerance)
+                plan.tight_stretches.push_back({t, anchor, k, timetabled, scheduled, technical});
+            const Call& given = run.service->calls[c.call];
+            if (c.stops || given.arrival || given.departure) {
+                anchor = k;
+                scheduled = technical = 0.0;
+            }
+        }
+    }
+}
+
 void add_conflicts(PlanResult& plan) {
     struct Use {
         std::size_t train;
@@ -119,16 +149,71 @@ void add_conflicts(PlanResult& plan) {
 
 }  // namespace
 
+PlanSize plan_size(const Scenario& scenario, const RunOptions& options) {
+    const Infrastructure& in = scenario.infrastructure;
+    PlanSize size;
+    for (const Service& svc : scenario.timetable.services) {
+        if (svc.calls.empty()) continue;
+        const Station* first = in.find_station(svc.calls.front().station);
+        const Station* last = in.find_station(svc.calls.back().station);
+        if (!first || !last) continue;
+        const bool up = svc.direction == Direction::up;
+        const double from = svc.enters_at_edge ? (up ? 0.0 : in.length) : first->at;
+        const double to = svc.leaves_at_edge ? (up ? in.length : 0.0) : last->at;
+        size.train_km += std::abs(to - from) / 1000.0;
+        size.grid_points += std::abs(to - from) / options.step + 1.0;
+        ++size.runs;
+    }
+    return size;
+}
+
 std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& options) {
+    // Refused before any work: a plan's memory is its grid points (README, "Memory").
+    const PlanSize size = plan_size(scenario, options);
+    if (size.grid_points > kMaxPlanGridPoints) {
+        char buf[400];
+        std::snprintf(buf, sizeof buf,
+                      "%s: the plan would integrate %.3g grid points (%zu train runs, %.0f train-km at a step of "
+                      "%g m; about %.1f GB), more than the %.0e allowed (about %.1f GB): use a larger --step, "
+                      "fewer trains or a shorter line",
+                      scenario.source_file.empty() ? "scenario" : scenario.source_file.c_str(), size.grid_points,
+                      size.runs, size.train_km, options.step, size.grid_points * kPlanBytesPerGridPoint / 1e9,
+                      kMaxPlanGridPoints, kMaxPlanGridPoints * kPlanBytesPerGridPoint / 1e9);
+        throw ScenarioError({buf});
+    }
     std::vector<TrainPlan> trains;
     trains.reserve(scenario.timetable.services.size());
+    // A train that cannot run is an input problem: located at its timetable entry, once per entry
+    // (the runs of a repeat pattern share their type and path).
+    std::vector<std::string> problems;
+    std::map<std::size_t, std::pair<std::size_t, std::size_t>> failed;   // entry -> (problem, further runs)
     for (const Service& svc : scenario.timetable.services) {
-        const TrainType* type = scenario.find_train_type(svc.train_type);
-        if (!type) throw std::runtime_error("service " + svc.id + ": unknown train type " + svc.train_type);
-        TrainPlan tp{plan_service(scenario.infrastructure, svc, *type, scenario.timetable.rounding, options), {}};
-        tp.stairway = blocking_stairway(tp.run, scenario.infrastructure.interlocking);
-        trains.push_back(std::move(tp));
+        std::string problem;
+        try {
+            const TrainType* type = scenario.find_train_type(svc.train_type);
+            if (!type) throw std::runtime_error("unknown train type");
+            TrainPlan tp{plan_service(scenario.infrastructure, svc, *type, scenario.timetable.rounding, options), {}};
+            tp.stairway = blocking_stairway(tp.run, scenario.infrastructure.interlocking);
+            trains.push_back(std::move(tp));
+            continue;
+        } catch (const std::runtime_error& e) {
+            problem = e.what();
+        } catch (const std::logic_error& e) {
+            problem = e.what();
+        }
+        if (auto it = failed.find(svc.entry); it != failed.end()) {
+            ++it->second.second;
+            continue;
+        }
+        failed[svc.entry] = {problems.size(), 0};
+        problems.push_back(scenario.where(svc) + ": service " + svc.id + " (train type " + svc.train_type +
+                           "): " + problem);
     }
+    for (const auto& [entry, at] : failed)
+        if (at.second > 0)
+            problems[at.first] += " (and " + std::to_string(at.second) + " more run" + (at.second == 1 ? "" : "s") +
+                                  " of its pattern)";
+    if (!problems.empty()) throw ScenarioError(problems);
     return trains;
 }
 
@@ -150,6 +235,7 @@ PlanResult make_plan(const Scenario& scenario, const RunOptions& options) {
     }
     add_conflicts(plan);
     add_spacing_warnings(plan);
+    add_tight_stretches(plan);
     return plan;
 }
 

@@ -61,6 +61,18 @@ struct SpacingWarning {
     double available = 0.0, needed = 0.0, speed = 0.0;   // [m], [m], [m/s]
 };
 
+// A stretch on which the timetable allows less than the scheduled running time (technical plus
+// supplement): the train runs late there even undisturbed.  It runs from the last stop or given
+// time before a given time to that time (passes with constructed times in between).
+struct TightStretch {
+    std::size_t train = 0;       // index into PlanResult::trains
+    std::size_t from_call = 0;   // indices into its run's calls: where the stretch starts
+    std::size_t call = 0;        // and where it ends (its time falls short)
+    double timetabled = 0.0, scheduled = 0.0, technical = 0.0;   // running times over it [s]
+};
+// Shortfalls below this are rounding of given times, not a tight timetable [s].
+inline constexpr double kTightTolerance = 0.5;
+
 struct PlanResult {
     std::vector<TrainPlan> trains;
     std::vector<LineSection> line_sections;
@@ -69,6 +81,7 @@ struct PlanResult {
     std::vector<Conflict> conflicts;
     std::vector<CapacityFigure> capacity;
     std::vector<SpacingWarning> spacing_warnings;   // by signal id
+    std::vector<TightStretch> tight_stretches;      // by train, in running order
 };
 
 PlanResult make_plan(const Scenario& scenario, const RunOptions& options = {});
@@ -76,7 +89,24 @@ PlanResult make_plan(const Scenario& scenario, const RunOptions& options = {});
 // Headways of consecutive trains in every line section (part of make_plan).
 std::vector<HeadwayPair> consecutive_headways(const Infrastructure& infra, const std::vector<TrainPlan>& trains);
 
-// Every service's planned run and stairway only (what the simulation builds on).
+// Every service's planned run and stairway only (what the simulation builds on).  Throws
+// ScenarioError, each message located at the service's timetable entry, for a train that cannot
+// run (it stalls on a climb, its brakes cannot hold it on a fall, its path does not connect),
+// and before any work when the plan would exceed kMaxPlanGridPoints.
 std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& options = {});
+
+// What a plan holds before it is made: its memory is mostly the speed and time at each point of
+// each run's distance grid.
+struct PlanSize {
+    std::size_t runs = 0;
+    double train_km = 0.0;      // from each run's first timing point (or line end) to its last
+    double grid_points = 0.0;   // at the step asked for
+};
+PlanSize plan_size(const Scenario& scenario, const RunOptions& options = {});
+// Peak memory per grid point: measured on the demo as the growth from a step of 2 m to 0.5 m,
+// about 17 bytes for `plan`, 24 for one simulated day, 30 for a study on 2 threads [bytes].
+inline constexpr double kPlanBytesPerGridPoint = 30.0;
+// The most grid points a plan may hold (about 1.5 GB in a study); README, "Memory".
+inline constexpr double kMaxPlanGridPoints = 5e7;
 
 }  // namespace knockon

@@ -14,12 +14,6 @@
 namespace knockon {
 namespace {
 
-// Floor on the effective braking deceleration.  On a falling gradient steeper than the brakes
-// can hold, b(v) + g*i would reach zero or below and the braking distance would be infinite;
-// the floor keeps the envelope finite (such a line needs a lower speed limit anyway, which the
-// infrastructure data must supply).
-constexpr double kMinBraking = 0.05;
-
 std::string describe(const TrainType& type) { return "train type '" + type.id + "'"; }
 
 std::string metres(double s) {
@@ -195,11 +189,19 @@ void long_gradient_stretches(const TrainPath& path, const Grid& grid, std::vecto
 
 }  // namespace
 
+StallError::StallError(double s_, double gradient_, double tractive_, double resistance_, double gradient_force_)
+    : std::runtime_error("stalls at " + metres(s_) + " along its path: tractive effort does not overcome resistance and "
+                         "gradient"),
+      s(s_), gradient(gradient_), tractive(tractive_), resistance(resistance_), gradient_force(gradient_force_) {}
+
 double braking_deceleration(const TrainType& type, double v, double gradient) {
     // Climbing (gradient > 0) helps the brakes, falling hinders them.  Davis resistance is left
     // out: service-braking rates are quoted as the deceleration achieved, and ignoring the
     // small resistance share errs on the side of longer braking.
-    return std::max(kMinBraking, type.service_deceleration(v) + kGravity * gradient);
+    // The floor never binds where a train runs: planning refuses a train whose brakes leave less
+    // on the steepest fall of its path (brake_hold_problem).  It keeps braking curves finite on
+    // the stretches beyond a path's end that no train runs over.
+    return std::max(kMinNetBraking, type.service_deceleration(v) + kGravity * gradient);
 }
 
 double stopping_distance(const TrainType& type, double v, double gradient) {
@@ -215,6 +217,20 @@ double stopping_distance(const TrainType& type, double v, double gradient) {
     double sum = f(0.0) + f(v);
     for (int k = 1; k < n; ++k) sum += (k % 2 ? 4.0 : 2.0) * f(k * h);
     return reaction + sum * h / 3.0;
+}
+
+double stopping_distance_before(const TrainType& type, double v, const TrainPath& path, double s_from,
+                                double s_target) {
+    // A steeper fall found further back lengthens the braking distance, which may reach steeper
+    // still: searched again over the longer stretch (distances only grow, so a few rounds settle).
+    double from = std::min(s_from, s_target), d = 0.0;
+    for (int round = 0; round < 8; ++round) {
+        const double fall = path.steepest_fall(std::max(from, path.s_min), s_target).value;
+        d = stopping_distance(type, v, fall);
+        if (s_target - d >= from - 1e-9 || from <= path.s_min) break;
+        from = s_target - d;
+    }
+    return d;
 }
 
 double balancing_speed(const TrainType& type, double gradient) {
@@ -453,9 +469,8 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
     auto limited_speed = [&](double w1, double envelope, std::size_t i) {
         if (w1 > 0.0) return std::min(std::sqrt(w1), envelope);
         if (envelope == 0.0) return 0.0;   // stops at the target anyway
-        throw std::runtime_error(describe(type) + " stalls at " + metres(at(i)) +
-                                 ": tractive effort does not overcome resistance and gradient " +
-                                 std::to_string(gradient[i] * 1000.0) + " per mille");
+        throw StallError(at(i), gradient[i], type.tractive_force(0.0), type.resistance(0.0),
+                         type.mass * kGravity * gradient[i]);
     };
     // Time over cell i between speeds v0 and v1 (constant acceleration).
     auto cell_time = [&](double v0, double v1, double ds, std::size_t i) {

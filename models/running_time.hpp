@@ -11,6 +11,7 @@
 // integrated by Motion::step_w (models/motion.hpp).
 #include <cstdint>
 #include <optional>
+#include <stdexcept>
 #include <vector>
 
 #include "models/path.hpp"
@@ -18,6 +19,16 @@
 #include "models/train_type.hpp"
 
 namespace knockon {
+
+// The train cannot make the run: it loses all speed on a climb (or cannot start) where the
+// target is still ahead.  Where along the path, and the forces at standstill there, so that the
+// caller can say where on the line and what is missing.
+struct StallError : std::runtime_error {
+    StallError(double s, double gradient, double tractive, double resistance, double gradient_force);
+    double s;                  // along the path [m]
+    double gradient;           // met there (positive climbing)
+    double tractive, resistance, gradient_force;   // at standstill [N]
+};
 
 struct RunOptions {
     double step = 2.0;   // distance grid [m]: 2 m keeps timing points within ~0.02 s of a 1 m grid
@@ -110,6 +121,11 @@ long run_on_grid_into(Trajectory& out, const TrainType& type, const LegGrid& gri
 double braking_deceleration(const TrainType& type, double v, double gradient);
 // Distance to stop from speed v: v * brake_delay + braking distance on constant gradient g.
 double stopping_distance(const TrainType& type, double v, double gradient);
+// Distance to stop from v short of s_target on `path`: stopping_distance on the steepest fall
+// over the whole braking distance in rear of s_target, and at least over [s_from, s_target]
+// (where the driver is first warned).  The one rule for a braking distance on a gradient profile.
+double stopping_distance_before(const TrainType& type, double v, const TrainPath& path, double s_from,
+                                double s_target);
 // Speed at which tractive effort equals Davis resistance plus gradient force (level when 0).
 double balancing_speed(const TrainType& type, double gradient = 0.0);
 

@@ -1,6 +1,7 @@
 #pragma once
 // A whole scenario as the models see it: infrastructure, rolling stock, timetable and the
 // study settings.  Built by the scenario reader at the edge (tools/io), never from YAML here.
+#include <map>
 #include <string>
 #include <vector>
 
@@ -15,9 +16,19 @@ namespace knockon {
 enum class LineType { suburban, high_speed, mixed };
 const char* to_string(LineType t);
 
+// Where the input gave each timetable entry, each of its calls and each train type, as a
+// location ("file:line:col: path.to.entry"), so that a problem found while planning points back
+// into the file.  Empty for a scenario built in code (messages then name the file or nothing).
+struct SourceMap {
+    std::vector<std::string> services;             // per timetable entry (Service::entry)
+    std::vector<std::vector<std::string>> calls;   // per timetable entry, per call
+    std::map<std::string, std::string> train_types;   // by type id
+};
+
 struct Scenario {
     std::string name;
     std::string source_file;
+    SourceMap sources;
     LineType line_type = LineType::mixed;
     Infrastructure infrastructure;
     std::vector<TrainType> train_types;
@@ -25,6 +36,10 @@ struct Scenario {
     PrimaryDelayModel delays;   // optional `delays:` section; empty = no primary delays
 
     const TrainType* find_train_type(const std::string& id) const;
+    // Locations for messages: the service's timetable entry, one of its calls, a train type.
+    std::string where(const Service& service) const;
+    std::string where(const Service& service, std::size_t call) const;
+    std::string where_type(const std::string& id) const;
 };
 
 }  // namespace knockon

@@ -2,8 +2,11 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
+#include <stdexcept>
 
 #include "models/supplement.hpp"
+#include "models/train_type_checks.hpp"
 
 namespace knockon {
 
@@ -24,6 +27,18 @@ double max_overlap(const Infrastructure& infra) {
     return o;
 }
 
+// Where on the line a train stalls and what force it lacks there.
+std::string stall_text(const TrainPath& path, const StallError& e) {
+    char buf[320];
+    std::snprintf(buf, sizeof buf,
+                  "stalls at km %.3f on a %.3g per mille %s: at standstill its tractive effort (%.4g kN) falls short "
+                  "of its resistance (%.4g kN) plus the gradient force (%.4g kN) by %.4g kN",
+                  path.chainage_at(e.s) / 1000.0, std::abs(e.gradient) * 1000.0, e.gradient >= 0.0 ? "climb" : "fall",
+                  e.tractive / 1000.0, e.resistance / 1000.0, e.gradient_force / 1000.0,
+                  (e.resistance + e.gradient_force - e.tractive) / 1000.0);
+    return buf;
+}
+
 double min_dwell_of(const Call& call, const TrainType& type) {
     return call.min_dwell ? *call.min_dwell : type.min_dwell;
 }
@@ -37,6 +52,8 @@ ServiceRun plan_service(const Infrastructure& infra, const Service& service, con
     run.type = &type;
     run.path = build_path(infra, service, type.length, max_overlap(infra) + kLookAhead);
     const TrainPath& path = run.path;
+    if (const std::string problem = brake_hold_problem(type, path, 0.0, path.length); !problem.empty())
+        throw std::runtime_error(problem);
     const auto& tps = path.timing_points;
 
     // Halts split the run into legs: the origin, every stop, the terminus.
@@ -64,7 +81,11 @@ ServiceRun plan_service(const Infrastructure& infra, const Service& service, con
         bool stop = !(k + 2 == halt_tp.size() && service.leaves_at_edge);
         RunLeg leg;
         leg.grid = make_leg_grid(type, path, s0, s1, options);
-        run_on_grid_into(leg.trajectory, type, leg.grid, s0, v0, s1, stop, options);
+        try {
+            run_on_grid_into(leg.trajectory, type, leg.grid, s0, v0, s1, stop, options);
+        } catch (const StallError& e) {
+            throw std::runtime_error(stall_text(path, e));
+        }
         run.legs.push_back(std::move(leg));
     }
     // Which leg each timing point lies on (a stop belongs to the leg it ends, except the origin).

@@ -1,6 +1,7 @@
 #pragma once
 // The timetable: services, their calls at stations, expanded from clock-face patterns.
 #include <cstdint>
+#include <cstddef>
 #include <optional>
 #include <string>
 #include <vector>
@@ -43,6 +44,9 @@ struct Service {
     std::vector<Call> calls;             // in running order; at least one
 
     const std::string& draw_name() const { return draw.name.empty() ? id : draw.name; }
+    // Index of the timetable entry it was written as (the runs of a repeat pattern share it):
+    // where messages about it point (Scenario::where).
+    std::size_t entry = 0;
 };
 
 struct Timetable {

@@ -12,6 +12,11 @@ namespace knockon {
 // running-time calculation (small-angle form, REFERENCES.md D5).
 inline constexpr double kGravity = 9.81;
 
+// The least deceleration service braking must leave on the steepest fall a train meets
+// [m/s^2]: below it a train from 80 km/h needs more than 5 km to stop, and at 0 it cannot stop
+// at all (common practice, no source).  Planning refuses such a train (brake_hold_problem).
+inline constexpr double kMinNetBraking = 0.05;
+
 // Running-time supplement by the rule of UIC Code 451-1: a percentage of the technical running
 // time plus minutes per 100 km, the distance part dropped on paths not longer than a threshold.
 struct SupplementRule {

@@ -161,14 +161,28 @@ double parse_quantity(std::string_view text, Quantity q) {
                         " needs one of " + accepted_units(q));
     for (const auto& u : units_of(q)) {
         if (unit != u.name) continue;
-        const double si = value * u.factor;
+        double si = value * u.factor;
         // Lengths snap to a micrometre grid so that "14.1 km" and "14100 m" give the same
         // double: track ends and junctions are compared for equality downstream.
-        if (q == Quantity::length) return std::round(si * 1e6) / 1e6;
+        if (q == Quantity::length) si = std::round(si * 1e6) / 1e6;
+        // "1e308 t" is a finite number but 1e311 kg is not, nor 1e303 m on the micrometre grid:
+        // every value past this point is a finite SI number (models/input_ranges then bounds
+        // each field to its plausible range).
+        if (!std::isfinite(si))
+            throw UnitError("\"" + std::string(text) + "\" is too large to compute with (" + describe(q) +
+                            " of that size is not a finite number in SI units)");
         return si;
     }
     throw UnitError("unknown unit \"" + unit + "\" for " + describe(q) + "; use " +
                     accepted_units(q));
+}
+
+double unit_factor(Quantity q, std::string_view unit) {
+    if (q == Quantity::dimensionless && unit.empty()) return 1.0;
+    const std::string u = normalise_unit(unit);
+    for (const auto& f : units_of(q))
+        if (u == f.name) return f.factor;
+    throw UnitError("unknown unit \"" + u + "\" for " + describe(q));
 }
 
 double parse_time_of_day(std::string_view text) {

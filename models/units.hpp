@@ -36,8 +36,13 @@ struct UnitError : std::runtime_error {
 // "010" is ten (no octal), "yes", "0x10", "nan" and "inf" are refused.
 double parse_number(std::string_view text);
 
-// "<number> <unit>" (blank between them optional) converted to SI; throws UnitError.
+// "<number> <unit>" (blank between them optional) converted to SI; throws UnitError, also when
+// the value is too large to be finite in SI ("1e308 t" is 1e311 kg).
 double parse_quantity(std::string_view text, Quantity q);
+
+// The SI value of one `unit` of q ("km" of a length: 1000); throws UnitError for a unit q does
+// not accept.  A dimensionless quantity has the unit "" (factor 1).
+double unit_factor(Quantity q, std::string_view unit);
 
 // "HH:MM" or "HH:MM:SS" as seconds after midnight; hours may exceed 23 (after-midnight running).
 double parse_time_of_day(std::string_view text);

@@ -76,7 +76,7 @@ infrastructure:
     length: 200 m
     mass: 400 t
     max_speed: 160 km/h
-    traction: {max_force: 4000 kN, power: 400 MW}
+    traction: {max_force: 4000 kN, power: 100 MW}
     resistance: {a: 0 kN}
     braking: {deceleration: 0.5 m/s2, delay: )"
       << spec.brake_delay_s << R"( s}

@@ -799,7 +799,7 @@ TEST_CASE("the delays section reads into SI values", "[delays][reader]") {
 TEST_CASE("delays section: located errors", "[delays][reader]") {
     SECTION("negative mean") {
         const std::string d = "delays:\n  entry:\n    - {distribution: exponential, mean: -1 min}\n";
-        expect_error(d, loc_in(kLine + d, "delays:", "-1 min"), "delays.entry[0].mean", "must be greater than 0");
+        expect_error(d, loc_in(kLine + d, "delays:", "-1 min"), "delays.entry[0].mean", "must be more than 0 min");
     }
     SECTION("probability 120 %") {
         const std::string d = "delays:\n  dwell:\n    - {probability: 120 %, distribution: exponential, mean: 1 min}\n";
@@ -866,7 +866,7 @@ TEST_CASE("delays section: located errors", "[delays][reader]") {
     SECTION("zero sigma") {
         const std::string d = "delays:\n  dwell:\n    - {distribution: lognormal, median: 20 s, sigma: 0}\n";
         expect_error(d, loc_in(kLine + d, "sigma: ", "0}"),
-                     "delays.dwell[0].sigma", "must be greater than 0");
+                     "delays.dwell[0].sigma", "must be more than 0 and at most 5");
     }
     SECTION("several mistakes are all reported") {
         const std::string d = "delays:\n  entry:\n    - {probability: -5 %, distribution: gamma, shape: 0, "

@@ -59,6 +59,8 @@ const std::map<std::string, std::vector<std::string>> kTables = {
     {"conflicts", {"section", "first", "second", "from", "overlap_s"}},
     {"capacity", {"line_section", "direction", "window", "from", "to", "trains", "occupation_s", "consumption",
                   "limit"}},
+    {"spacing_warnings", {"signal", "train", "speed_kmh", "warning_m", "stopping_distance_m"}},
+    {"timetable_warnings", {"train", "from", "to", "timetabled_s", "scheduled_s", "technical_s", "short_s"}},
 };
 
 // The two-speed fixture with an unknown key and an unknown unit; returns the 1-based lines

@@ -301,11 +301,12 @@ TEST_CASE("repeat patterns expand into shifted runs with -HHMM ids", "[reader]")
 }
 
 TEST_CASE("a repeat that gives clashing ids is an error", "[reader]") {
-    // every 30 s: 06:00:00 and 06:00:30 would both be S1-0600.
-    const std::string t = with("      category: stopping\n",
-                               "      category: stopping\n      repeat: {every: 30 s, until: \"06:01\"}\n");
+    // The pattern's first run is S1-0600, the id the second entry gives itself.
+    const std::string t0 = with("      category: stopping\n",
+                                "      category: stopping\n      repeat: {every: 30 min, until: \"06:31\"}\n");
+    const std::string t = with("    - id: G1", "    - id: S1-0600", t0);
     const auto e = errors_of(t);
-    CHECK(reported(e, loc(t, "S1"), "timetable.services[0].id", "\"S1-0600\" is used twice"));
+    CHECK(reported(e, loc(t, "S1-0600"), "timetable.services[1].id", "\"S1-0600\" is used twice"));
 }
 
 TEST_CASE("draw identity: the id or the draw_key and a repeat's run number", "[reader]") {
@@ -397,9 +398,10 @@ TEST_CASE("bad unit", "[reader]") {
 
 TEST_CASE("negative or zero lengths", "[reader]") {
     const std::string t = with("    length: 100 m", "    length: -100 m");
-    CHECK(reported(errors_of(t), loc(t, "-100 m"), "train_types[0].length", "must be greater than 0"));
+    CHECK(reported(errors_of(t), loc(t, "-100 m"), "train_types[0].length",
+                   "must be more than 0 m and at most 5000 m (README, input ranges), not -100 m"));
     const std::string t2 = with("  length: 10 km", "  length: 0 km");
-    CHECK(reported(errors_of(t2), loc(t2, "0 km"), "infrastructure.length", "must be greater than 0"));
+    CHECK(reported(errors_of(t2), loc(t2, "0 km"), "infrastructure.length", "must be more than 0 km"));
 }
 
 TEST_CASE("octal-looking numbers are decimal and YAML words are not numbers", "[reader]") {
@@ -549,7 +551,7 @@ TEST_CASE("bands must start at 0 and be sorted", "[reader]") {
     CHECK(reported(errors_of(t2), loc_in(t2, "value: 0 per mille}", "0 km"), "infrastructure.gradients[1].from",
                    "increasing order of from: 0 km follows 0 km"));
     const std::string t3 = with("{from: 2 km, value: 160 km/h}", "{from: 2 km, value: 0 km/h}");
-    CHECK(reported(errors_of(t3), loc_in(t3, "from: 2 km", "0 km/h"), "infrastructure.speed_limits[1].value", "must be greater than 0"));
+    CHECK(reported(errors_of(t3), loc_in(t3, "from: 2 km", "0 km/h"), "infrastructure.speed_limits[1].value", "must be more than 0 km/h"));
 }
 
 TEST_CASE("signalling areas must cover the line; defaults are needed only where used", "[reader]") {
@@ -583,11 +585,13 @@ TEST_CASE("train type checks", "[reader]") {
     const std::string t2 = with("traction: {max_force: 180 kN, power: 2 MW}", "traction: {adhesion_mass: 200 t}");
     CHECK(reported(errors_of(t2), loc(t2, "{adhesion_mass"), "train_types[0].traction", "give max_force and/or power, or a table"));
     const std::string t3 = with("rotating_mass_factor: 1.08", "rotating_mass_factor: 0.9");
-    CHECK(reported(errors_of(t3), loc(t3, "0.9"), "train_types[0].rotating_mass_factor", "must be at least 1"));
+    CHECK(reported(errors_of(t3), loc(t3, "0.9"), "train_types[0].rotating_mass_factor",
+                   "must be between 1 and 1.5"));
     const std::string t4 = with("performance: 95 %", "performance: 120 %");
     CHECK(reported(errors_of(t4), loc(t4, "120 %"), "train_types[0].performance", "at most 100 %"));
     const std::string t5 = with("deceleration: 0.8 m/s2", "deceleration: 0 m/s2");
-    CHECK(reported(errors_of(t5), loc(t5, "0 m/s2"), "train_types[0].braking.deceleration", "must be greater than 0"));
+    CHECK(reported(errors_of(t5), loc(t5, "0 m/s2"), "train_types[0].braking.deceleration",
+                   "must be more than 0 m/s2 and at most 3 m/s2"));
     const std::string t6 = with("  - id: LOCO", "  - id: EMU");
     CHECK(reported(errors_of(t6), loc(t6, "EMU", 1), "train_types[1].id", "train type id \"EMU\" is used twice"));
 }

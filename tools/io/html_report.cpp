@@ -25,6 +25,9 @@ p { max-width: 60em; }
            font-size: 1.05em; margin: 12px 0 16px; max-width: 60em; }
 .alert { border: 3px solid #1a1a1a; background: #ffffff; padding: 10px 14px; font-size: 1.05em;
          margin: 12px 0 16px; max-width: 60em; }
+.warnings { border: 2px solid #1a1a1a; border-left-width: 10px; border-left-style: double; background: #f2f2f2;
+            padding: 8px 14px; margin: 0 0 16px; max-width: 60em; }
+.warnings ul { margin: 4px 0 0; padding-left: 1.2em; }
 .notes { font-size: 0.92em; color: #333333; padding-left: 1.2em; }
 table { border-collapse: collapse; font-size: 0.9em; margin: 8px 0 16px; }
 caption { text-align: left; font-weight: bold; padding: 4px 0; }
@@ -45,7 +48,7 @@ footer { margin-top: 2.5em; border-top: 1px solid #b5b5b5; padding-top: 6px; fon
   body { max-width: none; padding: 0; font-size: 10pt; }
   nav { display: none; }
   section.page { break-before: page; }
-  figure, table, .caution, .alert, h2 { break-inside: avoid; }
+  figure, table, .caution, .alert, .warnings, h2 { break-inside: avoid; }
   h2 { break-after: avoid; }
   thead { display: table-header-group; }
   a { color: inherit; text-decoration: none; }
@@ -207,6 +210,11 @@ std::string render_html(const Report& report) {
     if (!report.caution.empty())
         out += "<div class=\"caution\" role=\"note\"><strong>Caution.</strong> " + html_escape(report.caution) +
                "</div>\n";
+    if (!report.warnings.empty()) {
+        out += "<div class=\"warnings\" role=\"note\"><strong>Warnings.</strong>\n<ul>\n";
+        for (const std::string& w : report.warnings) out += "<li>" + html_escape(w) + "</li>\n";
+        out += "</ul>\n</div>\n";
+    }
     if (!report.facts.empty()) {
         out += "<table class=\"facts\">\n<tbody>\n";
         for (const auto& [label, value] : report.facts)
@@ -243,6 +251,8 @@ Report plan_report(const Scenario& scenario, const PlanResult& plan, const PlanR
     Report r;
     r.title = "Plan report: " + scenario.name;
     r.caution = kSafetyCaution;
+    // A timetable the trains cannot keep undermines every figure below: said before them.
+    for (const TightStretch& w : plan.tight_stretches) r.warnings.push_back(tight_stretch_text(plan, w));
 
     std::vector<std::pair<std::string, std::size_t>> per_category;
     for (const std::string& c : train_categories(plan)) {

@@ -26,6 +26,7 @@ struct Report {
     std::vector<std::string> alerts;                          // plain text, first of all (e.g. a deadlock)
     std::vector<std::pair<std::string, std::string>> facts;   // label, value (plain text)
     std::string caution;                                      // shown prominently at the top
+    std::vector<std::string> warnings;                        // plain text, listed under the caution
     std::vector<std::string> notes;                           // plain text, under the facts
     std::vector<ReportSection> sections;
 };

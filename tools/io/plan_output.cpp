@@ -135,6 +135,21 @@ Table spacing_warnings(const PlanResult& plan) {
     return t;
 }
 
+Table timetable_warnings(const PlanResult& plan) {
+    Table t{"timetable_warnings",
+            "Stretches where the timetable allows less than running time plus supplement (the train runs late "
+            "there even undisturbed)",
+            {{"train", K::text}, {"from", K::text}, {"to", K::text}, {"timetabled_s", K::duration},
+             {"scheduled_s", K::duration}, {"technical_s", K::duration}, {"short_s", K::duration}},
+            {}};
+    for (const TightStretch& w : plan.tight_stretches) {
+        const ServiceRun& r = plan.trains[w.train].run;
+        t.rows.push_back({r.service->id, r.calls[w.from_call].station, r.calls[w.call].station, w.timetabled,
+                          w.scheduled, w.technical, w.scheduled - w.timetabled});
+    }
+    return t;
+}
+
 Table capacity(const PlanResult& plan) {
     Table t{"capacity", "Capacity consumption (UIC 406 compression)",
             {{"line_section", K::text}, {"direction", K::text}, {"window", K::text}, {"from", K::time_of_day},
@@ -150,8 +165,21 @@ Table capacity(const PlanResult& plan) {
 }  // namespace
 
 std::vector<Table> plan_tables(const Scenario&, const PlanResult& plan) {
-    return {trains(plan), running_times(plan), blocking_routes(plan), blocking_sections(plan),
-            headways(plan), headway_matrix(plan), conflicts(plan), capacity(plan), spacing_warnings(plan)};
+    return {trains(plan),         running_times(plan),    blocking_routes(plan), blocking_sections(plan),
+            headways(plan),       headway_matrix(plan),   conflicts(plan),       capacity(plan),
+            spacing_warnings(plan), timetable_warnings(plan)};
+}
+
+std::string tight_stretch_text(const PlanResult& plan, const TightStretch& w) {
+    const ServiceRun& r = plan.trains[w.train].run;
+    char buf[400];
+    std::snprintf(buf, sizeof buf,
+                  "service %s from %s to %s: the timetable allows %.1f s, less than running time plus supplement "
+                  "(%.1f s: technical %.1f s, supplement %.1f s), %.1f s short; the train runs late there even "
+                  "undisturbed",
+                  r.service->id.c_str(), r.calls[w.from_call].station.c_str(), r.calls[w.call].station.c_str(),
+                  w.timetabled, w.scheduled, w.technical, w.scheduled - w.technical, w.scheduled - w.timetabled);
+    return buf;
 }
 
 nlohmann::json table_json(const Table& t) {
@@ -209,6 +237,15 @@ std::string plan_text(const Scenario& scenario, const PlanResult& plan) {
     auto find = [&](const std::string& name) -> Table& {
         return *std::find_if(tables.begin(), tables.end(), [&](const Table& t) { return t.name == name; });
     };
+    // A timetable the trains cannot keep is the first thing to know: every figure after it
+    // stands on planned times that differ from the timetable's.
+    if (!plan.tight_stretches.empty()) {
+        Table tw = find("timetable_warnings");
+        tw.title = "WARNING: on " + std::to_string(tw.rows.size()) +
+                   " stretch(es) the timetable allows less than running time plus supplement; those trains run "
+                   "late there even undisturbed";
+        out += to_text(tw, 50) + "\n";
+    }
     out += to_text(find("trains")) + "\n";
 
     // The thinnest buffers first: what a planner looks at.

@@ -24,6 +24,10 @@ nlohmann::json table_json(const Table& t);
 
 std::string plan_text(const Scenario& scenario, const PlanResult& plan);
 
+// "service A1 from ALD to BEX: the timetable allows 240.0 s, less than running time plus
+// supplement (...), 110.0 s short; ..." for validate, the report and the plan.
+std::string tight_stretch_text(const PlanResult& plan, const TightStretch& w);
+
 // Facts about the scenario shown at the head of every output.
 nlohmann::json scenario_facts(const Scenario& scenario);
 

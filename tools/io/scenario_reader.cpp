@@ -14,32 +14,19 @@
 #include <optional>
 #include <set>
 #include <sstream>
+#include <tuple>
 #include <utility>
 
 #include <yaml-cpp/yaml.h>
 
+#include "models/input_ranges.hpp"
 #include "models/path.hpp"
+#include "models/train_type_checks.hpp"
 #include "models/units.hpp"
 #include "tools/io/yaml_fields.hpp"
 #include "tools/io/yaml_merge.hpp"
 
 namespace knockon {
-
-namespace {
-
-std::string join_lines(const std::vector<std::string>& lines) {
-    std::string out;
-    for (const auto& l : lines) {
-        if (!out.empty()) out += '\n';
-        out += l;
-    }
-    return out;
-}
-
-}  // namespace
-
-ScenarioError::ScenarioError(std::vector<std::string> msgs)
-    : std::runtime_error(join_lines(msgs)), messages(std::move(msgs)) {}
 
 namespace {
 
@@ -52,6 +39,8 @@ using yamlio::MapFields;
 // Chainages written in km and in m are snapped to one grid by parse_quantity; this tolerance only
 // absorbs rounding in sums.
 constexpr double kEps = 1e-6;
+// Main signals of one direction on a track closer than this stand at one place [m].
+constexpr double kSignalSpacingMin = 1.0;
 // A repeat pattern giving more runs than this is surely a typing mistake (e.g. every: 1 s).
 constexpr long kMaxRunsPerPattern = 5000;
 
@@ -128,20 +117,16 @@ private:
                      "signals", "joints"});
         if (!m.ok()) return;
         auto& inf = sc_.infrastructure;
-        if (auto len = m.quantity("length", Quantity::length, true)) {
-            if (*len <= 0) {
-                m.error("length", "must be greater than 0");
-            } else {
-                length_ = *len;
-                inf.length = *len;
-            }
+        if (auto len = ranged(m, "length", Input::line_length, true)) {
+            length_ = *len;
+            inf.length = *len;
         }
         // Level throughout unless told otherwise; line speed has no sensible default.
         if (m.has("gradients"))
-            inf.gradients = read_bands(m, "gradients", Quantity::gradient, false);
+            inf.gradients = read_bands(m, "gradients", Input::gradient);
         else if (length_)
             inf.gradients = {{0.0, *length_, 0.0}};
-        inf.speed_limits = read_bands(m, "speed_limits", Quantity::speed, true);
+        inf.speed_limits = read_bands(m, "speed_limits", Input::speed_limit);
         read_tracks(m);
         read_stations(m);
         if (m.require("signalling")) read_signalling(m.get("signalling"), m.path_of("signalling"));
@@ -163,8 +148,7 @@ private:
     }
 
     // Bands: each value holds from its `from` to the next band's from, the last to the line end.
-    std::vector<ChainageBand> read_bands(const MapFields& m, std::string_view key, Quantity q,
-                                         bool positive) {
+    std::vector<ChainageBand> read_bands(const MapFields& m, std::string_view key, Input which) {
         std::vector<ChainageBand> out;
         auto seq = m.sequence(key, true);
         if (!seq) return out;
@@ -178,7 +162,7 @@ private:
             MapFields b(errors_, std::as_const(*seq)[i], item(path, i), {"from", "value"});
             if (!b.ok()) continue;
             auto from = b.quantity("from", Quantity::length, true);
-            auto value = b.quantity("value", q, true);
+            auto value = ranged(b, "value", which, true);
             bool ok = from && value;
             if (from) {
                 if (i == 0 && std::abs(*from) > kEps) {
@@ -194,10 +178,6 @@ private:
                     ok = false;
                 }
                 if (!prev || *from > *prev) prev = from;
-            }
-            if (value && positive && *value <= 0) {
-                b.error("value", "must be greater than 0");
-                ok = false;
             }
             if (ok) out.push_back({*from, 0.0, *value});
         }
@@ -221,7 +201,7 @@ private:
             auto to = t.quantity("to", Quantity::length, true);
             auto dirs = t.choice("directions", {"up", "down", "both"}, true);
             auto parent = t.text("parent", false);
-            auto limit = t.quantity("speed_limit", Quantity::speed, false);
+            auto limit = ranged(t, "speed_limit", Input::speed_limit, false);
             bool ok = id && from && to && dirs && (parent || !t.has("parent")) &&
                       (limit || !t.has("speed_limit"));
             if (from && !on_line(t, "from", *from)) ok = false;
@@ -229,10 +209,6 @@ private:
             if (from && to && *from >= *to) {
                 t.error("to", "a track must end beyond its start: to " + km(*to) +
                                   " is not beyond from " + km(*from));
-                ok = false;
-            }
-            if (limit && *limit <= 0) {
-                t.error("speed_limit", "must be greater than 0");
                 ok = false;
             }
             if (!id) continue;
@@ -373,9 +349,9 @@ private:
         if (s.has("defaults")) {
             MapFields d(errors_, s.get("defaults"), s.path_of("defaults"),
                         {"sighting_distance", "overlap", "distant_distance"});
-            default_sighting_ = nonnegative(d, "sighting_distance", Quantity::length, false);
-            default_overlap_ = nonnegative(d, "overlap", Quantity::length, false);
-            default_distant_ = positive(d, "distant_distance", Quantity::length, false);
+            default_sighting_ = ranged(d, "sighting_distance", Input::sighting_distance, false);
+            default_overlap_ = ranged(d, "overlap", Input::overlap, false);
+            default_distant_ = ranged(d, "distant_distance", Input::distant_distance, false);
             // A default that is given but wrong is reported once, not again at every signal.
             defaults_given_ = {d.has("sighting_distance"), d.has("overlap"), d.has("distant_distance")};
         }
@@ -386,29 +362,33 @@ private:
             MapFields t(errors_, s.get("interlocking"), s.path_of("interlocking"),
                         {"route_setup", "release", "sight_reaction"});
             auto& times = sc_.infrastructure.interlocking;
-            if (auto v = nonnegative(t, "route_setup", Quantity::duration, false)) times.route_setup = *v;
-            if (auto v = nonnegative(t, "release", Quantity::duration, false)) times.release = *v;
-            if (auto v = nonnegative(t, "sight_reaction", Quantity::duration, false))
-                times.sight_reaction = *v;
+            if (auto v = ranged(t, "route_setup", Input::route_setup, false)) times.route_setup = *v;
+            if (auto v = ranged(t, "release", Input::release, false)) times.release = *v;
+            if (auto v = ranged(t, "sight_reaction", Input::sight_reaction, false)) times.sight_reaction = *v;
         }
     }
 
-    std::optional<double> nonnegative(const MapFields& f, std::string_view key, Quantity q,
-                                      bool required) {
-        auto v = f.quantity(key, q, required);
-        if (v && *v < 0) {
-            f.error(key, "must not be negative");
-            return std::nullopt;
+    // The quantity of `key`, within its plausible range (models/input_ranges); nothing, with the
+    // error recorded, when it is outside.
+    std::optional<double> ranged(const MapFields& f, std::string_view key, Input which, bool required) {
+        auto v = f.quantity(key, input_range(which).quantity, required);
+        if (v) {
+            if (auto problem = range_problem(which, *v)) {
+                f.error(key, *problem);
+                return std::nullopt;
+            }
         }
         return v;
     }
 
-    std::optional<double> positive(const MapFields& f, std::string_view key, Quantity q,
-                                   bool required) {
-        auto v = f.quantity(key, q, required);
-        if (v && *v <= 0) {
-            f.error(key, "must be greater than 0");
-            return std::nullopt;
+    // The same for a table cell.
+    std::optional<double> ranged_cell(const YAML::Node& n, const std::string& path, Input which) {
+        auto v = yamlio::quantity_of(errors_, n, path, input_range(which).quantity);
+        if (v) {
+            if (auto problem = range_problem(which, *v)) {
+                errors_.add(n, path, *problem);
+                return std::nullopt;
+            }
         }
         return v;
     }
@@ -486,6 +466,8 @@ private:
         const std::string path = m.path_of("signals");
         if (seq->size() == 0) m.error("signals", "at least one main signal is needed");
         std::map<std::string, int> seen;  // id -> line
+        // Signals read so far per (track, direction): chainage, id, line.
+        std::map<std::pair<std::string, Direction>, std::vector<std::tuple<double, std::string, int>>> placed;
         for (std::size_t i = 0; i < seq->size(); ++i) {
             MapFields f(errors_, std::as_const(*seq)[i], item(path, i),
                         {"id", "track", "at", "direction", "sighting_distance", "overlap",
@@ -513,6 +495,20 @@ private:
                                       ", which runs from " + km(tr->from) + " to " + km(tr->to));
                 if (tr && dir && !tr->allows(sig.direction))
                     f.error("direction", "track " + tr->id + " does not carry " + *dir + " trains");
+                // Two main signals of one direction at one place on a track would bound a block
+                // of no length: the second could never be passed at danger or cleared apart.
+                if (tr && at && dir) {
+                    auto& here = placed[{*track, sig.direction}];
+                    for (const auto& [x, other, line] : here)
+                        if (std::abs(x - *at) < kSignalSpacingMin) {
+                            f.error("at", "signal " + sig.id + " stands at " + km(*at) + " on track " + *track +
+                                              " facing " + *dir + ", where signal " + other + " (line " +
+                                              std::to_string(line) + ") already stands; main signals of one "
+                                              "direction on a track must be at least 1 m apart");
+                            break;
+                        }
+                    here.emplace_back(*at, sig.id, line_of(f.node()));
+                }
             }
             sig.sighting_distance =
                 signal_value(f, "sighting_distance", default_sighting_, defaults_given_[0], true)
@@ -533,12 +529,10 @@ private:
                                        const std::optional<double>& fallback, bool fallback_given,
                                        bool needed) {
         if (f.has(key)) {
-            auto v = f.quantity(key, Quantity::length, true);
-            if (v && *v < 0) {
-                f.error(key, "must not be negative");
-                return std::nullopt;
-            }
-            return v;
+            const Input which = key == "overlap"             ? Input::overlap
+                                : key == "sighting_distance" ? Input::sighting_distance
+                                                             : Input::distant_distance;
+            return ranged(f, key, which, true);
         }
         if (fallback) return fallback;
         if (needed && !fallback_given)
@@ -577,42 +571,43 @@ private:
                         {"id", "length", "mass", "rotating_mass_factor", "max_speed", "traction",
                          "resistance", "braking", "performance", "min_dwell", "supplement"});
             if (!f.ok()) continue;
+            const std::size_t errors_before = errors_.size();
             TrainType tt;
             auto id = f.text("id", true);
-            if (auto v = positive(f, "length", Quantity::length, true)) tt.length = *v;
-            if (auto v = positive(f, "mass", Quantity::mass, true)) tt.mass = *v;
-            if (auto v = f.quantity("rotating_mass_factor", Quantity::dimensionless, false)) {
-                if (*v < 1.0)
-                    f.error("rotating_mass_factor", "must be at least 1 (rotating parts add to the "
-                                                    "mass to accelerate, never subtract)");
-                else
-                    tt.rotating_mass_factor = *v;
+            if (auto v = ranged(f, "length", Input::train_length, true)) {
+                tt.length = *v;
+                if (length_ && *v > *length_)
+                    f.error("length", "the train (" + km(*v) + ") is longer than the whole line (" + km(*length_) + ")");
             }
-            if (auto v = positive(f, "max_speed", Quantity::speed, true)) tt.max_speed = *v;
+            if (auto v = ranged(f, "mass", Input::mass, true)) tt.mass = *v;
+            // At least 1: rotating parts add to the mass to accelerate, never subtract.
+            if (auto v = ranged(f, "rotating_mass_factor", Input::rotating_mass_factor, false))
+                tt.rotating_mass_factor = *v;
+            if (auto v = ranged(f, "max_speed", Input::max_speed, true)) tt.max_speed = *v;
             if (f.require("traction")) read_traction(f, tt);
             if (f.require("resistance")) {
                 MapFields r(errors_, f.get("resistance"), f.path_of("resistance"), {"a", "b", "c"});
-                if (auto v = nonnegative(r, "a", Quantity::force, true)) tt.davis_a = *v;
-                if (auto v = nonnegative(r, "b", Quantity::davis_b, false)) tt.davis_b = *v;
-                if (auto v = nonnegative(r, "c", Quantity::davis_c, false)) tt.davis_c = *v;
+                if (auto v = ranged(r, "a", Input::davis_a, true)) tt.davis_a = *v;
+                if (auto v = ranged(r, "b", Input::davis_b, false)) tt.davis_b = *v;
+                if (auto v = ranged(r, "c", Input::davis_c, false)) tt.davis_c = *v;
             }
             if (f.require("braking")) read_braking(f, tt);
-            if (auto v = f.quantity("performance", Quantity::share, false)) {
-                if (*v <= 0 || *v > 1.0 + 1e-12)
-                    f.error("performance", "must be more than 0 % and at most 100 %");
-                else
-                    tt.performance = std::min(*v, 1.0);
-            }
-            if (auto v = nonnegative(f, "min_dwell", Quantity::duration, false)) tt.min_dwell = *v;
+            if (auto v = ranged(f, "performance", Input::performance, false)) tt.performance = *v;
+            if (auto v = ranged(f, "min_dwell", Input::min_dwell, false)) tt.min_dwell = *v;
             if (f.has("supplement")) {
                 MapFields s(errors_, f.get("supplement"), f.path_of("supplement"),
                             {"percent", "per_100km", "threshold"});
-                if (auto v = nonnegative(s, "percent", Quantity::share, false))
-                    tt.supplement.share = *v;
-                if (auto v = nonnegative(s, "per_100km", Quantity::duration, false))
+                if (auto v = ranged(s, "percent", Input::supplement_share, false)) tt.supplement.share = *v;
+                if (auto v = ranged(s, "per_100km", Input::supplement_per_100km, false))
                     tt.supplement.per_100km = *v;
-                if (auto v = nonnegative(s, "threshold", Quantity::length, false))
+                if (auto v = ranged(s, "threshold", Input::supplement_threshold, false))
                     tt.supplement.distance_threshold = *v;
+            }
+            // A type read without errors must also be able to run: start and get going on level
+            // track (climbs are each service's own, checked when it is planned).
+            if (errors_.size() == errors_before) {
+                const std::string problem = level_track_problem(tt);
+                if (!problem.empty()) f.error("traction", "train type " + id.value_or("") + " " + problem);
             }
             if (!id) continue;
             if (auto it = train_type_lines_.find(*id); it != train_type_lines_.end()) {
@@ -621,6 +616,7 @@ private:
                 continue;
             }
             tt.id = *id;
+            sc_.sources.train_types[tt.id] = yamlio::location(errors_.file(), f.node().Mark(), f.path());
             train_type_lines_[tt.id] = line_of(f.get("id"));
             train_type_ids_.push_back(tt.id);
             sc_.train_types.push_back(tt);
@@ -631,15 +627,23 @@ private:
         MapFields t(errors_, f.get("traction"), f.path_of("traction"),
                     {"max_force", "power", "table", "adhesion_mass"});
         if (!t.ok()) return;
-        if (auto v = positive(t, "max_force", Quantity::force, false)) tt.max_force = *v;
-        if (auto v = positive(t, "power", Quantity::power, false)) tt.power = *v;
-        if (auto v = positive(t, "adhesion_mass", Quantity::mass, false)) tt.adhesion_mass = *v;
+        if (auto v = ranged(t, "max_force", Input::max_force, false)) tt.max_force = *v;
+        if (auto v = ranged(t, "power", Input::power, false)) tt.power = *v;
+        if (auto v = ranged(t, "adhesion_mass", Input::adhesion_mass, false)) {
+            // Only the weight on driven wheels gives adhesion: part of the train at most.
+            if (tt.mass > 0.0 && *v > tt.mass)
+                t.error("adhesion_mass", "the adhesion mass (" + value_text(input_range(Input::mass), *v) +
+                                             ") is more than the train's mass (" +
+                                             value_text(input_range(Input::mass), tt.mass) + ")");
+            else
+                tt.adhesion_mass = *v;
+        }
         const bool envelope = t.has("max_force") || t.has("power");
         if (t.has("table")) {
             if (envelope)
                 errors_.add(t.node(), t.path(),
                             "give either a table or max_force/power, not both");
-            if (auto table = read_table(t.get("table"), t.path_of("table"), Quantity::force, false))
+            if (auto table = read_table(t.get("table"), t.path_of("table"), Input::table_force))
                 tt.force_table = *table;
         } else if (!envelope) {
             errors_.add(t.node(), t.path(),
@@ -653,19 +657,19 @@ private:
         if (b.require("deceleration")) {
             const YAML::Node d = b.get("deceleration");
             if (d.IsSequence()) {
-                if (auto table = read_table(d, b.path_of("deceleration"), Quantity::acceleration, true))
+                if (auto table = read_table(d, b.path_of("deceleration"), Input::braking))
                     tt.braking_table = *table;
-            } else if (auto v = positive(b, "deceleration", Quantity::acceleration, true)) {
+            } else if (auto v = ranged(b, "deceleration", Input::braking, true)) {
                 tt.braking = *v;
             }
         }
-        if (auto v = nonnegative(b, "delay", Quantity::duration, false)) tt.brake_delay = *v;
+        if (auto v = ranged(b, "delay", Input::brake_delay, false)) tt.brake_delay = *v;
     }
 
     // [[speed, value], ...] sorted by speed, strictly ascending.
     std::optional<std::vector<std::pair<double, double>>> read_table(const YAML::Node& n,
                                                                      const std::string& path,
-                                                                     Quantity q, bool positive) {
+                                                                     Input which) {
         if (!n.IsSequence()) {
             errors_.add(n, path, "expected a table: a list of [speed, value] rows");
             return std::nullopt;
@@ -684,20 +688,11 @@ private:
                 ok = false;
                 continue;
             }
-            auto v = yamlio::quantity_of(errors_, row[0], item(rp, 0), Quantity::speed);
-            auto y = yamlio::quantity_of(errors_, row[1], item(rp, 1), q);
+            auto v = ranged_cell(row[0], item(rp, 0), Input::table_speed);
+            auto y = ranged_cell(row[1], item(rp, 1), which);
             if (!v || !y) {
                 ok = false;
                 continue;
-            }
-            if (*v < 0) {
-                errors_.add(row[0], item(rp, 0), "speed must not be negative");
-                ok = false;
-            }
-            if (positive ? *y <= 0 : *y < 0) {
-                errors_.add(row[1], item(rp, 1),
-                            positive ? "must be greater than 0" : "must not be negative");
-                ok = false;
             }
             if (!rows.empty() && *v <= rows.back().first) {
                 errors_.add(row[0], item(rp, 0),
@@ -716,14 +711,23 @@ private:
     void read_timetable(const YAML::Node& node, const std::string& path) {
         MapFields t(errors_, node, path, {"rounding", "services"});
         if (!t.ok()) return;
-        if (auto v = positive(t, "rounding", Quantity::duration, false)) sc_.timetable.rounding = *v;
+        if (auto v = ranged(t, "rounding", Input::rounding, false)) sc_.timetable.rounding = *v;
         auto seq = t.sequence("services", true);
         if (!seq) return;
         if (seq->size() == 0) t.error("services", "at least one service is needed");
         std::vector<ServiceSource> sources;
+        SourceMap& where = sc_.sources;
+        where.services.assign(seq->size(), std::string());
+        where.calls.assign(seq->size(), {});
         for (std::size_t i = 0; i < seq->size(); ++i) {
-            if (auto s = read_service(std::as_const(*seq)[i], item(t.path_of("services"), i)))
+            if (auto s = read_service(std::as_const(*seq)[i], item(t.path_of("services"), i))) {
+                // Every run of the entry keeps its index, so that planning can say where it stands.
+                s->service.entry = i;
+                where.services[i] = yamlio::location(errors_.file(), s->fields.node().Mark(), s->fields.path());
+                for (const MapFields& c : s->calls)
+                    where.calls[i].push_back(yamlio::location(errors_.file(), c.node().Mark(), c.path()));
                 sources.push_back(std::move(*s));
+            }
         }
         expand(sources);
     }
@@ -767,7 +771,7 @@ private:
                 MapFields em(errors_, e, f.path_of("enter"), {"speed"});
                 svc.enters_at_edge = true;
                 if (em.has("speed")) {
-                    if (auto v = positive(em, "speed", Quantity::speed, false))
+                    if (auto v = ranged(em, "speed", Input::entry_speed, false))
                         svc.entry_speed = *v;
                     else
                         src.ok = calls_ok = false;
@@ -784,7 +788,7 @@ private:
             src.ok = calls_ok = false;
         if (f.has("repeat")) {
             MapFields r(errors_, f.get("repeat"), f.path_of("repeat"), {"every", "until"});
-            src.every = positive(r, "every", Quantity::duration, true);
+            src.every = ranged(r, "every", Input::repeat_every, true);
             src.until = r.time_of_day("until", true);
             if (!src.every || !src.until) src.ok = false;
         }
@@ -840,7 +844,7 @@ private:
                         src.ok = calls_ok = false;
                 }
                 if (c.has("min_dwell")) {
-                    if (auto v = nonnegative(c, "min_dwell", Quantity::duration, true))
+                    if (auto v = ranged(c, "min_dwell", Input::min_dwell, true))
                         call.min_dwell = *v;
                     else
                         src.ok = calls_ok = false;
@@ -903,6 +907,19 @@ private:
                 } else if (!tr->allows(svc.direction)) {
                     c.error("track", "track " + tr->id + " does not carry " + dir + " trains");
                     src.ok = false;
+                } else if (const TrainType* type = sc_.find_train_type(svc.train_type);
+                           type && call.stops && tr->is_loop()) {
+                    // A train standing in a loop must clear both its turnouts: its tail, a train
+                    // length in rear of the stopping mark, must lie within the loop.
+                    const double tail = up ? st.at - type->length : st.at + type->length;
+                    if (up ? tail < tr->from - kEps : tail > tr->to + kEps) {
+                        c.error("track", "service " + svc.id + " (train type " + type->id + ", " +
+                                             km(type->length) + " long) stops at " + st.id + " in loop " +
+                                             tr->id + " (" + km(tr->from) + " to " + km(tr->to) +
+                                             "), but its tail would stand at " + km(tail) +
+                                             ", outside the loop: the train does not fit");
+                        src.ok = false;
+                    }
                 }
             }
         }
@@ -1082,13 +1099,7 @@ private:
 
     // A share between 0 % and 100 %.
     std::optional<double> probability(const MapFields& f, std::string_view key, bool required) {
-        auto v = f.quantity(key, Quantity::share, required);
-        if (v && (*v < 0.0 || *v > 1.0 + 1e-12)) {
-            f.error(key, "must lie between 0 % and 100 %, not " + percent(*v));
-            return std::nullopt;
-        }
-        if (v) *v = std::min(*v, 1.0);
-        return v;
+        return ranged(f, key, Input::probability, required);
     }
 
     void read_delay_rules(const MapFields& m, std::string_view key, std::vector<DelayRule>& out) {
@@ -1159,26 +1170,33 @@ private:
                 ok = false;
             }
         }
-        auto need = [&](std::string_view key, Quantity q, double& into) {
-            if (auto v = positive(f, key, q, true))
+        auto need = [&](std::string_view key, Input which, double& into) {
+            if (auto v = ranged(f, key, which, true))
                 into = *v;
             else
                 ok = false;
         };
         switch (d.kind) {
-            case DistributionKind::exponential: need("mean", Quantity::duration, d.mean); break;
+            case DistributionKind::exponential: need("mean", Input::delay_duration, d.mean); break;
             case DistributionKind::weibull:
             case DistributionKind::gamma:
-                need("shape", Quantity::dimensionless, d.shape);
-                need("scale", Quantity::duration, d.scale);
+                need("shape", Input::delay_shape, d.shape);
+                need("scale", Input::delay_duration, d.scale);
                 break;
             case DistributionKind::lognormal:
-                need("median", Quantity::duration, d.median);
-                need("sigma", Quantity::dimensionless, d.sigma);
+                need("median", Input::delay_duration, d.median);
+                need("sigma", Input::delay_sigma, d.sigma);
                 break;
             case DistributionKind::empirical:
                 if (!read_quantiles(f, d.quantiles)) ok = false;
                 break;
+        }
+        if (ok) {
+            const std::string problem = d.size_problem();
+            if (!problem.empty()) {
+                errors_.add(f.node(), f.path(), problem);
+                ok = false;
+            }
         }
         return ok;
     }
@@ -1204,7 +1222,7 @@ private:
                 continue;
             }
             auto p = yamlio::quantity_of(errors_, row[0], item(rp, 0), Quantity::share);
-            auto v = yamlio::quantity_of(errors_, row[1], item(rp, 1), Quantity::duration);
+            auto v = ranged_cell(row[1], item(rp, 1), Input::empirical_delay);
             if (!p || !v) {
                 ok = false;
                 continue;
@@ -1303,6 +1321,10 @@ private:
             if (auto text = yamlio::scalar_text(errors_, n, item(path, k))) {
                 try {
                     t[k] = parse_time_of_day(*text);
+                    if (auto problem = range_problem(Input::time_of_day, *t[k])) {
+                        errors_.add(n, item(path, k), *problem);
+                        t[k].reset();
+                    }
                 } catch (const UnitError& e) {
                     errors_.add(n, item(path, k), e.what());
                 }

@@ -1,21 +1,17 @@
 #pragma once
 // Reads a scenario file (README, "Scenario file") into the SI model structs.  Every problem found
 // is collected and reported at once, each as "file:line:col: path.to.field: message".
-#include <stdexcept>
 #include <string>
 #include <vector>
 
 #include "models/scenario.hpp"
+#include "models/scenario_error.hpp"
 
 namespace knockon {
 
-struct ScenarioError : std::runtime_error {
-    explicit ScenarioError(std::vector<std::string> messages);
-    // One line per problem, in file order; what() holds them joined by newlines.
-    std::vector<std::string> messages;
-};
-
-// Reads and checks the file; throws ScenarioError (also when the file cannot be opened).
+// Reads and checks the file; throws ScenarioError (also when the file cannot be opened).  The
+// scenario keeps where each service and train type stands in the file (Scenario::sources), so
+// that problems found later, while planning, are located too.
 // `variant` names one of the file's variants (README, "Variants and `compare`"): its overlay is
 // merged onto the document before it is read, so that every error still points at the line
 // where the offending text stands, in the overlay or in the base.  Empty or "base": the

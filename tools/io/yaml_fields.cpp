@@ -4,14 +4,19 @@
 #include <cstdio>
 #include <map>
 
+#include "models/input_ranges.hpp"
+
 namespace knockon::yamlio {
 
-void ErrorList::add(const YAML::Mark& mark, const std::string& path, const std::string& message) {
-    std::string text = file_;
+std::string location(const std::string& file, const YAML::Mark& mark, const std::string& path) {
+    std::string text = file;
     if (!mark.is_null()) text += ":" + std::to_string(mark.line + 1) + ":" + std::to_string(mark.column + 1);
-    text += ": ";
-    if (!path.empty()) text += path + ": ";
-    text += message;
+    if (!path.empty()) text += ": " + path;
+    return text;
+}
+
+void ErrorList::add(const YAML::Mark& mark, const std::string& path, const std::string& message) {
+    std::string text = location(file_, mark, path) + ": " + message;
     // Errors without a place sort last.
     const int line = mark.is_null() ? 1 << 30 : mark.line;
     const int column = mark.is_null() ? 0 : mark.column;
@@ -175,7 +180,12 @@ std::optional<double> MapFields::time_of_day(std::string_view key, bool required
     auto t = scalar_text(key, required);
     if (!t) return std::nullopt;
     try {
-        return parse_time_of_day(*t);
+        const double v = parse_time_of_day(*t);
+        if (auto problem = range_problem(Input::time_of_day, v)) {
+            error(key, *problem);
+            return std::nullopt;
+        }
+        return v;
     } catch (const UnitError& e) {
         error(key, e.what());
         return std::nullopt;

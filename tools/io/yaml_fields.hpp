@@ -19,6 +19,10 @@
 
 namespace knockon::yamlio {
 
+// "file:line:col: path" (yaml-cpp marks are 0-based: printed +1); without line and column
+// when the mark is null, without the path when it is empty.
+std::string location(const std::string& file, const YAML::Mark& mark, const std::string& path);
+
 // Collected errors of one file.
 class ErrorList {
 public:
@@ -75,6 +79,7 @@ public:
 
     std::optional<std::string> text(std::string_view key, bool required) const;
     std::optional<double> quantity(std::string_view key, Quantity q, bool required) const;
+    // "HH:MM" or "HH:MM:SS" within the day's range of times (models/input_ranges).
     std::optional<double> time_of_day(std::string_view key, bool required) const;
     // One of `choices`, spelled exactly.
     std::optional<std::string> choice(std::string_view key,

@@ -351,8 +351,7 @@ int compare(const std::vector<std::string>& args) {
     if (order == "timetable") opt.sim.route_order = RouteOrder::timetable;
     else if (order == "first-come") opt.sim.route_order = RouteOrder::first_come;
     else throw UsageError("--order must be timetable or first-come, not '" + order + "'");
-    opt.sim.run.step = vm["step"].as<double>();
-    if (!(opt.sim.run.step > 0.0 && opt.sim.run.step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
+    opt.sim.run.step = step_option(vm);
     const std::uint64_t seed = count_option(vm, "seed", 0, UINT64_MAX);
 
     std::vector<VariantInfo> known = read_variants(file);

@@ -1,5 +1,6 @@
 #include "tools/knockon/delay_option.hpp"
 
+#include "models/input_ranges.hpp"
 #include "models/units.hpp"
 #include "tools/knockon/commands.hpp"
 
@@ -29,6 +30,8 @@ InjectedDelays parse_delays(const std::vector<std::string>& specs, const std::ve
             fail(std::string("minutes: ") + e.what());
         }
         if (!(minutes >= 0.0)) fail("minutes must not be negative");
+        // As the scenario's delays (README, "Input ranges"): one delay stays within a day.
+        if (60.0 * minutes > kLongestDelay) fail("minutes must be at most " + std::to_string(static_cast<int>(kLongestDelay / 60.0)) + " (a delay within a day)");
         std::size_t t = trains.size();
         for (std::size_t i = 0; i < trains.size(); ++i)
             if (trains[i].run.service->id == train) t = i;

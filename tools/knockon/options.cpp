@@ -6,7 +6,25 @@
 #include <iostream>
 #include <sstream>
 
+#include "tools/io/study_hdf5.hpp"
+
 namespace knockon::cli {
+
+namespace {
+
+std::string number_text(double v) {
+    char buf[48];
+    std::snprintf(buf, sizeof buf, "%g", v);
+    return buf;
+}
+
+std::string minutes_text(double seconds) {
+    char buf[48];
+    std::snprintf(buf, sizeof buf, "%.10g", seconds / 60.0);
+    return buf;
+}
+
+}  // namespace
 
 std::uint64_t count_option(const po::variables_map& vm, const char* name, std::uint64_t lo, std::uint64_t hi) {
     const std::string text = vm[name].as<std::string>();
@@ -44,6 +62,13 @@ std::vector<double> punctuality_thresholds(const po::variables_map& vm) {
     }
     std::sort(out.begin(), out.end());
     out.erase(std::unique(out.begin(), out.end()), out.end());
+    // Thresholds become field names of the results files; two that print alike would collide.
+    for (std::size_t i = 1; i < out.size(); ++i)
+        if (punctuality_field(out[i]) == punctuality_field(out[i - 1]))
+            throw UsageError("--punctuality: thresholds of " + minutes_text(out[i - 1]) + " and " +
+                             minutes_text(out[i]) + " minutes would both be stored as the field " +
+                             punctuality_field(out[i]) + "; give thresholds that differ in the first six digits "
+                             "of their seconds, not '" + text + "'");
     return out;
 }
 
@@ -69,6 +94,34 @@ int deadlock_status(const std::string& command, std::size_t deadlocked, std::siz
                  "(--allow-deadlock accepts it with status 0)\n",
                  command.c_str(), which.c_str(), kDeadlockStatus);
     return kDeadlockStatus;
+}
+
+double step_option(const po::variables_map& vm) {
+    const double step = vm["step"].as<double>();
+    if (!(step >= kMinStep && step <= kMaxStep))
+        throw UsageError("--step must be between " + number_text(kMinStep) + " and " + number_text(kMaxStep) +
+                         " metres, not " + number_text(step));
+    return step;
+}
+
+double sample_option(const po::variables_map& vm) {
+    const double s = vm["sample"].as<double>();
+    if (!(s == 0.0 || (s >= kMinSample && s <= 86400.0)))
+        throw UsageError("--sample must be 0 (no trajectories) or between " + number_text(kMinSample) +
+                         " and 86400 seconds, not " + number_text(s));
+    return s;
+}
+
+void check_sample_count(const std::vector<TrainPlan>& plan, double sample_interval) {
+    if (sample_interval <= 0.0) return;
+    double seconds = 0.0;   // planned time on the line, summed over the runs
+    for (const TrainPlan& tp : plan) seconds += std::max(0.0, tp.run.vanish_time - tp.run.appear_time);
+    const double samples = seconds / sample_interval;
+    if (samples > kMaxSamples)
+        throw UsageError("--sample " + number_text(sample_interval) + " would record about " + number_text(samples) +
+                         " trajectory samples for the " + std::to_string(plan.size()) +
+                         " planned runs (more than " + number_text(kMaxSamples) + "); give a larger interval, at least " +
+                         number_text(seconds / kMaxSamples) + " s");
 }
 
 std::string command_line_without_threads(const std::string& command_line) {

@@ -6,6 +6,7 @@
 #include <string>
 #include <vector>
 
+#include "models/plan.hpp"
 #include "tools/knockon/commands.hpp"
 
 namespace knockon::cli {
@@ -20,6 +21,8 @@ std::uint64_t count_option(const po::variables_map& vm, const char* name, std::u
 
 // `--punctuality 3,5`: thresholds in whole or decimal minutes, returned in seconds, ascending.
 // A delay counts as within a threshold when it is strictly below it (2:59 within 3 minutes).
+// Each threshold names fields of the results file (punctuality_field): thresholds that would
+// share a name are refused.
 void add_punctuality_option(po::options_description& options);
 std::vector<double> punctuality_thresholds(const po::variables_map& vm);
 
@@ -32,6 +35,19 @@ bool allow_deadlock(const po::variables_map& vm);
 // 0 or kDeadlockStatus for `deadlocked` of `days` simulated days, with a line on stderr saying
 // which and why when there are any.
 int deadlock_status(const std::string& command, std::size_t deadlocked, std::size_t days, const po::variables_map& vm);
+// `--step`: the distance step of the running-time integration [m].  Below kMinStep the plan's
+// memory grows past use (timing points move by about 0.02 s between 1 m and 2 m already).
+inline constexpr double kMinStep = 0.5, kMaxStep = 50.0;
+double step_option(const po::variables_map& vm);
+
+// `--sample`: seconds between trajectory samples of a simulated day; 0 for none, else at least
+// kMinSample.  A day may hold at most kMaxSamples samples (about 40 bytes each, 0.4 GB):
+// check_sample_count refuses, before the day runs, an interval that would give more for the
+// planned runs (README, "Memory").
+inline constexpr double kMinSample = 0.5;
+inline constexpr double kMaxSamples = 1e7;
+double sample_option(const po::variables_map& vm);
+void check_sample_count(const std::vector<TrainPlan>& plan, double sample_interval);
 
 // The command line as a results file stores it: without --threads (or an abbreviation such as
 // --thr, with its value), which changes neither the results nor, so, the file's bytes.

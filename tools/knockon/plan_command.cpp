@@ -17,8 +17,7 @@ int plan(const std::vector<std::string>& args) {
         "variant", po::value<std::string>(), "apply this variant of the scenario file (base: none)");
     po::variables_map vm;
     if (!parse_command_line("plan", args, options, vm)) return 0;
-    const double step = vm["step"].as<double>();
-    if (!(step > 0.0 && step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
+    const double step = step_option(vm);
 
     const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
     Scenario scenario = read_scenario(vm["scenario"].as<std::string>(), variant);

@@ -17,7 +17,6 @@ namespace knockon::cli {
 
 // In report_command.cpp: the options both commands take.
 void add_drawing_options(po::options_description& options);
-double step_option(const po::variables_map& vm);
 WindowRequest window_request(const po::variables_map& vm);
 TimeWindow checked_window(const PlanResult& plan, const WindowRequest& request, std::string* reason);
 void refuse_day_options(const po::variables_map& vm);

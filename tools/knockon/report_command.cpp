@@ -80,13 +80,6 @@ void add_drawing_options(po::options_description& options) {
     add_punctuality_option(options);
 }
 
-// --step, checked (shared with `plot`).
-double step_option(const po::variables_map& vm) {
-    const double step = vm["step"].as<double>();
-    if (!(step > 0.0 && step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
-    return step;
-}
-
 void refuse_day_options(const po::variables_map& vm) {
     if (!vm["punctuality"].defaulted()) throw UsageError("--punctuality applies to a day results file (.h5)");
 }

@@ -232,14 +232,13 @@ int simulate(const std::vector<std::string>& args) {
     if (order == "timetable") so.route_order = RouteOrder::timetable;
     else if (order == "first-come") so.route_order = RouteOrder::first_come;
     else throw UsageError("--order must be timetable or first-come, not '" + order + "'");
-    so.sample_interval = vm["sample"].as<double>();
-    if (!(so.sample_interval >= 0.0)) throw UsageError("--sample must not be negative");
-    so.run.step = vm["step"].as<double>();
-    if (!(so.run.step > 0.0 && so.run.step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
+    so.sample_interval = sample_option(vm);
+    so.run.step = step_option(vm);
 
     const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
     Scenario scenario = read_scenario(vm["scenario"].as<std::string>(), variant);
     std::vector<TrainPlan> plan = plan_trains(scenario, so.run);
+    check_sample_count(plan, so.sample_interval);
     if (vm.count("replications")) {
         if (vm.count("delay")) throw UsageError("--delay is for a single day; a study draws its delays from the scenario");
         return run_study_command(vm, scenario, plan, so, command_line);

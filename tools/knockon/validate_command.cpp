@@ -1,6 +1,9 @@
 #include <cstdio>
+#include <map>
 #include <set>
 
+#include "models/plan.hpp"
+#include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/knockon/options.hpp"
 
@@ -16,46 +19,78 @@ std::string facts(const Scenario& s) {
     return buf;
 }
 
+// Warnings of a plan, located at the call each stretch ends at: the timetable allows less than
+// running time plus supplement.  The runs of one repeat pattern share a call of the file: one
+// line per call and stretch, naming the first run and how many more there are.
+std::vector<std::string> plan_warnings(const Scenario& sc, const PlanResult& plan) {
+    std::vector<std::string> out;
+    std::map<std::string, std::pair<std::size_t, std::size_t>> seen;   // location -> (line in out, more runs)
+    for (const TightStretch& w : plan.tight_stretches) {
+        const ServiceRun& run = plan.trains[w.train].run;
+        const std::string where = sc.where(*run.service, run.calls[w.call].call);
+        if (auto it = seen.find(where); it != seen.end()) {
+            ++it->second.second;
+            continue;
+        }
+        seen[where] = {out.size(), 0};
+        out.push_back(where + ": warning: " + tight_stretch_text(plan, w));
+    }
+    for (const auto& [where, at] : seen)
+        if (at.second > 0)
+            out[at.first] += " (and " + std::to_string(at.second) + " more run" + (at.second == 1 ? "" : "s") +
+                             " of its pattern)";
+    return out;
+}
+
 }  // namespace
 
-// Checks the base scenario and every variant (each merged onto the base and read in full).  A
-// problem of the base shows up again in every variant that does not override it; it is reported
-// once, and only the problems a variant adds are marked with its name.
+// Checks the base scenario and every variant (each merged onto the base, read in full and
+// planned: what cannot run is named here, before any study).  A problem of the base shows up
+// again in every variant that does not override it; it is reported once, and only the problems
+// a variant adds are marked with its name.  Warnings go to stderr and leave the status 0.
 int validate(const std::vector<std::string>& args) {
     po::options_description options("validate options");
     po::variables_map vm;
     if (!parse_command_line("validate", args, options, vm)) return 0;
     const std::string file = vm["scenario"].as<std::string>();
 
-    std::vector<std::string> problems;
+    std::vector<std::string> problems, warnings;
     std::set<std::string> seen;
-    auto add = [&](const std::vector<std::string>& messages, const std::string& variant) {
+    auto add = [&](std::vector<std::string>& to, const std::vector<std::string>& messages, const std::string& variant) {
         for (const std::string& m : messages)
-            if (seen.insert(m).second) problems.push_back(variant.empty() ? m : m + " (in variant " + variant + ")");
+            if (seen.insert(m).second) to.push_back(variant.empty() ? m : m + " (in variant " + variant + ")");
+    };
+    // Reads and plans one variant ("" the base); false when it has problems (recorded).
+    auto check = [&](const std::string& variant, Scenario& into) {
+        try {
+            into = read_scenario(file, variant);
+            const PlanResult plan = make_plan(into);
+            add(warnings, plan_warnings(into, plan), variant);
+            return true;
+        } catch (const ScenarioError& e) {
+            add(problems, e.messages, variant);
+            return false;
+        }
     };
     Scenario base;
-    try {
-        base = read_scenario(file);
-    } catch (const ScenarioError& e) {
-        add(e.messages, "");
-    }
+    check("", base);
     std::vector<VariantInfo> variants;
     try {
         variants = read_variants(file);
     } catch (const ScenarioError& e) {
-        add(e.messages, "");
+        add(problems, e.messages, "");
     }
     std::vector<std::string> lines;
     for (const VariantInfo& v : variants) {
-        try {
-            lines.push_back("  variant " + v.name + ": ok; " + facts(read_scenario(file, v.name)));
-        } catch (const ScenarioError& e) {
-            add(e.messages, v.name);
-        }
+        Scenario sc;
+        if (check(v.name, sc)) lines.push_back("  variant " + v.name + ": ok; " + facts(sc));
     }
+    for (const std::string& w : warnings) std::fprintf(stderr, "%s\n", w.c_str());
     if (!problems.empty()) throw ScenarioError(problems);
 
     std::printf("%s: ok: %s; %s\n", file.c_str(), base.name.c_str(), facts(base).c_str());
+    if (!warnings.empty())
+        std::printf("%s: %zu warning%s (on stderr)\n", file.c_str(), warnings.size(), warnings.size() == 1 ? "" : "s");
     if (!variants.empty()) {
         for (const std::string& l : lines) std::printf("%s\n", l.c_str());
         std::printf("%s: ok (base and %zu variant%s)\n", file.c_str(), variants.size(),
