@@ -234,6 +234,8 @@ int simulate(const std::vector<std::string>& args) {
     else throw UsageError("--order must be timetable or first-come, not '" + order + "'");
     so.sample_interval = sample_option(vm);
     so.run.step = step_option(vm);
+    // Checked before any work: thresholds that would share a results field are refused.
+    const std::vector<double> thresholds = punctuality_thresholds(vm);
 
     const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
     Scenario scenario = read_scenario(vm["scenario"].as<std::string>(), variant);
@@ -249,7 +251,7 @@ int simulate(const std::vector<std::string>& args) {
         vm.count("delay") ? vm["delay"].as<std::vector<std::string>>() : std::vector<std::string>{}, plan);
     SimModel model(scenario.infrastructure, plan);
     SimResult result = simulate_day(model, delays, so);
-    DaySummary summary = summarize_day(result, punctuality_thresholds(vm));
+    DaySummary summary = summarize_day(result, thresholds);
     if (vm.count("out")) {
         Hdf5RunInfo info;
         info.scenario_file = scenario.source_file;
