@@ -217,7 +217,7 @@ TrainPath build_path(const Infrastructure& infra, const Service& service, double
             double lo = std::max(a, plo), hi = std::min(b, phi);
             if (hi - lo <= kEps) continue;
             local.push_back({section_id(pc.track->id, bounds[k], bounds[k + 1]), lo - p_start, hi - p_start,
-                             bounds[k], bounds[k + 1]});
+                             bounds[k], bounds[k + 1], pc.track});
         }
         std::sort(local.begin(), local.end(),
                   [](const PathSection& l, const PathSection& r) { return l.s_from < r.s_from; });

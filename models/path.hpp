@@ -25,6 +25,7 @@ struct PathSection {
     std::string id;
     double s_from = 0.0, s_to = 0.0;   // along the path [m]
     double x_lo = 0.0, x_hi = 0.0;     // chainage extent of the whole section [m]
+    const Track* track = nullptr;      // the track it lies on
 };
 
 struct PathSignal {

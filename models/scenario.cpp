@@ -54,4 +54,9 @@ std::string Scenario::where_type(const std::string& id) const {
     return source_file.empty() ? std::string("scenario") : source_file;
 }
 
+std::string Scenario::where_signal(const std::string& id) const {
+    if (auto it = sources.signals.find(id); it != sources.signals.end()) return it->second;
+    return source_file.empty() ? std::string("scenario") : source_file;
+}
+
 }  // namespace knockon

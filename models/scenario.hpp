@@ -16,13 +16,14 @@ namespace knockon {
 enum class LineType { suburban, high_speed, mixed };
 const char* to_string(LineType t);
 
-// Where the input gave each timetable entry, each of its calls and each train type, as a
+// Where the input gave each timetable entry, each of its calls, each train type and signal, as a
 // location ("file:line:col: path.to.entry"), so that a problem found while planning points back
 // into the file.  Empty for a scenario built in code (messages then name the file or nothing).
 struct SourceMap {
     std::vector<std::string> services;             // per timetable entry (Service::entry)
     std::vector<std::vector<std::string>> calls;   // per timetable entry, per call
     std::map<std::string, std::string> train_types;   // by type id
+    std::map<std::string, std::string> signals;       // by signal id
 };
 
 struct Scenario {
@@ -40,6 +41,7 @@ struct Scenario {
     std::string where(const Service& service) const;
     std::string where(const Service& service, std::size_t call) const;
     std::string where_type(const std::string& id) const;
+    std::string where_signal(const std::string& id) const;
 };
 
 }  // namespace knockon

@@ -13,7 +13,10 @@
 
 namespace knockon {
 
-enum class RouteOrder { timetable, first_come };
+// timetable: in planned order at every section; first_come: to whoever asks first; dispatch:
+// first come, but only grants that leave a way for every train on the line to run to its end
+// (no deadlock can form: see sim/dispatch.hpp).
+enum class RouteOrder { timetable, first_come, dispatch };
 
 inline constexpr std::uint32_t kNoTrain = UINT32_MAX;
 // The "holder" of a section taken out of use by a disruption.

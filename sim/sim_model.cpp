@@ -63,6 +63,17 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
         Train tr;
         tr.plan = &tp;
         for (const PathSection& sec : path.sections) tr.section_index.push_back(section_of(sec.id));
+        {
+            const auto n = static_cast<std::uint32_t>(path.sections.size());
+            tr.advance.assign(n + 1, {n, n});
+            for (std::uint32_t k = n; k-- > 0;) {
+                const PathSection& sec = path.sections[k];
+                const bool clear_place = !sec.track || !infra.single_line(*sec.track, sec.x_lo, sec.x_hi);
+                if (!clear_place) tr.advance[k] = tr.advance[k + 1];
+                else if (k + 1 < n && tr.advance[k + 1].first == k + 1) tr.advance[k] = {k, tr.advance[k + 1].second};
+                else tr.advance[k] = {k, k + 1};
+            }
+        }
         const double length = tp.run.type->length;
         // Sections it appears on: where it stands at its origin, or, entering over the line end,
         // those before the first signal (no route of its own protects them).

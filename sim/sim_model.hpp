@@ -56,6 +56,11 @@ public:
         const TrainPlan* plan = nullptr;
         std::vector<Route> routes;
         std::vector<std::uint32_t> section_index;   // per path section: global index
+        // For the dispatcher (sim/dispatch.hpp), per path section k (and k = the number of
+        // sections): the next place from k on where the train can stand clear of opposing traffic,
+        // as path sections [first, last): a run of sections off single line
+        // (Infrastructure::single_line) after any single-line ones; [n, n) where the path ends first.
+        std::vector<std::pair<std::uint32_t, std::uint32_t>> advance;
         // Sections a train needs free to appear: where an originating train stands, or those up
         // to the first signal for a train entering over the line end.  Global and path indices.
         std::vector<std::uint32_t> origin_sections, origin_path_sections;

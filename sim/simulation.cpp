@@ -9,6 +9,7 @@
 #include <stdexcept>
 
 #include "sim/deadlock_text.hpp"
+#include "sim/dispatch.hpp"
 #include "sim/event_queue.hpp"
 
 namespace knockon {
@@ -153,6 +154,7 @@ private:
     const SimOptions& options_;
     const InterlockingTimes& times_;
     Interlocking interlocking_;
+    DispatchCheck dispatch_;
     EventQueue queue_;
     GenerationTable generations_;
     std::vector<TrainState> st_;
@@ -338,6 +340,7 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
       options_(options),
       times_(model.infrastructure().interlocking),
       interlocking_(model.section_names().size(), options.route_order, model.planned_order()),
+      dispatch_(model),
       generations_(kEntitiesPerTrain * model.trains().size()) {
     const auto& trains = model.trains();
     st_.resize(trains.size());
@@ -829,7 +832,7 @@ bool Day::may_take(std::uint32_t t, const std::vector<std::uint32_t>& sections) 
         std::vector<std::uint8_t> seen(st_.size(), 0);
         if (!waits_on(b, t, seen)) return false;
     }
-    return true;
+    return options_.route_order != RouteOrder::dispatch || dispatch_.leaves_a_way(interlocking_, t, sections);
 }
 
 void Day::grant_pending() {

@@ -128,7 +128,7 @@ TEST_CASE("A study with deadlocked days exits 3 unless --allow-deadlock and says
 
 TEST_CASE("A deadlocked single day shows what it did and who waits, never a punctuality", "[cli][sim][deadlock]") {
     TempDir dir;
-    const Result r = run_knockon("simulate " + q(kHeadOn), dir);
+    const Result r = run_knockon("simulate " + q(kHeadOn) + " --order timetable", dir);
     INFO(r.out << r.err);
     CHECK(r.status == 3);
     CHECK_THAT(second_line(r.out), StartsWith("DEADLOCK at ") && Contains("2 of 2 trains never reached") &&
@@ -141,7 +141,7 @@ TEST_CASE("A deadlocked single day shows what it did and who waits, never a punc
     CHECK(r.out.find("No train ends late") == std::string::npos);
     CHECK(r.out.find("mean delay") == std::string::npos);
 
-    const Result js = run_knockon("simulate " + q(kHeadOn) + " --json --allow-deadlock", dir);
+    const Result js = run_knockon("simulate " + q(kHeadOn) + " --order timetable" + " --json --allow-deadlock", dir);
     CHECK(js.status == 0);
     check_deadlock_first(js.out);
     const json j = json::parse(js.out);
@@ -238,7 +238,7 @@ TEST_CASE("report and plot of results with deadlocked days say so first", "[cli]
 
     // A deadlocked day: an incomplete day, with the trains left waiting and no punctuality drawn.
     const fs::path day = dir.path / "day.h5";
-    REQUIRE(run_knockon("simulate " + q(kHeadOn) + " --out " + q(day), dir).status == 3);
+    REQUIRE(run_knockon("simulate " + q(kHeadOn) + " --order timetable" + " --out " + q(day), dir).status == 3);
     REQUIRE(fs::exists(day));   // written whole, exit status 3 all the same
     const fs::path day_page = dir.path / "day.html";
     REQUIRE(run_knockon("report " + q(day) + " -o " + q(day_page), dir).status == 0);

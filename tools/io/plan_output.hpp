@@ -27,6 +27,9 @@ std::string plan_text(const Scenario& scenario, const PlanResult& plan);
 // "service A1 from ALD to BEX: the timetable allows 240.0 s, less than running time plus
 // supplement (...), 110.0 s short; ..." for validate, the report and the plan.
 std::string tight_stretch_text(const PlanResult& plan, const TightStretch& w);
+// "signal U04: its aspect system gives 1200 m of warning, less than the stopping distance of
+// service G1 from 100 km/h (2378.7 m); ..." for validate.
+std::string spacing_warning_text(const PlanResult& plan, const SpacingWarning& w);
 
 // Facts about the scenario shown at the head of every output.
 nlohmann::json scenario_facts(const Scenario& scenario);

@@ -479,6 +479,7 @@ private:
             auto at = f.quantity("at", Quantity::length, true);
             auto dir = f.choice("direction", {"up", "down"}, true);
             if (id) {
+                sc_.sources.signals[*id] = yamlio::location(errors_.file(), f.node().Mark(), f.path());
                 auto [pos, fresh] = seen.emplace(*id, line_of(f.get("id")));
                 if (!fresh)
                     f.error("id", "signal id \"" + *id + "\" is used twice (first at line " +

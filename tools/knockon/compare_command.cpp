@@ -330,13 +330,12 @@ int compare(const std::vector<std::string>& args) {
         "replications", po::value<std::string>()->default_value("100"), "simulated days per variant")(
         "seed", po::value<std::string>()->default_value("1"), "random seed, the same for every variant")(
         "threads", po::value<std::string>()->default_value("1"), "threads (results do not depend on it)")(
-        "order", po::value<std::string>()->default_value("timetable"),
-        "route-setting order at conflicts: timetable or first-come")(
         "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]")(
         "json", "print one JSON document instead of tables")(
         "out", po::value<std::string>(),
         "also write the results to this HDF5 file (kind comparison: each variant's study figures and "
         "the paired differences)");
+    add_order_option(options);
     add_deadlock_option(options);
     add_punctuality_option(options);
     po::variables_map vm;
@@ -347,10 +346,6 @@ int compare(const std::vector<std::string>& args) {
     opt.replications = static_cast<std::uint32_t>(count_option(vm, "replications", 1, 10'000'000));
     opt.threads = static_cast<unsigned>(count_option(vm, "threads", 1, 256));
     opt.thresholds = punctuality_thresholds(vm);
-    const std::string order = vm["order"].as<std::string>();
-    if (order == "timetable") opt.sim.route_order = RouteOrder::timetable;
-    else if (order == "first-come") opt.sim.route_order = RouteOrder::first_come;
-    else throw UsageError("--order must be timetable or first-come, not '" + order + "'");
     opt.sim.run.step = step_option(vm);
     const std::uint64_t seed = count_option(vm, "seed", 0, UINT64_MAX);
 
@@ -382,6 +377,8 @@ int compare(const std::vector<std::string>& args) {
         r->figures = plan_figures(r->plan);
         runs.push_back(std::move(r));
     }
+    // (auto: by the first variant's line; every variant runs under the same order)
+    opt.sim.route_order = route_order_option(vm, runs.front()->scenario.infrastructure);
     if (runs.front()->scenario.delays.empty())
         std::fprintf(stderr, "knockon compare: note: %s has no `delays:` section, so every day is the same\n",
                      file.c_str());

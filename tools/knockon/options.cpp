@@ -96,6 +96,21 @@ int deadlock_status(const std::string& command, std::size_t deadlocked, std::siz
     return kDeadlockStatus;
 }
 
+void add_order_option(po::options_description& options) {
+    options.add_options()("order", po::value<std::string>()->default_value("auto"),
+                          "route-setting order at conflicts: timetable, first-come, dispatch, or auto (dispatch "
+                          "where the line has single line, else timetable; README)");
+}
+
+RouteOrder route_order_option(const po::variables_map& vm, const Infrastructure& infra) {
+    const std::string order = vm["order"].as<std::string>();
+    if (order == "auto") return infra.has_single_line() ? RouteOrder::dispatch : RouteOrder::timetable;
+    if (order == "timetable") return RouteOrder::timetable;
+    if (order == "first-come") return RouteOrder::first_come;
+    if (order == "dispatch") return RouteOrder::dispatch;
+    throw UsageError("--order must be auto, timetable, first-come or dispatch, not '" + order + "'");
+}
+
 double step_option(const po::variables_map& vm) {
     const double step = vm["step"].as<double>();
     if (!(step >= kMinStep && step <= kMaxStep))

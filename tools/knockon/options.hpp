@@ -7,6 +7,7 @@
 #include <vector>
 
 #include "models/plan.hpp"
+#include "sim/interlocking.hpp"
 #include "tools/knockon/commands.hpp"
 
 namespace knockon::cli {
@@ -39,6 +40,11 @@ int deadlock_status(const std::string& command, std::size_t deadlocked, std::siz
 // memory grows past use (timing points move by about 0.02 s between 1 m and 2 m already).
 inline constexpr double kMinStep = 0.5, kMaxStep = 50.0;
 double step_option(const po::variables_map& vm);
+
+// `--order`: timetable, first-come or dispatch; auto (the default): dispatch where the line has
+// single line, else timetable.
+RouteOrder route_order_option(const po::variables_map& vm, const Infrastructure& infra);
+void add_order_option(po::options_description& options);
 
 // `--sample`: seconds between trajectory samples of a simulated day; 0 for none, else at least
 // kMinSample.  A day may hold at most kMaxSamples samples (about 40 bytes each, 0.4 GB):

@@ -209,8 +209,6 @@ int simulate(const std::vector<std::string>& args) {
         "write the results to this HDF5 file (a study: per-day figures, statistics and traced days)")(
         "delay", po::value<std::vector<std::string>>()->composing(),
         "inject a delay: TRAIN:entry:MINUTES, TRAIN:dwell@STATION:MINUTES or TRAIN:run@STATION:MINUTES (repeatable)")(
-        "order", po::value<std::string>()->default_value("timetable"),
-        "route-setting order at conflicts: timetable or first-come")(
         "sample", po::value<double>()->default_value(0.0), "record trajectories every this many seconds (0: none)")(
         "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]")(
         "variant", po::value<std::string>(), "apply this variant of the scenario file (base: none)")(
@@ -223,15 +221,12 @@ int simulate(const std::vector<std::string>& args) {
         "traces", po::value<std::string>(),
         "with --replications and --out: days whose full records go into the file: none (default), all, or "
         "sample:K (K days spread evenly)");
+    add_order_option(options);
     add_deadlock_option(options);
     add_punctuality_option(options);
     po::variables_map vm;
     if (!parse_command_line("simulate", args, options, vm)) return 0;
     SimOptions so;
-    const std::string order = vm["order"].as<std::string>();
-    if (order == "timetable") so.route_order = RouteOrder::timetable;
-    else if (order == "first-come") so.route_order = RouteOrder::first_come;
-    else throw UsageError("--order must be timetable or first-come, not '" + order + "'");
     so.sample_interval = sample_option(vm);
     so.run.step = step_option(vm);
     // Checked before any work: thresholds that would share a results field are refused.
@@ -239,6 +234,7 @@ int simulate(const std::vector<std::string>& args) {
 
     const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
     Scenario scenario = read_scenario(vm["scenario"].as<std::string>(), variant);
+    so.route_order = route_order_option(vm, scenario.infrastructure);
     std::vector<TrainPlan> plan = plan_trains(scenario, so.run);
     check_sample_count(plan, so.sample_interval);
     if (vm.count("replications")) {

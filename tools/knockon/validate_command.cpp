@@ -35,6 +35,10 @@ std::vector<std::string> plan_warnings(const Scenario& sc, const PlanResult& pla
         seen[where] = {out.size(), 0};
         out.push_back(where + ": warning: " + tight_stretch_text(plan, w));
     }
+    // Signals whose warning is shorter than a train's stopping distance (REFERENCES.md B6), on the
+    // steepest fall over the braking distance: located at the signal, with the worst train.
+    for (const SpacingWarning& w : plan.spacing_warnings)
+        out.push_back(sc.where_signal(w.signal) + ": warning: " + spacing_warning_text(plan, w));
     for (const auto& [where, at] : seen)
         if (at.second > 0)
             out[at.first] += " (and " + std::to_string(at.second) + " more run" + (at.second == 1 ? "" : "s") +
