@@ -10,7 +10,7 @@ namespace {
 // leg that reaches `target` from which the train, running as planned, can still stop there on
 // the braking curve the running-time integration uses (per cell gradient).  This is where the
 // simulated train leaves its planned motion when its authority ends at `target`, so the driver
-// must know the route beyond it before: by the brake build-up time earlier (REFERENCES.md D11:
+// must know the route beyond it before: by the brake build-up time earlier (tests/REFERENCES.md D11:
 // reaction distance v t plus braking distance), which keeps rounding on the safe side too.
 // When the train could not even start from the leg's start (a stop) on such an authority, just
 // before that stop (the departure needs the route); entering over the line end, the stopping

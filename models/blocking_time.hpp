@@ -53,7 +53,7 @@ Stairway blocking_stairway(const ServiceRun& run, const InterlockingTimes& times
 // its distant signal, under two aspects); -infinity under cab signalling (always known).
 double aspect_read_point(const PathSignal& sig);
 
-// A signal whose first warning comes too late for the train (REFERENCES.md B6): the distance
+// A signal whose first warning comes too late for the train (tests/REFERENCES.md B6): the distance
 // its aspect system gives the driver to stop (three aspects: the block before the signal; four:
 // the two blocks before it; two: the distant signal's distance) is shorter than the train's
 // stopping distance from its planned speed where the warning is given.  Blocking times take the

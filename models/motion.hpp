@@ -28,7 +28,7 @@ struct Motion {
 
     // v^2 after a cell of length ds started at v0, by a two-stage midpoint rule in w = v^2
     // (dw/ds = 2a): exact for constant acceleration, second order otherwise, which is what
-    // keeps constant-power runs accurate (REFERENCES.md D9).  May return <= 0: the train stalls.
+    // keeps constant-power runs accurate (tests/REFERENCES.md D9).  May return <= 0: the train stalls.
     double step_w(double v0, double gradient, double ds) const {
         const double w0 = v0 * v0;
         const double a0 = accel(v0, gradient);

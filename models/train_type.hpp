@@ -9,7 +9,7 @@
 namespace knockon {
 
 // Standard gravity [m/s^2]: the adhesion weight here and the gradient force m*g*i in the
-// running-time calculation (small-angle form, REFERENCES.md D5).
+// running-time calculation (small-angle form, tests/REFERENCES.md D5).
 inline constexpr double kGravity = 9.81;
 
 // The least deceleration service braking must leave on the steepest fall a train meets
@@ -68,7 +68,7 @@ private:
     double adhesion_limit(double v) const;   // Curtius-Kniffler adhesion times adhesion weight
 };
 
-// Curtius-Kniffler adhesion coefficient mu = A + B / (V + C), V in km/h (REFERENCES.md D6).
+// Curtius-Kniffler adhesion coefficient mu = A + B / (V + C), V in km/h (tests/REFERENCES.md D6).
 namespace curtius_kniffler {
 inline constexpr double kA = 0.161, kB = 7.5, kC = 44.0, kKmh = 3.6;
 }

@@ -9,7 +9,7 @@
 namespace knockon {
 
 // "Within N minutes" counts an arrival whose delay is strictly below N minutes (2:59 is within
-// 3 minutes, 3:00 is not), the usual reading of the published definitions (REFERENCES.md C4).
+// 3 minutes, 3:00 is not), the usual reading of the published definitions (tests/REFERENCES.md C4).
 bool within(double delay_seconds, double threshold_seconds);
 
 struct TrainDelay {

@@ -3,7 +3,7 @@
 // order, plus lazy cancellation by per-entity generation numbers. It knows nothing of what the
 // events mean; the driver loop pops them and dispatches on `kind`.
 //
-// Why this shape (see ENGINEERING.md, "Event kernel"): a 4-ary implicit heap over plain structs
+// Why this shape (see sim/ENGINEERING.md, "Event kernel"): a 4-ary implicit heap over plain structs
 // is several times faster than node-based heaps, and cancelling by bumping a generation (and
 // dropping stale entries when they surface) is cheaper than handle-based erase.  Events that a
 // driver schedules in order anyway (a constant delay after the current time, say) may go to a

@@ -20,7 +20,7 @@ using namespace knockon;
 namespace {
 
 constexpr double kV = 160.0 / 3.6;   // m/s
-constexpr double kSetupSight = 18.0; // route setup 6 s + sight and reaction 12 s (REFERENCES.md B2, B3)
+constexpr double kSetupSight = 18.0; // route setup 6 s + sight and reaction 12 s (tests/REFERENCES.md B2, B3)
 constexpr double k0800 = 8 * 3600.0;
 
 std::string signal_id(double at_m) {
@@ -126,7 +126,7 @@ TEST_CASE("The test train holds 160 km/h", "[blocking]") {
 }
 
 TEST_CASE("Blocking time = setup + sight/reaction + approach + running + clearing + release", "[blocking]") {
-    // REFERENCES.md B1 (blocking time theory, Pachl; Hansen & Pachl 2014): v = 160 km/h,
+    // tests/REFERENCES.md B1 (blocking time theory, Pachl; Hansen & Pachl 2014): v = 160 km/h,
     // setup 6 s, sight 12 s, approach 1000 m, block 2000 m, overlap 200 m, train 200 m,
     // release 3 s -> 6 + 12 + 22.5 + 45 + 9 + 3 = 97.5 s.
     const Planned p = plan_line({});
@@ -135,7 +135,7 @@ TEST_CASE("Blocking time = setup + sight/reaction + approach + running + clearin
     CHECK(r.s_entry == Approx(1000.0).margin(1e-6));
     CHECK(r.s_exit == Approx(3000.0).margin(1e-6));
     CHECK(r.overlap == Approx(200.0).margin(1e-9));
-    CHECK(r.warning_point == Approx(0.0).margin(1e-6));  // 3-aspect: the previous main signal (DOMAIN.md 4)
+    CHECK(r.warning_point == Approx(0.0).margin(1e-6));  // 3-aspect: the previous main signal (models/DOMAIN.md 4)
     CHECK(r.setup == Approx(6.0).margin(1e-9));           // B1 / B2
     CHECK(r.sight_reaction == Approx(12.0).margin(1e-9)); // B1 / B3
     CHECK(r.approach == Approx(22.5).margin(0.01));       // B1: 1000 m at 44.44 m/s
@@ -150,7 +150,7 @@ TEST_CASE("Blocking time = setup + sight/reaction + approach + running + clearin
 
 TEST_CASE("Detection sections: blocked from the first route that takes them to sectional release",
           "[blocking]") {
-    // DOMAIN.md 4: possession (blocking) and physical occupation differ; a section is possessed
+    // models/DOMAIN.md 4: possession (blocking) and physical occupation differ; a section is possessed
     // before the train arrives and after it has left.  [D] at constant 44.444 m/s.
     const Planned p = plan_line({});
     const TrainPlan& tp = p.trains[0];
@@ -171,7 +171,7 @@ TEST_CASE("Detection sections: blocked from the first route that takes them to s
 
 TEST_CASE("Warning points by aspect system", "[blocking][aspects]") {
     SECTION("three-aspect: the previous main signal, one block back") {
-        // REFERENCES.md B5/B6 and DOMAIN.md 4: 3-aspect approach = running over the previous block.
+        // tests/REFERENCES.md B5/B6 and models/DOMAIN.md 4: 3-aspect approach = running over the previous block.
         LineSpec spec;
         spec.signals_m = {0, 1200, 2400, 3600, 4800, 6000, 7200, 8400, 9600, 10800};
         const Planned p = plan_line(spec);
@@ -180,8 +180,8 @@ TEST_CASE("Warning points by aspect system", "[blocking][aspects]") {
         CHECK(r.approach == Approx(1200.0 / kV).margin(0.01));  // 27 s
     }
     SECTION("four-aspect, blocks shorter than the braking distance: two blocks back") {
-        // REFERENCES.md B5/B6: with 4 aspects two blocks together cover the braking distance.
-        // Braking distance 160 km/h at 0.5 m/s2 = 1975.3 m (REFERENCES.md D11) > block 1200 m.
+        // tests/REFERENCES.md B5/B6: with 4 aspects two blocks together cover the braking distance.
+        // Braking distance 160 km/h at 0.5 m/s2 = 1975.3 m (tests/REFERENCES.md D11) > block 1200 m.
         LineSpec spec;
         spec.system = "four_aspect";
         spec.signals_m = {0, 1200, 2400, 3600, 4800, 6000, 7200, 8400, 9600, 10800};
@@ -197,7 +197,7 @@ TEST_CASE("Warning points by aspect system", "[blocking][aspects]") {
         CHECK(r.end - r.start == Approx(18.0 + 54.0 + 27.0 + 9.0 + 3.0).margin(0.01));  // B1 composition
     }
     SECTION("four-aspect, blocks longer than the braking distance: one block back") {
-        // REFERENCES.md B6: the second block back is needed only when one block is shorter than
+        // tests/REFERENCES.md B6: the second block back is needed only when one block is shorter than
         // the braking distance (1975.3 m, D11); here blocks are 2000 m.
         LineSpec spec;
         spec.system = "four_aspect";
@@ -207,7 +207,7 @@ TEST_CASE("Warning points by aspect system", "[blocking][aspects]") {
         CHECK(r.approach == Approx(45.0).margin(0.01));
     }
     SECTION("two-aspect: the distant signal") {
-        // REFERENCES.md B5: with 2 aspects the driver learns the main signal's aspect at its
+        // tests/REFERENCES.md B5: with 2 aspects the driver learns the main signal's aspect at its
         // distant signal; default distant distance 1200 m, one signal given 1500 m.
         LineSpec spec;
         spec.system = "two_aspect";
@@ -221,7 +221,7 @@ TEST_CASE("Warning points by aspect system", "[blocking][aspects]") {
         CHECK(r5.approach == Approx(1500.0 / kV).margin(0.01));  // 33.75 s
     }
     SECTION("cab signalling, fixed blocks: the braking distance plus brake delay") {
-        // REFERENCES.md D11, closed form: v^2/(2b) + v*t = 44.444^2/(2*0.5) + 44.444*2
+        // tests/REFERENCES.md D11, closed form: v^2/(2b) + v*t = 44.444^2/(2*0.5) + 44.444*2
         // = 1975.31 + 88.89 = 2064.20 m ahead of the block marker.
         LineSpec spec;
         spec.system = "cab_fixed_block";
@@ -244,8 +244,8 @@ TEST_CASE("Warning points by aspect system", "[blocking][aspects]") {
 TEST_CASE("Four-aspect: every route's approach covers at least the braking distance", "[blocking][aspects]") {
     // Guards against the second signal of a path that starts at the line end getting a warning
     // point only one short block (1200 m) back (models/blocking_time.cpp, warning_point).
-    // DOMAIN.md 4: the warning point lies (at least) a braking distance in rear of the
-    // signal; REFERENCES.md B6: with 4 aspects the signal two back gives the first warning
+    // models/DOMAIN.md 4: the warning point lies (at least) a braking distance in rear of the
+    // signal; tests/REFERENCES.md B6: with 4 aspects the signal two back gives the first warning
     // when one block is shorter than the braking distance (1975.3 m, D11).  This holds for
     // the second signal of the path too, whose signal two back lies beyond the line end
     // (the train enters there at 160 km/h): its warning point is not on the modelled line,
@@ -263,7 +263,7 @@ TEST_CASE("Four-aspect: every route's approach covers at least the braking dista
 }
 
 TEST_CASE("Route out of a stop starts at the departure less sight/reaction and setup", "[blocking]") {
-    // DOMAIN.md 4 / blocking_time.hpp: a train standing at a stop needs the route ahead only for
+    // models/DOMAIN.md 4 / blocking_time.hpp: a train standing at a stop needs the route ahead only for
     // its departure; the route must be set and seen (setup 6 s + sight 12 s, B1-B3) by then.
     LineSpec spec;
     spec.services =

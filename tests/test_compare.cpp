@@ -114,7 +114,7 @@ TEST_CASE("paired differences: mean and Student-t interval of the per-replicatio
 }
 
 TEST_CASE("identical variants differ by exactly 0 with common random numbers", "[compare]") {
-    // DOMAIN.md section 5: the same primary delays in each variant (common random numbers), so
+    // models/DOMAIN.md section 5: the same primary delays in each variant (common random numbers), so
     // that differences are the variants', not the dice's.  With independent draws the same check
     // fails, as the last part shows.
     const std::string text = two_trains_with_delays();
@@ -154,7 +154,7 @@ TEST_CASE("a changed variant sees the same primary delays day by day", "[compare
     const StudyComparison c = compare_studies(a, b, StudyOptions{}.thresholds);
     CHECK(c.total_primary.difference.mean == 0.0);
     // Four-aspect signalling lets a follower read further ahead: never more knock-on on any day
-    // here (REFERENCES.md B5: more aspects, earlier clear indication).
+    // here (tests/REFERENCES.md B5: more aspects, earlier clear indication).
     for (std::size_t k = 0; k < a.replications.size(); ++k)
         CHECK(b.replications[k].total_knock_on <= a.replications[k].total_knock_on + 1e-6);
 }
@@ -231,7 +231,7 @@ TEST_CASE("plan figures: mean minimum headway and the largest consumption", "[co
 }
 
 TEST_CASE("demo: four-aspect signalling gives no more knock-on than three-aspect", "[compare][demo]") {
-    // REFERENCES.md B5/B6: same signals, one more aspect: the driver reads three blocks ahead
+    // tests/REFERENCES.md B5/B6: same signals, one more aspect: the driver reads three blocks ahead
     // instead of two and never needs a longer warning.  With common random numbers the mean
     // paired difference of 20 days must not lie above 0 by more than its own CI half-width.
     const Run base = prepare(read_scenario(kDemo));

@@ -1,5 +1,5 @@
 // Primary-delay model: the distribution samplers against Boost.Math's distributions (moments and a
-// Kolmogorov-Smirnov test), published check values (REFERENCES.md P4, P5, P7), the counter-based
+// Kolmogorov-Smirnov test), published check values (tests/REFERENCES.md P4, P5, P7), the counter-based
 // random numbers (known answers, determinism, common random numbers), the per-day draws, and the
 // scenario reader's `delays:` section with its located errors.
 #include <catch2/catch.hpp>
@@ -114,24 +114,24 @@ DelayDistribution empirical_table() {
 // ------------------------------------------------------------------ distributions
 
 TEST_CASE("parametric samplers agree with Boost.Math: mean, variance and KS at 5 %", "[delays]") {
-    SECTION("exponential, mean 1.3 min (REFERENCES.md P5 suburban entry-delay mean)") {
+    SECTION("exponential, mean 1.3 min (tests/REFERENCES.md P5 suburban entry-delay mean)") {
         check_against(exponential(78.0), boost::math::exponential_distribution<double>(1.0 / 78.0));
     }
-    SECTION("weibull, shape 0.8 (REFERENCES.md P6: delays have shape < 1), scale 2 min") {
+    SECTION("weibull, shape 0.8 (tests/REFERENCES.md P6: delays have shape < 1), scale 2 min") {
         DelayDistribution d;
         d.kind = DistributionKind::weibull;
         d.shape = 0.8;
         d.scale = 120.0;
         check_against(d, boost::math::weibull_distribution<double>(0.8, 120.0));
     }
-    SECTION("weibull, shape 1.5 (REFERENCES.md P6: dwell times have shape > 1), scale 40 s") {
+    SECTION("weibull, shape 1.5 (tests/REFERENCES.md P6: dwell times have shape > 1), scale 40 s") {
         DelayDistribution d;
         d.kind = DistributionKind::weibull;
         d.shape = 1.5;
         d.scale = 40.0;
         check_against(d, boost::math::weibull_distribution<double>(1.5, 40.0));
     }
-    SECTION("lognormal, median 20 s, sigma 0.8 (REFERENCES.md P6: process times log-normal)") {
+    SECTION("lognormal, median 20 s, sigma 0.8 (tests/REFERENCES.md P6: process times log-normal)") {
         DelayDistribution d;
         d.kind = DistributionKind::lognormal;
         d.median = 20.0;
@@ -159,7 +159,7 @@ TEST_CASE("the KS check rejects a sample from another distribution", "[delays]")
 }
 
 TEST_CASE("Weibull mean, shape 0.8, scale 2 min", "[delays]") {
-    // REFERENCES.md P7: Gamma function, 2 min * Gamma(1 + 1/0.8) = 2.266 min; check against Boost.Math.
+    // tests/REFERENCES.md P7: Gamma function, 2 min * Gamma(1 + 1/0.8) = 2.266 min; check against Boost.Math.
     DelayDistribution d;
     d.kind = DistributionKind::weibull;
     d.shape = 0.8;
@@ -170,7 +170,7 @@ TEST_CASE("Weibull mean, shape 0.8, scale 2 min", "[delays]") {
 }
 
 TEST_CASE("exponential delay model: expected delay p*m and knock-on p*m*exp(-b/m)", "[delays]") {
-    // REFERENCES.md P4 (closed form) with the P5 suburban values p = 0.20, m = 1.3 min.
+    // tests/REFERENCES.md P4 (closed form) with the P5 suburban values p = 0.20, m = 1.3 min.
     const double p = 0.20, m = 78.0;
     const DelayDistribution d = exponential(m, p);
     CHECK(d.expected() == Approx(p * m));

@@ -1,6 +1,6 @@
 // Event kernel: SimTime conversions, the (time, phase, seq) order, lazy cancellation.
 // The heap is checked against the simplest thing that can be right: a vector kept sorted by the
-// same key (ENGINEERING.md, "Event kernel": differential test against a plain sorted vector).
+// same key (sim/ENGINEERING.md, "Event kernel": differential test against a plain sorted vector).
 #include <algorithm>
 #include <cmath>
 #include <cstdint>
@@ -315,7 +315,7 @@ TEST_CASE("pop_current matches a sorted vector with random cancellations", "[sim
 }
 
 TEST_CASE("Pinned trace fingerprint of a small hold-model run", "[sim][queue][fingerprint]") {
-    // common practice, no source (ENGINEERING.md suggests it): the hash of the event trace of a
+    // common practice, no source (sim/ENGINEERING.md suggests it): the hash of the event trace of a
     // fixed run, pinned when written. A change means the kernel's order changed; if intended,
     // re-pin and say why in the commit. std::mt19937_64's output sequence is fixed by the
     // standard, and only its raw output is used (no std:: distributions), so the value is the

@@ -83,7 +83,7 @@ TEST_CASE("A cell read off the full-power curve agrees with the integrated cell"
 }
 
 TEST_CASE("Constant power read off the curve matches the closed form", "[running_time]") {
-    // REFERENCES.md D9 (closed form): 400 t, rho 1, 4 MW, no resistance, 50 -> 100 km/h:
+    // tests/REFERENCES.md D9 (closed form): 400 t, rho 1, 4 MW, no resistance, 50 -> 100 km/h:
     // t = m (v2^2 - v1^2) / (2P) = 28.935 s, s = m (v2^3 - v1^3) / (3P) = 625.14 m.
     TrainType type;
     type.id = "d9";
@@ -109,8 +109,8 @@ TEST_CASE("Constant power read off the curve matches the closed form", "[running
         s += 1.0;
         v = v1;
     }
-    CHECK(t == Approx(28.935).margin(1e-3));  // REFERENCES.md D9
-    CHECK(s == Approx(625.14).margin(6e-3));  // REFERENCES.md D9
+    CHECK(t == Approx(28.935).margin(1e-3));  // tests/REFERENCES.md D9
+    CHECK(s == Approx(625.14).margin(6e-3));  // tests/REFERENCES.md D9
 }
 
 TEST_CASE("A cell read off the curve depends on its start speed alone", "[running_time]") {

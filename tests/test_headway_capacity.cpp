@@ -78,7 +78,7 @@ struct Fixture {
 }  // namespace
 
 TEST_CASE("Minimum headway of two stairways: shift until they touch", "[headway]") {
-    // DOMAIN.md 4 (blocking time theory): the follower's blocking of each shared section must
+    // models/DOMAIN.md 4 (blocking time theory): the follower's blocking of each shared section must
     // start no earlier than the leader's ends; the tightest section is the critical one. [D]
     const SectionStairway leader = stairway(0, 1000.0, {{"a", -50, 100}, {"b", 0, 160}, {"c", 40, 200}});
     const SectionStairway follower = stairway(1, 5000.0, {{"a", -60, 80}, {"b", -30, 150}, {"d", 0, 300}});
@@ -91,7 +91,7 @@ TEST_CASE("Minimum headway of two stairways: shift until they touch", "[headway]
 }
 
 TEST_CASE("Identical trains at constant speed: minimum headway = blocking time of one route", "[headway]") {
-    // REFERENCES.md B1 composition with 2 km blocks at 160 km/h: 6 + 12 + 45 + 45 + 9 + 3 = 120 s;
+    // tests/REFERENCES.md B1 composition with 2 km blocks at 160 km/h: 6 + 12 + 45 + 45 + 9 + 3 = 120 s;
     // at 60 km/h: 18 + 120 + 120 + 24 + 3 = 285 s.
     const Fixture fx("two_speed_line.yaml");
     bool fast = false, slow = false;
@@ -111,7 +111,7 @@ TEST_CASE("Identical trains at constant speed: minimum headway = blocking time o
 }
 
 TEST_CASE("Critical block: fast behind slow at the end, slow behind fast at the start", "[headway]") {
-    // REFERENCES.md B7 (standard result of blocking time theory): for unequal speeds the critical
+    // tests/REFERENCES.md B7 (standard result of blocking time theory): for unequal speeds the critical
     // block is the last block of the line section when a fast train follows a slow one, the first
     // when a slow train follows a fast one.  Line section A (3 km) - B (11 km), blocks of 2 km.
     const Fixture fx("two_speed_line.yaml");
@@ -152,7 +152,7 @@ TEST_CASE("Critical block: fast behind slow at the end, slow behind fast at the 
 }
 
 TEST_CASE("Buffer = scheduled headway - minimum headway; negative buffer is a conflict", "[headway][conflict]") {
-    // DOMAIN.md 4: buffer time = scheduled headway - minimum headway.  FAST behind FAST needs 120 s
+    // models/DOMAIN.md 4: buffer time = scheduled headway - minimum headway.  FAST behind FAST needs 120 s
     // (B1, see above); F3 runs 160 s after F2, F4 95 s after F3.
     const Fixture fx("two_speed_line.yaml");
     const PlanResult& plan = fx.plan;
@@ -187,7 +187,7 @@ TEST_CASE("Buffer = scheduled headway - minimum headway; negative buffer is a co
 }
 
 TEST_CASE("UIC 406 compression of identical trains: n * h_min", "[capacity]") {
-    // REFERENCES.md C1 (UIC Code 406): 12 identical trains with h_min = 3 min in 60 min -> 60 %.
+    // tests/REFERENCES.md C1 (UIC Code 406): 12 identical trains with h_min = 3 min in 60 min -> 60 %.
     // The stairway's tightest section is "b" (180 s); "a" and "c" need less.
     std::vector<SectionStairway> trains;
     for (std::size_t k = 0; k < 12; ++k)
@@ -202,7 +202,7 @@ TEST_CASE("UIC 406 compression of identical trains: n * h_min", "[capacity]") {
 }
 
 TEST_CASE("UIC 406 compression of a mixed pattern: sum of the headways round the cycle", "[capacity]") {
-    // REFERENCES.md C1: compressed in timetable order, the first train of the next cycle
+    // tests/REFERENCES.md C1: compressed in timetable order, the first train of the next cycle
     // following the last.  A (fast) then B (slow) then A again: h(A,B) + h(B,A).  [D]
     const auto fast = [](std::size_t k, double t) { return stairway(k, t, {{"x", -40, 60}, {"y", 0, 80}}); };
     const auto slow = [](std::size_t k, double t) { return stairway(k, t, {{"x", -100, 200}, {"y", -20, 400}}); };
@@ -220,7 +220,7 @@ TEST_CASE("UIC 406 compression of a mixed pattern: sum of the headways round the
 }
 
 TEST_CASE("UIC 406 consumption of a clock-face timetable", "[capacity][plan]") {
-    // REFERENCES.md C1: consumption = trains x minimum headway / window for identical trains;
+    // tests/REFERENCES.md C1: consumption = trains x minimum headway / window for identical trains;
     // tests/data/plan/clock_face.yaml: 6 trains an hour, 96 a day, h_min 120 s (B1).
     const Fixture fx("clock_face.yaml");
     const PlanResult& plan = fx.plan;
@@ -259,7 +259,7 @@ TEST_CASE("UIC 406 consumption of a clock-face timetable", "[capacity][plan]") {
 }
 
 TEST_CASE("UIC 406 mixed two-train cycle through make_plan", "[capacity][plan]") {
-    // REFERENCES.md C1 with B7's headways: the 08:00 hour holds S1 (slow) and F1 (fast), so its
+    // tests/REFERENCES.md C1 with B7's headways: the 08:00 hour holds S1 (slow) and F1 (fast), so its
     // compressed occupation is h(S,F) + h(F,S) = 460.5 + 232.5 = 693 s.  [D]
     const Fixture fx("two_speed_line.yaml");
     const CapacityFigure* peak = nullptr;
@@ -275,7 +275,7 @@ TEST_CASE("Trains count in a line section they run through without a call at its
           "[headway][capacity][plan]") {
     // Guards against taking a train into a line section only when it has calls at both of its
     // stations (models/headway.cpp, stairway_in): then no train here would count at all.
-    // DOMAIN.md 4: headways and UIC 406 consumption (C1) concern every train that uses the line
+    // models/DOMAIN.md 4: headways and UIC 406 consumption (C1) concern every train that uses the line
     // section in the window.  The README lets a service list only the stations it stops at or is
     // timed at, so a train may run through a station with no call there.  Here the fixture gets a
     // third station M at 7 km that no service lists: the trains still run A -> M -> B.
@@ -309,7 +309,7 @@ TEST_CASE("Trains count in a line section they run through without a call at its
 }
 
 TEST_CASE("UIC 406 recommended limits, as recalled", "[capacity]") {
-    // REFERENCES.md C2: UIC Code 406 recommended limits, peak hour / daily - as recalled, [M].
+    // tests/REFERENCES.md C2: UIC Code 406 recommended limits, peak hour / daily - as recalled, [M].
     CHECK(uic406_limit(LineType::suburban).peak == Approx(0.85));
     CHECK(uic406_limit(LineType::suburban).day == Approx(0.70));
     CHECK(uic406_limit(LineType::high_speed).peak == Approx(0.75));

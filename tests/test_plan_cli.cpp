@@ -105,7 +105,7 @@ TEST_CASE("knockon validate accepts the demo scenario", "[cli]") {
 
 TEST_CASE("knockon plan on the demo prints the caution and a capacity table", "[cli]") {
     // README: every output carries the planning-estimate caution; UIC 406 figures are shown
-    // with the limits marked as recalled (REFERENCES.md C2).
+    // with the limits marked as recalled (tests/REFERENCES.md C2).
     TempDir dir;
     const Result r = knockon("plan " + q(kDemo), dir);
     INFO(r.err);
@@ -146,7 +146,7 @@ TEST_CASE("knockon plan --json holds every table, the caution and the scenario",
                 INFO(table << "." << c);
                 CHECK(rec.contains(c));
             }
-    // Consumption is the compressed occupation over the window (REFERENCES.md C1).
+    // Consumption is the compressed occupation over the window (tests/REFERENCES.md C1).
     for (const auto& f : doc["capacity"]) {
         const double window = f["to"].get<double>() - f["from"].get<double>();
         CHECK(f["consumption"].get<double>() == Approx(f["occupation_s"].get<double>() / window).epsilon(1e-9));
@@ -154,7 +154,7 @@ TEST_CASE("knockon plan --json holds every table, the caution and the scenario",
 }
 
 TEST_CASE("knockon plan --json reports the fixture's headways and conflicts", "[cli]") {
-    // tests/data/plan/two_speed_line.yaml hand-check notes (REFERENCES.md B1, B7): FAST behind
+    // tests/data/plan/two_speed_line.yaml hand-check notes (tests/REFERENCES.md B1, B7): FAST behind
     // FAST 120 s, F3 -> F4 scheduled 95 s -> buffer -25 s and a conflict of 25 s.
     TempDir dir;
     const Result r = knockon("plan " + q(kTwoSpeed) + " --json", dir);
@@ -204,7 +204,7 @@ TEST_CASE("knockon plan --csv writes every table with its header", "[cli]") {
         if (row.size() == 8 && row[2] == "F3" && row[3] == "F4") {
             found = true;
             CHECK(std::stod(row[4]) == Approx(95.0).margin(1e-3));
-            CHECK(std::stod(row[6]) == Approx(-25.0).margin(0.05));  // B1, DOMAIN.md 4
+            CHECK(std::stod(row[6]) == Approx(-25.0).margin(0.05));  // B1, models/DOMAIN.md 4
         }
     CHECK(found);
     // Blocking routes: the FAST trains' inner routes are blocked 120 s (B1 with 2 km blocks).

@@ -1,7 +1,7 @@
 // `--punctuality`: user thresholds reach the single-day summary and the study, and bad lists are
 // refused with the option named.  The rule itself ("within N minutes" = delay strictly below N
 // minutes: 2:59 counts within 3, 3:00 does not) follows the published punctuality definitions
-// collected in REFERENCES.md C4.
+// collected in tests/REFERENCES.md C4.
 #include <catch2/catch.hpp>
 
 #include <array>
@@ -36,7 +36,7 @@ const std::string kTwo = std::string(KNOCKON_SOURCE_DIR) + "/tests/data/two_trai
 }  // namespace
 
 TEST_CASE("punctuality boundary: a delay counts within N minutes only when strictly below", "[punctuality]") {
-    // REFERENCES.md C4: "within 3 min" counts 2:59 and not 3:00.
+    // tests/REFERENCES.md C4: "within 3 min" counts 2:59 and not 3:00.
     CHECK(knockon::within(179.0, 180.0));
     CHECK_FALSE(knockon::within(180.0, 180.0));
 }

@@ -148,7 +148,7 @@ TEST_CASE("the time-distance diagram draws one path per train and one block per 
 
 TEST_CASE("conflicts are marked where the plan finds them", "[report]") {
     // two_speed_line.yaml hand-check notes: F3 -> F4 run 95 s apart against a 120 s minimum
-    // headway (REFERENCES.md B1, B7), so their blocking times overlap section by section.
+    // headway (tests/REFERENCES.md B1, B7), so their blocking times overlap section by section.
     const Scenario s = read_scenario(kTwoSpeed);
     const PlanResult plan = make_plan(s);
     REQUIRE_FALSE(plan.conflicts.empty());

@@ -94,7 +94,7 @@ TrainType level_train(double mass) {
 }  // namespace
 
 TEST_CASE("Constant force from rest matches the closed form", "[running_time]") {
-    // REFERENCES.md D8 (closed form): 400 t, 200 kN, no resistance, 0 -> 100 km/h.
+    // tests/REFERENCES.md D8 (closed form): 400 t, 200 kN, no resistance, 0 -> 100 km/h.
     TestLine line(3000, {{0, 3000, 160 * kmh}});
     TrainType t = level_train(400000);
     t.max_force = 200e3;
@@ -107,17 +107,17 @@ TEST_CASE("Constant force from rest matches the closed form", "[running_time]") 
         CHECK(c->t == Approx(100 * kmh / a).margin(1e-6));
         CHECK(c->s == Approx(std::pow(100 * kmh, 2) / (2 * a)).margin(1e-6));
         if (rho == 1.00) {
-            CHECK(c->t == Approx(55.556).margin(5e-4));  // REFERENCES.md D8
-            CHECK(c->s == Approx(771.60).margin(5e-3));  // REFERENCES.md D8
+            CHECK(c->t == Approx(55.556).margin(5e-4));  // tests/REFERENCES.md D8
+            CHECK(c->s == Approx(771.60).margin(5e-3));  // tests/REFERENCES.md D8
         } else {
-            CHECK(c->t == Approx(60.000).margin(5e-4));  // REFERENCES.md D8, rho 1.08
-            CHECK(c->s == Approx(833.33).margin(5e-3));  // REFERENCES.md D8, rho 1.08
+            CHECK(c->t == Approx(60.000).margin(5e-4));  // tests/REFERENCES.md D8, rho 1.08
+            CHECK(c->s == Approx(833.33).margin(5e-3));  // tests/REFERENCES.md D8, rho 1.08
         }
     }
 }
 
 TEST_CASE("Constant force up to a 100 km/h limit, then holding it", "[running_time]") {
-    // REFERENCES.md D8: the limit is reached at 771.60 m, 55.556 s; on a 0.1 m grid the first
+    // tests/REFERENCES.md D8: the limit is reached at 771.60 m, 55.556 s; on a 0.1 m grid the first
     // grid point at the limit lies within one step beyond.
     TestLine line(2000, {{0, 2000, 100 * kmh}});
     TrainType t = level_train(400000);
@@ -135,7 +135,7 @@ TEST_CASE("Constant force up to a 100 km/h limit, then holding it", "[running_ti
 }
 
 TEST_CASE("Constant power from 50 to 100 km/h matches the closed form", "[running_time]") {
-    // REFERENCES.md D9 (closed form): 400 t, rho 1, 4 MW, no resistance, 50 -> 100 km/h:
+    // tests/REFERENCES.md D9 (closed form): 400 t, rho 1, 4 MW, no resistance, 50 -> 100 km/h:
     // t = m (v2^2 - v1^2) / (2P), s = m (v2^3 - v1^3) / (3P).
     TestLine line(2000, {{0, 2000, 160 * kmh}});
     TrainType t = level_train(400000);
@@ -146,12 +146,12 @@ TEST_CASE("Constant power from 50 to 100 km/h matches the closed form", "[runnin
     const double v1 = 50 * kmh, v2 = 100 * kmh;
     CHECK(c->t == Approx(400000 * (v2 * v2 - v1 * v1) / (2 * 4e6)).margin(1e-4));
     CHECK(c->s == Approx(400000 * (v2 * v2 * v2 - v1 * v1 * v1) / (3 * 4e6)).margin(2e-3));
-    CHECK(c->t == Approx(28.935).margin(1e-3));  // REFERENCES.md D9
-    CHECK(c->s == Approx(625.14).margin(6e-3));  // REFERENCES.md D9
+    CHECK(c->t == Approx(28.935).margin(1e-3));  // tests/REFERENCES.md D9
+    CHECK(c->s == Approx(625.14).margin(6e-3));  // tests/REFERENCES.md D9
 }
 
 TEST_CASE("Uncapped constant power from standstill", "[running_time]") {
-    // Closed form [D] from the same law as REFERENCES.md D9: P = m v^2 dv/ds, so from rest
+    // Closed form [D] from the same law as tests/REFERENCES.md D9: P = m v^2 dv/ds, so from rest
     // v^3 = 3 P s / m.  Checks the start of a train whose force is infinite at v = 0.
     TestLine line(2000, {{0, 2000, 300 * kmh}});
     TrainType t = level_train(400000);
@@ -162,7 +162,7 @@ TEST_CASE("Uncapped constant power from standstill", "[running_time]") {
 }
 
 TEST_CASE("Coasting against A + C v^2 matches the closed form", "[running_time]") {
-    // REFERENCES.md D10 (closed form): 400 t, A 5000 N, C 8 N s^2/m^2, no tractive effort,
+    // tests/REFERENCES.md D10 (closed form): 400 t, A 5000 N, C 8 N s^2/m^2, no tractive effort,
     // 200 -> 100 km/h: t = m/sqrt(AC) (atan(v1/k) - atan(v2/k)), k = sqrt(A/C);
     // s = m/(2C) ln((A + C v1^2) / (A + C v2^2)).
     TestLine line(30000, {{0, 30000, 200 * kmh}});
@@ -177,12 +177,12 @@ TEST_CASE("Coasting against A + C v^2 matches the closed form", "[running_time]"
     const double s_exact = 400000 / (2 * 8.0) * std::log((5000 + 8 * v1 * v1) / (5000 + 8 * v2 * v2));
     CHECK(c->t == Approx(t_exact).margin(1e-3));
     CHECK(c->s == Approx(s_exact).margin(0.05));
-    CHECK(c->t == Approx(619.92).margin(6e-3));  // REFERENCES.md D10
-    CHECK(c->s == Approx(24434).margin(0.6));    // REFERENCES.md D10
+    CHECK(c->t == Approx(619.92).margin(6e-3));  // tests/REFERENCES.md D10
+    CHECK(c->s == Approx(24434).margin(0.6));    // tests/REFERENCES.md D10
 }
 
 TEST_CASE("Gradient force enters the motion as m g i", "[running_time]") {
-    // REFERENCES.md D5 convention (m g i, not m g sin): 500 t, 100 kN, +10 per mille:
+    // tests/REFERENCES.md D5 convention (m g i, not m g sin): 500 t, 100 kN, +10 per mille:
     // a = (100 kN - 49.05 kN) / 500 t; 0 -> 10 m/s over 100 / (2a) m.  The sine form would
     // land 0.012 m shorter.
     TestLine line(2000, {{0, 2000, 160 * kmh}}, {{0, 2000, 0.010}});
@@ -197,7 +197,7 @@ TEST_CASE("Gradient force enters the motion as m g i", "[running_time]") {
 }
 
 TEST_CASE("A stop at the end follows v^2 = 2 b (s_end - s) and ends at rest", "[running_time]") {
-    // Closed form [D] of constant deceleration (the law behind REFERENCES.md D11).
+    // Closed form [D] of constant deceleration (the law behind tests/REFERENCES.md D11).
     TestLine line(5000, {{0, 5000, 160 * kmh}});
     TrainType t = level_train(400000);
     t.max_force = 300e3;
@@ -215,7 +215,7 @@ TEST_CASE("A stop at the end follows v^2 = 2 b (s_end - s) and ends at rest", "[
             CHECK(tr.v[i] * tr.v[i] == Approx(2 * 0.5 * (5000 - grid_s(tr, i))).margin(1e-9));
         }
     }
-    // From 160 km/h the braking distance is 1975.3 m (REFERENCES.md D11): about that many points.
+    // From 160 km/h the braking distance is 1975.3 m (tests/REFERENCES.md D11): about that many points.
     CHECK(braking_points >= 1975);
     CHECK(braking_points <= 1977);
     // Time of the braking phase from 160 km/h to rest: v / b.
@@ -224,7 +224,7 @@ TEST_CASE("A stop at the end follows v^2 = 2 b (s_end - s) and ends at rest", "[
 }
 
 TEST_CASE("A stop on a falling gradient brakes with b - g i", "[running_time]") {
-    // REFERENCES.md D11 convention: 10 per mille down takes g*i off the service deceleration.
+    // tests/REFERENCES.md D11 convention: 10 per mille down takes g*i off the service deceleration.
     TestLine line(4000, {{0, 4000, 120 * kmh}}, {{0, 4000, -0.010}});
     TrainType t = level_train(400000);
     t.max_force = 300e3;
@@ -232,7 +232,7 @@ TEST_CASE("A stop on a falling gradient brakes with b - g i", "[running_time]") 
     const Trajectory tr = run_leg(t, line.path, 0.0, 0.0, 4000.0, true, {1.0});
     const double b = 0.7 - g * 0.010;
     CHECK(tr.speed_at(3500.0) == Approx(std::sqrt(2 * b * 500.0)).epsilon(1e-9));
-    // Full speed 923.0 m before the stop (REFERENCES.md D11), below it after.
+    // Full speed 923.0 m before the stop (tests/REFERENCES.md D11), below it after.
     CHECK(tr.speed_at(4000 - 923.0 - 1.0) == Approx(120 * kmh));
     CHECK(tr.speed_at(4000 - 923.0 + 1.0) < 120 * kmh - 0.01);
 }
@@ -261,7 +261,7 @@ TEST_CASE("Braking to a lower limit reaches it at the limit's start", "[running_
 }
 
 TEST_CASE("Tail rule: no acceleration until the tail has left the lower limit", "[running_time]") {
-    // DOMAIN.md section 3 (common practice): a 400 m train leaving a 60 km/h zone that ends at
+    // models/DOMAIN.md section 3 (common practice): a 400 m train leaving a 60 km/h zone that ends at
     // 2000 m does not exceed 60 km/h before its head is at 2400 m.
     TestLine line(6000, {{0, 2000, 60 * kmh}, {2000, 6000, 160 * kmh}});
     TrainType t = level_train(400000);
@@ -322,15 +322,15 @@ TEST_CASE("Short last cell and time/position inversion", "[running_time]") {
 TEST_CASE("Stopping distances with reaction time and gradient", "[running_time]") {
     TrainType t = level_train(400000);
     t.braking = 0.5;
-    CHECK(stopping_distance(t, 160 * kmh, 0.0) == Approx(1975.3).margin(0.05));  // REFERENCES.md D11
+    CHECK(stopping_distance(t, 160 * kmh, 0.0) == Approx(1975.3).margin(0.05));  // tests/REFERENCES.md D11
     t.braking = 0.7;
-    CHECK(stopping_distance(t, 120 * kmh, 0.0) == Approx(793.7).margin(0.05));     // REFERENCES.md D11
-    CHECK(stopping_distance(t, 120 * kmh, -0.010) == Approx(923.0).margin(0.05));  // REFERENCES.md D11
+    CHECK(stopping_distance(t, 120 * kmh, 0.0) == Approx(793.7).margin(0.05));     // tests/REFERENCES.md D11
+    CHECK(stopping_distance(t, 120 * kmh, -0.010) == Approx(923.0).margin(0.05));  // tests/REFERENCES.md D11
     t.brake_delay = 3.0;
-    CHECK(stopping_distance(t, 100 * kmh, 0.0) == Approx(634.5).margin(0.05));  // REFERENCES.md D11
+    CHECK(stopping_distance(t, 100 * kmh, 0.0) == Approx(634.5).margin(0.05));  // tests/REFERENCES.md D11
 
     // A braking table takes the numerical path.  A constant table must give the closed form
-    // (REFERENCES.md D11 again), a linear one b = b0 + k v the integral of v / (b0 + k v)
+    // (tests/REFERENCES.md D11 again), a linear one b = b0 + k v the integral of v / (b0 + k v)
     // (closed form [D]): v/k - b0/k^2 ln((b0 + k v) / b0).
     t.brake_delay = 0.0;
     t.braking_table = {{0.0, 0.5}, {100.0, 0.5}};

@@ -198,7 +198,7 @@ TEST_CASE("a valid scenario reads into SI values", "[reader]") {
     CHECK(inf.aspect_system_at(6000.0) == AspectSystem::four_aspect);
     CHECK(inf.aspect_system_at(10000.0) == AspectSystem::four_aspect);
     // Given: route_setup.  Omitted: release 3 s (common practice, no source) and sight and
-    // reaction 12 s (REFERENCES.md B3).
+    // reaction 12 s (tests/REFERENCES.md B3).
     CHECK(inf.interlocking.route_setup == 8.0);
     CHECK(inf.interlocking.release == 3.0);
     CHECK(inf.interlocking.sight_reaction == 12.0);
@@ -405,7 +405,7 @@ TEST_CASE("negative or zero lengths", "[reader]") {
 }
 
 TEST_CASE("octal-looking numbers are decimal and YAML words are not numbers", "[reader]") {
-    // 010 m: ten metres, not octal eight (ENGINEERING.md, yaml-cpp pitfalls).
+    // 010 m: ten metres, not octal eight (sim/ENGINEERING.md, yaml-cpp pitfalls).
     const Scenario s = parse_scenario(with("    length: 100 m", "    length: 010 m"), "t.yaml");
     CHECK(s.train_types[0].length == 10.0);
     const std::string t = with("rotating_mass_factor: 1.08", "rotating_mass_factor: yes");

@@ -162,7 +162,7 @@ TEST_CASE("HDF5 results: every dataset exists with its record count", "[sim_hdf5
         hid_t d = H5Dopen2(f.file, name, H5P_DEFAULT);
         REQUIRE(d >= 0);
         hid_t dcpl = H5Dget_create_plist(d);
-        // ENGINEERING.md "HDF5": chunked, shuffle + deflate (in that order: shuffle helps deflate).
+        // sim/ENGINEERING.md "HDF5": chunked, shuffle + deflate (in that order: shuffle helps deflate).
         CHECK(H5Pget_layout(dcpl) == H5D_CHUNKED);
         REQUIRE(H5Pget_nfilters(dcpl) == 2);
         unsigned flags = 0;
@@ -362,7 +362,7 @@ TEST_CASE("HDF5 results: more records than one chunk are all written", "[sim_hdf
 }
 
 TEST_CASE("HDF5 results: wide records get smaller chunks", "[sim_hdf5]") {
-    // ENGINEERING.md "HDF5": ~16 K records a chunk, a chunk under the 1 MiB chunk cache.
+    // sim/ENGINEERING.md "HDF5": ~16 K records a chunk, a chunk under the 1 MiB chunk cache.
     CHECK(h5::RecordTable::chunk_records_for(8) == 16384);
     CHECK(h5::RecordTable::chunk_records_for(128) == 8192);
     CHECK(h5::RecordTable::chunk_records_for(2u << 20) == 1);
@@ -380,7 +380,7 @@ TEST_CASE("HDF5 results: writing twice gives the same bytes, with no time stamps
     CHECK(read_text(a) == first);
     CHECK(read_text(b) == first);
 
-    // ENGINEERING.md "HDF5": object time tracking off, else bytes change from one second to the next.
+    // sim/ENGINEERING.md "HDF5": object time tracking off, else bytes change from one second to the next.
     Reader f(a);
     for (const std::string name : {"/", "/day", "/day/timing", "/day/trajectories"}) {
         INFO(name);

@@ -6,7 +6,7 @@
 // driver can know the route ahead is set.  The event-driven simulation integrates the same
 // physics on a distance grid and jumps from event to event; the two must agree at every timing
 // point within 0.5 s.  A separate check holds the braking towards a signal at stop to the closed
-// form of REFERENCES.md D11.
+// form of tests/REFERENCES.md D11.
 #include <catch2/catch.hpp>
 
 #include <algorithm>
@@ -33,7 +33,7 @@ constexpr double kInf = std::numeric_limits<double>::infinity();
 constexpr double kMass = 220000.0, kRho = 1.08, kMaxForce = 210000.0, kPower = 2.2e6;
 constexpr double kDavisA = 2200.0, kDavisB = 22.0, kDavisC = 5.5;
 constexpr double kBraking = 0.8, kLength = 100.0, kMaxSpeed = 120.0 / 3.6;
-constexpr double kGravity = 9.81;   // REFERENCES.md D5: m g i, small-angle form, g = 9.81
+constexpr double kGravity = 9.81;   // tests/REFERENCES.md D5: m g i, small-angle form, g = 9.81
 constexpr double kMinDwell = 30.0;
 constexpr double kSightReaction = 12.0;
 constexpr double kSighting = 300.0;
@@ -210,8 +210,8 @@ void check_against_reference(const Sim& s, std::size_t t, const ReferenceTimes& 
 TEST_CASE("Simulated motion matches a fixed-step integration: unhindered runs with stops, limits and gradients",
           "[sim][motion]") {
     // Reference: explicit Euler-type integration of Newton's law with dt = 0.01 s (common practice,
-    // no source; the forces are those of REFERENCES.md D1/D5/D7 in SI form), braking curves
-    // v^2 = 2 b_eff (s_stop - s) (REFERENCES.md D11, brake delay outside the trajectory as the
+    // no source; the forces are those of tests/REFERENCES.md D1/D5/D7 in SI form), braking curves
+    // v^2 = 2 b_eff (s_stop - s) (tests/REFERENCES.md D11, brake delay outside the trajectory as the
     // model documents: drivers anticipate a braking point they know).
     const auto run = simulate(InjectedDelays{});
     const Sim& s = *run;
@@ -234,7 +234,7 @@ TEST_CASE("Simulated motion matches a fixed-step integration: braking towards a 
     // LEAD stands at B for longer, so FOLL finds the route into B (from home signal U04) not yet
     // set: it brakes towards U04 and runs on when its driver knows the route is set -- the
     // sight-and-reaction time after the route cleared, once U04 is within sighting distance
-    // (simulation.hpp; REFERENCES.md B3).  The route's clearing time is taken from the simulation's
+    // (simulation.hpp; tests/REFERENCES.md B3).  The route's clearing time is taken from the simulation's
     // route records: the interlocking is not what this test checks; the motion around it is.
     const auto base_run = simulate(InjectedDelays{});
     const Sim& base = *base_run;
@@ -275,7 +275,7 @@ TEST_CASE("Simulated motion matches a fixed-step integration: braking towards a 
 }
 
 TEST_CASE("A train held at a signal stops exactly at it, braking on v^2 = 2 b (s_signal - s)", "[sim][motion]") {
-    // REFERENCES.md D11, closed form of braking at constant deceleration on level track
+    // tests/REFERENCES.md D11, closed form of braking at constant deceleration on level track
     // (b = 0.8 m/s^2; the brake delay is outside the trajectory).
     const auto base_run = simulate(InjectedDelays{});
     const Sim& base = *base_run;

@@ -26,7 +26,7 @@ constexpr double k0800 = 8 * 3600.0;
 }  // namespace
 
 TEST_CASE("a departure waits for the starter: follower's departure delay = max(0, D - b)", "[sim]") {
-    // REFERENCES.md P1; README: "A departure waits for the scheduled time, the minimum dwell and a
+    // tests/REFERENCES.md P1; README: "A departure waits for the scheduled time, the minimum dwell and a
     // proceed aspect"; blocking_time.hpp: "it may not start against a signal at stop".
     // Observed: F leaves S on time whatever D, runs 300 m to the starter U02 and stands there
     // (a HoldRecord at U02); its recorded departure is not gated by the route.
@@ -41,7 +41,7 @@ TEST_CASE("a departure waits for the starter: follower's departure delay = max(0
     }
 }
 
-TEST_CASE("max-plus chain of three departures (REFERENCES.md P3)", "[sim]") {
+TEST_CASE("max-plus chain of three departures (tests/REFERENCES.md P3)", "[sim]") {
     // Goverde's max-plus timetable model: x_k = max(d_k, x_{k-1} + h_min): with buffers b1, b2
     // the delays are d1 = max(0, D - b1), d2 = max(0, d1 - b2).  Needs departures gated at the
     // platform so that F1's whole stairway shifts by d1.
@@ -183,7 +183,7 @@ TEST_CASE("trains enter over a line end whose first signal is out of sight", "[s
 }
 
 TEST_CASE("a starter out of sight of the stop: delays pass on as the plan's buffers say", "[sim][trust]") {
-    // REFERENCES.md P1 (max-plus): a follower's delay is max(0, leader's delay - buffer), the
+    // tests/REFERENCES.md P1 (max-plus): a follower's delay is max(0, leader's delay - buffer), the
     // buffers read from the plan's minimum headways.  The departure needs the route out in the
     // plan and in the simulation alike, starter in sight or not.
     const Scenario sc = read_scenario(kSource + "/tests/data/trust/starter_out_of_sight.yaml");

@@ -1,6 +1,6 @@
 // One simulated day checked against outside references: the undisturbed day reproduces the
 // timetable analysis (planned times and blocking-time stairways); deterministic knock-on follows
-// blocking time theory's max-plus rule at the interlocking (REFERENCES.md P1, P3); a follower
+// blocking time theory's max-plus rule at the interlocking (tests/REFERENCES.md P1, P3); a follower
 // caught on plain line loses more than the stairway overlap; more aspects or cab signalling let
 // a follower run closer; a constructed single-line deadlock is reported, not hung; and two runs
 // give identical records.  The motion itself is checked in test_sim_motion.cpp, the command line
@@ -36,7 +36,7 @@ TEST_CASE("An undisturbed day reproduces the planned times and blocking times", 
     // README ("Planned times"): `simulate` drives trains by the same rule as `plan`, so with no
     // delays every timing point is met at its planned time, and the as-run blocking of every
     // section, [locked, released], is the planned blocking time of blocking time theory
-    // (REFERENCES.md B1: set-up + sight/reaction + approach + running + clearing + release).
+    // (tests/REFERENCES.md B1: set-up + sight/reaction + approach + running + clearing + release).
     for (const std::string file : {"tests/data/two_trains.yaml", "tests/data/single_track.yaml", "scenarios/demo.yaml"}) {
         DYNAMIC_SECTION(file) {
             const DayPtr day = simulate(read_scenario(kSource + "/" + file));
@@ -77,8 +77,8 @@ TEST_CASE("An undisturbed day reproduces the planned times and blocking times", 
 }
 
 TEST_CASE("Knock-on at a shared departure road: the follower's route is set max(0, D - b) late", "[sim][knockon]") {
-    // REFERENCES.md P1 (blocking time theory / max-plus): follower delay = max(0, leader delay -
-    // buffer); REFERENCES.md P3 (Goverde's max-plus timetable model): x = max(timetable,
+    // tests/REFERENCES.md P1 (blocking time theory / max-plus): follower delay = max(0, leader delay -
+    // buffer); tests/REFERENCES.md P3 (Goverde's max-plus timetable model): x = max(timetable,
     // leader + minimum headway).  The buffer b comes from the plan: scheduled minus minimum
     // headway of the pair at S's departure.  The max-plus step happens in the interlocking: the
     // route out of S is granted to F when L releases the critical section.  (F's recorded
@@ -126,7 +126,7 @@ TEST_CASE("Knock-on at a shared departure road: the follower's route is set max(
 TEST_CASE("Plain-line knock-on costs more than the stairway overlap, and nothing within the buffer", "[sim][knockon]") {
     // F runs through S behind L, which starts from S; when L starts late, F is caught on plain
     // line: it brakes for a restrictive aspect and re-accelerates, so it loses more than the rigid
-    // shift of blocking time theory (REFERENCES.md P1: leader delay - buffer), and nothing when
+    // shift of blocking time theory (tests/REFERENCES.md P1: leader delay - buffer), and nothing when
     // the leader's delay stays within the buffer.
     const Scenario sc = plain_line("three_aspect", 1.0, k0800 + 180.0);
     const PlanResult p = make_plan(sc);
@@ -154,7 +154,7 @@ TEST_CASE("Plain-line knock-on costs more than the stairway overlap, and nothing
 }
 
 TEST_CASE("Aspect systems: four aspects and cab signalling let a follower run closer", "[sim][aspects]") {
-    // REFERENCES.md B5/B6: with blocks shorter than the braking distance (761 m from 120 km/h at
+    // tests/REFERENCES.md B5/B6: with blocks shorter than the braking distance (761 m from 120 km/h at
     // 0.8 m/s^2 with 2 s brake delay, D11) three aspects cannot give the driver enough warning,
     // four can (two blocks cover it); cab signalling gives authority up to the braking curve.
     // Same line, same trains, same timetable, same late start of the leader.
@@ -175,7 +175,7 @@ TEST_CASE("Aspect systems: four aspects and cab signalling let a follower run cl
         const double four0 = timing_of(*simulate(plain_line("four_aspect", 0.4, follower_pass)), "F", "Q").arrival;
         INFO("undisturbed F at Q: three-aspect " << three0 << ", four-aspect " << four0);
         CHECK(four0 < three0 - 1.0);
-        // Four aspects: undisturbed, the plan is run as planned (REFERENCES.md B6 holds).
+        // Four aspects: undisturbed, the plan is run as planned (tests/REFERENCES.md B6 holds).
         const DayPtr planned = simulate(plain_line("four_aspect", 0.4, follower_pass));
         const TimingRecord& q = timing_of(*planned, "F", "Q");
         CHECK(q.arrival == Approx(planned->plan[index_of(planned->plan, "F")].run.calls.back().planned_arrival).margin(1.0));

@@ -189,7 +189,7 @@ std::vector<double> max_plus_departure_delays(const std::vector<double>& schedul
 
 TEST_CASE("max-plus helper reproduces the published examples", "[study][maxplus]") {
     const Mat A = {{2.0, 5.0}, {3.0, 3.0}};
-    // REFERENCES.md P2: Heidergott, Olsder, van der Woude, Max Plus at Work (2006): x(0) = (0, 0),
+    // tests/REFERENCES.md P2: Heidergott, Olsder, van der Woude, Max Plus at Work (2006): x(0) = (0, 0),
     // x(k) = A ⊗ x(k-1) gives (5,3), (8,8), (13,11), (16,16); eigenvalue 4.
     Vec x = {0.0, 0.0};
     const std::vector<Vec> expected = {{5, 3}, {8, 8}, {13, 11}, {16, 16}};
@@ -201,7 +201,7 @@ TEST_CASE("max-plus helper reproduces the published examples", "[study][maxplus]
     for (int k = 0; k < 40; ++k) far = otimes(A, far);
     CHECK(far[0] / 40.0 == Approx(4.0).margin(0.1));   // P2: cycle mean = eigenvalue 4
 
-    // REFERENCES.md P3: Goverde, Transportation Research B 41(2) 2007: same A, timetable
+    // tests/REFERENCES.md P3: Goverde, Transportation Research B 41(2) 2007: same A, timetable
     // d(k) = (1, 0) + 5k, x(0) = (4, 0): x(k) = A ⊗ x(k-1) ⊕ d(k); delays (0,2), (1,0), (0,0).
     x = {4.0, 0.0};
     const std::vector<Vec> delays = {{0, 2}, {1, 0}, {0, 0}};
@@ -212,7 +212,7 @@ TEST_CASE("max-plus helper reproduces the published examples", "[study][maxplus]
         CHECK(x[1] - d[1] == delays[k - 1][1]);
     }
 
-    // REFERENCES.md P1: follower delay = max(0, leader delay - buffer); buffer 2 min:
+    // tests/REFERENCES.md P1: follower delay = max(0, leader delay - buffer); buffer 2 min:
     // leader 5 -> 3; 1.5 -> 0; 2 -> 0 (minutes).  Scheduled 10 min apart, minimum headway 8.
     for (const auto& [leader, follower] : std::vector<std::pair<double, double>>{{5, 3}, {1.5, 0}, {2, 0}})
         CHECK(max_plus_departure_delays({0.0, 10.0}, {0.0, 8.0}, {leader, 0.0})[1] == Approx(follower));
@@ -221,7 +221,7 @@ TEST_CASE("max-plus helper reproduces the published examples", "[study][maxplus]
 TEST_CASE("Departure delays of a chain of trains follow the max-plus recursion", "[study][maxplus]") {
     // tests/data/study/alternating_platforms.yaml: four trains start from A every 4 min from
     // alternate platforms over one route out; only the first starts late, by D.
-    // Prediction (REFERENCES.md P1 and P3; Goverde 2007; Heidergott, Olsder, van der Woude 2006):
+    // Prediction (tests/REFERENCES.md P1 and P3; Goverde 2007; Heidergott, Olsder, van der Woude 2006):
     // departure x(k) = max(d(k), x(k-1) + h(k)), i.e. departure delays y(1) = D and
     // y(k) = max(0, y(k-1) - b(k)), with b(k) the buffer of train k behind k-1 in line section A-B
     // from make_plan (HeadwayPair).

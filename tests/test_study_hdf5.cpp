@@ -280,7 +280,7 @@ TEST_CASE("study HDF5: the same seed gives the same bytes with 1 or 2 threads", 
     REQUIRE(fx.simulate("--threads=2 " + args) == 0);
     const std::string two_again = read_text(out);
     REQUIRE(one.size() > 0);
-    // ENGINEERING.md "Random numbers and reproducibility": results do not depend on the thread count.
+    // sim/ENGINEERING.md "Random numbers and reproducibility": results do not depend on the thread count.
     CHECK(one == two);
     CHECK(one == two_again);
     Reader f(out);

@@ -58,20 +58,20 @@ ServiceRun plan_only_service(const Scenario& sc) {
 
 TEST_CASE("UIC 451-1 supplement: share of the running time plus minutes per 100 km", "[supplement]") {
     const double technical = 60.0 * kMin;
-    // REFERENCES.md C3: 60 min over 150 km at 5 %, loco-hauled 1.5 min/100 km -> 65.25 min.
+    // tests/REFERENCES.md C3: 60 min over 150 km at 5 %, loco-hauled 1.5 min/100 km -> 65.25 min.
     CHECK(technical + running_time_supplement(rule(0.05, 1.5), technical, 150 * kKm, 150 * kKm) ==
           Approx(65.25 * kMin).margin(1e-9));
-    // REFERENCES.md C3: multiple unit, 1.0 min/100 km -> 64.50 min.
+    // tests/REFERENCES.md C3: multiple unit, 1.0 min/100 km -> 64.50 min.
     CHECK(technical + running_time_supplement(rule(0.05, 1.0), technical, 150 * kKm, 150 * kKm) ==
           Approx(64.50 * kMin).margin(1e-9));
-    // REFERENCES.md C3: a 25 km path is under the 30 km threshold: no distance part -> 63.0 min.
+    // tests/REFERENCES.md C3: a 25 km path is under the 30 km threshold: no distance part -> 63.0 min.
     CHECK(technical + running_time_supplement(rule(0.05, 1.5), technical, 25 * kKm, 25 * kKm) ==
           Approx(63.0 * kMin).margin(1e-9));
 }
 
 TEST_CASE("UIC 451-1 supplement: threshold and stretch", "[supplement]") {
     const double technical = 20.0 * kMin;
-    // REFERENCES.md C3: "no distance part on paths <= 30 km": exactly 30 km still gets none.
+    // tests/REFERENCES.md C3: "no distance part on paths <= 30 km": exactly 30 km still gets none.
     CHECK(running_time_supplement(rule(0.05, 1.0), technical, 30 * kKm, 30 * kKm) ==
           Approx(0.05 * technical).margin(1e-9));
     // Just over the threshold the distance part applies in full (C3; [D]: 0.05*1200 + 60*30.001/100).
@@ -90,7 +90,7 @@ TEST_CASE("UIC 451-1 supplement: threshold and stretch", "[supplement]") {
 
 TEST_CASE("Planned run: scheduled running time = technical + UIC 451-1 supplement", "[supplement][plan]") {
     SECTION("9 km path under the 30 km threshold: percentage only") {
-        // REFERENCES.md C3: paths <= 30 km get no distance part.
+        // tests/REFERENCES.md C3: paths <= 30 km get no distance part.
         const Scenario sc = parse_scenario(stopping_line("{percent: 5 %, per_100km: 1 min, threshold: 30 km}"),
                                            "supplement.yaml");
         const ServiceRun run = plan_only_service(sc);
@@ -109,7 +109,7 @@ TEST_CASE("Planned run: scheduled running time = technical + UIC 451-1 supplemen
         CHECK(b.planned_arrival == Approx(8 * 3600.0 + b.technical_running).margin(1e-6));
     }
     SECTION("threshold lowered to 5 km: the 9 km stretch gets 9 % of 1 min") {
-        // REFERENCES.md C3 rule with our own threshold; [D]: 60 s * 9 km / 100 km = 5.4 s.
+        // tests/REFERENCES.md C3 rule with our own threshold; [D]: 60 s * 9 km / 100 km = 5.4 s.
         const Scenario sc = parse_scenario(stopping_line("{percent: 5 %, per_100km: 1 min, threshold: 5 km}"),
                                            "supplement.yaml");
         const ServiceRun run = plan_only_service(sc);

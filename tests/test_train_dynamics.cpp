@@ -16,26 +16,26 @@ constexpr double g = 9.81;         // the value the models use
 }  // namespace
 
 TEST_CASE("Davis resistance from French daN / km/h coefficients", "[dynamics]") {
-    // REFERENCES.md D1 (Bosquet 2015, high-speed trainset exercise): a=254 daN, b=3.34 daN/(km/h),
+    // tests/REFERENCES.md D1 (Bosquet 2015, high-speed trainset exercise): a=254 daN, b=3.34 daN/(km/h),
     // c=0.0572 daN/(km/h)^2 -> A = 10a N, B = 36b N s/m, C = 129.6c N s^2/m^2.
     TrainType t;
     t.davis_a = 254 * 10.0;
     t.davis_b = 3.34 * 10.0 * 3.6;
     t.davis_c = 0.0572 * 10.0 * 3.6 * 3.6;
-    CHECK(t.resistance(300 * kmh) == Approx(64040).margin(5));  // REFERENCES.md D1: 64.04 kN
-    CHECK(t.resistance(100 * kmh) == Approx(11600).margin(5));  // REFERENCES.md D1: 11.60 kN
-    CHECK(t.resistance(0.0) == Approx(2540));                   // REFERENCES.md D1: A alone at rest
+    CHECK(t.resistance(300 * kmh) == Approx(64040).margin(5));  // tests/REFERENCES.md D1: 64.04 kN
+    CHECK(t.resistance(100 * kmh) == Approx(11600).margin(5));  // tests/REFERENCES.md D1: 11.60 kN
+    CHECK(t.resistance(0.0) == Approx(2540));                   // tests/REFERENCES.md D1: A alone at rest
 }
 
 TEST_CASE("Davis resistance per tonne", "[dynamics]") {
-    // REFERENCES.md D2 (Bosquet 2015, fig. 1.12): per-tonne daN coefficients times 430 t.
+    // tests/REFERENCES.md D2 (Bosquet 2015, fig. 1.12): per-tonne daN coefficients times 430 t.
     TrainType t;
     const double tonnes = 430;
     t.davis_a = 0.6325 * 10.0 * tonnes;
     t.davis_b = 0.00755 * 36.0 * tonnes;
     t.davis_c = 0.0001244 * 129.6 * tonnes;
-    CHECK(t.resistance(300 * kmh) == Approx(60600).margin(10));  // REFERENCES.md D2: 60.60 kN
-    CHECK(t.resistance(320 * kmh) == Approx(67880).margin(10));  // REFERENCES.md D2: 67.88 kN
+    CHECK(t.resistance(300 * kmh) == Approx(60600).margin(10));  // tests/REFERENCES.md D2: 60.60 kN
+    CHECK(t.resistance(320 * kmh) == Approx(67880).margin(10));  // tests/REFERENCES.md D2: 67.88 kN
 }
 
 TEST_CASE("Curtius-Kniffler adhesion caps the tractive effort", "[dynamics]") {
@@ -43,20 +43,20 @@ TEST_CASE("Curtius-Kniffler adhesion caps the tractive effort", "[dynamics]") {
     t.max_force = 1e9;  // far above adhesion, so the adhesion cap is what we read
     t.adhesion_mass = 100000;
     const double weight = t.adhesion_mass * g;
-    CHECK(t.tractive_force(0.0) / weight == Approx(0.33145).margin(1e-5));          // REFERENCES.md D6
-    CHECK(t.tractive_force(100 * kmh) / weight == Approx(0.21308).margin(1e-5));    // REFERENCES.md D6
-    CHECK(t.tractive_force(200 * kmh) / weight == Approx(0.19174).margin(1e-5));    // REFERENCES.md D6
+    CHECK(t.tractive_force(0.0) / weight == Approx(0.33145).margin(1e-5));          // tests/REFERENCES.md D6
+    CHECK(t.tractive_force(100 * kmh) / weight == Approx(0.21308).margin(1e-5));    // tests/REFERENCES.md D6
+    CHECK(t.tractive_force(200 * kmh) / weight == Approx(0.19174).margin(1e-5));    // tests/REFERENCES.md D6
 }
 
 TEST_CASE("Tractive-effort envelope min(F_max, adhesion, P/v)", "[dynamics]") {
-    // REFERENCES.md D7: published data of a 5.6 MW electric locomotive.
+    // tests/REFERENCES.md D7: published data of a 5.6 MW electric locomotive.
     TrainType t;
     t.max_force = 300e3;
     t.power = 5600e3;
     t.adhesion_mass = 84000;
-    CHECK(t.tractive_force(0.0) == Approx(273.1e3).margin(60));         // REFERENCES.md D7: adhesion-limited
-    CHECK(t.tractive_force(100 * kmh) == Approx(175.6e3).margin(60));   // REFERENCES.md D7: adhesion-limited
-    CHECK(t.tractive_force(140 * kmh) == Approx(144.0e3).margin(60));   // REFERENCES.md D7: power-limited
+    CHECK(t.tractive_force(0.0) == Approx(273.1e3).margin(60));         // tests/REFERENCES.md D7: adhesion-limited
+    CHECK(t.tractive_force(100 * kmh) == Approx(175.6e3).margin(60));   // tests/REFERENCES.md D7: adhesion-limited
+    CHECK(t.tractive_force(140 * kmh) == Approx(144.0e3).margin(60));   // tests/REFERENCES.md D7: power-limited
 
     // Without adhesion mass the same type is force- then power-limited (closed form [D]).
     t.adhesion_mass = 0;
@@ -78,7 +78,7 @@ TEST_CASE("From power_limited_from on the effort is the power curve alone, to th
         t.performance = performance;
         const double from = t.power_limited_from();
         REQUIRE(std::isfinite(from));
-        // The crossing lies where the two curves meet: the REFERENCES.md D7 locomotive is
+        // The crossing lies where the two curves meet: the tests/REFERENCES.md D7 locomotive is
         // adhesion-limited at 100 km/h and power-limited at 140 km/h.
         CHECK(from > 100 * kmh);
         CHECK(from < 140 * kmh);
@@ -130,7 +130,7 @@ TEST_CASE("Force and braking tables interpolate linearly and hold at their ends"
 }
 
 TEST_CASE("Gradient force on the brakes is m g i", "[dynamics]") {
-    // REFERENCES.md D5: 500 t on +10 per mille: 49 050 N by m*g*i (49 047.5 N by the sine form);
+    // tests/REFERENCES.md D5: 500 t on +10 per mille: 49 050 N by m*g*i (49 047.5 N by the sine form);
     // this project uses m*g*i.  Read through the braking deceleration, which adds g*i.
     TrainType t;
     t.mass = 500000;

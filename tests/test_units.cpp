@@ -58,7 +58,7 @@ TEST_CASE("gradients and shares become ratios", "[units]") {
 }
 
 TEST_CASE("Davis coefficients in daN and km/h convert to SI", "[units]") {
-    // REFERENCES.md D1: A = 10 a, B = 36 b, C = 129.6 c for a, b, c in daN, daN/(km/h), daN/(km/h)^2.
+    // tests/REFERENCES.md D1: A = 10 a, B = 36 b, C = 129.6 c for a, b, c in daN, daN/(km/h), daN/(km/h)^2.
     const double a = parse_quantity("254 daN", Quantity::force);
     const double b = parse_quantity("3.34 daN/(km/h)", Quantity::davis_b);
     const double c = parse_quantity("0.0572 daN/(km/h)2", Quantity::davis_c);
@@ -70,7 +70,7 @@ TEST_CASE("Davis coefficients in daN and km/h convert to SI", "[units]") {
     t.davis_a = a;
     t.davis_b = b;
     t.davis_c = c;
-    // REFERENCES.md D1: 64.04 kN at 300 km/h, 11.60 kN at 100 km/h.
+    // tests/REFERENCES.md D1: 64.04 kN at 300 km/h, 11.60 kN at 100 km/h.
     CHECK(t.resistance(300 / 3.6) == Approx(64040.0).epsilon(1e-4));
     CHECK(t.resistance(100 / 3.6) == Approx(11600.0).epsilon(1e-4));
 
@@ -108,7 +108,7 @@ TEST_CASE("wrong or missing units are refused with the accepted ones named", "[u
 }
 
 TEST_CASE("numbers: decimal only, no octal, no YAML 1.1 words, finite", "[units]") {
-    // yaml-cpp would read 010 as octal 8 (ENGINEERING.md); scenario numbers are decimal.
+    // yaml-cpp would read 010 as octal 8 (sim/ENGINEERING.md); scenario numbers are decimal.
     CHECK(parse_number("010") == 10.0);
     CHECK(parse_quantity("010 m", Quantity::length) == 10.0);
     CHECK(parse_number(" 1e3 ") == 1000.0);

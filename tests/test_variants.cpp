@@ -1,6 +1,6 @@
 // Scenario variants: the overlay merge (maps key by key, everything else replaced), located errors
 // that point into the overlay or the base as written, the checks of the `variants:` map, and the
-// demo's variants against blocking time theory (REFERENCES.md B5/B6).
+// demo's variants against blocking time theory (tests/REFERENCES.md B5/B6).
 #include <catch2/catch.hpp>
 
 #include <cmath>
@@ -265,7 +265,7 @@ TEST_CASE("variant names and descriptions in file order", "[variants]") {
 }
 
 TEST_CASE("demo: four-aspect signalling on the same signals never lengthens a minimum headway", "[variants][demo]") {
-    // REFERENCES.md B5/B6: under four-aspect signalling the warning point is one or two signals in
+    // tests/REFERENCES.md B5/B6: under four-aspect signalling the warning point is one or two signals in
     // rear, as the braking distance needs; the demo's blocks are each at least a braking distance
     // (B6, three-aspect), so it stays one signal back and no blocking time can grow.
     const Scenario base = read_scenario(kDemo);
@@ -287,7 +287,7 @@ TEST_CASE("demo: four-aspect signalling on the same signals never lengthens a mi
 }
 
 TEST_CASE("demo: shorter blocks shorten the minimum headways", "[variants][demo]") {
-    // Blocking time theory (REFERENCES.md B1): a shorter block is run through and cleared sooner,
+    // Blocking time theory (tests/REFERENCES.md B1): a shorter block is run through and cleared sooner,
     // so the longest blocking time of a line section, which sets the headway, falls; B6
     // (four-aspect) keeps two halved blocks at least a braking distance.
     const Scenario base = read_scenario(kDemo);

@@ -19,7 +19,7 @@ const double k0800 = 8 * 3600.0;
 
 TEST_CASE("plan: signals giving less warning than the stopping distance are named", "[plan][spacing]") {
     // EMU10 at 120 km/h, 0.8 m/s^2 and 2 s brake delay: stopping distance v^2/(2b) + v t =
-    // 694.4 + 66.7 = 761.1 m (REFERENCES.md D11, closed form).  REFERENCES.md B6: three aspects
+    // 694.4 + 66.7 = 761.1 m (tests/REFERENCES.md D11, closed form).  tests/REFERENCES.md B6: three aspects
     // need each block to hold it, four aspects two blocks.
     const double v = 120.0 / 3.6, stopping = v * v / (2.0 * 0.8) + v * 2.0;
     REQUIRE(stopping == Approx(761.1).margin(0.1));

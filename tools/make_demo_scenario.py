@@ -12,12 +12,12 @@ blocking-time estimate (simple Euler steps in v^2 over a 1 m grid, sectional rou
 was used to time the overtaking at Ferrowby Cross.  It is a planning aid for this file only; the
 figures that count are the ones knockon itself computes.
 
-The file also carries demo-grade primary delays (`delays:`, REFERENCES.md P5/P6) for Monte Carlo
+The file also carries demo-grade primary delays (`delays:`, tests/REFERENCES.md P5/P6) for Monte Carlo
 studies, and two variants for `knockon compare`: four-aspect signalling on the same signals, and
 shorter blocks (an intermediate signal halfway along each open-line block longer than 2 km, with
 four-aspect signalling so that two blocks give the braking distance, B6).
 
-Everything here is invented: line, places, rolling stock, timetable, delays.  REFERENCES.md tags
+Everything here is invented: line, places, rolling stock, timetable, delays.  tests/REFERENCES.md tags
 are cited beside the numbers they justify (B2/B3/B4/B6, C3, D7, D12, P5, P6).
 """
 import argparse
@@ -94,7 +94,7 @@ TYPES = {
         a=5000.0, b=1.7 * 10 * 3.6, c=0.062 * 10 * 12.96, brake=0.7, delay=2.0, dwell=60.0,
         sup_pct=5.0, sup_100=90.0,
         yaml="""\
-  # Loco-hauled fast train: one 84 t, 5.6 MW locomotive (tractive envelope as REFERENCES.md D7,
+  # Loco-hauled fast train: one 84 t, 5.6 MW locomotive (tractive envelope as tests/REFERENCES.md D7,
   # with the Curtius-Kniffler adhesion cap) and coaches, 400 t.  rho 1.06: D12 (loco-hauled 1.06-1.07).
   # Davis in daN and km/h: a 500 daN = 5 kN, b 1.7 daN/(km/h) = 61.2 N/(m/s), c 0.062 daN/(km/h)2 = 8.04 N/(m/s)2 (D1 factors).
   - id: LH160
@@ -195,7 +195,7 @@ def falling_permille(x_from_km, x_to_km, direction):
 
 
 def b4_overlap(x_km, direction, approach_kmh):
-    """REFERENCES.md B4 (one national practice): by approach speed, +10 % per per mille of
+    """tests/REFERENCES.md B4 (one national practice): by approach speed, +10 % per per mille of
     falling gradient, capped at 300 m.  The gradient looked at: 500 m in rear to 300 m ahead."""
     if approach_kmh <= 30:
         return 0.0
@@ -309,7 +309,7 @@ def parse_time(s):
 
 
 def braking_distance(t, v, fall_permille):
-    """v * delay + v^2 / (2 (b - g i)): REFERENCES.md D11 form, falling gradient i."""
+    """v * delay + v^2 / (2 (b - g i)): tests/REFERENCES.md D11 form, falling gradient i."""
     b = t["brake"] - G * fall_permille / 1000.0
     return v * t["delay"] + v * v / (2 * b)
 
@@ -364,7 +364,7 @@ def signal_lines(signals, indent):
 
 
 # Primary delays for Monte Carlo studies: (category, probability %, mean min) of late entry or
-# start, REFERENCES.md P5 (suburban -> stopping, long-distance -> fast, freight).
+# start, tests/REFERENCES.md P5 (suburban -> stopping, long-distance -> fast, freight).
 ENTRY_DELAYS = [("stopping", 20, 1.3, "P5 suburban: 20 %, mean 1.3 min"),
                 ("fast", 50, 5.0, "P5 long-distance: 50 %, mean 5.0 min"),
                 ("freight", 40, 20.0, "P5 freight: 40 %, mean 20 min")]
@@ -374,7 +374,7 @@ def delay_lines():
     lines = [
         "# Primary delays for `knockon simulate --replications` and `knockon compare`.  DEMO-GRADE, NOT",
         "# FOR REAL STUDIES: the entry figures come second-hand from one national capacity",
-        "# guideline (REFERENCES.md P5), the shapes follow published fits (P6), and the dwell, running and",
+        "# guideline (tests/REFERENCES.md P5), the shapes follow published fits (P6), and the dwell, running and",
         "# disruption figures are invented to make the demo show something.  A real study fits these to",
         "# the line's own delay records.",
         "delays:",
@@ -483,7 +483,7 @@ def emit_yaml():
     w("  signalling:")
     w("    areas:")
     w(f"      - {{from: 0 km, to: {km(LENGTH_KM)}, system: three_aspect}}")
-    w("    # Overlap 200 m beyond a signal approached above 60 km/h (REFERENCES.md B4); signals on or")
+    w("    # Overlap 200 m beyond a signal approached above 60 km/h (tests/REFERENCES.md B4); signals on or")
     w("    # just beyond a falling gradient carry their own, longer overlap (B4: +10 % per per mille, cap 300 m).")
     w(f"    defaults: {{sighting_distance: {SIGHTING:.0f} m, overlap: {OVERLAP:.0f} m, distant_distance: {DISTANT:.0f} m}}")
     w("    # Electronic interlocking: route setup 6 s (B2: relay/electronic 6-18 s); release 3 s;")

@@ -99,7 +99,7 @@ private:
 class Group;
 
 // An HDF5 file created for writing (truncating any file of that name), with the layout choices of
-// ENGINEERING.md: file format bounds V110..V110 and no object time stamps. Closing fails while a
+// sim/ENGINEERING.md: file format bounds V110..V110 and no object time stamps. Closing fails while a
 // group or dataset of it is still open, so a file is never taken as complete too early.
 class File {
 public:

@@ -186,7 +186,7 @@ std::string spacing_warning_text(const PlanResult& plan, const SpacingWarning& w
     char buf[500];
     std::snprintf(buf, sizeof buf,
                   "signal %s: its aspect system gives %.1f m of warning, less than the stopping distance of service "
-                  "%s from %.0f km/h on the steepest fall within it (%.1f m, REFERENCES.md B6); the plan is "
+                  "%s from %.0f km/h on the steepest fall within it (%.1f m, tests/REFERENCES.md B6); the plan is "
                   "optimistic there and the simulated driver brakes earlier (a planning check: spacing is for "
                   "licensed signalling engineers under local rules)",
                   w.signal.c_str(), w.available, plan.trains[w.train].run.service->id.c_str(), w.speed * 3.6, w.needed);

@@ -356,8 +356,8 @@ private:
             defaults_given_ = {d.has("sighting_distance"), d.has("overlap"), d.has("distant_distance")};
         }
         // Omitted interlocking times keep the InterlockingTimes defaults: route setup 6 s (the
-        // low end for relay/electronic interlockings, REFERENCES.md B2), sight and reaction 12 s
-        // (REFERENCES.md B3), release 3 s (common practice, no source).
+        // low end for relay/electronic interlockings, tests/REFERENCES.md B2), sight and reaction 12 s
+        // (tests/REFERENCES.md B3), release 3 s (common practice, no source).
         if (s.has("interlocking")) {
             MapFields t(errors_, s.get("interlocking"), s.path_of("interlocking"),
                         {"route_setup", "release", "sight_reaction"});

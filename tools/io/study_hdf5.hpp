@@ -7,7 +7,7 @@
 // (StudyOptions::on_trace, in replication order), so no day's records are kept in memory; /study is
 // written at the end. Until finish() succeeds the file exists only under a temporary name, which is
 // removed if the writer is destroyed first: the target path gets a whole file or nothing.
-// Everything is written on the calling thread (ENGINEERING.md "HDF5": one writer owns the handles).
+// Everything is written on the calling thread (sim/ENGINEERING.md "HDF5": one writer owns the handles).
 #include <cstdint>
 #include <memory>
 #include <optional>

@@ -35,7 +35,7 @@ std::vector<std::string> plan_warnings(const Scenario& sc, const PlanResult& pla
         seen[where] = {out.size(), 0};
         out.push_back(where + ": warning: " + tight_stretch_text(plan, w));
     }
-    // Signals whose warning is shorter than a train's stopping distance (REFERENCES.md B6), on the
+    // Signals whose warning is shorter than a train's stopping distance (tests/REFERENCES.md B6), on the
     // steepest fall over the braking distance: located at the signal, with the worst train.
     for (const SpacingWarning& w : plan.spacing_warnings)
         out.push_back(sc.where_signal(w.signal) + ": warning: " + spacing_warning_text(plan, w));
