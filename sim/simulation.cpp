@@ -225,16 +225,11 @@ private:
     bool may_depart(std::uint32_t t) const {
         const TrainState& s = st_[t];
         const auto& routes = train(t).routes;
-        bool needs_route = false;
-        for (std::size_t j = s.next_pass; j < routes.size(); ++j) {
-            if (routes[j].after_stop != s.stop_call) {
-                if (needs_route) break;
-                continue;
-            }
-            needs_route = true;
+        // (they are the routes from the first signal ahead on: models/blocking_time stop_in)
+        std::size_t j = s.next_pass;
+        for (; j < routes.size() && routes[j].after_stop == s.stop_call; ++j)
             if (!route_known(t, j)) return false;
-        }
-        return needs_route || s.eoa > s.s_stand + kEps;
+        return j > s.next_pass || s.eoa > s.s_stand + kEps;
     }
     // The route is set and the driver has had the reaction time since.
     bool route_known(std::uint32_t t, std::size_t j) const {

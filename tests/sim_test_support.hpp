@@ -60,6 +60,27 @@ inline DayPtr simulate(Scenario scenario, const std::vector<std::pair<std::strin
     return d;
 }
 
+// A scenario with its plan and simulation model.  SimModel keeps references into the scenario
+// and the plan, so the three live together and never move.
+struct Loaded {
+    Scenario scenario;
+    std::vector<TrainPlan> plan;
+    std::unique_ptr<SimModel> model;
+
+    explicit Loaded(const std::string& path) : scenario(read_scenario(path)), plan(plan_trains(scenario)) {
+        model = std::make_unique<SimModel>(scenario.infrastructure, plan);
+    }
+    Loaded(const Loaded&) = delete;
+    Loaded& operator=(const Loaded&) = delete;
+
+    std::size_t train_index(const std::string& id) const {
+        for (std::size_t t = 0; t < plan.size(); ++t)
+            if (plan[t].run.service->id == id) return t;
+        FAIL("no train " << id);
+        return 0;
+    }
+};
+
 inline const TimingRecord& timing_of(const Day& d, const std::string& train, const std::string& station) {
     const std::size_t t = index_of(d.plan, train);
     for (const TimingRecord& r : d.result.timing)

@@ -19,6 +19,7 @@
 #include "sim/simulation.hpp"
 #include "sim/study.hpp"
 #include "tools/io/scenario_reader.hpp"
+#include "sim_test_support.hpp"
 
 using namespace knockon;
 
@@ -29,14 +30,7 @@ const std::string kSource = KNOCKON_SOURCE_DIR;
 const std::string kCrossings = kSource + "/tests/data/study/single_line_crossings.yaml";
 const std::string kHeadOn = kSource + "/tests/data/sim/head_on.yaml";
 
-struct Loaded {
-    Scenario scenario;
-    std::vector<TrainPlan> plan;
-    std::unique_ptr<SimModel> model;
-    explicit Loaded(const std::string& path) : scenario(read_scenario(path)), plan(plan_trains(scenario)) {
-        model = std::make_unique<SimModel>(scenario.infrastructure, plan);
-    }
-};
+using simtest::Loaded;
 
 StudyOptions first_come_study(const Loaded& f, std::uint32_t replications, unsigned threads) {
     StudyOptions opt;

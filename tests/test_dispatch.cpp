@@ -22,14 +22,7 @@ namespace {
 
 const std::string kCrossings = std::string(KNOCKON_SOURCE_DIR) + "/tests/data/study/single_line_crossings.yaml";
 
-struct Loaded {
-    Scenario scenario;
-    std::vector<TrainPlan> plan;
-    std::unique_ptr<SimModel> model;
-    explicit Loaded(const std::string& path) : scenario(read_scenario(path)), plan(plan_trains(scenario)) {
-        model = std::make_unique<SimModel>(scenario.infrastructure, plan);
-    }
-};
+using simtest::Loaded;
 
 StudyResult study_of(const Loaded& f, RouteOrder order, std::uint32_t days) {
     StudyOptions opt;

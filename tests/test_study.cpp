@@ -24,6 +24,7 @@
 #include "sim/simulation.hpp"
 #include "sim/study.hpp"
 #include "tools/io/scenario_reader.hpp"
+#include "sim_test_support.hpp"
 
 using namespace knockon;
 
@@ -35,26 +36,7 @@ const std::string kDelayedLine = kSource + "/tests/data/study/delayed_line.yaml"
 const std::string kTwoTrains = kSource + "/tests/data/two_trains.yaml";
 const std::string kDemo = kSource + "/scenarios/demo.yaml";
 
-// A scenario with its plan and simulation model.  SimModel keeps references into the scenario
-// and the plan, so the three live together and never move.
-struct Loaded {
-    Scenario scenario;
-    std::vector<TrainPlan> plan;
-    std::unique_ptr<SimModel> model;
-
-    explicit Loaded(const std::string& path) : scenario(read_scenario(path)), plan(plan_trains(scenario)) {
-        model = std::make_unique<SimModel>(scenario.infrastructure, plan);
-    }
-    Loaded(const Loaded&) = delete;
-    Loaded& operator=(const Loaded&) = delete;
-
-    std::size_t train_index(const std::string& id) const {
-        for (std::size_t t = 0; t < plan.size(); ++t)
-            if (plan[t].run.service->id == id) return t;
-        FAIL("no train " << id);
-        return 0;
-    }
-};
+using simtest::Loaded;
 
 // Primary delays drawn from the scenario's `delays:` section, as `knockon simulate
 // --replications` draws them.

@@ -231,3 +231,16 @@ TEST_CASE("plan: a plan too large for memory is refused at once", "[cli][checks]
     CHECK(r.err.find(": the plan would integrate 1.41e+08 grid points (1442 train runs, 70658 train-km at a step of 0.5 m") != std::string::npos);
     CHECK(took < 20.0);
 }
+
+TEST_CASE("validate: a signal whose warning is short of the stopping distance is a warning at the signal", "[cli][checks]") {
+    // tests/REFERENCES.md B6 with D11: the warning the signal in rear gives (1000 m) is shorter than
+    // the stopping distance on the fall before the signal (2378.7 m); warned, status 0.
+    TempDir dir;
+    const fs::path file = fixture_path("signal_beyond_foot_of_fall.yaml");
+    const Result r = knockon("validate " + q(file), dir, 60);
+    INFO(r.err);
+    CHECK(r.status == 0);
+    CHECK(r.err.find(": infrastructure.signals[2]: warning: signal U03: its aspect system gives 1000.0 m of warning") !=
+          std::string::npos);
+    CHECK(r.err.find("2378.7 m") != std::string::npos);
+}
