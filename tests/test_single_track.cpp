@@ -7,6 +7,7 @@
 #include <algorithm>
 #include <cmath>
 #include <filesystem>
+#include <sstream>
 #include <string>
 
 #include <nlohmann/json.hpp>
@@ -318,4 +319,31 @@ TEST_CASE("knockon report of a single line holds the crossing table and draws lo
     CHECK(page.find("Capacity consumption of single-track stretches, both directions together") != std::string::npos);
     CHECK(page.find("class=\"loop-band\"") != std::string::npos);
     CHECK(page.find("class=\"loop-path\"") != std::string::npos);   // PD-0609 in loop L2 in this hour
+}
+
+TEST_CASE("The bundled single line plans without conflicts and the README shows its figures", "[cli][single_track]") {
+    using namespace clitest;
+    TempDir dir;
+    const std::string scenario = kSource + "/scenarios/single_line.yaml";
+    const Result v = clitest::knockon("validate " + q(scenario), dir);
+    INFO(v.err);
+    CHECK(v.status == 0);
+    const Result r = clitest::knockon("plan " + q(scenario), dir);
+    REQUIRE(r.status == 0);
+    CHECK(r.out.find("Conflicts: 0 overlapping blocking times") != std::string::npos);
+    // Every line of the README's single-line excerpt is printed by the program as it stands.
+    const std::string readme = read_text(kSource + "/README.md");
+    const auto from = readme.find("Capacity consumption of single-track stretches, both directions together");
+    REQUIRE(from != std::string::npos);
+    const std::string block = readme.substr(from, readme.find("```", from) - from);
+    std::istringstream lines(block);
+    std::string line;
+    int checked = 0;
+    while (std::getline(lines, line)) {
+        if (line.empty()) continue;
+        INFO(line);
+        CHECK(r.out.find(line) != std::string::npos);
+        ++checked;
+    }
+    CHECK(checked == 8);
 }
