@@ -20,6 +20,29 @@ double compressed_occupation(const std::vector<SectionStairway>& trains) {
     return close;
 }
 
+WindowConsumption window_consumption(const std::vector<SectionStairway>& ordered, double from, double to) {
+    std::vector<SectionStairway> in;
+    for (const SectionStairway& s : ordered)
+        if (s.reference >= from && s.reference < to) in.push_back(s);
+    WindowConsumption w{from, to, in.size(), compressed_occupation(in), 0.0};
+    w.consumption = w.occupation / (to - from);
+    return w;
+}
+
+WindowConsumption peak_hour_consumption(const std::vector<SectionStairway>& ordered) {
+    constexpr double kHour = 3600.0;
+    WindowConsumption peak = window_consumption(ordered, 0.0, kHour);
+    for (int h = 1; h < 24; ++h) {
+        WindowConsumption w = window_consumption(ordered, h * kHour, (h + 1) * kHour);
+        if (w.consumption > peak.consumption + 1e-12) peak = w;
+    }
+    return peak;
+}
+
+WindowConsumption day_consumption(const std::vector<SectionStairway>& ordered) {
+    return window_consumption(ordered, 0.0, 86400.0);
+}
+
 ConsumptionLimit uic406_limit(LineType type) {
     switch (type) {
         case LineType::suburban: return {0.85, 0.70};

@@ -14,6 +14,19 @@ namespace knockon {
 // Occupation time [s] of the trains (in timetable order) when compressed.  0 for no trains.
 double compressed_occupation(const std::vector<SectionStairway>& trains_in_order);
 
+// The trains whose reference time lies in [from, to), compressed, as a share of the window.
+struct WindowConsumption {
+    double from = 0.0, to = 0.0;   // [s]
+    std::size_t trains = 0;
+    double occupation = 0.0;       // [s]
+    double consumption = 0.0;      // share of the window
+};
+WindowConsumption window_consumption(const std::vector<SectionStairway>& trains_in_order, double from, double to);
+// The peak hour: the whole clock hour of the day with the highest consumption (earliest on ties).
+WindowConsumption peak_hour_consumption(const std::vector<SectionStairway>& trains_in_order);
+// The whole day, 00:00 to 24:00.
+WindowConsumption day_consumption(const std::vector<SectionStairway>& trains_in_order);
+
 struct ConsumptionLimit {
     double peak = 0.0, day = 0.0;   // shares, e.g. 0.75
 };

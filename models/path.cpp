@@ -27,7 +27,8 @@ struct LoopUse {
     double p_from, p_to;
 };
 
-// Chainages on `track` where one detection section ends and the next begins.
+}  // namespace
+
 std::vector<double> section_boundaries(const Infrastructure& infra, const Track& track) {
     std::vector<double> b{track.from, track.to};
     auto add_if_on = [&](double x) {
@@ -62,6 +63,8 @@ std::vector<double> section_boundaries(const Infrastructure& infra, const Track&
             b.end());
     return b;
 }
+
+namespace {
 
 std::string km(double x) {
     char buf[32];

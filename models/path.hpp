@@ -90,6 +90,10 @@ struct TrainPath {
 TrainPath build_path(const Infrastructure& infra, const Service& service, double rear = 0.0,
                      double ahead = 0.0);
 
+// Chainages on `track` where one detection section ends and the next begins (signals, overlap
+// ends, turnouts, extra joints), sorted, the track's ends included: the one rule for sections.
+std::vector<double> section_boundaries(const Infrastructure& infra, const Track& track);
+
 // Section ids follow "<track>:<from km>-<to km>", e.g. "U:12.400-14.000".
 std::string section_id(const std::string& track, double x_from, double x_to);
 

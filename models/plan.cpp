@@ -11,9 +11,6 @@
 namespace knockon {
 namespace {
 
-constexpr double kDay = 86400.0;
-constexpr double kHour = 3600.0;
-
 std::vector<SectionStairway> stairways_in(const LineSection& ls, const std::vector<TrainPlan>& trains) {
     std::vector<SectionStairway> out;
     for (std::size_t i = 0; i < trains.size(); ++i)
@@ -64,23 +61,14 @@ void add_matrix(const LineSection& ls, const std::vector<SectionStairway>& order
 void add_capacity(const LineSection& ls, const std::vector<SectionStairway>& ordered, LineType type,
                   PlanResult& plan) {
     const ConsumptionLimit limit = uic406_limit(type);
-    auto figure = [&](const char* window, double from, double to, double lim) {
-        std::vector<SectionStairway> in;
-        for (const SectionStairway& s : ordered)
-            if (s.reference >= from && s.reference < to) in.push_back(s);
-        CapacityFigure f{ls.name(), ls.direction, window, from, to, in.size(), compressed_occupation(in), 0.0, lim};
-        f.consumption = f.occupation / (to - from);
-        return f;
+    auto figure = [&](const char* window, const WindowConsumption& w, double lim) {
+        return CapacityFigure{ls.name(), ls.direction, window, w.from, w.to, w.trains, w.occupation, w.consumption,
+                              lim};
     };
-    // The peak hour: the whole clock hour of highest consumption (earliest on ties).
-    CapacityFigure peak = figure("peak hour", 0.0, kHour, limit.peak);
-    for (int h = 1; h < 24; ++h) {
-        CapacityFigure f = figure("peak hour", h * kHour, (h + 1) * kHour, limit.peak);
-        if (f.consumption > peak.consumption + 1e-12) peak = f;
-    }
+    const WindowConsumption peak = peak_hour_consumption(ordered);
     if (peak.trains == 0) return;
-    plan.capacity.push_back(peak);
-    plan.capacity.push_back(figure("day", 0.0, kDay, limit.day));
+    plan.capacity.push_back(figure("peak hour", peak, limit.peak));
+    plan.capacity.push_back(figure("day", day_consumption(ordered), limit.day));
 }
 
 void add_spacing_warnings(PlanResult& plan) {
@@ -140,7 +128,15 @@ void add_conflicts(PlanResult& plan) {
             for (std::size_t j = i + 1; j < uses.size() && uses[j].start < uses[i].end - 1e-6; ++j) {
                 if (uses[i].train == uses[j].train) continue;
                 double overlap = std::min(uses[i].end, uses[j].end) - uses[j].start;
-                plan.conflicts.push_back({section, uses[i].train, uses[j].train, overlap, uses[j].start});
+                Conflict c;
+                c.section = section;
+                c.first = uses[i].train;
+                c.second = uses[j].train;
+                c.overlap = overlap;
+                c.from = uses[j].start;
+                c.opposing = plan.trains[c.first].run.path.direction != plan.trains[c.second].run.path.direction;
+                if (const SingleTrackStretch* st = plan.single_track.stretch_of_section(section)) c.stretch = st->name;
+                plan.conflicts.push_back(c);
             }
     }
     std::sort(plan.conflicts.begin(), plan.conflicts.end(),
@@ -148,6 +144,11 @@ void add_conflicts(PlanResult& plan) {
 }
 
 }  // namespace
+
+std::string conflict_kind(const Conflict& c) {
+    if (!c.opposing) return "same direction";
+    return c.stretch.empty() ? "opposing trains" : "opposing trains on single-track stretch " + c.stretch;
+}
 
 PlanSize plan_size(const Scenario& scenario, const RunOptions& options) {
     const Infrastructure& in = scenario.infrastructure;
@@ -233,6 +234,10 @@ PlanResult make_plan(const Scenario& scenario, const RunOptions& options) {
         add_matrix(ls, ordered, plan);
         add_capacity(ls, ordered, scenario.line_type, plan);
     }
+    plan.single_track = single_track_layout(scenario.infrastructure);
+    plan.crossings = find_crossings(plan.single_track, plan.trains);
+    plan.stretch_capacity = stretch_capacity(plan.single_track, plan.trains, scenario.line_type);
+    plan.crossings_too_short = crossings_too_short(plan.single_track, plan.trains, plan.crossings);
     add_conflicts(plan);
     add_spacing_warnings(plan);
     add_tight_stretches(plan);

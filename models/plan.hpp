@@ -11,13 +11,11 @@
 #include "models/running_time.hpp"
 #include "models/scenario.hpp"
 #include "models/service_run.hpp"
+#include "models/single_track_plan.hpp"
+#include "models/train_plan.hpp"
 
 namespace knockon {
 
-struct TrainPlan {
-    ServiceRun run;
-    Stairway stairway;
-};
 
 struct HeadwayPair {
     std::string line_section;
@@ -41,7 +39,11 @@ struct Conflict {
     std::size_t first = 0, second = 0;   // first blocks the section first
     double overlap = 0.0;                // [s]
     double from = 0.0;                   // when the second's blocking starts [s]
+    bool opposing = false;               // the two trains run in opposite directions
+    std::string stretch;                 // the single-track stretch holding the section, if any
 };
+// "opposing trains on single-track stretch HTW-BRC", "opposing trains" or "same direction".
+std::string conflict_kind(const Conflict& c);
 
 struct CapacityFigure {
     std::string line_section;
@@ -82,6 +84,11 @@ struct PlanResult {
     std::vector<CapacityFigure> capacity;
     std::vector<SpacingWarning> spacing_warnings;   // by signal id
     std::vector<TightStretch> tight_stretches;      // by train, in running order
+    // Single-track stretches (empty on a line without any) and what the timetable does on them.
+    SingleTrackLayout single_track;
+    std::vector<Crossing> crossings;                // by place, then time
+    std::vector<StretchCapacity> stretch_capacity;  // by stretch: peak hour, day
+    std::vector<CrossingTooShort> crossings_too_short;
 };
 
 PlanResult make_plan(const Scenario& scenario, const RunOptions& options = {});

@@ -56,11 +56,19 @@ const std::map<std::string, std::vector<std::string>> kTables = {
     {"headways", {"line_section", "direction", "leader", "follower", "scheduled_headway_s", "minimum_headway_s",
                   "buffer_s", "critical_section"}},
     {"headway_matrix", {"line_section", "leader_type", "follower_type", "minimum_headway_s", "critical_section"}},
-    {"conflicts", {"section", "first", "second", "from", "overlap_s"}},
+    {"conflicts", {"section", "first", "second", "from", "overlap_s", "kind"}},
     {"capacity", {"line_section", "direction", "window", "from", "to", "trains", "occupation_s", "consumption",
                   "limit"}},
     {"spacing_warnings", {"signal", "train", "speed_kmh", "warning_m", "stopping_distance_m"}},
     {"timetable_warnings", {"train", "from", "to", "timetabled_s", "scheduled_s", "technical_s", "short_s"}},
+    {"single_track_stretches", {"stretch", "track", "from_m", "to_m", "lower_place", "lower_kind", "upper_place",
+                                "upper_kind", "sections"}},
+    {"crossings", {"place", "place_kind", "meeting", "stretch", "opposing", "released", "waiting", "waiting_track",
+                   "waiting_stops", "blocks", "buffer_s", "other_stretch", "other_buffer_s"}},
+    {"single_track_capacity", {"stretch", "window", "from", "to", "trains_up", "trains_down", "consumption_up",
+                               "consumption_down", "occupation_s", "consumption", "limit"}},
+    {"crossings_too_short", {"train", "place", "track", "length_m", "head_m", "tail_m", "room_from_m", "room_to_m",
+                             "opposing"}},
 };
 
 // The two-speed fixture with an unknown key and an unknown unit; returns the 1-based lines

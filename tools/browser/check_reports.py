@@ -6,9 +6,10 @@
     check_reports.py --self-test [--scratch DIR]
 
 With --knockon it builds the demo's plan report (knockon report scenarios/demo.yaml -o
-SCRATCH/plan.html) and a small demo study's report (simulate --replications 20 --traces sample:4
---out SCRATCH/study.h5, then report SCRATCH/study.h5) and checks them against the "plan" and
-"study" presets below; each --page adds a file of your own, checked against a preset name or a
+SCRATCH/plan.html), the bundled single line's plan report (scenarios/single_line.yaml) and a
+small demo study's report (simulate --replications 20 --traces sample:4
+--out SCRATCH/study.h5, then report SCRATCH/study.h5) and checks them against the "plan",
+"single" and "study" presets below; each --page adds a file of your own, checked against a preset name or a
 list of CSS selectors. --screenshot-out keeps the demo study report's screenshot (the README's
 picture). --self-test feeds the checker deliberately broken
 pages and fails unless it catches every one.
@@ -61,6 +62,22 @@ PRESETS = {
         ],
         **EVERY_REPORT,
     ),
+    # knockon report of the bundled single line: the plan's sections plus the crossings per
+    # crossing place, the single-track capacity table and the loops drawn in the diagram.
+    "single": Expect(
+        selectors=[
+            "div.caution",
+            "section#time-distance svg.knockon-chart.time-distance",
+            "svg.knockon-chart.time-distance .train-path",
+            "svg.knockon-chart.time-distance .loop-band",
+            "svg.knockon-chart.time-distance .loop-path",
+            "section#capacity svg.knockon-chart.capacity .cap-bar",
+            "section#buffers table",
+            "section#crossings table",
+            "footer",
+        ],
+        **EVERY_REPORT,
+    ),
     # knockon report STUDY.h5: the plan's sections plus the results of the study, with the as-run
     # paths of a traced day over the planned ones.
     "study": Expect(
@@ -102,6 +119,10 @@ def demo_reports(knockon, scratch):
     plan = scratch / "plan.html"
     run([knockon, "report", "scenarios/demo.yaml", "-o", shown(plan)])
     yield plan, "plan"
+    # The bundled single line in an hour with a crossing in a loop.
+    single = scratch / "single_line.html"
+    run([knockon, "report", "scenarios/single_line.yaml", "--from", "06:00", "--to", "07:00", "-o", shown(single)])
+    yield single, "single"
     # The README's study: a small one here (20 days, 4 traced), the same commands.
     h5, study = scratch / "study.h5", scratch / "study.html"
     run([knockon, "simulate", "scenarios/demo.yaml", "--replications", "20", "--traces", "sample:4",

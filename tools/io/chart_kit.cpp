@@ -154,6 +154,8 @@ const std::string& chart_css() {
 .knockon-chart .threshold-line, .knockon-chart .legend-threshold { stroke: #555555; stroke-width: 1; stroke-dasharray: 2 3; }
 .knockon-chart .threshold-label { font-size: 10px; fill: #333333; }
 .knockon-chart .conflict, .knockon-chart .legend-conflict { fill: url(#knockon-hatch); stroke: #000000; stroke-width: 1.6; }
+.knockon-chart .loop-band { fill: #eef3e6; stroke: none; }
+.knockon-chart .loop-path { fill: none; stroke: #1a1a1a; stroke-width: 1; stroke-dasharray: 2 2; }
 .knockon-chart .train-label { font-size: 9px; fill: #222222; }
 .knockon-chart .legend-label { font-size: 11px; }
 .knockon-chart .empty-note { font-size: 14px; fill: #555555; }

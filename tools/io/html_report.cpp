@@ -110,27 +110,60 @@ ReportSection capacity_section(const PlanResult& plan) {
         html += paragraph("No line section carries a train.");
     else
         html += html_table(t) + paragraph("Marked rows (\u25B2, bold) lie above their limit.");
+    if (!plan.stretch_capacity.empty()) {
+        html += paragraph(
+            "On a single-track stretch both directions share one track: the trains of both directions are "
+            "compressed together in the order of their blocking of the stretch, an opposing train no earlier "
+            "than the stretch's sections are released. Each direction alone is shown beside for comparison.");
+        HtmlTable st;
+        st.caption = "Capacity consumption of single-track stretches, both directions together";
+        st.headers = {"stretch", "window", "from", "to", "trains up", "trains down", "up alone", "down alone",
+                      "occupation", "both directions", "limit"};
+        st.numeric = {false, false, true, true, true, true, true, true, true, true, true};
+        for (const StretchCapacity& f : plan.stretch_capacity) {
+            st.rows.push_back({plan.single_track.stretches[f.stretch].name, f.window, svg::format_hhmm(f.from),
+                               svg::format_hhmm(f.to), std::to_string(f.trains_up), std::to_string(f.trains_down),
+                               percent(f.consumption_up), percent(f.consumption_down), seconds(f.occupation),
+                               percent(f.consumption), percent(f.limit)});
+            st.highlight.push_back(f.consumption > f.limit);
+        }
+        html += html_table(st);
+    }
     return {"capacity", "Capacity consumption", html};
 }
 
 ReportSection buffers_section(const PlanResult& plan) {
-    std::vector<const HeadwayPair*> pairs;
-    for (const HeadwayPair& h : plan.headways) pairs.push_back(&h);
-    std::stable_sort(pairs.begin(), pairs.end(),
-                     [](const HeadwayPair* a, const HeadwayPair* b) { return a->buffer < b->buffer; });
+    // Same-direction pairs and opposing pairs on single-track stretches (their crossing buffer).
+    struct Pair {
+        const HeadwayPair* same = nullptr;
+        const Crossing* opposing = nullptr;
+        double buffer() const { return same ? same->buffer : opposing->buffer; }
+    };
+    std::vector<Pair> pairs;
+    for (const HeadwayPair& h : plan.headways) pairs.push_back({&h, nullptr});
+    for (const Crossing& c : plan.crossings) pairs.push_back({nullptr, &c});
+    std::stable_sort(pairs.begin(), pairs.end(), [](const Pair& a, const Pair& b) { return a.buffer() < b.buffer(); });
     const std::size_t shown = std::min(pairs.size(), kThinnestBuffers);
     std::string html = paragraph(
         "The " + std::to_string(shown) + " smallest buffers of " + std::to_string(pairs.size()) +
         " consecutive train pairs: buffer = scheduled headway - minimum headway at the reference points "
         "(departure or pass at the line section's first station); the critical section is where the "
-        "stairways touch at the minimum headway. All pairs: knockon plan --csv or --json.");
+        "stairways touch at the minimum headway. Opposing pairs on a single-track stretch (direction "
+        "\"opposing\") show their crossing buffer (see Crossings). All pairs: knockon plan --csv or --json.");
     HtmlTable t;
     t.caption = "Thinnest buffers";
     t.headers = {"line section", "direction", "leader", "follower", "scheduled headway", "minimum headway", "buffer",
                  "critical section"};
     t.numeric = {false, false, false, false, true, true, true, false};
     for (std::size_t i = 0; i < shown; ++i) {
-        const HeadwayPair& h = *pairs[i];
+        if (const Crossing* c = pairs[i].opposing) {
+            t.rows.push_back({plan.single_track.stretches[c->stretch].name, "opposing", train_id(plan, c->opposing),
+                              train_id(plan, c->waiting), "-", "-", seconds(c->buffer),
+                              "crossing at " + plan.single_track.places[c->place].name});
+            t.highlight.push_back(c->buffer < 0.0);
+            continue;
+        }
+        const HeadwayPair& h = *pairs[i].same;
         t.rows.push_back({h.line_section, to_string(h.direction), train_id(plan, h.leader), train_id(plan, h.follower),
                           seconds(h.scheduled_headway), seconds(h.minimum_headway), seconds(h.buffer),
                           h.critical_section});
@@ -154,18 +187,60 @@ ReportSection conflicts_section(const PlanResult& plan) {
                      "first; the overlap is the negative buffer there).");
     HtmlTable t;
     t.caption = "Conflicts";
-    t.headers = {"section", "first", "second", "from", "overlap"};
-    t.numeric = {false, false, false, true, true};
+    t.headers = {"section", "first", "second", "from", "overlap", "kind"};
+    t.numeric = {false, false, false, true, true, false};
     for (std::size_t i = 0; i < plan.conflicts.size() && i < kConflictRows; ++i) {
         const Conflict& c = plan.conflicts[i];
         t.rows.push_back({c.section, train_id(plan, c.first), train_id(plan, c.second), format_time_of_day(c.from),
-                          seconds(c.overlap)});
+                          seconds(c.overlap), conflict_kind(c)});
     }
     html += html_table(t);
     if (plan.conflicts.size() > kConflictRows)
         html += paragraph("... and " + std::to_string(plan.conflicts.size() - kConflictRows) +
                           " more (all: knockon plan --csv or --json).");
     return {"conflicts", "Conflicts", html};
+}
+
+ReportSection crossings_section(const PlanResult& plan) {
+    const SingleTrackLayout& l = plan.single_track;
+    std::string html = paragraph(
+        "Single-track stretches: " + std::to_string(l.stretches.size()) +
+        ". For each pair of opposing trains that follow each other over a stretch: the crossing place, the "
+        "train that waits (it blocks the stretch after the opposing train has released it; at a crossing "
+        "proper, where each train comes over the stretch the other leaves by, the one that arrives first) "
+        "and the crossing buffer = the waiting train's blocking start of the stretch minus the opposing "
+        "train's release of it. A negative buffer is a conflict.");
+    for (const CrossingTooShort& c : plan.crossings_too_short)
+        html += paragraph("Conflict: " + train_id(plan, c.train) + " (" +
+                          svg::number(plan.trains[c.train].run.type->length, 0) + " m) stands at " +
+                          l.places[plan.crossings[c.crossing].place].name + " on track " + c.track +
+                          " with its tail at km " + svg::number(c.tail / 1000.0, 3) +
+                          ", beyond the crossing place's turnouts (km " + svg::number(c.lo / 1000.0, 3) + " to " +
+                          svg::number(c.hi / 1000.0, 3) + "): the opposing train cannot pass.");
+    for (std::size_t p = 0; p < l.places.size(); ++p) {
+        const CrossingPlace& place = l.places[p];
+        HtmlTable t;
+        std::string tracks;
+        for (const CrossingTrack& ct : place.tracks) tracks += (tracks.empty() ? "" : ", ") + ct.track;
+        t.caption = place.kind == CrossingPlaceKind::loop
+                        ? "Crossings at " + place.name + " (tracks " + tracks + ")"
+                        : "Opposing trains at " + place.name + " (" + to_string(place.kind) + ")";
+        t.headers = {"meeting", "stretch", "opposing train", "releases", "waiting train", "track", "stop",
+                     "blocks", "crossing buffer"};
+        t.numeric = {false, false, false, true, false, false, false, true, true};
+        for (const Crossing& c : plan.crossings) {
+            if (c.place != p) continue;
+            t.rows.push_back({c.proper ? "crossing" : "one after the other", l.stretches[c.stretch].name,
+                              train_id(plan, c.opposing), format_time_of_day(c.opposing_release),
+                              train_id(plan, c.waiting), c.waiting_track.empty() ? "-" : c.waiting_track,
+                              c.waiting_stops ? "stop" : "pass", format_time_of_day(c.waiting_blocks),
+                              seconds(c.buffer)});
+            t.highlight.push_back(c.buffer < 0.0);
+        }
+        if (!t.rows.empty()) html += html_table(t);
+    }
+    if (plan.crossings.empty()) html += paragraph("No two opposing trains use any single-track stretch.");
+    return {"crossings", "Crossings on single track", html};
 }
 
 }  // namespace
@@ -275,7 +350,7 @@ Report plan_report(const Scenario& scenario, const PlanResult& plan, const PlanR
                {"main signals", std::to_string(in.signals.size())},
                {"train types", std::to_string(scenario.train_types.size())},
                {"trains", trains},
-               {"conflicts", std::to_string(plan.conflicts.size())},
+               {"conflicts", std::to_string(plan.conflicts.size() + plan.crossings_too_short.size())},
                {"made by", std::string("knockon ") + KNOCKON_VERSION}};
     if (!options.command_line.empty()) r.facts.push_back({"command", options.command_line});
     r.notes = {kUic406Note,
@@ -286,6 +361,7 @@ Report plan_report(const Scenario& scenario, const PlanResult& plan, const PlanR
     r.sections.push_back(capacity_section(plan));
     r.sections.push_back(buffers_section(plan));
     r.sections.push_back(conflicts_section(plan));
+    if (!plan.single_track.empty()) r.sections.push_back(crossings_section(plan));
     return r;
 }
 

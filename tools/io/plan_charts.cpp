@@ -83,6 +83,22 @@ void draw_as_run(Element& doc, const AsRunOverlay& as_run, const PlanResult& pla
 
 }  // namespace
 
+namespace {
+
+// How far a path on a loop is drawn off the main track's [px].
+constexpr double kLoopOffset = 4.0;
+
+// Whether the run is on a loop track where its head is at chainage x.
+bool on_loop_at(const ServiceRun& run, double x) {
+    for (const PathPiece& pc : run.path.pieces) {
+        const double lo = std::min(pc.x_from, pc.x_to), hi = std::max(pc.x_from, pc.x_to);
+        if (pc.track->is_loop() && x > lo + 1e-6 && x < hi - 1e-6) return true;
+    }
+    return false;
+}
+
+}  // namespace
+
 std::vector<std::string> train_categories(const PlanResult& plan) {
     std::vector<std::string> out;
     for (const TrainPlan& tp : plan.trains) {
@@ -275,6 +291,13 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
     axis.add(svg::text(left - 40, top - 6, "station", "axis-label small", "end"));
     axis.add(svg::text(left - 14, top - 6, "signals", "axis-label small", "middle"));
 
+    // Loops: a band over each loop's extent, where trains on the loop are drawn offset.
+    Element& loop_bands = doc.add(svg::group("loops"));
+    for (const Track& t : infra.tracks)
+        if (t.is_loop())
+            loop_bands.add(svg::rect(left, Y(t.from), plot_w, Y(t.to) - Y(t.from), "loop-band"))
+                .tooltip("loop " + t.id + " beside " + t.parent + ", km " + km(t.from) + " to " + km(t.to) +
+                         " (trains on it drawn offset)");
     // Blocking-time stairways beneath the paths.
     Element& blocks = doc.add(svg::group("stairways"));
     for (const TrainPlan& tp : plan.trains) {
@@ -313,11 +336,21 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
     // Train paths, thinned to about one point per pixel column on long windows.
     const double step = std::max(10.0, window.length() / plot_w);
     Element& paths = doc.add(svg::group("paths"));
+    Element& loop_marks = doc.add(svg::group("loop-paths"));
     std::vector<std::pair<const TrainPlan*, Point>> labels;
     for (const TrainPlan& tp : plan.trains) {
         std::vector<Point> pts = train_path_points(tp.run, window, step);
         if (pts.empty()) continue;
-        for (Point& p : pts) p = {X(p.x), Y(p.y)};
+        // On a loop the path is drawn a few pixels off the main track's, so that two trains
+        // crossing there read as a crossing, not as overlapping stairways.
+        std::vector<Point> on_loop;
+        for (Point& p : pts) {
+            const bool loop = on_loop_at(tp.run, p.y);
+            p = {X(p.x), Y(p.y) + (loop ? kLoopOffset : 0.0)};
+            if (loop) on_loop.push_back(p);
+        }
+        if (on_loop.size() > 1)
+            loop_marks.add(svg::polyline(on_loop, "loop-path")).tooltip(tp.run.service->id + " on a loop track");
         const ServiceRun& r = tp.run;
         paths.add(svg::polyline(pts, "train-path " + category_class(categories, r.service->category) +
                                          (as_run ? " dimmed" : "")))

@@ -116,10 +116,79 @@ Table headway_matrix(const PlanResult& plan) {
 Table conflicts(const PlanResult& plan) {
     Table t{"conflicts", "Conflicts (blocking times that overlap)",
             {{"section", K::text}, {"first", K::text}, {"second", K::text}, {"from", K::time_of_day},
-             {"overlap_s", K::duration}},
+             {"overlap_s", K::duration}, {"kind", K::text}},
             {}};
     for (const Conflict& c : plan.conflicts)
-        t.rows.push_back({c.section, train_id(plan, c.first), train_id(plan, c.second), c.from, c.overlap});
+        t.rows.push_back({c.section, train_id(plan, c.first), train_id(plan, c.second), c.from, c.overlap,
+                          conflict_kind(c)});
+    return t;
+}
+
+Table single_track_stretches(const PlanResult& plan) {
+    Table t{"single_track_stretches", "Single-track stretches (both directions on one track, between crossing places)",
+            {{"stretch", K::text}, {"track", K::text}, {"from_m", K::number}, {"to_m", K::number},
+             {"lower_place", K::text}, {"lower_kind", K::text}, {"upper_place", K::text}, {"upper_kind", K::text},
+             {"sections", K::number}},
+            {}};
+    const SingleTrackLayout& l = plan.single_track;
+    for (const SingleTrackStretch& st : l.stretches)
+        t.rows.push_back({st.name, st.track, st.x_lo, st.x_hi, l.places[st.lower].name,
+                          to_string(l.places[st.lower].kind), l.places[st.upper].name,
+                          to_string(l.places[st.upper].kind), static_cast<double>(st.sections.size())});
+    return t;
+}
+
+Table crossings(const PlanResult& plan) {
+    Table t{"crossings",
+            "Crossings: opposing trains one after the other on a single-track stretch (buffer = the waiting "
+            "train's blocking of the stretch minus the opposing train's release of it)",
+            {{"place", K::text}, {"place_kind", K::text}, {"meeting", K::text}, {"stretch", K::text},
+             {"opposing", K::text},
+             {"released", K::time_of_day}, {"waiting", K::text}, {"waiting_track", K::text},
+             {"waiting_stops", K::text}, {"blocks", K::time_of_day}, {"buffer_s", K::duration},
+             {"other_stretch", K::text}, {"other_buffer_s", K::duration}},
+            {}};
+    const SingleTrackLayout& l = plan.single_track;
+    for (const Crossing& c : plan.crossings) {
+        const CrossingPlace& p = l.places[c.place];
+        t.rows.push_back({p.name, to_string(p.kind), c.proper ? "crossing" : "one after the other",
+                          l.stretches[c.stretch].name, train_id(plan, c.opposing),
+                          c.opposing_release, train_id(plan, c.waiting), c.waiting_track,
+                          c.waiting_stops ? "stop" : "pass", c.waiting_blocks, c.buffer,
+                          c.proper ? l.stretches[c.other_stretch].name : std::string(),
+                          c.proper ? c.other_buffer : kNoTime});
+    }
+    return t;
+}
+
+Table single_track_capacity(const PlanResult& plan) {
+    Table t{"single_track_capacity",
+            "Capacity consumption of single-track stretches, both directions together (UIC 406 compression)",
+            {{"stretch", K::text}, {"window", K::text}, {"from", K::time_of_day}, {"to", K::time_of_day},
+             {"trains_up", K::number}, {"trains_down", K::number}, {"consumption_up", K::percent},
+             {"consumption_down", K::percent}, {"occupation_s", K::duration}, {"consumption", K::percent},
+             {"limit", K::percent}},
+            {}};
+    for (const StretchCapacity& f : plan.stretch_capacity)
+        t.rows.push_back({plan.single_track.stretches[f.stretch].name, f.window, f.from, f.to,
+                          static_cast<double>(f.trains_up), static_cast<double>(f.trains_down), f.consumption_up,
+                          f.consumption_down, f.occupation, f.consumption, f.limit});
+    return t;
+}
+
+Table crossings_too_short(const PlanResult& plan) {
+    Table t{"crossings_too_short",
+            "Trains too long for the crossing place they stand at (on the main track, beyond the turnouts)",
+            {{"train", K::text}, {"place", K::text}, {"track", K::text}, {"length_m", K::number},
+             {"head_m", K::number}, {"tail_m", K::number}, {"room_from_m", K::number}, {"room_to_m", K::number},
+             {"opposing", K::text}},
+            {}};
+    for (const CrossingTooShort& c : plan.crossings_too_short) {
+        const Crossing& x = plan.crossings[c.crossing];
+        const std::size_t other = c.train == x.waiting ? x.opposing : x.waiting;
+        t.rows.push_back({train_id(plan, c.train), plan.single_track.places[x.place].name, c.track,
+                          plan.trains[c.train].run.type->length, c.head, c.tail, c.lo, c.hi, train_id(plan, other)});
+    }
     return t;
 }
 
@@ -167,8 +236,37 @@ Table capacity(const PlanResult& plan) {
 std::vector<Table> plan_tables(const Scenario&, const PlanResult& plan) {
     return {trains(plan),         running_times(plan),    blocking_routes(plan), blocking_sections(plan),
             headways(plan),       headway_matrix(plan),   conflicts(plan),       capacity(plan),
-            spacing_warnings(plan), timetable_warnings(plan)};
+            spacing_warnings(plan), timetable_warnings(plan), single_track_stretches(plan),
+            crossings(plan),      single_track_capacity(plan), crossings_too_short(plan)};
 }
+
+namespace {
+
+// The crossings table, one part per crossing place (loops first, by chainage; then the ends).
+std::string crossings_text(const PlanResult& plan, const Table& all) {
+    std::string out;
+    const SingleTrackLayout& l = plan.single_track;
+    for (int pass = 0; pass < 2; ++pass)
+        for (std::size_t p = 0; p < l.places.size(); ++p) {
+            const CrossingPlace& place = l.places[p];
+            if ((place.kind == CrossingPlaceKind::loop) != (pass == 0)) continue;
+            Table t = all;
+            t.rows.clear();
+            for (std::size_t i = 0; i < plan.crossings.size(); ++i)
+                if (plan.crossings[i].place == p) t.rows.push_back(all.rows[i]);
+            if (t.rows.empty()) continue;
+            std::string tracks;
+            for (const CrossingTrack& ct : place.tracks) tracks += (tracks.empty() ? "" : ", ") + ct.track;
+            t.title = place.kind == CrossingPlaceKind::loop
+                          ? "Crossings at " + place.name + " (tracks " + tracks + ")"
+                          : "Opposing trains one after the other at " + place.name + " (" + to_string(place.kind) + ")";
+            out += to_text(t) + "\n";
+        }
+    if (plan.crossings.empty()) out += "Crossings: none (no two opposing trains on any single-track stretch)\n\n";
+    return out;
+}
+
+}  // namespace
 
 std::string tight_stretch_text(const PlanResult& plan, const TightStretch& w) {
     const ServiceRun& r = plan.trains[w.train].run;
@@ -261,15 +359,31 @@ std::string plan_text(const Scenario& scenario, const PlanResult& plan) {
 
     // The thinnest buffers first: what a planner looks at.
     Table hw = find("headways");
+    // Opposing pairs on single-track stretches: the crossing buffer, at the crossing place.
+    for (const Crossing& c : plan.crossings)
+        hw.rows.push_back({plan.single_track.stretches[c.stretch].name, std::string("opposing"),
+                           train_id(plan, c.opposing), train_id(plan, c.waiting), kNoTime, kNoTime, c.buffer,
+                           "crossing at " + plan.single_track.places[c.place].name});
     std::stable_sort(hw.rows.begin(), hw.rows.end(), [](const auto& a, const auto& b) {
         return std::get<double>(a[6]) < std::get<double>(b[6]);
     });
-    hw.title = "Thinnest buffers between consecutive trains (all pairs: --csv or --json)";
+    hw.title = "Thinnest buffers between consecutive trains, same direction and opposing (all pairs: --csv or --json)";
     out += to_text(hw, 15) + "\n";
 
     Table cf = find("conflicts");
     cf.title = "Conflicts: " + std::to_string(cf.rows.size()) + " overlapping blocking times";
     out += to_text(cf, 20) + "\n";
+    if (!plan.crossings_too_short.empty()) {
+        Table ts = find("crossings_too_short");
+        ts.title = "Conflicts: " + std::to_string(ts.rows.size()) +
+                   " train(s) too long for the crossing place they stand at; the crossing cannot work there";
+        out += to_text(ts, 20) + "\n";
+    }
+    if (!plan.single_track.empty()) {
+        out += to_text(find("single_track_stretches")) + "\n";
+        out += crossings_text(plan, find("crossings"));
+        out += to_text(find("single_track_capacity")) + "\n";
+    }
     out += to_text(find("headway_matrix")) + "\n";
     out += to_text(find("capacity")) + "\n";
     if (!plan.spacing_warnings.empty()) {

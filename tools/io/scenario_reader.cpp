@@ -21,6 +21,7 @@
 
 #include "models/input_ranges.hpp"
 #include "models/path.hpp"
+#include "models/single_track.hpp"
 #include "models/train_type_checks.hpp"
 #include "models/units.hpp"
 #include "tools/io/yaml_fields.hpp"
@@ -911,9 +912,11 @@ private:
                 } else if (const TrainType* type = sc_.find_train_type(svc.train_type);
                            type && call.stops && tr->is_loop()) {
                     // A train standing in a loop must clear both its turnouts: its tail, a train
-                    // length in rear of the stopping mark, must lie within the loop.
-                    const double tail = up ? st.at - type->length : st.at + type->length;
-                    if (up ? tail < tr->from - kEps : tail > tr->to + kEps) {
+                    // length in rear of the stopping mark, must lie within the loop (the rule
+                    // planning also applies to a train standing on the main track at a crossing).
+                    const StandingFit fit = standing_fit(tr->from, tr->to, st.at, svc.direction, type->length);
+                    const double tail = fit.tail;
+                    if (!fit.fits) {
                         c.error("track", "service " + svc.id + " (train type " + type->id + ", " +
                                              km(type->length) + " long) stops at " + st.id + " in loop " +
                                              tr->id + " (" + km(tr->from) + " to " + km(tr->to) +

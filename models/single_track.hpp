@@ -1,0 +1,76 @@
+#pragma once
+// Single-track stretches of a line and the crossing places between them, found from the
+// infrastructure alone: a stretch is a piece of a main track that carries both directions, between
+// two places where opposing trains can pass each other (a loop beside that track, or the end of
+// the line or of the single track).  Planning (crossings, capacity of both directions together)
+// and dispatching read this one structure.
+#include <cstddef>
+#include <limits>
+#include <string>
+#include <vector>
+
+#include "models/infrastructure.hpp"
+
+namespace knockon {
+
+// A track a train can stand on at a crossing place, with the room it offers.
+struct CrossingTrack {
+    std::string track;           // track id (the main track or a loop)
+    bool loop = false;
+    double x_lo = 0.0, x_hi = 0.0;   // between the crossing place's turnouts [m]
+    // Usable length for a train of each direction: from the turnout it enters by to the first
+    // signal facing it on this track (the whole track piece when none stands there) [m].
+    double usable_up = 0.0, usable_down = 0.0;
+    double usable(Direction d) const { return d == Direction::up ? usable_up : usable_down; }
+};
+
+enum class CrossingPlaceKind {
+    loop,          // one or more loops beside the single track: trains pass each other here
+    line_end,      // the end of the modelled line: trains turn or run on beyond it
+    track_end,     // the single track ends where other main tracks (double track) begin
+};
+const char* to_string(CrossingPlaceKind k);
+
+struct CrossingPlace {
+    std::string name;            // a station within it, else "line start"/"line end"/"km 12.400"
+    CrossingPlaceKind kind = CrossingPlaceKind::loop;
+    double x_lo = 0.0, x_hi = 0.0;   // chainage extent (the outermost turnouts; a point at an end)
+    std::vector<std::string> stations;   // station ids within the extent, by chainage
+    std::vector<CrossingTrack> tracks;   // main track first, then the loops; empty at an end
+    bool contains(double x) const;
+};
+
+struct SingleTrackStretch {
+    std::string name;            // "<lower place>-<upper place>", e.g. "HTW-BRC"
+    std::string track;           // the main track it lies on
+    double x_lo = 0.0, x_hi = 0.0;   // chainage extent: between the places' turnouts [m]
+    std::size_t lower = 0, upper = 0;   // indices into SingleTrackLayout::places (lower chainage first)
+    std::vector<std::string> sections;  // detection section ids lying in it, by chainage
+    bool has_section(const std::string& id) const;
+    // The place a train of direction d enters the stretch from, and the one it leaves it at.
+    std::size_t entry_place(Direction d) const { return d == Direction::up ? lower : upper; }
+    std::size_t exit_place(Direction d) const { return d == Direction::up ? upper : lower; }
+};
+
+struct SingleTrackLayout {
+    std::vector<CrossingPlace> places;         // by chainage
+    std::vector<SingleTrackStretch> stretches; // by chainage
+    bool empty() const { return stretches.empty(); }
+    // The stretch holding detection section `id`, or nullptr.
+    const SingleTrackStretch* stretch_of_section(const std::string& id) const;
+    // The crossing place whose extent holds chainage x, or nullptr.
+    const CrossingPlace* place_at(double x) const;
+};
+
+SingleTrackLayout single_track_layout(const Infrastructure& infra);
+
+// Where the tail of a train of `length` standing with its head at `head_x` lies, and whether the
+// train stands wholly within [lo, hi] (clear of the turnouts at both ends).  The one rule for "the
+// train fits where it stands", used by the input checks (a loop) and the crossing checks.
+struct StandingFit {
+    double tail = 0.0;
+    bool fits = false;
+};
+StandingFit standing_fit(double lo, double hi, double head_x, Direction d, double length);
+
+}  // namespace knockon

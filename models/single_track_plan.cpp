@@ -1,0 +1,173 @@
+#include "models/single_track_plan.hpp"
+
+#include <algorithm>
+#include <set>
+
+namespace knockon {
+namespace {
+
+// One stretch's consecutive opposing runs: `first` releases the stretch at `place`, `second`
+// then enters it from there.
+struct Half {
+    std::size_t stretch = 0, place = 0;
+    StretchRun first, second;
+};
+
+const Station* station_of(const ServiceRun& run, const PlannedCall& c) {
+    return run.path.infrastructure->find_station(c.station);
+}
+
+// The planned stop of the run at a station of the place, or nullptr.
+const PlannedCall* stop_at(const ServiceRun& run, const CrossingPlace& place) {
+    for (const PlannedCall& c : run.calls) {
+        if (!c.stops) continue;
+        const Station* st = station_of(run, c);
+        if (st && std::find(place.stations.begin(), place.stations.end(), st->id) != place.stations.end()) return &c;
+    }
+    return nullptr;
+}
+
+// The track the run uses at a loop place: a loop of the place its path runs through, else the main.
+std::string track_at(const ServiceRun& run, const CrossingPlace& place) {
+    if (place.tracks.empty()) return {};
+    for (const PathPiece& pc : run.path.pieces)
+        for (const CrossingTrack& t : place.tracks)
+            if (t.loop && pc.track->id == t.track) return t.track;
+    return place.tracks.front().track;
+}
+
+Crossing make_crossing(const SingleTrackLayout& layout, const std::vector<TrainPlan>& trains, const Half& h) {
+    Crossing c;
+    c.place = h.place;
+    c.stretch = h.stretch;
+    c.waiting = h.second.train;
+    c.opposing = h.first.train;
+    c.opposing_release = h.first.end;
+    c.waiting_blocks = h.second.start;
+    c.buffer = c.waiting_blocks - c.opposing_release;
+    const CrossingPlace& place = layout.places[h.place];
+    c.waiting_track = track_at(trains[c.waiting].run, place);
+    c.waiting_stops = stop_at(trains[c.waiting].run, place) != nullptr;
+    return c;
+}
+
+}  // namespace
+
+std::vector<StretchRun> stretch_runs(const SingleTrackStretch& st, const std::vector<TrainPlan>& trains) {
+    std::vector<StretchRun> runs;
+    for (std::size_t i = 0; i < trains.size(); ++i) {
+        bool any = false;
+        StretchRun r{i, trains[i].run.path.direction, 0.0, 0.0};
+        for (const SectionBlocking& b : trains[i].stairway.sections) {
+            if (!st.has_section(b.section)) continue;
+            r.start = any ? std::min(r.start, b.start) : b.start;
+            r.end = any ? std::max(r.end, b.end) : b.end;
+            any = true;
+        }
+        if (any) runs.push_back(r);
+    }
+    std::stable_sort(runs.begin(), runs.end(), [](const StretchRun& a, const StretchRun& b) {
+        return a.start < b.start || (a.start == b.start && a.train < b.train);
+    });
+    return runs;
+}
+
+std::vector<Crossing> find_crossings(const SingleTrackLayout& layout, const std::vector<TrainPlan>& trains) {
+    std::vector<Half> halves;
+    for (std::size_t s = 0; s < layout.stretches.size(); ++s) {
+        const SingleTrackStretch& st = layout.stretches[s];
+        const std::vector<StretchRun> runs = stretch_runs(st, trains);
+        for (std::size_t k = 1; k < runs.size(); ++k)
+            if (runs[k - 1].direction != runs[k].direction)
+                halves.push_back({s, st.exit_place(runs[k - 1].direction), runs[k - 1], runs[k]});
+    }
+    // A crossing proper: each train arrives over the stretch the other leaves by.  The train that
+    // arrives first waits; its half is the one whose releasing train arrives last.
+    std::vector<bool> used(halves.size(), false);
+    std::vector<Crossing> out;
+    for (std::size_t i = 0; i < halves.size(); ++i) {
+        if (used[i]) continue;
+        const Half& h = halves[i];
+        std::size_t partner = halves.size();
+        for (std::size_t j = i + 1; j < halves.size() && partner == halves.size(); ++j) {
+            const Half& g = halves[j];
+            if (!used[j] && g.place == h.place && g.stretch != h.stretch && g.first.train == h.second.train &&
+                g.second.train == h.first.train)
+                partner = j;
+        }
+        used[i] = true;
+        if (partner == halves.size()) {
+            out.push_back(make_crossing(layout, trains, h));
+            continue;
+        }
+        used[partner] = true;
+        const Half& g = halves[partner];
+        const bool h_main = h.first.end >= g.first.end;
+        const Half& main = h_main ? h : g;
+        const Half& other = h_main ? g : h;
+        Crossing c = make_crossing(layout, trains, main);
+        c.proper = true;
+        c.other_stretch = other.stretch;
+        c.other_buffer = other.second.start - other.first.end;
+        out.push_back(c);
+    }
+    std::stable_sort(out.begin(), out.end(), [](const Crossing& a, const Crossing& b) {
+        return a.place < b.place || (a.place == b.place && a.opposing_release < b.opposing_release);
+    });
+    return out;
+}
+
+std::vector<StretchCapacity> stretch_capacity(const SingleTrackLayout& layout, const std::vector<TrainPlan>& trains,
+                                              LineType type) {
+    const ConsumptionLimit limit = uic406_limit(type);
+    std::vector<StretchCapacity> out;
+    for (std::size_t s = 0; s < layout.stretches.size(); ++s) {
+        const SingleTrackStretch& st = layout.stretches[s];
+        // Each train's stairway on the stretch's sections, referred to its blocking start there.
+        std::vector<SectionStairway> both, up, down;
+        for (const StretchRun& r : stretch_runs(st, trains)) {
+            SectionStairway sw;
+            sw.train = r.train;
+            sw.reference = r.start;
+            for (const SectionBlocking& b : trains[r.train].stairway.sections)
+                if (st.has_section(b.section)) sw.sections.push_back(b);
+            (r.direction == Direction::up ? up : down).push_back(sw);
+            both.push_back(std::move(sw));
+        }
+        auto figure = [&](const char* window, const WindowConsumption& w, double lim) {
+            const WindowConsumption u = window_consumption(up, w.from, w.to);
+            const WindowConsumption d = window_consumption(down, w.from, w.to);
+            return StretchCapacity{s, window, w.from, w.to, u.trains, d.trains, u.consumption, d.consumption,
+                                   w.occupation, w.consumption, lim};
+        };
+        const WindowConsumption peak = peak_hour_consumption(both);
+        if (peak.trains == 0) continue;
+        out.push_back(figure("peak hour", peak, limit.peak));
+        out.push_back(figure("day", day_consumption(both), limit.day));
+    }
+    return out;
+}
+
+std::vector<CrossingTooShort> crossings_too_short(const SingleTrackLayout& layout,
+                                                  const std::vector<TrainPlan>& trains,
+                                                  const std::vector<Crossing>& crossings) {
+    std::vector<CrossingTooShort> out;
+    std::set<std::pair<std::size_t, std::size_t>> seen;   // (train, place)
+    for (std::size_t i = 0; i < crossings.size(); ++i) {
+        const Crossing& c = crossings[i];
+        const CrossingPlace& place = layout.places[c.place];
+        if (place.kind != CrossingPlaceKind::loop) continue;
+        for (std::size_t t : {c.waiting, c.opposing}) {
+            const ServiceRun& run = trains[t].run;
+            const PlannedCall* stop = stop_at(run, place);
+            const std::string track = track_at(run, place);
+            if (!stop || track != place.tracks.front().track || !seen.insert({t, c.place}).second) continue;
+            const double head = station_of(run, *stop)->at;
+            const StandingFit fit = standing_fit(place.x_lo, place.x_hi, head, run.path.direction, run.type->length);
+            if (!fit.fits) out.push_back({i, t, track, head, fit.tail, place.x_lo, place.x_hi});
+        }
+    }
+    return out;
+}
+
+}  // namespace knockon
