@@ -79,18 +79,21 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
     StudyResult out;
     out.figures = StudyFigures(options.thresholds, options.replications);
     const unsigned threads = std::max(1u, options.threads);
-    const std::uint32_t cap = options.replications;
+    const std::uint32_t first = options.first;
+    if (options.replications > std::numeric_limits<std::uint32_t>::max() - first)
+        throw std::invalid_argument("run_study: the replication numbers would not fit in 32 bits");
+    const std::uint32_t cap = first + options.replications;
     const std::uint32_t batch = std::max<std::uint32_t>(1, options.batch);
 
     std::map<std::uint32_t, SimResult> traces;   // finished but not yet handed over, by replication
-    std::uint32_t next_trace = 0;
+    std::uint32_t next_trace = first;
     std::mutex trace_mutex;
 
     auto run_one = [&](std::uint32_t k, ReplicationFigures& slot) {
         InjectedDelays delays = options.draw(k);
         SimResult day = simulate_day(model, delays, options.sim);
         slot = replication_figures(model, day, delays, options.thresholds, k);
-        if (k == 0) {
+        if (k == first) {
             std::lock_guard<std::mutex> lock(trace_mutex);
             out.train_ids = day.train_ids;
             out.section_names = day.section_names;
@@ -103,7 +106,7 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
     };
 
     // The batch being run: replications [started, end) into slots, handed out one at a time.
-    std::uint32_t started = 0, end = 0;
+    std::uint32_t started = first, end = first;
     std::vector<ReplicationFigures> slots;
     std::atomic<std::uint32_t> next{0};
     std::exception_ptr failure;
@@ -133,11 +136,8 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
         // the same order whatever the thread count.  The day's detail goes with its slot.
         // A deadlocked day keeps its per-day record only: it is a result, never a figure.
         for (ReplicationFigures& r : slots) {
-            if (!r.stats.deadlocked)
-                out.figures.add(r);
-            else if (!out.first_deadlock)
-                out.first_deadlock = DeadlockedDay{r.stats.replication, std::move(r.deadlock)};
-            out.replications.push_back(std::move(r.stats));
+            if (options.on_day) options.on_day(r);
+            fold_day(out, std::move(r));
         }
         started = end;
 
@@ -154,7 +154,7 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
                 break;
             }
         }
-        if (options.progress) options.progress(started, cap);
+        if (options.progress) options.progress(started - first, options.replications);
         if (options.stop && options.stop->load()) {
             out.partial = started < cap;
             break;
@@ -168,6 +168,14 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
         }
     }
     return out;
+}
+
+void fold_day(StudyResult& study, ReplicationFigures&& day) {
+    if (!day.stats.deadlocked)
+        study.figures.add(day);
+    else if (!study.first_deadlock)
+        study.first_deadlock = DeadlockedDay{day.stats.replication, std::move(day.deadlock)};
+    study.replications.push_back(std::move(day.stats));
 }
 
 StudySummary summarize_study(const SimModel& model, const StudyResult& study, const std::vector<double>& thresholds) {

@@ -16,7 +16,8 @@
 namespace knockon {
 
 struct StudyOptions {
-    std::uint32_t replications = 100;
+    std::uint32_t replications = 100;   // days to run, replications first .. first + replications - 1
+    std::uint32_t first = 0;            // the first replication: > 0 for a later shard of a study
     unsigned threads = 1;
     double until_ci = 0.0;              // >0: go on until the 95 % CI half-width of the mean total
                                         // knock-on per day (over the complete days, at least 10 of
@@ -30,6 +31,9 @@ struct StudyOptions {
     // wanted (trace(k) true): e.g. to stream them to a file.
     std::function<bool(std::uint32_t replication)> trace;
     std::function<void(std::uint32_t replication, const SimResult& day)> on_trace;
+    // Every day's full contribution, called on the calling thread in replication order before it
+    // is folded in: e.g. to keep it in a shard file, from which a merge folds it in again.
+    std::function<void(const ReplicationFigures& day)> on_day;
     // Progress (done, planned), called on the calling thread after each batch.
     std::function<void(std::uint32_t done, std::uint32_t planned)> progress;
     const std::atomic<bool>* stop = nullptr;   // set (e.g. by Ctrl-C): finish the batch, then stop
@@ -48,12 +52,18 @@ struct StudyResult {
     std::vector<ReplicationStats> replications;   // in replication order, 0..n-1, deadlocked days too
     bool partial = false;                         // stopped before the planned replications
     std::vector<std::string> train_ids, section_names;
-    std::vector<TimingRecord> timing_template;    // scheduled times, stations (from replication 0)
+    std::vector<TimingRecord> timing_template;    // scheduled times, stations (from the first replication run)
     StudyFigures figures;                         // the other across-day figures, of the complete days
     std::optional<DeadlockedDay> first_deadlock;  // none when no day deadlocked
 };
 
 StudyResult run_study(const SimModel& model, const StudyOptions& options);
+
+// Folds the next day, in replication order, into a study: its per-day record always, its figures
+// only when it ran to the end, and the first deadlocked day's report.  run_study folds each day
+// with it, and a merge of shard files does the same with the days read back, so that both give
+// the same study to the bit.  `study.figures` must have been made for the planned days.
+void fold_day(StudyResult& study, ReplicationFigures&& day);
 
 // ---- Statistics across replications (Estimate, Quantiles: sim/estimates.hpp) ----------------
 

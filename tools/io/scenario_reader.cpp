@@ -1542,6 +1542,8 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file_na
     return sc;
 }
 
+std::string read_scenario_text(const std::string& path) { return read_text_file(path); }
+
 Scenario read_scenario(const std::string& path, const std::string& variant) {
     return parse_scenario(read_text_file(path), path, variant);
 }

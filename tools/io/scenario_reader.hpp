@@ -18,6 +18,10 @@ namespace knockon {
 // scenario as written.  An unknown name is an error naming the known ones.
 Scenario read_scenario(const std::string& path, const std::string& variant = "");
 
+// The text of a scenario file, as read_scenario reads it (ScenarioError naming the file if it
+// cannot): for a caller that also keeps or hashes the text it ran.
+std::string read_scenario_text(const std::string& path);
+
 // Same from text already in memory; `file_name` is used in messages and as source_file.
 Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name,
                         const std::string& variant = "");

@@ -257,6 +257,7 @@ void write_run_attributes(const h5::Group& root, const Hdf5RunInfo& info, const 
     a.set_text("caution", kSafetyCaution);
     if (!info.variant.empty()) a.set_text("variant", info.variant);
     a.set_f64("step_m", info.step);
+    if (!info.scenario_hash.empty()) a.set_text("scenario_hash", info.scenario_hash);
 }
 
 void write_day(const h5::Group& day, const SimResult& result) {

@@ -22,7 +22,8 @@ class RecordTable;
 // 4: days that ended in deadlock enter no study figure; root attributes deadlocked_days and
 //    deadlock_notice; /day deadlock_cause, trains_not_finished and the tables deadlock and
 //    deadlock_blocks; study groups complete_days and first_deadlock_*.
-inline constexpr int kSimHdf5SchemaVersion = 4;
+// 5: root attribute scenario_hash (day and study files); study shard files (kind "shard").
+inline constexpr int kSimHdf5SchemaVersion = 5;
 
 // Facts about the run that the results alone do not carry.
 struct Hdf5RunInfo {
@@ -34,6 +35,7 @@ struct Hdf5RunInfo {
     std::string variant;          // the scenario variant run ("base": as written); empty: not one
                                   // variant (a comparison), not written
     double step = 2.0;            // distance step of the motion integration [m]
+    std::string scenario_hash;    // tools/io/scenario_hash of the text and variant; empty: not written
 };
 
 // Writes `result` to `path` whole or not at all: built under a temporary name in the same directory
@@ -42,7 +44,8 @@ struct Hdf5RunInfo {
 void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5RunInfo& info);
 
 // The root attributes every results file has (schema and program version, scenario, command line,
-// seed, time unit, caution, variant, step) plus `kind` ("day", "study" or "comparison").
+// seed, time unit, caution, variant, step, scenario hash) plus `kind` ("day", "study", "shard" or
+// "comparison").
 void write_run_attributes(const h5::Group& root, const Hdf5RunInfo& info, const std::string& kind);
 
 // The root attributes that state the deadlock first: deadlocked_days (u32; a day file: 0 or 1) and

@@ -383,6 +383,17 @@ void StudyHdf5Writer::write_trace(std::uint32_t replication, const SimResult& da
     ++state_->traced;
 }
 
+void StudyHdf5Writer::copy_trace(const std::string& file, std::uint32_t replication) {
+    if (!state_->replications) throw std::logic_error("StudyHdf5Writer: trace after finish");
+    const std::string name = replication_group_name(replication);
+    const h5::Place from{file, "/replications/" + name};
+    const h5::Handle source(h5::check(H5Fopen(file.c_str(), H5F_ACC_RDONLY, H5P_DEFAULT), from, "cannot open"), H5Fclose);
+    h5::check_status(H5Ocopy(source.id(), from.object.c_str(), state_->replications->id(), name.c_str(), H5P_DEFAULT,
+                             H5P_DEFAULT),
+                     from, "cannot copy the traced day");
+    ++state_->traced;
+}
+
 void StudyHdf5Writer::finish(const SimModel& model, const StudyResult& study, const StudySummary& summary) {
     if (!state_->replications) throw std::logic_error("StudyHdf5Writer: finished twice");
     state_->replications->attributes().set_u32("traced", state_->traced);

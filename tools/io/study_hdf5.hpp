@@ -70,6 +70,9 @@ public:
 
     // One traced day, as /replications/<replication>.
     void write_trace(std::uint32_t replication, const SimResult& day);
+    // The traced day /replications/<replication> of another file (a study shard) copied whole,
+    // under the same name; throws h5::Error naming that file if it cannot.
+    void copy_trace(const std::string& file, std::uint32_t replication);
     // Writes /study and the root's replications/partial, closes the file and renames it into place.
     // `model` is the one the study ran on (it names the buffer pairs).
     void finish(const SimModel& model, const StudyResult& study, const StudySummary& summary);

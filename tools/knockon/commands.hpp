@@ -16,5 +16,6 @@ int simulate(const std::vector<std::string>& args);
 int report(const std::vector<std::string>& args);
 int plot(const std::vector<std::string>& args);
 int compare(const std::vector<std::string>& args);
+int merge(const std::vector<std::string>& args);
 
 }  // namespace knockon::cli

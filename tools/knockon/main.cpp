@@ -29,6 +29,8 @@ void usage(std::FILE* to) {
                  "                              one chart of the report as an SVG file\n"
                  "  compare SCENARIO [options]  Monte Carlo comparison of scenario variants with the same\n"
                  "                              primary delays (common random numbers)\n"
+                 "  merge PART.h5... -o STUDY.h5 the shard files of a study (simulate --shard K/N) as the\n"
+                 "                              study file one run would have written\n"
                  "\n"
                  "Run 'knockon <command> --help' for the options of a command.\n");
 }
@@ -49,6 +51,7 @@ int main(int argc, char** argv) {
         if (command == "report") return knockon::cli::report(args);
         if (command == "plot") return knockon::cli::plot(args);
         if (command == "compare") return knockon::cli::compare(args);
+        if (command == "merge") return knockon::cli::merge(args);
         if (command == "--help" || command == "-h" || command == "help") {
             usage(stdout);
             return 0;

@@ -38,6 +38,21 @@ std::uint64_t count_option(const po::variables_map& vm, const char* name, std::u
     return value;
 }
 
+std::optional<ShardChoice> shard_option(const po::variables_map& vm) {
+    if (!vm.count("shard")) return std::nullopt;
+    const std::string text = vm["shard"].as<std::string>();
+    const auto whole = [](const char* first, const char* last, std::uint32_t& v) {
+        const auto [end, ec] = std::from_chars(first, last, v);
+        return first != last && ec == std::errc() && end == last;
+    };
+    const std::size_t slash = text.find('/');
+    ShardChoice c;
+    if (slash == std::string::npos || !whole(text.data(), text.data() + slash, c.shard) ||
+        !whole(text.data() + slash + 1, text.data() + text.size(), c.shards) || c.shard == 0 || c.shard > c.shards)
+        throw UsageError("--shard must be K/N with whole numbers 1 <= K <= N (shard K of N), not '" + text + "'");
+    return c;
+}
+
 void add_punctuality_option(po::options_description& options) {
     options.add_options()("punctuality", po::value<std::string>()->default_value("3,5"),
                           "punctuality thresholds in minutes, comma separated; a delay counts as within N "

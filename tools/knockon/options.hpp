@@ -3,6 +3,7 @@
 // every parse error into a UsageError.
 #include <boost/program_options.hpp>
 #include <cstdint>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -54,6 +55,13 @@ inline constexpr double kMinSample = 0.5;
 inline constexpr double kMaxSamples = 1e7;
 double sample_option(const po::variables_map& vm);
 void check_sample_count(const std::vector<TrainPlan>& plan, double sample_interval);
+
+// `--shard K/N`: shard K (1 to N) of a study split into N shards (sim/shards.hpp); none when
+// the option is not given, UsageError for anything but two whole numbers with 1 <= K <= N.
+struct ShardChoice {
+    std::uint32_t shard = 0, shards = 0;
+};
+std::optional<ShardChoice> shard_option(const po::variables_map& vm);
 
 // The command line as a results file stores it: without --threads (or an abbreviation such as
 // --thr, with its value), which changes neither the results nor, so, the file's bytes.

@@ -11,11 +11,14 @@
 #include "models/units.hpp"
 #include "sim/day_summary.hpp"
 #include "sim/delay_draws.hpp"
+#include "sim/shards.hpp"
 #include "sim/simulation.hpp"
 #include "sim/study.hpp"
 #include "tools/io/deadlock_output.hpp"
 #include "tools/io/plan_output.hpp"
+#include "tools/io/scenario_hash.hpp"
 #include "tools/io/scenario_reader.hpp"
+#include "tools/io/shard_hdf5.hpp"
 #include "tools/io/sim_hdf5.hpp"
 #include "tools/io/study_hdf5.hpp"
 #include "tools/knockon/delay_option.hpp"
@@ -126,8 +129,19 @@ std::string variant_name(const po::variables_map& vm) {
     return vm.count("variant") ? vm["variant"].as<std::string>() : std::string("base");
 }
 
-int run_study_command(const po::variables_map& vm, const Scenario& scenario, const std::vector<TrainPlan>& plan,
-                      const SimOptions& so, const std::string& command_line) {
+// The text a shard prints: which days it ran and where they went; the figures come from the merge.
+std::string shard_text(const ShardRun& run, const std::string& out, const StudyResult& study) {
+    std::ostringstream text;
+    text << "knockon simulate: shard " << run.shard << " of " << run.shards << ": replications " << run.first
+         << " to " << run.end - 1 << " of " << run.planned << (study.partial ? " (stopped early)" : "") << " written to "
+         << out << ".\nNo figures from one shard: merge all " << run.shards
+         << " shard files with 'knockon merge PARTS... -o STUDY.h5' for the study's figures.\n";
+    text << "Caution: " << kSafetyCaution << "\n";
+    return text.str();
+}
+
+int run_study_command(const po::variables_map& vm, const Scenario& scenario, const std::string& scenario_text,
+                      const std::vector<TrainPlan>& plan, const SimOptions& so, const std::string& command_line) {
     StudyOptions opt;
     opt.replications = static_cast<std::uint32_t>(count_option(vm, "replications", 1, 10'000'000));
     opt.threads = static_cast<unsigned>(count_option(vm, "threads", 1, 256));
@@ -146,6 +160,32 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
     }
     opt.sim = so;
     opt.thresholds = punctuality_thresholds(vm);
+    // --shard K/N: this process runs one contiguous block of the planned replications.
+    const std::uint32_t planned = opt.replications;
+    const std::optional<ShardChoice> shard = shard_option(vm);
+    ShardRun shard_run;
+    if (shard) {
+        if (!vm.count("out")) throw UsageError("--shard needs --out: a shard's days go into its file for knockon merge");
+        if (vm.count("until-ci"))
+            throw UsageError("--until-ci cannot be split into shards: when to stop depends on every earlier day");
+        if (shard->shards > planned)
+            throw UsageError("--shard " + std::to_string(shard->shard) + "/" + std::to_string(shard->shards) +
+                             " needs at least " + std::to_string(shard->shards) + " replications, not " +
+                             std::to_string(planned));
+        const ReplicationRange range = shard_range(shard->shard, shard->shards, planned);
+        opt.first = range.first;
+        opt.replications = range.size();
+        shard_run.shard = shard->shard;
+        shard_run.shards = shard->shards;
+        shard_run.planned = planned;
+        shard_run.first = range.first;
+        shard_run.end = range.end;
+        shard_run.scenario_text = scenario_text;
+        shard_run.thresholds = opt.thresholds;
+        shard_run.order = vm["order"].as<std::string>();
+        shard_run.sample = so.sample_interval;
+        shard_run.traces = traces.text();
+    }
     const std::uint64_t seed = count_option(vm, "seed", 0, UINT64_MAX);
     if (scenario.delays.empty())
         std::fprintf(stderr, "knockon simulate: note: the scenario has no `delays:` section, so every day is the same\n");
@@ -170,6 +210,7 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
     // as they are handed over (in replication order, on this thread), /study at the end; it appears
     // at --out only when complete, and is removed if anything fails first.
     std::unique_ptr<StudyHdf5Writer> out;
+    std::unique_ptr<ShardHdf5Writer> shard_out;
     if (vm.count("out")) {
         Hdf5RunInfo h5info;
         h5info.scenario_file = scenario.source_file;
@@ -178,16 +219,33 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
         h5info.seed = seed;
         h5info.variant = variant_name(vm);
         h5info.step = so.run.step;
-        out = std::make_unique<StudyHdf5Writer>(vm["out"].as<std::string>(), h5info, traces);
+        h5info.scenario_hash = scenario_hash(scenario_text, h5info.variant);
+        const std::string path = vm["out"].as<std::string>();
+        if (shard) {
+            shard_out = std::make_unique<ShardHdf5Writer>(path, h5info, shard_run);
+            opt.on_day = [&shard_out](const ReplicationFigures& day) { shard_out->add_day(day); };
+        } else {
+            out = std::make_unique<StudyHdf5Writer>(path, h5info, traces);
+        }
         if (traces.mode != TraceSelection::Mode::none) {
-            opt.trace = [traces, planned = opt.replications](std::uint32_t k) { return traces.traced(k, planned); };
-            opt.on_trace = [&out](std::uint32_t k, const SimResult& day) { out->write_trace(k, day); };
+            // Which days are traced depends on the whole study's planned days, not a shard's.
+            opt.trace = [traces, planned](std::uint32_t k) { return traces.traced(k, planned); };
+            opt.on_trace = [&out, &shard_out](std::uint32_t k, const SimResult& day) {
+                if (shard_out) shard_out->write_trace(k, day);
+                else out->write_trace(k, day);
+            };
         }
     }
     SimModel model(scenario.infrastructure, plan);
     StudyResult study = run_study(model, opt);
     if (tty) std::fprintf(stderr, "\n");
     StudySummary summary = summarize_study(model, study, opt.thresholds);
+    if (shard_out) {
+        shard_out->finish(study);
+        std::fputs(shard_text(shard_run, vm["out"].as<std::string>(), study).c_str(), stdout);
+        if (interrupt.interrupted()) return kInterruptedStatus;
+        return deadlock_status("simulate", summary.deadlocked, summary.replications, vm);
+    }
     if (out) out->finish(model, study, summary);
     StudyRunInfo info{seed, opt.threads, command_line, allow_deadlock(vm)};
     if (vm.count("json"))
@@ -220,7 +278,10 @@ int simulate(const std::vector<std::string>& args) {
         "10) is below this many minutes (--replications is then the cap)")(
         "traces", po::value<std::string>(),
         "with --replications and --out: days whose full records go into the file: none (default), all, or "
-        "sample:K (K days spread evenly)");
+        "sample:K (K days spread evenly)")(
+        "shard", po::value<std::string>(),
+        "with --replications and --out: run shard K/N of the study, one contiguous block of the days, into a "
+        "shard file for knockon merge");
     add_order_option(options);
     add_deadlock_option(options);
     add_punctuality_option(options);
@@ -233,14 +294,17 @@ int simulate(const std::vector<std::string>& args) {
     const std::vector<double> thresholds = punctuality_thresholds(vm);
 
     const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
-    Scenario scenario = read_scenario(vm["scenario"].as<std::string>(), variant);
+    const std::string scenario_path = vm["scenario"].as<std::string>();
+    const std::string scenario_text = read_scenario_text(scenario_path);
+    Scenario scenario = parse_scenario(scenario_text, scenario_path, variant);
     so.route_order = route_order_option(vm, scenario.infrastructure);
     std::vector<TrainPlan> plan = plan_trains(scenario, so.run);
     check_sample_count(plan, so.sample_interval);
     if (vm.count("replications")) {
         if (vm.count("delay")) throw UsageError("--delay is for a single day; a study draws its delays from the scenario");
-        return run_study_command(vm, scenario, plan, so, command_line);
+        return run_study_command(vm, scenario, scenario_text, plan, so, command_line);
     }
+    if (vm.count("shard")) throw UsageError("--shard needs --replications: it runs a share of a study's days");
     if (vm.count("until-ci")) throw UsageError("--until-ci needs --replications (the cap)");
     if (vm.count("traces")) throw UsageError("--traces needs --replications: a single day's --out has all its records");
     InjectedDelays delays = parse_delays(
@@ -256,6 +320,7 @@ int simulate(const std::vector<std::string>& args) {
         info.program_version = KNOCKON_VERSION;
         info.variant = variant_name(vm);
         info.step = so.run.step;
+        info.scenario_hash = scenario_hash(scenario_text, info.variant);
         write_sim_hdf5(vm["out"].as<std::string>(), result, info);
     }
 

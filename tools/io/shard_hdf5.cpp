@@ -1,0 +1,337 @@
+#include "tools/io/shard_hdf5.hpp"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+#include <map>
+#include <stdexcept>
+
+#include "tools/io/hdf5_file.hpp"
+#include "tools/io/hdf5_read.hpp"
+#include "tools/io/study_hdf5.hpp"
+
+namespace knockon {
+
+namespace {
+
+using h5::FieldKind;
+using h5::RecordLayout;
+using h5::RecordTable;
+
+const char* const kShard = "/shard";
+
+std::uint32_t count32(std::size_t n) {
+    if (n > std::numeric_limits<std::uint32_t>::max()) throw std::overflow_error("count does not fit in u32");
+    return static_cast<std::uint32_t>(n);
+}
+
+std::size_t longest(const std::vector<std::string>& values) {
+    std::size_t n = 0;
+    for (const std::string& v : values) n = std::max(n, v.size());
+    return n;
+}
+
+RecordLayout per_day_layout(const std::vector<double>& thresholds) {
+    RecordLayout layout;
+    layout.add("replication", FieldKind::u32)
+        .add("deadlocked", FieldKind::u8)
+        .add("events", FieldKind::u64)
+        .add("block_passages", FieldKind::u64)
+        .add("total_primary", FieldKind::f64)
+        .add("total_knock_on", FieldKind::f64)
+        .add("mean_arrival_delay", FieldKind::f64);
+    for (double t : thresholds) layout.add(punctuality_field(t), FieldKind::f64);
+    return layout;
+}
+
+// A table of day-major rows of float figures kept as f64 (a float goes to double and back
+// exactly), `per_day` rows a day.
+RecordLayout values_layout(const std::vector<std::string>& fields) {
+    RecordLayout layout;
+    for (const std::string& f : fields) layout.add(f, FieldKind::f64);
+    return layout;
+}
+
+}  // namespace
+
+struct ShardHdf5Writer::State {
+    State(const std::string& path, const ShardRun& r) : file(path), run(r) {
+        group.emplace(file.root().create_group("shard"));
+        per_day.emplace(*group, "per_day", per_day_layout(r.thresholds));
+        timing.emplace(*group, "timing_figures", values_layout({"arrival_delay", "knock_on"}));
+        trains.emplace(*group, "train_figures", values_layout({"primary", "knock_on", "final_delay"}));
+        sections.emplace(*group, "section_figures", values_layout({"blocked"}));
+        buffers.emplace(*group, "buffer_figures", values_layout({"as_run"}));
+        held.emplace(*group, "held",
+                     RecordLayout().add("replication", FieldKind::u32).add("signal", FieldKind::u32).add("seconds", FieldKind::f64));
+    }
+    h5::OutputFile file;   // declared first: closed after the groups and tables below
+    ShardRun run;
+    std::optional<h5::Group> group;
+    std::optional<RecordTable> per_day, timing, trains, sections, buffers, held;
+    std::optional<h5::Group> replications;
+    std::map<std::string, std::uint32_t> signal_index;
+    std::vector<std::string> signals;   // by index, in the order first met
+    std::uint32_t days = 0, traced = 0;
+    std::size_t records = 0, train_count = 0, section_count = 0, pairs = 0;
+};
+
+ShardHdf5Writer::ShardHdf5Writer(const std::string& path, const Hdf5RunInfo& info, const ShardRun& run) {
+    state_ = std::make_unique<State>(path, run);
+    const h5::Group root = state_->file.root();
+    write_run_attributes(root, info, "shard");
+    const h5::Attributes a = state_->group->attributes();
+    a.set_u32("shard", run.shard);
+    a.set_u32("shards", run.shards);
+    a.set_u32("planned_replications", run.planned);
+    a.set_u32("first_replication", run.first);
+    a.set_u32("end_replication", run.end);
+    a.set_text("scenario_text", run.scenario_text);
+    a.set_f64_array("thresholds_s", run.thresholds);
+    a.set_text("order", run.order);
+    a.set_f64("sample_s", run.sample);
+    a.set_text("traces", run.traces);
+    state_->replications.emplace(root.create_group("replications"));
+    state_->replications->attributes().set_text("traces", run.traces);
+}
+
+ShardHdf5Writer::~ShardHdf5Writer() = default;
+
+void ShardHdf5Writer::add_day(const ReplicationFigures& day) {
+    State& s = *state_;
+    if (!s.replications) throw std::logic_error("ShardHdf5Writer: day after finish");
+    if (s.days == 0) {
+        s.records = day.arrival_delay.size();
+        s.train_count = day.train_primary.size();
+        s.section_count = day.section_blocked.size();
+        s.pairs = day.buffer.size();
+    } else if (day.arrival_delay.size() != s.records || day.train_primary.size() != s.train_count ||
+               day.section_blocked.size() != s.section_count || day.buffer.size() != s.pairs) {
+        throw std::logic_error("ShardHdf5Writer: replication " + std::to_string(day.stats.replication) +
+                               " has another shape than the days before it");
+    }
+    const ReplicationStats& r = day.stats;
+    s.per_day->begin()
+        .u32(r.replication)
+        .u8(r.deadlocked ? 1 : 0)
+        .u64(r.events)
+        .u64(r.block_passages)
+        .f64(r.total_primary)
+        .f64(r.total_knock_on)
+        .f64(r.mean_arrival_delay);
+    for (std::size_t i = 0; i < s.run.thresholds.size(); ++i)
+        s.per_day->f64(i < r.punctuality.size() ? r.punctuality[i] : std::numeric_limits<double>::quiet_NaN());
+    for (std::size_t k = 0; k < s.records; ++k) s.timing->begin().f64(day.arrival_delay[k]).f64(day.knock_on[k]);
+    for (std::size_t t = 0; t < s.train_count; ++t)
+        s.trains->begin().f64(day.train_primary[t]).f64(day.train_knock_on[t]).f64(day.train_final_delay[t]);
+    for (float b : day.section_blocked) s.sections->begin().f64(b);
+    for (float b : day.buffer) s.buffers->begin().f64(b);
+    for (const auto& [signal, seconds] : day.held) {
+        const auto [it, added] = s.signal_index.try_emplace(signal, count32(s.signals.size()));
+        if (added) s.signals.push_back(signal);
+        s.held->begin().u32(r.replication).u32(it->second).f64(seconds);
+    }
+    ++s.days;
+}
+
+void ShardHdf5Writer::write_trace(std::uint32_t replication, const SimResult& day) {
+    if (!state_->replications) throw std::logic_error("ShardHdf5Writer: trace after finish");
+    write_day(state_->replications->create_group(replication_group_name(replication)), day);
+    ++state_->traced;
+}
+
+void ShardHdf5Writer::finish(const StudyResult& study) {
+    State& s = *state_;
+    if (!s.replications) throw std::logic_error("ShardHdf5Writer: finished twice");
+    s.replications->attributes().set_u32("traced", s.traced);
+    s.replications.reset();
+    for (auto* t : {&s.per_day, &s.timing, &s.trains, &s.sections, &s.buffers, &s.held}) {
+        (*t)->flush();
+        t->reset();
+    }
+    {
+        const h5::Group& g = *s.group;
+        const h5::Attributes a = g.attributes();
+        a.set_u32("days", s.days);
+        a.set_u8("partial", study.partial ? 1 : 0);
+        a.set_u32("timing_records", count32(s.records));
+        a.set_u32("trains", count32(s.train_count));
+        a.set_u32("sections", count32(s.section_count));
+        a.set_u32("buffer_pairs", count32(s.pairs));
+        if (study.first_deadlock) {
+            const DeadlockedDay& d = *study.first_deadlock;
+            a.set_u32("first_deadlock_replication", d.replication);
+            a.set_f64("first_deadlock_time", d.report.time);
+            a.set_text("first_deadlock_cause", d.report.cause);
+            a.set_text("first_deadlock_description", d.report.description);
+        }
+        write_names(g, "held_signals", s.signals, "Signal ids; the 'signal' field of held is an index into this table.");
+        write_names(g, "trains_index", study.train_ids, "Train ids of the timing template and the train figures.");
+        write_names(g, "sections_index", study.section_names, "Detection section ids of the section figures.");
+        std::vector<std::string> stations;
+        for (const TimingRecord& t : study.timing_template) stations.push_back(t.station);
+        RecordTable tmpl(g, "timing_template",
+                         RecordLayout()
+                             .add("train", FieldKind::u32)
+                             .add("call", FieldKind::u32)
+                             .add_text("station", longest(stations))
+                             .add("stops", FieldKind::u8));
+        for (const TimingRecord& t : study.timing_template)
+            tmpl.begin().u32(t.train).u32(t.call).text(t.station).u8(t.stops ? 1 : 0);
+        tmpl.flush();
+    }
+    s.group.reset();
+    s.file.commit();
+}
+
+// ---------------------------------------------------------------------------------------------
+
+namespace {
+
+std::uint32_t u32_attribute(const h5::InputFile& f, const std::string& object, const std::string& name) {
+    const double v = f.number_attribute(object, name);
+    if (!(v >= 0.0 && v <= 4294967295.0) || v != std::floor(v))
+        throw h5::Error(f.path() + ": " + object + ": attribute " + name + " is not a whole number of 32 bits");
+    return static_cast<std::uint32_t>(v);
+}
+
+void expect_rows(const h5::InputFile& f, const std::string& table, std::size_t rows) {
+    if (f.rows(table) != rows)
+        throw h5::Error(f.path() + ": " + table + ": " + std::to_string(f.rows(table)) + " records, expected " +
+                        std::to_string(rows));
+}
+
+}  // namespace
+
+ShardFile read_shard_file(const std::string& path) {
+    const h5::InputFile f(path);
+    ShardFile s;
+    s.path = path;
+    if (!f.has_attribute("/", "program") || f.text_attribute("/", "program") != "knockon" ||
+        !f.has_attribute("/", "kind"))
+        throw h5::Error(path + ": not a knockon results file");
+    const std::string kind = f.text_attribute("/", "kind");
+    if (kind != "shard")
+        throw h5::Error(path + ": a '" + kind + "' results file, not a study shard (simulate --shard K/N --out)");
+    s.program_version = f.text_attribute("/", "program_version");
+    s.scenario_file = f.text_attribute("/", "scenario_file");
+    s.scenario_name = f.text_attribute("/", "scenario_name");
+    s.scenario_hash = f.text_attribute("/", "scenario_hash");
+    s.variant = f.text_attribute("/", "variant");
+    s.seed = static_cast<std::uint64_t>(f.number_attribute("/", "seed"));
+    s.step = f.number_attribute("/", "step_m");
+    ShardRun& r = s.run;
+    r.shard = u32_attribute(f, kShard, "shard");
+    r.shards = u32_attribute(f, kShard, "shards");
+    r.planned = u32_attribute(f, kShard, "planned_replications");
+    r.first = u32_attribute(f, kShard, "first_replication");
+    r.end = u32_attribute(f, kShard, "end_replication");
+    r.scenario_text = f.text_attribute(kShard, "scenario_text");
+    r.thresholds = f.number_array_attribute(kShard, "thresholds_s");
+    r.order = f.text_attribute(kShard, "order");
+    r.sample = f.number_attribute(kShard, "sample_s");
+    r.traces = f.text_attribute(kShard, "traces");
+    s.partial = f.number_attribute(kShard, "partial") != 0.0;
+    s.days = u32_attribute(f, kShard, "days");
+    s.train_ids = f.text_column("/shard/trains_index", "id");
+    s.section_names = f.text_column("/shard/sections_index", "id");
+    const std::string tt = "/shard/timing_template";
+    const auto train = f.number_column(tt, "train"), call = f.number_column(tt, "call"),
+               stops = f.number_column(tt, "stops");
+    const auto station = f.text_column(tt, "station");
+    for (std::size_t k = 0; k < train.size(); ++k) {
+        TimingRecord t;
+        t.train = static_cast<std::uint32_t>(train[k]);
+        t.call = static_cast<std::uint32_t>(call[k]);
+        t.station = station[k];
+        t.stops = stops[k] != 0.0;
+        s.timing_template.push_back(std::move(t));
+    }
+    if (f.has_attribute(kShard, "first_deadlock_replication")) {
+        DeadlockedDay d;
+        d.replication = u32_attribute(f, kShard, "first_deadlock_replication");
+        d.report.deadlocked = true;
+        d.report.time = f.number_attribute(kShard, "first_deadlock_time");
+        d.report.cause = f.text_attribute(kShard, "first_deadlock_cause");
+        d.report.description = f.text_attribute(kShard, "first_deadlock_description");
+        s.first_deadlock = std::move(d);
+    }
+    for (const std::string& name : f.members("/replications")) {
+        if (name.empty() || name.find_first_not_of("0123456789") != std::string::npos || name.size() > 9)
+            throw h5::Error(path + ": /replications/" + name + ": not a replication number");
+        s.traced.push_back(static_cast<std::uint32_t>(std::stoul(name)));
+    }
+    std::sort(s.traced.begin(), s.traced.end());
+    return s;
+}
+
+std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
+    const h5::InputFile f(shard.path);
+    const std::size_t days = shard.days;
+    const std::size_t records = u32_attribute(f, kShard, "timing_records"), trains = u32_attribute(f, kShard, "trains"),
+                      sections = u32_attribute(f, kShard, "sections"), pairs = u32_attribute(f, kShard, "buffer_pairs");
+    const std::string pd = "/shard/per_day";
+    expect_rows(f, pd, days);
+    expect_rows(f, "/shard/timing_figures", days * records);
+    expect_rows(f, "/shard/train_figures", days * trains);
+    expect_rows(f, "/shard/section_figures", days * sections);
+    expect_rows(f, "/shard/buffer_figures", days * pairs);
+    const auto replication = f.number_column(pd, "replication"), deadlocked = f.number_column(pd, "deadlocked"),
+               events = f.number_column(pd, "events"), passages = f.number_column(pd, "block_passages"),
+               primary = f.number_column(pd, "total_primary"), knock_on = f.number_column(pd, "total_knock_on"),
+               mean_delay = f.number_column(pd, "mean_arrival_delay");
+    std::vector<std::vector<double>> punctuality;
+    for (double t : shard.run.thresholds) punctuality.push_back(f.number_column(pd, punctuality_field(t)));
+    const auto arrival = f.number_column("/shard/timing_figures", "arrival_delay"),
+               record_knock_on = f.number_column("/shard/timing_figures", "knock_on"),
+               train_primary = f.number_column("/shard/train_figures", "primary"),
+               train_knock_on = f.number_column("/shard/train_figures", "knock_on"),
+               train_final = f.number_column("/shard/train_figures", "final_delay"),
+               blocked = f.number_column("/shard/section_figures", "blocked"),
+               buffer = f.number_column("/shard/buffer_figures", "as_run");
+    const auto held_day = f.number_column("/shard/held", "replication"),
+               held_signal = f.number_column("/shard/held", "signal"), held_s = f.number_column("/shard/held", "seconds");
+    const auto signals = f.text_column("/shard/held_signals", "id");
+
+    // The figures were floats: back from double exactly.
+    const auto floats = [](const std::vector<double>& v, std::size_t from, std::size_t n) {
+        std::vector<float> out(n);
+        for (std::size_t i = 0; i < n; ++i) out[i] = static_cast<float>(v[from + i]);
+        return out;
+    };
+    std::vector<ReplicationFigures> out(days);
+    std::map<std::uint32_t, std::size_t> day_of;   // replication -> row
+    for (std::size_t d = 0; d < days; ++d) {
+        ReplicationFigures& r = out[d];
+        ReplicationStats& st = r.stats;
+        st.replication = static_cast<std::uint32_t>(replication[d]);
+        st.deadlocked = deadlocked[d] != 0.0;
+        st.events = static_cast<std::uint64_t>(events[d]);
+        st.block_passages = static_cast<std::uint64_t>(passages[d]);
+        st.total_primary = primary[d];
+        st.total_knock_on = knock_on[d];
+        st.mean_arrival_delay = mean_delay[d];
+        for (const auto& column : punctuality) st.punctuality.push_back(column[d]);
+        if (st.deadlocked && shard.first_deadlock && shard.first_deadlock->replication == st.replication)
+            r.deadlock = shard.first_deadlock->report;
+        r.arrival_delay = floats(arrival, d * records, records);
+        r.knock_on = floats(record_knock_on, d * records, records);
+        r.train_primary = floats(train_primary, d * trains, trains);
+        r.train_knock_on = floats(train_knock_on, d * trains, trains);
+        r.train_final_delay = floats(train_final, d * trains, trains);
+        r.section_blocked = floats(blocked, d * sections, sections);
+        r.buffer = floats(buffer, d * pairs, pairs);
+        day_of[st.replication] = d;
+    }
+    for (std::size_t i = 0; i < held_day.size(); ++i) {
+        const auto day = day_of.find(static_cast<std::uint32_t>(held_day[i]));
+        const std::size_t signal = static_cast<std::size_t>(held_signal[i]);
+        if (day == day_of.end() || signal >= signals.size())
+            throw h5::Error(shard.path + ": /shard/held: record " + std::to_string(i) +
+                            " names a day or signal the shard does not have");
+        out[day->second].held[signals[signal]] = held_s[i];
+    }
+    return out;
+}
+
+}  // namespace knockon
