@@ -13,6 +13,7 @@
 #include "sim/delay_draws.hpp"
 #include "sim/simulation.hpp"
 #include "sim/study.hpp"
+#include "tools/io/output_file.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/io/sim_hdf5.hpp"
@@ -203,6 +204,8 @@ int simulate(const std::vector<std::string>& args) {
     if (!(so.sample_interval >= 0.0)) throw UsageError("--sample must not be negative");
     so.run.step = vm["step"].as<double>();
     if (!(so.run.step > 0.0 && so.run.step <= 50.0)) throw UsageError("--step must be in (0, 50] metres");
+
+    if (vm.count("out")) check_output_path(vm["out"].as<std::string>(), {vm["scenario"].as<std::string>()});
 
     const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
     Scenario scenario = read_scenario(vm["scenario"].as<std::string>(), variant);
