@@ -96,6 +96,7 @@ inline fs::path temporary_of(const fs::path& out, pid_t pid) {
 struct Interrupted {
     int status = 0;   // as from waitpid
     bool started = false;
+    bool ended_early = false;      // gone before the last signal was sent (the run tested nothing)
     fs::path temporary;
     double seconds_to_end = 0.0;   // from the (first) signal to the end of the process
 };
@@ -127,11 +128,18 @@ inline Interrupted interrupt_knockon(const std::vector<std::string>& args, const
     r.started = !r.temporary.empty();
     std::this_thread::sleep_for(run_for);
     const auto sent = std::chrono::steady_clock::now();
+    bool reaped = false;
     for (int i = 0; i < repeat; ++i) {
-        if (i > 0) std::this_thread::sleep_for(std::chrono::milliseconds(50));
+        if (i > 0) {
+            std::this_thread::sleep_for(std::chrono::milliseconds(50));
+            if (::waitpid(pid, &r.status, WNOHANG) == pid) {
+                r.ended_early = reaped = true;
+                break;
+            }
+        }
         ::kill(pid, signal);
     }
-    ::waitpid(pid, &r.status, 0);
+    if (!reaped) ::waitpid(pid, &r.status, 0);
     r.seconds_to_end = std::chrono::duration<double>(std::chrono::steady_clock::now() - sent).count();
     return r;
 }
