@@ -128,15 +128,21 @@ def replace_dataset(f, path, data, maxshape=(None,)):
         d.attrs[k] = v
 
 
-def set_value(path, field, value):
+def set_value(path, field, value, row=0):
     def change(f):
         d = f[path]
-        if d.shape[0] == 0:
+        if d.shape[0] <= row:
             return False
         a = d[:]
-        a[field][0] = value
+        a[field][row] = value
         d[...] = a
     return change
+
+
+def first_reached(f, path):
+    """The first timing point some day got to: its figures must not be NaN."""
+    reached = f[path]["reached"]
+    return next((i for i, n in enumerate(reached) if n > 0), None)
 
 
 def drop_field(path, field):
@@ -181,6 +187,7 @@ def tables(f, under=""):
 def value_cases(cases, good, kind, paths):
     with h5py.File(good, "r") as f:
         layout = {p: (f[p].dtype, f[p].shape[0]) for p in paths}
+        reached_row = {p: first_reached(f, p) for p in paths if table_role(p) == "timing_points"}
     for p, (dtype, rows) in layout.items():
         role = table_role(p)
         if rows == 0:
@@ -200,6 +207,9 @@ def value_cases(cases, good, kind, paths):
             if t.kind == "f":
                 cases.make(good, tag + "-nan", "any" if nan_allowed(role, field) else "refuse",
                            f"{p}: {field} = NaN", set_value(p, field, np.nan))
+                if nan_allowed(role, field) and reached_row.get(p) is not None:
+                    cases.make(good, tag + "-nan-reached", "refuse", f"{p}: {field} = NaN where reached",
+                               set_value(p, field, np.nan, reached_row[p]))
                 cases.make(good, tag + "-inf", "refuse", f"{p}: {field} = inf", set_value(p, field, np.inf))
                 if first_number:
                     cases.make(good, tag + "-huge", "refuse", f"{p}: {field} = -1e300", set_value(p, field, -1e300))

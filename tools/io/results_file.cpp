@@ -335,8 +335,19 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
             lower.push_back(t.num(name + "_lower", kShareOrNaN));
             upper.push_back(t.num(name + "_upper", kShareOrNaN));
         }
+        // NaN there says "no day got there": only where no day did.
+        auto reached_yet_nan = [&](std::size_t i) -> const char* {
+            for (const auto* column : {&dm, &dh, &p50, &p90, &p95, &mx})
+                if (std::isnan((*column)[i])) return "a delay figure";
+            for (std::size_t k = 0; k < fields.size(); ++k)
+                if (std::isnan(share[k][i]) || std::isnan(lower[k][i]) || std::isnan(upper[k][i])) return "a share";
+            return nullptr;
+        };
         s.timing_points.resize(t.rows());
         for (std::size_t i = 0; i < t.rows(); ++i) {
+            if (const char* what = reached[i] > 0 ? reached_yet_nan(i) : nullptr)
+                throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) + ": " + what +
+                                       " is NaN though the train got there on " + std::to_string(reached[i]) + " days");
             TimingPointStats& tp = s.timing_points[i];
             tp.train = train[i];
             tp.station = station[i];
