@@ -6,6 +6,7 @@
 #include <catch2/catch.hpp>
 
 #include <fcntl.h>
+#include <sys/resource.h>
 #include <sys/stat.h>
 #include <sys/sysmacros.h>
 #include <unistd.h>
@@ -230,6 +231,65 @@ TEST_CASE("output files: remove_temporary_files removes what is being written", 
     knockon::remove_temporary_files();   // what the signal handlers call
     CHECK_FALSE(fs::exists(tmp.name()));
     CHECK(entries(dir.path).empty());
+}
+
+namespace {
+
+// Runs knockon with writes limited to `max_bytes` per file (RLIMIT_FSIZE, with SIGXFSZ ignored, so
+// a write beyond it fails with EFBIG as a full disk fails with ENOSPC); returns the wait status.
+int run_with_file_size_limit(const std::vector<std::string>& args, const fs::path& dir, rlim_t max_bytes,
+                             const fs::path& stderr_file) {
+    std::vector<std::string> all = {kExe};
+    all.insert(all.end(), args.begin(), args.end());
+    std::vector<char*> argv;
+    for (std::string& a : all) argv.push_back(a.data());
+    argv.push_back(nullptr);
+    const pid_t pid = ::fork();
+    REQUIRE(pid >= 0);
+    if (pid == 0) {
+        if (::chdir(dir.c_str()) != 0) ::_exit(126);
+        ::signal(SIGXFSZ, SIG_IGN);
+        const rlimit limit{max_bytes, max_bytes};
+        ::setrlimit(RLIMIT_FSIZE, &limit);
+        std::freopen("/dev/null", "w", stdout);
+        std::freopen(stderr_file.c_str(), "w", stderr);
+        ::execv(kExe.c_str(), argv.data());
+        ::_exit(127);
+    }
+    int status = 0;
+    ::waitpid(pid, &status, 0);
+    return status;
+}
+
+}  // namespace
+
+TEST_CASE("output files: a write that fails part way gives exit 1 and leaves no file", "[output][cli]") {
+    // Once a SIGSEGV at exit for studies and comparisons: the HDF5 library's exit handler closed
+    // the file whose final flush had failed.  A full disk (ENOSPC) takes the same path as this
+    // file size limit (EFBIG), which needs no root.
+    const TempDir dir;
+    const fs::path logs = dir.path.parent_path() / (dir.path.filename().string() + "-logs");
+    fs::create_directories(logs);
+    struct Case {
+        std::vector<std::string> args;
+        rlim_t limit;
+    };
+    const std::vector<Case> cases = {
+        {{"simulate", kDemo, "--replications", "5", "--traces", "all", "--out", "out.h5"}, 200 * 1024},
+        {{"compare", kDemo, "--variants", "base,four_aspect", "--replications", "3", "--out", "out.h5"}, 100 * 1024},
+        {{"simulate", kDemo, "--sample", "1", "--out", "out.h5"}, 100 * 1024},
+        {{"report", kDemo, "-o", "out.html"}, 20 * 1024},
+    };
+    for (const Case& c : cases) {
+        INFO(c.args[0] << " " << c.args.back());
+        const fs::path err = logs / "err.txt";
+        const int status = run_with_file_size_limit(c.args, dir.path, c.limit, err);
+        CHECK(WIFEXITED(status));   // not killed by a signal
+        if (WIFEXITED(status)) CHECK(WEXITSTATUS(status) == 1);
+        CHECK_THAT(read_text(err), Contains("out.") && Contains("File too large"));
+        CHECK(entries(dir.path).empty());   // neither the file nor its temporary file
+    }
+    fs::remove_all(logs);
 }
 
 TEST_CASE("output files: SIGTERM and SIGHUP end a study at once and leave no file", "[output][cli]") {
