@@ -193,7 +193,8 @@ def value_cases(cases, good, kind, paths):
         if rows == 0:
             continue
         unread_done = False
-        first_number = True   # kinds of change that take one path for every field: on the first only
+        # Kinds of change that take one path for every field of a table: on its first field only.
+        first_number = first_float = True
         for field in dtype.names:
             t = dtype[field]
             read = field_read(role, field)
@@ -211,8 +212,11 @@ def value_cases(cases, good, kind, paths):
                     cases.make(good, tag + "-nan-reached", "refuse", f"{p}: {field} = NaN where reached",
                                set_value(p, field, np.nan, reached_row[p]))
                 cases.make(good, tag + "-inf", "refuse", f"{p}: {field} = inf", set_value(p, field, np.inf))
-                if first_number:
+                if first_float:
                     cases.make(good, tag + "-huge", "refuse", f"{p}: {field} = -1e300", set_value(p, field, -1e300))
+                    # At the edge of what a time or duration may be (10^9 s): a report must still cope.
+                    cases.make(good, tag + "-edge", "any", f"{p}: {field} = 9.9e8", set_value(p, field, 9.9e8))
+                    first_float = False
             elif t.kind in "ui":
                 expect = "refuse" if field in INDEX_OR_BOUNDED else "any"
                 cases.make(good, tag + "-max", expect, f"{p}: {field} = largest {t}",
