@@ -30,7 +30,7 @@ build-asan/fuzz_scenario_reader "$work/scenario" -dict=tests/fuzz/scenario.dict 
   -artifact_prefix="$work/scenario-" "${common[@]}" >"$work/scenario.log" 2>&1 &
 scenario_pid=$!
 KNOCKON_FUZZ_BASE="$work/base" build-asan/fuzz_results_reader "$work/results" -dict=tests/fuzz/results.dict \
-  -max_len=600 -len_control=0 -artifact_prefix="$work/results-" "${common[@]}" >"$work/results.log" 2>&1 &
+  -max_len=121 -len_control=0 -artifact_prefix="$work/results-" "${common[@]}" >"$work/results.log" 2>&1 &
 results_pid=$!
 
 status=0
