@@ -268,7 +268,12 @@ void no_infinity(const knockon::ResultsFile& r) {
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size) {
     static const std::vector<Base> bases = load_bases();
-    static const std::string scratch = "/tmp/knockon-fuzz-results-" + std::to_string(::getpid()) + ".h5";
+    // The edited copy: one scratch file per process, removed when the run ends.
+    static const struct Scratch {
+        std::string path = "/tmp/knockon-fuzz-results-" + std::to_string(::getpid()) + ".h5";
+        ~Scratch() { ::unlink(path.c_str()); }
+    } scratch_file;
+    const std::string& scratch = scratch_file.path;
     if (size == 0) return 0;
     const Base& base = bases[data[0] % bases.size()];
     fs::copy_file(base.path, scratch, fs::copy_options::overwrite_existing);

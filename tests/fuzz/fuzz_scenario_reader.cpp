@@ -16,10 +16,15 @@
 
 namespace {
 
-// The reader takes a path (variants are listed from the file): one scratch file per process.
+// The reader takes a path (variants are listed from the file): one scratch file per process,
+// removed when the run ends.
+struct Scratch {
+    std::string path = "/tmp/knockon-fuzz-scenario-" + std::to_string(::getpid()) + ".yaml";
+    ~Scratch() { ::unlink(path.c_str()); }
+};
 const std::string& scratch() {
-    static const std::string path = "/tmp/knockon-fuzz-scenario-" + std::to_string(::getpid()) + ".yaml";
-    return path;
+    static const Scratch file;
+    return file.path;
 }
 
 [[noreturn]] void finding(const char* what) {
