@@ -200,24 +200,39 @@ TEST_CASE("output files: an output path that is an input is refused", "[output][
     Result r = run_cli("report " + q(results) + " --scenario " + q(scenario) + " -o " + q(results), dir, 60);
     CHECK(r.status == 2);
     CHECK_THAT(r.err, Contains("is the input file"));
-    r = run_cli("report " + q(results) + " --scenario " + q(scenario) + " -o " + q(soft), dir, 60);
+    r = run_cli("report " + q(results) + " --scenario " + q(scenario) + " -o " + q(hard), dir, 60);
     CHECK(r.status == 2);
-    CHECK_THAT(r.err, Contains(soft.string() + ": is the input file " + scenario.string()));
+    CHECK_THAT(r.err, Contains(hard.string() + ": is the input file " + scenario.string()));
     CHECK(read_text(results) == stored);
     CHECK(read_text(scenario) == original);
 }
 
-TEST_CASE("output files: a symbolic link at the target is replaced, its own target left alone", "[output][cli]") {
+TEST_CASE("output files: a symbolic link at the target is refused, neither followed nor replaced", "[output][cli]") {
+    // Followed, a link planted at the output name in a shared directory would choose where the
+    // file goes; replaced, a system's link (as /dev/stdout with stdout sent to a file) would be lost.
     const TempDir dir;
     const fs::path scenario = copy_scenario(dir);
-    const fs::path other = dir.path / "other.svg", link = dir.path / "chart.svg";
+    const fs::path other = dir.path / "other.svg", link = dir.path / "chart.svg", dangling = dir.path / "gone.svg";
     write_text(other, "KEEP");
     fs::create_symlink(other, link);
-    const Result r = run_cli("plot " + q(scenario) + " --chart capacity --svg " + q(link), dir, 60);
-    CHECK(r.status == 0);
-    CHECK_FALSE(fs::is_symlink(link));
-    CHECK_THAT(read_text(link), Contains("<svg"));
+    fs::create_symlink(dir.path / "nowhere.svg", dangling);
+    for (const fs::path& target : {link, dangling}) {
+        const Result r = run_cli("plot " + q(scenario) + " --chart capacity --svg " + q(target), dir, 60);
+        CHECK(r.status == 2);
+        CHECK_THAT(r.err, Contains(target.string() + ": is a symbolic link"));
+        CHECK(fs::is_symlink(target));
+    }
     CHECK(read_text(other) == "KEEP");
+    CHECK_FALSE(fs::exists(dir.path / "nowhere.svg"));
+    // A link made as /dev/stdout is, with stdout sent to a regular file (so that, followed, it names
+    // a regular file).  A private one: a faulty build run as root replaces only that.
+    const fs::path out = dir.path / "stdout", sink = dir.path / "sink.txt";
+    fs::create_symlink("/proc/self/fd/1", out);
+    const std::string cmd = q(kExe) + " plot " + q(scenario) + " --chart capacity --svg " + q(out) + " >" + q(sink) + " 2>&1";
+    const int rc = std::system(cmd.c_str());
+    CHECK((WIFEXITED(rc) && WEXITSTATUS(rc) == 2));
+    CHECK_THAT(read_text(sink), Contains(out.string() + ": is a symbolic link to /proc/self/fd/1"));
+    CHECK(fs::is_symlink(out));
 }
 
 TEST_CASE("output files: remove_temporary_files removes what is being written", "[output]") {

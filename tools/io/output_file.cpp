@@ -70,10 +70,20 @@ std::string kind_of(mode_t mode) {
     return "not a regular file";
 }
 
-// Refuses a target that exists and, followed through links, is not a regular file.
+// Refuses a target that exists and is not a regular file.  A symbolic link is refused too:
+// following it would let whoever planted it choose where the file goes, and replacing it could
+// remove a link the system needs (/dev/stdout, written as root with stdout sent to a file).
 void refuse_special_target(const std::string& path) {
     struct stat st {};
-    if (::stat(path.c_str(), &st) == 0 && !S_ISREG(st.st_mode))
+    if (::lstat(path.c_str(), &st) != 0) return;
+    if (S_ISLNK(st.st_mode)) {
+        std::error_code ec;
+        const std::string to = std::filesystem::read_symlink(path, ec).string();
+        throw OutputPathError(path + ": is a symbolic link" + (ec ? std::string() : " to " + to) +
+                              "; knockon neither follows nor replaces a link at an output path: give the "
+                              "file's own path (nothing written)");
+    }
+    if (!S_ISREG(st.st_mode))
         throw OutputPathError(path + ": is " + kind_of(st.st_mode) +
                               "; knockon writes only regular files and replaces nothing else (nothing written)");
 }
@@ -96,15 +106,16 @@ struct Descriptor {
 
 void check_output_path(const std::string& path, const std::vector<std::string>& inputs) {
     if (path.empty()) throw OutputPathError("the output path is empty");
-    refuse_special_target(path);
     struct stat out {};
-    if (::stat(path.c_str(), &out) != 0) return;  // not there yet: it cannot be an input
-    for (const std::string& input : inputs) {
-        struct stat in {};
-        if (::stat(input.c_str(), &in) == 0 && in.st_dev == out.st_dev && in.st_ino == out.st_ino)
-            throw OutputPathError(path + ": is the input file " + input +
-                                  "; writing there would destroy it (choose another output path; nothing written)");
+    if (::stat(path.c_str(), &out) == 0) {  // not there yet: it cannot be an input
+        for (const std::string& input : inputs) {
+            struct stat in {};
+            if (::stat(input.c_str(), &in) == 0 && in.st_dev == out.st_dev && in.st_ino == out.st_ino)
+                throw OutputPathError(path + ": is the input file " + input +
+                                      "; writing there would destroy it (choose another output path; nothing written)");
+        }
     }
+    refuse_special_target(path);
 }
 
 // ---------------------------------------------------------------------------------------------

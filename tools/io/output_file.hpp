@@ -5,8 +5,8 @@
 //   or HDF5's H5F_ACC_EXCL): a link planted under that name makes the creation fail and another
 //   name is tried, it is never followed;
 // - the complete file is renamed over the target.  A target that exists and is not a regular
-//   file (a device node, a FIFO, a directory) is refused, never replaced; a symbolic link at the
-//   target is replaced by the file, the link's own target is left alone;
+//   file (a device node, a FIFO, a directory, a symbolic link) is refused, never replaced nor
+//   followed;
 // - a temporary file is removed when its writer fails or gives up, and on SIGINT, SIGTERM and
 //   SIGHUP by remove_temporary_files() (called from the handlers in tools/knockon/interrupt).
 #include <functional>
@@ -21,9 +21,9 @@ struct OutputPathError : std::runtime_error {
     using std::runtime_error::runtime_error;
 };
 
-// Refuses (OutputPathError naming the path and the reason) an empty path, a path that exists and
-// is not a regular file (links followed), and a path that is the same file as one of `inputs`
-// (same device and inode, so also through links).  Commands call it before any work.
+// Refuses (OutputPathError naming the path and the reason) an empty path, a path that is the same
+// file as one of `inputs` (same device and inode, so also through links), and a path that exists
+// and is not a regular file (a symbolic link included).  Commands call it before any work.
 void check_output_path(const std::string& path, const std::vector<std::string>& inputs = {});
 
 // Writes `content` to `path` as above; throws OutputPathError or std::runtime_error naming the path.
