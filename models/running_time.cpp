@@ -3,7 +3,6 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
-#include <ranges>
 #include <sstream>
 #include <stdexcept>
 #include <string>
@@ -388,8 +387,14 @@ long integrate_on_grid(Trajectory& tr, const TrainType& type, const LegGrid& g, 
     };
     if (options.slow_factor < 1.0 && options.slow_to > options.slow_from) {
         // Points are in ascending order: find the first inside the stretch, scale until past it.
-        std::size_t i = *std::ranges::partition_point(std::views::iota(std::size_t{0}, cells + 1),
-                                                      [&](std::size_t j) { return at(j) < options.slow_from; });
+        // A plain binary search (what std::ranges::partition_point over the indices does): clang 14,
+        // which the sanitizer and fuzzing builds use, cannot compile libstdc++ 12's iota_view.
+        std::size_t i = 0;
+        for (std::size_t hi = cells + 1; i < hi;) {
+            const std::size_t mid = i + (hi - i) / 2;
+            if (at(mid) < options.slow_from) i = mid + 1;
+            else hi = mid;
+        }
         for (; i <= cells && at(i) < options.slow_to; ++i) v[i] *= options.slow_factor;
     }
     thread_local std::vector<double> gradient_buffer;

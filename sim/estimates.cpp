@@ -70,8 +70,10 @@ Estimate estimate_share(std::size_t successes, std::size_t n) {
     const double half = z * std::sqrt(p * (1.0 - p) / nn + z * z / (4.0 * nn * nn)) / denom;
     e.mean = p;
     e.half_width = half;
-    e.lower = centre - half;
-    e.upper = centre + half;
+    // In exact arithmetic the bounds lie in [0, 1]; rounding can put one a hair outside (at p = 1
+    // the upper bound came out as 1 + 2^-52), which a results reader rightly refuses.
+    e.lower = std::clamp(centre - half, 0.0, 1.0);
+    e.upper = std::clamp(centre + half, 0.0, 1.0);
     return e;
 }
 

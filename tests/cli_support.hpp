@@ -4,6 +4,7 @@
 #include <catch2/catch.hpp>
 
 #include <signal.h>
+#include <sys/resource.h>
 #include <sys/wait.h>
 #include <unistd.h>
 
@@ -77,18 +78,32 @@ inline Result knockon(const std::string& args, const TempDir& dir, int timeout_s
     return r;
 }
 
-// Ctrl-C in the middle of a command: runs knockon with `args` in a child process (stdout and
-// stderr to the given files), waits until the results file's temporary copy `<out>.partial-<pid>`
-// exists (the command is under way, its Ctrl-C handler in place), lets it run `run_for` longer,
-// then sends SIGINT.  `started` says whether the temporary file showed up within a minute.
+// The temporary file of output `out` written by process `pid` ("<out>.partial-<pid>-<random>",
+// tools/io/output_file.hpp), or an empty path while there is none.
+inline fs::path temporary_of(const fs::path& out, pid_t pid) {
+    const std::string prefix = out.filename().string() + ".partial-" + std::to_string(pid) + "-";
+    std::error_code ec;
+    for (const auto& e : fs::directory_iterator(out.parent_path(), ec))
+        if (e.path().filename().string().rfind(prefix, 0) == 0) return e.path();
+    return {};
+}
+
+// A signal in the middle of a command: runs knockon with `args` in a child process (stdout and
+// stderr to the given files), waits until the results file's temporary copy (temporary_of) exists
+// (the command is under way, its signal handlers in place), lets it run `run_for` longer, then
+// sends `signal`, `repeat` times 50 ms apart.  `started` says whether the temporary file showed
+// up within a minute.
 struct Interrupted {
     int status = 0;   // as from waitpid
     bool started = false;
+    bool ended_early = false;      // gone before the last signal was sent (the run tested nothing)
     fs::path temporary;
+    double seconds_to_end = 0.0;   // from the (first) signal to the end of the process
 };
 inline Interrupted interrupt_knockon(const std::vector<std::string>& args, const fs::path& out,
                                      const fs::path& stdout_file, const fs::path& stderr_file,
-                                     std::chrono::milliseconds run_for = std::chrono::milliseconds(300)) {
+                                     std::chrono::milliseconds run_for = std::chrono::milliseconds(300),
+                                     int signal = SIGINT, int repeat = 1) {
     std::vector<char*> argv;
     std::vector<std::string> all = {kExe};
     all.insert(all.end(), args.begin(), args.end());
@@ -97,20 +112,87 @@ inline Interrupted interrupt_knockon(const std::vector<std::string>& args, const
     const pid_t pid = ::fork();
     REQUIRE(pid >= 0);
     if (pid == 0) {
+        // A test runner started in the background may ignore SIGINT; the program would inherit that.
+        ::signal(SIGINT, SIG_DFL);
+        ::signal(SIGTERM, SIG_DFL);
+        ::signal(SIGHUP, SIG_DFL);
         std::freopen(stdout_file.c_str(), "w", stdout);
         std::freopen(stderr_file.c_str(), "w", stderr);
         ::execv(kExe.c_str(), argv.data());
         ::_exit(127);
     }
     Interrupted r;
-    r.temporary = out.string() + ".partial-" + std::to_string(pid);
     const auto deadline = std::chrono::steady_clock::now() + std::chrono::seconds(60);
-    while (!fs::exists(r.temporary) && std::chrono::steady_clock::now() < deadline)
+    while ((r.temporary = temporary_of(out, pid)).empty() && std::chrono::steady_clock::now() < deadline)
         std::this_thread::sleep_for(std::chrono::milliseconds(10));
-    r.started = fs::exists(r.temporary);
+    r.started = !r.temporary.empty();
     std::this_thread::sleep_for(run_for);
-    ::kill(pid, SIGINT);
-    ::waitpid(pid, &r.status, 0);
+    const auto sent = std::chrono::steady_clock::now();
+    bool reaped = false;
+    for (int i = 0; i < repeat; ++i) {
+        if (i > 0) {
+            std::this_thread::sleep_for(std::chrono::milliseconds(50));
+            if (::waitpid(pid, &r.status, WNOHANG) == pid) {
+                r.ended_early = reaped = true;
+                break;
+            }
+        }
+        ::kill(pid, signal);
+    }
+    if (!reaped) ::waitpid(pid, &r.status, 0);
+    r.seconds_to_end = std::chrono::duration<double>(std::chrono::steady_clock::now() - sent).count();
+    return r;
+}
+
+// A run of knockon under limits, for inputs that once crashed, hung or ate memory: at most
+// `cpu_seconds` of CPU time (then SIGXCPU ends it) and, where no sanitizer reserves address space
+// of its own, at most 4 GB of it; the peak resident memory is measured (wait4).
+struct LimitedRun {
+    int status = -1;        // exit status, -1 when ended by a signal
+    int signal = 0;         // the signal that ended it, else 0
+    long max_rss_kb = 0;
+    std::string err;
+};
+#if defined(__SANITIZE_ADDRESS__)
+inline constexpr bool kSanitizedBuild = true;
+#elif defined(__has_feature)
+#if __has_feature(address_sanitizer)
+inline constexpr bool kSanitizedBuild = true;
+#else
+inline constexpr bool kSanitizedBuild = false;
+#endif
+#else
+inline constexpr bool kSanitizedBuild = false;
+#endif
+inline LimitedRun knockon_limited(const std::vector<std::string>& args, const fs::path& stderr_file,
+                                  int cpu_seconds = 60) {
+    std::vector<std::string> all = {kExe};
+    all.insert(all.end(), args.begin(), args.end());
+    std::vector<char*> argv;
+    for (std::string& a : all) argv.push_back(a.data());
+    argv.push_back(nullptr);
+    const pid_t pid = ::fork();
+    REQUIRE(pid >= 0);
+    if (pid == 0) {
+        const rlimit cpu{static_cast<rlim_t>(cpu_seconds), static_cast<rlim_t>(cpu_seconds)};
+        ::setrlimit(RLIMIT_CPU, &cpu);
+        if (!kSanitizedBuild) {
+            const rlimit as{4ull << 30, 4ull << 30};
+            ::setrlimit(RLIMIT_AS, &as);
+        }
+        std::freopen("/dev/null", "w", stdout);
+        std::freopen(stderr_file.c_str(), "w", stderr);
+        ::execv(kExe.c_str(), argv.data());
+        ::_exit(127);
+    }
+    int status = 0;
+    rusage usage{};
+    ::wait4(pid, &status, 0, &usage);
+    LimitedRun r;
+    if (WIFEXITED(status)) r.status = WEXITSTATUS(status);
+    if (WIFSIGNALED(status)) r.signal = WTERMSIG(status);
+    r.max_rss_kb = usage.ru_maxrss;
+    r.err = read_text(stderr_file);
     return r;
 }
 

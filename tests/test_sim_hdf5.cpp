@@ -403,16 +403,29 @@ TEST_CASE("HDF5 results: an unwritable path throws naming it and leaves no file"
     REQUIRE_FALSE(fs::exists("/nonexistent-dir-knockon"));
     CHECK_THROWS_WITH(write_sim_hdf5(bad, small_result(), small_info()), Contains(bad));
     CHECK_FALSE(fs::exists(bad));
-    CHECK_FALSE(fs::exists(temporary_path_for(bad)));
+    CHECK_FALSE(fs::exists("/nonexistent-dir-knockon"));
 }
 
-TEST_CASE("HDF5 results: a failed final rename leaves no temporary file", "[sim_hdf5]") {
+TEST_CASE("HDF5 results: a directory at the path is refused before anything is written", "[sim_hdf5]") {
     TempDir dir("rename");
     const fs::path target = dir.path / "taken";
-    fs::create_directories(target / "inside");  // a non-empty directory cannot be replaced by a file
-    CHECK_THROWS_WITH(write_sim_hdf5(target.string(), small_result(), small_info()), Contains(target.string()));
-    CHECK(fs::is_directory(target));
+    fs::create_directories(target / "inside");
+    CHECK_THROWS_AS(write_sim_hdf5(target.string(), small_result(), small_info()), OutputPathError);
+    CHECK_THROWS_WITH(write_sim_hdf5(target.string(), small_result(), small_info()),
+                      Contains(target.string()) && Contains("is a directory"));
+    CHECK(fs::is_directory(target / "inside"));
     CHECK(dir.entries() == std::vector<std::string>{"taken"});
+}
+
+TEST_CASE("HDF5 results: a directory that appears at the path while writing is not replaced", "[sim_hdf5]") {
+    TempDir dir("late");
+    const fs::path target = dir.path / "taken";
+    h5::OutputFile file(target.string());
+    file.root().create_group("day");
+    fs::create_directories(target / "inside");  // after the start, before the rename
+    CHECK_THROWS_WITH(file.commit(), Contains(target.string()) && Contains("is a directory"));
+    CHECK(fs::is_directory(target / "inside"));
+    CHECK(dir.entries() == std::vector<std::string>{"taken"});  // the temporary file is gone too
 }
 
 TEST_CASE("HDF5 results: the Python example reads the file", "[sim_hdf5][python]") {

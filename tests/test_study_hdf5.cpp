@@ -301,12 +301,13 @@ TEST_CASE("study HDF5: an unwritable path fails and leaves no file", "[study_hdf
     CHECK_FALSE(fs::exists("/nonexistent-dir-knockon-study"));
     CHECK(fx.out().empty());  // no results printed as if all went well
 
-    // Fails only at the end (a directory stands at the path, so the final rename fails): the days
-    // ran and were written, yet neither the file nor its temporary stays.
+    // A directory at the path: refused before any day runs (bad input, exit 2), and left as it was.
     const fs::path taken = fx.dir / "taken";
     fs::create_directories(taken / "inside");
-    CHECK(fx.simulate("--replications 20 --traces all --out '" + taken.string() + "'", "late") == 1);
-    CHECK_THAT(fx.err("late"), Contains(taken.string()));
+    CHECK(fx.simulate("--replications 20 --traces all --out '" + taken.string() + "'", "late") == 2);
+    CHECK_THAT(fx.err("late"), Contains(taken.string()) && Contains("is a directory"));
+    CHECK(fx.out("late").empty());
+    CHECK(fs::is_directory(taken / "inside"));
     CHECK(fx.entries() == std::vector<std::string>{"delayed.yaml", "late.err", "late.out", "run.err", "run.out", "taken"});
 }
 

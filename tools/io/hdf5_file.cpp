@@ -1,15 +1,34 @@
 #include "tools/io/hdf5_file.hpp"
 
 #include <algorithm>
+#include <atomic>
+#include <cstdlib>
 #include <cstring>
-#include <filesystem>
 #include <utility>
-
-#include "tools/io/output_file.hpp"
 
 namespace knockon::h5 {
 
 namespace {
+
+// ---- the library's end --------------------------------------------------------------------------
+// HDF5 installs an exit handler that closes every file still open.  On a file whose final flush
+// had failed (a full disk) it crashed (SIGSEGV in its close callback), turning a clean error into
+// a core dump.  So the library is told not to install it (this must happen before its first
+// call, hence a static initializer), and ours shuts the library down only when no file or object
+// failed to close; otherwise the operating system reclaims everything at exit.
+std::atomic<unsigned> g_failed_closes{0};
+std::atomic<bool> g_file_abandoned{false};
+std::string g_close_failure;   // what the last failed close said (one thread owns every handle)
+
+void shut_down_library() {
+    if (g_failed_closes.load() == 0 && !g_file_abandoned.load()) H5close();
+}
+
+[[maybe_unused]] const bool g_exit_handler_installed = [] {
+    if (H5dont_atexit() < 0) return false;  // the library was already in use: its handler stays
+    std::atexit(shut_down_library);
+    return true;
+}();
 
 // The message of the innermost failing library function: it says what actually went wrong
 // ("unable to open file: name = ..., errno = 2, ..."); the outer ones only repeat the call chain.
@@ -21,6 +40,14 @@ herr_t take_innermost(unsigned n, const H5E_error2_t* err, void* data) {
 std::string hdf5_message() {
     std::string msg;
     H5Ewalk2(H5E_DEFAULT, H5E_WALK_UPWARD, take_innermost, &msg);
+    // A failed write says "file write failed: time = ..., filename = ..., errno = 28, error message =
+    // 'No space left on device', buf = 0x..., ...": the system's own words are what a user needs.
+    const std::string key = "error message = '";
+    const std::size_t at = msg.find(key);
+    if (at != std::string::npos) {
+        const std::size_t from = at + key.size(), to = msg.find('\'', from);
+        if (to != std::string::npos) return msg.substr(from, to - from);
+    }
     return msg;
 }
 
@@ -104,7 +131,18 @@ bool Handle::close() {
     if (id_ < 0 || !closer_) return true;
     const bool ok = closer_(id_) >= 0;
     id_ = H5I_INVALID_HID;
+    // A dataset that cannot write its last chunks on closing fails here, often in a destructor
+    // that cannot throw: counted, so that the file is not then taken as complete (File::close).
+    if (!ok) {
+        g_close_failure = hdf5_message();
+        ++g_failed_closes;
+    }
     return ok;
+}
+
+void Handle::abandon() noexcept {
+    id_ = H5I_INVALID_HID;
+    closer_ = nullptr;
 }
 
 hid_t check(hid_t id, const Place& where, const std::string& what) {
@@ -165,9 +203,11 @@ File::File(const std::string& actual_path, const std::string& display_name) : na
     // Semi: closing fails while objects are open, instead of deferring the final flush until they
     // close (by then the file may already have been renamed as complete).
     check_status(H5Pset_fclose_degree(fapl.id(), H5F_CLOSE_SEMI), where, "cannot set file close degree");
-    handle_ = Handle(check(H5Fcreate(actual_path.c_str(), H5F_ACC_TRUNC, fcpl.id(), fapl.id()), where,
+    // Exclusive: fails on any existing name, a link included, instead of truncating or following it.
+    handle_ = Handle(check(H5Fcreate(actual_path.c_str(), H5F_ACC_EXCL, fcpl.id(), fapl.id()), where,
                            "cannot create HDF5 file"),
                      H5Fclose);
+    failed_closes_at_open_ = g_failed_closes.load();
 }
 
 Group File::root() const {
@@ -178,7 +218,21 @@ Group File::root() const {
 }
 
 void File::close() {
-    if (!handle_.close()) fail({name_, ""}, "cannot close HDF5 file");
+    const Place where{name_, ""};
+    if (g_failed_closes.load() != failed_closes_at_open_) {
+        g_file_abandoned = true;
+        handle_.abandon();
+        throw Error(name_ + ": cannot write: a group or dataset could not be written out" +
+                    (g_close_failure.empty() ? std::string() : ": " + g_close_failure));
+    }
+    // Flushed first, and checked: a flush that fails (a full disk) leaves the file open in the
+    // library, untouched by any later close (see shut_down_library).
+    if (H5Fflush(handle_.id(), H5F_SCOPE_LOCAL) < 0) {
+        g_file_abandoned = true;
+        handle_.abandon();
+        fail(where, "cannot write");
+    }
+    if (!handle_.close()) fail(where, "cannot close HDF5 file");
 }
 
 Group Group::create_group(const std::string& name) const {
@@ -244,13 +298,11 @@ void Attributes::set_f64_array(const std::string& name, const std::vector<double
 
 // ---------------------------------------------------------------------------------------------
 
-OutputFile::OutputFile(const std::string& path) : path_(path), temporary_(temporary_path_for(path)) {
-    try {
-        file_.emplace(temporary_, path_);
-    } catch (...) {
-        discard();
-        throw;
-    }
+OutputFile::OutputFile(const std::string& path) : path_(path) {
+    temporary_.emplace(path_, [this](const std::string& name) {
+        file_.emplace(name, path_);  // exclusive: TemporaryFile has just seen the name free
+        return true;
+    });
 }
 
 OutputFile::~OutputFile() {
@@ -271,14 +323,13 @@ void OutputFile::commit() {
         throw;
     }
     file_.reset();
-    commit_file(temporary_, path_);  // removes the temporary file itself if the rename fails
+    temporary_->commit();  // removes the temporary file itself if the rename fails
     committed_ = true;
 }
 
 void OutputFile::discard() noexcept {
     file_.reset();  // closes the handle if still open (the file may stay open if objects leaked)
-    std::error_code ec;
-    std::filesystem::remove(temporary_, ec);
+    if (temporary_) temporary_->discard();
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -12,6 +12,8 @@
 #include <string>
 #include <vector>
 
+#include "tools/io/output_file.hpp"
+
 namespace knockon::h5 {
 
 class Error : public std::runtime_error {
@@ -49,6 +51,9 @@ public:
     hid_t id() const { return id_; }
     // Closes now and reports whether the library accepted it (a file's final flush happens here).
     bool close();
+    // Forgets the id without closing it (a file the library failed to flush: closing it again is
+    // what crashed).
+    void abandon() noexcept;
 
 private:
     hid_t id_ = H5I_INVALID_HID;
@@ -98,21 +103,25 @@ private:
 
 class Group;
 
-// An HDF5 file created for writing (truncating any file of that name), with the layout choices of
-// sim/ENGINEERING.md: file format bounds V110..V110 and no object time stamps. Closing fails while a
+// An HDF5 file created for writing, with the layout choices of sim/ENGINEERING.md: file format bounds
+// V110..V110 and no object time stamps.  Created exclusively (H5F_ACC_EXCL): an existing file or a
+// link at `actual_path` makes it fail, it is never truncated or followed.  Closing fails while a
 // group or dataset of it is still open, so a file is never taken as complete too early.
 class File {
 public:
-    // `actual_path` is opened; `display_name` is what messages call it.
+    // `actual_path` is created; `display_name` is what messages call it.
     File(const std::string& actual_path, const std::string& display_name);
     Group root() const;
-    // Closes the file, flushing everything; throws if the library reports a failure.
+    // Flushes everything and closes the file; throws if the library reports a failure then, or
+    // if closing one of its groups or datasets failed earlier (e.g. a full disk).  After a failed
+    // flush the file is left open and the library is not shut down at exit (see hdf5_file.cpp).
     void close();
     const std::string& display_name() const { return name_; }
 
 private:
     std::string name_;
     Handle handle_;
+    unsigned failed_closes_at_open_ = 0;
 };
 
 class Attributes;
@@ -190,9 +199,11 @@ private:
 };
 
 // A File that appears at `path` only when complete: created under a temporary name in the same
-// directory (output_file.hpp), renamed over `path` by commit(). Destroyed without a commit (an
-// exception, an interrupted run), it removes the temporary file, so `path` holds a whole file or
-// nothing new. HDF5's error printing is off while it lives; failures come as h5::Error instead.
+// directory (output_file.hpp: unpredictable, exclusive, removed on SIGINT/SIGTERM/SIGHUP), renamed
+// over `path` by commit().  Destroyed without a commit (an exception, an interrupted run), it
+// removes the temporary file, so `path` holds a whole file or nothing new.  A `path` that exists
+// and is not a regular file is refused (OutputPathError).  HDF5's error printing is off while it
+// lives; failures come as h5::Error instead.
 class OutputFile {
 public:
     explicit OutputFile(const std::string& path);
@@ -207,9 +218,10 @@ public:
 
 private:
     void discard() noexcept;
-    std::string path_, temporary_;
+    std::string path_;
     QuietErrors quiet_;
     std::optional<File> file_;
+    std::optional<TemporaryFile> temporary_;
     bool committed_ = false;
 };
 

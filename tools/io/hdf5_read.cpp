@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cstring>
+#include <limits>
 #include <filesystem>
 #include <fstream>
 
@@ -45,6 +46,16 @@ InputFile::InputFile(const std::string& path) : path_(path) {
     if (!looks_like_hdf5(path_)) throw Error(path_ + ": not an HDF5 file");
     file_ = Handle(check(H5Fopen(path_.c_str(), H5F_ACC_RDONLY, H5P_DEFAULT), where, "cannot open HDF5 file"),
                    H5Fclose);
+    hsize_t size = 0;
+    check_status(H5Fget_filesize(file_.id(), &size), where, "cannot read the file size");
+    file_size_ = static_cast<double>(size);
+}
+
+void InputFile::check_attribute_size(const std::string& object, const std::string& name, double bytes) const {
+    if (bytes > file_size_)
+        throw Error(Place{path_, object}.describe() + ": attribute '" + name + "' declares " +
+                    std::to_string(static_cast<unsigned long long>(bytes)) + " bytes, more than the whole file (" +
+                    std::to_string(static_cast<unsigned long long>(file_size_)) + " bytes)");
 }
 
 bool InputFile::exists(const std::string& object) const {
@@ -68,10 +79,15 @@ Handle InputFile::open_object(const std::string& object) const {
     return Handle(check(H5Oopen(file_.id(), object.c_str(), H5P_DEFAULT), where, "cannot open"), H5Oclose);
 }
 
-Handle InputFile::open_dataset(const std::string& dataset) const {
+hid_t InputFile::open_dataset(const std::string& dataset) const {
+    // The last table stays open: its columns are read one after the other, and an open dataset
+    // keeps its last chunk decompressed in the library's chunk cache (a chunk stays within it).
+    if (dataset == open_path_ && open_.id() >= 0) return open_.id();
     const Place where{path_, dataset};
     if (!exists(dataset)) throw Error(where.describe() + ": missing table");
-    return Handle(check(H5Dopen2(file_.id(), dataset.c_str(), H5P_DEFAULT), where, "not a table"), H5Dclose);
+    open_ = Handle(check(H5Dopen2(file_.id(), dataset.c_str(), H5P_DEFAULT), where, "not a table"), H5Dclose);
+    open_path_ = dataset;
+    return open_.id();
 }
 
 Handle InputFile::open_attribute(const std::string& object, const std::string& name) const {
@@ -110,6 +126,8 @@ std::string InputFile::text_attribute(const std::string& object, const std::stri
         // Variable-length text (as other tools may write it): the library allocates the string.
         const Handle mem(check(H5Tcopy(H5T_C_S1), where, "cannot make a string type"), H5Tclose);
         check_status(H5Tset_size(mem.id(), H5T_VARIABLE), where, "cannot size a string type");
+        // The stored character set (h5py writes UTF-8): the library converts between none.
+        check_status(H5Tset_cset(mem.id(), H5Tget_cset(type.id())), where, "cannot set a character set");
         char* value = nullptr;
         check_status(H5Aread(a.id(), mem.id(), &value), where, "cannot read " + what);
         std::string out = value ? value : "";
@@ -117,6 +135,7 @@ std::string InputFile::text_attribute(const std::string& object, const std::stri
         return out;
     }
     const std::size_t size = H5Tget_size(type.id());
+    check_attribute_size(object, name, static_cast<double>(size));
     std::vector<char> buf(size + 1, '\0');
     check_status(H5Aread(a.id(), type.id(), buf.data()), where, "cannot read " + what);
     return std::string(buf.data(), strnlen(buf.data(), size));
@@ -141,15 +160,39 @@ std::vector<double> InputFile::number_array_attribute(const std::string& object,
     const Handle space(check(H5Aget_space(a.id()), where, "cannot read the shape of " + what), H5Sclose);
     const hssize_t n = H5Sget_simple_extent_npoints(space.id());
     if (n < 0) throw Error(where.describe() + ": cannot read the shape of " + what);
+    check_attribute_size(object, name, static_cast<double>(n) * static_cast<double>(H5Tget_size(type.id())));
     std::vector<double> out(static_cast<std::size_t>(n));
     if (n > 0) check_status(H5Aread(a.id(), H5T_NATIVE_DOUBLE, out.data()), where, "cannot read " + what);
     return out;
 }
 
+std::uint64_t InputFile::whole_attribute(const std::string& object, const std::string& name) const {
+    const Place where{path_, object};
+    const std::string what = "attribute '" + name + "'";
+    const Handle a = open_attribute(object, name);
+    const Handle type(check(H5Aget_type(a.id()), where, "cannot read the type of " + what), H5Tclose);
+    const H5T_class_t c = H5Tget_class(type.id());
+    if (c != H5T_INTEGER)
+        throw Error(where.describe() + ": " + what + " should be a whole number, is " + type_class_name(c));
+    const Handle space(check(H5Aget_space(a.id()), where, "cannot read the shape of " + what), H5Sclose);
+    if (H5Sget_simple_extent_npoints(space.id()) != 1)
+        throw Error(where.describe() + ": " + what + " should be one number");
+    // Read in the stored signedness, so that no value is clipped or wrapped on the way.
+    if (H5Tget_sign(type.id()) == H5T_SGN_NONE) {
+        std::uint64_t v = 0;
+        check_status(H5Aread(a.id(), H5T_NATIVE_UINT64, &v), where, "cannot read " + what);
+        return v;
+    }
+    std::int64_t v = 0;
+    check_status(H5Aread(a.id(), H5T_NATIVE_INT64, &v), where, "cannot read " + what);
+    if (v < 0) throw Error(where.describe() + ": " + what + " is " + std::to_string(v) + ", should not be negative");
+    return static_cast<std::uint64_t>(v);
+}
+
 std::vector<std::string> InputFile::fields(const std::string& dataset) const {
     const Place where{path_, dataset};
-    const Handle d = open_dataset(dataset);
-    const Handle type(check(H5Dget_type(d.id()), where, "cannot read the record type"), H5Tclose);
+    const hid_t d = open_dataset(dataset);
+    const Handle type(check(H5Dget_type(d), where, "cannot read the record type"), H5Tclose);
     if (H5Tget_class(type.id()) != H5T_COMPOUND) throw Error(where.describe() + ": not a table of records");
     const int n = H5Tget_nmembers(type.id());
     std::vector<std::string> out;
@@ -163,17 +206,43 @@ std::vector<std::string> InputFile::fields(const std::string& dataset) const {
 
 std::size_t InputFile::rows(const std::string& dataset) const {
     const Place where{path_, dataset};
-    const Handle d = open_dataset(dataset);
-    const Handle space(check(H5Dget_space(d.id()), where, "cannot read the shape"), H5Sclose);
-    const hssize_t n = H5Sget_simple_extent_npoints(space.id());
-    if (n < 0) throw Error(where.describe() + ": cannot read the shape");
+    const hid_t d = open_dataset(dataset);
+    const Handle space(check(H5Dget_space(d), where, "cannot read the shape"), H5Sclose);
+    if (H5Sget_simple_extent_ndims(space.id()) != 1) throw Error(where.describe() + ": not a 1-D table");
+    hsize_t dims[1] = {0};
+    check(H5Sget_simple_extent_dims(space.id(), dims, nullptr), where, "cannot read the shape");
+    const std::uint64_t n = dims[0];
+    if (n == 0) return 0;
+    // Declared records against the bytes stored: a damaged file may declare 10^8 records in a few
+    // kilobytes, and each column read would allocate for all of them.
+    const Handle type(check(H5Dget_type(d), where, "cannot read the record type"), H5Tclose);
+    const double record = static_cast<double>(H5Tget_size(type.id()));
+    const double stored = static_cast<double>(H5Dget_storage_size(d));
+    const double declared = static_cast<double>(n) * record;
+    if (stored > file_size_ || declared > kMaxDeflateRatio * stored)
+        throw Error(where.describe() + ": declares " + std::to_string(n) + " records (" +
+                    std::to_string(static_cast<unsigned long long>(declared)) + " bytes) but stores " +
+                    std::to_string(static_cast<unsigned long long>(stored)) + " bytes in a file of " +
+                    std::to_string(static_cast<unsigned long long>(file_size_)) +
+                    " bytes; the file is damaged or was not written by knockon");
+    // knockon writes every chunk of a table: one that is missing reads as made-up fill values.
+    const Handle dcpl(check(H5Dget_create_plist(d), where, "cannot read the storage layout"), H5Pclose);
+    if (H5Pget_layout(dcpl.id()) == H5D_CHUNKED) {
+        hsize_t chunk[1] = {0};
+        hsize_t chunks = 0;
+        if (H5Pget_chunk(dcpl.id(), 1, chunk) != 1 || chunk[0] == 0 ||
+            H5Dget_num_chunks(d, space.id(), &chunks) < 0 || chunks < (n + chunk[0] - 1) / chunk[0])
+            throw Error(where.describe() + ": declares " + std::to_string(n) +
+                        " records but does not store them all; the file is damaged or was not written by knockon");
+    }
+    if (n > std::numeric_limits<std::size_t>::max() / 8) throw Error(where.describe() + ": too many records");
     return static_cast<std::size_t>(n);
 }
 
 std::vector<double> InputFile::number_column(const std::string& dataset, const std::string& field) const {
     const Place where{path_, dataset};
-    const Handle d = open_dataset(dataset);
-    const Handle type(check(H5Dget_type(d.id()), where, "cannot read the record type"), H5Tclose);
+    const hid_t d = open_dataset(dataset);
+    const Handle type(check(H5Dget_type(d), where, "cannot read the record type"), H5Tclose);
     const int member = H5Tget_class(type.id()) == H5T_COMPOUND ? H5Tget_member_index(type.id(), field.c_str()) : -1;
     if (member < 0) throw Error(where.describe() + ": no field '" + field + "'");
     const H5T_class_t c = H5Tget_member_class(type.id(), static_cast<unsigned>(member));
@@ -185,15 +254,15 @@ std::vector<double> InputFile::number_column(const std::string& dataset, const s
     // A record type of just this field: the library picks it out of each record and converts it.
     const Handle mem(check(H5Tcreate(H5T_COMPOUND, sizeof(double)), where, "cannot make a record type"), H5Tclose);
     check_status(H5Tinsert(mem.id(), field.c_str(), 0, H5T_NATIVE_DOUBLE), where, "cannot make a record type");
-    check_status(H5Dread(d.id(), mem.id(), H5S_ALL, H5S_ALL, H5P_DEFAULT, out.data()), where,
+    check_status(H5Dread(d, mem.id(), H5S_ALL, H5S_ALL, H5P_DEFAULT, out.data()), where,
                  "cannot read field '" + field + "'");
     return out;
 }
 
 std::vector<std::string> InputFile::text_column(const std::string& dataset, const std::string& field) const {
     const Place where{path_, dataset};
-    const Handle d = open_dataset(dataset);
-    const Handle type(check(H5Dget_type(d.id()), where, "cannot read the record type"), H5Tclose);
+    const hid_t d = open_dataset(dataset);
+    const Handle type(check(H5Dget_type(d), where, "cannot read the record type"), H5Tclose);
     const int member = H5Tget_class(type.id()) == H5T_COMPOUND ? H5Tget_member_index(type.id(), field.c_str()) : -1;
     if (member < 0) throw Error(where.describe() + ": no field '" + field + "'");
     const Handle ftype(check(H5Tget_member_type(type.id(), static_cast<unsigned>(member)), where,
@@ -209,7 +278,7 @@ std::vector<std::string> InputFile::text_column(const std::string& dataset, cons
     const Handle mem(check(H5Tcreate(H5T_COMPOUND, width), where, "cannot make a record type"), H5Tclose);
     check_status(H5Tinsert(mem.id(), field.c_str(), 0, s.id()), where, "cannot make a record type");
     std::vector<char> buf(n * width, '\0');
-    check_status(H5Dread(d.id(), mem.id(), H5S_ALL, H5S_ALL, H5P_DEFAULT, buf.data()), where,
+    check_status(H5Dread(d, mem.id(), H5S_ALL, H5S_ALL, H5P_DEFAULT, buf.data()), where,
                  "cannot read field '" + field + "'");
     out.reserve(n);
     for (std::size_t i = 0; i < n; ++i) {

@@ -2,6 +2,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <limits>
 #include <map>
 
@@ -16,23 +17,118 @@ namespace {
 
 const double kNaN = std::numeric_limits<double>::quiet_NaN();
 
-// The columns of one table, read as needed, with the table's row count checked once.
+// ---- what each number read may hold ------------------------------------------------------------
+// Every number is checked against its rule before it is used or cast, so that a damaged or
+// foreign file is refused naming the first wrong value, no cast is undefined, and no NaN or
+// infinity reaches a report where the layout (HDF5_LAYOUT.md) has none.  A new field gets the
+// rule of its kind here, or a new rule beside these.
+struct Rule {
+    double lo, hi;
+    bool whole = false;    // counts, indices, flags
+    bool nan_ok = false;   // NaN: "does not apply / did not happen" (HDF5_LAYOUT.md)
+    const char* is;        // for messages
+};
+
+// Times and durations: within ±10^9 s (about 30 years) of midnight, so that nothing downstream meets
+// an infinity or a number too large to scale, round or cast.
+constexpr double kSpan = 1e9;
+constexpr double kMaxExact = 9007199254740992.0;   // 2^53: whole numbers above are not exact in a double
+const Rule kFlag{0.0, 1.0, true, false, "a flag (0 or 1)"};
+const Rule kCount{0.0, kMaxExact, true, false, "a count"};
+const Rule kCount32{0.0, 4294967295.0, true, false, "a whole number below 2^32"};
+const Rule kClock{-kSpan, kSpan, false, false, "a time of day in seconds"};
+const Rule kClockOrNaN{-kSpan, kSpan, false, true, "a time of day in seconds, or NaN"};
+const Rule kSeconds{-kSpan, kSpan, false, false, "a duration in seconds"};
+const Rule kSecondsOrNaN{-kSpan, kSpan, false, true, "a duration in seconds, or NaN"};
+const Rule kHalfWidth{0.0, kSpan, false, false, "a half-width (not negative)"};
+const Rule kHalfWidthOrNaN{0.0, kSpan, false, true, "a half-width (not negative), or NaN"};
+const Rule kShare{0.0, 1.0, false, false, "a share from 0 to 1"};
+const Rule kShareOrNaN{0.0, 1.0, false, true, "a share from 0 to 1, or NaN"};
+const Rule kConsumption{0.0, 1e6, false, false, "a capacity consumption (share, not negative)"};
+const Rule kRatio{0.0, kSpan, false, false, "a ratio (not negative)"};
+const Rule kMetres{-kSpan, kSpan, false, false, "a distance in metres"};
+const Rule kMetresOrNaN{-kSpan, kSpan, false, true, "a distance in metres, or NaN"};
+const Rule kSpeed{0.0, 1000.0, false, false, "a speed in m/s"};
+// The motion integration step re-used to plan the scenario again: the commands' --step bounds at the
+// top, and no finer than 0.1 m below (a finer grid would make the plan take gigabytes).
+const Rule kStep{0.1, 50.0, false, false, "a distance step from 0.1 to 50 m"};
+// Punctuality thresholds: --punctuality takes 0 < N <= 1440 minutes.
+const Rule kThreshold{1e-9, 86400.0, false, false, "a threshold from 0 to 86400 s"};
+
+// "holds 1e+300, should be a time of day in seconds"
+std::string wrong(double v, const Rule& r) {
+    char buf[64];
+    std::snprintf(buf, sizeof buf, "%.17g", v);
+    return std::string("holds ") + buf + ", should be " + r.is;
+}
+
+bool obeys(double v, const Rule& r) {
+    if (std::isnan(v)) return r.nan_ok;
+    return v >= r.lo && v <= r.hi && (!r.whole || v == std::floor(v));
+}
+
+// A checked scalar attribute.
+double number(const h5::InputFile& f, const std::string& object, const std::string& name, const Rule& r) {
+    const double v = f.number_attribute(object, name);
+    if (!obeys(v, r)) throw ResultsFileError(f.path() + ": " + object + ": attribute '" + name + "' " + wrong(v, r));
+    return v;
+}
+
+// A checked integer attribute, read exactly (u64 seeds above 2^53 included).
+std::uint64_t whole(const h5::InputFile& f, const std::string& object, const std::string& name,
+                    std::uint64_t hi = UINT64_MAX) {
+    const std::uint64_t v = f.whole_attribute(object, name);
+    if (v > hi)
+        throw ResultsFileError(f.path() + ": " + object + ": attribute '" + name + "' holds " + std::to_string(v) +
+                               ", should be at most " + std::to_string(hi));
+    return v;
+}
+
+// A text attribute that must say something.
+std::string text(const h5::InputFile& f, const std::string& object, const std::string& name) {
+    std::string v = f.text_attribute(object, name);
+    if (v.empty()) throw ResultsFileError(f.path() + ": " + object + ": attribute '" + name + "' is empty");
+    return v;
+}
+
+// The columns of one table, read as needed, each number checked against its rule, with the table's
+// row count checked once (against the bytes it stores: hdf5_read.hpp).
 class Table {
 public:
     Table(const h5::InputFile& f, std::string path) : f_(f), path_(std::move(path)), rows_(f.rows(path_)) {}
     std::size_t rows() const { return rows_; }
-    std::vector<double> num(const std::string& field) const { return f_.number_column(path_, field); }
+    std::vector<double> num(const std::string& field, const Rule& r) const {
+        std::vector<double> out = f_.number_column(path_, field);
+        for (std::size_t i = 0; i < out.size(); ++i)
+            if (!obeys(out[i], r))
+                throw ResultsFileError(f_.path() + ": " + path_ + ": record " + std::to_string(i) + ", field '" + field +
+                                       "' " + wrong(out[i], r));
+        return out;
+    }
     std::vector<std::string> text(const std::string& field) const { return f_.text_column(path_, field); }
     // An index column whose values must lie in [0, limit).
     std::vector<std::uint32_t> index(const std::string& field, std::size_t limit, const std::string& of) const {
         std::vector<std::uint32_t> out;
         out.reserve(rows_);
-        for (double v : num(field)) {
-            if (!(v >= 0.0 && v < static_cast<double>(limit) && v == std::floor(v)))
+        for (double v : num(field, kCount32)) {
+            if (!(v < static_cast<double>(limit)))
                 throw ResultsFileError(f_.path() + ": " + path_ + ": field '" + field + "' holds " +
-                                       std::to_string(v) + ", not a row of " + of + " (" + std::to_string(limit) +
-                                       " rows)");
+                                       std::to_string(static_cast<std::uint64_t>(v)) + ", not a row of " + of + " (" +
+                                       std::to_string(limit) + " rows)");
             out.push_back(static_cast<std::uint32_t>(v));
+        }
+        return out;
+    }
+    // A count column, no larger than `limit` (e.g. the days of the study).
+    std::vector<std::size_t> counts(const std::string& field, std::size_t limit, const std::string& of) const {
+        std::vector<std::size_t> out;
+        out.reserve(rows_);
+        for (double v : num(field, kCount)) {
+            if (v > static_cast<double>(limit))
+                throw ResultsFileError(f_.path() + ": " + path_ + ": field '" + field + "' holds " +
+                                       std::to_string(static_cast<std::uint64_t>(v)) + ", more than " + of + " (" +
+                                       std::to_string(limit) + ")");
+            out.push_back(static_cast<std::size_t>(v));
         }
         return out;
     }
@@ -45,27 +141,39 @@ private:
 };
 
 // The columns of an estimate with its 95 % interval (mean, ci95_half_width, ci95_lower,
-// ci95_upper, n), as /study/summary and /comparison/differences hold them.
+// ci95_upper, n), as /study/summary and /comparison/differences hold them.  Every summary figure
+// has its interval; plan figures among the differences have none (NaN, n = 0).
 class EstimateColumns {
 public:
-    explicit EstimateColumns(const Table& t)
-        : mean_(t.num("mean")), half_(t.num("ci95_half_width")), lower_(t.num("ci95_lower")),
-          upper_(t.num("ci95_upper")), n_(t.num("n")) {}
+    enum class Interval { always, or_nan };
+    EstimateColumns(const Table& t, std::size_t max_n, Interval interval)
+        : mean_(t.num("mean", kSeconds)),
+          half_(t.num("ci95_half_width", interval == Interval::always ? kHalfWidth : kHalfWidthOrNaN)),
+          lower_(t.num("ci95_lower", interval == Interval::always ? kSeconds : kSecondsOrNaN)),
+          upper_(t.num("ci95_upper", interval == Interval::always ? kSeconds : kSecondsOrNaN)),
+          n_(t.counts("n", max_n, "the days simulated")) {}
     Estimate at(std::size_t i) const {
         Estimate e;
         e.mean = mean_[i];
         e.half_width = half_[i];
         e.lower = lower_[i];
         e.upper = upper_[i];
-        e.n = static_cast<std::size_t>(n_[i]);
+        e.n = n_[i];
         return e;
     }
 
 private:
-    std::vector<double> mean_, half_, lower_, upper_, n_;
+    std::vector<double> mean_, half_, lower_, upper_;
+    std::vector<std::size_t> n_;
 };
 
-std::vector<std::string> ids(const h5::InputFile& f, const std::string& table) { return f.text_column(table, "id"); }
+// The ids of a trains or sections table: each must name something.
+std::vector<std::string> ids(const h5::InputFile& f, const std::string& table) {
+    std::vector<std::string> out = f.text_column(table, "id");
+    for (std::size_t i = 0; i < out.size(); ++i)
+        if (out[i].empty()) throw ResultsFileError(f.path() + ": " + table + ": record " + std::to_string(i) + " has an empty id");
+    return out;
+}
 
 Estimate mean_estimate(double mean, double half, std::size_t n) {
     Estimate e;
@@ -86,8 +194,8 @@ void read_deadlock(const h5::InputFile& f, const std::string& g, SimResult& day)
         const Table t(f, g + "/deadlock");
         const auto train = t.index("train", trains, "trains");
         const auto kind = t.text("waits_for"), station = t.text("station"), signal = t.text("signal");
-        const auto chainage = t.num("chainage"), since = t.num("since"), set = t.num("route_set"),
-                   read_from = t.num("read_from");
+        const auto chainage = t.num("chainage", kMetresOrNaN), since = t.num("since", kClockOrNaN),
+                   set = t.num("route_set", kClockOrNaN), read_from = t.num("read_from", kMetresOrNaN);
         for (std::size_t i = 0; i < t.rows(); ++i) {
             const auto waits = wait_from_name(kind[i]);
             if (!waits)
@@ -127,11 +235,11 @@ void read_deadlock(const h5::InputFile& f, const std::string& g, SimResult& day)
 
 SimResult read_day_group(const h5::InputFile& f, const std::string& g) {
     SimResult day;
-    day.events = static_cast<std::uint64_t>(f.number_attribute(g, "events"));
-    day.block_passages = static_cast<std::uint64_t>(f.number_attribute(g, "block_passages"));
-    day.deadlock.deadlocked = f.number_attribute(g, "deadlocked") != 0.0;
+    day.events = whole(f, g, "events");
+    day.block_passages = whole(f, g, "block_passages");
+    day.deadlock.deadlocked = whole(f, g, "deadlocked", 1) != 0;
     day.deadlock.description = f.text_attribute(g, "deadlock_description");
-    day.deadlock.time = f.number_attribute(g, "last_event_time");
+    day.deadlock.time = number(f, g, "last_event_time", kClock);
     day.train_ids = ids(f, g + "/trains");
     day.section_names = ids(f, g + "/sections");
     const std::size_t trains = day.train_ids.size(), sections = day.section_names.size();
@@ -141,13 +249,13 @@ SimResult read_day_group(const h5::InputFile& f, const std::string& g) {
     {
         const Table t(f, g + "/timing");
         const auto train = t.index("train", trains, "trains");
-        const auto call = t.num("call");
+        const auto call = t.num("call", kCount32);
         const auto station = t.text("station");
-        const auto stops = t.num("stops");
-        const auto sa = t.num("scheduled_arrival"), sd = t.num("scheduled_departure");
-        const auto a = t.num("arrival"), d = t.num("departure");
-        const auto ad = t.num("arrival_delay"), dd = t.num("departure_delay");
-        const auto k = t.num("knock_on");
+        const auto stops = t.num("stops", kFlag);
+        const auto sa = t.num("scheduled_arrival", kClockOrNaN), sd = t.num("scheduled_departure", kClockOrNaN);
+        const auto a = t.num("arrival", kClockOrNaN), d = t.num("departure", kClockOrNaN);
+        const auto ad = t.num("arrival_delay", kSecondsOrNaN), dd = t.num("departure_delay", kSecondsOrNaN);
+        const auto k = t.num("knock_on", kSeconds);
         day.timing.resize(t.rows());
         for (std::size_t i = 0; i < t.rows(); ++i) {
             TimingRecord& r = day.timing[i];
@@ -168,8 +276,9 @@ SimResult read_day_group(const h5::InputFile& f, const std::string& g) {
         const Table t(f, g + "/occupancy");
         const auto train = t.index("train", trains, "trains");
         const auto section = t.index("section", sections, "sections");
-        const auto lk = t.num("locked"), he = t.num("head_enters"), hl = t.num("head_leaves");
-        const auto tc = t.num("tail_clears"), rl = t.num("released");
+        const auto lk = t.num("locked", kClockOrNaN), he = t.num("head_enters", kClockOrNaN),
+                   hl = t.num("head_leaves", kClockOrNaN);
+        const auto tc = t.num("tail_clears", kClockOrNaN), rl = t.num("released", kClockOrNaN);
         day.sections.resize(t.rows());
         for (std::size_t i = 0; i < t.rows(); ++i)
             day.sections[i] = {train[i], section[i], lk[i], he[i], hl[i], tc[i], rl[i]};
@@ -178,53 +287,83 @@ SimResult read_day_group(const h5::InputFile& f, const std::string& g) {
         const Table t(f, g + "/holds");
         const auto train = t.index("train", trains, "trains");
         const auto signal = t.text("signal");
-        const auto from = t.num("from"), to = t.num("to");
+        const auto from = t.num("from", kClock), to = t.num("to", kClockOrNaN);
         day.holds.resize(t.rows());
         for (std::size_t i = 0; i < t.rows(); ++i) day.holds[i] = {train[i], signal[i], from[i], to[i]};
     }
     {
         const Table t(f, g + "/trajectories");
         const auto train = t.index("train", trains, "trains");
-        const auto time = t.num("time"), pos = t.num("position"), ch = t.num("chainage"), v = t.num("speed");
+        const auto time = t.num("time", kClock), pos = t.num("position", kMetres);
+        const auto ch = t.num("chainage", kMetresOrNaN), v = t.num("speed", kSpeed);
         day.samples.resize(t.rows());
         for (std::size_t i = 0; i < t.rows(); ++i) day.samples[i] = {train[i], time[i], pos[i], ch[i], v[i]};
     }
     return day;
 }
 
+// The punctuality thresholds of a study: at least one, each as --punctuality allows, ascending, and
+// each with a field name of its own (the per_day, summary and timing_points fields are named after them).
+std::vector<double> read_thresholds(const h5::InputFile& f, const std::string& g) {
+    std::vector<double> out = f.number_array_attribute(g, "thresholds_s");
+    const std::string where = f.path() + ": " + g + ": attribute 'thresholds_s' ";
+    if (out.empty()) throw ResultsFileError(where + "is empty; a study has at least one punctuality threshold");
+    for (std::size_t i = 0; i < out.size(); ++i) {
+        if (!obeys(out[i], kThreshold)) throw ResultsFileError(where + wrong(out[i], kThreshold));
+        if (i > 0 && !(out[i] > out[i - 1])) throw ResultsFileError(where + "is not in ascending order");
+        if (i > 0 && punctuality_field(out[i]) == punctuality_field(out[i - 1]))
+            throw ResultsFileError(where + "holds two thresholds of the same field name " + punctuality_field(out[i]));
+    }
+    return out;
+}
+
 StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
     StoredStudy out;
     StudySummary& s = out.summary;
-    s.replications = static_cast<std::size_t>(f.number_attribute(g, "replications"));
-    s.deadlocked = static_cast<std::size_t>(f.number_attribute(g, "deadlocked_days"));
+    s.replications = whole(f, g, "replications", UINT32_MAX);
+    if (s.replications == 0) throw ResultsFileError(f.path() + ": " + g + ": attribute 'replications' is 0; a study has days");
+    s.deadlocked = whole(f, g, "deadlocked_days", s.replications);
     // Schema 3 and older kept deadlocked days in the figures and did not count the complete ones.
-    s.complete = f.has_attribute(g, "complete_days") ? static_cast<std::size_t>(f.number_attribute(g, "complete_days"))
-                                                     : s.replications - std::min(s.deadlocked, s.replications);
+    s.complete = f.has_attribute(g, "complete_days") ? whole(f, g, "complete_days", s.replications - s.deadlocked)
+                                                     : s.replications - s.deadlocked;
     if (f.has_attribute(g, "first_deadlock_replication")) {
         DeadlockedDay d;
-        d.replication = static_cast<std::uint32_t>(f.number_attribute(g, "first_deadlock_replication"));
+        d.replication = static_cast<std::uint32_t>(whole(f, g, "first_deadlock_replication", s.replications - 1));
         d.report.deadlocked = true;
-        d.report.time = f.number_attribute(g, "first_deadlock_time");
+        d.report.time = number(f, g, "first_deadlock_time", kClock);
         d.report.cause = f.text_attribute(g, "first_deadlock_cause");
         d.report.description = f.text_attribute(g, "first_deadlock_description");
         s.first_deadlock = std::move(d);
     }
-    s.knock_on_ratio = f.number_attribute(g, "knock_on_ratio");
-    s.thresholds = f.number_array_attribute(g, "thresholds_s");
-    out.partial = f.number_attribute(g, "partial") != 0.0;
+    s.knock_on_ratio = number(f, g, "knock_on_ratio", kRatio);
+    s.thresholds = read_thresholds(f, g);
+    out.partial = whole(f, g, "partial", 1) != 0;
     out.train_ids = ids(f, g + "/trains_index");
     out.section_ids = ids(f, g + "/sections_index");
     const std::size_t trains = out.train_ids.size(), sections = out.section_ids.size();
+    const std::size_t days = s.replications;
     std::vector<std::string> fields;
     for (double t : s.thresholds) fields.push_back(punctuality_field(t));
 
     {
         const Table t(f, g + "/per_day");
-        const auto rep = t.num("replication"), dl = t.num("deadlocked"), ev = t.num("events"),
-                   bp = t.num("block_passages"), pr = t.num("total_primary"), ko = t.num("total_knock_on"),
-                   ma = t.num("mean_arrival_delay");
+        if (t.rows() != days)
+            throw ResultsFileError(f.path() + ": " + t.path() + ": holds " + std::to_string(t.rows()) +
+                                   " records for the " + std::to_string(days) + " days of attribute 'replications'");
+        const auto rep = t.num("replication", kCount32), dl = t.num("deadlocked", kFlag), ev = t.num("events", kCount),
+                   bp = t.num("block_passages", kCount), pr = t.num("total_primary", kSeconds),
+                   ko = t.num("total_knock_on", kSeconds), ma = t.num("mean_arrival_delay", kSecondsOrNaN);
         std::vector<std::vector<double>> punct;
-        for (const std::string& name : fields) punct.push_back(t.num(name));
+        for (const std::string& name : fields) punct.push_back(t.num(name, kShareOrNaN));
+        // A deadlocked day has no arrival delay or punctuality (NaN); a complete day must have them.
+        for (std::size_t i = 0; i < t.rows(); ++i) {
+            if (dl[i] != 0.0) continue;
+            bool nan = std::isnan(ma[i]);
+            for (const auto& column : punct) nan = nan || std::isnan(column[i]);
+            if (nan)
+                throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) +
+                                       " is of a complete day but holds NaN for its arrival delay or punctuality");
+        }
         out.per_day.resize(t.rows());
         for (std::size_t i = 0; i < t.rows(); ++i) {
             ReplicationStats& r = out.per_day[i];
@@ -241,7 +380,7 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
     {
         const Table t(f, g + "/summary");
         const auto figure = t.text("figure");
-        const EstimateColumns estimates(t);
+        const EstimateColumns estimates(t, days, EstimateColumns::Interval::always);
         auto find = [&](const std::string& name) {
             const auto it = std::find(figure.begin(), figure.end(), name);
             if (it == figure.end())
@@ -257,23 +396,36 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
         const Table t(f, g + "/timing_points");
         const auto train = t.index("train", trains, "trains_index");
         const auto station = t.text("station");
-        const auto stops = t.num("stops"), reached = t.num("reached");
-        const auto dm = t.num("delay_mean"), dh = t.num("delay_ci95_half_width");
-        const auto p50 = t.num("p50"), p90 = t.num("p90"), p95 = t.num("p95"), mx = t.num("max");
-        const auto km = t.num("knock_on_mean"), kh = t.num("knock_on_ci95_half_width");
+        const auto stops = t.num("stops", kFlag);
+        const auto reached = t.counts("reached", days, "the days simulated");
+        const auto dm = t.num("delay_mean", kSecondsOrNaN), dh = t.num("delay_ci95_half_width", kHalfWidthOrNaN);
+        const auto p50 = t.num("p50", kSecondsOrNaN), p90 = t.num("p90", kSecondsOrNaN),
+                   p95 = t.num("p95", kSecondsOrNaN), mx = t.num("max", kSecondsOrNaN);
+        const auto km = t.num("knock_on_mean", kSeconds), kh = t.num("knock_on_ci95_half_width", kHalfWidth);
         std::vector<std::vector<double>> share, lower, upper;
         for (const std::string& name : fields) {
-            share.push_back(t.num(name + "_share"));
-            lower.push_back(t.num(name + "_lower"));
-            upper.push_back(t.num(name + "_upper"));
+            share.push_back(t.num(name + "_share", kShareOrNaN));
+            lower.push_back(t.num(name + "_lower", kShareOrNaN));
+            upper.push_back(t.num(name + "_upper", kShareOrNaN));
         }
+        // NaN there says "no day got there": only where no day did.
+        auto reached_yet_nan = [&](std::size_t i) -> const char* {
+            for (const auto* column : {&dm, &dh, &p50, &p90, &p95, &mx})
+                if (std::isnan((*column)[i])) return "a delay figure";
+            for (std::size_t k = 0; k < fields.size(); ++k)
+                if (std::isnan(share[k][i]) || std::isnan(lower[k][i]) || std::isnan(upper[k][i])) return "a share";
+            return nullptr;
+        };
         s.timing_points.resize(t.rows());
         for (std::size_t i = 0; i < t.rows(); ++i) {
+            if (const char* what = reached[i] > 0 ? reached_yet_nan(i) : nullptr)
+                throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) + ": " + what +
+                                       " is NaN though the train got there on " + std::to_string(reached[i]) + " days");
             TimingPointStats& tp = s.timing_points[i];
             tp.train = train[i];
             tp.station = station[i];
             tp.stops = stops[i] != 0.0;
-            tp.reached = static_cast<std::size_t>(reached[i]);
+            tp.reached = reached[i];
             tp.delay = mean_estimate(dm[i], dh[i], tp.reached);
             tp.knock_on = mean_estimate(km[i], kh[i], s.complete);
             tp.delay_quantiles = {p50[i], p90[i], p95[i], mx[i]};
@@ -291,9 +443,9 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
     {
         const Table t(f, g + "/trains");
         const auto train = t.index("train", trains, "trains_index");
-        const auto pm = t.num("primary_mean"), ph = t.num("primary_ci95_half_width");
-        const auto km = t.num("knock_on_mean"), kh = t.num("knock_on_ci95_half_width");
-        const auto fm = t.num("final_delay_mean"), fh = t.num("final_delay_ci95_half_width");
+        const auto pm = t.num("primary_mean", kSeconds), ph = t.num("primary_ci95_half_width", kHalfWidth);
+        const auto km = t.num("knock_on_mean", kSeconds), kh = t.num("knock_on_ci95_half_width", kHalfWidth);
+        const auto fm = t.num("final_delay_mean", kSeconds), fh = t.num("final_delay_ci95_half_width", kHalfWidth);
         for (std::size_t i = 0; i < t.rows(); ++i)
             s.trains.push_back({train[i], mean_estimate(pm[i], ph[i], s.complete),
                                 mean_estimate(km[i], kh[i], s.complete),
@@ -302,14 +454,14 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
     {
         const Table t(f, g + "/signals");
         const auto signal = t.text("signal");
-        const auto hm = t.num("held_mean"), hh = t.num("held_ci95_half_width");
+        const auto hm = t.num("held_mean", kSeconds), hh = t.num("held_ci95_half_width", kHalfWidth);
         for (std::size_t i = 0; i < t.rows(); ++i)
             s.signals.push_back({signal[i], mean_estimate(hm[i], hh[i], s.complete)});
     }
     {
         const Table t(f, g + "/sections");
         const auto section = t.index("section", sections, "sections_index");
-        const auto bm = t.num("blocked_share_mean"), bh = t.num("blocked_share_ci95_half_width");
+        const auto bm = t.num("blocked_share_mean", kShare), bh = t.num("blocked_share_ci95_half_width", kHalfWidth);
         s.section_blocked_share.assign(sections, Estimate{});
         for (std::size_t i = 0; i < t.rows(); ++i)
             s.section_blocked_share[section[i]] = mean_estimate(bm[i], bh[i], s.complete);
@@ -320,13 +472,15 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
         const auto follower = t.index("follower", trains, "trains_index");
         const auto line = t.text("line_section");
         const auto section = t.index("section", sections, "sections_index");
-        const auto planned = t.num("planned"), am = t.num("as_run_mean"), ah = t.num("as_run_ci95_half_width");
-        const auto p10 = t.num("p10"), n = t.num("n");
+        const auto planned = t.num("planned", kSeconds), am = t.num("as_run_mean", kSeconds),
+                   ah = t.num("as_run_ci95_half_width", kHalfWidth);
+        const auto p10 = t.num("p10", kSeconds);
+        const auto n = t.counts("n", days, "the days simulated");
         for (std::size_t i = 0; i < t.rows(); ++i) {
             BufferStats b;
             b.pair = i;
             b.planned = planned[i];
-            b.as_run = mean_estimate(am[i], ah[i], static_cast<std::size_t>(n[i]));
+            b.as_run = mean_estimate(am[i], ah[i], n[i]);
             b.p10 = p10[i];
             s.buffers.push_back(b);
             out.buffer_pairs.push_back(
@@ -340,10 +494,17 @@ void read_comparison(const h5::InputFile& f, ResultsFile& out) {
     {
         const Table t(f, "/comparison/variants");
         const auto name = t.text("name"), description = t.text("description");
-        const auto pairs = t.num("headway_pairs"), headway = t.num("mean_minimum_headway");
-        const auto peak = t.num("peak_hour_consumption"), day = t.num("day_consumption");
+        const auto pairs = t.num("headway_pairs", kCount), headway = t.num("mean_minimum_headway", kSeconds);
+        const auto peak = t.num("peak_hour_consumption", kConsumption), day = t.num("day_consumption", kConsumption);
         const auto peak_at = t.text("peak_hour_line_section"), day_at = t.text("day_line_section");
         for (std::size_t i = 0; i < t.rows(); ++i) {
+            // A name is a group under /variants: one step, and each variant once.
+            if (name[i].empty() || name[i].find('/') != std::string::npos || name[i] == "." || name[i] == "..")
+                throw ResultsFileError(f.path() + ": /comparison/variants: record " + std::to_string(i) +
+                                       ": '" + name[i] + "' is not a variant name");
+            if (std::find(name.begin(), name.begin() + static_cast<std::ptrdiff_t>(i), name[i]) !=
+                name.begin() + static_cast<std::ptrdiff_t>(i))
+                throw ResultsFileError(f.path() + ": /comparison/variants: variant '" + name[i] + "' is listed twice");
             VariantFigures v;
             v.name = name[i];
             v.description = description[i];
@@ -354,6 +515,9 @@ void read_comparison(const h5::InputFile& f, ResultsFile& out) {
             v.plan.day_consumption = day[i];
             v.plan.day_section = day_at[i];
             v.study = read_study_group(f, "/variants/" + v.name);
+            if (!out.variants.empty() && v.study.summary.thresholds != out.variants.front().study.summary.thresholds)
+                throw ResultsFileError(f.path() + ": /variants/" + v.name +
+                                       ": attribute 'thresholds_s' differs from that of the first variant");
             out.variants.push_back(std::move(v));
         }
     }
@@ -362,7 +526,7 @@ void read_comparison(const h5::InputFile& f, ResultsFile& out) {
                                std::to_string(out.variants.size()));
     const Table t(f, "/comparison/differences");
     const auto variant = t.text("variant"), figure = t.text("figure"), unit = t.text("unit");
-    const EstimateColumns estimates(t);
+    const EstimateColumns estimates(t, out.facts.replications, EstimateColumns::Interval::or_nan);
     for (std::size_t i = 0; i < t.rows(); ++i)
         out.differences.push_back({variant[i], figure[i], unit[i], estimates.at(i)});
 }
@@ -374,11 +538,12 @@ ResultsFacts read_facts(const h5::InputFile& f) {
     if (f.text_attribute("/", "program") != "knockon")
         throw ResultsFileError(f.path() + ": not a knockon results file (written by '" +
                                f.text_attribute("/", "program") + "')");
-    r.schema_version = static_cast<int>(f.number_attribute("/", "schema_version"));
-    if (r.schema_version > kSimHdf5SchemaVersion)
-        throw ResultsFileError(f.path() + ": schema version " + std::to_string(r.schema_version) +
+    const std::uint64_t schema = whole(f, "/", "schema_version");
+    if (schema > static_cast<std::uint64_t>(kSimHdf5SchemaVersion))
+        throw ResultsFileError(f.path() + ": schema version " + std::to_string(schema) +
                                " is newer than this knockon reads (up to " + std::to_string(kSimHdf5SchemaVersion) +
                                ")");
+    r.schema_version = static_cast<int>(schema);
     // Schema 1 day files lack the kind attribute and the knock-on of each timing record.
     if (r.schema_version < 2)
         throw ResultsFileError(f.path() + ": schema version " + std::to_string(r.schema_version) +
@@ -390,25 +555,30 @@ ResultsFacts read_facts(const h5::InputFile& f) {
     else
         throw ResultsFileError(f.path() + ": root attribute kind is '" + kind +
                                "'; known kinds: day, study, comparison");
-    r.program_version = f.text_attribute("/", "program_version");
-    r.scenario_file = f.text_attribute("/", "scenario_file");
+    r.program_version = text(f, "/", "program_version");
+    r.scenario_file = text(f, "/", "scenario_file");
     r.scenario_name = f.text_attribute("/", "scenario_name");
-    r.command_line = f.text_attribute("/", "command_line");
+    r.command_line = text(f, "/", "command_line");
     r.caution = f.has_attribute("/", "caution") ? f.text_attribute("/", "caution") : std::string();
-    r.seed = static_cast<std::uint64_t>(f.number_attribute("/", "seed"));
-    r.variant = f.has_attribute("/", "variant") ? f.text_attribute("/", "variant") : std::string();
-    r.step = f.has_attribute("/", "step_m") ? f.number_attribute("/", "step_m") : kNaN;
-    if (r.kind != ResultsKind::day) r.replications = static_cast<std::uint32_t>(f.number_attribute("/", "replications"));
-    if (r.kind == ResultsKind::study) r.partial = f.number_attribute("/", "partial") != 0.0;
+    r.seed = whole(f, "/", "seed");
+    r.variant = f.has_attribute("/", "variant") ? text(f, "/", "variant") : std::string();
+    r.step = f.has_attribute("/", "step_m") ? number(f, "/", "step_m", kStep) : kNaN;
+    if (r.kind != ResultsKind::day) {
+        r.replications = static_cast<std::uint32_t>(whole(f, "/", "replications", UINT32_MAX));
+        if (r.replications == 0) throw ResultsFileError(f.path() + ": root attribute 'replications' is 0");
+    }
+    if (r.kind == ResultsKind::study) r.partial = whole(f, "/", "partial", 1) != 0;
     return r;
 }
 
-// Replication numbers of the /replications/<k> groups (six or more digits).
-std::vector<std::uint32_t> traced_replications(const h5::InputFile& f) {
+// Replication numbers of the /replications/<k> groups (six or more digits), each a day of the study.
+std::vector<std::uint32_t> traced_replications(const h5::InputFile& f, std::size_t days) {
     std::vector<std::uint32_t> out;
     for (const std::string& name : f.members("/replications")) {
-        if (name.empty() || name.find_first_not_of("0123456789") != std::string::npos || name.size() > 9)
-            throw ResultsFileError(f.path() + ": /replications/" + name + ": not a replication number");
+        if (name.empty() || name.find_first_not_of("0123456789") != std::string::npos || name.size() > 9 ||
+            std::stoul(name) >= days)
+            throw ResultsFileError(f.path() + ": /replications/" + name + ": not a replication number of the " +
+                                   std::to_string(days) + " days");
         out.push_back(static_cast<std::uint32_t>(std::stoul(name)));
     }
     std::sort(out.begin(), out.end());
@@ -436,8 +606,12 @@ ResultsFile read_results(const std::string& path) {
             case ResultsKind::day: out.day = read_day_group(f, "/day"); break;
             case ResultsKind::study:
                 out.study = read_study_group(f, "/study");
-                out.traces = f.text_attribute("/replications", "traces");
-                out.traced = traced_replications(f);
+                if (out.study->summary.replications != out.facts.replications)
+                    throw ResultsFileError(path + ": /study: attribute 'replications' (" +
+                                           std::to_string(out.study->summary.replications) +
+                                           ") differs from the root's (" + std::to_string(out.facts.replications) + ")");
+                out.traces = text(f, "/replications", "traces");
+                out.traced = traced_replications(f, out.study->summary.replications);
                 break;
             case ResultsKind::comparison: read_comparison(f, out); break;
         }

@@ -21,6 +21,7 @@
 #include "sim/study.hpp"
 #include "tools/io/comparison_hdf5.hpp"
 #include "tools/io/deadlock_output.hpp"
+#include "tools/io/output_file.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/knockon/interrupt.hpp"
@@ -348,6 +349,7 @@ int compare(const std::vector<std::string>& args) {
     opt.thresholds = punctuality_thresholds(vm);
     opt.sim.run.step = step_option(vm);
     const std::uint64_t seed = count_option(vm, "seed", 0, UINT64_MAX);
+    if (vm.count("out")) check_output_path(vm["out"].as<std::string>(), {file});
 
     std::vector<VariantInfo> known = read_variants(file);
     std::vector<std::string> names;
@@ -383,6 +385,12 @@ int compare(const std::vector<std::string>& args) {
         std::fprintf(stderr, "knockon compare: note: %s has no `delays:` section, so every day is the same\n",
                      file.c_str());
 
+    // Ctrl-C stops the running study after its batch; a comparison pairs whole studies, so only
+    // the variants that finished are compared (and no file is written: it would not be the one
+    // asked for).  In place before the results file exists, so that its first Ctrl-C is this one.
+    const InterruptGuard interrupt;
+    opt.stop = interrupt.stop_flag();
+
     // --out: created now under a temporary name, so a bad path fails before the studies run; it
     // appears at its path only once complete.
     std::unique_ptr<ComparisonHdf5Writer> out;
@@ -396,11 +404,6 @@ int compare(const std::vector<std::string>& args) {
         out = std::make_unique<ComparisonHdf5Writer>(vm["out"].as<std::string>(), info);
     }
 
-    // Ctrl-C stops the running study after its batch; a comparison pairs whole studies, so only
-    // the variants that finished are compared (and no file is written: it would not be the one
-    // asked for).
-    const InterruptGuard interrupt;
-    opt.stop = interrupt.stop_flag();
     std::vector<std::string> not_compared;
     const bool tty = ::isatty(2);
     for (std::size_t v = 0; v < runs.size(); ++v) {

@@ -1,15 +1,17 @@
 // knockon: command-line entry.  Each subcommand lives in its own file; this one dispatches and
 // turns every failure into a message and an exit status (0 ok, 1 failure while running,
 // 2 bad input or usage, 3 a simulated day, or days of a study or comparison, ended in deadlock and
-// --allow-deadlock was not given; 130 interrupted).
+// --allow-deadlock was not given; killed by a signal: see interrupt.hpp).
 #include <cstdio>
 #include <cstring>
 #include <exception>
 #include <string>
 #include <vector>
 
+#include "tools/io/output_file.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/knockon/commands.hpp"
+#include "tools/knockon/interrupt.hpp"
 
 namespace {
 
@@ -38,6 +40,7 @@ void usage(std::FILE* to) {
 }  // namespace
 
 int main(int argc, char** argv) {
+    knockon::cli::install_signal_handlers();   // SIGINT/SIGTERM/SIGHUP leave no temporary file
     if (argc < 2) {
         usage(stderr);
         return 2;
@@ -69,6 +72,9 @@ int main(int argc, char** argv) {
                      e.messages.size() == 1 ? "" : "s");
         return 2;
     } catch (const knockon::cli::UsageError& e) {
+        std::fprintf(stderr, "knockon %s: %s\n", command.c_str(), e.what());
+        return 2;
+    } catch (const knockon::OutputPathError& e) {   // an output path that must not be written
         std::fprintf(stderr, "knockon %s: %s\n", command.c_str(), e.what());
         return 2;
     } catch (const std::exception& e) {

@@ -16,6 +16,7 @@
 #include "tools/io/shard_hdf5.hpp"
 #include "tools/io/study_hdf5.hpp"
 #include "tools/knockon/options.hpp"
+#include "tools/io/output_file.hpp"
 #include "tools/knockon/study_output.hpp"
 
 namespace knockon::cli {
@@ -119,6 +120,7 @@ int merge(const std::vector<std::string>& args) {
     if (!vm.count("parts")) throw UsageError("shard files are required: knockon merge PART.h5... -o STUDY.h5");
     if (!vm.count("out")) throw UsageError("-o STUDY.h5 is required: the merged study file");
     const std::vector<std::string> parts = vm["parts"].as<std::vector<std::string>>();
+    check_output_path(vm["out"].as<std::string>(), parts);
 
     // Every check before anything is written.
     std::vector<ShardFile> shards;

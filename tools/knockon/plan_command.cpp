@@ -28,8 +28,11 @@ int plan(const std::vector<std::string>& args) {
         std::error_code ec;
         std::filesystem::create_directories(dir, ec);
         if (ec) throw std::runtime_error(dir + ": cannot create directory: " + ec.message());
-        for (const Table& t : plan_tables(scenario, result))
-            write_file_atomically((std::filesystem::path(dir) / (t.name + ".csv")).string(), to_csv(t));
+        for (const Table& t : plan_tables(scenario, result)) {
+            const std::string file = (std::filesystem::path(dir) / (t.name + ".csv")).string();
+            check_output_path(file, {vm["scenario"].as<std::string>()});
+            write_file_atomically(file, to_csv(t));
+        }
     }
     if (vm.count("json"))
         std::printf("%s\n", plan_json(scenario, result).dump(1).c_str());

@@ -53,6 +53,8 @@ int plot(const std::vector<std::string>& args) {
     if (chart != "time-distance" && (request.all || request.from || request.to))
         throw UsageError("--from, --to and --all apply to --chart time-distance only");
     const std::string input = vm["input"].as<std::string>();
+    const std::string path = vm["svg"].as<std::string>();
+    check_output_path(path, {input});
     const bool results = is_results_file(input);
     if (!results && chart != "time-distance" && chart != "capacity") {
         const std::vector<std::string> a = result_chart_names(ResultsKind::study);
@@ -67,6 +69,7 @@ int plot(const std::vector<std::string>& args) {
     PlanResult plan;
     if (results) {
         in = open_results(input, vm);
+        check_output_path(path, {input, in->scenario_path});
     } else {
         refuse_results_options(vm);
         refuse_day_options(vm);
@@ -105,7 +108,6 @@ int plot(const std::vector<std::string>& args) {
     if (in)
         if (const std::string notice = results_deadlock_notice(in->view); !notice.empty())
             doc = with_alert(std::move(doc), notice);
-    const std::string path = vm["svg"].as<std::string>();
     write_file_atomically(path, svg::to_string(doc, true));
     std::printf("wrote %s\n", path.c_str());
     return 0;

@@ -95,11 +95,13 @@ int report(const std::vector<std::string>& args) {
     const WindowRequest request = window_request(vm);
     const std::string input = vm["input"].as<std::string>();
     const std::string path = vm["output"].as<std::string>();
+    check_output_path(path, {input});
 
     PlanReportOptions ro;
     ro.command_line = command_line("report", args);
     if (is_results_file(input)) {
         const std::unique_ptr<ResultsInput> in = open_results(input, vm);
+        check_output_path(path, {input, in->scenario_path});
         ro.window = checked_window(in->plan, request, &ro.window_reason);
         ro.as_run = in->as_run ? &*in->as_run : nullptr;
         ro.as_run_note = in->as_run_note;

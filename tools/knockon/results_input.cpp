@@ -97,7 +97,8 @@ std::unique_ptr<ResultsInput> open_results(const std::string& path, const po::va
     else variant = f.facts.variant;
     double step = vm["step"].as<double>();
     if (vm["step"].defaulted() && std::isfinite(f.facts.step) && f.facts.step > 0.0) step = f.facts.step;
-    in->scenario = read_scenario(scenario_path(f, vm), variant);
+    in->scenario_path = scenario_path(f, vm);
+    in->scenario = read_scenario(in->scenario_path, variant);
     in->plan = make_plan(in->scenario, RunOptions{step});
 
     // The day drawn over the plan.

@@ -26,6 +26,7 @@ bool is_results_file(const std::string& path);
 
 struct ResultsInput {
     ResultsFile file;
+    std::string scenario_path;               // the scenario file read (stored, or --scenario)
     Scenario scenario;
     PlanResult plan;
     std::optional<SimResult> traced_day;     // study: the chosen traced day

@@ -15,6 +15,7 @@
 #include "sim/simulation.hpp"
 #include "sim/study.hpp"
 #include "tools/io/deadlock_output.hpp"
+#include "tools/io/output_file.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_hash.hpp"
 #include "tools/io/scenario_reader.hpp"
@@ -292,6 +293,8 @@ int simulate(const std::vector<std::string>& args) {
     so.run.step = step_option(vm);
     // Checked before any work: thresholds that would share a results field are refused.
     const std::vector<double> thresholds = punctuality_thresholds(vm);
+
+    if (vm.count("out")) check_output_path(vm["out"].as<std::string>(), {vm["scenario"].as<std::string>()});
 
     const std::string variant = vm.count("variant") ? vm["variant"].as<std::string>() : std::string();
     const std::string scenario_path = vm["scenario"].as<std::string>();
