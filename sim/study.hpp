@@ -105,6 +105,7 @@ struct StudySummary {
     std::optional<DeadlockedDay> first_deadlock;
     std::vector<double> thresholds;
     Estimate total_primary, total_knock_on, mean_arrival_delay;
+    Estimate moved_crossings, changed_orders;   // per day (SimResult::crossing_changes)
     double knock_on_ratio = 0.0;        // mean knock-on / mean primary per day
     std::vector<Estimate> punctuality;  // per threshold, per-day shares averaged
     std::vector<TimingPointStats> timing_points;

@@ -44,6 +44,8 @@ ReplicationFigures replication_figures(const SimModel& model, const SimResult& d
         s.total_knock_on += tr.knock_on;
     }
     for (const HoldRecord& h : day.holds) r.held[h.signal] += h.to - h.from;
+    for (const CrossingChange& c : day.crossing_changes)
+        ++(c.kind == CrossingChange::Kind::moved_crossing ? s.moved_crossings : s.changed_orders);
     r.section_blocked.assign(day.section_names.size(), 0.0f);
     for (const SectionRecord& sr : day.sections)
         if (!std::isnan(sr.released) && !std::isnan(sr.locked))
