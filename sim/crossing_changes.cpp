@@ -15,29 +15,37 @@ constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 constexpr double kEps = 1e-6;
 constexpr std::size_t kNoPlace = static_cast<std::size_t>(-1);
 
-// As run: per (train, global section) the record's head entry and its blocking start.
+// As run: per (train, global section) the record, and per train and stretch use (in
+// SimModel::Train::stretch_uses order) when it began: worked out once, read for every pair.
 struct AsRun {
     std::map<std::pair<std::uint32_t, std::uint32_t>, const SectionRecord*> records;
+    std::vector<std::vector<double>> use_starts;
     const SectionRecord* of(std::uint32_t t, std::uint32_t g) const {
         const auto it = records.find({t, g});
         return it == records.end() ? nullptr : it->second;
     }
 };
 
-// When train t's use u of a stretch began: planned, or as run (NaN if it never got there).
-double use_start(const SimModel::Train& tr, std::uint32_t t, const StretchUse& u, const AsRun* as_run) {
-    if (!as_run) return u.start;
-    // Blocked from its first lock; it counts once its head entered some section of the stretch
-    // (sections beyond a stop at the path's end are held as overlap, never entered).
+// When train t's use u of a stretch began as run: blocked from its first lock; it counts once its
+// head entered some section of the stretch (sections beyond a stop at the path's end are held as
+// overlap, never entered); NaN if it never got there.
+double as_run_start(const SimModel::Train& tr, std::uint32_t t, const StretchUse& u, const AsRun& as_run) {
     double start = std::numeric_limits<double>::infinity();
     bool entered = false;
     for (std::uint32_t k = u.first; k < u.end; ++k) {
-        const SectionRecord* r = as_run->of(t, tr.section_index[k]);
+        const SectionRecord* r = as_run.of(t, tr.section_index[k]);
         if (!r) continue;
         start = std::min(start, r->locked);
         entered = entered || !std::isnan(r->head_enters);
     }
     return entered ? start : kNaN;
+}
+
+// When train t's use of stretch s began: planned, or as run.
+double use_start(const SimModel::Train& tr, std::uint32_t t, std::int32_t s, const AsRun* as_run) {
+    const StretchUse* u = tr.use_of(s);
+    if (!as_run) return u->start;
+    return as_run->use_starts[t][static_cast<std::size_t>(u - tr.stretch_uses.data())];
 }
 
 // The place where the order of a and b flips over their shared stretches (by chainage), or
@@ -54,8 +62,8 @@ Flip flip_place(const SimModel& model, const std::vector<std::int32_t>& shared, 
     // a_first[i]: a passed shared stretch i (by chainage) before b.
     std::vector<char> a_first;
     for (std::int32_t s : shared) {
-        const double ta = use_start(trains[a], a, *trains[a].use_of(s), as_run);
-        const double tb = use_start(trains[b], b, *trains[b].use_of(s), as_run);
+        const double ta = use_start(trains[a], a, s, as_run);
+        const double tb = use_start(trains[b], b, s, as_run);
         if (std::isnan(ta) || std::isnan(tb)) return {kNoPlace, false};
         a_first.push_back(ta < tb || (ta == tb && a < b));
     }
@@ -133,6 +141,10 @@ std::vector<CrossingChange> crossing_changes(const SimModel& model, const SimRes
     if (model.single_track().empty()) return out;
     AsRun as_run;
     for (const SectionRecord& r : day.sections) as_run.records[{r.train, r.section}] = &r;
+    as_run.use_starts.resize(trains.size());
+    for (std::uint32_t t = 0; t < trains.size(); ++t)
+        for (const StretchUse& u : trains[t].stretch_uses)
+            as_run.use_starts[t].push_back(as_run_start(trains[t], t, u, as_run));
 
     for (std::uint32_t a = 0; a < trains.size(); ++a) {
         if (trains[a].stretch_uses.empty()) continue;
@@ -165,7 +177,7 @@ std::vector<CrossingChange> crossing_changes(const SimModel& model, const SimRes
                 for (std::int32_t s : shared) {
                     const SingleTrackStretch& st = model.single_track().stretches[static_cast<std::size_t>(s)];
                     const bool beyond = actual.place == kNoPlace || (up ? st.lower : st.upper) == actual.place;
-                    if (beyond) when = std::max(when, use_start(trains[t], t, *trains[t].use_of(s), &as_run));
+                    if (beyond) when = std::max(when, use_start(trains[t], t, s, &as_run));
                 }
             }
             c.when = std::isfinite(when) ? when : kNaN;

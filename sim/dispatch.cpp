@@ -15,6 +15,18 @@ CrossingChoice choose_crossing(const StretchUse& asking, double asking_delay, do
 
 bool DispatchCheck::leaves_a_way(const Interlocking& interlocking, std::uint32_t train,
                                  const std::vector<std::uint32_t>& sections) const {
+    if (memo_.size() <= train) memo_.resize(model_.trains().size());
+    Memo& m = memo_[train];
+    if (m.version != interlocking.version() || m.sections != sections.data()) {
+        m.result = check(interlocking, train, sections);
+        m.version = interlocking.version();
+        m.sections = sections.data();
+    }
+    return m.result;
+}
+
+bool DispatchCheck::check(const Interlocking& interlocking, std::uint32_t train,
+                          const std::vector<std::uint32_t>& sections) const {
     const auto& trains = model_.trains();
     const std::size_t n_sections = model_.section_names().size();
     holder_.resize(n_sections);

@@ -48,6 +48,15 @@ private:
     // Scratch, kept between calls (one check per grant).
     mutable std::vector<std::uint32_t> holder_;
     mutable std::vector<std::uint32_t> trains_, frontier_;
+    // The last answer per train, for the same sections while the holders stay the same
+    // (Interlocking::version): asked again and again while trains wait.
+    struct Memo {
+        std::uint64_t version = UINT64_MAX;
+        const std::uint32_t* sections = nullptr;
+        bool result = false;
+    };
+    mutable std::vector<Memo> memo_;
+    bool check(const Interlocking& interlocking, std::uint32_t train, const std::vector<std::uint32_t>& sections) const;
 };
 
 }  // namespace knockon

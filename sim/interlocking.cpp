@@ -30,10 +30,12 @@ std::uint32_t Interlocking::planned_before(std::uint32_t train, std::uint32_t se
 }
 
 void Interlocking::take(std::uint32_t train, const std::vector<std::uint32_t>& sections) {
+    ++version_;
     for (std::uint32_t s : sections) holder_[s] = train;
 }
 
 void Interlocking::release(std::uint32_t train, std::uint32_t section) {
+    ++version_;
     if (holder_[section] == train) holder_[section] = kNoTrain;
     auto& plan = planned_[section];
     for (std::size_t i = next_[section]; i < plan.size(); ++i)

@@ -37,13 +37,23 @@ public:
     // The train gives the section up.  Its place in the planned order is used up.
     void release(std::uint32_t train, std::uint32_t section);
     std::uint32_t holder(std::uint32_t section) const { return holder_[section]; }
+    // Changes with every take, release and change of use: what depends on the holders alone can
+    // be kept while it stays the same.
+    std::uint64_t version() const { return version_; }
     // A disruption takes the section out of use (nesting allowed); trains already holding it
     // keep it, but no route through it is granted until it is back.
-    void take_out_of_use(std::uint32_t section) { ++out_of_use_[section]; }
-    void restore(std::uint32_t section) { if (out_of_use_[section]) --out_of_use_[section]; }
+    void take_out_of_use(std::uint32_t section) {
+        ++out_of_use_[section];
+        ++version_;
+    }
+    void restore(std::uint32_t section) {
+        if (out_of_use_[section]) --out_of_use_[section];
+        ++version_;
+    }
 
 private:
     RouteOrder order_;
+    std::uint64_t version_ = 0;
     std::vector<std::uint32_t> holder_;
     std::vector<std::uint32_t> out_of_use_;
     std::vector<std::vector<std::uint32_t>> planned_;   // per section, trains in planned order
