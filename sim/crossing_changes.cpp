@@ -81,8 +81,9 @@ Flip flip_place(const SimModel& model, const std::vector<std::int32_t>& shared, 
 }
 
 // Train t's delay when its head reaches chainage x (as run minus planned), x a section boundary:
-// from the section starting there; where x lies at or before where its run starts, its departure
-// delay there, and at or beyond where it ends, its arrival delay there; else NaN (or never got there).
+// from the section starting there; where x lies at or before where its run starts, its delay when
+// ready to leave there, and at or beyond where it ends, its arrival delay there; else NaN (it
+// never got there).
 double delay_at(const SimModel::Train& tr, std::uint32_t t, double x, bool up, const AsRun& as_run,
                 const SimResult& day) {
     const ServiceRun& run = tr.plan->run;
@@ -98,8 +99,11 @@ double delay_at(const SimModel::Train& tr, std::uint32_t t, double x, bool up, c
         return found;
     };
     if (up ? x <= first + kEps : x >= first - kEps) {
+        // Reaching the place it starts at: when it was ready to leave (its departure delay less
+        // what it then waited for others, the origin's knock-on).
         const TimingRecord* r = record(true);
-        return r ? (std::isnan(r->departure_delay) ? r->arrival_delay : r->departure_delay) : kNaN;
+        if (!r) return kNaN;
+        return std::isnan(r->departure_delay) ? r->arrival_delay : r->departure_delay - r->knock_on;
     }
     if (up ? x >= last - kEps : x <= last + kEps) {
         const TimingRecord* r = record(false);

@@ -347,3 +347,26 @@ TEST_CASE("The bundled single line plans without conflicts and the README shows 
     }
     CHECK(checked == 8);
 }
+
+TEST_CASE("The bundled single line on the day: the README's dispatcher figures are the program's", "[cli][single_track][dispatch]") {
+    using namespace clitest;
+    TempDir dir;
+    const std::string scenario = kSource + "/scenarios/single_line.yaml";
+    const std::string readme = read_text(kSource + "/README.md");
+    // The moved crossing of the README's example day, line for line.
+    const Result day = clitest::knockon("simulate " + q(scenario) + " --delay PU-0700:entry:20", dir);
+    INFO(day.err);
+    REQUIRE(day.status == 0);
+    const std::string moved = "  07:35:59  crossing moved: PU-0700 / PD-0709, planned at DWH, ran at HRM;";
+    CHECK(day.out.find(moved) != std::string::npos);
+    CHECK(readme.find(moved) != std::string::npos);
+    // The 200-day figures the README quotes, under both orders.
+    for (const auto& [order, figure] : {std::pair<std::string, std::string>{"dispatch", "23.33 ± 2.70"},
+                                        {"timetable", "73.07 ± 17.01"}}) {
+        const Result s = clitest::knockon("simulate " + q(scenario) + " --replications 200 --threads 2 --order " + order, dir);
+        INFO(order << ": " << s.err);
+        REQUIRE(s.status == 0);
+        CHECK(s.out.find("knock-on delay           " + figure + " min") != std::string::npos);
+        CHECK(readme.find(figure) != std::string::npos);
+    }
+}
