@@ -14,11 +14,12 @@ CrossingChoice choose_crossing(const StretchUse& asking, double asking_delay, do
 }
 
 bool DispatchCheck::leaves_a_way(const Interlocking& interlocking, std::uint32_t train,
-                                 const std::vector<std::uint32_t>& sections) const {
+                                 const std::vector<std::uint32_t>& sections,
+                                 const std::vector<std::uint8_t>& outside) const {
     if (memo_.size() <= train) memo_.resize(model_.trains().size());
     Memo& m = memo_[train];
     if (m.version != interlocking.version() || m.sections != sections.data()) {
-        m.result = check(interlocking, train, sections);
+        m.result = check(interlocking, train, sections, outside);
         m.version = interlocking.version();
         m.sections = sections.data();
     }
@@ -26,7 +27,8 @@ bool DispatchCheck::leaves_a_way(const Interlocking& interlocking, std::uint32_t
 }
 
 bool DispatchCheck::check(const Interlocking& interlocking, std::uint32_t train,
-                          const std::vector<std::uint32_t>& sections) const {
+                          const std::vector<std::uint32_t>& sections,
+                          const std::vector<std::uint8_t>& outside) const {
     const auto& trains = model_.trains();
     const std::size_t n_sections = model_.section_names().size();
     holder_.resize(n_sections);
@@ -38,6 +40,7 @@ bool DispatchCheck::check(const Interlocking& interlocking, std::uint32_t train,
     // The trains on the line, each with the end of what it holds along its path.
     trains_.clear();
     frontier_.clear();
+    outside_.clear();
     for (std::uint32_t t = 0; t < trains.size(); ++t) {
         const auto& idx = trains[t].section_index;
         std::uint32_t end = 0;
@@ -46,6 +49,7 @@ bool DispatchCheck::check(const Interlocking& interlocking, std::uint32_t train,
         if (end == 0) continue;
         trains_.push_back(t);
         frontier_.push_back(end);
+        outside_.push_back(t < outside.size() ? outside[t] : 0);
     }
     std::size_t left = trains_.size();
     for (bool moved = true; moved && left > 0;) {
@@ -54,6 +58,15 @@ bool DispatchCheck::check(const Interlocking& interlocking, std::uint32_t train,
             const std::uint32_t t = trains_[i];
             if (t == kNoTrain) continue;
             const SimModel::Train& tr = trains[t];
+            if (outside_[i]) {
+                // It appears first, once what it appears on is free.
+                bool free = true;
+                for (std::uint32_t g : tr.origin_sections) free = free && (holder_[g] == kNoTrain || holder_[g] == t);
+                if (!free) continue;
+                for (std::uint32_t g : tr.origin_sections) holder_[g] = t;
+                outside_[i] = 0;
+                moved = true;
+            }
             const auto [from, to] = tr.advance[frontier_[i]];
             bool clear = true;
             for (std::uint32_t k = frontier_[i]; k < to && clear; ++k) {

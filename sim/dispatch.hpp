@@ -39,9 +39,12 @@ CrossingChoice choose_crossing(const StretchUse& asking, double asking_delay, do
 class DispatchCheck {
 public:
     explicit DispatchCheck(const SimModel& model) : model_(model) {}
-    // Whether `train` may take `sections` (global indices, each free or its own) now.
-    bool leaves_a_way(const Interlocking& interlocking, std::uint32_t train,
-                      const std::vector<std::uint32_t>& sections) const;
+    // Whether `train` may take `sections` (global indices, each free or its own) now.  outside[t]
+    // is 1 for a train not yet given the sections it appears on (its origin_sections): before it
+    // can move it must take those, whatever it holds ahead (a train entering over the line end
+    // asks for its first routes before it appears).
+    bool leaves_a_way(const Interlocking& interlocking, std::uint32_t train, const std::vector<std::uint32_t>& sections,
+                      const std::vector<std::uint8_t>& outside) const;
 
 private:
     const SimModel& model_;
@@ -56,7 +59,9 @@ private:
         bool result = false;
     };
     mutable std::vector<Memo> memo_;
-    bool check(const Interlocking& interlocking, std::uint32_t train, const std::vector<std::uint32_t>& sections) const;
+    mutable std::vector<std::uint8_t> outside_;
+    bool check(const Interlocking& interlocking, std::uint32_t train, const std::vector<std::uint32_t>& sections,
+               const std::vector<std::uint8_t>& outside) const;
 };
 
 }  // namespace knockon

@@ -156,6 +156,7 @@ private:
     const InterlockingTimes& times_;
     Interlocking interlocking_;
     DispatchCheck dispatch_;
+    std::vector<std::uint8_t> outside_;   // [train]: 1 until given the sections it appears on
     EventQueue queue_;
     GenerationTable generations_;
     std::vector<TrainState> st_;
@@ -373,6 +374,7 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
     out_.sections.reserve(sections + sections / 8);
     out_.routes.reserve(routes);
     timing_first_.resize(trains.size());
+    outside_.assign(trains.size(), 1);
     const char* const trace_id = std::getenv("KNOCKON_TRACE");
     for (std::uint32_t t = 0; t < trains.size(); ++t) {
         const ServiceRun& run = run_of(t);
@@ -874,7 +876,7 @@ std::uint32_t Day::crossing_promise(std::uint32_t t, std::uint32_t g, std::uint3
     // refuses (it would leave some train no way off the line, t among them).  Keeping the order
     // would only hold both until the forecasts tip the rule.
     for (const Pending& q : pending_)
-        if (q.train == p && !dispatch_.leaves_a_way(interlocking_, p, sections_of(q))) return kNoTrain;
+        if (q.train == p && !dispatch_.leaves_a_way(interlocking_, p, sections_of(q), outside_)) return kNoTrain;
     return p;
 }
 
@@ -893,7 +895,7 @@ bool Day::may_take(std::uint32_t t, const std::vector<std::uint32_t>& sections,
         std::vector<std::uint8_t> seen(st_.size(), 0);
         if (!waits_on(b, t, seen)) return false;
     }
-    return !dispatch || dispatch_.leaves_a_way(interlocking_, t, sections);
+    return !dispatch || dispatch_.leaves_a_way(interlocking_, t, sections, outside_);
 }
 
 void Day::grant_pending() {
@@ -908,6 +910,7 @@ void Day::grant_pending() {
             pending_.erase(pending_.begin() + static_cast<long>(i));
             take_sections(p.train, tr.origin_sections, tr.origin_path_sections);
             st_[p.train].appear_granted = true;
+            outside_[p.train] = 0;
             try_appear(p.train);
             i = 0;  // a grant changes nothing that frees others, but keep the order simple
             continue;
