@@ -41,10 +41,10 @@ void usage(std::FILE* to) {
 
 int run(const std::string& command, const std::vector<std::string>& args) {
     const bool one_process_command = command == "validate" || command == "plan" || command == "report" ||
-                                     command == "plot" || command == "compare" || command == "merge";
+                                     command == "plot" || command == "merge";
     if (knockon::cli::spread_over_ranks() && one_process_command)
         throw knockon::cli::UsageError("runs in one process: start it without mpirun (under mpirun only "
-                                       "'simulate --replications' spreads its days over the processes)");
+                                       "'simulate --replications' and 'compare' spread their days over the processes)");
     if (command == "validate") return knockon::cli::validate(args);
     if (command == "plan") return knockon::cli::plan(args);
     if (command == "simulate") return knockon::cli::simulate(args);

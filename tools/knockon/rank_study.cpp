@@ -17,6 +17,10 @@ constexpr std::size_t kChunkBytes = 8u << 20;
 
 }  // namespace
 
+std::string study_fingerprint(const std::string& scenario_hash, const std::string& command_line) {
+    return "scenario " + scenario_hash + ", command '" + command_line_without_threads(command_line) + "'";
+}
+
 std::optional<StudyResult> run_study_on_ranks(const SimModel& model, StudyOptions options, const std::string& fingerprint,
                                               const std::string& command) {
     if (options.stop) throw std::logic_error("run_study_on_ranks: a study over ranks is not stopped by a flag");
@@ -60,8 +64,8 @@ std::optional<StudyResult> run_study_on_ranks(const SimModel& model, StudyOption
                 first_chunk = false;
                 if (chunk != fingerprint)
                     throw UsageError("process " + std::to_string(from + 1) + " of " + std::to_string(ranks) +
-                                     " read another scenario (" + chunk + ") than process 1 (" + fingerprint +
-                                     "); every process must read the same scenario file");
+                                     " runs another study than process 1: " + chunk + " there, " + fingerprint +
+                                     " here; every process must run the same command on the same scenario text");
                 return;
             }
             for (std::size_t at = 0; at < chunk.size();) {

@@ -18,11 +18,14 @@
 
 namespace knockon::cli {
 
+// What the ranks of one study must agree on: the hash of the scenario text and variant they read,
+// and the command line but for --threads (each rank may have its own).
+std::string study_fingerprint(const std::string& scenario_hash, const std::string& command_line);
+
 // `options` as for run_study over the whole study (first 0, every planned replication); its trace,
 // on_trace and progress are used on rank 0 only, and `stop` must be null (under MPI a signal ends
-// every rank at once).  `fingerprint` is what every rank must agree on (the hash of the scenario text
-// and variant): a rank whose fingerprint differs from rank 0's fails the run (UsageError, exit
-// status 2).  Needs at least as many replications as ranks (UsageError).  Returns the whole study on
+// every rank at once).  A rank whose `fingerprint` (study_fingerprint) differs from rank 0's fails
+// the run (UsageError, exit status 2).  Needs at least as many replications as ranks (UsageError).  Returns the whole study on
 // rank 0; on the other ranks nullopt, once their days are sent.
 std::optional<StudyResult> run_study_on_ranks(const SimModel& model, StudyOptions options, const std::string& fingerprint,
                                               const std::string& command);

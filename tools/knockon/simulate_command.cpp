@@ -2,6 +2,7 @@
 #include <chrono>
 #include <cstdio>
 #include <memory>
+#include <optional>
 #include <sstream>
 #include <unistd.h>
 
@@ -254,7 +255,8 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
     }
     SimModel model(scenario.infrastructure, plan);
     std::optional<StudyResult> gathered =
-        spread ? run_study_on_ranks(model, opt, scenario_hash(scenario_text, variant_name(vm)), "simulate")
+        spread ? run_study_on_ranks(model, opt, study_fingerprint(scenario_hash(scenario_text, variant_name(vm)), command_line),
+                                     "simulate")
                : run_study(model, opt);
     if (!gathered) return 0;   // another rank than 0: its days went to rank 0, which reports
     StudyResult& study = *gathered;
