@@ -13,9 +13,12 @@ using namespace clitest;
 namespace {
 
 // Open MPI's launcher: --oversubscribe lets a test start more ranks than the machine has cores;
-// the environment lets it run as root, as CI does (ignored by a non-root user).
+// the environment lets it run as root, as CI does (ignored by a non-root user), and has the ranks
+// on one machine copy messages through shared memory without reading each other's memory directly
+// (which containers often forbid: common practice, no source).  A hung run is ended after 2 min.
 const std::string kLauncher =
-    "env OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1 timeout 120 '" KNOCKON_MPIEXEC "' --oversubscribe";
+    "env OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1 OMPI_MCA_btl_vader_single_copy_mechanism=none "
+    "timeout 120 '" KNOCKON_MPIEXEC "' --oversubscribe";
 
 // Runs `launch` (a launcher's arguments, each program quoted by the caller) in `dir`.
 Result mpirun(const std::string& launch, const TempDir& dir) {
