@@ -254,10 +254,9 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
         }
     }
     SimModel model(scenario.infrastructure, plan);
+    const auto fingerprint = [&] { return study_fingerprint(scenario_hash(scenario_text, variant_name(vm)), command_line); };
     std::optional<StudyResult> gathered =
-        spread ? run_study_on_ranks(model, opt, study_fingerprint(scenario_hash(scenario_text, variant_name(vm)), command_line),
-                                     "simulate")
-               : run_study(model, opt);
+        spread ? run_study_on_ranks(model, opt, fingerprint(), "simulate") : run_study(model, opt);
     if (!gathered) return 0;   // another rank than 0: its days went to rank 0, which reports
     StudyResult& study = *gathered;
     if (tty) std::fprintf(stderr, "\n");
