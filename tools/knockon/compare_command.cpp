@@ -334,7 +334,7 @@ int compare(const std::vector<std::string>& args) {
         "(default: base and every variant of the file)")(
         "replications", po::value<std::string>()->default_value("100"), "simulated days per variant")(
         "seed", po::value<std::string>()->default_value("1"), "random seed, the same for every variant")(
-        "threads", po::value<std::string>()->default_value("1"), "threads (results do not depend on it)")(
+        "threads", po::value<std::string>()->default_value("1"), "threads, per process under mpirun (results do not depend on it)")(
         "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]")(
         "json", "print one JSON document instead of tables")(
         "out", po::value<std::string>(),

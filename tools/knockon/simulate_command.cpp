@@ -293,7 +293,7 @@ int simulate(const std::vector<std::string>& args) {
         "variant", po::value<std::string>(), "apply this variant of the scenario file (base: none)")(
         "replications", po::value<std::string>(), "run a Monte Carlo study of this many days with drawn primary delays")(
         "seed", po::value<std::string>()->default_value("1"), "random seed of the study")(
-        "threads", po::value<std::string>()->default_value("1"), "threads for the study (results do not depend on it)")(
+        "threads", po::value<std::string>()->default_value("1"), "threads for the study, per process under mpirun (results do not depend on it)")(
         "until-ci", po::value<double>(),
         "go on until the 95 % CI half-width of the mean knock-on per day (over the complete days, at least "
         "10) is below this many minutes (--replications is then the cap)")(
