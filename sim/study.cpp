@@ -77,7 +77,9 @@ StudyResult run_study(const SimModel& model, const StudyOptions& options) {
     if (!options.draw) throw std::invalid_argument("run_study: no primary-delay draw given");
     if (options.replications == 0) throw std::invalid_argument("run_study: at least one replication is needed");
     StudyResult out;
-    out.figures = StudyFigures(options.thresholds, options.replications);
+    if (options.planned != 0 && options.planned < options.replications)
+        throw std::invalid_argument("run_study: the whole study cannot have fewer days than this run");
+    out.figures = StudyFigures(options.thresholds, options.planned != 0 ? options.planned : options.replications);
     const unsigned threads = std::max(1u, options.threads);
     const std::uint32_t first = options.first;
     if (options.replications > std::numeric_limits<std::uint32_t>::max() - first)

@@ -18,6 +18,9 @@ namespace knockon {
 struct StudyOptions {
     std::uint32_t replications = 100;   // days to run, replications first .. first + replications - 1
     std::uint32_t first = 0;            // the first replication: > 0 for a later shard of a study
+    std::uint32_t planned = 0;          // days of the whole study, when this run is its first block
+                                        // and the later days are folded in afterwards (fold_day);
+                                        // 0: `replications`.  Sizes the figures (StudyFigures).
     unsigned threads = 1;
     double until_ci = 0.0;              // >0: go on until the 95 % CI half-width of the mean total
                                         // knock-on per day (over the complete days, at least 10 of

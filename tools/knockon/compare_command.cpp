@@ -8,6 +8,7 @@
 #include <cmath>
 #include <cstdio>
 #include <memory>
+#include <optional>
 #include <set>
 #include <sstream>
 #include <unistd.h>
@@ -23,9 +24,12 @@
 #include "tools/io/deadlock_output.hpp"
 #include "tools/io/output_file.hpp"
 #include "tools/io/plan_output.hpp"
+#include "tools/io/scenario_hash.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/knockon/interrupt.hpp"
 #include "tools/knockon/options.hpp"
+#include "tools/knockon/rank_study.hpp"
+#include "tools/knockon/ranks.hpp"
 
 namespace knockon::cli {
 namespace {
@@ -330,18 +334,22 @@ int compare(const std::vector<std::string>& args) {
         "(default: base and every variant of the file)")(
         "replications", po::value<std::string>()->default_value("100"), "simulated days per variant")(
         "seed", po::value<std::string>()->default_value("1"), "random seed, the same for every variant")(
-        "threads", po::value<std::string>()->default_value("1"), "threads (results do not depend on it)")(
+        "threads", po::value<std::string>()->default_value("1"), "threads, per process under mpirun (results do not depend on it)")(
         "step", po::value<double>()->default_value(2.0), "distance step of the motion integration [m]")(
         "json", "print one JSON document instead of tables")(
         "out", po::value<std::string>(),
         "also write the results to this HDF5 file (kind comparison: each variant's study figures and "
-        "the paired differences)");
+        "the paired differences)")(
+        "shard", po::value<std::string>(), "not supported by compare yet (refused): run it in one process or under mpirun");
     add_order_option(options);
     add_deadlock_option(options);
     add_punctuality_option(options);
     po::variables_map vm;
     if (!parse_command_line("compare", args, options, vm)) return 0;
     const std::string file = vm["scenario"].as<std::string>();
+    if (vm.count("shard"))
+        throw UsageError("--shard is not supported by compare yet: run the comparison in one process, or spread it "
+                         "over processes with mpirun");
 
     StudyOptions opt;
     opt.replications = static_cast<std::uint32_t>(count_option(vm, "replications", 1, 10'000'000));
@@ -388,13 +396,20 @@ int compare(const std::vector<std::string>& args) {
     // Ctrl-C stops the running study after its batch; a comparison pairs whole studies, so only
     // the variants that finished are compared (and no file is written: it would not be the one
     // asked for).  In place before the results file exists, so that its first Ctrl-C is this one.
-    const InterruptGuard interrupt;
-    opt.stop = interrupt.stop_flag();
+    // Under mpirun every variant's days are spread over the ranks (rank_study), and a signal ends
+    // every rank at once with no file instead.
+    const bool spread = spread_over_ranks();
+    std::optional<InterruptGuard> interrupt;
+    if (!spread) interrupt.emplace();
+    opt.stop = interrupt ? interrupt->stop_flag() : nullptr;
+    const auto interrupted = [&interrupt] { return interrupt && interrupt->interrupted(); };
+    // What every rank must have read alike: the scenario text (each variant adds its name).
+    const std::string scenario_text = spread ? read_scenario_text(file) : std::string();
 
     // --out: created now under a temporary name, so a bad path fails before the studies run; it
     // appears at its path only once complete.
     std::unique_ptr<ComparisonHdf5Writer> out;
-    if (vm.count("out")) {
+    if (vm.count("out") && rank() == 0) {   // only rank 0 writes
         Hdf5RunInfo info;
         info.scenario_file = file;
         info.scenario_name = runs.front()->scenario.name;
@@ -408,7 +423,7 @@ int compare(const std::vector<std::string>& args) {
     const bool tty = ::isatty(2);
     for (std::size_t v = 0; v < runs.size(); ++v) {
         VariantRun& r = *runs[v];
-        if (interrupt.interrupted()) {
+        if (interrupted()) {
             not_compared.push_back(r.name + " (not run)");
             continue;
         }
@@ -425,7 +440,14 @@ int compare(const std::vector<std::string>& args) {
             if (done == planned) std::fprintf(stderr, "\n");
         };
         r.model = std::make_unique<SimModel>(r.scenario.infrastructure, r.plan.trains);
-        r.study = run_study(*r.model, o);
+        if (spread) {
+            std::optional<StudyResult> gathered =
+                run_study_on_ranks(*r.model, o, study_fingerprint(scenario_hash(scenario_text, r.name), command_line), "compare");
+            if (!gathered) continue;   // another rank than 0: its days went to rank 0
+            r.study = std::move(*gathered);
+        } else {
+            r.study = run_study(*r.model, o);
+        }
         if (r.study.partial) {
             not_compared.push_back(r.name + " (stopped after " + std::to_string(r.study.replications.size()) +
                                    " of " + std::to_string(o.replications) + " days)");
@@ -435,6 +457,7 @@ int compare(const std::vector<std::string>& args) {
         r.finished = true;
     }
 
+    if (rank() != 0) return 0;   // rank 0 compares and reports
     std::vector<const VariantRun*> flat;
     for (const auto& r : runs)
         if (r->finished) flat.push_back(r.get());

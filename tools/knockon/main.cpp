@@ -1,7 +1,8 @@
 // knockon: command-line entry.  Each subcommand lives in its own file; this one dispatches and
 // turns every failure into a message and an exit status (0 ok, 1 failure while running,
 // 2 bad input or usage, 3 a simulated day, or days of a study or comparison, ended in deadlock and
-// --allow-deadlock was not given; killed by a signal: see interrupt.hpp).
+// --allow-deadlock was not given; killed by a signal: see interrupt.hpp).  Under an MPI launcher
+// (tools/knockon/ranks.hpp) a failure on any rank ends every rank with its status.
 #include <cstdio>
 #include <cstring>
 #include <exception>
@@ -12,6 +13,7 @@
 #include "tools/io/scenario_reader.hpp"
 #include "tools/knockon/commands.hpp"
 #include "tools/knockon/interrupt.hpp"
+#include "tools/knockon/ranks.hpp"
 
 namespace {
 
@@ -37,48 +39,76 @@ void usage(std::FILE* to) {
                  "Run 'knockon <command> --help' for the options of a command.\n");
 }
 
+int run(const std::string& command, const std::vector<std::string>& args) {
+    const bool one_process_command = command == "validate" || command == "plan" || command == "report" ||
+                                     command == "plot" || command == "merge";
+    if (knockon::cli::spread_over_ranks() && one_process_command)
+        throw knockon::cli::UsageError("runs in one process: start it without mpirun (under mpirun only "
+                                       "'simulate --replications' and 'compare' spread their days over the processes)");
+    if (command == "validate") return knockon::cli::validate(args);
+    if (command == "plan") return knockon::cli::plan(args);
+    if (command == "simulate") return knockon::cli::simulate(args);
+    if (command == "report") return knockon::cli::report(args);
+    if (command == "plot") return knockon::cli::plot(args);
+    if (command == "compare") return knockon::cli::compare(args);
+    if (command == "merge") return knockon::cli::merge(args);
+    if (command == "--help" || command == "-h" || command == "help") {
+        usage(stdout);
+        return 0;
+    }
+    if (command == "--version") {
+        std::printf("knockon %s\n", KNOCKON_VERSION);
+        return 0;
+    }
+    std::fprintf(stderr, "knockon: unknown command '%s'\n", command.c_str());
+    usage(stderr);
+    return 2;
+}
+
+// What main prints for the exception being handled, and the exit status that goes with it.
+struct Failure {
+    int status = 1;
+    std::string message;
+};
+
+Failure current_failure(const std::string& command) {
+    try {
+        throw;
+    } catch (const knockon::ScenarioError& e) {
+        std::string text;
+        for (const std::string& m : e.messages) text += m + "\n";
+        return {2, text + "knockon: " + std::to_string(e.messages.size()) + " problem" +
+                       (e.messages.size() == 1 ? "" : "s") + " found; nothing was written"};
+    } catch (const knockon::cli::UsageError& e) {
+        return {2, "knockon " + command + ": " + e.what()};
+    } catch (const knockon::OutputPathError& e) {   // an output path that must not be written
+        return {2, "knockon " + command + ": " + e.what()};
+    } catch (const std::exception& e) {
+        return {1, "knockon " + command + ": " + e.what()};
+    }
+}
+
 }  // namespace
 
 int main(int argc, char** argv) {
     knockon::cli::install_signal_handlers();   // SIGINT/SIGTERM/SIGHUP leave no temporary file
+    knockon::cli::start_ranks(argc, argv);     // MPI, only under an MPI launcher
     if (argc < 2) {
         usage(stderr);
+        knockon::cli::fail_all_ranks(2, "", "no command given");
         return 2;
     }
     const std::string command = argv[1];
-    std::vector<std::string> args(argv + 2, argv + argc);
+    const std::vector<std::string> args(argv + 2, argv + argc);
+    int status = 0;
     try {
-        if (command == "validate") return knockon::cli::validate(args);
-        if (command == "plan") return knockon::cli::plan(args);
-        if (command == "simulate") return knockon::cli::simulate(args);
-        if (command == "report") return knockon::cli::report(args);
-        if (command == "plot") return knockon::cli::plot(args);
-        if (command == "compare") return knockon::cli::compare(args);
-        if (command == "merge") return knockon::cli::merge(args);
-        if (command == "--help" || command == "-h" || command == "help") {
-            usage(stdout);
-            return 0;
-        }
-        if (command == "--version") {
-            std::printf("knockon %s\n", KNOCKON_VERSION);
-            return 0;
-        }
-        std::fprintf(stderr, "knockon: unknown command '%s'\n", command.c_str());
-        usage(stderr);
-        return 2;
-    } catch (const knockon::ScenarioError& e) {
-        for (const std::string& m : e.messages) std::fprintf(stderr, "%s\n", m.c_str());
-        std::fprintf(stderr, "knockon: %zu problem%s found; nothing was written\n", e.messages.size(),
-                     e.messages.size() == 1 ? "" : "s");
-        return 2;
-    } catch (const knockon::cli::UsageError& e) {
-        std::fprintf(stderr, "knockon %s: %s\n", command.c_str(), e.what());
-        return 2;
-    } catch (const knockon::OutputPathError& e) {   // an output path that must not be written
-        std::fprintf(stderr, "knockon %s: %s\n", command.c_str(), e.what());
-        return 2;
-    } catch (const std::exception& e) {
-        std::fprintf(stderr, "knockon %s: %s\n", command.c_str(), e.what());
-        return 1;
+        status = run(command, args);
+    } catch (...) {
+        const Failure f = current_failure(command);
+        std::fprintf(stderr, "%s\n", f.message.c_str());
+        knockon::cli::fail_all_ranks(f.status, command, f.message);   // returns in one process only
+        return f.status;
     }
+    knockon::cli::end_ranks();
+    return status;
 }

@@ -2,6 +2,7 @@
 #include <chrono>
 #include <cstdio>
 #include <memory>
+#include <optional>
 #include <sstream>
 #include <unistd.h>
 
@@ -25,6 +26,8 @@
 #include "tools/knockon/delay_option.hpp"
 #include "tools/knockon/interrupt.hpp"
 #include "tools/knockon/options.hpp"
+#include "tools/knockon/rank_study.hpp"
+#include "tools/knockon/ranks.hpp"
 #include "tools/knockon/study_output.hpp"
 
 namespace knockon::cli {
@@ -197,6 +200,15 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
     // --shard K/N: this process runs one contiguous block of the planned replications.
     const std::uint32_t planned = opt.replications;
     const std::optional<ShardChoice> shard = shard_option(vm);
+    // Under mpirun every rank runs its block of the days and rank 0 gathers them (rank_study).
+    const bool spread = spread_over_ranks();
+    if (spread) {
+        if (shard)
+            throw UsageError("--shard runs one share of a study in one process; under mpirun the processes share "
+                             "the study themselves: give one or the other");
+        if (vm.count("until-ci"))
+            throw UsageError("--until-ci cannot be spread over processes: when to stop depends on every earlier day");
+    }
     ShardRun shard_run;
     if (shard) {
         if (!vm.count("out")) throw UsageError("--shard needs --out: a shard's days go into its file for knockon merge");
@@ -237,15 +249,19 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
         std::fprintf(stderr, "\r%u/%u days  %.1f/s  ETA %.0f s   ", done, planned, rate, eta);
         if (done == planned) std::fprintf(stderr, "\n");
     };
-    const InterruptGuard interrupt;   // lives until the file is done: it still ends whole
-    opt.stop = interrupt.stop_flag();
+    // Lives until the file is done: it still ends whole.  Not under mpirun, where a signal ends
+    // every rank at once and leaves no file (a partial study would need every rank's days).
+    std::optional<InterruptGuard> interrupt;
+    if (!spread) interrupt.emplace();
+    opt.stop = interrupt ? interrupt->stop_flag() : nullptr;
+    const auto interrupted = [&interrupt] { return interrupt && interrupt->interrupted(); };
 
     // --out: the file is open under a temporary name while the days run, the traced ones are written
     // as they are handed over (in replication order, on this thread), /study at the end; it appears
     // at --out only when complete, and is removed if anything fails first.
     std::unique_ptr<StudyHdf5Writer> out;
     std::unique_ptr<ShardHdf5Writer> shard_out;
-    if (vm.count("out")) {
+    if (vm.count("out") && rank() == 0) {   // only rank 0 writes
         Hdf5RunInfo h5info;
         h5info.scenario_file = scenario.source_file;
         h5info.scenario_name = scenario.name;
@@ -271,22 +287,26 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
         }
     }
     SimModel model(scenario.infrastructure, plan);
-    StudyResult study = run_study(model, opt);
+    const auto fingerprint = [&] { return study_fingerprint(scenario_hash(scenario_text, variant_name(vm)), command_line); };
+    std::optional<StudyResult> gathered =
+        spread ? run_study_on_ranks(model, opt, fingerprint(), "simulate") : run_study(model, opt);
+    if (!gathered) return 0;   // another rank than 0: its days went to rank 0, which reports
+    StudyResult& study = *gathered;
     if (tty) std::fprintf(stderr, "\n");
     StudySummary summary = summarize_study(model, study, opt.thresholds);
     if (shard_out) {
         shard_out->finish(study);
         std::fputs(shard_text(shard_run, vm["out"].as<std::string>(), study).c_str(), stdout);
-        if (interrupt.interrupted()) return kInterruptedStatus;
+        if (interrupted()) return kInterruptedStatus;
         return deadlock_status("simulate", summary.deadlocked, summary.replications, vm);
     }
     if (out) out->finish(model, study, summary);
-    StudyRunInfo info{seed, opt.threads, command_line, allow_deadlock(vm)};
+    StudyRunInfo info{seed, opt.threads, command_line, allow_deadlock(vm), static_cast<unsigned>(rank_count())};
     if (vm.count("json"))
         std::printf("%s\n", study_json(scenario, model, study, summary, info).dump(1).c_str());
     else
         std::fputs(study_text(scenario, model, study, summary, info).c_str(), stdout);
-    if (interrupt.interrupted()) return kInterruptedStatus;
+    if (interrupted()) return kInterruptedStatus;
     return deadlock_status("simulate", summary.deadlocked, summary.replications, vm);
 }
 
@@ -306,7 +326,7 @@ int simulate(const std::vector<std::string>& args) {
         "variant", po::value<std::string>(), "apply this variant of the scenario file (base: none)")(
         "replications", po::value<std::string>(), "run a Monte Carlo study of this many days with drawn primary delays")(
         "seed", po::value<std::string>()->default_value("1"), "random seed of the study")(
-        "threads", po::value<std::string>()->default_value("1"), "threads for the study (results do not depend on it)")(
+        "threads", po::value<std::string>()->default_value("1"), "threads for the study, per process under mpirun (results do not depend on it)")(
         "until-ci", po::value<double>(),
         "go on until the 95 % CI half-width of the mean knock-on per day (over the complete days, at least "
         "10) is below this many minutes (--replications is then the cap)")(
@@ -341,6 +361,9 @@ int simulate(const std::vector<std::string>& args) {
         return run_study_command(vm, scenario, scenario_text, plan, so, command_line);
     }
     if (vm.count("shard")) throw UsageError("--shard needs --replications: it runs a share of a study's days");
+    if (spread_over_ranks())
+        throw UsageError("one day runs in one process: under mpirun only a study (--replications) is spread over "
+                         "the processes");
     if (vm.count("until-ci")) throw UsageError("--until-ci needs --replications (the cap)");
     if (vm.count("traces")) throw UsageError("--traces needs --replications: a single day's --out has all its records");
     InjectedDelays delays = parse_delays(

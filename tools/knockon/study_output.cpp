@@ -40,8 +40,9 @@ std::string study_text(const Scenario& sc, const SimModel& model, const StudyRes
                                     : " Exit status 3 (--allow-deadlock accepts it).")
             << "\n";
     out << "Caution: " << kSafetyCaution << "\n\n";
-    out << s.replications << " simulated days (seed " << info.seed << ", " << info.threads << " thread"
-        << (info.threads == 1 ? "" : "s") << ")" << (study.partial ? ", PARTIAL: stopped before the planned number" : "")
+    out << s.replications << " simulated days (seed " << info.seed << ", ";
+    if (info.processes > 1) out << info.processes << " processes of ";
+    out << info.threads << " thread" << (info.threads == 1 ? "" : "s") << ")" << (study.partial ? ", PARTIAL: stopped before the planned number" : "")
         << "; " << s.deadlocked << " ended in deadlock";
     if (s.deadlocked > 0) out << "; the figures below are of the " << s.complete << " complete days";
     out << ".\n";
@@ -115,6 +116,7 @@ nlohmann::ordered_json study_json(const Scenario& sc, const SimModel& model, con
     j["scenario"] = scenario_facts(sc);
     j["caution"] = kSafetyCaution;
     j["study"] = {{"replications", s.replications}, {"seed", info.seed}, {"threads", info.threads},
+                  {"processes", info.processes},
                   {"partial", study.partial}, {"deadlocked_days", s.deadlocked}, {"complete_days", s.complete},
                   {"command_line", info.command_line}};
     j["per_day"] = {{"total_primary_s", est(s.total_primary)}, {"total_knock_on_s", est(s.total_knock_on)},

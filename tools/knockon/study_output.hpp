@@ -12,9 +12,10 @@ namespace knockon::cli {
 
 struct StudyRunInfo {
     std::uint64_t seed = 0;
-    unsigned threads = 1;
+    unsigned threads = 1;          // per process
     std::string command_line;
     bool allow_deadlock = false;   // --allow-deadlock: deadlocked days accepted (said in the output)
+    unsigned processes = 1;        // MPI ranks the days were spread over (1: one process)
 };
 
 std::string study_text(const Scenario& sc, const SimModel& model, const StudyResult& study, const StudySummary& s,
