@@ -52,6 +52,8 @@ void check_same_day(const ReplicationFigures& a, const ReplicationFigures& b) {
     CHECK(same_bits(a.stats.total_primary, b.stats.total_primary));
     CHECK(same_bits(a.stats.total_knock_on, b.stats.total_knock_on));
     CHECK(same_bits(a.stats.mean_arrival_delay, b.stats.mean_arrival_delay));
+    CHECK(a.stats.moved_crossings == b.stats.moved_crossings);
+    CHECK(a.stats.changed_orders == b.stats.changed_orders);
     CHECK(same_bits(a.stats.punctuality, b.stats.punctuality));
     CHECK(a.deadlock.deadlocked == b.deadlock.deadlocked);
     CHECK(same_bits(a.deadlock.time, b.deadlock.time));
@@ -108,8 +110,8 @@ TEST_CASE("a day's figures go through bytes unchanged to the bit", "[study][rank
         std::string one;
         append_day_bytes(one, days.front());
         // The punctuality count follows replication (4), deadlocked (1), events and passages (8
-        // each) and three doubles (8 each).
-        const std::size_t count_at = 4 + 1 + 8 + 8 + 3 * 8;
+        // each), three doubles (8 each) and the crossings moved and orders changed (4 each).
+        const std::size_t count_at = 4 + 1 + 8 + 8 + 3 * 8 + 2 * 4;
         const std::uint64_t huge = std::uint64_t{1} << 60;
         std::memcpy(one.data() + count_at, &huge, sizeof huge);
         std::size_t from = 0;
@@ -155,6 +157,9 @@ TEST_CASE("a study folded from blocks run apart equals one run to the bit", "[st
     CHECK(same_bits(b.total_primary, a.total_primary));
     CHECK(same_bits(b.total_knock_on, a.total_knock_on));
     CHECK(same_bits(b.mean_arrival_delay, a.mean_arrival_delay));
+    REQUIRE(a.moved_crossings.mean > 0.0);   // the single line moves crossings on some days
+    CHECK(same_bits(b.moved_crossings, a.moved_crossings));
+    CHECK(same_bits(b.changed_orders, a.changed_orders));
     CHECK(same_bits(b.knock_on_ratio, a.knock_on_ratio));
     REQUIRE(b.timing_points.size() == a.timing_points.size());
     for (std::size_t i = 0; i < a.timing_points.size(); ++i) {

@@ -82,6 +82,8 @@ void append_day_bytes(std::string& out, const ReplicationFigures& day) {
     put<double>(out, s.total_primary);
     put<double>(out, s.total_knock_on);
     put<double>(out, s.mean_arrival_delay);
+    put<std::uint32_t>(out, s.moved_crossings);
+    put<std::uint32_t>(out, s.changed_orders);
     put_all(out, s.punctuality);
     put<std::uint8_t>(out, day.deadlock.deadlocked ? 1 : 0);
     put<double>(out, day.deadlock.time);
@@ -112,6 +114,8 @@ ReplicationFigures read_day_bytes(const std::string& bytes, std::size_t& at) {
     s.total_primary = in.get<double>();
     s.total_knock_on = in.get<double>();
     s.mean_arrival_delay = in.get<double>();
+    s.moved_crossings = in.get<std::uint32_t>();
+    s.changed_orders = in.get<std::uint32_t>();
     s.punctuality = in.all<double>();
     day.deadlock.deadlocked = in.get<std::uint8_t>() != 0;
     day.deadlock.time = in.get<double>();
