@@ -289,7 +289,7 @@ SimResult read_day_group(const h5::InputFile& f, const std::string& g) {
         const auto signal = t.text("signal");
         const auto from = t.num("from", kClock), to = t.num("to", kClockOrNaN);
         day.holds.resize(t.rows());
-        for (std::size_t i = 0; i < t.rows(); ++i) day.holds[i] = {train[i], signal[i], from[i], to[i]};
+        for (std::size_t i = 0; i < t.rows(); ++i) day.holds[i] = {train[i], signal[i], from[i], to[i], std::string(), HoldCause{}};
     }
     {
         const Table t(f, g + "/trajectories");
