@@ -36,6 +36,7 @@ struct ReplicationStats {
     double total_knock_on = 0.0;     // knock-on (secondary) delay of all trains [s]
     double mean_arrival_delay = 0.0; // over arrivals and passes, early counted as 0 [s]; NaN if deadlocked
     std::vector<double> punctuality; // share of arrivals within each threshold; NaN if deadlocked
+    double missed_connections = 0.0; // connections the connecting train left without (a count)
 };
 
 // Everything one simulated day contributes to a study: its ReplicationStats, and the detail that

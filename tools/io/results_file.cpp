@@ -355,6 +355,9 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
                    ko = t.num("total_knock_on", kSeconds), ma = t.num("mean_arrival_delay", kSecondsOrNaN);
         std::vector<std::vector<double>> punct;
         for (const std::string& name : fields) punct.push_back(t.num(name, kShareOrNaN));
+        // Missed connections: in every file of schema 6 on (none before).
+        const bool has_missed = whole(f, "/", "schema_version") >= 6;
+        const auto missed = has_missed ? t.num("missed_connections", kCount) : std::vector<double>(t.rows(), 0.0);
         // A deadlocked day has no arrival delay or punctuality (NaN); a complete day must have them.
         for (std::size_t i = 0; i < t.rows(); ++i) {
             if (dl[i] != 0.0) continue;
@@ -374,6 +377,7 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
             r.total_primary = pr[i];
             r.total_knock_on = ko[i];
             r.mean_arrival_delay = ma[i];
+            r.missed_connections = missed[i];
             for (const auto& column : punct) r.punctuality.push_back(column[i]);
         }
     }

@@ -39,7 +39,8 @@ RecordLayout per_day_layout(const std::vector<double>& thresholds) {
         .add("block_passages", FieldKind::u64)
         .add("total_primary", FieldKind::f64)
         .add("total_knock_on", FieldKind::f64)
-        .add("mean_arrival_delay", FieldKind::f64);
+        .add("mean_arrival_delay", FieldKind::f64)
+        .add("missed_connections", FieldKind::f64);
     for (double t : thresholds) layout.add(punctuality_field(t), FieldKind::f64);
     return layout;
 }
@@ -118,7 +119,8 @@ void ShardHdf5Writer::add_day(const ReplicationFigures& day) {
         .u64(r.block_passages)
         .f64(r.total_primary)
         .f64(r.total_knock_on)
-        .f64(r.mean_arrival_delay);
+        .f64(r.mean_arrival_delay)
+        .f64(r.missed_connections);
     for (std::size_t i = 0; i < s.run.thresholds.size(); ++i)
         s.per_day->f64(i < r.punctuality.size() ? r.punctuality[i] : std::numeric_limits<double>::quiet_NaN());
     for (std::size_t k = 0; k < s.records; ++k) s.timing->begin().f64(day.arrival_delay[k]).f64(day.knock_on[k]);
@@ -279,7 +281,8 @@ std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
     const auto replication = f.number_column(pd, "replication"), deadlocked = f.number_column(pd, "deadlocked"),
                events = f.number_column(pd, "events"), passages = f.number_column(pd, "block_passages"),
                primary = f.number_column(pd, "total_primary"), knock_on = f.number_column(pd, "total_knock_on"),
-               mean_delay = f.number_column(pd, "mean_arrival_delay");
+               mean_delay = f.number_column(pd, "mean_arrival_delay"),
+               missed = f.number_column(pd, "missed_connections");
     std::vector<std::vector<double>> punctuality;
     for (double t : shard.run.thresholds) punctuality.push_back(f.number_column(pd, punctuality_field(t)));
     const auto arrival = f.number_column("/shard/timing_figures", "arrival_delay"),
@@ -311,6 +314,7 @@ std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
         st.total_primary = primary[d];
         st.total_knock_on = knock_on[d];
         st.mean_arrival_delay = mean_delay[d];
+        st.missed_connections = missed[d];
         for (const auto& column : punctuality) st.punctuality.push_back(column[d]);
         if (st.deadlocked && shard.first_deadlock && shard.first_deadlock->replication == st.replication)
             r.deadlock = shard.first_deadlock->report;

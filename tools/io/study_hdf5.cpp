@@ -40,10 +40,12 @@ void write_per_day(const h5::Group& g, const StudyResult& study, const std::vect
         .add("block_passages", FieldKind::u64)
         .add("total_primary", FieldKind::f64)
         .add("total_knock_on", FieldKind::f64)
-        .add("mean_arrival_delay", FieldKind::f64);
+        .add("mean_arrival_delay", FieldKind::f64)
+        .add("missed_connections", FieldKind::f64);
     std::string units =
         "replication: 0-based replication number, deadlocked: 1 = the day ended in deadlock / 0 = not, "
-        "events: count, block_passages: count, total_primary: s, total_knock_on: s, mean_arrival_delay: s";
+        "events: count, block_passages: count, total_primary: s, total_knock_on: s, mean_arrival_delay: s, "
+        "missed_connections: count";
     for (double t : thresholds) {
         const std::string name = punctuality_field(t);
         layout.add(name, FieldKind::f64);
@@ -58,7 +60,8 @@ void write_per_day(const h5::Group& g, const StudyResult& study, const std::vect
             .u64(r.block_passages)
             .f64(r.total_primary)
             .f64(r.total_knock_on)
-            .f64(r.mean_arrival_delay);
+            .f64(r.mean_arrival_delay)
+            .f64(r.missed_connections);
         for (std::size_t i = 0; i < thresholds.size(); ++i)
             table.f64(i < r.punctuality.size() ? r.punctuality[i] : kNaN);
     }
@@ -78,7 +81,8 @@ void write_summary(const h5::Group& g, const StudySummary& s) {
     };
     std::vector<Row> rows = {{"total_primary", "s", s.total_primary},
                              {"total_knock_on", "s", s.total_knock_on},
-                             {"mean_arrival_delay", "s", s.mean_arrival_delay}};
+                             {"mean_arrival_delay", "s", s.mean_arrival_delay},
+                             {"missed_connections", "count", s.missed_connections}};
     for (std::size_t i = 0; i < s.thresholds.size() && i < s.punctuality.size(); ++i)
         rows.push_back({punctuality_field(s.thresholds[i]), "share", s.punctuality[i]});
     std::vector<std::string> figures, units;
