@@ -63,31 +63,6 @@ const Track* Infrastructure::main_track_at(double x, Direction d) const {
     return touching;
 }
 
-bool Infrastructure::has_single_line() const {
-    for (const Track& t : tracks) {
-        if (t.is_loop() || !t.up || !t.down) continue;
-        // Walk the track from its start past the loops beside it: a gap is single line.
-        std::vector<std::pair<double, double>> beside;
-        for (const Track& loop : tracks)
-            if (loop.parent == t.id) beside.push_back({loop.from, loop.to});
-        std::sort(beside.begin(), beside.end());
-        double x = t.from;
-        for (const auto& [from, to] : beside) {
-            if (from > x + 1e-6) return true;
-            x = std::max(x, to);
-        }
-        if (x < t.to - 1e-6) return true;
-    }
-    return false;
-}
-
-bool Infrastructure::single_line(const Track& track, double x_lo, double x_hi) const {
-    if (track.is_loop() || !track.up || !track.down) return false;
-    for (const Track& loop : tracks)
-        if (loop.parent == track.id && loop.from < x_hi - 1e-6 && loop.to > x_lo + 1e-6) return false;
-    return true;
-}
-
 AspectSystem Infrastructure::aspect_system_at(double x) const {
     if (areas.empty()) return AspectSystem::three_aspect;
     for (const auto& a : areas)

@@ -90,12 +90,6 @@ struct Infrastructure {
     // The main (non-loop) track that carries direction d at chainage x, or nullptr.
     const Track* main_track_at(double x, Direction d) const;
     AspectSystem aspect_system_at(double x) const;
-    // [x_lo, x_hi] of `track` is single line: a main track worked in both directions with no loop
-    // beside any of it, so that opposing trains cannot pass there (elsewhere a train can stand
-    // clear of an opposing one: a crossing place, or a track of one direction).
-    bool single_line(const Track& track, double x_lo, double x_hi) const;
-    // Some stretch of the line is single line.
-    bool has_single_line() const;
     double gradient_at(double x) const;     // ratio, rising towards increasing chainage
     double line_speed_at(double x) const;   // [m/s]
 };

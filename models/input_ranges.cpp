@@ -89,6 +89,8 @@ const std::vector<InputRange> kRanges = {
      "log-normal: as shape"},
     {Input::empirical_delay, "quantiles[][1]", Quantity::duration, 0.0, kDay, false, "min",
      "empirical delays: within a day"},
+    {Input::dispatch_weight, "dispatching.weights", Quantity::dimensionless, 0.0, 100.0, true, "",
+     "what a minute of delay to a category counts for against others; 1 where not given (common practice, no source)"},
 };
 
 std::string number(double v) {

@@ -53,6 +53,7 @@ enum class Input {
     delay_shape,
     delay_sigma,
     empirical_delay,
+    dispatch_weight,
 };
 
 struct InputRange {

@@ -35,6 +35,9 @@ struct Service {
     DrawIdentity draw;                   // empty name: the id (services made in code)
     std::string train_type;
     std::string category;                // free label used for grouping results (e.g. "stopping")
+    // What a minute of this train's delay counts for when the dispatcher chooses where two
+    // opposing trains cross (sim/dispatch.hpp): the scenario's weight for its category, else 1.
+    double dispatch_weight = 1.0;
     Direction direction = Direction::up;
     // Entering from beyond the modelled area: the train appears at the line end, running at
     // entry_speed (default: the line speed there, capped by the train's max speed).

@@ -1,6 +1,17 @@
 #include "sim/dispatch.hpp"
 
+#include <algorithm>
+
 namespace knockon {
+
+CrossingChoice choose_crossing(const StretchUse& asking, double asking_delay, double asking_weight,
+                               const StretchUse& planned_first, double first_delay, double first_weight) {
+    CrossingChoice c;
+    c.keep_cost = std::max(0.0, planned_first.release + first_delay - (asking.start + asking_delay));
+    c.swap_cost = std::max(0.0, asking.release + asking_delay - (planned_first.start + first_delay));
+    c.asking_goes_first = asking_weight * c.keep_cost > first_weight * c.swap_cost;
+    return c;
+}
 
 bool DispatchCheck::leaves_a_way(const Interlocking& interlocking, std::uint32_t train,
                                  const std::vector<std::uint32_t>& sections) const {

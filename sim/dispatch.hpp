@@ -17,6 +17,25 @@
 
 namespace knockon {
 
+// Where two opposing trains cross, when the one asking for a single-track stretch (`asking`) is
+// planned to use it after an opposing train (`planned_first`) that has not yet been through.
+// Both are forecast to run with the delay they have now (Day::forecast_delay), over their planned
+// blocking times of the stretch.  Keeping the planned order costs the asking train the time from
+// its own forecast blocking start until the other train's forecast release; going first costs the
+// other train the time from its forecast blocking start until the asking train's forecast
+// release.  Each cost is weighted by its train's dispatch weight (the category weights of the
+// scenario, 1 by default), and the asking train goes first only if that costs strictly less
+// weighted delay: on an undisturbed day keeping the order costs nothing, so the plan stands.
+// The crossing then moves to a place further along the asking train's path (the safety rule,
+// DispatchCheck, still decides whether the grant may be made at all).
+struct CrossingChoice {
+    double keep_cost = 0.0;   // delay to the asking train if it waits [s]
+    double swap_cost = 0.0;   // delay to the other train if the asking train goes first [s]
+    bool asking_goes_first = false;
+};
+CrossingChoice choose_crossing(const StretchUse& asking, double asking_delay, double asking_weight,
+                               const StretchUse& planned_first, double first_delay, double first_weight);
+
 class DispatchCheck {
 public:
     explicit DispatchCheck(const SimModel& model) : model_(model) {}

@@ -17,12 +17,14 @@ std::uint32_t Interlocking::blocker(std::uint32_t train, std::uint32_t section) 
     if (h == train) return kNoTrain;
     if (out_of_use_[section]) return kDisruption;
     if (h != kNoTrain) return h;
-    if (order_ == RouteOrder::timetable) {
-        const auto& plan = planned_[section];
-        for (std::size_t i = next_[section]; i < plan.size(); ++i) {
-            if (plan[i] == train) break;
-            if (!done_[section][i]) return plan[i];
-        }
+    return order_ == RouteOrder::timetable ? planned_before(train, section) : kNoTrain;
+}
+
+std::uint32_t Interlocking::planned_before(std::uint32_t train, std::uint32_t section) const {
+    const auto& plan = planned_[section];
+    for (std::size_t i = next_[section]; i < plan.size(); ++i) {
+        if (plan[i] == train) break;
+        if (!done_[section][i]) return plan[i];
     }
     return kNoTrain;
 }

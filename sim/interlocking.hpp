@@ -30,6 +30,9 @@ public:
     // Why `train` may not take `section` now: the holding train, its predecessor in planned
     // order that has not released yet, or kNoTrain when it may.
     std::uint32_t blocker(std::uint32_t train, std::uint32_t section) const;
+    // The first train planned on `section` before `train` that has not yet released it, or
+    // kNoTrain (the promise the timetable order keeps; the dispatcher keeps some of them).
+    std::uint32_t planned_before(std::uint32_t train, std::uint32_t section) const;
     void take(std::uint32_t train, const std::vector<std::uint32_t>& sections);
     // The train gives the section up.  Its place in the planned order is used up.
     void release(std::uint32_t train, std::uint32_t section);

@@ -5,6 +5,8 @@
 #include <limits>
 #include <map>
 
+#include "models/single_track.hpp"
+
 namespace knockon {
 namespace {
 
@@ -47,7 +49,14 @@ void mark_enter_at_same_place(const std::vector<Place>& enters, std::vector<Plac
 
 }  // namespace
 
-SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& plan) : infra_(infra) {
+const StretchUse* SimModel::Train::use_of(std::int32_t stretch) const {
+    for (const StretchUse& u : stretch_uses)
+        if (u.stretch == stretch) return &u;
+    return nullptr;
+}
+
+SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& plan)
+    : infra_(infra), single_track_(single_track_layout(infra)) {
     std::map<std::string, std::uint32_t> index;
     auto section_of = [&](const std::string& id) {
         auto [it, fresh] = index.try_emplace(id, static_cast<std::uint32_t>(section_names_.size()));
@@ -63,12 +72,34 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
         Train tr;
         tr.plan = &tp;
         for (const PathSection& sec : path.sections) tr.section_index.push_back(section_of(sec.id));
+        tr.dispatch_weight = tp.run.service->dispatch_weight;
         {
             const auto n = static_cast<std::uint32_t>(path.sections.size());
+            tr.stretch_of.assign(n, -1);
+            for (std::uint32_t k = 0; k < n; ++k) {
+                const SingleTrackStretch* st = single_track_.stretch_of_section(path.sections[k].id);
+                if (!st) continue;
+                const auto i = static_cast<std::int32_t>(st - single_track_.stretches.data());
+                tr.stretch_of[k] = i;
+                double start = kInf, release = -kInf;
+                for (const SectionBlocking& b : tp.stairway.sections)
+                    if (b.section == path.sections[k].id) {
+                        start = b.start;
+                        release = b.end;
+                        break;
+                    }
+                if (tr.stretch_uses.empty() || tr.stretch_uses.back().stretch != i || tr.stretch_uses.back().end != k)
+                    tr.stretch_uses.push_back({i, k, k, kInf, -kInf});
+                StretchUse& u = tr.stretch_uses.back();
+                u.end = k + 1;
+                u.start = std::min(u.start, start);
+                u.release = std::max(u.release, release);
+            }
             tr.advance.assign(n + 1, {n, n});
             for (std::uint32_t k = n; k-- > 0;) {
                 const PathSection& sec = path.sections[k];
-                const bool clear_place = !sec.track || !infra.single_line(*sec.track, sec.x_lo, sec.x_hi);
+                // Where trains can stand clear of opposing traffic: everywhere but the single-track stretches.
+                const bool clear_place = tr.stretch_of[k] < 0;
                 if (!clear_place) tr.advance[k] = tr.advance[k + 1];
                 else if (k + 1 < n && tr.advance[k + 1].first == k + 1) tr.advance[k] = {k, tr.advance[k + 1].second};
                 else tr.advance[k] = {k, k + 1};

@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "models/plan.hpp"
+#include "models/single_track.hpp"
 #include "models/sorted_index.hpp"
 
 namespace knockon {
@@ -25,6 +26,14 @@ struct Place {
     // A section's end or a signal where a section begins (the usual case): the index of that
     // enter place, whose event the head reaching this place rides on; else -1.
     std::int32_t at_enter = -1;
+};
+
+// One train's planned passage over one single-track stretch: the blocking time of its sections
+// together, and the path sections it covers.
+struct StretchUse {
+    std::int32_t stretch = -1;
+    std::uint32_t first = 0, end = 0;     // path sections [first, end)
+    double start = 0.0, release = 0.0;   // planned blocking of the stretch [s]
 };
 
 class SimModel {
@@ -59,8 +68,15 @@ public:
         // For the dispatcher (sim/dispatch.hpp), per path section k (and k = the number of
         // sections): the next place from k on where the train can stand clear of opposing traffic,
         // as path sections [first, last): a run of sections off single line
-        // (Infrastructure::single_line) after any single-line ones; [n, n) where the path ends first.
+        // (the stretches of models/single_track) after any single-line ones; [n, n) where the path ends first.
         std::vector<std::pair<std::uint32_t, std::uint32_t>> advance;
+        // Per path section: the single-track stretch it lies in (index into single_track()
+        // stretches), or -1; and the train's planned use of each stretch on its path, in path
+        // order, for the dispatcher's choice of crossing (sim/dispatch.hpp).
+        std::vector<std::int32_t> stretch_of;
+        std::vector<StretchUse> stretch_uses;
+        const StretchUse* use_of(std::int32_t stretch) const;
+        double dispatch_weight = 1.0;   // Service::dispatch_weight
         // Sections a train needs free to appear: where an originating train stands, or those up
         // to the first signal for a train entering over the line end.  Global and path indices.
         std::vector<std::uint32_t> origin_sections, origin_path_sections;
@@ -99,6 +115,7 @@ public:
     };
 
     const Infrastructure& infrastructure() const { return infra_; }
+    const SingleTrackLayout& single_track() const { return single_track_; }
     const std::vector<Train>& trains() const { return trains_; }
     const std::vector<std::string>& section_names() const { return section_names_; }
     // Trains per section in planned order (by planned blocking start).
@@ -116,6 +133,7 @@ public:
 
 private:
     const Infrastructure& infra_;
+    SingleTrackLayout single_track_;
     std::vector<Train> trains_;
     std::vector<std::string> section_names_;
     std::vector<std::vector<std::uint32_t>> planned_order_;

@@ -7,6 +7,8 @@
 #include <string>
 #include <vector>
 
+#include "sim/crossing_changes.hpp"
+
 namespace knockon {
 
 struct TimingRecord {
@@ -151,6 +153,8 @@ struct SimResult {
     std::vector<LinkRecord> links;     // per link of the timetable
     std::vector<TrajectorySample> samples;
     DeadlockReport deadlock;
+    // Single-track crossings and orders that differed from the plan (sim/crossing_changes.hpp).
+    std::vector<CrossingChange> crossing_changes;
     std::uint64_t events = 0;          // events delivered
     std::uint64_t block_passages = 0;  // routes run through
 };

@@ -9,6 +9,7 @@
 #include <stdexcept>
 
 #include "sim/deadlock_text.hpp"
+#include "sim/crossing_changes.hpp"
 #include "sim/dispatch.hpp"
 #include "sim/event_queue.hpp"
 
@@ -357,10 +358,21 @@ private:
                        const std::vector<std::uint32_t>& path_sections);
     void grant_pending();
     const std::vector<std::uint32_t>& sections_of(const Pending& p) const;
+    const std::vector<std::uint32_t>& path_sections_of(const Pending& p) const;
+    // Why t may not take section g (path section k) now: the interlocking's blocker, or under the
+    // dispatcher the opposing train it lets through first (crossing_promise); kNoTrain if none.
+    std::uint32_t blocker_of(std::uint32_t t, std::uint32_t g, std::uint32_t k) const;
     // Train a's pending requests wait, directly or through other waiting trains, for train b.
     bool waits_on(std::uint32_t a, std::uint32_t b, std::vector<std::uint8_t>& seen) const;
     // The interlocking may give train t these sections now (see grant_pending).
-    bool may_take(std::uint32_t t, const std::vector<std::uint32_t>& sections) const;
+    bool may_take(std::uint32_t t, const std::vector<std::uint32_t>& sections,
+                  const std::vector<std::uint32_t>& path_sections) const;
+    // Under the dispatcher: the opposing train `t` must let through first on the single-track
+    // stretch holding its path section k (global g), by the crossing rule; else kNoTrain.
+    std::uint32_t crossing_promise(std::uint32_t t, std::uint32_t g, std::uint32_t k) const;
+    // The delay a train has now, as the dispatcher forecasts it: the larger of what its last
+    // timing point showed and how late it is for the next one (0 when on time or early).
+    double forecast_delay(std::uint32_t t) const;
     void try_appear(std::uint32_t t);
     void begin_standing(std::uint32_t t);
     void end_hold(std::uint32_t t);
@@ -864,13 +876,25 @@ const std::vector<std::uint32_t>& Day::sections_of(const Pending& p) const {
     return p.route < 0 ? train(p.train).origin_sections : train(p.train).routes[p.route].sections;
 }
 
+const std::vector<std::uint32_t>& Day::path_sections_of(const Pending& p) const {
+    return p.route < 0 ? train(p.train).origin_path_sections : train(p.train).routes[p.route].path_sections;
+}
+
+std::uint32_t Day::blocker_of(std::uint32_t t, std::uint32_t g, std::uint32_t k) const {
+    const std::uint32_t b = interlocking_.blocker(t, g);
+    if (b != kNoTrain || options_.route_order != RouteOrder::dispatch) return b;
+    return crossing_promise(t, g, k);
+}
+
 bool Day::waits_on(std::uint32_t a, std::uint32_t b, std::vector<std::uint8_t>& seen) const {
     if (seen[a]) return false;
     seen[a] = 1;
     for (const Pending& p : pending_) {
         if (p.train != a) continue;
-        for (std::uint32_t g : sections_of(p)) {
-            const std::uint32_t c = interlocking_.blocker(a, g);
+        const auto& globals = sections_of(p);
+        const auto& path = path_sections_of(p);
+        for (std::size_t i = 0; i < globals.size(); ++i) {
+            const std::uint32_t c = blocker_of(a, globals[i], path[i]);
             if (c == b) return true;
             if (c < st_.size() && waits_on(c, b, seen)) return true;
         }
@@ -878,9 +902,51 @@ bool Day::waits_on(std::uint32_t a, std::uint32_t b, std::vector<std::uint8_t>& 
     return false;
 }
 
-bool Day::may_take(std::uint32_t t, const std::vector<std::uint32_t>& sections) const {
-    for (std::uint32_t g : sections) {
-        const std::uint32_t b = interlocking_.blocker(t, g);
+double Day::forecast_delay(std::uint32_t t) const {
+    const ServiceRun& run = run_of(t);
+    const TrainState& s = st_[t];
+    if (s.phase == Phase::waiting) return std::max(0.0, now_ - run.appear_time);
+    double shown = 0.0;
+    std::size_t k = 0;
+    for (; k < run.calls.size(); ++k) {
+        const TimingRecord& r = out_.timing[timing_first_[t] + static_cast<long>(k)];
+        if (!std::isnan(r.departure)) shown = r.departure - run.calls[k].planned_departure;
+        else if (!std::isnan(r.arrival)) shown = r.arrival - run.calls[k].planned_arrival;
+        else break;
+    }
+    const double late = k < run.calls.size() && !std::isnan(run.calls[k].planned_arrival)
+                            ? now_ - run.calls[k].planned_arrival
+                            : 0.0;
+    return std::max({0.0, shown, late});
+}
+
+std::uint32_t Day::crossing_promise(std::uint32_t t, std::uint32_t g, std::uint32_t k) const {
+    const SimModel::Train& a = train(t);
+    const std::int32_t stretch = a.stretch_of[k];
+    if (stretch < 0) return kNoTrain;
+    const std::uint32_t p = interlocking_.planned_before(t, g);
+    if (p == kNoTrain || run_of(p).service->direction == run_of(t).service->direction) return kNoTrain;
+    const SimModel::Train& b = train(p);
+    const StretchUse* ua = a.use_of(stretch);
+    const StretchUse* ub = b.use_of(stretch);
+    if (!ua || !ub) return kNoTrain;
+    const CrossingChoice c =
+        choose_crossing(*ua, forecast_delay(t), a.dispatch_weight, *ub, forecast_delay(p), b.dispatch_weight);
+    if (c.asking_goes_first) return kNoTrain;
+    // A train kept waiting for one that cannot come: p already asks for a route the safety rule
+    // refuses (it would leave some train no way off the line, t among them).  Keeping the order
+    // would only hold both until the forecasts tip the rule.
+    for (const Pending& q : pending_)
+        if (q.train == p && !dispatch_.leaves_a_way(interlocking_, p, sections_of(q))) return kNoTrain;
+    return p;
+}
+
+bool Day::may_take(std::uint32_t t, const std::vector<std::uint32_t>& sections,
+                   const std::vector<std::uint32_t>& path_sections) const {
+    const bool dispatch = options_.route_order == RouteOrder::dispatch;
+    for (std::size_t i = 0; i < sections.size(); ++i) {
+        const std::uint32_t g = sections[i];
+        const std::uint32_t b = blocker_of(t, g, path_sections[i]);
         if (b == kNoTrain) continue;
         // Held, or out of use: it must wait.  Promised to a train planned earlier: it waits for
         // that train, unless that train itself waits (directly or through others) for this one:
@@ -890,7 +956,7 @@ bool Day::may_take(std::uint32_t t, const std::vector<std::uint32_t>& sections) 
         std::vector<std::uint8_t> seen(st_.size(), 0);
         if (!waits_on(b, t, seen)) return false;
     }
-    return options_.route_order != RouteOrder::dispatch || dispatch_.leaves_a_way(interlocking_, t, sections);
+    return !dispatch || dispatch_.leaves_a_way(interlocking_, t, sections);
 }
 
 void Day::grant_pending() {
@@ -898,7 +964,7 @@ void Day::grant_pending() {
         const Pending p = pending_[i];
         if (p.route < 0) {
             const SimModel::Train& tr = train(p.train);
-            if (!may_take(p.train, tr.origin_sections)) {
+            if (!may_take(p.train, tr.origin_sections, tr.origin_path_sections)) {
                 pending_[i].cause = blocking_cause(p.train, tr.origin_sections);
                 ++i;
                 continue;
@@ -912,7 +978,7 @@ void Day::grant_pending() {
             continue;
         }
         const SimModel::Route& r = train(p.train).routes[p.route];
-        if (!may_take(p.train, r.sections)) {
+        if (!may_take(p.train, r.sections, r.path_sections)) {
             pending_[i].cause = blocking_cause(p.train, r.sections);
             pending_[i].cause.signal = r.entry_signal;
             ++i;
@@ -1486,7 +1552,9 @@ bool InjectedDelays::empty() const {
 
 SimResult simulate_day(const SimModel& model, const InjectedDelays& delays, const SimOptions& options) {
     Day day(model, delays, options);
-    return day.run();
+    SimResult result = day.run();
+    result.crossing_changes = crossing_changes(model, result);
+    return result;
 }
 
 }  // namespace knockon

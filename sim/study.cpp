@@ -190,7 +190,8 @@ StudySummary summarize_study(const SimModel& model, const StudyResult& study, co
         // No day ran to the end: no figure at all, rather than zeros that look like one.
         Estimate none;
         none.mean = none.half_width = none.lower = none.upper = std::numeric_limits<double>::quiet_NaN();
-        s.total_primary = s.total_knock_on = s.mean_arrival_delay = s.missed_connections = none;
+        s.total_primary = s.total_knock_on = s.mean_arrival_delay = s.moved_crossings = s.changed_orders = none;
+        s.missed_connections = none;
         s.knock_on_ratio = none.mean;
         s.punctuality.assign(thresholds.size(), none);
         return s;
@@ -213,9 +214,11 @@ StudySummary summarize_study(const SimModel& model, const StudyResult& study, co
     s.total_primary = estimate_mean(collect([](const ReplicationStats& r) { return r.total_primary; }));
     s.total_knock_on = estimate_mean(collect([](const ReplicationStats& r) { return r.total_knock_on; }));
     s.mean_arrival_delay = estimate_mean(collect([](const ReplicationStats& r) { return r.mean_arrival_delay; }));
+    s.moved_crossings = estimate_mean(collect([](const ReplicationStats& r) { return double(r.moved_crossings); }));
+    s.changed_orders = estimate_mean(collect([](const ReplicationStats& r) { return double(r.changed_orders); }));
     s.knock_on_ratio = s.total_primary.mean > 0.0 ? s.total_knock_on.mean / s.total_primary.mean : 0.0;
     for (const LinkPlan& l : model.links()) s.connections += l.kind == LinkKind::connection ? 1 : 0;
-    s.missed_connections = estimate_mean(collect([](const ReplicationStats& r) { return r.missed_connections; }));
+    s.missed_connections = estimate_mean(collect([](const ReplicationStats& r) { return double(r.missed_connections); }));
     for (std::size_t i = 0; i < thresholds.size(); ++i)
         s.punctuality.push_back(estimate_mean(collect([&](const ReplicationStats& r) { return r.punctuality[i]; })));
 

@@ -22,7 +22,7 @@ ReplicationFigures replication_figures(const SimModel& model, const SimResult& d
     const DaySummary d = summarize_day(day, thresholds);
     s.mean_arrival_delay = d.mean_arrival_delay;
     s.punctuality = d.punctuality;
-    s.missed_connections = static_cast<double>(d.missed_connections);
+    s.missed_connections = static_cast<std::uint32_t>(d.missed_connections);
     const std::size_t n = day.train_ids.size();
     r.train_primary.assign(n, 0.0f);
     r.train_knock_on.assign(n, 0.0f);
@@ -45,6 +45,8 @@ ReplicationFigures replication_figures(const SimModel& model, const SimResult& d
         s.total_knock_on += tr.knock_on;
     }
     for (const HoldRecord& h : day.holds) r.held[h.signal] += h.to - h.from;
+    for (const CrossingChange& c : day.crossing_changes)
+        ++(c.kind == CrossingChange::Kind::moved_crossing ? s.moved_crossings : s.changed_orders);
     r.section_blocked.assign(day.section_names.size(), 0.0f);
     for (const SectionRecord& sr : day.sections)
         if (!std::isnan(sr.released) && !std::isnan(sr.locked))

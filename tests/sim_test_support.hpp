@@ -67,7 +67,8 @@ struct Loaded {
     std::vector<TrainPlan> plan;
     std::unique_ptr<SimModel> model;
 
-    explicit Loaded(const std::string& path) : scenario(read_scenario(path)), plan(plan_trains(scenario)) {
+    explicit Loaded(const std::string& path, const std::string& variant = {})
+        : scenario(read_scenario(path, variant)), plan(plan_trains(scenario)) {
         model = std::make_unique<SimModel>(scenario.infrastructure, plan);
     }
     Loaded(const Loaded&) = delete;

@@ -46,7 +46,7 @@ TEST_CASE("input ranges: one entry per input with sensible bounds", "[ranges]") 
         CHECK(range_problem(r.input, r.max * (1.0 + 1e-9) + 1e-12).has_value());
         CHECK(range_problem(r.input, std::nan("")).has_value());
     }
-    CHECK(seen.size() == static_cast<std::size_t>(Input::empirical_delay) + 1);
+    CHECK(seen.size() == static_cast<std::size_t>(Input::dispatch_weight) + 1);
 }
 
 TEST_CASE("input ranges: a message names the range and the value in the range's unit", "[ranges]") {

@@ -233,7 +233,7 @@ void read_deadlock(const h5::InputFile& f, const std::string& g, SimResult& day)
     }
 }
 
-SimResult read_day_group(const h5::InputFile& f, const std::string& g) {
+SimResult read_day_group(const h5::InputFile& f, const std::string& g, int schema) {
     SimResult day;
     day.events = whole(f, g, "events");
     day.block_passages = whole(f, g, "block_passages");
@@ -289,7 +289,31 @@ SimResult read_day_group(const h5::InputFile& f, const std::string& g) {
         const auto signal = t.text("signal");
         const auto from = t.num("from", kClock), to = t.num("to", kClockOrNaN);
         day.holds.resize(t.rows());
-        for (std::size_t i = 0; i < t.rows(); ++i) day.holds[i] = {train[i], signal[i], from[i], to[i], std::string(), HoldCause{}};
+        for (std::size_t i = 0; i < t.rows(); ++i)
+            day.holds[i] = {train[i], signal[i], from[i], to[i], std::string(), HoldCause{}};
+    }
+    if (schema >= 6) {   // single-track crossings and orders other than planned
+        const Table t(f, g + "/crossing_changes");
+        const auto kind = t.text("kind"), planned = t.text("planned_place"), actual = t.text("actual_place");
+        const auto first = t.index("first", trains, "trains"), second = t.index("second", trains, "trains");
+        const auto when = t.num("when", kClock), fc = t.num("first_change", kSecondsOrNaN),
+                   sc = t.num("second_change", kSecondsOrNaN);
+        for (std::size_t i = 0; i < t.rows(); ++i) {
+            CrossingChange c;
+            if (kind[i] == to_string(CrossingChange::Kind::moved_crossing)) c.kind = CrossingChange::Kind::moved_crossing;
+            else if (kind[i] == to_string(CrossingChange::Kind::changed_order)) c.kind = CrossingChange::Kind::changed_order;
+            else
+                throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) + ": kind '" +
+                                       kind[i] + "' is not a kind of crossing change");
+            c.first = first[i];
+            c.second = second[i];
+            c.planned_place = planned[i];
+            c.actual_place = actual[i];
+            c.when = when[i];
+            c.first_change = fc[i];
+            c.second_change = sc[i];
+            day.crossing_changes.push_back(std::move(c));
+        }
     }
     {
         const Table t(f, g + "/trajectories");
@@ -317,7 +341,7 @@ std::vector<double> read_thresholds(const h5::InputFile& f, const std::string& g
     return out;
 }
 
-StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
+StoredStudy read_study_group(const h5::InputFile& f, const std::string& g, int schema) {
     StoredStudy out;
     StudySummary& s = out.summary;
     s.replications = whole(f, g, "replications", UINT32_MAX);
@@ -353,11 +377,14 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
         const auto rep = t.num("replication", kCount32), dl = t.num("deadlocked", kFlag), ev = t.num("events", kCount),
                    bp = t.num("block_passages", kCount), pr = t.num("total_primary", kSeconds),
                    ko = t.num("total_knock_on", kSeconds), ma = t.num("mean_arrival_delay", kSecondsOrNaN);
+        // Schema 6 and later count the single-track crossings and orders that differed from the plan.
+        const bool counted = schema >= 6;
+        const auto moved = counted ? t.num("moved_crossings", kCount32) : std::vector<double>(t.rows(), 0.0);
+        const auto changed = counted ? t.num("changed_orders", kCount32) : std::vector<double>(t.rows(), 0.0);
+        // Schema 7 and later count the connections missed (timetable links).
+        const auto missed = schema >= 7 ? t.num("missed_connections", kCount32) : std::vector<double>(t.rows(), 0.0);
         std::vector<std::vector<double>> punct;
         for (const std::string& name : fields) punct.push_back(t.num(name, kShareOrNaN));
-        // Missed connections: in every file of schema 6 on (none before).
-        const bool has_missed = whole(f, "/", "schema_version") >= 6;
-        const auto missed = has_missed ? t.num("missed_connections", kCount) : std::vector<double>(t.rows(), 0.0);
         // A deadlocked day has no arrival delay or punctuality (NaN); a complete day must have them.
         for (std::size_t i = 0; i < t.rows(); ++i) {
             if (dl[i] != 0.0) continue;
@@ -377,7 +404,9 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
             r.total_primary = pr[i];
             r.total_knock_on = ko[i];
             r.mean_arrival_delay = ma[i];
-            r.missed_connections = missed[i];
+            r.moved_crossings = static_cast<std::uint32_t>(moved[i]);
+            r.changed_orders = static_cast<std::uint32_t>(changed[i]);
+            r.missed_connections = static_cast<std::uint32_t>(missed[i]);
             for (const auto& column : punct) r.punctuality.push_back(column[i]);
         }
     }
@@ -394,6 +423,11 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g) {
         s.total_primary = find("total_primary");
         s.total_knock_on = find("total_knock_on");
         s.mean_arrival_delay = find("mean_arrival_delay");
+        if (schema >= 6) {
+            s.moved_crossings = find("moved_crossings");
+            s.changed_orders = find("changed_orders");
+        }
+        if (schema >= 7) s.missed_connections = find("missed_connections");
         for (const std::string& name : fields) s.punctuality.push_back(find(name));
     }
     {
@@ -518,7 +552,7 @@ void read_comparison(const h5::InputFile& f, ResultsFile& out) {
             v.plan.peak_section = peak_at[i];
             v.plan.day_consumption = day[i];
             v.plan.day_section = day_at[i];
-            v.study = read_study_group(f, "/variants/" + v.name);
+            v.study = read_study_group(f, "/variants/" + v.name, out.facts.schema_version);
             if (!out.variants.empty() && v.study.summary.thresholds != out.variants.front().study.summary.thresholds)
                 throw ResultsFileError(f.path() + ": /variants/" + v.name +
                                        ": attribute 'thresholds_s' differs from that of the first variant");
@@ -607,9 +641,9 @@ ResultsFile read_results(const std::string& path) {
         out.path = path;
         out.facts = read_facts(f);
         switch (out.facts.kind) {
-            case ResultsKind::day: out.day = read_day_group(f, "/day"); break;
+            case ResultsKind::day: out.day = read_day_group(f, "/day", out.facts.schema_version); break;
             case ResultsKind::study:
-                out.study = read_study_group(f, "/study");
+                out.study = read_study_group(f, "/study", out.facts.schema_version);
                 if (out.study->summary.replications != out.facts.replications)
                     throw ResultsFileError(path + ": /study: attribute 'replications' (" +
                                            std::to_string(out.study->summary.replications) +
@@ -628,7 +662,7 @@ ResultsFile read_results(const std::string& path) {
 SimResult read_traced_day(const std::string& path, std::uint32_t replication) {
     try {
         const h5::InputFile f(path);
-        return read_day_group(f, "/replications/" + replication_group_name(replication));
+        return read_day_group(f, "/replications/" + replication_group_name(replication), read_facts(f).schema_version);
     } catch (const h5::Error& e) {
         throw ResultsFileError(e.what());
     }

@@ -106,6 +106,27 @@ std::string waiting_table(const SimResult& d) {
     return html_table(t);
 }
 
+// The drawn day's crossings and orders on single track other than planned.
+std::string crossing_changes_table(const SimResult& d) {
+    HtmlTable t;
+    t.caption = "Single track: crossings and orders other than planned on the day drawn";
+    t.headers = {"time", "what", "planned first", "then", "planned at", "ran at", "change, first", "change, then"};
+    t.numeric = {false, false, false, false, false, false, true, true};
+    const auto change = [](double v) { return std::isnan(v) ? std::string("-") : fmt("%+.1f min", v / 60.0); };
+    const auto place = [](const std::string& p) { return p.empty() ? std::string("none") : p; };
+    for (const CrossingChange& c : d.crossing_changes)
+        t.rows.push_back({format_time_of_day(c.when), to_string(c.kind), d.train_ids[c.first], d.train_ids[c.second],
+                          place(c.planned_place), place(c.actual_place), change(c.first_change),
+                          change(c.second_change)});
+    t.highlight.assign(t.rows.size(), false);
+    return html_table(t) +
+           html_paragraph("A crossing moved: the two opposing trains passed each other at another crossing place than "
+                          "the timetable has them cross at. An order changed: two trains of one direction passed a "
+                          "single-track stretch in another order (\"none\": no overtaking). Change: each train's delay "
+                          "on leaving the later of the two places minus its delay on reaching the earlier one "
+                          "(+ lost, - gained).");
+}
+
 ReportSection glance_section(const ResultsView& v) {
     HtmlTable t;
     t.headers = {"figure", "value"};
@@ -125,6 +146,11 @@ ReportSection glance_section(const ResultsView& v) {
         t.rows.push_back({"mean arrival delay", min_ci(s.mean_arrival_delay)});
         for (std::size_t i = 0; i < s.thresholds.size() && i < s.punctuality.size(); ++i)
             t.rows.push_back({"punctual within " + threshold_text(s.thresholds[i]), pct_ci(s.punctuality[i])});
+        if (v.plan && !v.plan->single_track.empty() && v.file->facts.schema_version >= 6) {
+            const auto count_ci = [](const Estimate& e) { return fmt("%.2f", e.mean) + fmt(" ± %.2f", e.half_width); };
+            t.rows.push_back({"single track: crossings moved to another place", count_ci(s.moved_crossings)});
+            t.rows.push_back({"single track: pairs of one direction in another order", count_ci(s.changed_orders)});
+        }
         t.highlight.assign(t.rows.size(), false);
         t.highlight.front() = s.deadlocked > 0;
         intro = "A Monte Carlo study: " + std::to_string(s.replications) +
@@ -176,6 +202,7 @@ ReportSection glance_section(const ResultsView& v) {
     }
     std::string html = html_paragraph(intro) + html_table(t);
     if (incomplete_day(v)) html += waiting_table(*v.day);
+    if (v.day && !v.day->crossing_changes.empty()) html += crossing_changes_table(*v.day);
     return {"results", "Results at a glance", html};
 }
 

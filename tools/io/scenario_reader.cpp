@@ -83,7 +83,7 @@ public:
     Scenario parse(const YAML::Node& root) {
         MapFields top(errors_, root, "",
                       {"knockon", "name", "line_type", "infrastructure", "train_types", "timetable",
-                       "delays", "variants"});
+                       "delays", "dispatching", "variants"});
         // `variants` is checked and merged before this parse (see parse_scenario below).
         if (!top.ok()) return std::move(sc_);
         if (auto v = top.text("knockon", true)) {
@@ -107,7 +107,42 @@ public:
         if (auto tt = top.sequence("train_types", true)) read_train_types(top, *tt);
         if (top.require("timetable")) read_timetable(top.get("timetable"), top.path_of("timetable"));
         if (top.has("delays")) read_delays(top.get("delays"), top.path_of("delays"));
+        if (top.has("dispatching")) read_dispatching(top.get("dispatching"), top.path_of("dispatching"));
         return std::move(sc_);
+    }
+
+    // The dispatcher's weights per service category (sim/dispatch.hpp); read after the timetable,
+    // so that a category no service has is named.
+    void read_dispatching(const YAML::Node& node, const std::string& path) {
+        MapFields m(errors_, node, path, {"weights"});
+        if (!m.ok() || !m.has("weights")) return;
+        const YAML::Node weights = m.get("weights");
+        const std::string wpath = m.path_of("weights");
+        if (!weights.IsMap()) {
+            m.error("weights", "must be a map of service category to weight, e.g. {stopping: 2, freight: 1}");
+            return;
+        }
+        std::vector<std::string> known;
+        for (const Service& svc : sc_.timetable.services)
+            if (!svc.category.empty() && std::find(known.begin(), known.end(), svc.category) == known.end())
+                known.push_back(svc.category);
+        for (const auto& kv : weights) {
+            if (!kv.first.IsScalar()) {
+                errors_.add(kv.first, wpath, "a category must be a name");
+                continue;
+            }
+            const std::string category = kv.first.Scalar();
+            const std::string here = wpath + "." + category;
+            auto w = ranged_cell(kv.second, here, Input::dispatch_weight);
+            if (!w) continue;
+            if (std::find(known.begin(), known.end(), category) == known.end()) {
+                errors_.add(kv.first, here,
+                            "no service has category \"" + category + "\"; " + known_list(known));
+                continue;
+            }
+            for (Service& svc : sc_.timetable.services)
+                if (svc.category == category) svc.dispatch_weight = *w;
+        }
     }
 
 private:

@@ -31,20 +31,6 @@ std::size_t longest(const std::vector<std::string>& values) {
     return n;
 }
 
-RecordLayout per_day_layout(const std::vector<double>& thresholds) {
-    RecordLayout layout;
-    layout.add("replication", FieldKind::u32)
-        .add("deadlocked", FieldKind::u8)
-        .add("events", FieldKind::u64)
-        .add("block_passages", FieldKind::u64)
-        .add("total_primary", FieldKind::f64)
-        .add("total_knock_on", FieldKind::f64)
-        .add("mean_arrival_delay", FieldKind::f64)
-        .add("missed_connections", FieldKind::f64);
-    for (double t : thresholds) layout.add(punctuality_field(t), FieldKind::f64);
-    return layout;
-}
-
 // A table of day-major rows of float figures kept as f64 (a float goes to double and back
 // exactly), `per_day` rows a day.
 RecordLayout values_layout(const std::vector<std::string>& fields) {
@@ -112,17 +98,7 @@ void ShardHdf5Writer::add_day(const ReplicationFigures& day) {
                                " has another shape than the days before it");
     }
     const ReplicationStats& r = day.stats;
-    s.per_day->begin()
-        .u32(r.replication)
-        .u8(r.deadlocked ? 1 : 0)
-        .u64(r.events)
-        .u64(r.block_passages)
-        .f64(r.total_primary)
-        .f64(r.total_knock_on)
-        .f64(r.mean_arrival_delay)
-        .f64(r.missed_connections);
-    for (std::size_t i = 0; i < s.run.thresholds.size(); ++i)
-        s.per_day->f64(i < r.punctuality.size() ? r.punctuality[i] : std::numeric_limits<double>::quiet_NaN());
+    add_per_day_record(*s.per_day, day.stats, s.run.thresholds);
     for (std::size_t k = 0; k < s.records; ++k) s.timing->begin().f64(day.arrival_delay[k]).f64(day.knock_on[k]);
     for (std::size_t t = 0; t < s.train_count; ++t)
         s.trains->begin().f64(day.train_primary[t]).f64(day.train_knock_on[t]).f64(day.train_final_delay[t]);
@@ -281,8 +257,8 @@ std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
     const auto replication = f.number_column(pd, "replication"), deadlocked = f.number_column(pd, "deadlocked"),
                events = f.number_column(pd, "events"), passages = f.number_column(pd, "block_passages"),
                primary = f.number_column(pd, "total_primary"), knock_on = f.number_column(pd, "total_knock_on"),
-               mean_delay = f.number_column(pd, "mean_arrival_delay"),
-               missed = f.number_column(pd, "missed_connections");
+               mean_delay = f.number_column(pd, "mean_arrival_delay"), moved = f.number_column(pd, "moved_crossings"),
+               changed = f.number_column(pd, "changed_orders"), missed = f.number_column(pd, "missed_connections");
     std::vector<std::vector<double>> punctuality;
     for (double t : shard.run.thresholds) punctuality.push_back(f.number_column(pd, punctuality_field(t)));
     const auto arrival = f.number_column("/shard/timing_figures", "arrival_delay"),
@@ -314,7 +290,9 @@ std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
         st.total_primary = primary[d];
         st.total_knock_on = knock_on[d];
         st.mean_arrival_delay = mean_delay[d];
-        st.missed_connections = missed[d];
+        st.moved_crossings = static_cast<std::uint32_t>(moved[d]);
+        st.changed_orders = static_cast<std::uint32_t>(changed[d]);
+        st.missed_connections = static_cast<std::uint32_t>(missed[d]);
         for (const auto& column : punctuality) st.punctuality.push_back(column[d]);
         if (st.deadlocked && shard.first_deadlock && shard.first_deadlock->replication == st.replication)
             r.deadlock = shard.first_deadlock->report;

@@ -203,6 +203,39 @@ void write_links(const h5::Group& day, const SimResult& r) {
              "and whether a connection was missed. NaN where a train never got there.");
 }
 
+void write_crossing_changes(const h5::Group& day, const std::vector<CrossingChange>& records) {
+    RecordTable t(day, "crossing_changes",
+                  RecordLayout()
+                      .add_text("kind", 16)
+                      .add("first", FieldKind::u32)
+                      .add("second", FieldKind::u32)
+                      .add_text("planned_place", longest(records, [](auto& r) -> auto& { return r.planned_place; }))
+                      .add_text("actual_place", longest(records, [](auto& r) -> auto& { return r.actual_place; }))
+                      .add("when", FieldKind::f64)
+                      .add("first_change", FieldKind::f64)
+                      .add("second_change", FieldKind::f64));
+    for (const CrossingChange& r : records)
+        t.begin()
+            .text(to_string(r.kind))
+            .u32(r.first)
+            .u32(r.second)
+            .text(r.planned_place)
+            .text(r.actual_place)
+            .f64(r.when)
+            .f64(r.first_change)
+            .f64(r.second_change);
+    t.flush();
+    describe(t,
+             "kind: text (crossing moved, order changed), first: index into trains, second: index into trains, "
+             "planned_place: text, actual_place: text, when: s after midnight, first_change: s, second_change: s",
+             "Single-track stretches: pairs of opposing trains that crossed at another crossing place than "
+             "planned, and pairs of one direction that passed in another order (first = the train planned "
+             "first over their first shared stretch; a place is empty where one direction keeps its order). "
+             "when = the later of the two trains entering their shared stretches. first_change and "
+             "second_change = each train's delay on leaving the later of the two places minus its delay on "
+             "reaching the earlier one: positive lost, negative gained; NaN where not measurable.");
+}
+
 void write_trajectories(const h5::Group& day, const std::vector<TrajectorySample>& samples) {
     RecordTable t(day, "trajectories",
                   RecordLayout()
@@ -334,6 +367,7 @@ void write_day(const h5::Group& day, const SimResult& result) {
     write_routes(day, result.routes);
     write_holds(day, result);
     write_links(day, result);
+    write_crossing_changes(day, result.crossing_changes);
     write_trajectories(day, result.samples);
     write_deadlock(day, result);
 }

@@ -32,7 +32,9 @@ std::uint32_t count32(std::size_t n) {
     return static_cast<std::uint32_t>(n);
 }
 
-void write_per_day(const h5::Group& g, const StudyResult& study, const std::vector<double>& thresholds) {
+}  // namespace
+
+RecordLayout per_day_layout(const std::vector<double>& thresholds) {
     RecordLayout layout;
     layout.add("replication", FieldKind::u32)
         .add("deadlocked", FieldKind::u8)
@@ -41,35 +43,46 @@ void write_per_day(const h5::Group& g, const StudyResult& study, const std::vect
         .add("total_primary", FieldKind::f64)
         .add("total_knock_on", FieldKind::f64)
         .add("mean_arrival_delay", FieldKind::f64)
-        .add("missed_connections", FieldKind::f64);
+        .add("moved_crossings", FieldKind::u32)
+        .add("changed_orders", FieldKind::u32)
+        .add("missed_connections", FieldKind::u32);
+    for (double t : thresholds) layout.add(punctuality_field(t), FieldKind::f64);
+    return layout;
+}
+
+void add_per_day_record(RecordTable& table, const ReplicationStats& r, const std::vector<double>& thresholds) {
+    table.begin()
+        .u32(r.replication)
+        .u8(r.deadlocked ? 1 : 0)
+        .u64(r.events)
+        .u64(r.block_passages)
+        .f64(r.total_primary)
+        .f64(r.total_knock_on)
+        .f64(r.mean_arrival_delay)
+        .u32(r.moved_crossings)
+        .u32(r.changed_orders)
+        .u32(r.missed_connections);
+    for (std::size_t i = 0; i < thresholds.size(); ++i)
+        table.f64(i < r.punctuality.size() ? r.punctuality[i] : kNaN);
+}
+
+namespace {
+
+void write_per_day(const h5::Group& g, const StudyResult& study, const std::vector<double>& thresholds) {
     std::string units =
         "replication: 0-based replication number, deadlocked: 1 = the day ended in deadlock / 0 = not, "
         "events: count, block_passages: count, total_primary: s, total_knock_on: s, mean_arrival_delay: s, "
-        "missed_connections: count";
-    for (double t : thresholds) {
-        const std::string name = punctuality_field(t);
-        layout.add(name, FieldKind::f64);
-        units += ", " + name + ": share of arrivals and passes (0 to 1)";
-    }
-    RecordTable table(g, "per_day", layout);
-    for (const ReplicationStats& r : study.replications) {
-        table.begin()
-            .u32(r.replication)
-            .u8(r.deadlocked ? 1 : 0)
-            .u64(r.events)
-            .u64(r.block_passages)
-            .f64(r.total_primary)
-            .f64(r.total_knock_on)
-            .f64(r.mean_arrival_delay)
-            .f64(r.missed_connections);
-        for (std::size_t i = 0; i < thresholds.size(); ++i)
-            table.f64(i < r.punctuality.size() ? r.punctuality[i] : kNaN);
-    }
+        "moved_crossings: count, changed_orders: count, missed_connections: count";
+    for (double t : thresholds) units += ", " + punctuality_field(t) + ": share of arrivals and passes (0 to 1)";
+    RecordTable table(g, "per_day", per_day_layout(thresholds));
+    for (const ReplicationStats& r : study.replications) add_per_day_record(table, r, thresholds);
     table.flush();
     describe(table, units,
              "One record per simulated day, in replication order: primary delay injected into all trains, "
              "knock-on delay of all trains, mean arrival delay (early counted as 0) and the share of "
-             "arrivals and passes with delay strictly below each threshold. A day that ended in deadlock "
+             "arrivals and passes with delay strictly below each threshold, and on single-track stretches "
+             "the crossings that took place at another crossing place than planned and the pairs of one "
+             "direction that passed in another order (sim/crossing_changes.hpp). A day that ended in deadlock "
              "(deadlocked = 1) keeps its sums up to the deadlock, has NaN mean and shares, and enters no "
              "figure of the other tables.");
 }
@@ -82,6 +95,8 @@ void write_summary(const h5::Group& g, const StudySummary& s) {
     std::vector<Row> rows = {{"total_primary", "s", s.total_primary},
                              {"total_knock_on", "s", s.total_knock_on},
                              {"mean_arrival_delay", "s", s.mean_arrival_delay},
+                             {"moved_crossings", "count", s.moved_crossings},
+                             {"changed_orders", "count", s.changed_orders},
                              {"missed_connections", "count", s.missed_connections}};
     for (std::size_t i = 0; i < s.thresholds.size() && i < s.punctuality.size(); ++i)
         rows.push_back({punctuality_field(s.thresholds[i]), "share", s.punctuality[i]});
@@ -98,7 +113,7 @@ void write_summary(const h5::Group& g, const StudySummary& s) {
         table.begin().text(r.figure).text(r.unit).f64(r.e.mean).f64(r.e.half_width).f64(r.e.lower).f64(r.e.upper).u64(
             r.e.n);
     table.flush();
-    describe(table, std::string("figure: name of a per_day field, unit: text (s or share), ") + kEstimateUnits,
+    describe(table, std::string("figure: name of a per_day field, unit: text (s, share or count), ") + kEstimateUnits,
              "Mean over the complete days (not ended in deadlock) of one per_day field with its 95 % "
              "confidence interval (Student t); the same figures as the JSON output's per_day.");
 }

@@ -42,6 +42,11 @@ std::optional<TraceSelection> parse_trace_selection(const std::string& text);
 // minutes, else e.g. "punctual_150s".
 std::string punctuality_field(double threshold_seconds);
 
+// One simulated day's record of a per_day table (/study/per_day, and the shard file's): the layout
+// with a punctuality field per threshold, and a day's record appended to a table of it.
+h5::RecordLayout per_day_layout(const std::vector<double>& thresholds);
+void add_per_day_record(h5::RecordTable& table, const ReplicationStats& day, const std::vector<double>& thresholds);
+
 // The fields of an estimate with its 95 % interval in a table of figures (/study/summary,
 // /comparison/differences): mean, ci95_half_width, ci95_lower, ci95_upper (f64) and n (u64), in the
 // unit the record's `unit` field names; and their units as describe() takes them.

@@ -6,6 +6,7 @@
 #include <iostream>
 #include <sstream>
 
+#include "models/single_track.hpp"
 #include "tools/io/study_hdf5.hpp"
 
 namespace knockon::cli {
@@ -119,7 +120,7 @@ void add_order_option(po::options_description& options) {
 
 RouteOrder route_order_option(const po::variables_map& vm, const Infrastructure& infra) {
     const std::string order = vm["order"].as<std::string>();
-    if (order == "auto") return infra.has_single_line() ? RouteOrder::dispatch : RouteOrder::timetable;
+    if (order == "auto") return !single_track_layout(infra).empty() ? RouteOrder::dispatch : RouteOrder::timetable;
     if (order == "timetable") return RouteOrder::timetable;
     if (order == "first-come") return RouteOrder::first_come;
     if (order == "dispatch") return RouteOrder::dispatch;

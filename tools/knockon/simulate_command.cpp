@@ -49,6 +49,28 @@ std::string last_reached(const SimResult& r, const TrainDelay& td) {
     return out;
 }
 
+// Where the day crossed or ordered trains on single track otherwise than planned (nothing on a
+// line without single track).
+std::string crossing_changes_text(const SimResult& r) {
+    if (r.crossing_changes.empty()) return {};
+    std::ostringstream out;
+    out << "\nSingle track, crossings and orders other than planned: " << r.crossing_changes.size()
+        << " (change: delay on leaving the later place minus on reaching the earlier; + lost, - gained)\n";
+    auto change = [](double v) {
+        if (std::isnan(v)) return std::string("n/a");
+        char buf[32];
+        std::snprintf(buf, sizeof buf, "%+.1f min", v / 60.0);
+        return std::string(buf);
+    };
+    auto place = [](const std::string& p) { return p.empty() ? std::string("none") : p; };
+    for (const CrossingChange& c : r.crossing_changes)
+        out << "  " << format_time_of_day(c.when) << "  " << to_string(c.kind) << ": " << r.train_ids[c.first] << " / "
+            << r.train_ids[c.second] << ", planned at " << place(c.planned_place) << ", ran at "
+            << place(c.actual_place) << "; " << r.train_ids[c.first] << " " << change(c.first_change) << ", "
+            << r.train_ids[c.second] << " " << change(c.second_change) << "\n";
+    return out.str();
+}
+
 std::string summary_text(const Scenario& sc, const SimResult& r, const DaySummary& d) {
     std::ostringstream out;
     out << "knockon simulate: " << sc.name << " (" << sc.source_file << ")\n";
@@ -91,6 +113,7 @@ std::string summary_text(const Scenario& sc, const SimResult& r, const DaySummar
             << minutes(td.held) << "\n";
     }
     if (!shown) out << "No train ends late.\n";
+    out << crossing_changes_text(r);
     return out.str();
 }
 
@@ -145,6 +168,16 @@ nlohmann::ordered_json summary_json(const Scenario& sc, const SimResult& r, cons
         j["links"].push_back({{"from", r.train_ids[l.from]}, {"to", r.train_ids[l.to]}, {"connection", l.connection},
                               {"arrival", num(l.arrival)}, {"departure", num(l.departure)}, {"waited_s", l.waited},
                               {"missed", l.missed}});
+    j["crossing_changes"] = nlohmann::json::array();
+    for (const CrossingChange& c : r.crossing_changes)
+        j["crossing_changes"].push_back({{"kind", to_string(c.kind)},
+                                         {"first", r.train_ids[c.first]},
+                                         {"second", r.train_ids[c.second]},
+                                         {"planned_place", c.planned_place},
+                                         {"actual_place", c.actual_place},
+                                         {"time", c.when},
+                                         {"first_change_s", num(c.first_change)},
+                                         {"second_change_s", num(c.second_change)}});
     nlohmann::json deadlock = day_deadlock_json(r.deadlock, r.train_ids, r.section_names, d.trains - d.finished);
     deadlock["notice"] = day_deadlock_notice(r.deadlock, d.trains, d.trains - d.finished);
     return deadlock_first(deadlock, j);

@@ -60,6 +60,12 @@ std::string study_text(const Scenario& sc, const SimModel& model, const StudyRes
     for (std::size_t i = 0; i < s.thresholds.size(); ++i)
         out << fmt("  punctual within %g min  ", s.thresholds[i] / 60.0, 0) << percent(s.punctuality[i])
             << " (delay below the threshold)\n";
+    if (!model.single_track().empty()) {
+        out << fmt("  crossings moved          %.2f ± %.2f (single track: crossed at another place than planned)\n",
+                   s.moved_crossings.mean, s.moved_crossings.half_width);
+        out << fmt("  orders changed           %.2f ± %.2f (single track: one direction, in another order)\n",
+                   s.changed_orders.mean, s.changed_orders.half_width);
+    }
 
     std::vector<TrainStats> trains = s.trains;
     std::stable_sort(trains.begin(), trains.end(),
@@ -116,6 +122,7 @@ nlohmann::ordered_json study_json(const Scenario& sc, const SimModel& model, con
                   {"command_line", info.command_line}};
     j["per_day"] = {{"total_primary_s", est(s.total_primary)}, {"total_knock_on_s", est(s.total_knock_on)},
                     {"knock_on_ratio", s.knock_on_ratio}, {"mean_arrival_delay_s", est(s.mean_arrival_delay)},
+                    {"moved_crossings", est(s.moved_crossings)}, {"changed_orders", est(s.changed_orders)},
                     {"connections", s.connections}, {"missed_connections", est(s.missed_connections)}};
     for (std::size_t i = 0; i < s.thresholds.size(); ++i)
         j["per_day"]["punctuality"].push_back({{"threshold_s", s.thresholds[i]}, {"share", est(s.punctuality[i])},
