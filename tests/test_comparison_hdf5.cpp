@@ -78,7 +78,8 @@ TEST_CASE("compare --out writes a comparison file that agrees with compare --jso
         CHECK(f.number_attribute(g, "replications") == kDays);
         CHECK(f.fields(g + "/per_day") ==
               std::vector<std::string>{"replication", "deadlocked", "events", "block_passages", "total_primary",
-                                       "total_knock_on", "mean_arrival_delay", "moved_crossings", "changed_orders", "punctual_3min", "punctual_5min"});
+                                       "total_knock_on", "mean_arrival_delay", "moved_crossings", "changed_orders",
+                                       "missed_connections", "punctual_3min", "punctual_5min"});
     }
 
     // The reader's view agrees with the JSON of the same run, figure by figure.
