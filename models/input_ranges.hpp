@@ -46,6 +46,8 @@ enum class Input {
     time_of_day,
     repeat_every,
     entry_speed,
+    link_time,
+    link_wait,
     probability,
     delay_duration,
     delay_shape,

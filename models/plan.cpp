@@ -143,9 +143,79 @@ void add_conflicts(PlanResult& plan) {
               [](const Conflict& a, const Conflict& b) { return a.from < b.from; });
 }
 
+// Each link of the timetable, resolved to trains and timing points, goes to the train it holds.
+// The reader has checked the links; a scenario built in code gets the same sentences, located at
+// the link.
+void link_trains(const Scenario& scenario, std::vector<TrainPlan>& trains) {
+    const auto& links = scenario.timetable.links;
+    if (links.empty()) return;
+    std::map<std::string, std::size_t> index;
+    for (std::size_t t = 0; t < trains.size(); ++t) index[trains[t].run.service->id] = t;
+    auto timing_point = [](const ServiceRun& run, std::size_t call) {
+        for (std::size_t k = 0; k < run.calls.size(); ++k)
+            if (run.calls[k].call == call) return k;
+        return run.calls.size();
+    };
+    std::vector<std::string> problems;
+    for (std::size_t l = 0; l < links.size(); ++l) {
+        const ServiceLink& link = links[l];
+        auto a = index.find(link.from), b = index.find(link.to);
+        if (a == index.end() || b == index.end()) {
+            problems.push_back(scenario.where_link(l) + ": no service " + (a == index.end() ? link.from : link.to));
+            continue;
+        }
+        const ServiceRun &from = trains[a->second].run, &to = trains[b->second].run;
+        if (auto p = link_problem(scenario.infrastructure, link, *from.service, *to.service)) {
+            problems.push_back(scenario.where_link(l) + ": " + *p);
+            continue;
+        }
+        const LinkCalls calls = *link_calls(link, *from.service, *to.service);
+        LinkPlan lp;
+        lp.link = l;
+        lp.kind = link.kind;
+        lp.from = a->second;
+        lp.to = b->second;
+        lp.from_call = timing_point(from, calls.from_call);
+        lp.to_call = timing_point(to, calls.to_call);
+        lp.min_time = link.min_time;
+        lp.max_wait = link.max_wait;
+        lp.arrival = from.calls[lp.from_call].planned_arrival;
+        lp.departure = to.calls[lp.to_call].planned_departure;
+        trains[lp.to].incoming.push_back(lp);
+    }
+    if (!problems.empty()) throw ScenarioError(problems);
+}
+
+void add_links(PlanResult& plan) {
+    for (const TrainPlan& tp : plan.trains)
+        for (const LinkPlan& l : tp.incoming) plan.links.push_back(l);
+    std::sort(plan.links.begin(), plan.links.end(), [](const LinkPlan& a, const LinkPlan& b) { return a.link < b.link; });
+    // A link the timetable cannot keep is a conflict, named by its kind and place.
+    for (std::size_t i = 0; i < plan.links.size(); ++i) {
+        const LinkPlan& l = plan.links[i];
+        if (l.buffer() >= -kLinkTolerance) continue;
+        Conflict c;
+        c.section = plan.trains[l.to].run.calls[l.to_call].station;
+        c.first = l.from;
+        c.second = l.to;
+        c.overlap = -l.buffer();
+        c.from = l.departure;
+        c.link = static_cast<long>(i);
+        c.link_kind = l.kind;
+        plan.conflicts.push_back(c);
+        std::stable_sort(plan.conflicts.begin(), plan.conflicts.end(),
+                         [](const Conflict& a, const Conflict& b) { return a.from < b.from; });
+    }
+}
+
 }  // namespace
 
 std::string conflict_kind(const Conflict& c) {
+    if (c.link >= 0) {
+        const LinkKind k = c.link_kind;
+        return std::string(k == LinkKind::crew ? "crew link" : to_string(k)) + " shorter than its minimum " +
+               minimum_name(k) + " time";
+    }
     if (!c.opposing) return "same direction";
     return c.stretch.empty() ? "opposing trains" : "opposing trains on single-track stretch " + c.stretch;
 }
@@ -193,7 +263,7 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& o
         try {
             const TrainType* type = scenario.find_train_type(svc.train_type);
             if (!type) throw std::runtime_error("unknown train type");
-            TrainPlan tp{plan_service(scenario.infrastructure, svc, *type, scenario.timetable.rounding, options), {}};
+            TrainPlan tp{plan_service(scenario.infrastructure, svc, *type, scenario.timetable.rounding, options), {}, {}};
             tp.stairway = blocking_stairway(tp.run, scenario.infrastructure.interlocking);
             trains.push_back(std::move(tp));
             continue;
@@ -215,6 +285,7 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& o
             problems[at.first] += " (and " + std::to_string(at.second) + " more run" + (at.second == 1 ? "" : "s") +
                                   " of its pattern)";
     if (!problems.empty()) throw ScenarioError(problems);
+    link_trains(scenario, trains);
     return trains;
 }
 
@@ -239,6 +310,7 @@ PlanResult make_plan(const Scenario& scenario, const RunOptions& options) {
     plan.stretch_capacity = stretch_capacity(plan.single_track, plan.trains, scenario.line_type);
     plan.crossings_too_short = crossings_too_short(plan.single_track, plan.trains, plan.crossings);
     add_conflicts(plan);
+    add_links(plan);
     add_spacing_warnings(plan);
     add_tight_stretches(plan);
     return plan;

@@ -41,9 +41,17 @@ struct Conflict {
     double from = 0.0;                   // when the second's blocking starts [s]
     bool opposing = false;               // the two trains run in opposite directions
     std::string stretch;                 // the single-track stretch holding the section, if any
+    // A link the timetable cannot keep (index into PlanResult::links, else -1): `section` is then
+    // the station where the later train leaves, `overlap` how much the minimum time is missed by,
+    // `from` the later train's planned departure.
+    long link = -1;
+    LinkKind link_kind = LinkKind::turnaround;
 };
-// "opposing trains on single-track stretch HTW-BRC", "opposing trains" or "same direction".
+// "opposing trains on single-track stretch HTW-BRC", "opposing trains", "same direction", or for a
+// link "turnaround shorter than its minimum turnaround time".
 std::string conflict_kind(const Conflict& c);
+// Link buffers below this are rounding of given times, not a link the timetable breaks [s].
+inline constexpr double kLinkTolerance = 0.5;
 
 struct CapacityFigure {
     std::string line_section;
@@ -89,6 +97,8 @@ struct PlanResult {
     std::vector<Crossing> crossings;                // by place, then time
     std::vector<StretchCapacity> stretch_capacity;  // by stretch: peak hour, day
     std::vector<CrossingTooShort> crossings_too_short;
+    // Every link of the timetable with its buffer, in timetable order.
+    std::vector<LinkPlan> links;
 };
 
 PlanResult make_plan(const Scenario& scenario, const RunOptions& options = {});

@@ -59,4 +59,9 @@ std::string Scenario::where_signal(const std::string& id) const {
     return source_file.empty() ? std::string("scenario") : source_file;
 }
 
+std::string Scenario::where_link(std::size_t link) const {
+    if (link < sources.links.size() && !sources.links[link].empty()) return sources.links[link];
+    return source_file.empty() ? std::string("scenario") : source_file;
+}
+
 }  // namespace knockon

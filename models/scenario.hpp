@@ -24,6 +24,7 @@ struct SourceMap {
     std::vector<std::vector<std::string>> calls;   // per timetable entry, per call
     std::map<std::string, std::string> train_types;   // by type id
     std::map<std::string, std::string> signals;       // by signal id
+    std::vector<std::string> links;                   // per Timetable::links entry
 };
 
 struct Scenario {
@@ -42,6 +43,7 @@ struct Scenario {
     std::string where(const Service& service, std::size_t call) const;
     std::string where_type(const std::string& id) const;
     std::string where_signal(const std::string& id) const;
+    std::string where_link(std::size_t link) const;
 };
 
 }  // namespace knockon

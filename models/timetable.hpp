@@ -52,9 +52,22 @@ struct Service {
     std::size_t entry = 0;
 };
 
+// Links between services (models/links): a set that forms a later service, a connection, a crew
+// working one service and then another.
+enum class LinkKind { turnaround, connection, crew };
+// A link as the timetable gives it, services by id.
+struct ServiceLink {
+    LinkKind kind = LinkKind::turnaround;
+    std::string from, to;      // the earlier service (incoming set, feeder, crew's first) and the later
+    std::string station;       // connection: where passengers change; otherwise empty (ends and starts)
+    double min_time = 0.0;     // turnaround, transfer or crew change time [s]
+    double max_wait = 0.0;     // connection: the longest the connecting service waits beyond its departure [s]
+};
+
 struct Timetable {
     std::vector<Service> services;       // expanded: one entry per train run
     double rounding = 30.0;              // constructed times are rounded up to this grid [s]
+    std::vector<ServiceLink> links;      // between expanded services, by id
 };
 
 }  // namespace knockon

@@ -32,6 +32,14 @@ DaySummary summarize_day(const SimResult& r, const std::vector<double>& threshol
         per[h.train].held += h.to - h.from;
         s.total_held += h.to - h.from;
     }
+    for (std::size_t l = 0; l < r.links.size(); ++l) {
+        const LinkRecord& k = r.links[l];
+        s.total_link_wait += k.waited;
+        if (k.connection) {
+            ++s.connections;
+            if (k.missed) ++s.missed_connections;
+        }
+    }
     if (s.arrivals) {
         s.mean_arrival_delay = sum / static_cast<double>(s.arrivals);
         for (double& p : s.punctuality) p /= static_cast<double>(s.arrivals);

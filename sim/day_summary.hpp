@@ -34,6 +34,10 @@ struct DaySummary {
     double mean_arrival_delay = 0.0;         // negative (early) counts as 0 [s]; NaN if incomplete
     double total_final_delay = 0.0;          // sum over trains, early counts as 0 [s]; NaN if incomplete
     double total_held = 0.0;                 // [s] (incomplete day: stands closed before the deadlock)
+    // Links (models/links): connections of the timetable, those missed (the connecting train left
+    // without its feeder), and the time links kept trains beyond their own readiness [s].
+    std::size_t connections = 0, missed_connections = 0;
+    double total_link_wait = 0.0;
     std::vector<TrainDelay> trains_by_delay; // largest final delay first
 };
 

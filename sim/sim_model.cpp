@@ -206,6 +206,13 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
         buffer_pairs_.push_back({static_cast<std::uint32_t>(h.leader), static_cast<std::uint32_t>(h.follower),
                                  it->second, h.line_section, h.buffer});
     }
+    for (const TrainPlan& tp : plan)
+        for (const LinkPlan& l : tp.incoming) links_.push_back(l);
+    std::sort(links_.begin(), links_.end(), [](const LinkPlan& a, const LinkPlan& b) { return a.link < b.link; });
+    for (std::uint32_t l = 0; l < links_.size(); ++l) {
+        trains_[links_[l].to].links_in.push_back(l);
+        trains_[links_[l].from].links_out.push_back(l);
+    }
     starts.resize(section_names_.size());
     planned_order_.resize(section_names_.size());
     for (std::size_t s = 0; s < starts.size(); ++s) {

@@ -109,6 +109,9 @@ public:
         std::vector<Place> enters, leaves, clears;       // per path section: start, end, end + length
         std::vector<Place> sightings, passes, warnings;  // per route: read point, entry, warning point
         std::vector<Place> calls;                        // per timing point
+        // Links (indices into links()) that hold this train's departures, and those it is the
+        // earlier train of (its arrival frees them).
+        std::vector<std::uint32_t> links_in, links_out;
     };
 
     const Infrastructure& infrastructure() const { return infra_; }
@@ -125,6 +128,8 @@ public:
         double planned_buffer = 0.0;
     };
     const std::vector<BufferPair>& buffer_pairs() const { return buffer_pairs_; }
+    // The timetable's links (TrainPlan::incoming of every train), in timetable order.
+    const std::vector<LinkPlan>& links() const { return links_; }
 
 private:
     const Infrastructure& infra_;
@@ -133,6 +138,7 @@ private:
     std::vector<std::string> section_names_;
     std::vector<std::vector<std::uint32_t>> planned_order_;
     std::vector<BufferPair> buffer_pairs_;
+    std::vector<LinkPlan> links_;
 };
 
 }  // namespace knockon

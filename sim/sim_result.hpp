@@ -36,19 +36,54 @@ struct SectionRecord {
     double released = 0.0;
 };
 
+// What kept a train waiting: the train whose occupation or route held a section it needed (and
+// which section), a section out of use, the dispatcher, or a link it waited for.  Kept plain so
+// that the knock-on a hold passes on can be traced back through the holding train's own delay.
+struct HoldCause {
+    enum class Kind : std::uint8_t {
+        none,         // nothing held it beyond route setting and reaction (or it was never asked)
+        train,        // `train` held `section` or had it promised (timetable order)
+        disruption,   // `section` was out of use
+        dispatch,     // the dispatcher kept the route back so that every train keeps a way on
+        link,         // it waited for `link`, whose earlier train is `train`
+    };
+    static constexpr std::uint32_t kNone = UINT32_MAX;
+    Kind kind = Kind::none;
+    std::uint32_t train = kNone;     // index into SimResult::train_ids
+    std::uint32_t section = kNone;   // index into SimResult::section_names
+    std::uint32_t link = kNone;      // index into SimResult::links
+    std::string signal;              // entry signal of the route it waited for (train, disruption, dispatch)
+};
+const char* to_string(HoldCause::Kind k);   // "none", "train", "disruption", "dispatch", "link"
+
 struct RouteRecord {
     std::uint32_t train = 0;
     std::string entry_signal, exit_signal;
     double requested = 0.0;   // the train asked for it
     double granted = 0.0;     // sections locked, set-up begins
     double cleared = 0.0;     // set-up done: the entry signal shows proceed for the train
+    HoldCause held_by;        // what kept it from being granted when asked for, last (kind none: nothing)
 };
 
-// A train standing at a signal that shows stop (not at a scheduled stop).
+// A train standing at a signal that shows stop (SimResult::holds: `signal`, no station), or ready
+// at a stop or its origin but kept there (SimResult::waits: `station`, and the signal of the route
+// out when that held it), with the cause that held it last.
 struct HoldRecord {
     std::uint32_t train = 0;
     std::string signal;
     double from = 0.0, to = 0.0;
+    std::string station;
+    HoldCause cause;
+};
+
+// One link of the timetable (models/links) on the day, in timetable order.
+struct LinkRecord {
+    std::uint32_t from = 0, to = 0;   // the earlier and the later train (SimResult::train_ids)
+    bool connection = false;          // a connection (else a turnaround or a crew link)
+    double arrival = std::numeric_limits<double>::quiet_NaN();     // the earlier train's, where the link starts
+    double departure = std::numeric_limits<double>::quiet_NaN();   // the later train's, where it ends
+    double waited = 0.0;              // how long the link kept the later train beyond its own readiness [s]
+    bool missed = false;              // a connection the later train left without
 };
 
 struct TrajectorySample {
@@ -113,7 +148,9 @@ struct SimResult {
     std::vector<TimingRecord> timing;
     std::vector<SectionRecord> sections;
     std::vector<RouteRecord> routes;
-    std::vector<HoldRecord> holds;
+    std::vector<HoldRecord> holds;     // at signals
+    std::vector<HoldRecord> waits;     // ready at a stop or origin, kept there beyond a noise floor
+    std::vector<LinkRecord> links;     // per link of the timetable
     std::vector<TrajectorySample> samples;
     DeadlockReport deadlock;
     // Single-track crossings and orders that differed from the plan (sim/crossing_changes.hpp).

@@ -45,6 +45,7 @@ enum Kind : std::uint32_t {
     kBrakePoint,   // a train following its planned leg must start braking for its authority
     kDisruptionStart,   // not a train's: payload indexes InjectedDelays::blocked
     kDisruptionEnd,
+    kLinkCheck,    // a link that held a train's departure may let it go now
 };
 
 // Phases order simultaneous events: releases before grants, authority before motion.
@@ -58,6 +59,7 @@ std::uint8_t phase_of(Kind k) {
         case kDisruptionEnd: return 0;
         case kDisruptionStart: return 0;
         case kDepartReady: return 5;
+        case kLinkCheck: return 5;
         default: return 6;
     }
 }
@@ -115,6 +117,9 @@ private:
         double eoa = 0.0;           // end of the authority the driver knows
         bool ready = false;         // at a stop: dwell and schedule allow departure
         double ready_time = kNoTime;
+        // When it would have been ready by itself, links aside (differs from ready_time at its
+        // origin, where a turnaround or crew link already known is part of ready_time).
+        double own_ready = kNoTime;
         long stop_call = -1;        // timing point where it stands, if a scheduled stop
         double hold_from = kNoTime; // standing at a signal since
         std::size_t next_enter = 0, next_leave = 0, next_clear = 0;
@@ -123,6 +128,9 @@ private:
         std::vector<long> route_record;       // per route: index into result.routes
         bool appear_granted = false;          // its appearance time has come and the sections it
                                               // appears on are its own
+        // A formed service (turnaround) whose set has not yet arrived: it appears when it has.
+        bool awaiting_set = false, appear_deferred = false;
+        HoldCause appear_cause;               // what kept its origin sections from it, last
         double last_departure = kNoTime;      // from the previous timing point (or entry)
         double appeared = kNoTime;
         std::vector<long> section_record;     // per path section: index into result.sections
@@ -148,6 +156,7 @@ private:
     struct Pending {
         std::uint32_t train;
         long route;  // -1: the train waits to appear at its origin
+        HoldCause cause = {};   // what kept it back when last tried
     };
 
     const SimModel& model_;
@@ -226,6 +235,7 @@ private:
     // route is needed for the departure, its authority must reach beyond the stop.
     bool may_depart(std::uint32_t t) const {
         const TrainState& s = st_[t];
+        if (!train(t).links_in.empty() && link_hold(t, s.stop_call) > now_ + kEps) return false;
         const auto& routes = train(t).routes;
         // (they are the routes from the first signal ahead on: models/blocking_time stop_in)
         std::size_t j = s.next_pass;
@@ -233,6 +243,52 @@ private:
             if (!route_known(t, j)) return false;
         return j > s.next_pass || s.eoa > s.s_stand + kEps;
     }
+    // Links (models/links): until when the links into timing point k keep train t there (minus
+    // infinity: none; infinity: an earlier train it must wait for has not arrived).  A connection
+    // is waited for up to its planned departure plus the maximum wait.
+    double link_hold(std::uint32_t t, long k) const {
+        double hold = -kInf;
+        for (std::uint32_t l : train(t).links_in) {
+            const LinkPlan& link = model_.links()[l];
+            if (static_cast<long>(link.to_call) != k) continue;
+            const double arrival = out_.links[l].arrival;
+            double until = std::isnan(arrival) ? kInf : arrival + link.min_time;
+            if (link.kind == LinkKind::connection) until = std::min(until, link.wait_until());
+            hold = std::max(hold, until);
+        }
+        // On the engine's clock: an event pushed for `hold` happens at its tick.
+        return std::isfinite(hold) ? SimTime::from_seconds(hold).to_seconds() : hold;
+    }
+    // Wakes a train held by its links when they would let it go.
+    void schedule_link_check(std::uint32_t t) {
+        const double hold = link_hold(t, st_[t].stop_call);
+        if (std::isfinite(hold) && hold > now_) push(hold, kLinkCheck, t);
+    }
+    // The earlier train of links arrives at timing point k: the later trains may go after the minimum time.
+    void link_arrival(std::uint32_t t, std::size_t k);
+    // A train leaves timing point k: its links' records, and the link that held it longest (or -1).
+    long finish_links(std::uint32_t t, std::size_t k);
+    long binding_link(std::uint32_t t, std::size_t k) const;   // the link into k that lets t go last, or -1
+    // The formed services' sets (turnaround links into t) have all arrived and left the model.
+    bool set_arrived(std::uint32_t t) const {
+        for (std::uint32_t l : train(t).links_in) {
+            const LinkPlan& link = model_.links()[l];
+            if (link.kind == LinkKind::turnaround && st_[link.from].phase != Phase::finished) return false;
+        }
+        return true;
+    }
+    // What keeps a request for these sections back now: the first section another train holds or
+    // a disruption closes, else the first promised to a train planned earlier, else the dispatcher.
+    HoldCause blocking_cause(std::uint32_t t, const std::vector<std::uint32_t>& sections) const;
+    HoldCause link_cause(long l) const {
+        HoldCause c;
+        if (l < 0) return c;
+        c.kind = HoldCause::Kind::link;
+        c.link = static_cast<std::uint32_t>(l);
+        c.train = static_cast<std::uint32_t>(model_.links()[static_cast<std::size_t>(l)].from);
+        return c;
+    }
+
     // The route is set and the driver has had the reaction time since.
     bool route_known(std::uint32_t t, std::size_t j) const {
         const double set = st_[t].route_set[j];
@@ -371,6 +427,13 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
         routes += tr.routes.size();
     }
     out_.timing.reserve(calls);
+    for (const LinkPlan& l : model.links()) {
+        LinkRecord r;
+        r.from = static_cast<std::uint32_t>(l.from);
+        r.to = static_cast<std::uint32_t>(l.to);
+        r.connection = l.kind == LinkKind::connection;
+        out_.links.push_back(r);
+    }
     out_.sections.reserve(sections + sections / 8);
     out_.routes.reserve(routes);
     timing_first_.resize(trains.size());
@@ -904,10 +967,12 @@ void Day::grant_pending() {
         if (p.route < 0) {
             const SimModel::Train& tr = train(p.train);
             if (!may_take(p.train, tr.origin_sections, tr.origin_path_sections)) {
+                pending_[i].cause = blocking_cause(p.train, tr.origin_sections);
                 ++i;
                 continue;
             }
             pending_.erase(pending_.begin() + static_cast<long>(i));
+            st_[p.train].appear_cause = p.cause;
             take_sections(p.train, tr.origin_sections, tr.origin_path_sections);
             st_[p.train].appear_granted = true;
             outside_[p.train] = 0;
@@ -917,6 +982,8 @@ void Day::grant_pending() {
         }
         const SimModel::Route& r = train(p.train).routes[p.route];
         if (!may_take(p.train, r.sections, r.path_sections)) {
+            pending_[i].cause = blocking_cause(p.train, r.sections);
+            pending_[i].cause.signal = r.entry_signal;
             ++i;
             continue;
         }
@@ -927,6 +994,7 @@ void Day::grant_pending() {
         // every reader takes as "not set yet".
         RouteRecord& record = out_.routes[st_[p.train].route_record[p.route]];
         record.granted = now_;
+        record.held_by = p.cause;
         const double set = SimTime::from_seconds(now_ + times_.route_setup).to_seconds();
         st_[p.train].route_set[p.route] = set;
         record.cleared = set;
@@ -1001,11 +1069,23 @@ void Day::try_appear(std::uint32_t t) {
     s.stop_call = 0;
     const double entry = t < delays_.entry.size() ? delays_.entry[t] : 0.0;
     s.ready_time = std::max(run.calls[0].scheduled_departure + entry, now_ + dwell_at(t, 0));
-    // Kept off its platform by the previous occupant: what that costs it is knock-on.
+    // Kept off its platform by the previous occupant, or waiting for its set or crew (a link whose
+    // earlier train has arrived): what that costs it is knock-on.
     const double ready_on_time =
         std::max(run.calls[0].scheduled_departure + entry, run.appear_time + dwell_at(t, 0));
-    if (s.ready_time - ready_on_time > kNoiseFloor)
+    s.own_ready = ready_on_time;
+    long binding = -1;
+    if (!train(t).links_in.empty()) {
+        const double hold = link_hold(t, 0);
+        if (std::isfinite(hold) && hold > s.ready_time) s.ready_time = hold;
+        binding = s.appear_deferred || hold > ready_on_time + kNoiseFloor ? 0 : -1;
+    }
+    if (s.ready_time - ready_on_time > kNoiseFloor) {
         out_.timing[timing_first_[t]].knock_on += s.ready_time - ready_on_time;
+        HoldCause cause = s.appear_cause;
+        if (binding >= 0) cause = link_cause(binding_link(t, 0));
+        out_.waits.push_back({t, std::string(), ready_on_time, s.ready_time, run.calls[0].station, cause});
+    }
     const auto& sec = run.path.sections;
     while (s.next_enter < sec.size() && sec[s.next_enter].s_from < kEps) {
         long r = record_for(t, s.next_enter);
@@ -1085,18 +1165,42 @@ void Day::end_hold(std::uint32_t t) {
     TrainState& s = st_[t];
     if (std::isnan(s.hold_from)) return;
     std::string signal;
-    for (const SimModel::Route& r : train(t).routes)
-        if (std::fabs(r.s_entry - s.s_stand) < 50.0 && r.s_entry >= s.s_stand - kEps) {
-            signal = r.entry_signal;
+    HoldCause cause;
+    const auto& routes = train(t).routes;
+    for (std::size_t j = 0; j < routes.size(); ++j)
+        if (std::fabs(routes[j].s_entry - s.s_stand) < 50.0 && routes[j].s_entry >= s.s_stand - kEps) {
+            signal = routes[j].entry_signal;
+            // What kept the route from this signal back (the train stood for it).
+            if (s.route_record[j] >= 0) cause = out_.routes[s.route_record[j]].held_by;
+            cause.signal = signal;
             break;
         }
-    out_.holds.push_back({t, signal, s.hold_from, now_});
+    out_.holds.push_back({t, signal, s.hold_from, now_, std::string(), cause});
     s.hold_from = kNoTime;
 }
 
 void Day::depart(std::uint32_t t) {
     TrainState& s = st_[t];
-    record_call(t, static_cast<std::size_t>(s.stop_call), kNoTime, now_);
+    const std::size_t k = static_cast<std::size_t>(s.stop_call);
+    const long link = train(t).links_in.empty() ? -1 : finish_links(t, k);
+    // Ready but kept: by a link that let it go only now, else by the last route out to be set.
+    if (!std::isnan(s.ready_time) && now_ - s.ready_time > kNoiseFloor) {
+        HoldCause cause;
+        if (link >= 0 && link_hold(t, s.stop_call) >= now_ - kEps) {
+            cause = link_cause(link);
+        } else {
+            double last = -kInf;
+            const auto& routes = train(t).routes;
+            for (std::size_t j = s.next_pass; j < routes.size() && routes[j].after_stop == s.stop_call; ++j)
+                if (s.route_record[j] >= 0 && !(st_[t].route_set[j] < last)) {
+                    last = st_[t].route_set[j];
+                    cause = out_.routes[s.route_record[j]].held_by;
+                    cause.signal = routes[j].entry_signal;
+                }
+        }
+        out_.waits.push_back({t, std::string(), s.ready_time, now_, run_of(t).calls[k].station, cause});
+    }
+    record_call(t, k, kNoTime, now_);
     s.stop_call = -1;
     s.ready = false;
     s.ready_time = kNoTime;
@@ -1118,11 +1222,13 @@ void Day::begin_standing(std::uint32_t t) {
         const std::size_t k = s.next_call++;
         s.stop_call = static_cast<long>(k);
         record_call(t, k, now_, kNoTime);
+        if (!train(t).links_out.empty()) link_arrival(t, k);
         const double min_dwell = dwell_at(t, k);
         if (k + 1 == calls.size() && !run.path.ends_at_edge) {
             push(now_ + min_dwell, kVanish, t);
         } else {
             s.ready_time = std::max(calls[k].scheduled_departure, now_ + min_dwell);
+            s.own_ready = s.ready_time;
             push(s.ready_time, kDepartReady, t);
         }
     } else {
@@ -1144,6 +1250,73 @@ void Day::vanish(std::uint32_t t) {
     }
     s.phase = Phase::finished;
     cancel_motion(t);
+    // The set has left the platform: the services it forms may appear.
+    for (std::uint32_t l : train(t).links_out) {
+        const LinkPlan& link = model_.links()[l];
+        TrainState& next = st_[link.to];
+        if (link.kind != LinkKind::turnaround || !next.awaiting_set) continue;
+        next.awaiting_set = false;
+        next.appear_deferred = true;
+        push(now_, kAppear, static_cast<std::uint32_t>(link.to));
+    }
+}
+
+HoldCause Day::blocking_cause(std::uint32_t t, const std::vector<std::uint32_t>& sections) const {
+    HoldCause c;
+    c.kind = HoldCause::Kind::dispatch;
+    for (std::uint32_t g : sections) {
+        const std::uint32_t b = interlocking_.blocker(t, g);
+        if (b == kNoTrain) continue;
+        const bool held = b == kDisruption || interlocking_.holder(g) == b;
+        if (c.kind != HoldCause::Kind::dispatch && !held) continue;   // a promise only where nothing is held
+        c.section = g;
+        c.kind = b == kDisruption ? HoldCause::Kind::disruption : HoldCause::Kind::train;
+        c.train = b == kDisruption ? HoldCause::kNone : b;
+        if (held) break;
+    }
+    return c;
+}
+
+void Day::link_arrival(std::uint32_t t, std::size_t k) {
+    for (std::uint32_t l : train(t).links_out) {
+        const LinkPlan& link = model_.links()[l];
+        if (link.from_call != k) continue;
+        out_.links[l].arrival = now_;
+        double go = now_ + link.min_time;
+        if (link.kind == LinkKind::connection) go = std::min(go, link.wait_until());
+        push(std::max(go, now_), kLinkCheck, static_cast<std::uint32_t>(link.to));
+    }
+}
+
+long Day::binding_link(std::uint32_t t, std::size_t k) const {
+    long binding = -1;
+    double latest = -kInf;
+    for (std::uint32_t l : train(t).links_in) {
+        const LinkPlan& link = model_.links()[l];
+        if (link.to_call != k) continue;
+        const double arrival = out_.links[l].arrival;
+        double until = std::isnan(arrival) ? kInf : arrival + link.min_time;
+        if (link.kind == LinkKind::connection) until = std::min(until, link.wait_until());
+        if (until > latest) {
+            latest = until;
+            binding = l;
+        }
+    }
+    return binding;
+}
+
+long Day::finish_links(std::uint32_t t, std::size_t k) {
+    const TrainState& s = st_[t];
+    for (std::uint32_t l : train(t).links_in) {
+        const LinkPlan& link = model_.links()[l];
+        if (link.to_call != k) continue;
+        LinkRecord& r = out_.links[l];
+        r.departure = now_;
+        const double ready = std::isnan(r.arrival) ? kInf : r.arrival + link.min_time;
+        r.missed = link.kind == LinkKind::connection && ready > now_ + kEps;
+        r.waited = std::max(0.0, std::min(now_, ready) - s.own_ready);
+    }
+    return binding_link(t, k);
 }
 
 void Day::handle(const Event& e) {
@@ -1165,6 +1338,10 @@ void Day::handle(const Event& e) {
     auto stale_point = [&](std::size_t next) { return e.payload != next; };
     switch (static_cast<Kind>(e.kind)) {
         case kAppear:
+            if (!set_arrived(t)) {   // a formed service waits for its set (vanish wakes it)
+                s.awaiting_set = true;
+                break;
+            }
             // First the sections it appears on (a train entering over the line end: those up to
             // the first signal, which no route of its own protects) must be free.
             pending_.push_back({t, -1});
@@ -1190,6 +1367,10 @@ void Day::handle(const Event& e) {
             if (s.phase != Phase::standing || s.stop_call < 0) break;
             s.ready = true;
             if (may_depart(t)) depart(t);
+            else if (!train(t).links_in.empty()) schedule_link_check(t);
+            break;
+        case kLinkCheck:
+            if (s.phase == Phase::standing && s.stop_call >= 0 && s.ready && may_depart(t)) depart(t);
             break;
         case kVanish: vanish(t); break;
         case kEnter: {

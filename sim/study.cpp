@@ -193,6 +193,7 @@ StudySummary summarize_study(const SimModel& model, const StudyResult& study, co
         Estimate none;
         none.mean = none.half_width = none.lower = none.upper = std::numeric_limits<double>::quiet_NaN();
         s.total_primary = s.total_knock_on = s.mean_arrival_delay = s.moved_crossings = s.changed_orders = none;
+        s.missed_connections = none;
         s.knock_on_ratio = none.mean;
         s.punctuality.assign(thresholds.size(), none);
         return s;
@@ -218,6 +219,8 @@ StudySummary summarize_study(const SimModel& model, const StudyResult& study, co
     s.moved_crossings = estimate_mean(collect([](const ReplicationStats& r) { return double(r.moved_crossings); }));
     s.changed_orders = estimate_mean(collect([](const ReplicationStats& r) { return double(r.changed_orders); }));
     s.knock_on_ratio = s.total_primary.mean > 0.0 ? s.total_knock_on.mean / s.total_primary.mean : 0.0;
+    for (const LinkPlan& l : model.links()) s.connections += l.kind == LinkKind::connection ? 1 : 0;
+    s.missed_connections = estimate_mean(collect([](const ReplicationStats& r) { return double(r.missed_connections); }));
     for (std::size_t i = 0; i < thresholds.size(); ++i)
         s.punctuality.push_back(estimate_mean(collect([&](const ReplicationStats& r) { return r.punctuality[i]; })));
 

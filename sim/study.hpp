@@ -108,6 +108,8 @@ struct StudySummary {
     std::optional<DeadlockedDay> first_deadlock;
     std::vector<double> thresholds;
     Estimate total_primary, total_knock_on, mean_arrival_delay;
+    std::size_t connections = 0;        // connections in the timetable (models/links)
+    Estimate missed_connections;        // per day, of those
     Estimate moved_crossings, changed_orders;   // per day (SimResult::crossing_changes)
     double knock_on_ratio = 0.0;        // mean knock-on / mean primary per day
     std::vector<Estimate> punctuality;  // per threshold, per-day shares averaged

@@ -22,6 +22,7 @@ ReplicationFigures replication_figures(const SimModel& model, const SimResult& d
     const DaySummary d = summarize_day(day, thresholds);
     s.mean_arrival_delay = d.mean_arrival_delay;
     s.punctuality = d.punctuality;
+    s.missed_connections = static_cast<std::uint32_t>(d.missed_connections);
     const std::size_t n = day.train_ids.size();
     r.train_primary.assign(n, 0.0f);
     r.train_knock_on.assign(n, 0.0f);

@@ -36,6 +36,7 @@ struct ReplicationStats {
     double total_knock_on = 0.0;     // knock-on (secondary) delay of all trains [s]
     double mean_arrival_delay = 0.0; // over arrivals and passes, early counted as 0 [s]; NaN if deadlocked
     std::vector<double> punctuality; // share of arrivals within each threshold; NaN if deadlocked
+    std::uint32_t missed_connections = 0;   // connections the connecting train left without
     // Single-track stretches: crossings moved to another place, pairs of one direction in another
     // order (SimResult::crossing_changes).
     std::uint32_t moved_crossings = 0, changed_orders = 0;

@@ -56,7 +56,7 @@ TEST_CASE("compare --out writes a comparison file that agrees with compare --jso
     // Layout (tools/io/HDF5_LAYOUT.md, our own spec).
     const h5::InputFile f(out.string());
     CHECK(f.text_attribute("/", "kind") == "comparison");
-    CHECK(f.number_attribute("/", "schema_version") == 6);
+    CHECK(f.number_attribute("/", "schema_version") == 7);
     CHECK(f.number_attribute("/", "replications") == kDays);
     CHECK(f.number_attribute("/", "seed") == 7);
     CHECK(f.number_attribute("/", "step_m") == 2.0);
@@ -78,7 +78,8 @@ TEST_CASE("compare --out writes a comparison file that agrees with compare --jso
         CHECK(f.number_attribute(g, "replications") == kDays);
         CHECK(f.fields(g + "/per_day") ==
               std::vector<std::string>{"replication", "deadlocked", "events", "block_passages", "total_primary",
-                                       "total_knock_on", "mean_arrival_delay", "moved_crossings", "changed_orders", "punctual_3min", "punctual_5min"});
+                                       "total_knock_on", "mean_arrival_delay", "moved_crossings", "changed_orders",
+                                       "missed_connections", "punctual_3min", "punctual_5min"});
     }
 
     // The reader's view agrees with the JSON of the same run, figure by figure.

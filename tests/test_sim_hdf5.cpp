@@ -118,7 +118,7 @@ struct TempDir {
 
 const char* const kDatasets[] = {"/day/trains",       "/day/sections", "/day/timing",   "/day/occupancy",
                                  "/day/routes",       "/day/holds",    "/day/trajectories", "/day/deadlock",
-                                 "/day/deadlock_blocks"};
+                                 "/day/deadlock_blocks", "/day/waits", "/day/links"};
 
 }  // namespace
 
@@ -151,7 +151,14 @@ TEST_CASE("HDF5 results: every dataset exists with its record count", "[sim_hdf5
           Names{"train", "section", "locked", "head_enters", "head_leaves", "tail_clears", "released"});
     CHECK(f.field_names("/day/routes") ==
           Names{"train", "entry_signal", "exit_signal", "requested", "granted", "cleared"});
-    CHECK(f.field_names("/day/holds") == Names{"train", "signal", "from", "to"});
+    const Names causes{"cause", "cause_train", "cause_section", "cause_signal", "cause_link"};
+    Names holds{"train", "signal", "from", "to"}, waits{"train", "station", "from", "to"};
+    holds.insert(holds.end(), causes.begin(), causes.end());
+    waits.insert(waits.end(), causes.begin(), causes.end());
+    CHECK(f.field_names("/day/holds") == holds);
+    CHECK(f.field_names("/day/waits") == waits);
+    CHECK(f.field_names("/day/links") ==
+          Names{"from", "to", "connection", "arrival", "departure", "waited", "missed"});
     CHECK(f.field_names("/day/trajectories") == Names{"train", "time", "position", "chainage", "speed"});
     CHECK(f.field_names("/day/deadlock") == Names{"train", "waits_for", "chainage", "station", "since", "signal",
                                                   "route_set", "read_from", "text"});
@@ -240,7 +247,7 @@ TEST_CASE("HDF5 results: root and /day attributes", "[sim_hdf5]") {
 
     // Layout of tools/io/HDF5_LAYOUT.md (our own spec).
     CHECK(f.attr_class("/", "schema_version") == H5T_INTEGER);
-    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 6);
+    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 7);
     CHECK(f.text_attr("/", "kind") == "day");
     CHECK(f.text_attr("/", "variant") == "base");
     CHECK(f.number_attr<double>("/", "step_m", H5T_NATIVE_DOUBLE) == 1.5);

@@ -267,6 +267,11 @@ TEST_CASE("Simulated motion matches a fixed-step integration: braking towards a 
             for (const HoldRecord& h : s.result.holds)
                 if (h.train == foll) {
                     CHECK(h.signal == "U04");
+                    // The cause: LEAD, whose occupation kept FOLL's route from U04 back.
+                    CHECK(h.cause.kind == HoldCause::Kind::train);
+                    CHECK(h.cause.train == train_index(s, "LEAD"));
+                    CHECK(h.cause.signal == "U04");
+                    CHECK(h.cause.section < s.result.section_names.size());
                     held = true;
                 }
             CHECK(held == (extra > 300.0));

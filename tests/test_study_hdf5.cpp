@@ -116,7 +116,7 @@ TEST_CASE("study HDF5: per-day records and statistics agree with the JSON output
     using Names = std::vector<std::string>;
     CHECK(f.field_names("/study/per_day") ==
           Names{"replication", "deadlocked", "events", "block_passages", "total_primary", "total_knock_on",
-                "mean_arrival_delay", "moved_crossings", "changed_orders", "punctual_3min", "punctual_5min"});
+                "mean_arrival_delay", "moved_crossings", "changed_orders", "missed_connections", "punctual_3min", "punctual_5min"});
     CHECK(f.field_names("/study/summary") ==
           Names{"figure", "unit", "mean", "ci95_half_width", "ci95_lower", "ci95_upper", "n"});
     CHECK(f.field_names("/study/trains") ==
@@ -153,7 +153,7 @@ TEST_CASE("study HDF5: per-day records and statistics agree with the JSON output
     CHECK(summary_row(f, "mean_arrival_delay").upper == j["per_day"]["mean_arrival_delay_s"]["ci95_upper"].get<double>());
     CHECK(summary_row(f, "punctual_3min").mean == j["per_day"]["punctuality"][0]["share"]["mean"].get<double>());
     CHECK(summary_row(f, "punctual_5min").mean == j["per_day"]["punctuality"][1]["share"]["mean"].get<double>());
-    CHECK(f.text_column("/study/summary", "unit") == Names{"s", "s", "s", "count", "count", "share", "share"});
+    CHECK(f.text_column("/study/summary", "unit") == Names{"s", "s", "s", "count", "count", "count", "share", "share"});
 
     // The summary is the statistics of the per_day column. Mean: the sum in replication order / n.
     double sum = 0.0;

@@ -124,6 +124,19 @@ Table conflicts(const PlanResult& plan) {
     return t;
 }
 
+Table links(const PlanResult& plan) {
+    Table t{"links", "Links: turnarounds, connections and crew links (buffer = planned departure minus arrival plus minimum time)",
+            {{"kind", K::text}, {"from", K::text}, {"at", K::text}, {"arrival", K::time_of_day}, {"to", K::text},
+             {"departs_from", K::text}, {"departure", K::time_of_day}, {"minimum_s", K::duration},
+             {"max_wait_s", K::duration}, {"buffer_s", K::duration}},
+            {}};
+    for (const LinkPlan& l : plan.links)
+        t.rows.push_back({to_string(l.kind), train_id(plan, l.from), plan.trains[l.from].run.calls[l.from_call].station,
+                          l.arrival, train_id(plan, l.to), plan.trains[l.to].run.calls[l.to_call].station, l.departure,
+                          l.min_time, l.kind == LinkKind::connection ? l.max_wait : kNoTime, l.buffer()});
+    return t;
+}
+
 Table single_track_stretches(const PlanResult& plan) {
     Table t{"single_track_stretches", "Single-track stretches (both directions on one track, between crossing places)",
             {{"stretch", K::text}, {"track", K::text}, {"from_m", K::number}, {"to_m", K::number},
@@ -235,7 +248,7 @@ Table capacity(const PlanResult& plan) {
 
 std::vector<Table> plan_tables(const Scenario&, const PlanResult& plan) {
     return {trains(plan),         running_times(plan),    blocking_routes(plan), blocking_sections(plan),
-            headways(plan),       headway_matrix(plan),   conflicts(plan),       capacity(plan),
+            headways(plan),       links(plan),            headway_matrix(plan),  conflicts(plan),       capacity(plan),
             spacing_warnings(plan), timetable_warnings(plan), single_track_stretches(plan),
             crossings(plan),      single_track_capacity(plan), crossings_too_short(plan)};
 }
@@ -364,14 +377,25 @@ std::string plan_text(const Scenario& scenario, const PlanResult& plan) {
         hw.rows.push_back({plan.single_track.stretches[c.stretch].name, std::string("opposing"),
                            train_id(plan, c.opposing), train_id(plan, c.waiting), kNoTime, kNoTime, c.buffer,
                            "crossing at " + plan.single_track.places[c.place].name});
+    // Links: the time between the earlier train's arrival and the later one's departure against
+    // the minimum time, at the station the later train leaves.
+    for (const LinkPlan& l : plan.links) {
+        const std::string& at = plan.trains[l.to].run.calls[l.to_call].station;
+        hw.rows.push_back({at, std::string(to_string(l.kind)), train_id(plan, l.from), train_id(plan, l.to),
+                           l.departure - l.arrival, l.min_time, l.buffer(), std::string(to_string(l.kind)) + " at " + at});
+    }
     std::stable_sort(hw.rows.begin(), hw.rows.end(), [](const auto& a, const auto& b) {
         return std::get<double>(a[6]) < std::get<double>(b[6]);
     });
-    hw.title = "Thinnest buffers between consecutive trains, same direction and opposing (all pairs: --csv or --json)";
+    hw.title = plan.links.empty()
+                   ? "Thinnest buffers between consecutive trains, same direction and opposing (all pairs: --csv or --json)"
+                   : "Thinnest buffers between consecutive trains, same direction and opposing, and of links (all: --csv "
+                     "or --json)";
     out += to_text(hw, 15) + "\n";
 
     Table cf = find("conflicts");
-    cf.title = "Conflicts: " + std::to_string(cf.rows.size()) + " overlapping blocking times";
+    cf.title = "Conflicts: " + std::to_string(cf.rows.size()) +
+               (plan.links.empty() ? " overlapping blocking times" : " overlapping blocking times or links not kept");
     out += to_text(cf, 20) + "\n";
     if (!plan.crossings_too_short.empty()) {
         Table ts = find("crossings_too_short");
@@ -384,6 +408,7 @@ std::string plan_text(const Scenario& scenario, const PlanResult& plan) {
         out += crossings_text(plan, find("crossings"));
         out += to_text(find("single_track_capacity")) + "\n";
     }
+    if (!plan.links.empty()) out += to_text(find("links")) + "\n";
     out += to_text(find("headway_matrix")) + "\n";
     out += to_text(find("capacity")) + "\n";
     if (!plan.spacing_warnings.empty()) {

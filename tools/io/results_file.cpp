@@ -289,7 +289,8 @@ SimResult read_day_group(const h5::InputFile& f, const std::string& g, int schem
         const auto signal = t.text("signal");
         const auto from = t.num("from", kClock), to = t.num("to", kClockOrNaN);
         day.holds.resize(t.rows());
-        for (std::size_t i = 0; i < t.rows(); ++i) day.holds[i] = {train[i], signal[i], from[i], to[i]};
+        for (std::size_t i = 0; i < t.rows(); ++i)
+            day.holds[i] = {train[i], signal[i], from[i], to[i], std::string(), HoldCause{}};
     }
     if (schema >= 6) {   // single-track crossings and orders other than planned
         const Table t(f, g + "/crossing_changes");
@@ -380,6 +381,8 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g, int s
         const bool counted = schema >= 6;
         const auto moved = counted ? t.num("moved_crossings", kCount32) : std::vector<double>(t.rows(), 0.0);
         const auto changed = counted ? t.num("changed_orders", kCount32) : std::vector<double>(t.rows(), 0.0);
+        // Schema 7 and later count the connections missed (timetable links).
+        const auto missed = schema >= 7 ? t.num("missed_connections", kCount32) : std::vector<double>(t.rows(), 0.0);
         std::vector<std::vector<double>> punct;
         for (const std::string& name : fields) punct.push_back(t.num(name, kShareOrNaN));
         // A deadlocked day has no arrival delay or punctuality (NaN); a complete day must have them.
@@ -403,6 +406,7 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g, int s
             r.mean_arrival_delay = ma[i];
             r.moved_crossings = static_cast<std::uint32_t>(moved[i]);
             r.changed_orders = static_cast<std::uint32_t>(changed[i]);
+            r.missed_connections = static_cast<std::uint32_t>(missed[i]);
             for (const auto& column : punct) r.punctuality.push_back(column[i]);
         }
     }
@@ -423,6 +427,7 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g, int s
             s.moved_crossings = find("moved_crossings");
             s.changed_orders = find("changed_orders");
         }
+        if (schema >= 7) s.missed_connections = find("missed_connections");
         for (const std::string& name : fields) s.punctuality.push_back(find(name));
     }
     {

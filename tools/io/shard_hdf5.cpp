@@ -258,7 +258,7 @@ std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
                events = f.number_column(pd, "events"), passages = f.number_column(pd, "block_passages"),
                primary = f.number_column(pd, "total_primary"), knock_on = f.number_column(pd, "total_knock_on"),
                mean_delay = f.number_column(pd, "mean_arrival_delay"), moved = f.number_column(pd, "moved_crossings"),
-               changed = f.number_column(pd, "changed_orders");
+               changed = f.number_column(pd, "changed_orders"), missed = f.number_column(pd, "missed_connections");
     std::vector<std::vector<double>> punctuality;
     for (double t : shard.run.thresholds) punctuality.push_back(f.number_column(pd, punctuality_field(t)));
     const auto arrival = f.number_column("/shard/timing_figures", "arrival_delay"),
@@ -292,6 +292,7 @@ std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
         st.mean_arrival_delay = mean_delay[d];
         st.moved_crossings = static_cast<std::uint32_t>(moved[d]);
         st.changed_orders = static_cast<std::uint32_t>(changed[d]);
+        st.missed_connections = static_cast<std::uint32_t>(missed[d]);
         for (const auto& column : punctuality) st.punctuality.push_back(column[d]);
         if (st.deadlocked && shard.first_deadlock && shard.first_deadlock->replication == st.replication)
             r.deadlock = shard.first_deadlock->report;

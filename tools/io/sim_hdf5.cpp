@@ -1,6 +1,7 @@
 #include "tools/io/sim_hdf5.hpp"
 
 #include <algorithm>
+#include <cmath>
 #include <stdexcept>
 #include <vector>
 
@@ -136,17 +137,70 @@ void write_routes(const h5::Group& day, const std::vector<RouteRecord>& records)
              "not happen.");
 }
 
-void write_holds(const h5::Group& day, const std::vector<HoldRecord>& records) {
-    RecordTable t(day, "holds",
-                  RecordLayout()
-                      .add("train", FieldKind::u32)
-                      .add_text("signal", longest(records, [](auto& r) -> auto& { return r.signal; }))
-                      .add("from", FieldKind::f64)
-                      .add("to", FieldKind::f64));
-    for (const HoldRecord& r : records) t.begin().u32(r.train).text(r.signal).f64(r.from).f64(r.to);
+// Holds at signals and waits at stops share their layout: who, where, when, and the cause (as
+// text ids, empty where the cause has none; the link as a row of /day/links, NaN where none).
+void write_hold_table(const h5::Group& day, const char* name, const SimResult& r, const std::vector<HoldRecord>& records,
+                      bool at_stop, const std::string& description) {
+    auto id = [](const std::vector<std::string>& ids, std::uint32_t i) -> const std::string& {
+        static const std::string none;
+        return i < ids.size() ? ids[i] : none;
+    };
+    RecordLayout layout;
+    layout.add("train", FieldKind::u32);
+    if (at_stop) layout.add_text("station", longest(records, [](auto& h) -> auto& { return h.station; }));
+    else layout.add_text("signal", longest(records, [](auto& h) -> auto& { return h.signal; }));
+    layout.add("from", FieldKind::f64)
+        .add("to", FieldKind::f64)
+        .add_text("cause", 10)
+        .add_text("cause_train", longest(records, [&](auto& h) -> auto& { return id(r.train_ids, h.cause.train); }))
+        .add_text("cause_section",
+                  longest(records, [&](auto& h) -> auto& { return id(r.section_names, h.cause.section); }))
+        .add_text("cause_signal", longest(records, [](auto& h) -> auto& { return h.cause.signal; }))
+        .add("cause_link", FieldKind::f64);
+    RecordTable t(day, name, layout);
+    for (const HoldRecord& h : records) {
+        auto& row = t.begin().u32(h.train).text(at_stop ? h.station : h.signal).f64(h.from).f64(h.to);
+        row.text(to_string(h.cause.kind))
+            .text(id(r.train_ids, h.cause.train))
+            .text(id(r.section_names, h.cause.section))
+            .text(h.cause.signal)
+            .f64(h.cause.link == HoldCause::kNone ? std::nan("") : static_cast<double>(h.cause.link));
+    }
     t.flush();
-    describe(t, "train: index into trains, signal: text, from: s after midnight, to: s after midnight",
-             "Time a train stood at a signal showing stop (not at a scheduled stop).");
+    describe(t,
+             std::string("train: index into trains, ") + (at_stop ? "station: text" : "signal: text") +
+                 ", from: s after midnight, to: s after midnight, cause: text, cause_train: text, cause_section: "
+                 "text, cause_signal: text, cause_link: row of links",
+             description);
+}
+
+void write_holds(const h5::Group& day, const SimResult& r) {
+    write_hold_table(day, "holds", r, r.holds, false,
+                     "Time a train stood at a signal showing stop (not at a scheduled stop), with what held it.");
+    write_hold_table(day, "waits", r, r.waits, true,
+                     "Time a train, ready to leave a stop or its origin, was kept there, with what kept it.");
+}
+
+void write_links(const h5::Group& day, const SimResult& r) {
+    RecordTable t(day, "links",
+                  RecordLayout()
+                      .add("from", FieldKind::u32)
+                      .add("to", FieldKind::u32)
+                      .add("connection", FieldKind::u8)
+                      .add("arrival", FieldKind::f64)
+                      .add("departure", FieldKind::f64)
+                      .add("waited", FieldKind::f64)
+                      .add("missed", FieldKind::u8));
+    for (const LinkRecord& l : r.links)
+        t.begin().u32(l.from).u32(l.to).u8(l.connection ? 1 : 0).f64(l.arrival).f64(l.departure).f64(l.waited).u8(
+            l.missed ? 1 : 0);
+    t.flush();
+    describe(t,
+             "from: index into trains, to: index into trains, connection: 0/1, arrival: s after midnight, "
+             "departure: s after midnight, waited: s, missed: 0/1",
+             "Each link of the timetable (turnaround, connection, crew link) in timetable order: the earlier "
+             "train's arrival, the later train's departure, how long the link kept it beyond its own readiness, "
+             "and whether a connection was missed. NaN where a train never got there.");
 }
 
 void write_crossing_changes(const h5::Group& day, const std::vector<CrossingChange>& records) {
@@ -311,7 +365,8 @@ void write_day(const h5::Group& day, const SimResult& result) {
     write_timing(day, result.timing);
     write_occupancy(day, result.sections);
     write_routes(day, result.routes);
-    write_holds(day, result.holds);
+    write_holds(day, result);
+    write_links(day, result);
     write_crossing_changes(day, result.crossing_changes);
     write_trajectories(day, result.samples);
     write_deadlock(day, result);

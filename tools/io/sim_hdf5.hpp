@@ -23,7 +23,7 @@ class RecordTable;
 //    deadlock_notice; /day deadlock_cause, trains_not_finished and the tables deadlock and
 //    deadlock_blocks; study groups complete_days and first_deadlock_*.
 // 5: root attribute scenario_hash (day and study files); study shard files (kind "shard").
-inline constexpr int kSimHdf5SchemaVersion = 6;
+inline constexpr int kSimHdf5SchemaVersion = 7;
 
 // Facts about the run that the results alone do not carry.
 struct Hdf5RunInfo {

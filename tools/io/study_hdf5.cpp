@@ -44,7 +44,8 @@ RecordLayout per_day_layout(const std::vector<double>& thresholds) {
         .add("total_knock_on", FieldKind::f64)
         .add("mean_arrival_delay", FieldKind::f64)
         .add("moved_crossings", FieldKind::u32)
-        .add("changed_orders", FieldKind::u32);
+        .add("changed_orders", FieldKind::u32)
+        .add("missed_connections", FieldKind::u32);
     for (double t : thresholds) layout.add(punctuality_field(t), FieldKind::f64);
     return layout;
 }
@@ -59,7 +60,8 @@ void add_per_day_record(RecordTable& table, const ReplicationStats& r, const std
         .f64(r.total_knock_on)
         .f64(r.mean_arrival_delay)
         .u32(r.moved_crossings)
-        .u32(r.changed_orders);
+        .u32(r.changed_orders)
+        .u32(r.missed_connections);
     for (std::size_t i = 0; i < thresholds.size(); ++i)
         table.f64(i < r.punctuality.size() ? r.punctuality[i] : kNaN);
 }
@@ -70,7 +72,7 @@ void write_per_day(const h5::Group& g, const StudyResult& study, const std::vect
     std::string units =
         "replication: 0-based replication number, deadlocked: 1 = the day ended in deadlock / 0 = not, "
         "events: count, block_passages: count, total_primary: s, total_knock_on: s, mean_arrival_delay: s, "
-        "moved_crossings: count, changed_orders: count";
+        "moved_crossings: count, changed_orders: count, missed_connections: count";
     for (double t : thresholds) units += ", " + punctuality_field(t) + ": share of arrivals and passes (0 to 1)";
     RecordTable table(g, "per_day", per_day_layout(thresholds));
     for (const ReplicationStats& r : study.replications) add_per_day_record(table, r, thresholds);
@@ -94,7 +96,8 @@ void write_summary(const h5::Group& g, const StudySummary& s) {
                              {"total_knock_on", "s", s.total_knock_on},
                              {"mean_arrival_delay", "s", s.mean_arrival_delay},
                              {"moved_crossings", "count", s.moved_crossings},
-                             {"changed_orders", "count", s.changed_orders}};
+                             {"changed_orders", "count", s.changed_orders},
+                             {"missed_connections", "count", s.missed_connections}};
     for (std::size_t i = 0; i < s.thresholds.size() && i < s.punctuality.size(); ++i)
         rows.push_back({punctuality_field(s.thresholds[i]), "share", s.punctuality[i]});
     std::vector<std::string> figures, units;

@@ -104,6 +104,10 @@ std::string summary_text(const Scenario& sc, const SimResult& r, const DaySummar
     }
     out << "Total delay at last timing points: " << minutes(d.total_final_delay) << "; time standing at signals: "
         << minutes(d.total_held) << ".\n";
+    if (!r.links.empty())
+        out << "Links: " << r.links.size() << " (turnarounds, connections, crew links); " << d.missed_connections
+            << " of " << d.connections << " connection(s) missed; trains waited " << minutes(d.total_link_wait)
+            << " for links beyond being ready themselves.\n";
     std::size_t shown = 0;
     for (const TrainDelay& td : d.trains_by_delay) {
         if (td.final_delay < 1.0 || shown == 10) break;
@@ -129,7 +133,9 @@ nlohmann::ordered_json summary_json(const Scenario& sc, const SimResult& r, cons
     j["summary"] = {{"complete", d.complete}, {"trains", d.trains}, {"finished", d.finished},
                     {"trains_not_finished", d.trains - d.finished}, {"arrivals", d.arrivals},
                     {"mean_arrival_delay_s", num(d.mean_arrival_delay)},
-                    {"total_final_delay_s", num(d.total_final_delay)}, {"total_held_s", d.total_held}};
+                    {"total_final_delay_s", num(d.total_final_delay)}, {"total_held_s", d.total_held},
+                    {"connections", d.connections}, {"missed_connections", d.missed_connections},
+                    {"total_link_wait_s", d.total_link_wait}};
     for (std::size_t i = 0; i < d.thresholds.size(); ++i)
         j["summary"]["punctuality"].push_back({{"threshold_s", d.thresholds[i]}, {"share", num(d.punctuality[i])},
                                                {"rule", "delay strictly below the threshold"}});
@@ -143,9 +149,28 @@ nlohmann::ordered_json summary_json(const Scenario& sc, const SimResult& r, cons
         j["routes"].push_back({{"train", r.train_ids[rr.train]}, {"entry_signal", rr.entry_signal},
                                {"exit_signal", rr.exit_signal}, {"requested", num(rr.requested)},
                                {"granted", num(rr.granted)}, {"cleared", num(rr.cleared)}});
+    // Holds at signals and waits at stops, each with what held it (sim_result.hpp HoldCause).
+    auto cause = [&](const HoldCause& c) {
+        nlohmann::json k = {{"kind", to_string(c.kind)}};
+        if (c.train != HoldCause::kNone) k["train"] = r.train_ids[c.train];
+        if (c.section != HoldCause::kNone) k["section"] = r.section_names[c.section];
+        if (!c.signal.empty()) k["signal"] = c.signal;
+        if (c.link != HoldCause::kNone) k["link"] = c.link;
+        return k;
+    };
     j["holds"] = nlohmann::json::array();
     for (const HoldRecord& h : r.holds)
-        j["holds"].push_back({{"train", r.train_ids[h.train]}, {"signal", h.signal}, {"from", h.from}, {"to", h.to}});
+        j["holds"].push_back({{"train", r.train_ids[h.train]}, {"signal", h.signal}, {"from", h.from}, {"to", h.to},
+                              {"cause", cause(h.cause)}});
+    j["waits"] = nlohmann::json::array();
+    for (const HoldRecord& h : r.waits)
+        j["waits"].push_back({{"train", r.train_ids[h.train]}, {"station", h.station}, {"from", h.from}, {"to", h.to},
+                              {"cause", cause(h.cause)}});
+    j["links"] = nlohmann::json::array();
+    for (const LinkRecord& l : r.links)
+        j["links"].push_back({{"from", r.train_ids[l.from]}, {"to", r.train_ids[l.to]}, {"connection", l.connection},
+                              {"arrival", num(l.arrival)}, {"departure", num(l.departure)}, {"waited_s", l.waited},
+                              {"missed", l.missed}});
     j["crossing_changes"] = nlohmann::json::array();
     for (const CrossingChange& c : r.crossing_changes)
         j["crossing_changes"].push_back({{"kind", to_string(c.kind)},

@@ -55,6 +55,9 @@ std::string study_text(const Scenario& sc, const SimModel& model, const StudyRes
     out << "  knock-on delay           " << minutes(s.total_knock_on) << "\n";
     out << fmt("  knock-on / primary       %.2f\n", s.knock_on_ratio, 0);
     out << "  mean arrival delay       " << minutes(s.mean_arrival_delay) << "\n";
+    if (s.connections > 0)
+        out << fmt("  missed connections       %.2f", s.missed_connections.mean, 0)
+            << fmt(" ± %.2f", s.missed_connections.half_width, 0) << " of " << s.connections << "\n";
     for (std::size_t i = 0; i < s.thresholds.size(); ++i)
         out << fmt("  punctual within %g min  ", s.thresholds[i] / 60.0, 0) << percent(s.punctuality[i])
             << " (delay below the threshold)\n";
@@ -121,7 +124,8 @@ nlohmann::ordered_json study_json(const Scenario& sc, const SimModel& model, con
                   {"command_line", info.command_line}};
     j["per_day"] = {{"total_primary_s", est(s.total_primary)}, {"total_knock_on_s", est(s.total_knock_on)},
                     {"knock_on_ratio", s.knock_on_ratio}, {"mean_arrival_delay_s", est(s.mean_arrival_delay)},
-                    {"moved_crossings", est(s.moved_crossings)}, {"changed_orders", est(s.changed_orders)}};
+                    {"moved_crossings", est(s.moved_crossings)}, {"changed_orders", est(s.changed_orders)},
+                    {"connections", s.connections}, {"missed_connections", est(s.missed_connections)}};
     for (std::size_t i = 0; i < s.thresholds.size(); ++i)
         j["per_day"]["punctuality"].push_back({{"threshold_s", s.thresholds[i]}, {"share", est(s.punctuality[i])},
                                                {"rule", "delay strictly below the threshold"}});
