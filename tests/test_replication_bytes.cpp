@@ -54,6 +54,7 @@ void check_same_day(const ReplicationFigures& a, const ReplicationFigures& b) {
     CHECK(same_bits(a.stats.mean_arrival_delay, b.stats.mean_arrival_delay));
     CHECK(a.stats.moved_crossings == b.stats.moved_crossings);
     CHECK(a.stats.changed_orders == b.stats.changed_orders);
+    CHECK(a.stats.missed_connections == b.stats.missed_connections);
     CHECK(same_bits(a.stats.punctuality, b.stats.punctuality));
     CHECK(a.deadlock.deadlocked == b.deadlock.deadlocked);
     CHECK(same_bits(a.deadlock.time, b.deadlock.time));
@@ -110,8 +111,9 @@ TEST_CASE("a day's figures go through bytes unchanged to the bit", "[study][rank
         std::string one;
         append_day_bytes(one, days.front());
         // The punctuality count follows replication (4), deadlocked (1), events and passages (8
-        // each), three doubles (8 each) and the crossings moved and orders changed (4 each).
-        const std::size_t count_at = 4 + 1 + 8 + 8 + 3 * 8 + 2 * 4;
+        // each), three doubles (8 each) and the crossings moved, orders changed and connections
+        // missed (4 each).
+        const std::size_t count_at = 4 + 1 + 8 + 8 + 3 * 8 + 3 * 4;
         const std::uint64_t huge = std::uint64_t{1} << 60;
         std::memcpy(one.data() + count_at, &huge, sizeof huge);
         std::size_t from = 0;

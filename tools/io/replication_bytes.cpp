@@ -84,6 +84,7 @@ void append_day_bytes(std::string& out, const ReplicationFigures& day) {
     put<double>(out, s.mean_arrival_delay);
     put<std::uint32_t>(out, s.moved_crossings);
     put<std::uint32_t>(out, s.changed_orders);
+    put<std::uint32_t>(out, s.missed_connections);
     put_all(out, s.punctuality);
     put<std::uint8_t>(out, day.deadlock.deadlocked ? 1 : 0);
     put<double>(out, day.deadlock.time);
@@ -116,6 +117,7 @@ ReplicationFigures read_day_bytes(const std::string& bytes, std::size_t& at) {
     s.mean_arrival_delay = in.get<double>();
     s.moved_crossings = in.get<std::uint32_t>();
     s.changed_orders = in.get<std::uint32_t>();
+    s.missed_connections = in.get<std::uint32_t>();
     s.punctuality = in.all<double>();
     day.deadlock.deadlocked = in.get<std::uint8_t>() != 0;
     day.deadlock.time = in.get<double>();
