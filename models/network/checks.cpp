@@ -223,7 +223,7 @@ private:
                 const double reach = nd.reach(j);
                 const double from_node = nd.ends[j].at.end == End::start ? at.offset : s.length - at.offset;
                 // At the node itself too: the node's section runs out from it along this end.
-                if (reach > 0.0 && from_node < reach - 1e-9)
+                if (reach > 0.0 && from_node < reach - kSamePlace)
                     add(k, i, who + ": stands " + metres(from_node) + " from " + to_string(nd.kind) + " '" + nd.name +
                                   "', inside its fouling distance (" + metres(reach) + ")");
             }

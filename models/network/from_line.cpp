@@ -12,9 +12,7 @@
 namespace knockon::net {
 namespace {
 
-const double kEps = 1e-6;
-
-bool same(double a, double b) { return std::fabs(a - b) < kEps; }
+bool same(double a, double b) { return std::fabs(a - b) < kSamePlace; }
 
 std::string km(double x) {
     char buf[32];
@@ -46,7 +44,7 @@ private:
         for (const Track& c : infra_.tracks)
             if (c.parent == t.id)
                 for (double x : {c.from, c.to})
-                    if (x > t.from + kEps && x < t.to - kEps) cuts.push_back(x);
+                    if (x > t.from + kSamePlace && x < t.to - kSamePlace) cuts.push_back(x);
         std::sort(cuts.begin(), cuts.end());
         cuts.erase(std::unique(cuts.begin(), cuts.end(), same), cuts.end());
         return cuts;
@@ -66,9 +64,9 @@ private:
             s.gradient.push_back({0.0, infra_.gradient_at(x0)});
             s.speed.push_back({0.0, std::min(infra_.line_speed_at(x0), t.speed_limit)});
             for (const ChainageBand& b : infra_.gradients)
-                if (b.from > x0 + kEps && b.from < x1 - kEps) s.gradient.push_back({b.from - x0, infra_.gradient_at(b.from)});
+                if (b.from > x0 + kSamePlace && b.from < x1 - kSamePlace) s.gradient.push_back({b.from - x0, infra_.gradient_at(b.from)});
             for (const ChainageBand& b : infra_.speed_limits)
-                if (b.from > x0 + kEps && b.from < x1 - kEps)
+                if (b.from > x0 + kSamePlace && b.from < x1 - kSamePlace)
                     s.speed.push_back({b.from - x0, std::min(infra_.line_speed_at(b.from), t.speed_limit)});
             pieces_of_[t.id].push_back(net().segments.size());
             net().segments.push_back(std::move(s));
@@ -167,7 +165,7 @@ private:
         for (const auto& [key, seg] : toe_)
             if (key.first == id && same(key.second, x)) return seg;
         for (std::size_t s : pieces_of_.at(id))
-            if (x >= out_.pieces[s].x_from - kEps && x <= out_.pieces[s].x_to + kEps) return s;
+            if (x >= out_.pieces[s].x_from - kSamePlace && x <= out_.pieces[s].x_to + kSamePlace) return s;
         return kNone;
     }
 
@@ -208,7 +206,7 @@ private:
         for (const knockon::Station& st : infra_.stations) {
             net().stations.push_back({st.id, st.name});
             for (const Track& t : infra_.tracks)
-                if (st.at >= t.from - kEps && st.at <= t.to + kEps)
+                if (st.at >= t.from - kSamePlace && st.at <= t.to + kSamePlace)
                     net().timing_points.push_back({net().stations.size() - 1, location(t.id, st.at)});
         }
     }

@@ -6,11 +6,9 @@
 namespace knockon::net {
 namespace {
 
-const double kEps = 1e-6;
-
 void sort_unique(std::vector<double>& v) {
     std::sort(v.begin(), v.end());
-    v.erase(std::unique(v.begin(), v.end(), [](double a, double b) { return std::fabs(a - b) < kEps; }), v.end());
+    v.erase(std::unique(v.begin(), v.end(), [](double a, double b) { return std::fabs(a - b) < kSamePlace; }), v.end());
 }
 
 }  // namespace

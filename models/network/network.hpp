@@ -19,6 +19,8 @@ namespace knockon::net {
 
 inline constexpr std::size_t kNone = std::numeric_limits<std::size_t>::max();
 inline constexpr double kNoLimit = std::numeric_limits<double>::infinity();
+// Offsets closer than this are one place (a micrometre: far below any survey, far above rounding).
+inline constexpr double kSamePlace = 1e-6;
 
 // Which way a train runs along a segment: forward = towards increasing offset.
 enum class Heading : std::uint8_t { forward, backward };

@@ -8,7 +8,6 @@
 namespace knockon::net {
 namespace {
 
-const double kEps = 1e-6;
 constexpr double kInf = std::numeric_limits<double>::infinity();
 
 // A place and heading a leg of the search starts from.
@@ -35,16 +34,6 @@ struct Arrival {
     std::vector<Stretch> run;
 };
 
-void append(std::vector<Stretch>& run, const Stretch& s) {
-    if (std::abs(s.to - s.from) < kEps) return;
-    if (!run.empty() && run.back().segment == s.segment && run.back().heading == s.heading &&
-        std::abs(run.back().to - s.from) < kEps) {
-        run.back().to = s.to;
-        return;
-    }
-    run.push_back(s);
-}
-
 // Distance from `from` to `to` on one segment running in h; negative when `to` lies behind.
 double ahead(double from, double to, Heading h) { return h == Heading::forward ? to - from : from - to; }
 
@@ -68,7 +57,7 @@ std::vector<Arrival> shortest(const NetworkGraph& g, const std::vector<Source>& 
         for (std::size_t t = 0; t < targets.size(); ++t) {
             if (targets[t].at.segment != seg || targets[t].heading != h) continue;
             const double d = ahead(offset, targets[t].at.offset, h);
-            if (d < -kEps) continue;
+            if (d < -kSamePlace) continue;
             if (cost + std::max(d, 0.0) < best[t]) {
                 best[t] = cost + std::max(d, 0.0);
                 target_pred[t] = p;
@@ -243,17 +232,10 @@ NetworkPath find_path(const NetworkGraph& g, const PathRequest& r) {
     NetworkPath path;
     path.calls.resize(r.calls.size());
     auto run = [&](const Stretch& s) {
-        if (std::abs(s.to - s.from) < kEps) return;
-        if (!path.steps.empty() && path.steps.back().kind == PathStep::Kind::run) {
-            Stretch& last = path.steps.back().run;
-            if (last.segment == s.segment && last.heading == s.heading && std::abs(last.to - s.from) < kEps) {
-                last.to = s.to;
-                path.length += s.length();
-                return;
-            }
-        }
-        path.steps.push_back({PathStep::Kind::run, s, kNone});
+        if (std::fabs(s.to - s.from) < kSamePlace) return;
         path.length += s.length();
+        const bool after_run = !path.steps.empty() && path.steps.back().kind == PathStep::Kind::run;
+        if (!after_run || !run_on(path.steps.back().run, s)) path.steps.push_back({PathStep::Kind::run, s, kNone});
     };
     for (std::size_t w = 0; w < way.size(); ++w) {
         for (const Stretch& s : legs[w][chosen[w]].run) run(s);

@@ -9,20 +9,7 @@
 namespace knockon::net {
 namespace {
 
-const double kEps = 1e-6;
-
 using Visited = std::set<std::pair<std::size_t, Heading>>;
-
-// Appends a stretch, merging it into the last one where it continues it.
-void append(std::vector<Stretch>& run, const Stretch& s) {
-    if (std::abs(s.to - s.from) < kEps) return;
-    if (!run.empty() && run.back().segment == s.segment && run.back().heading == s.heading &&
-        std::abs(run.back().to - s.from) < kEps) {
-        run.back().to = s.to;
-        return;
-    }
-    run.push_back(s);
-}
 
 double length_of(const std::vector<Stretch>& run) {
     double l = 0.0;
@@ -64,7 +51,7 @@ private:
             const Signal& s = net.signals[i];
             if (s.heading != h) continue;
             const double ahead = fwd ? s.at.offset - offset : offset - s.at.offset;
-            if (ahead < (inclusive ? -kEps : kEps)) continue;
+            if (ahead < (inclusive ? -kSamePlace : kSamePlace)) continue;
             if (found == kNone || (fwd ? s.at.offset < found_at : s.at.offset > found_at)) {
                 found = i;
                 found_at = s.at.offset;
@@ -130,7 +117,7 @@ void ahead(const NetworkGraph& g, std::size_t segment, double offset, Heading h,
     // Ends: every step runs to a segment's end, and segments are longer than zero.
     const EndRef exit = exit_end(segment, h);
     const double to_end = h == Heading::forward ? g.offset_of(exit) - offset : offset - g.offset_of(exit);
-    if (left <= to_end + kEps) {
+    if (left <= to_end + kSamePlace) {
         append(run, {segment, offset, h == Heading::forward ? offset + left : offset - left, h});
         out.push_back(std::move(run));
         return;

@@ -8,16 +8,9 @@
 #include <vector>
 
 #include "models/network/sections.hpp"
+#include "models/network/stretch.hpp"
 
 namespace knockon::net {
-
-// A run over part of one segment, from `from` to `to` (offsets) in `heading`.
-struct Stretch {
-    std::size_t segment = kNone;
-    double from = 0.0, to = 0.0;
-    Heading heading = Heading::forward;
-    double length() const { return heading == Heading::forward ? to - from : from - to; }
-};
 
 struct Overlap {
     std::vector<Stretch> run;

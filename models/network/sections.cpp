@@ -9,8 +9,6 @@
 namespace knockon::net {
 namespace {
 
-const double kEps = 1e-6;
-
 std::string km(double shown) {
     char buf[32];
     std::snprintf(buf, sizeof buf, "%.3f", shown / 1000.0);
@@ -19,7 +17,7 @@ std::string km(double shown) {
 
 bool has_cut(const std::vector<double>& cuts, double at) {
     for (double c : cuts)
-        if (std::fabs(c - at) < kEps) return true;
+        if (std::fabs(c - at) < kSamePlace) return true;
     return false;
 }
 
@@ -42,7 +40,7 @@ DetectionSections::DetectionSections(const NetworkGraph& graph) {
     for (std::size_t s = 0; s < net.segments.size(); ++s) {
         std::vector<double> points{0.0};
         for (double c : graph.section_cuts(s))
-            if (c > kEps && c < net.segments[s].length - kEps) points.push_back(c);
+            if (c > kSamePlace && c < net.segments[s].length - kSamePlace) points.push_back(c);
         points.push_back(net.segments[s].length);
         first[s] = raw.size();
         for (std::size_t k = 0; k + 1 < points.size(); ++k) raw.push_back({s, points[k], points[k + 1]});
@@ -93,7 +91,7 @@ std::vector<std::size_t> DetectionSections::crossed(std::size_t segment, double 
     const double lo = std::min(a, b), hi = std::max(a, b);
     std::vector<std::size_t> out;
     for (const Piece& p : by_segment_[segment])
-        if (std::min(hi, p.to) - std::max(lo, p.from) > kEps && (out.empty() || out.back() != p.section))
+        if (std::min(hi, p.to) - std::max(lo, p.from) > kSamePlace && (out.empty() || out.back() != p.section))
             out.push_back(p.section);
     if (a > b) std::reverse(out.begin(), out.end());
     return out;
