@@ -72,7 +72,9 @@ public:
     }
 
 private:
-    void add(ObjectKind k, std::size_t i, std::string message) { out_.push_back({k, i, std::move(message)}); }
+    void add(ObjectKind k, std::size_t i, const char* field, std::string message) {
+        out_.push_back({k, i, field, std::move(message)});
+    }
 
     static std::string quoted(const std::string& name) { return name.empty() ? "" : " '" + name + "'"; }
 
@@ -82,34 +84,34 @@ private:
 
     bool known_station(ObjectKind k, std::size_t i, std::size_t s) {
         if (s < n_.stations.size()) return true;
-        add(k, i, std::string(to_string(k)) + ": no such station");
+        add(k, i, "station", std::string(to_string(k)) + ": no such station");
         return false;
     }
 
     void unique_name(ObjectKind k, std::size_t i, const std::string& name, std::map<std::string, std::size_t>& seen,
                      bool required) {
         if (name.empty()) {
-            if (required) add(k, i, std::string(to_string(k)) + " " + std::to_string(i + 1) + ": a name is needed");
+            if (required) add(k, i, "id", std::string(to_string(k)) + " " + std::to_string(i + 1) + ": a name is needed");
             return;
         }
         auto [it, fresh] = seen.emplace(name, i);
         if (!fresh)
-            add(k, i, std::string(to_string(k)) + " '" + name + "': the name is used twice (also by " +
+            add(k, i, "id", std::string(to_string(k)) + " '" + name + "': the name is used twice (also by " +
                           to_string(k) + " " + std::to_string(it->second + 1) + ")");
     }
 
-    void bands(std::size_t i, const std::vector<OffsetBand>& b, const char* what, bool positive) {
+    void bands(std::size_t i, const std::vector<OffsetBand>& b, const char* what, const char* key, bool positive) {
         const Segment& s = n_.segments[i];
         for (std::size_t k = 0; k < b.size(); ++k) {
             const std::string who = "segment '" + s.name + "': " + what + " " + std::to_string(k + 1);
             if (!(b[k].from >= 0.0 && b[k].from < s.length))
-                add(ObjectKind::segment, i, who + " starts at " + metres(b[k].from) + ", outside the segment (0 to " +
+                add(ObjectKind::segment, i, key, who + " starts at " + metres(b[k].from) + ", outside the segment (0 to " +
                                                 metres(s.length) + ")");
             if (k > 0 && !(b[k].from > b[k - 1].from))
-                add(ObjectKind::segment, i, who + " starts at or before the one in front of it; give them by increasing offset");
+                add(ObjectKind::segment, i, key, who + " starts at or before the one in front of it; give them by increasing offset");
             // A speed band may lift the limit (infinity); a gradient must be a number.
             if (positive ? !(b[k].value > 0.0) : !std::isfinite(b[k].value))
-                add(ObjectKind::segment, i, who + (positive ? " must be a speed above zero" : " must be a finite gradient"));
+                add(ObjectKind::segment, i, key, who + (positive ? " must be a speed above zero" : " must be a finite gradient"));
         }
     }
 
@@ -118,18 +120,18 @@ private:
         unique_name(ObjectKind::segment, i, s.name, segment_names_, true);
         const std::string who = "segment '" + s.name + "'";
         if (!(s.length > 0.0 && std::isfinite(s.length)))
-            add(ObjectKind::segment, i, who + ": length must be more than 0 m (it is " + metres(s.length) + ")");
-        if (!s.forward && !s.backward) add(ObjectKind::segment, i, who + ": no heading is allowed on it");
-        bands(i, s.gradient, "gradient band", false);
-        bands(i, s.speed, "speed band", true);
+            add(ObjectKind::segment, i, "length", who + ": length must be more than 0 m (it is " + metres(s.length) + ")");
+        if (!s.forward && !s.backward) add(ObjectKind::segment, i, "directions", who + ": no heading is allowed on it");
+        bands(i, s.gradient, "gradient band", "gradients", false);
+        bands(i, s.speed, "speed band", "speed_limits", true);
         for (std::size_t k = 0; k < s.posts.size(); ++k) {
             const KmPost& p = s.posts[k];
             if (!(p.offset >= 0.0 && p.offset <= s.length) || !std::isfinite(p.position))
-                add(ObjectKind::segment, i, who + ": kilometre post " + std::to_string(k + 1) + " lies outside the segment");
+                add(ObjectKind::segment, i, "km_posts", who + ": kilometre post " + std::to_string(k + 1) + " lies outside the segment");
             else if (k > 0 && !(p.offset > s.posts[k - 1].offset))
-                add(ObjectKind::segment, i, who + ": kilometre posts must be given by increasing offset");
+                add(ObjectKind::segment, i, "km_posts", who + ": kilometre posts must be given by increasing offset");
             else if (k > 0 && p.position == s.posts[k - 1].position)
-                add(ObjectKind::segment, i, who + ": kilometre posts " + std::to_string(k) + " and " +
+                add(ObjectKind::segment, i, "km_posts", who + ": kilometre posts " + std::to_string(k) + " and " +
                                                 std::to_string(k + 1) + " show the same position");
         }
     }
@@ -140,29 +142,29 @@ private:
         const std::string who = std::string(to_string(nd.kind)) + " '" + nd.name + "'";
         const std::size_t need = ends_needed(nd.kind);
         if (nd.kind == NodeKind::switch_ ? nd.ends.size() < need : nd.ends.size() != need)
-            add(ObjectKind::node, i, who + ": joins " + std::to_string(nd.ends.size()) + " segment ends, a " +
+            add(ObjectKind::node, i, "ends", who + ": joins " + std::to_string(nd.ends.size()) + " segment ends, a " +
                                          to_string(nd.kind) + (nd.kind == NodeKind::switch_ ? " needs at least " : " needs ") +
                                          std::to_string(need));
         if (!(nd.fouling >= 0.0 && std::isfinite(nd.fouling)))
-            add(ObjectKind::node, i, who + ": the fouling distance must be 0 m or more");
+            add(ObjectKind::node, i, "fouling", who + ": the fouling distance must be 0 m or more");
         else if (nd.kind == NodeKind::diamond && nd.fouling == 0.0)
-            add(ObjectKind::node, i, who + ": a diamond crossing needs a fouling distance above 0 m, or the two ways over it would share no section");
+            add(ObjectKind::node, i, "fouling", who + ": a diamond crossing needs a fouling distance above 0 m, or the two ways over it would share no section");
         else if (nd.fouling > 0.0 && nd.kind != NodeKind::switch_ && nd.kind != NodeKind::diamond)
-            add(ObjectKind::node, i, who + ": only a switch or a diamond crossing has a fouling distance");
+            add(ObjectKind::node, i, "fouling", who + ": only a switch or a diamond crossing has a fouling distance");
         for (std::size_t k = 0; k < nd.ends.size(); ++k) {
             const NodeEnd& e = nd.ends[k];
             if (e.at.segment >= n_.segments.size()) {
-                add(ObjectKind::node, i, who + ": end " + std::to_string(k + 1) + " names no segment");
+                add(ObjectKind::node, i, "ends", who + ": end " + std::to_string(k + 1) + " names no segment");
                 continue;
             }
             const Segment& s = n_.segments[e.at.segment];
-            if (!(e.speed > 0.0)) add(ObjectKind::node, i, who + ": the speed towards segment '" + s.name + "' must be above zero");
+            if (!(e.speed > 0.0)) add(ObjectKind::node, i, "ends", who + ": the speed towards segment '" + s.name + "' must be above zero");
             const double reach = nd.reach(k);
             if (reach > 0.0 && std::isfinite(reach) && !(reach < s.length))
-                add(ObjectKind::node, i, who + ": its fouling point lies " + metres(reach) + " into segment '" + s.name +
+                add(ObjectKind::node, i, "fouling", who + ": its fouling point lies " + metres(reach) + " into segment '" + s.name +
                                              "', which is only " + metres(s.length) + " long");
             for (std::size_t j = 0; j < k; ++j)
-                if (nd.ends[j].at == e.at) add(ObjectKind::node, i, who + ": joins one end of segment '" + s.name + "' twice");
+                if (nd.ends[j].at == e.at) add(ObjectKind::node, i, "ends", who + ": joins one end of segment '" + s.name + "' twice");
         }
     }
 
@@ -180,9 +182,9 @@ private:
                 const auto& nodes = at[2 * s + e];
                 const std::string end = e == 0 ? "start" : "end";
                 if (nodes.empty())
-                    add(ObjectKind::segment, s, "segment '" + seg.name + "': its " + end + " is joined at no node");
+                    add(ObjectKind::segment, s, "", "segment '" + seg.name + "': its " + end + " is joined at no node");
                 else if (nodes.size() > 1 && nodes[0].first != nodes[1].first)
-                    add(ObjectKind::segment, s, "segment '" + seg.name + "': its " + end + " is joined at both '" +
+                    add(ObjectKind::segment, s, "", "segment '" + seg.name + "': its " + end + " is joined at both '" +
                                                     n_.nodes[nodes[0].first].name + "' and '" +
                                                     n_.nodes[nodes[1].first].name + "'");
             }
@@ -192,7 +194,7 @@ private:
                 const double ra = n_.nodes[a[0].first].reach(a[0].second);
                 const double rb = n_.nodes[b[0].first].reach(b[0].second);
                 if (ra + rb > seg.length && ra < seg.length && rb < seg.length)
-                    add(ObjectKind::segment, s, "segment '" + seg.name + "': the fouling points of '" +
+                    add(ObjectKind::segment, s, "", "segment '" + seg.name + "': the fouling points of '" +
                                                     n_.nodes[a[0].first].name + "' and '" + n_.nodes[b[0].first].name +
                                                     "' overlap (" + metres(ra) + " + " + metres(rb) + " on " +
                                                     metres(seg.length) + ")");
@@ -202,12 +204,12 @@ private:
 
     bool location(ObjectKind k, std::size_t i, const std::string& who, const Location& at) {
         if (at.segment >= n_.segments.size()) {
-            add(k, i, who + ": names no segment");
+            add(k, i, "segment", who + ": names no segment");
             return false;
         }
         const Segment& s = n_.segments[at.segment];
         if (!(at.offset >= 0.0 && at.offset <= s.length)) {
-            add(k, i, who + ": offset " + metres(at.offset) + " lies outside segment '" + s.name + "' (0 to " +
+            add(k, i, "at", who + ": offset " + metres(at.offset) + " lies outside segment '" + s.name + "' (0 to " +
                           metres(s.length) + ")");
             return false;
         }
@@ -224,7 +226,7 @@ private:
                 const double from_node = nd.ends[j].at.end == End::start ? at.offset : s.length - at.offset;
                 // At the node itself too: the node's section runs out from it along this end.
                 if (reach > 0.0 && from_node < reach - kSamePlace)
-                    add(k, i, who + ": stands " + metres(from_node) + " from " + to_string(nd.kind) + " '" + nd.name +
+                    add(k, i, "at", who + ": stands " + metres(from_node) + " from " + to_string(nd.kind) + " '" + nd.name +
                                   "', inside its fouling distance (" + metres(reach) + ")");
             }
     }
@@ -236,15 +238,15 @@ private:
         if (location(ObjectKind::signal, i, who, sg.at)) {
             clear_of_nodes(ObjectKind::signal, i, who, sg.at);
             if (!n_.segments[sg.at.segment].allows(sg.heading))
-                add(ObjectKind::signal, i, who + ": faces trains running " + to_string(sg.heading) + " on segment '" +
+                add(ObjectKind::signal, i, "heading", who + ": faces trains running " + to_string(sg.heading) + " on segment '" +
                                                n_.segments[sg.at.segment].name + "', where none may run");
         }
         if (!(sg.sighting_distance >= 0.0 && std::isfinite(sg.sighting_distance)))
-            add(ObjectKind::signal, i, who + ": the sighting distance must be 0 m or more");
+            add(ObjectKind::signal, i, "sighting_distance", who + ": the sighting distance must be 0 m or more");
         if (!(sg.overlap >= 0.0 && std::isfinite(sg.overlap)))
-            add(ObjectKind::signal, i, who + ": the overlap must be 0 m or more");
+            add(ObjectKind::signal, i, "overlap", who + ": the overlap must be 0 m or more");
         if (sg.distant_distance && !(*sg.distant_distance > 0.0 && std::isfinite(*sg.distant_distance)))
-            add(ObjectKind::signal, i, who + ": the distant signal's distance must be more than 0 m");
+            add(ObjectKind::signal, i, "distant_distance", who + ": the distant signal's distance must be more than 0 m");
     }
 
     void station(std::size_t i) {
@@ -252,7 +254,7 @@ private:
         bool timed = false;
         for (const TimingPoint& t : n_.timing_points) timed = timed || t.station == i;
         if (!timed && !n_.stations[i].id.empty())
-            add(ObjectKind::station, i, "station '" + n_.stations[i].id + "': has no timing point on any track");
+            add(ObjectKind::station, i, "tracks", "station '" + n_.stations[i].id + "': has no timing point on any track");
     }
 
     void stopping_point(std::size_t i) {
@@ -260,17 +262,17 @@ private:
         if (!known_station(ObjectKind::stopping_point, i, p.station)) return;
         const std::string who = "stopping point of " + station_name(p.station);
         if (!(p.max_train_length > 0.0))
-            add(ObjectKind::stopping_point, i, who + ": the longest train it is for must be longer than 0 m");
+            add(ObjectKind::stopping_point, i, "max_train_length", who + ": the longest train it is for must be longer than 0 m");
         if (!location(ObjectKind::stopping_point, i, who, p.at)) return;
         const Segment& s = n_.segments[p.at.segment];
         if (!s.allows(p.heading))
-            add(ObjectKind::stopping_point, i, who + ": is for trains running " + to_string(p.heading) +
+            add(ObjectKind::stopping_point, i, "heading", who + ": is for trains running " + to_string(p.heading) +
                                                    " on segment '" + s.name + "', where none may run");
         bool on_a_track = false;
         for (const TimingPoint& t : n_.timing_points)
             on_a_track = on_a_track || (t.station == p.station && t.at.segment == p.at.segment);
         if (!on_a_track)
-            add(ObjectKind::stopping_point, i, who + ": segment '" + s.name +
+            add(ObjectKind::stopping_point, i, "segment", who + ": segment '" + s.name +
                                                    "' is not one of the station's tracks (it holds no timing point of it)");
     }
 
@@ -279,12 +281,12 @@ private:
         if (!known_station(ObjectKind::platform, i, p.station)) return;
         const std::string who = "platform" + quoted(p.name) + " of " + station_name(p.station);
         if (p.segment >= n_.segments.size()) {
-            add(ObjectKind::platform, i, who + ": names no segment");
+            add(ObjectKind::platform, i, "segment", who + ": names no segment");
             return;
         }
         const Segment& s = n_.segments[p.segment];
         if (!(p.from >= 0.0 && p.from < p.to && p.to <= s.length))
-            add(ObjectKind::platform, i, who + ": must run from a lower to a higher offset within segment '" + s.name +
+            add(ObjectKind::platform, i, "from", who + ": must run from a lower to a higher offset within segment '" + s.name +
                                              "' (0 to " + metres(s.length) + "), not " + metres(p.from) + " to " +
                                              metres(p.to));
     }

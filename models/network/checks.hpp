@@ -17,6 +17,9 @@ const char* to_string(ObjectKind k);
 struct NetworkProblem {
     ObjectKind kind = ObjectKind::segment;
     std::size_t index = 0;   // into the Network's vector of that kind
+    // The input field it is about, named as the network format names it ("at", "fouling",
+    // "ends"); empty for the object as a whole.
+    std::string field;
     std::string message;     // names the object: "segment 'A': length must be more than 0 m"
 };
 
