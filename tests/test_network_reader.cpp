@@ -133,7 +133,7 @@ TEST_CASE("network file: validate prints what it found, or every problem with ex
     TempDir dir;
     Result r = clitest::knockon("validate " + q(kTerminus), dir, 60);
     CHECK(r.status == 0);
-    CHECK(r.out == kTerminus + ": ok: network Brinmoor terminus; 3 segments, 4 nodes, 4 signals, 1 stations; 9 "
+    CHECK(r.out == kTerminus + ": ok: network Brinmoor terminus; 3 segments, 4 nodes, 4 signals, 1 station; 9 "
                                "detection sections, 5 routes\n");
     r = clitest::knockon("validate " + q(kBroken), dir, 60);
     CHECK(r.status == 2);

@@ -52,10 +52,12 @@ std::vector<std::string> plan_warnings(const Scenario& sc, const PlanResult& pla
 int validate_network(const std::string& file) {
     const NetworkFile nf = read_network(file);
     const net::Network& n = nf.network;
-    std::printf("%s: ok: network %s; %zu segments, %zu nodes, %zu signals, %zu stations; %zu detection sections, "
-                "%zu routes\n",
-                file.c_str(), nf.name.c_str(), n.segments.size(), n.nodes.size(), n.signals.size(), n.stations.size(),
-                nf.sections, nf.routes);
+    auto count = [](std::size_t k, const char* one, const char* many) { return std::to_string(k) + " " + (k == 1 ? one : many); };
+    std::printf("%s: ok: network %s; %s, %s, %s, %s; %s, %s\n", file.c_str(), nf.name.c_str(),
+                count(n.segments.size(), "segment", "segments").c_str(), count(n.nodes.size(), "node", "nodes").c_str(),
+                count(n.signals.size(), "signal", "signals").c_str(), count(n.stations.size(), "station", "stations").c_str(),
+                count(nf.sections, "detection section", "detection sections").c_str(),
+                count(nf.routes, "route", "routes").c_str());
     return 0;
 }
 
