@@ -174,3 +174,31 @@ TEST_CASE("network routes: a loop of track that no signal faces is refused") {
         CHECK(std::string(e.what()) == "beyond signal 'F' the track runs round through segment 'R2' and back with no signal facing the train");
     }
 }
+
+TEST_CASE("network routes: a layout that branches too often without a signal is refused, not searched for ever") {
+    // Twenty loops in a row, each left and rejoined by a switch, with one signal before them all:
+    // 2^20 ways to the boundary at the end, far past the search's limit.
+    test::NetBuilder b;
+    const int n = 20;
+    auto nm = [](const char* prefix, int k) {
+        std::string out = prefix;
+        out += std::to_string(k);
+        return out;
+    };
+    for (int i = 0; i <= n; ++i) b.segment(nm("T", i), 100);
+    for (int i = 0; i < n; ++i) {
+        b.segment(nm("A", i), 50);
+        b.segment(nm("B", i), 60);
+    }
+    b.node("Tw", NodeKind::boundary, {b.start("T0")});
+    b.node("Te", NodeKind::boundary, {b.end(nm("T", n))});
+    for (int i = 0; i < n; ++i) {
+        b.node(nm("V", i), NodeKind::switch_, {b.end(nm("T", i)), b.start(nm("A", i)), b.start(nm("B", i))});
+        b.node(nm("U", i), NodeKind::switch_, {b.start(nm("T", i + 1)), b.end(nm("A", i)), b.end(nm("B", i))});
+    }
+    b.signal("F", "T0", 50, Heading::forward);
+    const Network net = b.n;
+    const NetworkGraph g(net);
+    const DetectionSections s(g);
+    CHECK_THROWS_WITH(find_routes(g, s), Catch::Contains("too many switches with no signal between them"));
+}

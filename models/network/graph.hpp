@@ -28,7 +28,8 @@ inline Heading heading_from(const EndRef& e) { return e.end == End::start ? Head
 
 class NetworkGraph {
 public:
-    // Throws NetworkError with every problem check_network finds.
+    // Throws NetworkError with every problem check_network finds.  Keeps a reference: the network
+    // must outlive the graph.
     explicit NetworkGraph(const Network& network);
 
     const Network& network() const { return *network_; }

@@ -1,6 +1,8 @@
 #include "models/network/paths.hpp"
 
 #include <cmath>
+#include <functional>
+#include <limits>
 #include <queue>
 #include <string>
 #include <tuple>

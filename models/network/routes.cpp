@@ -11,6 +11,11 @@ namespace {
 
 using Visited = std::set<std::pair<std::size_t, Heading>>;
 
+// Ways are enumerated one by one; switches one after another with no signal between them double
+// the ways at each.  Past this many steps of one search a layout is refused rather than searched
+// for ever (a real layout needs a few dozen).
+constexpr std::size_t kMaxSteps = 100000;
+
 double length_of(const std::vector<Stretch>& run) {
     double l = 0.0;
     for (const Stretch& s : run) l += s.length();
@@ -36,6 +41,7 @@ public:
         // The signal's own segment is not marked: coming round to it again the train meets the
         // signal itself at the latest (a ring with one signal has a route from it to itself).
         Visited visited;
+        steps_ = 0;
         walk(s.at.segment, s.at.offset, s.heading, false, {}, visited);
     }
 
@@ -44,6 +50,10 @@ private:
     // or at it too where the train has just come onto the segment.
     void walk(std::size_t segment, double offset, Heading h, bool inclusive, std::vector<Stretch> run, Visited& visited) {
         const Network& net = g_.network();
+        if (++steps_ > kMaxSteps)
+            throw NetworkError("beyond signal '" + net.signals[entry_].name + "' more than " + std::to_string(kMaxSteps) +
+                               " pieces of track would have to be searched for the next signal: too many switches with "
+                               "no signal between them");
         const bool fwd = h == Heading::forward;
         std::size_t found = kNone;
         double found_at = fwd ? kNoLimit : -kNoLimit;
@@ -109,11 +119,15 @@ private:
     const DetectionSections& sections_;
     std::vector<Route>& out_;
     std::size_t entry_ = kNone;
+    std::size_t steps_ = 0;
     std::map<std::string, int> names_;
 };
 
 void ahead(const NetworkGraph& g, std::size_t segment, double offset, Heading h, double left, std::vector<Stretch> run,
-           std::vector<std::vector<Stretch>>& out) {
+           std::vector<std::vector<Stretch>>& out, std::size_t& steps) {
+    if (++steps > kMaxSteps)
+        throw NetworkError("more than " + std::to_string(kMaxSteps) + " pieces of track lie within " +
+                           std::to_string(left) + " m ahead of segment '" + g.segment(segment).name + "'");
     // Ends: every step runs to a segment's end, and segments are longer than zero.
     const EndRef exit = exit_end(segment, h);
     const double to_end = h == Heading::forward ? g.offset_of(exit) - offset : offset - g.offset_of(exit);
@@ -128,7 +142,7 @@ void ahead(const NetworkGraph& g, std::size_t segment, double offset, Heading h,
         const Heading nh = heading_from(e);
         if (!g.segment(e.segment).allows(nh)) continue;
         went_on = true;
-        ahead(g, e.segment, g.offset_of(e), nh, left - to_end, run, out);
+        ahead(g, e.segment, g.offset_of(e), nh, left - to_end, run, out, steps);
     }
     if (!went_on) out.push_back(std::move(run));
 }
@@ -138,7 +152,8 @@ void ahead(const NetworkGraph& g, std::size_t segment, double offset, Heading h,
 std::vector<std::vector<Stretch>> runs_ahead(const NetworkGraph& graph, const Location& start, Heading heading,
                                              double distance) {
     std::vector<std::vector<Stretch>> out;
-    ahead(graph, start.segment, start.offset, heading, distance, {}, out);
+    std::size_t steps = 0;
+    ahead(graph, start.segment, start.offset, heading, distance, {}, out, steps);
     return out;
 }
 

@@ -30,12 +30,14 @@ struct Route {
 };
 
 // Routes of every signal, by signal index, then in the order of the switch legs taken.  Throws
-// NetworkError where the track ahead of a signal runs round in a loop that no signal faces.
+// NetworkError where the track ahead of a signal runs round in a loop that no signal faces, or
+// branches so often before the next signal that the search would not end in reasonable time.
 std::vector<Route> find_routes(const NetworkGraph& graph, const DetectionSections& sections);
 
 // Runs from `start` in `heading` for `distance` metres along every way the graph allows, as far
 // as a buffer stop or boundary where one comes first: one run per way.  Shared by overlaps and
-// by anything else that looks a distance ahead.
+// by anything else that looks a distance ahead.  Throws NetworkError on a layout that branches too
+// often within the distance.
 std::vector<std::vector<Stretch>> runs_ahead(const NetworkGraph& graph, const Location& start, Heading heading,
                                              double distance);
 
