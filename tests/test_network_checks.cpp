@@ -84,3 +84,16 @@ TEST_CASE("network checks: a signal inside a switch's fouling distance and one f
               "signal 'S2': faces trains running backward on segment 'M2', where none may run",
           });
 }
+
+TEST_CASE("network checks: a route name must name its signals and via tracks") {
+    Network n = test::flat_junction();
+    n.route_names.push_back({"Main", n.find_signal("S1"), n.find_signal("S2"), {}});
+    CHECK(check_network(n).empty());
+    n.route_names.push_back({"Main", kNone, 99, {42}});
+    CHECK(messages(check_network(n)) == std::vector<std::string>{
+                                            "route name 'Main': the name is used twice (also by route name 1)",
+                                            "route 'Main': names no signal to start at",
+                                            "route 'Main': names no signal to end at",
+                                            "route 'Main': a via track names no segment",
+                                        });
+}

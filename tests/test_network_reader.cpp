@@ -61,6 +61,10 @@ TEST_CASE("network file: the terminus example is read as written") {
     // end: 4 pieces; P1 and P2 at the fouling point (30 m) and their starter (40 m): 3 each; the
     // two pieces inside W1's fouling points are one: 9.  Routes E-H, H to each buffer stop, each
     // starter out to the boundary: 5.
+    REQUIRE(n.route_names.size() == 1);
+    CHECK(n.route_names[0].name == "Into platform 2");
+    CHECK(n.route_names[0].exit_signal == net::kNone);
+    CHECK(n.route_names[0].via == std::vector<std::size_t>{n.find_segment("P2")});
     CHECK(f.sections == 9);
     CHECK(f.routes == 5);
 }
@@ -144,4 +148,39 @@ TEST_CASE("network file: validate prints what it found, or every problem with ex
     r = clitest::knockon("plan " + q(kTerminus), dir, 60);
     CHECK(r.status == 2);
     CHECK(r.err.find("a network file (knockon: 2) holds a layout only so far") != std::string::npos);
+}
+
+TEST_CASE("network file: a route name that fits no route or several is located at it") {
+    const std::string text = R"(knockon: 2
+network:
+  segments:
+    - {id: A, length: 500 m, directions: forward}
+    - {id: M, length: 400 m, directions: forward}
+    - {id: P, length: 450 m, directions: forward}
+    - {id: B, length: 500 m, directions: forward}
+  nodes:
+    - {id: Aw, kind: boundary, ends: [A.start]}
+    - {id: Be, kind: boundary, ends: [B.end]}
+    - {id: W1, kind: switch, ends: [A.end, M.start, P.start]}
+    - {id: W2, kind: switch, ends: [B.start, M.end, P.end]}
+  signals:
+    - {id: SA, segment: A, at: 400 m, heading: forward}
+  stations:
+    - {id: X, tracks: [{segment: M, at: 200 m}, {segment: P, at: 200 m}]}
+  routes:
+    - {id: Loop, from: SA, via: [P]}
+    - {id: Either, from: SA}
+)";
+    CHECK(problems_of(text) ==
+          std::vector<std::string>{
+              "n.yaml:19:7: network.routes[1]: route 'Either': 2 routes run from signal 'SA' to a buffer stop or "
+              "boundary; name via tracks to say which",
+          });
+    // Names that refer to nothing are the reader's to say; routes are searched for (and their names
+    // matched) only once the file has no other problem.
+    CHECK(problems_of(text + "    - {id: Lost, from: SB, via: [Q]}\n") ==
+          std::vector<std::string>{
+              "n.yaml:20:24: network.routes[2].from: no signal has the id \"SB\"",
+              "n.yaml:20:34: network.routes[2].via[0]: no segment has the id \"Q\"",
+          });
 }

@@ -202,3 +202,32 @@ TEST_CASE("network routes: a layout that branches too often without a signal is 
     const DetectionSections s(g);
     CHECK_THROWS_WITH(find_routes(g, s), Catch::Contains("too many switches with no signal between them"));
 }
+
+TEST_CASE("network routes: a route takes the name the network gives it") {
+    Network n = test::passing_loop();
+    const std::size_t sa = n.find_signal("SA");
+    // From SA two routes run out to the boundary Be: over M and over the loop P.
+    n.route_names.push_back({"Loop", sa, kNone, {n.find_segment("P")}});
+    {
+        const Found f(n);
+        REQUIRE(f.routes.size() == 2);
+        CHECK(f.routes[0].name == "SA-Be");
+        CHECK(f.routes[1].name == "Loop");
+        CHECK(f.routes[1].length == 100 + 450 + 500);
+    }
+    // Without a via track the name fits both; to SA itself it fits none; each a problem of its name.
+    n.route_names = {{"Either", sa, kNone, {}}, {"Back", sa, sa, {}}};
+    const NetworkGraph g(n);
+    const DetectionSections s(g);
+    try {
+        find_routes(g, s);
+        FAIL("no error");
+    } catch (const NetworkError& e) {
+        REQUIRE(e.problems.size() == 2);
+        CHECK(e.problems[0].kind == ObjectKind::route_name);
+        CHECK(e.problems[0].index == 0);
+        CHECK(e.problems[0].message ==
+              "route 'Either': 2 routes run from signal 'SA' to a buffer stop or boundary; name via tracks to say which");
+        CHECK(e.problems[1].message == "route 'Back': no route runs from signal 'SA' to signal 'SA'");
+    }
+}

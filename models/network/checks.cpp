@@ -17,6 +17,7 @@ const char* to_string(ObjectKind k) {
         case ObjectKind::timing_point: return "timing point";
         case ObjectKind::stopping_point: return "stopping point";
         case ObjectKind::platform: return "platform";
+        case ObjectKind::route_name: return "route name";
     }
     return "?";
 }
@@ -68,6 +69,7 @@ public:
         }
         for (std::size_t i = 0; i < n_.stopping_points.size(); ++i) stopping_point(i);
         for (std::size_t i = 0; i < n_.platforms.size(); ++i) platform(i);
+        for (std::size_t i = 0; i < n_.route_names.size(); ++i) route_name(i);
         return std::move(out_);
     }
 
@@ -291,9 +293,21 @@ private:
                                              metres(p.to));
     }
 
+    // Whether it matches a route is for the route search to say (find_routes).
+    void route_name(std::size_t i) {
+        const RouteName& r = n_.route_names[i];
+        unique_name(ObjectKind::route_name, i, r.name, route_names_, true);
+        const std::string who = "route '" + r.name + "'";
+        if (r.entry_signal >= n_.signals.size()) add(ObjectKind::route_name, i, "from", who + ": names no signal to start at");
+        if (r.exit_signal != kNone && r.exit_signal >= n_.signals.size())
+            add(ObjectKind::route_name, i, "to", who + ": names no signal to end at");
+        for (std::size_t v : r.via)
+            if (v >= n_.segments.size()) add(ObjectKind::route_name, i, "via", who + ": a via track names no segment");
+    }
+
     const Network& n_;
     std::vector<NetworkProblem> out_;
-    std::map<std::string, std::size_t> segment_names_, node_names_, signal_names_, station_ids_;
+    std::map<std::string, std::size_t> segment_names_, node_names_, signal_names_, station_ids_, route_names_;
 };
 
 }  // namespace

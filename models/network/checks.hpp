@@ -11,7 +11,7 @@
 
 namespace knockon::net {
 
-enum class ObjectKind { segment, node, signal, joint, station, timing_point, stopping_point, platform };
+enum class ObjectKind { segment, node, signal, joint, station, timing_point, stopping_point, platform, route_name };
 const char* to_string(ObjectKind k);
 
 struct NetworkProblem {

@@ -148,6 +148,15 @@ struct Platform {
     double length() const { return to - from; }
 };
 
+// A name for a route the program finds (routes need none): the one from `entry_signal` to
+// `exit_signal` (kNone: to the buffer stop or boundary it ends at) over every segment in `via`.
+struct RouteName {
+    std::string name;
+    std::size_t entry_signal = kNone;
+    std::size_t exit_signal = kNone;
+    std::vector<std::size_t> via;
+};
+
 struct Network {
     std::vector<Segment> segments;
     std::vector<Node> nodes;
@@ -157,6 +166,7 @@ struct Network {
     std::vector<TimingPoint> timing_points;
     std::vector<StoppingPoint> stopping_points;
     std::vector<Platform> platforms;
+    std::vector<RouteName> route_names;
     InterlockingTimes interlocking;
 
     // By name (id for stations); kNone when there is none.

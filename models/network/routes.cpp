@@ -157,10 +157,56 @@ std::vector<std::vector<Stretch>> runs_ahead(const NetworkGraph& graph, const Lo
     return out;
 }
 
+namespace {
+
+bool runs_over(const Route& r, std::size_t segment) {
+    for (const Stretch& s : r.run)
+        if (s.segment == segment) return true;
+    return false;
+}
+
+// Gives each named route its name: the one found route from its entry to its exit over its via
+// tracks; none or several is a problem of that route name, as is a name another route has too.
+void apply_names(const Network& net, std::vector<Route>& routes) {
+    std::vector<NetworkProblem> problems;
+    auto problem = [&](std::size_t i, std::string message) {
+        problems.push_back({ObjectKind::route_name, i, "", "route '" + net.route_names[i].name + "': " + message});
+    };
+    for (std::size_t n = 0; n < net.route_names.size(); ++n) {
+        const RouteName& rn = net.route_names[n];
+        std::vector<std::size_t> matches;
+        for (std::size_t i = 0; i < routes.size(); ++i) {
+            const Route& r = routes[i];
+            if (r.entry_signal != rn.entry_signal || r.exit_signal != rn.exit_signal) continue;
+            bool over_all = true;
+            for (std::size_t v : rn.via) over_all = over_all && runs_over(r, v);
+            if (over_all) matches.push_back(i);
+        }
+        const std::string ends = "from signal '" + net.signals[rn.entry_signal].name + "' to " +
+                                 (rn.exit_signal == kNone ? std::string("a buffer stop or boundary")
+                                                          : "signal '" + net.signals[rn.exit_signal].name + "'");
+        if (matches.empty())
+            problem(n, "no route runs " + ends + (rn.via.empty() ? "" : " over its via tracks"));
+        else if (matches.size() > 1)
+            problem(n, std::to_string(matches.size()) + " routes run " + ends + "; name via tracks to say which");
+        else
+            routes[matches.front()].name = rn.name;
+    }
+    std::map<std::string, std::size_t> seen;
+    for (const Route& r : routes)
+        if (++seen[r.name] == 2)
+            for (std::size_t n = 0; n < net.route_names.size(); ++n)
+                if (net.route_names[n].name == r.name) problem(n, "another route found is called so too; give another name");
+    if (!problems.empty()) throw NetworkError(std::move(problems));
+}
+
+}  // namespace
+
 std::vector<Route> find_routes(const NetworkGraph& graph, const DetectionSections& sections) {
     std::vector<Route> routes;
     RouteWalker walker(graph, sections, routes);
     for (std::size_t i = 0; i < graph.network().signals.size(); ++i) walker.from_signal(i);
+    apply_names(graph.network(), routes);
     return routes;
 }
 

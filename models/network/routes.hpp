@@ -19,7 +19,9 @@ struct Overlap {
 };
 
 struct Route {
-    std::string name;                    // "<entry>-<exit>", "/2", "/3" on further ways between the same two
+    // The name the network gives it (Network::route_names), else "<entry>-<exit>", with "/2",
+    // "/3" on further ways between the same two signals.
+    std::string name;
     std::size_t entry_signal = kNone;
     std::size_t exit_signal = kNone;     // kNone where the route ends at a buffer stop or boundary
     std::size_t end_node = kNone;        // that buffer stop or boundary
@@ -29,9 +31,11 @@ struct Route {
     std::vector<Overlap> overlaps;       // alternatives beyond the exit signal; none for a zero overlap
 };
 
-// Routes of every signal, by signal index, then in the order of the switch legs taken.  Throws
-// NetworkError where the track ahead of a signal runs round in a loop that no signal faces, or
-// branches so often before the next signal that the search would not end in reasonable time.
+// Routes of every signal, by signal index, then in the order of the switch legs taken, named as
+// Network::route_names says.  Throws NetworkError where a route name matches no route or several,
+// or two routes end up with one name; where the track ahead of a signal runs round in a loop that
+// no signal faces; or where it branches so often before the next signal that the search would not
+// end in reasonable time.
 std::vector<Route> find_routes(const NetworkGraph& graph, const DetectionSections& sections);
 
 // Runs from `start` in `heading` for `distance` metres along every way the graph allows, as far

@@ -46,7 +46,7 @@ private:
     net::Network& net() { return out_.network; }
 
     void read_network(const YAML::Node& doc, const std::string& path) {
-        MapFields m(errors_, doc, path, {"signalling", "segments", "nodes", "signals", "joints", "stations"});
+        MapFields m(errors_, doc, path, {"signalling", "segments", "nodes", "signals", "joints", "stations", "routes"});
         if (!m.ok()) return;
         if (m.has("signalling")) read_signalling(m.get("signalling"), m.path_of("signalling"));
         // Segments first: everything else refers to them by id.
@@ -59,6 +59,40 @@ private:
         each(m, "joints", false, [&](const MapFields& f) { joint(f); }, {"id", "segment", "at"});
         each(m, "stations", true, [&](const MapFields& f) { station(f); },
              {"id", "name", "tracks", "stopping_points", "platforms"});
+        each(m, "routes", false, [&](const MapFields& f) { route_name(f); }, {"id", "from", "to", "via"});
+    }
+
+    // A signal named at `key`; records an error and returns kNone where there is none.
+    std::size_t signal_ref(const MapFields& f, std::string_view key, bool required) {
+        auto id = f.text(key, required);
+        if (!id) return kNone;
+        const std::size_t s = net().find_signal(*id);
+        if (s == kNone) f.error(key, "no signal has the id \"" + *id + "\"");
+        return s;
+    }
+
+    // A name for one of the routes the program finds: from a signal to the next (`to` left out:
+    // to the buffer stop or boundary the route ends at), over the `via` segments.
+    void route_name(const MapFields& f) {
+        const std::size_t before = errors_.size();
+        net::RouteName r;
+        if (auto id = f.text("id", true)) r.name = *id;
+        r.entry_signal = signal_ref(f, "from", true);
+        r.exit_signal = signal_ref(f, "to", false);
+        if (auto seq = f.sequence("via", false)) {
+            const std::string path = f.path_of("via");
+            for (std::size_t i = 0; i < seq->size(); ++i) {
+                auto id = yamlio::scalar_text(errors_, (*seq)[i], item(path, i));
+                if (!id) continue;
+                const std::size_t s = net().find_segment(*id);
+                if (s == kNone)
+                    errors_.add((*seq)[i], item(path, i), "no segment has the id \"" + *id + "\"");
+                else
+                    r.via.push_back(s);
+            }
+        }
+        remember(ObjectKind::route_name, f, before);
+        net().route_names.push_back(std::move(r));
     }
 
     // Calls `read` with the fields of each map in the sequence at `key`.
@@ -273,16 +307,8 @@ private:
     // has found wrong already); then, on a network with no problem, the sections and routes,
     // whose search can refuse a layout too (a loop of track no signal faces).
     void check() {
-        for (const net::NetworkProblem& p : net::check_network(net())) {
-            if (flawed_.count({p.kind, p.index})) continue;
-            // At the value of the field the problem is about, where the file gives it.
-            const Source& at = sources_[p.kind][p.index];
-            const YAML::Node value = p.field.empty() ? YAML::Node(YAML::NodeType::Undefined) : at.node[p.field];
-            if (!p.field.empty() && value.IsDefined())
-                errors_.add(value.Mark(), yamlio::join(at.path, p.field), p.message);
-            else
-                errors_.add(at.node.Mark(), at.path, p.message);
-        }
+        for (const net::NetworkProblem& p : net::check_network(net()))
+            if (!flawed_.count({p.kind, p.index})) locate(p);
         if (!errors_.empty()) return;
         try {
             const net::NetworkGraph graph(net());
@@ -290,8 +316,20 @@ private:
             out_.sections = sections.size();
             out_.routes = net::find_routes(graph, sections).size();
         } catch (const net::NetworkError& e) {
-            errors_.add(network_at_, "network", e.what());
+            if (e.problems.empty()) errors_.add(network_at_, "network", e.what());
+            for (const net::NetworkProblem& p : e.problems) locate(p);
         }
+    }
+
+    // A problem of the network at the value of the field it is about, where the file gives it,
+    // else at its object.
+    void locate(const net::NetworkProblem& p) {
+        const Source& at = sources_[p.kind][p.index];
+        const YAML::Node value = p.field.empty() ? YAML::Node(YAML::NodeType::Undefined) : at.node[p.field];
+        if (!p.field.empty() && value.IsDefined())
+            errors_.add(value.Mark(), yamlio::join(at.path, p.field), p.message);
+        else
+            errors_.add(at.node.Mark(), at.path, p.message);
     }
 
     ErrorList& errors_;
