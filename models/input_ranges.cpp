@@ -14,7 +14,7 @@ constexpr double kT = 1000.0;        // kg
 
 const std::vector<InputRange> kRanges = {
     // Infrastructure
-    {Input::line_length, "infrastructure.length", Quantity::length, 0.0, 1.0e6, true, "km",
+    {Input::line_length, "infrastructure.length, network.segments[].length", Quantity::length, 0.0, 1.0e6, true, "km",
      "one line per scenario; a plan's memory grows with its train-km (see Memory)"},
     {Input::gradient, "gradients[].value", Quantity::gradient, -0.1, 0.1, false, "per mille",
      "adhesion-worked main lines stay below about 40 per mille, a few lines reach about 90 (from memory)"},

@@ -1,5 +1,6 @@
-// libFuzzer target of the scenario reader (tools/io/scenario_reader): the input is a scenario file,
-// read as `knockon validate` reads it, the base and its first variants.  A ScenarioError is the
+// libFuzzer target of the scenario readers (tools/io/scenario_reader, tools/io/network_reader): the
+// input is a scenario file, read as `knockon validate` reads it, the base and its first variants,
+// and as a network file where it says knockon: 2.  A ScenarioError is the
 // expected answer to bad input; a crash, a sanitizer report, a hang, a huge allocation or any other
 // exception (which the program would turn into exit status 1 without a location) is a finding.
 // Built and run by tools/ci_fuzz.sh; DEVELOPERS.md, "Fuzzing", says how to run it longer.
@@ -12,6 +13,7 @@
 #include <fstream>
 #include <string>
 
+#include "tools/io/network_reader.hpp"
 #include "tools/io/scenario_reader.hpp"
 
 namespace {
@@ -40,6 +42,12 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* data, std::size_t size
         out.write(reinterpret_cast<const char*>(data), static_cast<std::streamsize>(size));
     }
     try {
+        if (knockon::is_network_text(std::string(reinterpret_cast<const char*>(data), size))) {
+            try {
+                knockon::read_network(scratch());
+            } catch (const knockon::ScenarioError&) {
+            }
+        }
         try {
             knockon::read_scenario(scratch());
         } catch (const knockon::ScenarioError&) {

@@ -36,6 +36,7 @@ using yamlio::ErrorList;
 using yamlio::item;
 using yamlio::km;
 using yamlio::line_of;
+using yamlio::load_document;
 using yamlio::MapFields;
 
 // Chainages written in km and in m are snapped to one grid by parse_quantity; this tolerance only
@@ -92,7 +93,10 @@ public:
                 supported = parse_number(*v) == 1.0;
             } catch (const UnitError&) {
             }
-            if (!supported)
+            if (*v == "2")
+                top.error("knockon", "a network file (knockon: 2) holds a layout only so far: `knockon validate` "
+                                     "checks it; the other commands read knockon: 1");
+            else if (!supported)
                 top.error("knockon", "format version \"" + *v +
                                          "\" is not supported; this program reads knockon: 1");
         }
@@ -408,14 +412,7 @@ private:
     // The quantity of `key`, within its plausible range (models/input_ranges); nothing, with the
     // error recorded, when it is outside.
     std::optional<double> ranged(const MapFields& f, std::string_view key, Input which, bool required) {
-        auto v = f.quantity(key, input_range(which).quantity, required);
-        if (v) {
-            if (auto problem = range_problem(which, *v)) {
-                f.error(key, *problem);
-                return std::nullopt;
-            }
-        }
-        return v;
+        return yamlio::ranged(f, key, which, required);
     }
 
     // The same for a table cell.
@@ -1625,21 +1622,6 @@ YAML::Node overlay_body(const YAML::Node& overlay) {
         if (!skip) body.force_insert(it->first, it->second);
     }
     return body;
-}
-
-YAML::Node load_document(const std::string& yaml_text, ErrorList& errors) {
-    YAML::Node root;
-    try {
-        root = YAML::Load(yaml_text);
-    } catch (const YAML::Exception& e) {
-        errors.add(e.mark, "", "YAML syntax error: " + e.msg);
-        throw ScenarioError(errors.messages());
-    }
-    if (!root.IsDefined() || root.IsNull()) {
-        errors.add(YAML::Mark(), "", "the file holds no scenario; it should start with knockon: 1");
-        throw ScenarioError(errors.messages());
-    }
-    return root;
 }
 
 std::string read_text_file(const std::string& path) {

@@ -5,6 +5,7 @@
 #include <map>
 
 #include "models/input_ranges.hpp"
+#include "models/scenario_error.hpp"
 
 namespace knockon::yamlio {
 
@@ -236,6 +237,32 @@ std::string km(double metres) {
     if (!s.empty() && s.back() == '.') s.pop_back();
     if (s == "-0") s = "0";
     return s + " km";
+}
+
+YAML::Node load_document(const std::string& yaml_text, ErrorList& errors) {
+    YAML::Node root;
+    try {
+        root = YAML::Load(yaml_text);
+    } catch (const YAML::Exception& e) {
+        errors.add(e.mark, "", "YAML syntax error: " + e.msg);
+        throw ScenarioError(errors.messages());
+    }
+    if (!root.IsDefined() || root.IsNull()) {
+        errors.add(YAML::Mark(), "", "the file holds no scenario; it should start with knockon: 1");
+        throw ScenarioError(errors.messages());
+    }
+    return root;
+}
+
+std::optional<double> ranged(const MapFields& f, std::string_view key, Input which, bool required) {
+    auto v = f.quantity(key, input_range(which).quantity, required);
+    if (v) {
+        if (auto problem = range_problem(which, *v)) {
+            f.error(key, *problem);
+            return std::nullopt;
+        }
+    }
+    return v;
 }
 
 std::string kmh(double metres_per_second) {

@@ -15,6 +15,7 @@
 
 #include <yaml-cpp/yaml.h>
 
+#include "models/input_ranges.hpp"
 #include "models/units.hpp"
 
 namespace knockon::yamlio {
@@ -109,6 +110,14 @@ std::optional<std::string> scalar_text(ErrorList& errors, const YAML::Node& n,
 // A quantity read from a node directly (table cells).
 std::optional<double> quantity_of(ErrorList& errors, const YAML::Node& n, const std::string& path,
                                   Quantity q);
+
+// The YAML document of a scenario file; a syntax error or an empty file throws ScenarioError
+// with the located message.
+YAML::Node load_document(const std::string& yaml_text, ErrorList& errors);
+
+// A field read as its kind of input and held to that input's plausible range (models/input_ranges):
+// out of range is an error at the field and nothing is returned.
+std::optional<double> ranged(const MapFields& f, std::string_view key, Input which, bool required);
 
 // Chainage, speed and time texts for messages: "14.1 km", "120 km/h", "06:15:30".
 std::string km(double metres);

@@ -5,6 +5,7 @@
 // (sim/comparison).  The plan figures (headways, capacity consumption) are deterministic and are
 // compared as they are.
 #include <chrono>
+#include <algorithm>
 #include <cmath>
 #include <cstdio>
 #include <memory>
@@ -165,6 +166,15 @@ std::string compare_text(const std::vector<const VariantRun*>& runs, const std::
     for (std::size_t i = 0; i < thresholds.size(); ++i)
         row(per_day, fmt("punctual within %g min", thresholds[i] / 60.0),
             [i](const VariantRun& r) { return percent(r.summary.punctuality[i]); });
+    // Where a variant has single track: what the dispatcher changed (sim/crossing_changes.hpp).
+    const bool single_track = std::any_of(runs.begin(), runs.end(), [](const VariantRun* r) {
+        return r->model && !r->model->single_track().empty();
+    });
+    if (single_track) {
+        const auto count = [](const Estimate& e) { return fmt("%.2f", e.mean) + fmt(" ± %.2f", e.half_width); };
+        row(per_day, "crossings moved", [&](const VariantRun& r) { return count(r.summary.moved_crossings); });
+        row(per_day, "orders changed", [&](const VariantRun& r) { return count(r.summary.changed_orders); });
+    }
     row(per_day, "days ended in deadlock",
         [](const VariantRun& r) { return std::to_string(r.summary.deadlocked); });
     row(per_day, "complete days",

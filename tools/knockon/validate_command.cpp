@@ -3,6 +3,7 @@
 #include <set>
 
 #include "models/plan.hpp"
+#include "tools/io/network_reader.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/knockon/options.hpp"
@@ -46,6 +47,20 @@ std::vector<std::string> plan_warnings(const Scenario& sc, const PlanResult& pla
     return out;
 }
 
+// A network file (knockon: 2) holds a layout only so far: read, checked, its detection sections
+// and routes found.
+int validate_network(const std::string& file) {
+    const NetworkFile nf = read_network(file);
+    const net::Network& n = nf.network;
+    auto count = [](std::size_t k, const char* one, const char* many) { return std::to_string(k) + " " + (k == 1 ? one : many); };
+    std::printf("%s: ok: network %s; %s, %s, %s, %s; %s, %s\n", file.c_str(), nf.name.c_str(),
+                count(n.segments.size(), "segment", "segments").c_str(), count(n.nodes.size(), "node", "nodes").c_str(),
+                count(n.signals.size(), "signal", "signals").c_str(), count(n.stations.size(), "station", "stations").c_str(),
+                count(nf.sections, "detection section", "detection sections").c_str(),
+                count(nf.routes, "route", "routes").c_str());
+    return 0;
+}
+
 }  // namespace
 
 // Checks the base scenario and every variant (each merged onto the base, read in full and
@@ -57,6 +72,7 @@ int validate(const std::vector<std::string>& args) {
     po::variables_map vm;
     if (!parse_command_line("validate", args, options, vm)) return 0;
     const std::string file = vm["scenario"].as<std::string>();
+    if (is_network_text(read_scenario_text(file))) return validate_network(file);
 
     std::vector<std::string> problems, warnings;
     std::set<std::string> seen;

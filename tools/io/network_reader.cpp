@@ -1,0 +1,372 @@
+#include "tools/io/network_reader.hpp"
+
+#include <map>
+#include <set>
+#include <utility>
+#include <vector>
+
+#include "models/network/checks.hpp"
+#include "models/network/routes.hpp"
+#include "tools/io/scenario_reader.hpp"
+#include "tools/io/yaml_fields.hpp"
+
+namespace knockon {
+namespace {
+
+using net::Heading;
+using net::kNone;
+using net::ObjectKind;
+using yamlio::ErrorList;
+using yamlio::item;
+using yamlio::MapFields;
+
+// Where an object of the network stands in the file.
+struct Source {
+    YAML::Node node;
+    std::string path;
+};
+
+class NetworkParser {
+public:
+    explicit NetworkParser(ErrorList& errors) : errors_(errors) {}
+
+    NetworkFile parse(const YAML::Node& root) {
+        MapFields top(errors_, root, "", {"knockon", "name", "network"});
+        if (!top.ok()) return std::move(out_);
+        if (auto v = top.text("knockon", true); v && *v != "2")
+            top.error("knockon", "a network file has knockon: 2, not \"" + *v + "\"");
+        if (auto n = top.text("name", false)) out_.name = *n;
+        network_at_ = top.mark_of("network");
+        if (top.require("network")) read_network(top.get("network"), top.path_of("network"));
+        if (top.has("network")) check();
+        return std::move(out_);
+    }
+
+private:
+    net::Network& net() { return out_.network; }
+
+    void read_network(const YAML::Node& doc, const std::string& path) {
+        MapFields m(errors_, doc, path, {"signalling", "segments", "nodes", "signals", "joints", "stations", "routes"});
+        if (!m.ok()) return;
+        if (m.has("signalling")) read_signalling(m.get("signalling"), m.path_of("signalling"));
+        // Segments first: everything else refers to them by id.
+        each(m, "segments", true, [&](const MapFields& f) { segment(f); },
+             {"id", "length", "directions", "gradients", "speed_limits", "km_posts"});
+        each(m, "nodes", true, [&](const MapFields& f) { node(f); },
+             {"id", "kind", "ends", "fouling"});
+        each(m, "signals", true, [&](const MapFields& f) { signal(f); },
+             {"id", "segment", "at", "heading", "system", "sighting_distance", "overlap", "distant_distance"});
+        each(m, "joints", false, [&](const MapFields& f) { joint(f); }, {"id", "segment", "at"});
+        each(m, "stations", true, [&](const MapFields& f) { station(f); },
+             {"id", "name", "tracks", "stopping_points", "platforms"});
+        each(m, "routes", false, [&](const MapFields& f) { route_name(f); }, {"id", "from", "to", "via"});
+    }
+
+    // A signal named at `key`; records an error and returns kNone where there is none.
+    std::size_t signal_ref(const MapFields& f, std::string_view key, bool required) {
+        auto id = f.text(key, required);
+        if (!id) return kNone;
+        const std::size_t s = net().find_signal(*id);
+        if (s == kNone) f.error(key, "no signal has the id \"" + *id + "\"");
+        return s;
+    }
+
+    // A name for one of the routes the program finds: from a signal to the next (`to` left out:
+    // to the buffer stop or boundary the route ends at), over the `via` segments.
+    void route_name(const MapFields& f) {
+        const std::size_t before = errors_.size();
+        net::RouteName r;
+        if (auto id = f.text("id", true)) r.name = *id;
+        r.entry_signal = signal_ref(f, "from", true);
+        r.exit_signal = signal_ref(f, "to", false);
+        if (auto seq = f.sequence("via", false)) {
+            const std::string path = f.path_of("via");
+            for (std::size_t i = 0; i < seq->size(); ++i) {
+                auto id = yamlio::scalar_text(errors_, (*seq)[i], item(path, i));
+                if (!id) continue;
+                const std::size_t s = net().find_segment(*id);
+                if (s == kNone)
+                    errors_.add((*seq)[i], item(path, i), "no segment has the id \"" + *id + "\"");
+                else
+                    r.via.push_back(s);
+            }
+        }
+        remember(ObjectKind::route_name, f, before);
+        net().route_names.push_back(std::move(r));
+    }
+
+    // Calls `read` with the fields of each map in the sequence at `key`.
+    template <class Read>
+    void each(const MapFields& m, std::string_view key, bool required, Read read,
+              std::initializer_list<std::string_view> allowed) {
+        auto seq = m.sequence(key, required);
+        if (!seq) return;
+        const std::string path = m.path_of(key);
+        for (std::size_t i = 0; i < seq->size(); ++i) {
+            MapFields f(errors_, (*seq)[i], item(path, i), allowed);
+            if (f.ok()) read(f);
+        }
+    }
+
+    void read_signalling(const YAML::Node& node, const std::string& path) {
+        MapFields s(errors_, node, path, {"system", "defaults", "interlocking"});
+        if (!s.ok()) return;
+        if (auto sys = system(s)) system_ = *sys;
+        if (s.has("defaults")) {
+            MapFields d(errors_, s.get("defaults"), s.path_of("defaults"), {"sighting_distance", "overlap"});
+            if (d.ok()) {
+                if (auto v = yamlio::ranged(d, "sighting_distance", Input::sighting_distance, false)) sighting_ = *v;
+                if (auto v = yamlio::ranged(d, "overlap", Input::overlap, false)) overlap_ = *v;
+            }
+        }
+        if (s.has("interlocking")) {
+            MapFields i(errors_, s.get("interlocking"), s.path_of("interlocking"), {"route_setup", "release", "sight_reaction"});
+            if (!i.ok()) return;
+            auto& times = net().interlocking;
+            if (auto v = yamlio::ranged(i, "route_setup", Input::route_setup, false)) times.route_setup = *v;
+            if (auto v = yamlio::ranged(i, "release", Input::release, false)) times.release = *v;
+            if (auto v = yamlio::ranged(i, "sight_reaction", Input::sight_reaction, false)) times.sight_reaction = *v;
+        }
+    }
+
+    std::optional<AspectSystem> system(const MapFields& f) {
+        auto c = f.choice("system", {"two_aspect", "three_aspect", "four_aspect", "cab_fixed_block"}, false);
+        if (!c) return std::nullopt;
+        return *c == "two_aspect"     ? AspectSystem::two_aspect
+               : *c == "three_aspect" ? AspectSystem::three_aspect
+               : *c == "four_aspect"  ? AspectSystem::four_aspect
+                                      : AspectSystem::cab_fixed_block;
+    }
+
+    // Where the object just read stands, and whether reading it found problems (the network's
+    // checks then say nothing more of it: "names no segment" after "no segment has the id").
+    void remember(ObjectKind k, const MapFields& f, std::size_t errors_before) {
+        if (errors_.size() > errors_before) flawed_.insert({k, sources_[k].size()});
+        sources_[k].push_back({f.node(), f.path()});
+    }
+
+    // A segment named at `key`; records an error and returns kNone where there is none.
+    std::size_t segment_ref(const MapFields& f, std::string_view key) {
+        auto id = f.text(key, true);
+        if (!id) return kNone;
+        const std::size_t s = net().find_segment(*id);
+        if (s == kNone) f.error(key, "no segment has the id \"" + *id + "\"");
+        return s;
+    }
+
+    // Offset bands ("from", "value") of a segment.
+    std::vector<net::OffsetBand> bands(const MapFields& f, std::string_view key, Input which) {
+        std::vector<net::OffsetBand> out;
+        each(f, key, false, [&](const MapFields& b) {
+            auto from = b.quantity("from", Quantity::length, true);
+            auto value = yamlio::ranged(b, "value", which, true);
+            if (from && value) out.push_back({*from, *value});
+        }, {"from", "value"});
+        return out;
+    }
+
+    void segment(const MapFields& f) {
+        const std::size_t before = errors_.size();
+        net::Segment s;
+        if (auto id = f.text("id", true)) s.name = *id;
+        if (auto len = yamlio::ranged(f, "length", Input::line_length, true)) s.length = *len;
+        if (auto d = f.choice("directions", {"forward", "backward", "both"}, true)) {
+            s.forward = *d != "backward";
+            s.backward = *d != "forward";
+        }
+        s.gradient = bands(f, "gradients", Input::gradient);
+        s.speed = bands(f, "speed_limits", Input::speed_limit);
+        each(f, "km_posts", false, [&](const MapFields& p) {
+            auto at = p.quantity("at", Quantity::length, true);
+            auto km = p.quantity("km", Quantity::length, true);
+            if (at && km) s.posts.push_back({*at, *km});
+        }, {"at", "km"});
+        remember(ObjectKind::segment, f, before);
+        net().segments.push_back(std::move(s));
+    }
+
+    // "L.start" or "L.end".
+    std::optional<net::EndRef> end_ref(const YAML::Node& n, const std::string& path) {
+        auto text = yamlio::scalar_text(errors_, n, path);
+        if (!text) return std::nullopt;
+        const auto dot = text->rfind('.');
+        const std::string end = dot == std::string::npos ? "" : text->substr(dot + 1);
+        if (end != "start" && end != "end") {
+            errors_.add(n, path, "a segment end is written <segment id>.start or <segment id>.end, not \"" + *text + "\"");
+            return std::nullopt;
+        }
+        const std::size_t s = net().find_segment(text->substr(0, dot));
+        if (s == kNone) {
+            errors_.add(n, path, "no segment has the id \"" + text->substr(0, dot) + "\"");
+            return std::nullopt;
+        }
+        return net::EndRef{s, end == "start" ? net::End::start : net::End::end};
+    }
+
+    void node(const MapFields& f) {
+        const std::size_t before = errors_.size();
+        net::Node nd;
+        if (auto id = f.text("id", true)) nd.name = *id;
+        if (auto k = f.choice("kind", {"link", "switch", "diamond", "buffer_stop", "boundary"}, true))
+            nd.kind = *k == "link"          ? net::NodeKind::link
+                      : *k == "switch"      ? net::NodeKind::switch_
+                      : *k == "diamond"     ? net::NodeKind::diamond
+                      : *k == "buffer_stop" ? net::NodeKind::buffer_stop
+                                            : net::NodeKind::boundary;
+        if (auto v = f.quantity("fouling", Quantity::length, false)) nd.fouling = *v;
+        if (auto seq = f.sequence("ends", true)) {
+            const std::string path = f.path_of("ends");
+            for (std::size_t i = 0; i < seq->size(); ++i) {
+                const YAML::Node e = (*seq)[i];
+                std::optional<net::EndRef> at;
+                double speed = net::kNoLimit;
+                if (e.IsMap()) {   // {end: P2.start, speed: 40 km/h}: a leg with its own speed
+                    MapFields m(errors_, e, item(path, i), {"end", "speed"});
+                    if (!m.ok() || !m.require("end")) continue;
+                    at = end_ref(m.get("end"), m.path_of("end"));
+                    if (auto v = yamlio::ranged(m, "speed", Input::speed_limit, false)) speed = *v;
+                } else {
+                    at = end_ref(e, item(path, i));
+                }
+                if (at) nd.ends.push_back({*at, speed});
+            }
+        }
+        remember(ObjectKind::node, f, before);
+        net().nodes.push_back(std::move(nd));
+    }
+
+    std::optional<Heading> heading(const MapFields& f) {
+        auto h = f.choice("heading", {"forward", "backward"}, true);
+        if (!h) return std::nullopt;
+        return *h == "forward" ? Heading::forward : Heading::backward;
+    }
+
+    void signal(const MapFields& f) {
+        const std::size_t before = errors_.size();
+        net::Signal s;
+        if (auto id = f.text("id", true)) s.name = *id;
+        s.at.segment = segment_ref(f, "segment");
+        if (auto at = f.quantity("at", Quantity::length, true)) s.at.offset = *at;
+        if (auto h = heading(f)) s.heading = *h;
+        s.system = system(f).value_or(system_);
+        s.sighting_distance = yamlio::ranged(f, "sighting_distance", Input::sighting_distance, false).value_or(sighting_);
+        s.overlap = yamlio::ranged(f, "overlap", Input::overlap, false).value_or(overlap_);
+        s.distant_distance = yamlio::ranged(f, "distant_distance", Input::distant_distance, false);
+        remember(ObjectKind::signal, f, before);
+        net().signals.push_back(std::move(s));
+    }
+
+    void joint(const MapFields& f) {
+        const std::size_t before = errors_.size();
+        net::Joint j;
+        if (auto id = f.text("id", false)) j.name = *id;
+        j.at.segment = segment_ref(f, "segment");
+        if (auto at = f.quantity("at", Quantity::length, true)) j.at.offset = *at;
+        remember(ObjectKind::joint, f, before);
+        net().joints.push_back(std::move(j));
+    }
+
+    void station(const MapFields& f) {
+        const std::size_t before = errors_.size();
+        net::Station st;
+        if (auto id = f.text("id", true)) st.id = *id;
+        if (auto name = f.text("name", false)) st.name = *name;
+        const std::size_t index = net().stations.size();
+        remember(ObjectKind::station, f, before);
+        net().stations.push_back(std::move(st));
+        each(f, "tracks", true, [&](const MapFields& t) {
+            const std::size_t before_tp = errors_.size();
+            net::TimingPoint tp{index, {segment_ref(t, "segment"), 0.0}};
+            if (auto at = t.quantity("at", Quantity::length, true)) tp.at.offset = *at;
+            remember(ObjectKind::timing_point, t, before_tp);
+            net().timing_points.push_back(tp);
+        }, {"segment", "at"});
+        each(f, "stopping_points", false, [&](const MapFields& p) {
+            const std::size_t before_sp = errors_.size();
+            net::StoppingPoint sp{index, {segment_ref(p, "segment"), 0.0}};
+            if (auto at = p.quantity("at", Quantity::length, true)) sp.at.offset = *at;
+            if (auto h = heading(p)) sp.heading = *h;
+            if (auto l = yamlio::ranged(p, "max_train_length", Input::train_length, false)) sp.max_train_length = *l;
+            remember(ObjectKind::stopping_point, p, before_sp);
+            net().stopping_points.push_back(sp);
+        }, {"segment", "at", "heading", "max_train_length"});
+        each(f, "platforms", false, [&](const MapFields& p) {
+            const std::size_t before_pl = errors_.size();
+            net::Platform pl;
+            if (auto id = p.text("id", false)) pl.name = *id;
+            pl.station = index;
+            pl.segment = segment_ref(p, "segment");
+            if (auto v = p.quantity("from", Quantity::length, true)) pl.from = *v;
+            if (auto v = p.quantity("to", Quantity::length, true)) pl.to = *v;
+            remember(ObjectKind::platform, p, before_pl);
+            net().platforms.push_back(pl);
+        }, {"id", "segment", "from", "to"});
+    }
+
+    // The network's own checks, each put at the object it is about (but for objects the reader
+    // has found wrong already); then, on a network with no problem, the sections and routes,
+    // whose search can refuse a layout too (a loop of track no signal faces).
+    void check() {
+        for (const net::NetworkProblem& p : net::check_network(net()))
+            if (!flawed_.count({p.kind, p.index})) locate(p);
+        if (!errors_.empty()) return;
+        try {
+            const net::NetworkGraph graph(net());
+            const net::DetectionSections sections(graph);
+            out_.sections = sections.size();
+            out_.routes = net::find_routes(graph, sections).size();
+        } catch (const net::NetworkError& e) {
+            if (e.problems.empty()) errors_.add(network_at_, "network", e.what());
+            for (const net::NetworkProblem& p : e.problems) locate(p);
+        }
+    }
+
+    // A problem of the network at the value of the field it is about, where the file gives it,
+    // else at its object.
+    void locate(const net::NetworkProblem& p) {
+        const Source& at = sources_[p.kind][p.index];
+        const YAML::Node value = p.field.empty() ? YAML::Node(YAML::NodeType::Undefined) : at.node[p.field];
+        if (!p.field.empty() && value.IsDefined())
+            errors_.add(value.Mark(), yamlio::join(at.path, p.field), p.message);
+        else
+            errors_.add(at.node.Mark(), at.path, p.message);
+    }
+
+    ErrorList& errors_;
+    NetworkFile out_;
+    std::map<ObjectKind, std::vector<Source>> sources_;
+    std::set<std::pair<ObjectKind, std::size_t>> flawed_;
+    YAML::Mark network_at_;
+    AspectSystem system_ = AspectSystem::three_aspect;
+    double sighting_ = 0.0, overlap_ = 0.0;
+};
+
+}  // namespace
+
+bool is_network_text(const std::string& yaml_text) {
+    try {
+        const YAML::Node root = YAML::Load(yaml_text);
+        return root.IsMap() && root["knockon"] && root["knockon"].IsScalar() && root["knockon"].Scalar() == "2";
+    } catch (const YAML::Exception&) {
+        return false;
+    }
+}
+
+NetworkFile parse_network(const std::string& yaml_text, const std::string& file_name) {
+    ErrorList errors(file_name);
+    const YAML::Node root = yamlio::load_document(yaml_text, errors);
+    NetworkFile file;
+    try {
+        file = NetworkParser(errors).parse(root);
+    } catch (const YAML::Exception& e) {
+        // Not expected: every access is checked first.  Reported, never a crash.
+        errors.add(e.mark, "", std::string("could not read the file: ") + e.what());
+    }
+    if (!errors.empty()) throw ScenarioError(errors.messages());
+    file.source_file = file_name;
+    return file;
+}
+
+NetworkFile read_network(const std::string& path) { return parse_network(read_scenario_text(path), path); }
+
+}  // namespace knockon
