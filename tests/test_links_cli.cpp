@@ -3,6 +3,7 @@
 #include <catch2/catch.hpp>
 
 #include <cmath>
+#include <cstdio>
 #include <nlohmann/json.hpp>
 
 #include "cli_support.hpp"
@@ -53,4 +54,13 @@ TEST_CASE("links CLI: a study counts missed connections per day with an interval
     CHECK(m["ci95_half_width"].get<double>() > 0.0);
     const Result text = knockon("simulate '" + kConnections + "' --replications 60 --seed 3", dir);
     CHECK(text.out.find("missed connections") != std::string::npos);
+    // The report of the study file gives the same mean in its headline table.
+    const std::string html = (dir.path / "study.html").string();
+    const Result rep = knockon("report '" + out + "' -o '" + html + "'", dir);
+    INFO(rep.err);
+    REQUIRE(rep.status == 0);
+    char expected[64];
+    std::snprintf(expected, sizeof expected, "connections missed</td><td class=\"num\">%.2f ± %.2f",
+                  m["mean"].get<double>(), m["ci95_half_width"].get<double>());
+    CHECK(read_text(html).find(expected) != std::string::npos);
 }

@@ -151,6 +151,9 @@ ReportSection glance_section(const ResultsView& v) {
             t.rows.push_back({"single track: crossings moved to another place", count_ci(s.moved_crossings)});
             t.rows.push_back({"single track: pairs of one direction in another order", count_ci(s.changed_orders)});
         }
+        if (v.scenario && !v.scenario->timetable.links.empty() && v.file->facts.schema_version >= 7)
+            t.rows.push_back({"connections missed", fmt("%.2f", s.missed_connections.mean) +
+                                                        fmt(" ± %.2f", s.missed_connections.half_width)});
         t.highlight.assign(t.rows.size(), false);
         t.highlight.front() = s.deadlocked > 0;
         intro = "A Monte Carlo study: " + std::to_string(s.replications) +
