@@ -148,6 +148,31 @@ TEST_CASE("merge refuses shards that do not belong together and writes nothing")
         refused(part(dir, 1) + " " + part(dir, 2) + " " + q(dir.path / "again.h5") + " " + part(dir, 3), "again.h5",
                 "given twice");
     }
+    SECTION("a damaged shard: numbers outside what they can be") {
+        // Written by h5py (python3-h5py, installed by tools/setup.sh): a day's event count of 2^63,
+        // a figure no float can hold, and a held record naming signal 1e12.  Each is refused
+        // naming the file, before any cast (which would be undefined).
+        const std::vector<std::pair<std::string, std::string>> edits = {
+            {"d = f['shard/per_day'][...]; d['events'][0] = 2**63; f['shard/per_day'][...] = d", "events"},
+            {"d = f['shard/timing_figures'][...]; d['arrival_delay'][0] = 1e300; f['shard/timing_figures'][...] = d",
+             "no stored figure can be"},
+            {"d = f['shard/held'][...]; d['signal'][0] = 1e12; f['shard/held'][...] = d", "/shard/held"}};
+        const std::string python = python_with_h5py();
+        REQUIRE_FALSE(python.empty());
+        for (const auto& [edit, what] : edits) {
+            fs::copy_file(dir.path / "part_2.h5", dir.path / "damaged.h5", fs::copy_options::overwrite_existing);
+            const std::string py = "import h5py\nwith h5py.File('" + (dir.path / "damaged.h5").string() +
+                                   "', 'r+') as f:\n    " + edit + "\n";
+            std::ofstream(dir.path / "edit.py") << py;
+            if (edit.find("held") != std::string::npos &&
+                std::system((python + " -c \"import h5py,sys; f=h5py.File('" + (dir.path / "damaged.h5").string() +
+                             "'); sys.exit(0 if f['shard/held'].shape[0] > 0 else 1)\"").c_str()) != 0)
+                continue;   // no train stood at a signal in this shard: nothing to damage
+            REQUIRE(std::system((python + " " + q(dir.path / "edit.py")).c_str()) == 0);
+            INFO(edit);
+            refused(part(dir, 1) + " " + q(dir.path / "damaged.h5") + " " + part(dir, 3), "damaged.h5", what);
+        }
+    }
     SECTION("a study file instead of a shard") {
         REQUIRE(clitest::knockon("simulate " + kStudy + " --out " + q(dir.path / "whole.h5"), dir).status == 0);
         refused(q(dir.path / "whole.h5"), "whole.h5", "not a study shard");

@@ -369,47 +369,10 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g, int s
     std::vector<std::string> fields;
     for (double t : s.thresholds) fields.push_back(punctuality_field(t));
 
-    {
-        const Table t(f, g + "/per_day");
-        if (t.rows() != days)
-            throw ResultsFileError(f.path() + ": " + t.path() + ": holds " + std::to_string(t.rows()) +
-                                   " records for the " + std::to_string(days) + " days of attribute 'replications'");
-        const auto rep = t.num("replication", kCount32), dl = t.num("deadlocked", kFlag), ev = t.num("events", kCount),
-                   bp = t.num("block_passages", kCount), pr = t.num("total_primary", kSeconds),
-                   ko = t.num("total_knock_on", kSeconds), ma = t.num("mean_arrival_delay", kSecondsOrNaN);
-        // Schema 6 and later count the single-track crossings and orders that differed from the plan.
-        const bool counted = schema >= 6;
-        const auto moved = counted ? t.num("moved_crossings", kCount32) : std::vector<double>(t.rows(), 0.0);
-        const auto changed = counted ? t.num("changed_orders", kCount32) : std::vector<double>(t.rows(), 0.0);
-        // Schema 7 and later count the connections missed (timetable links).
-        const auto missed = schema >= 7 ? t.num("missed_connections", kCount32) : std::vector<double>(t.rows(), 0.0);
-        std::vector<std::vector<double>> punct;
-        for (const std::string& name : fields) punct.push_back(t.num(name, kShareOrNaN));
-        // A deadlocked day has no arrival delay or punctuality (NaN); a complete day must have them.
-        for (std::size_t i = 0; i < t.rows(); ++i) {
-            if (dl[i] != 0.0) continue;
-            bool nan = std::isnan(ma[i]);
-            for (const auto& column : punct) nan = nan || std::isnan(column[i]);
-            if (nan)
-                throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) +
-                                       " is of a complete day but holds NaN for its arrival delay or punctuality");
-        }
-        out.per_day.resize(t.rows());
-        for (std::size_t i = 0; i < t.rows(); ++i) {
-            ReplicationStats& r = out.per_day[i];
-            r.replication = static_cast<std::uint32_t>(rep[i]);
-            r.deadlocked = dl[i] != 0.0;
-            r.events = static_cast<std::uint64_t>(ev[i]);
-            r.block_passages = static_cast<std::uint64_t>(bp[i]);
-            r.total_primary = pr[i];
-            r.total_knock_on = ko[i];
-            r.mean_arrival_delay = ma[i];
-            r.moved_crossings = static_cast<std::uint32_t>(moved[i]);
-            r.changed_orders = static_cast<std::uint32_t>(changed[i]);
-            r.missed_connections = static_cast<std::uint32_t>(missed[i]);
-            for (const auto& column : punct) r.punctuality.push_back(column[i]);
-        }
-    }
+    out.per_day = read_per_day_table(f, g + "/per_day", s.thresholds, schema);
+    if (out.per_day.size() != days)
+        throw ResultsFileError(f.path() + ": " + g + "/per_day: holds " + std::to_string(out.per_day.size()) +
+                               " records for the " + std::to_string(days) + " days of attribute 'replications'");
     {
         const Table t(f, g + "/summary");
         const auto figure = t.text("figure");
@@ -624,6 +587,47 @@ std::vector<std::uint32_t> traced_replications(const h5::InputFile& f, std::size
 }
 
 }  // namespace
+
+std::vector<ReplicationStats> read_per_day_table(const h5::InputFile& f, const std::string& table,
+                                                 const std::vector<double>& thresholds, int schema) {
+    const Table t(f, table);
+    const auto rep = t.num("replication", kCount32), dl = t.num("deadlocked", kFlag), ev = t.num("events", kCount),
+               bp = t.num("block_passages", kCount), pr = t.num("total_primary", kSeconds),
+               ko = t.num("total_knock_on", kSeconds), ma = t.num("mean_arrival_delay", kSecondsOrNaN);
+    // Schema 6 and later count the single-track crossings and orders that differed from the plan.
+    const bool counted = schema >= 6;
+    const auto moved = counted ? t.num("moved_crossings", kCount32) : std::vector<double>(t.rows(), 0.0);
+    const auto changed = counted ? t.num("changed_orders", kCount32) : std::vector<double>(t.rows(), 0.0);
+    // Schema 7 and later count the connections missed (timetable links).
+    const auto missed = schema >= 7 ? t.num("missed_connections", kCount32) : std::vector<double>(t.rows(), 0.0);
+    std::vector<std::vector<double>> punct;
+    for (double threshold : thresholds) punct.push_back(t.num(punctuality_field(threshold), kShareOrNaN));
+    // A deadlocked day has no arrival delay or punctuality (NaN); a complete day must have them.
+    for (std::size_t i = 0; i < t.rows(); ++i) {
+        if (dl[i] != 0.0) continue;
+        bool nan = std::isnan(ma[i]);
+        for (const auto& column : punct) nan = nan || std::isnan(column[i]);
+        if (nan)
+            throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) +
+                                   " is of a complete day but holds NaN for its arrival delay or punctuality");
+    }
+    std::vector<ReplicationStats> out(t.rows());
+    for (std::size_t i = 0; i < t.rows(); ++i) {
+        ReplicationStats& r = out[i];
+        r.replication = static_cast<std::uint32_t>(rep[i]);
+        r.deadlocked = dl[i] != 0.0;
+        r.events = static_cast<std::uint64_t>(ev[i]);
+        r.block_passages = static_cast<std::uint64_t>(bp[i]);
+        r.total_primary = pr[i];
+        r.total_knock_on = ko[i];
+        r.mean_arrival_delay = ma[i];
+        r.moved_crossings = static_cast<std::uint32_t>(moved[i]);
+        r.changed_orders = static_cast<std::uint32_t>(changed[i]);
+        r.missed_connections = static_cast<std::uint32_t>(missed[i]);
+        for (const auto& column : punct) r.punctuality.push_back(column[i]);
+    }
+    return out;
+}
 
 std::string to_string(ResultsKind kind) {
     switch (kind) {

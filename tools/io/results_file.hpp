@@ -80,4 +80,12 @@ ResultsFile read_results(const std::string& path);
 // A traced day of a study file, /replications/<k> (routes are not read).
 SimResult read_traced_day(const std::string& path, std::uint32_t replication);
 
+namespace h5 {
+class InputFile;
+}
+// A per_day table (a study's /study/per_day, a shard file's /shard/per_day) of the given schema,
+// every number held to its rule: the one reading of a day's ReplicationStats.
+std::vector<ReplicationStats> read_per_day_table(const h5::InputFile& f, const std::string& table,
+                                                 const std::vector<double>& thresholds, int schema);
+
 }  // namespace knockon

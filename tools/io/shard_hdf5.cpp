@@ -8,6 +8,7 @@
 
 #include "tools/io/hdf5_file.hpp"
 #include "tools/io/hdf5_read.hpp"
+#include "tools/io/results_file.hpp"
 #include "tools/io/study_hdf5.hpp"
 
 namespace knockon {
@@ -254,13 +255,7 @@ std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
     expect_rows(f, "/shard/train_figures", days * trains);
     expect_rows(f, "/shard/section_figures", days * sections);
     expect_rows(f, "/shard/buffer_figures", days * pairs);
-    const auto replication = f.number_column(pd, "replication"), deadlocked = f.number_column(pd, "deadlocked"),
-               events = f.number_column(pd, "events"), passages = f.number_column(pd, "block_passages"),
-               primary = f.number_column(pd, "total_primary"), knock_on = f.number_column(pd, "total_knock_on"),
-               mean_delay = f.number_column(pd, "mean_arrival_delay"), moved = f.number_column(pd, "moved_crossings"),
-               changed = f.number_column(pd, "changed_orders"), missed = f.number_column(pd, "missed_connections");
-    std::vector<std::vector<double>> punctuality;
-    for (double t : shard.run.thresholds) punctuality.push_back(f.number_column(pd, punctuality_field(t)));
+    const std::vector<ReplicationStats> per_day = read_per_day_table(f, pd, shard.run.thresholds, kSimHdf5SchemaVersion);
     const auto arrival = f.number_column("/shard/timing_figures", "arrival_delay"),
                record_knock_on = f.number_column("/shard/timing_figures", "knock_on"),
                train_primary = f.number_column("/shard/train_figures", "primary"),
@@ -272,28 +267,32 @@ std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
                held_signal = f.number_column("/shard/held", "signal"), held_s = f.number_column("/shard/held", "seconds");
     const auto signals = f.text_column("/shard/held_signals", "id");
 
-    // The figures were floats: back from double exactly.
-    const auto floats = [](const std::vector<double>& v, std::size_t from, std::size_t n) {
+    // The figures were floats: back from double exactly.  A value no float can hold (a damaged or
+    // foreign file) is refused before the cast, which would be undefined.
+    const auto floats = [&shard](const std::vector<double>& v, std::size_t from, std::size_t n) {
         std::vector<float> out(n);
-        for (std::size_t i = 0; i < n; ++i) out[i] = static_cast<float>(v[from + i]);
+        for (std::size_t i = 0; i < n; ++i) {
+            const double x = v[from + i];
+            if (!std::isnan(x) && !(std::fabs(x) <= static_cast<double>(std::numeric_limits<float>::max())))
+                throw h5::Error(shard.path + ": a day's figure holds " + std::to_string(x) +
+                                ", which no stored figure can be; the file is damaged");
+            out[i] = static_cast<float>(x);
+        }
         return out;
+    };
+    // A whole number below `limit`, checked before the cast.
+    const auto index = [&shard](double x, std::size_t limit, std::size_t record) {
+        if (!(x >= 0.0 && x < static_cast<double>(limit) && x == std::floor(x)))
+            throw h5::Error(shard.path + ": /shard/held: record " + std::to_string(record) +
+                            " names a day or signal the shard does not have");
+        return static_cast<std::size_t>(x);
     };
     std::vector<ReplicationFigures> out(days);
     std::map<std::uint32_t, std::size_t> day_of;   // replication -> row
     for (std::size_t d = 0; d < days; ++d) {
         ReplicationFigures& r = out[d];
         ReplicationStats& st = r.stats;
-        st.replication = static_cast<std::uint32_t>(replication[d]);
-        st.deadlocked = deadlocked[d] != 0.0;
-        st.events = static_cast<std::uint64_t>(events[d]);
-        st.block_passages = static_cast<std::uint64_t>(passages[d]);
-        st.total_primary = primary[d];
-        st.total_knock_on = knock_on[d];
-        st.mean_arrival_delay = mean_delay[d];
-        st.moved_crossings = static_cast<std::uint32_t>(moved[d]);
-        st.changed_orders = static_cast<std::uint32_t>(changed[d]);
-        st.missed_connections = static_cast<std::uint32_t>(missed[d]);
-        for (const auto& column : punctuality) st.punctuality.push_back(column[d]);
+        st = per_day[d];
         if (st.deadlocked && shard.first_deadlock && shard.first_deadlock->replication == st.replication)
             r.deadlock = shard.first_deadlock->report;
         r.arrival_delay = floats(arrival, d * records, records);
@@ -306,8 +305,8 @@ std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
         day_of[st.replication] = d;
     }
     for (std::size_t i = 0; i < held_day.size(); ++i) {
-        const auto day = day_of.find(static_cast<std::uint32_t>(held_day[i]));
-        const std::size_t signal = static_cast<std::size_t>(held_signal[i]);
+        const auto day = day_of.find(static_cast<std::uint32_t>(index(held_day[i], UINT32_MAX, i)));
+        const std::size_t signal = index(held_signal[i], signals.size(), i);
         if (day == day_of.end() || signal >= signals.size())
             throw h5::Error(shard.path + ": /shard/held: record " + std::to_string(i) +
                             " names a day or signal the shard does not have");

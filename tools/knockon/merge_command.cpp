@@ -17,6 +17,7 @@
 #include "tools/io/study_hdf5.hpp"
 #include "tools/knockon/options.hpp"
 #include "tools/io/output_file.hpp"
+#include "tools/io/results_file.hpp"
 #include "tools/knockon/study_output.hpp"
 
 namespace knockon::cli {
@@ -175,6 +176,8 @@ int merge(const std::vector<std::string>& args) {
             for (std::uint32_t k : s.traced) out.copy_trace(s.path, k);
         }
     } catch (const h5::Error& e) {
+        throw UsageError(e.what());
+    } catch (const ResultsFileError& e) {   // a number outside its rule (read_per_day_table)
         throw UsageError(e.what());
     }
     const StudySummary summary = summarize_study(model, study, head.run.thresholds);
