@@ -20,6 +20,9 @@ namespace {
 // unwinder, as Open MPI is built without frame pointers).  A hung run is ended after 2 min.
 const std::string kLauncher =
     "env OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1 OMPI_MCA_btl_vader_single_copy_mechanism=none "
+    // (SIGKILL 10 s after SIGTERM, not 1 s: on a loaded machine a process may take longer than a
+    // second to run its signal handler, which removes the temporary file; README "Under MPI")
+    "OMPI_MCA_odls_base_sigkill_timeout=10 "
     "LSAN_OPTIONS=suppressions='" KNOCKON_SOURCE_DIR "/tests/data/lsan_open_mpi.supp':fast_unwind_on_malloc=0 "
     "timeout 120 '" KNOCKON_MPIEXEC "' --oversubscribe";
 
