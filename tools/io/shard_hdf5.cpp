@@ -137,13 +137,7 @@ void ShardHdf5Writer::finish(const StudyResult& study) {
         a.set_u32("trains", count32(s.train_count));
         a.set_u32("sections", count32(s.section_count));
         a.set_u32("buffer_pairs", count32(s.pairs));
-        if (study.first_deadlock) {
-            const DeadlockedDay& d = *study.first_deadlock;
-            a.set_u32("first_deadlock_replication", d.replication);
-            a.set_f64("first_deadlock_time", d.report.time);
-            a.set_text("first_deadlock_cause", d.report.cause);
-            a.set_text("first_deadlock_description", d.report.description);
-        }
+        if (study.first_deadlock) write_first_deadlock(a, *study.first_deadlock);
         write_names(g, "held_signals", s.signals, "Signal ids; the 'signal' field of held is an index into this table.");
         write_names(g, "trains_index", study.train_ids, "Train ids of the timing template and the train figures.");
         write_names(g, "sections_index", study.section_names, "Detection section ids of the section figures.");

@@ -34,6 +34,13 @@ std::uint32_t count32(std::size_t n) {
 
 }  // namespace
 
+void write_first_deadlock(const h5::Attributes& a, const DeadlockedDay& d) {
+    a.set_u32("first_deadlock_replication", d.replication);
+    a.set_f64("first_deadlock_time", d.report.time);
+    a.set_text("first_deadlock_cause", d.report.cause);
+    a.set_text("first_deadlock_description", d.report.description);
+}
+
 RecordLayout per_day_layout(const std::vector<double>& thresholds) {
     RecordLayout layout;
     layout.add("replication", FieldKind::u32)
@@ -287,13 +294,7 @@ void write_study_tables(const h5::Group& g, const SimModel& model, const StudyRe
     a.set_u8("partial", study.partial ? 1 : 0);
     a.set_u32("deadlocked_days", count32(s.deadlocked));
     a.set_u32("complete_days", count32(s.complete));
-    if (s.first_deadlock) {
-        const DeadlockedDay& d = *s.first_deadlock;
-        a.set_u32("first_deadlock_replication", d.replication);
-        a.set_f64("first_deadlock_time", d.report.time);
-        a.set_text("first_deadlock_cause", d.report.cause);
-        a.set_text("first_deadlock_description", d.report.description);
-    }
+    if (s.first_deadlock) write_first_deadlock(a, *s.first_deadlock);
     a.set_f64("knock_on_ratio", s.knock_on_ratio);
     a.set_f64_array("thresholds_s", s.thresholds);
 

@@ -21,6 +21,7 @@
 namespace knockon {
 
 namespace h5 {
+class Attributes;
 class RecordLayout;
 }
 
@@ -41,6 +42,10 @@ std::optional<TraceSelection> parse_trace_selection(const std::string& text);
 // The name of the punctuality figure of a threshold [s] in the tables: "punctual_3min" for whole
 // minutes, else e.g. "punctual_150s".
 std::string punctuality_field(double threshold_seconds);
+
+// The first deadlocked day of a study (its replication, time, cause and description) as
+// first_deadlock_* attributes: of /study and of a shard file's /shard.
+void write_first_deadlock(const h5::Attributes& a, const DeadlockedDay& d);
 
 // One simulated day's record of a per_day table (/study/per_day, and the shard file's): the layout
 // with a punctuality field per threshold, and a day's record appended to a table of it.
