@@ -86,6 +86,19 @@ struct LinkRecord {
     bool missed = false;              // a connection the later train left without
 };
 
+// One piece of the knock-on added to a timing record (TimingRecord::knock_on), as the engine
+// measured it, for sim/attribution: time lost on the run to the timing point over [from, to]
+// (`run`: its causes are the routes held for the train meanwhile, RouteRecord::held_by), or time
+// kept ready to leave over [from, to], with the cause that held it last.  A record's parts add
+// up to its knock_on.
+struct KnockOnPart {
+    std::uint32_t record = 0;   // index into SimResult::timing
+    double seconds = 0.0;
+    double from = 0.0, to = 0.0;
+    bool run = false;
+    HoldCause cause;            // a wait's (kind none for a run, or a wait whose cause is not known)
+};
+
 struct TrajectorySample {
     std::uint32_t train = 0;
     double time = 0.0, position = 0.0, chainage = 0.0, speed = 0.0;
@@ -151,6 +164,7 @@ struct SimResult {
     std::vector<HoldRecord> holds;     // at signals
     std::vector<HoldRecord> waits;     // ready at a stop or origin, kept there beyond a noise floor
     std::vector<LinkRecord> links;     // per link of the timetable
+    std::vector<KnockOnPart> knock_on_parts;   // every piece of knock-on, in the order gathered
     std::vector<TrajectorySample> samples;
     DeadlockReport deadlock;
     // Single-track crossings and orders that differed from the plan (sim/crossing_changes.hpp).

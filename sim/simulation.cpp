@@ -380,7 +380,14 @@ private:
     void check_authority(std::uint32_t t);
     void depart(std::uint32_t t);
     void vanish(std::uint32_t t);
-    void record_call(std::uint32_t t, std::size_t tp, double arrival, double departure);
+    // `cause`: what kept it beyond its readiness when it departs (none: not known).
+    void record_call(std::uint32_t t, std::size_t tp, double arrival, double departure, const HoldCause& cause = {});
+    // Knock-on gathered at a timing record, with what sim/attribution needs to trace it: the run
+    // or wait it was lost on, and the cause of a wait.
+    void add_knock_on(long record, double seconds, double from, double to, bool run, const HoldCause& cause = {}) {
+        out_.timing[record].knock_on += seconds;
+        out_.knock_on_parts.push_back({static_cast<std::uint32_t>(record), seconds, from, to, run, cause});
+    }
 
     void handle(const Event& e);
     // The head reaches the end of its next section / its next signal.
@@ -1026,7 +1033,7 @@ void Day::try_appear(std::uint32_t t) {
         {
             // Held outside the model beyond its (possibly late) entry: knock-on at the first call.
             const double due = run.appear_time + (t < delays_.entry.size() ? delays_.entry[t] : 0.0);
-            if (now_ - due > kNoiseFloor) out_.timing[timing_first_[t]].knock_on += now_ - due;
+            if (now_ - due > kNoiseFloor) add_knock_on(timing_first_[t], now_ - due, due, now_, true);
             s.last_departure = now_;
         }
         // Motion starts at entry speed on the planned first leg; authority is read at once
@@ -1081,9 +1088,9 @@ void Day::try_appear(std::uint32_t t) {
         binding = s.appear_deferred || hold > ready_on_time + kNoiseFloor ? 0 : -1;
     }
     if (s.ready_time - ready_on_time > kNoiseFloor) {
-        out_.timing[timing_first_[t]].knock_on += s.ready_time - ready_on_time;
         HoldCause cause = s.appear_cause;
         if (binding >= 0) cause = link_cause(binding_link(t, 0));
+        add_knock_on(timing_first_[t], s.ready_time - ready_on_time, ready_on_time, s.ready_time, false, cause);
         out_.waits.push_back({t, std::string(), ready_on_time, s.ready_time, run.calls[0].station, cause});
     }
     const auto& sec = run.path.sections;
@@ -1101,7 +1108,7 @@ void Day::try_appear(std::uint32_t t) {
     schedule_points(t);
 }
 
-void Day::record_call(std::uint32_t t, std::size_t tp, double arrival, double departure) {
+void Day::record_call(std::uint32_t t, std::size_t tp, double arrival, double departure, const HoldCause& cause) {
     TimingRecord& r = out_.timing[timing_first_[t] + static_cast<long>(tp)];
     TrainState& s = st_[t];
     const ServiceRun& run = run_of(t);
@@ -1118,12 +1125,14 @@ void Day::record_call(std::uint32_t t, std::size_t tp, double arrival, double de
         }
         // Below half a second it is integration noise (motion recomputed from other grid points).
         const double lost = std::isnan(s.last_departure) ? 0.0 : arrival - s.last_departure - expected;
-        if (lost > kNoiseFloor) r.knock_on += lost;
+        if (lost > kNoiseFloor) add_knock_on(timing_first_[t] + static_cast<long>(tp), lost, s.last_departure, arrival, true);
     }
     if (!std::isnan(departure)) {
         r.departure = departure;
         r.departure_delay = departure - r.scheduled_departure;
-        if (!std::isnan(s.ready_time) && departure - s.ready_time > kNoiseFloor) r.knock_on += departure - s.ready_time;
+        if (!std::isnan(s.ready_time) && departure - s.ready_time > kNoiseFloor)
+            add_knock_on(timing_first_[t] + static_cast<long>(tp), departure - s.ready_time, s.ready_time, departure,
+                         false, cause);
         s.last_departure = departure;
     }
 }
@@ -1184,8 +1193,8 @@ void Day::depart(std::uint32_t t) {
     const std::size_t k = static_cast<std::size_t>(s.stop_call);
     const long link = train(t).links_in.empty() ? -1 : finish_links(t, k);
     // Ready but kept: by a link that let it go only now, else by the last route out to be set.
+    HoldCause cause;
     if (!std::isnan(s.ready_time) && now_ - s.ready_time > kNoiseFloor) {
-        HoldCause cause;
         if (link >= 0 && link_hold(t, s.stop_call) >= now_ - kEps) {
             cause = link_cause(link);
         } else {
@@ -1200,7 +1209,7 @@ void Day::depart(std::uint32_t t) {
         }
         out_.waits.push_back({t, std::string(), s.ready_time, now_, run_of(t).calls[k].station, cause});
     }
-    record_call(t, k, kNoTime, now_);
+    record_call(t, k, kNoTime, now_, cause);
     s.stop_call = -1;
     s.ready = false;
     s.ready_time = kNoTime;

@@ -273,6 +273,7 @@ StudySummary summarize_study(const SimModel& model, const StudyResult& study, co
     std::stable_sort(s.buffers.begin(), s.buffers.end(), [](const BufferStats& a, const BufferStats& b) {
         return a.as_run.mean < b.as_run.mean;
     });
+    s.attribution = summarize_attribution(fig.attribution_layout(), fig.attribution(), tmpl);
     return s;
 }
 

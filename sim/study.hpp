@@ -118,6 +118,7 @@ struct StudySummary {
     std::vector<SignalStats> signals;   // largest mean held time first
     std::vector<Estimate> section_blocked_share;   // per section: share of the day blocked
     std::vector<BufferStats> buffers;   // thinnest first (smallest mean as-run buffer)
+    AttributionSummary attribution;     // where the knock-on came from (sim/attribution_figures)
 };
 
 // `thresholds` must be those the study ran with (StudyOptions::thresholds); otherwise

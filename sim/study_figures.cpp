@@ -47,6 +47,7 @@ ReplicationFigures replication_figures(const SimModel& model, const SimResult& d
     for (const HoldRecord& h : day.holds) r.held[h.signal] += h.to - h.from;
     for (const CrossingChange& c : day.crossing_changes)
         ++(c.kind == CrossingChange::Kind::moved_crossing ? s.moved_crossings : s.changed_orders);
+    r.attribution = attribution_row(model, day, attribute_knock_on(day, delays), r.attribution_layout);
     r.section_blocked.assign(day.section_names.size(), 0.0f);
     for (const SectionRecord& sr : day.sections)
         if (!std::isnan(sr.released) && !std::isnan(sr.locked))
@@ -117,13 +118,16 @@ void StudyFigures::add(const ReplicationFigures& day) {
         trains_.resize(trains);
         section_blocked_share_.resize(sections);
         buffers_.assign(pairs, BufferFigures{RunningMean{}, SmallestValues(buffer_values_kept_)});
+        attribution_layout_ = day.attribution_layout;
+        attribution_.resize(day.attribution.size());
     } else if (records != timing_.size() || trains != trains_.size() || sections != section_blocked_share_.size() ||
-               pairs != buffers_.size()) {
+               pairs != buffers_.size() || !(day.attribution_layout == attribution_layout_)) {
         throw std::logic_error("StudyFigures: replication " + std::to_string(day.stats.replication) +
                                " has another number of timing records, trains, sections or buffer pairs "
                                "than the days before it");
     }
-    if (day.knock_on.size() != records || day.train_knock_on.size() != trains || day.train_final_delay.size() != trains)
+    if (day.knock_on.size() != records || day.train_knock_on.size() != trains || day.train_final_delay.size() != trains ||
+        day.attribution.size() != attribution_.size() || attribution_.size() != attribution_layout_.width())
         throw std::logic_error("StudyFigures: replication " + std::to_string(day.stats.replication) +
                                " has figures of unequal lengths");
 
@@ -151,6 +155,7 @@ void StudyFigures::add(const ReplicationFigures& day) {
         mean.add(it == day.held.end() ? 0.0 : it->second);
     }
     for (std::size_t k = 0; k < sections; ++k) section_blocked_share_[k].add(day.section_blocked[k] / 86400.0);
+    for (std::size_t k = 0; k < attribution_.size(); ++k) attribution_[k].add(day.attribution[k]);
     for (std::size_t k = 0; k < pairs; ++k) {
         const float b = day.buffer[k];
         if (std::isnan(b)) continue;

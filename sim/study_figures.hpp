@@ -20,6 +20,7 @@
 #include <string>
 #include <vector>
 
+#include "sim/attribution_figures.hpp"
 #include "sim/estimates.hpp"
 #include "sim/simulation.hpp"
 
@@ -53,6 +54,9 @@ struct ReplicationFigures {
     std::map<std::string, double> held;   // signal id -> time trains stood at it [s]
     std::vector<float> section_blocked;   // per section: as-run blocked time [s]
     std::vector<float> buffer;            // per SimModel::buffer_pairs(): as-run buffer [s]; NaN: not run
+    // Where the day's knock-on came from (sim/attribution_figures): one row laid out by `attribution_layout`.
+    AttributionLayout attribution_layout;
+    std::vector<float> attribution;
 };
 
 ReplicationFigures replication_figures(const SimModel& model, const SimResult& day, const InjectedDelays& delays,
@@ -123,6 +127,8 @@ public:
     const std::map<std::string, RunningMean>& held() const { return held_; }   // by signal id
     const std::vector<RunningMean>& section_blocked_share() const { return section_blocked_share_; }
     const std::vector<BufferFigures>& buffers() const { return buffers_; }
+    const AttributionLayout& attribution_layout() const { return attribution_layout_; }
+    const std::vector<RunningMean>& attribution() const { return attribution_; }   // per figure of the row
 
 private:
     std::size_t days_ = 0, planned_days_ = 0;
@@ -133,6 +139,8 @@ private:
     std::map<std::string, RunningMean> held_;
     std::vector<RunningMean> section_blocked_share_;   // blocked time / 86 400 s
     std::vector<BufferFigures> buffers_;
+    AttributionLayout attribution_layout_;
+    std::vector<RunningMean> attribution_;
 };
 
 }  // namespace knockon

@@ -73,6 +73,8 @@ void check_same_day(const ReplicationFigures& a, const ReplicationFigures& b) {
     }
     CHECK(same_bits(a.section_blocked, b.section_blocked));
     CHECK(same_bits(a.buffer, b.buffer));
+    CHECK(a.attribution_layout == b.attribution_layout);
+    CHECK(same_bits(a.attribution, b.attribution));
 }
 
 }  // namespace
@@ -181,4 +183,19 @@ TEST_CASE("a study folded from blocks run apart equals one run to the bit", "[st
         CHECK(b.signals[i].signal == a.signals[i].signal);
         CHECK(same_bits(b.signals[i].held, a.signals[i].held));
     }
+    // Where the knock-on came from: every source, place and buffer the same to the bit.
+    REQUIRE_FALSE(a.attribution.sources.empty());
+    REQUIRE(b.attribution.sources.size() == a.attribution.sources.size());
+    for (std::size_t i = 0; i < a.attribution.sources.size(); ++i) {
+        CHECK(b.attribution.sources[i].source == a.attribution.sources[i].source);
+        CHECK(same_bits(b.attribution.sources[i].damage, a.attribution.sources[i].damage));
+    }
+    REQUIRE(b.attribution.places.size() == a.attribution.places.size());
+    for (std::size_t i = 0; i < a.attribution.places.size(); ++i) {
+        CHECK(same_bits(b.attribution.places[i].received, a.attribution.places[i].received));
+        CHECK(same_bits(b.attribution.places[i].caused, a.attribution.places[i].caused));
+    }
+    REQUIRE(b.attribution.buffers.size() == a.attribution.buffers.size());
+    for (std::size_t i = 0; i < a.attribution.buffers.size(); ++i)
+        CHECK(same_bits(b.attribution.buffers[i].knock_on, a.attribution.buffers[i].knock_on));
 }

@@ -247,7 +247,7 @@ TEST_CASE("HDF5 results: root and /day attributes", "[sim_hdf5]") {
 
     // Layout of tools/io/HDF5_LAYOUT.md (our own spec).
     CHECK(f.attr_class("/", "schema_version") == H5T_INTEGER);
-    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 7);
+    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 8);
     CHECK(f.text_attr("/", "kind") == "day");
     CHECK(f.text_attr("/", "variant") == "base");
     CHECK(f.number_attr<double>("/", "step_m", H5T_NATIVE_DOUBLE) == 1.5);

@@ -102,6 +102,9 @@ void append_day_bytes(std::string& out, const ReplicationFigures& day) {
     }
     put_all(out, day.section_blocked);
     put_all(out, day.buffer);
+    const AttributionLayout& l = day.attribution_layout;
+    for (std::uint32_t n : {l.records, l.trains, l.sections, l.links, l.pairs, l.places}) put<std::uint32_t>(out, n);
+    put_all(out, day.attribution);
 }
 
 ReplicationFigures read_day_bytes(const std::string& bytes, std::size_t& at) {
@@ -135,6 +138,12 @@ ReplicationFigures read_day_bytes(const std::string& bytes, std::size_t& at) {
     }
     day.section_blocked = in.all<float>();
     day.buffer = in.all<float>();
+    AttributionLayout& l = day.attribution_layout;
+    for (std::uint32_t* n : {&l.records, &l.trains, &l.sections, &l.links, &l.pairs, &l.places}) *n = in.get<std::uint32_t>();
+    day.attribution = in.all<float>();
+    if (day.attribution.size() != l.width())
+        throw ReplicationBytesError("a simulated day's attribution figures hold " + std::to_string(day.attribution.size()) +
+                                    " values where their layout has " + std::to_string(l.width()));
     return day;
 }
 

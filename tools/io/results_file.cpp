@@ -167,6 +167,25 @@ private:
     std::vector<std::size_t> n_;
 };
 
+// An index field that may be NaN (does not apply): the name it refers to, or "" for NaN.
+std::vector<std::string> names_or_empty(const h5::InputFile& f, const Table& t, const std::string& field,
+                                        const std::vector<std::string>& names, const std::string& of) {
+    const Rule rule{0.0, 4294967295.0, true, true, "a whole number below 2^32, or NaN"};
+    std::vector<std::string> out;
+    for (double v : t.num(field, rule)) {
+        if (std::isnan(v)) {
+            out.emplace_back();
+            continue;
+        }
+        if (!(v < static_cast<double>(names.size())))
+            throw ResultsFileError(f.path() + ": " + t.path() + ": field '" + field + "' holds " +
+                                   std::to_string(static_cast<std::uint64_t>(v)) +
+                                   ", not a row of " + of + " (" + std::to_string(names.size()) + " rows)");
+        out.push_back(names[static_cast<std::size_t>(v)]);
+    }
+    return out;
+}
+
 // The ids of a trains or sections table: each must name something.
 std::vector<std::string> ids(const h5::InputFile& f, const std::string& table) {
     std::vector<std::string> out = f.text_column(table, "id");
@@ -341,6 +360,72 @@ std::vector<double> read_thresholds(const h5::InputFile& f, const std::string& g
     return out;
 }
 
+// Where the knock-on came from: /attribution_* of a study group (schema 8 and later).
+StoredAttribution read_attribution(const h5::InputFile& f, const std::string& g, const StoredStudy& study,
+                                   std::size_t days) {
+    StoredAttribution a;
+    const auto est = [&](const Table& t, const std::string& name) {
+        const auto m = t.num(name + "_mean", kSeconds), h = t.num(name + "_ci95_half_width", kHalfWidth);
+        std::vector<Estimate> out;
+        for (std::size_t i = 0; i < t.rows(); ++i) out.push_back(mean_estimate(m[i], h[i], study.summary.complete));
+        return out;
+    };
+    {
+        const Table t(f, g + "/attribution_sources");
+        const auto kind = t.text("kind"), place = t.text("place");
+        const auto train = names_or_empty(f, t, "train", study.train_ids, "trains_index");
+        const auto section = names_or_empty(f, t, "section", study.section_ids, "sections_index");
+        const auto damage = est(t, "damage");
+        const auto n = t.counts("n", days, "the days simulated");
+        for (std::size_t i = 0; i < t.rows(); ++i) {
+            if (kind[i] != "entry" && kind[i] != "dwell" && kind[i] != "running" && kind[i] != "disruption" &&
+                kind[i] != "dispatch" && kind[i] != "timetable" && kind[i] != "unexplained")
+                throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) + ": kind '" +
+                                       kind[i] + "' is not a kind of delay source");
+            StoredAttribution::Source x{kind[i], train[i], place[i], section[i], damage[i]};
+            x.damage.n = n[i];
+            a.sources.push_back(std::move(x));
+        }
+    }
+    {
+        const Table t(f, g + "/attribution_places");
+        const auto place = t.text("place");
+        const auto received = est(t, "received"), caused = est(t, "caused");
+        for (std::size_t i = 0; i < t.rows(); ++i) a.places.push_back({place[i], received[i], caused[i]});
+    }
+    {
+        const Table t(f, g + "/attribution_through");
+        const auto kind = t.text("kind");
+        const auto index = t.num("index", kCount32);
+        const auto leader = names_or_empty(f, t, "leader", study.train_ids, "trains_index");
+        const auto follower = names_or_empty(f, t, "follower", study.train_ids, "trains_index");
+        const auto knock_on = est(t, "knock_on");
+        for (std::size_t i = 0; i < t.rows(); ++i) {
+            StoredAttribution::Through x;
+            x.kind = kind[i];
+            x.index = static_cast<std::uint32_t>(index[i]);
+            x.leader = leader[i];
+            x.follower = follower[i];
+            x.knock_on = knock_on[i];
+            if (kind[i] == "section") {
+                if (!(index[i] < static_cast<double>(study.section_ids.size())))
+                    throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) +
+                                           ": index is not a row of sections_index");
+                x.section = study.section_ids[x.index];
+            } else if (kind[i] != "buffer" && kind[i] != "link") {
+                throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) + ": kind '" +
+                                       kind[i] + "' is not buffer, link or section");
+            }
+            a.through.push_back(std::move(x));
+        }
+    }
+    const Table t(f, g + "/attribution_causes");
+    const auto cause = t.text("cause");
+    const auto knock_on = est(t, "knock_on");
+    for (std::size_t i = 0; i < t.rows(); ++i) a.causes.push_back({cause[i], knock_on[i]});
+    return a;
+}
+
 StoredStudy read_study_group(const h5::InputFile& f, const std::string& g, int schema) {
     StoredStudy out;
     StudySummary& s = out.summary;
@@ -488,6 +573,7 @@ StoredStudy read_study_group(const h5::InputFile& f, const std::string& g, int s
                 {out.train_ids[leader[i]], out.train_ids[follower[i]], line[i], out.section_ids[section[i]]});
         }
     }
+    if (schema >= 8) out.attribution = read_attribution(f, g, out, days);
     return out;
 }
 

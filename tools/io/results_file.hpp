@@ -46,6 +46,33 @@ struct BufferPairNames {
     std::string leader, follower, line_section, section;
 };
 
+// Where a study's knock-on came from (schema 8 and later: /study/attribution_*), names resolved.
+struct StoredAttribution {
+    struct Source {
+        std::string kind, train, place, section;   // train and section empty where they do not apply
+        Estimate damage;
+    };
+    struct Place {
+        std::string place;
+        Estimate received, caused;
+    };
+    struct Through {
+        std::string kind;                 // "buffer", "link" or "section"
+        std::uint32_t index = 0;
+        std::string leader, follower;     // buffer and link: the two trains; section: empty
+        std::string section;              // section: its id; else empty
+        Estimate knock_on;
+    };
+    struct Cause {
+        std::string cause;
+        Estimate knock_on;
+    };
+    std::vector<Source> sources;   // largest mean damage first
+    std::vector<Place> places;
+    std::vector<Through> through;
+    std::vector<Cause> causes;
+};
+
 // The figures of one study: /study of a study file, /variants/<name> of a comparison file.
 // summary.timing_points[i].train and summary.trains[i].train index train_ids; the per-day records
 // hold the scalar figures only (replication, deadlocked, events, block_passages, totals, mean
@@ -56,6 +83,7 @@ struct StoredStudy {
     std::vector<std::string> train_ids, section_ids;
     std::vector<BufferPairNames> buffer_pairs;   // parallel to summary.buffers
     bool partial = false;
+    std::optional<StoredAttribution> attribution;   // none in files of schema 7 and older
 };
 
 struct VariantFigures {

@@ -50,18 +50,20 @@ struct ShardHdf5Writer::State {
         trains.emplace(*group, "train_figures", values_layout({"primary", "knock_on", "final_delay"}));
         sections.emplace(*group, "section_figures", values_layout({"blocked"}));
         buffers.emplace(*group, "buffer_figures", values_layout({"as_run"}));
+        attribution.emplace(*group, "attribution_figures", values_layout({"value"}));
         held.emplace(*group, "held",
                      RecordLayout().add("replication", FieldKind::u32).add("signal", FieldKind::u32).add("seconds", FieldKind::f64));
     }
     h5::OutputFile file;   // declared first: closed after the groups and tables below
     ShardRun run;
     std::optional<h5::Group> group;
-    std::optional<RecordTable> per_day, timing, trains, sections, buffers, held;
+    std::optional<RecordTable> per_day, timing, trains, sections, buffers, attribution, held;
     std::optional<h5::Group> replications;
     std::map<std::string, std::uint32_t> signal_index;
     std::vector<std::string> signals;   // by index, in the order first met
     std::uint32_t days = 0, traced = 0;
     std::size_t records = 0, train_count = 0, section_count = 0, pairs = 0;
+    AttributionLayout attribution_layout;
 };
 
 ShardHdf5Writer::ShardHdf5Writer(const std::string& path, const Hdf5RunInfo& info, const ShardRun& run) {
@@ -93,8 +95,10 @@ void ShardHdf5Writer::add_day(const ReplicationFigures& day) {
         s.train_count = day.train_primary.size();
         s.section_count = day.section_blocked.size();
         s.pairs = day.buffer.size();
+        s.attribution_layout = day.attribution_layout;
     } else if (day.arrival_delay.size() != s.records || day.train_primary.size() != s.train_count ||
-               day.section_blocked.size() != s.section_count || day.buffer.size() != s.pairs) {
+               day.section_blocked.size() != s.section_count || day.buffer.size() != s.pairs ||
+               !(day.attribution_layout == s.attribution_layout)) {
         throw std::logic_error("ShardHdf5Writer: replication " + std::to_string(day.stats.replication) +
                                " has another shape than the days before it");
     }
@@ -105,6 +109,10 @@ void ShardHdf5Writer::add_day(const ReplicationFigures& day) {
         s.trains->begin().f64(day.train_primary[t]).f64(day.train_knock_on[t]).f64(day.train_final_delay[t]);
     for (float b : day.section_blocked) s.sections->begin().f64(b);
     for (float b : day.buffer) s.buffers->begin().f64(b);
+    if (day.attribution.size() != s.attribution_layout.width())
+        throw std::logic_error("ShardHdf5Writer: replication " + std::to_string(day.stats.replication) +
+                               " has attribution figures of another length than their layout");
+    for (float v : day.attribution) s.attribution->begin().f64(v);
     for (const auto& [signal, seconds] : day.held) {
         const auto [it, added] = s.signal_index.try_emplace(signal, count32(s.signals.size()));
         if (added) s.signals.push_back(signal);
@@ -113,9 +121,9 @@ void ShardHdf5Writer::add_day(const ReplicationFigures& day) {
     ++s.days;
 }
 
-void ShardHdf5Writer::write_trace(std::uint32_t replication, const SimResult& day) {
+void ShardHdf5Writer::write_trace(std::uint32_t replication, const SimResult& day, const DayAttribution* attribution) {
     if (!state_->replications) throw std::logic_error("ShardHdf5Writer: trace after finish");
-    write_day(state_->replications->create_group(replication_group_name(replication)), day);
+    write_day(state_->replications->create_group(replication_group_name(replication)), day, attribution);
     ++state_->traced;
 }
 
@@ -124,7 +132,7 @@ void ShardHdf5Writer::finish(const StudyResult& study) {
     if (!s.replications) throw std::logic_error("ShardHdf5Writer: finished twice");
     s.replications->attributes().set_u32("traced", s.traced);
     s.replications.reset();
-    for (auto* t : {&s.per_day, &s.timing, &s.trains, &s.sections, &s.buffers, &s.held}) {
+    for (auto* t : {&s.per_day, &s.timing, &s.trains, &s.sections, &s.buffers, &s.attribution, &s.held}) {
         (*t)->flush();
         t->reset();
     }
@@ -137,6 +145,9 @@ void ShardHdf5Writer::finish(const StudyResult& study) {
         a.set_u32("trains", count32(s.train_count));
         a.set_u32("sections", count32(s.section_count));
         a.set_u32("buffer_pairs", count32(s.pairs));
+        const AttributionLayout& l = s.attribution_layout;
+        a.set_u32("attribution_links", l.links);
+        a.set_u32("attribution_places", l.places);
         if (study.first_deadlock) write_first_deadlock(a, *study.first_deadlock);
         write_names(g, "held_signals", s.signals, "Signal ids; the 'signal' field of held is an index into this table.");
         write_names(g, "trains_index", study.train_ids, "Train ids of the timing template and the train figures.");
@@ -249,6 +260,16 @@ std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
     expect_rows(f, "/shard/train_figures", days * trains);
     expect_rows(f, "/shard/section_figures", days * sections);
     expect_rows(f, "/shard/buffer_figures", days * pairs);
+    // The attribution row's layout: the counts above, the links and the places.
+    AttributionLayout layout;
+    layout.records = count32(records);
+    layout.trains = count32(trains);
+    layout.sections = count32(sections);
+    layout.pairs = count32(pairs);
+    layout.links = u32_attribute(f, kShard, "attribution_links");
+    layout.places = u32_attribute(f, kShard, "attribution_places");
+    const std::size_t width = days == 0 ? 0 : layout.width();
+    expect_rows(f, "/shard/attribution_figures", days * width);
     const std::vector<ReplicationStats> per_day = read_per_day_table(f, pd, shard.run.thresholds, kSimHdf5SchemaVersion);
     const auto arrival = f.number_column("/shard/timing_figures", "arrival_delay"),
                record_knock_on = f.number_column("/shard/timing_figures", "knock_on"),
@@ -256,7 +277,8 @@ std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
                train_knock_on = f.number_column("/shard/train_figures", "knock_on"),
                train_final = f.number_column("/shard/train_figures", "final_delay"),
                blocked = f.number_column("/shard/section_figures", "blocked"),
-               buffer = f.number_column("/shard/buffer_figures", "as_run");
+               buffer = f.number_column("/shard/buffer_figures", "as_run"),
+               attribution = f.number_column("/shard/attribution_figures", "value");
     const auto held_day = f.number_column("/shard/held", "replication"),
                held_signal = f.number_column("/shard/held", "signal"), held_s = f.number_column("/shard/held", "seconds");
     const auto signals = f.text_column("/shard/held_signals", "id");
@@ -296,6 +318,8 @@ std::vector<ReplicationFigures> read_shard_days(const ShardFile& shard) {
         r.train_final_delay = floats(train_final, d * trains, trains);
         r.section_blocked = floats(blocked, d * sections, sections);
         r.buffer = floats(buffer, d * pairs, pairs);
+        r.attribution_layout = layout;
+        r.attribution = floats(attribution, d * width, width);
         day_of[st.replication] = d;
     }
     for (std::size_t i = 0; i < held_day.size(); ++i) {

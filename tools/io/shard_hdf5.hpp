@@ -44,7 +44,7 @@ public:
     // The next day, in replication order (StudyOptions::on_day).
     void add_day(const ReplicationFigures& day);
     // One traced day, as /replications/<replication>.
-    void write_trace(std::uint32_t replication, const SimResult& day);
+    void write_trace(std::uint32_t replication, const SimResult& day, const DayAttribution* attribution = nullptr);
     // The names, the timing template, the first deadlock and whether the shard ran to its end;
     // closes the file and renames it into place.
     void finish(const StudyResult& study);

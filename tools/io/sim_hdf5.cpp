@@ -7,6 +7,7 @@
 
 #include "sim/day_summary.hpp"
 #include "sim/deadlock_text.hpp"
+#include "tools/io/attribution_hdf5.hpp"
 #include "tools/io/deadlock_output.hpp"
 #include "tools/io/hdf5_file.hpp"
 #include "tools/io/plan_output.hpp"
@@ -347,7 +348,7 @@ void write_run_attributes(const h5::Group& root, const Hdf5RunInfo& info, const 
     if (!info.scenario_hash.empty()) a.set_text("scenario_hash", info.scenario_hash);
 }
 
-void write_day(const h5::Group& day, const SimResult& result) {
+void write_day(const h5::Group& day, const SimResult& result, const DayAttribution* attribution) {
     const h5::Attributes d = day.attributes();
     d.set_u64("events", result.events);
     d.set_u64("block_passages", result.block_passages);
@@ -370,9 +371,11 @@ void write_day(const h5::Group& day, const SimResult& result) {
     write_crossing_changes(day, result.crossing_changes);
     write_trajectories(day, result.samples);
     write_deadlock(day, result);
+    if (attribution) write_day_attribution(day, result, *attribution);
 }
 
-void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5RunInfo& info) {
+void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5RunInfo& info,
+                    const DayAttribution* attribution) {
     try {
         h5::OutputFile file(path);
         {
@@ -382,7 +385,7 @@ void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5
             write_deadlock_attributes(root, result.deadlock.deadlocked ? 1 : 0,
                                       day_deadlock_notice(result.deadlock, summary.trains,
                                                           summary.trains - summary.finished));
-            write_day(root.create_group("day"), result);
+            write_day(root.create_group("day"), result, attribution);
         }  // every group and dataset handle is closed here, before the file
         file.commit();
     } catch (const std::runtime_error&) {  // h5::Error and the rename's error already name the file

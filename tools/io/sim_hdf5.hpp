@@ -7,6 +7,7 @@
 #include <string>
 #include <vector>
 
+#include "sim/attribution.hpp"
 #include "sim/sim_result.hpp"
 
 namespace knockon {
@@ -23,7 +24,10 @@ class RecordTable;
 //    deadlock_notice; /day deadlock_cause, trains_not_finished and the tables deadlock and
 //    deadlock_blocks; study groups complete_days and first_deadlock_*.
 // 5: root attribute scenario_hash (day and study files); study shard files (kind "shard").
-inline constexpr int kSimHdf5SchemaVersion = 7;
+// 8: where knock-on comes from: a day's attribution_sources and attribution_edges, a study's
+//    attribution_sources, attribution_places, attribution_through and attribution_causes, a
+//    shard's attribution_figures.
+inline constexpr int kSimHdf5SchemaVersion = 8;
 
 // Facts about the run that the results alone do not carry.
 struct Hdf5RunInfo {
@@ -41,7 +45,9 @@ struct Hdf5RunInfo {
 // Writes `result` to `path` whole or not at all: built under a temporary name in the same directory
 // and renamed over `path` once closed. On failure removes the temporary file and throws
 // std::runtime_error naming `path` and what failed.
-void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5RunInfo& info);
+// `attribution`: where the day's knock-on came from (null: not written).
+void write_sim_hdf5(const std::string& path, const SimResult& result, const Hdf5RunInfo& info,
+                    const DayAttribution* attribution = nullptr);
 
 // The root attributes every results file has (schema and program version, scenario, command line,
 // seed, time unit, caution, variant, step, scenario hash) plus `kind` ("day", "study", "shard" or
@@ -63,6 +69,7 @@ void write_names(const h5::Group& group, const std::string& name, const std::vec
 
 // One day's facts (attributes) and tables (trains, sections, timing, occupancy, routes, holds,
 // trajectories, deadlock, deadlock_blocks) into `group`, e.g. /day or /replications/000042.
-void write_day(const h5::Group& group, const SimResult& result);
+// With `attribution`, also its tables (tools/io/attribution_hdf5).
+void write_day(const h5::Group& group, const SimResult& result, const DayAttribution* attribution = nullptr);
 
 }  // namespace knockon

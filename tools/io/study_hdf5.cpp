@@ -8,6 +8,7 @@
 #include <stdexcept>
 #include <vector>
 
+#include "tools/io/attribution_hdf5.hpp"
 #include "tools/io/deadlock_output.hpp"
 #include "tools/io/hdf5_file.hpp"
 
@@ -305,6 +306,7 @@ void write_study_tables(const h5::Group& g, const SimModel& model, const StudyRe
     write_signals(g, s);
     write_sections(g, s);
     write_buffers(g, model, s);
+    write_study_attribution(g, model, s.attribution, study.timing_template);
     write_names(g, "trains_index", study.train_ids,
                 "Train ids; the 'train' field of timing_points and trains is an index into this table.");
     write_names(g, "sections_index", study.section_names,
@@ -397,9 +399,9 @@ StudyHdf5Writer::StudyHdf5Writer(const std::string& path, const Hdf5RunInfo& inf
 
 StudyHdf5Writer::~StudyHdf5Writer() = default;  // State: groups closed, then the file discarded
 
-void StudyHdf5Writer::write_trace(std::uint32_t replication, const SimResult& day) {
+void StudyHdf5Writer::write_trace(std::uint32_t replication, const SimResult& day, const DayAttribution* attribution) {
     if (!state_->replications) throw std::logic_error("StudyHdf5Writer: trace after finish");
-    write_day(state_->replications->create_group(replication_group_name(replication)), day);
+    write_day(state_->replications->create_group(replication_group_name(replication)), day, attribution);
     ++state_->traced;
 }
 

@@ -79,7 +79,7 @@ public:
     StudyHdf5Writer& operator=(const StudyHdf5Writer&) = delete;
 
     // One traced day, as /replications/<replication>.
-    void write_trace(std::uint32_t replication, const SimResult& day);
+    void write_trace(std::uint32_t replication, const SimResult& day, const DayAttribution* attribution = nullptr);
     // The traced day /replications/<replication> of another file (a study shard) copied whole,
     // under the same name; throws h5::Error naming that file if it cannot.
     void copy_trace(const std::string& file, std::uint32_t replication);

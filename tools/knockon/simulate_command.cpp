@@ -10,11 +10,13 @@
 
 #include "models/plan.hpp"
 #include "models/units.hpp"
+#include "sim/attribution.hpp"
 #include "sim/day_summary.hpp"
 #include "sim/delay_draws.hpp"
 #include "sim/shards.hpp"
 #include "sim/simulation.hpp"
 #include "sim/study.hpp"
+#include "tools/io/attribution_output.hpp"
 #include "tools/io/deadlock_output.hpp"
 #include "tools/io/output_file.hpp"
 #include "tools/io/plan_output.hpp"
@@ -74,7 +76,7 @@ std::string crossing_changes_text(const SimResult& r) {
     return out.str();
 }
 
-std::string summary_text(const Scenario& sc, const SimResult& r, const DaySummary& d) {
+std::string summary_text(const Scenario& sc, const SimResult& r, const DaySummary& d, const DayAttribution& a) {
     std::ostringstream out;
     out << "knockon simulate: " << sc.name << " (" << sc.source_file << ")\n";
     // A deadlock first, before any figure: the day is incomplete.
@@ -116,11 +118,12 @@ std::string summary_text(const Scenario& sc, const SimResult& r, const DaySummar
             << minutes(td.held) << "\n";
     }
     if (!shown) out << "No train ends late.\n";
+    out << day_attribution_text(r, a);
     out << crossing_changes_text(r);
     return out.str();
 }
 
-nlohmann::ordered_json summary_json(const Scenario& sc, const SimResult& r, const DaySummary& d) {
+nlohmann::ordered_json summary_json(const Scenario& sc, const SimResult& r, const DaySummary& d, const DayAttribution& a) {
     nlohmann::json j;
     j["tool"] = {{"name", "knockon"}, {"version", KNOCKON_VERSION}};
     j["scenario"] = scenario_facts(sc);
@@ -181,6 +184,7 @@ nlohmann::ordered_json summary_json(const Scenario& sc, const SimResult& r, cons
                                          {"time", c.when},
                                          {"first_change_s", num(c.first_change)},
                                          {"second_change_s", num(c.second_change)}});
+    j["attribution"] = day_attribution_json(r, a);
     nlohmann::json deadlock = day_deadlock_json(r.deadlock, r.train_ids, r.section_names, d.trains - d.finished);
     deadlock["notice"] = day_deadlock_notice(r.deadlock, d.trains, d.trains - d.finished);
     return deadlock_first(deadlock, j);
@@ -305,9 +309,11 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
         if (traces.mode != TraceSelection::Mode::none) {
             // Which days are traced depends on the whole study's planned days, not a shard's.
             opt.trace = [traces, planned](std::uint32_t k) { return traces.traced(k, planned); };
-            opt.on_trace = [&out, &shard_out](std::uint32_t k, const SimResult& day) {
-                if (shard_out) shard_out->write_trace(k, day);
-                else out->write_trace(k, day);
+            // A traced day's attribution needs its primary delays: drawn again (the same draws).
+            opt.on_trace = [&out, &shard_out, &drawer, seed](std::uint32_t k, const SimResult& day) {
+                const DayAttribution a = attribute_knock_on(day, drawer.draw(seed, k));
+                if (shard_out) shard_out->write_trace(k, day, &a);
+                else out->write_trace(k, day, &a);
             };
         }
     }
@@ -396,6 +402,7 @@ int simulate(const std::vector<std::string>& args) {
     SimModel model(scenario.infrastructure, plan);
     SimResult result = simulate_day(model, delays, so);
     DaySummary summary = summarize_day(result, thresholds);
+    const DayAttribution attribution = attribute_knock_on(result, delays);
     if (vm.count("out")) {
         Hdf5RunInfo info;
         info.scenario_file = scenario.source_file;
@@ -405,13 +412,13 @@ int simulate(const std::vector<std::string>& args) {
         info.variant = variant_name(vm);
         info.step = so.run.step;
         info.scenario_hash = scenario_hash(scenario_text, info.variant);
-        write_sim_hdf5(vm["out"].as<std::string>(), result, info);
+        write_sim_hdf5(vm["out"].as<std::string>(), result, info, &attribution);
     }
 
     if (vm.count("json"))
-        std::printf("%s\n", summary_json(scenario, result, summary).dump(1).c_str());
+        std::printf("%s\n", summary_json(scenario, result, summary, attribution).dump(1).c_str());
     else
-        std::fputs(summary_text(scenario, result, summary).c_str(), stdout);
+        std::fputs(summary_text(scenario, result, summary, attribution).c_str(), stdout);
     return deadlock_status("simulate", result.deadlock.deadlocked ? 1 : 0, 1, vm);
 }
 

@@ -4,6 +4,7 @@
 #include <cstdio>
 #include <sstream>
 
+#include "tools/io/attribution_output.hpp"
 #include "tools/io/deadlock_output.hpp"
 #include "tools/io/plan_output.hpp"
 
@@ -78,6 +79,7 @@ std::string study_text(const Scenario& sc, const SimModel& model, const StudyRes
         out << "  " << study.train_ids[t.train] << ": " << minutes(t.knock_on) << "; " << minutes(t.primary) << "; "
             << minutes(t.final_delay) << "\n";
     }
+    out << study_attribution_text(model, s.attribution, study.train_ids, study.timing_template, study.section_names);
     out << "\nSignals where trains stood longest (mean per day):\n";
     for (std::size_t i = 0; i < std::min<std::size_t>(10, s.signals.size()); ++i)
         out << "  " << s.signals[i].signal << ": " << minutes(s.signals[i].held) << "\n";
@@ -156,6 +158,8 @@ nlohmann::ordered_json study_json(const Scenario& sc, const SimModel& model, con
     j["sections"] = nlohmann::json::array();
     for (std::size_t k = 0; k < s.section_blocked_share.size(); ++k)
         j["sections"].push_back({{"section", study.section_names[k]}, {"blocked_share", est(s.section_blocked_share[k])}});
+    j["attribution"] = study_attribution_json(model, s.attribution, study.train_ids, study.timing_template,
+                                              study.section_names);
     nlohmann::json deadlock = study_deadlock_json(s);
     deadlock["accepted"] = info.allow_deadlock;   // --allow-deadlock
     return deadlock_first(deadlock, j);
