@@ -48,6 +48,12 @@ READ_FIELDS = {
     "variants": {"name", "description", "headway_pairs", "mean_minimum_headway", "peak_hour_consumption",
                  "peak_hour_line_section", "day_consumption", "day_line_section"},
     "differences": {"variant", "figure", "unit", "mean", "ci95_half_width", "ci95_lower", "ci95_upper", "n"},
+    # Where the knock-on came from (schema 8): a study's tables; a day's are written, not read back.
+    "attribution_sources_stats": {"kind", "train", "place", "section", "damage_mean", "damage_ci95_half_width", "n"},
+    "attribution_places_stats": {"place", "received_mean", "received_ci95_half_width", "caused_mean",
+                                 "caused_ci95_half_width"},
+    "attribution_through_stats": {"kind", "index", "leader", "follower", "knock_on_mean", "knock_on_ci95_half_width"},
+    "attribution_causes_stats": {"cause", "knock_on_mean", "knock_on_ci95_half_width"},
 }
 
 # Fields where the layout stores NaN for "does not apply / did not happen".
@@ -59,6 +65,8 @@ NAN_FIELDS = {
     "trajectories": {"chainage"},
     "timing_points": {"delay_mean", "delay_ci95_half_width", "p50", "p90", "p95", "max"},   # + punctual_*
     "differences": {"ci95_half_width", "ci95_lower", "ci95_upper"},
+    "attribution_sources_stats": {"train", "section"},
+    "attribution_through_stats": {"leader", "follower"},
 }
 
 # Integer fields that index another table or count days: their largest value is out of range.
@@ -80,6 +88,9 @@ def table_role(path):
     parent = parts[-2] if len(parts) >= 2 else ""
     if name in ("trains", "sections") and (parent == "study" or path.startswith("variants/")):
         return name + "_stats"
+    if name.startswith("attribution_"):
+        # A study's (or a variant's) are read back; a day's are not.
+        return name + "_stats" if (parent == "study" or path.startswith("variants/")) else name
     return name
 
 

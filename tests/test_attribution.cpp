@@ -27,7 +27,8 @@ const std::string kTurnaround = kSource + "/tests/data/links/single_line_turnaro
 const std::string kChain = kSource + "/tests/data/links/three_train_chain.yaml";
 
 // What does not add up in a day's attribution, or "" when everything does: over the day, per
-// timing record (the edges that reach it) and per direct cause, to the millisecond.
+// timing record (the edges that reach it) and per direct cause, to the millisecond.  Conservation
+// is our own rule (README "Where knock-on comes from"; common practice, no source).
 std::string conservation_mismatch(const SimResult& day, const DayAttribution& a) {
     std::ostringstream why;
     double measured = 0.0, damage = 0.0, by_cause = 0.0;
@@ -139,7 +140,7 @@ TEST_CASE("attribution: the shares add up to the knock-on measured on random day
 
 TEST_CASE("attribution: a turnaround passes max(0 D-b) of a late arrival on and it is that delay's damage",
           "[attribution][links]") {
-    // Max-plus recursion of a turnaround (Goverde, max-plus timetable analysis; common practice):
+    // Max-plus recursion of a turnaround (tests/REFERENCES.md P1, P3: max-plus algebra, Goverde 2007):
     // the set arriving D late against a turnaround buffer b makes the return working
     // max(0, D - b) late.  U1 starts D late and passes B, so it reaches C D late; b = 5 min.
     for (const double D : {600.0, 420.0, 240.0}) {
@@ -162,8 +163,8 @@ TEST_CASE("attribution: a turnaround passes max(0 D-b) of a late arrival on and 
 
 TEST_CASE("attribution: Monte Carlo knock-on of an exponential delay on a turnaround meets the closed form",
           "[attribution][study]") {
-    // Closed form (a property of the exponential distribution; e.g. Ross, Introduction to
-    // Probability Models, memorylessness): for X ~ Exp(mean m), E[max(0, X - b)] = m exp(-b/m).
+    // Closed form (tests/REFERENCES.md P4: Schwanhaeusser; the memorylessness of the exponential
+    // distribution): for X ~ Exp(mean m), E[max(0, X - b)] = m exp(-b/m).
     // A primary delay occurring with probability p then gives a mean knock-on p m exp(-b/m) on a
     // turnaround with buffer b.  p = 0.6, m = 4 min, b = 5 min: 0.6 * 240 * exp(-1.25) = 41.26 s.
     const double p = 0.6, m = 240.0, b = 300.0;

@@ -162,6 +162,20 @@ PATTERNS = [
          until="21:30", note="freight, down: enters at 38 km, leaves beyond 0 km"),
 ]
 
+# Links between runs (README "Links"), so that lateness passes from one service to another at the
+# termini and at two changes of train.  Each terminus has one track per direction, so a set cannot
+# reverse there (a turnaround keeps the set on its platform track); the crews turn round instead:
+# a crew link at each terminus, the thin one at Wendlecombe Sands (3.5 min of buffer).  The two
+# connections serve the halts the fast trains pass: from the up fast to the down stopping train at
+# Hobblethorpe (for Nettlescar Road), and from the down fast to the up stopping train at Marrowfen
+# Quay (for Sallowmere Halt and Brackwillow).
+LINKS = [
+    ("{from: SUX-0630, crew_to: SD-0710, crew_change: 6 min}", "crew turns round at Wendlecombe Sands"),
+    ("{from: SD-0710, crew_to: SU-0800, crew_change: 6 min}", "and again at Marrowfen Quay"),
+    ("{from: FU-0708, feeds: SDX-0740, at: HBT, transfer: 3 min, max_wait: 3 min}", "change for Nettlescar Road"),
+    ("{from: FD-0716, feeds: SU-0800, at: MFQ, transfer: 4 min, max_wait: 3 min}", "change for the halts"),
+]
+
 
 # ---------------------------------------------------------------------------------------------
 # Infrastructure helpers
@@ -551,6 +565,10 @@ def emit_yaml():
                 else:
                     call = f"{{station: {st}}}"
             w(f"        - {call}")
+    w("  # Crew links at both termini and two connections (see LINKS in the generator).")
+    w("  links:")
+    for link, note in LINKS:
+        w(f"    - {link}   # {note}")
     w("")
     out.extend(delay_lines())
     w("")
