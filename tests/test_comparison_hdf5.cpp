@@ -56,7 +56,7 @@ TEST_CASE("compare --out writes a comparison file that agrees with compare --jso
     // Layout (tools/io/HDF5_LAYOUT.md, our own spec).
     const h5::InputFile f(out.string());
     CHECK(f.text_attribute("/", "kind") == "comparison");
-    CHECK(f.number_attribute("/", "schema_version") == 7);
+    CHECK(f.number_attribute("/", "schema_version") == 8);
     CHECK(f.number_attribute("/", "replications") == kDays);
     CHECK(f.number_attribute("/", "seed") == 7);
     CHECK(f.number_attribute("/", "step_m") == 2.0);
@@ -72,7 +72,9 @@ TEST_CASE("compare --out writes a comparison file that agrees with compare --jso
     // Each variant's group is laid out like /study.
     for (const std::string v : {"base", "slow_release"}) {
         const std::string g = "/variants/" + v;
-        CHECK(f.members(g) == std::vector<std::string>{"buffers", "per_day", "sections", "sections_index", "signals",
+        CHECK(f.members(g) == std::vector<std::string>{"attribution_causes", "attribution_places",
+                                                       "attribution_sources", "attribution_through", "buffers",
+                                                       "per_day", "sections", "sections_index", "signals",
                                                        "summary", "timing_points", "trains", "trains_index"});
         CHECK(f.rows(g + "/per_day") == kDays);
         CHECK(f.number_attribute(g, "replications") == kDays);

@@ -852,6 +852,8 @@ TEST_CASE("StudyFigures refuses a day of another shape", "[study][memory]") {
         d.stats.replication = k;
         d.arrival_delay.assign(records, 10.0f);
         d.knock_on.assign(records, 0.0f);
+        d.attribution_layout.records = static_cast<std::uint32_t>(records);   // its attribution row, all 0
+        d.attribution.assign(d.attribution_layout.width(), 0.0f);
         return d;
     };
     StudyFigures figures({180.0}, 3);
