@@ -169,10 +169,10 @@ TEST_CASE("mpirun with a failing process or bad input exits non-zero and writes 
     SECTION("--shard under mpirun") {
         refused("-np 2 " + kExeQ + " simulate " + kStudy + " --shard 1/2" + out, 2, "--shard");
     }
-    SECTION("compare --shard is not supported yet") {
-        const Result r = clitest::knockon("compare " + q(kDelayedLine) + " --variants base,base --shard 1/2", dir);
-        CHECK(r.status == 2);
-        CHECK(r.err.find("--shard is not supported by compare yet") != std::string::npos);
+    SECTION("compare --shard under mpirun") {
+        refused("-np 2 " + kExeQ + " compare " + q(kSource + "/tests/data/study/single_line_crossings.yaml") +
+                    " --variants base,cab --replications 7 --shard 1/2" + out,
+                2, "--shard runs one share of a comparison's days in one process");
     }
     SECTION("a command that runs in one process") {
         refused("-np 2 " + kExeQ + " plan " + q(kDelayedLine), 2, "runs in one process");
