@@ -47,8 +47,9 @@ std::vector<std::string> plan_warnings(const Scenario& sc, const PlanResult& pla
     return out;
 }
 
-// A network file (knockon: 2) holds a layout only so far: read, checked, its detection sections
-// and routes found.
+// A network file (knockon: 2): the layout read and checked, its detection sections and routes
+// found; its train types, timetable (every service's path laid), corridors and delays read and
+// checked.  Planning and running on a network come next.
 int validate_network(const std::string& file) {
     const NetworkFile nf = read_network(file);
     const net::Network& n = nf.network;
@@ -58,6 +59,17 @@ int validate_network(const std::string& file) {
                 count(n.signals.size(), "signal", "signals").c_str(), count(n.stations.size(), "station", "stations").c_str(),
                 count(nf.sections, "detection section", "detection sections").c_str(),
                 count(nf.routes, "route", "routes").c_str());
+    const net::NetworkTimetable& tt = nf.timetable;
+    if (nf.train_types.empty() && tt.services.empty()) return 0;
+    std::printf("%s: ok: %s, %s with their paths; corridors:", file.c_str(),
+                count(nf.train_types.size(), "train type", "train types").c_str(),
+                count(tt.services.size(), "service", "services").c_str());
+    for (const net::Corridor& c : net::corridors_of(tt)) {
+        std::string stations;
+        for (const std::string& s : c.stations) stations += (stations.empty() ? "" : " ") + s;
+        std::printf(" %s (%s);", c.name.c_str(), stations.c_str());
+    }
+    std::printf(" %s\n", tt.corridors.empty() ? "one per route of the services" : "as written");
     return 0;
 }
 
