@@ -93,3 +93,22 @@ TEST_CASE("network single track: a line with one loop and a terminus has two str
     CHECK(layout.places[1].tracks.size() == 2);
     CHECK(layout.places[1].tracks[1].usable_down == 0.0);
 }
+
+TEST_CASE("network single track: the network demo's branch has three stretches and the main line none") {
+    const NetworkFile f = read_network(std::string(KNOCKON_SOURCE_DIR) + "/scenarios/junction_branch.yaml");
+    const net::NetworkGraph graph(f.network);
+    const net::DetectionSections sections(graph);
+    const SingleTrackLayout layout = net::single_track_layout(graph, sections);
+    // By hand on the drawing at the top of the demo: the double track and the junction's one-way
+    // connections carry one direction each; the branch runs from J3 (its two one-way legs meet
+    // the main line at different switches, so J3 ends the single track) to the loop PLC, on to
+    // the loop HTB and to the terminus QSB, whose platform tracks end at buffer stops.
+    REQUIRE(layout.stretches.size() == 3);
+    CHECK(layout.stretches[0].name == "J3-PLC");
+    CHECK(layout.stretches[1].name == "PLC-HTB");
+    CHECK(layout.stretches[2].name == "HTB-QSB");
+    CHECK(layout.places[0].kind == CrossingPlaceKind::track_end);
+    CHECK(layout.places[1].kind == CrossingPlaceKind::loop);
+    CHECK(layout.places[2].kind == CrossingPlaceKind::loop);
+    CHECK(layout.places[3].kind == CrossingPlaceKind::track_end);
+}

@@ -184,3 +184,14 @@ TEST_CASE("network timetable: validate names the paths and corridors or every pr
     CHECK(r.err.find(broken.string() + ":74:33: timetable.services[1].calls[1].track: no segment has the id \"Q\"") !=
           std::string::npos);
 }
+
+TEST_CASE("network timetable: validate accepts the network demo", "[cli]") {
+    using namespace clitest;
+    TempDir dir;
+    const std::string demo = kSource + "/scenarios/junction_branch.yaml";
+    Result r = clitest::knockon("validate " + q(demo), dir, 60);
+    CHECK(r.status == 0);
+    CHECK(r.err.empty());
+    CHECK(r.out.find(": ok: 2 train types, 3 services with their paths; corridors: Main (WRF OLV EMR); Branch (OLV PLC "
+                     "HTB QSB); as written") != std::string::npos);
+}
