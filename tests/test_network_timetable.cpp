@@ -195,3 +195,8 @@ TEST_CASE("network timetable: validate accepts the network demo", "[cli]") {
     CHECK(r.out.find(": ok: 2 train types, 3 services with their paths; corridors: Main (WRF OLV EMR); Branch (OLV PLC "
                      "HTB QSB); as written") != std::string::npos);
 }
+
+TEST_CASE("network timetable: the README shows the example as it stands") {
+    const std::string readme = clitest::read_text(clitest::kSource + "/README.md");
+    CHECK(readme.find("```yaml\n" + clitest::read_text(kLoopLine) + "```") != std::string::npos);
+}
