@@ -112,3 +112,22 @@ TEST_CASE("network single track: the network demo's branch has three stretches a
     CHECK(layout.places[2].kind == CrossingPlaceKind::loop);
     CHECK(layout.places[3].kind == CrossingPlaceKind::track_end);
 }
+
+TEST_CASE("network single track: the demo's doubled branch leaves one long crossing place") {
+    const NetworkFile f = read_network(std::string(KNOCKON_SOURCE_DIR) + "/scenarios/junction_branch.yaml", "double_branch");
+    const net::NetworkGraph graph(f.network);
+    const net::DetectionSections sections(graph);
+    const SingleTrackLayout layout = net::single_track_layout(graph, sections);
+    // By hand: with BR2b beside BR2 and both joined by links to the loops' tracks, the tracks from
+    // S1 meet again only at S4: one place from PLC to HTB (named after PLC, its first station),
+    // so the branch has two stretches left.
+    REQUIRE(layout.stretches.size() == 2);
+    CHECK(layout.stretches[0].name == "J3-PLC");
+    CHECK(layout.stretches[1].name == "PLC-QSB");
+    const CrossingPlace& both = layout.places[1];
+    CHECK(both.kind == CrossingPlaceKind::loop);
+    CHECK(both.stations == std::vector<std::string>{"PLC", "HTB"});
+    REQUIRE(both.tracks.size() == 2);
+    CHECK(both.tracks[0].track == "L1a+BR2+L2a");
+    CHECK(both.tracks[1].track == "L1b+BR2b+L2b");
+}

@@ -194,6 +194,20 @@ TEST_CASE("network timetable: validate accepts the network demo", "[cli]") {
     CHECK(r.err.empty());
     CHECK(r.out.find(": ok: 2 train types, 3 services with their paths; corridors: Main (WRF OLV EMR); Branch (OLV PLC "
                      "HTB QSB); as written") != std::string::npos);
+    CHECK(r.out.find(demo + ": ok (base and 2 variants)\n") != std::string::npos);
+    // The grade-separated junction has no diamond left.
+    const NetworkFile gs = read_network(demo, "grade_separated");
+    CHECK(gs.network.find_node("X") == net::kNone);
+    CHECK(gs.network.find_node("XU") != net::kNone);
+    // A variant the file does not have is named as such.
+    try {
+        read_network(demo, "flyover");
+        FAIL("no error");
+    } catch (const ScenarioError& e) {
+        REQUIRE(e.messages.size() == 1);
+        CHECK(e.messages[0].find("variants: no variant named \"flyover\"; known: grade_separated, double_branch") !=
+              std::string::npos);
+    }
 }
 
 TEST_CASE("network timetable: the README shows the example as it stands") {

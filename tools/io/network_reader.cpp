@@ -11,6 +11,7 @@
 #include "tools/io/delay_fields.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "tools/io/train_type_fields.hpp"
+#include "tools/io/variant_document.hpp"
 #include "tools/io/yaml_fields.hpp"
 
 namespace knockon {
@@ -34,8 +35,9 @@ public:
     explicit NetworkParser(ErrorList& errors) : errors_(errors) {}
 
     NetworkFile parse(const YAML::Node& root) {
+        // `variants` is checked and merged before this parse (yamlio::variant_document).
         MapFields top(errors_, root, "",
-                      {"knockon", "name", "network", "train_types", "timetable", "corridors", "delays"});
+                      {"knockon", "name", "network", "train_types", "timetable", "corridors", "delays", "variants"});
         if (!top.ok()) return std::move(out_);
         if (auto v = top.text("knockon", true); v && *v != "2")
             top.error("knockon", "a network file has knockon: 2, not \"" + *v + "\"");
@@ -488,9 +490,9 @@ bool is_network_text(const std::string& yaml_text) {
     }
 }
 
-NetworkFile parse_network(const std::string& yaml_text, const std::string& file_name) {
+NetworkFile parse_network(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
     ErrorList errors(file_name);
-    const YAML::Node root = yamlio::load_document(yaml_text, errors);
+    const YAML::Node root = yamlio::variant_document(yaml_text, variant, errors);
     NetworkFile file;
     try {
         file = NetworkParser(errors).parse(root);
@@ -500,9 +502,12 @@ NetworkFile parse_network(const std::string& yaml_text, const std::string& file_
     }
     if (!errors.empty()) throw ScenarioError(errors.messages());
     file.source_file = file_name;
+    if (!yamlio::is_base_variant(variant)) file.name += " [variant " + variant + "]";
     return file;
 }
 
-NetworkFile read_network(const std::string& path) { return parse_network(read_scenario_text(path), path); }
+NetworkFile read_network(const std::string& path, const std::string& variant) {
+    return parse_network(read_scenario_text(path), path, variant);
+}
 
 }  // namespace knockon

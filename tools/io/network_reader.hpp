@@ -35,8 +35,9 @@ struct NetworkFile {
 // scenario, text that is no YAML) is left to the line scenario reader and its messages.
 bool is_network_text(const std::string& yaml_text);
 
-// Throws ScenarioError holding every problem.
-NetworkFile parse_network(const std::string& yaml_text, const std::string& file_name);
-NetworkFile read_network(const std::string& path);
+// Throws ScenarioError holding every problem.  `variant` names one of the file's variants, merged
+// onto the base document as in a line scenario (empty or "base": the file as written).
+NetworkFile parse_network(const std::string& yaml_text, const std::string& file_name, const std::string& variant = "");
+NetworkFile read_network(const std::string& path, const std::string& variant = "");
 
 }  // namespace knockon

@@ -29,6 +29,7 @@
 #include "tools/io/call_fields.hpp"
 #include "tools/io/delay_fields.hpp"
 #include "tools/io/train_type_fields.hpp"
+#include "tools/io/variant_document.hpp"
 #include "tools/io/yaml_fields.hpp"
 #include "tools/io/yaml_merge.hpp"
 
@@ -1265,29 +1266,37 @@ std::string read_text_file(const std::string& path) {
 
 }  // namespace
 
-Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
-    ErrorList errors(file_name);
+namespace yamlio {
+
+bool is_base_variant(const std::string& variant) { return variant.empty() || variant == kBaseVariant; }
+
+YAML::Node variant_document(const std::string& yaml_text, const std::string& variant, ErrorList& errors) {
     YAML::Node root = load_document(yaml_text, errors);
     const VariantsSection variants = read_variants_section(root, errors);
-    const bool base = variant.empty() || variant == kBaseVariant;
-    if (!base) {
-        const VariantSource* chosen = nullptr;
-        std::vector<std::string> names;
-        for (const VariantSource& v : variants.list) {
-            names.push_back(v.name);
-            if (v.name == variant && !chosen) chosen = &v;
-        }
-        if (!chosen) {
-            if (!variants.present)
-                errors.add(root.Mark(), "variants",
-                           "the scenario has no variants, so there is no variant \"" + variant + "\"");
-            else
-                errors.add(variants.key_mark, "variants",
-                           "no variant named \"" + variant + "\"; " + known_list(names));
-            throw ScenarioError(errors.messages());
-        }
-        yamlio::merge_into(root, overlay_body(chosen->overlay));
+    if (is_base_variant(variant)) return root;
+    const VariantSource* chosen = nullptr;
+    std::vector<std::string> names;
+    for (const VariantSource& v : variants.list) {
+        names.push_back(v.name);
+        if (v.name == variant && !chosen) chosen = &v;
     }
+    if (!chosen) {
+        if (!variants.present)
+            errors.add(root.Mark(), "variants", "the scenario has no variants, so there is no variant \"" + variant + "\"");
+        else
+            errors.add(variants.key_mark, "variants", "no variant named \"" + variant + "\"; " + known_list(names));
+        throw ScenarioError(errors.messages());
+    }
+    yamlio::merge_into(root, overlay_body(chosen->overlay));
+    return root;
+}
+
+}  // namespace yamlio
+
+Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
+    ErrorList errors(file_name);
+    YAML::Node root = yamlio::variant_document(yaml_text, variant, errors);
+    const bool base = yamlio::is_base_variant(variant);
     Scenario sc;
     try {
         sc = ScenarioParser(errors).parse(root);
