@@ -7,7 +7,15 @@
 // are worked out by hand from the blocking-time parts, not by the program.
 #include <catch2/catch.hpp>
 
+#include <algorithm>
+#include <iterator>
+#include <set>
+#include <string>
+#include <vector>
+
 #include "models/headway.hpp"
+#include "models/network/train_path.hpp"
+#include "tools/io/network_reader.hpp"
 
 using namespace knockon;
 
@@ -75,4 +83,71 @@ TEST_CASE("junction headway: two trains crossing on a diamond share its section 
     // Paths that share no section have no headway between them.
     SectionStairway c{2, 0.0, {block("C1", -1000.0, 1000.0, 20.0)}};
     CHECK_FALSE(minimum_headway(a, c));
+}
+
+namespace {
+
+// The detection sections (by the network's index, named) a train laid over the network demo
+// blocks on its way, with the program's own paths (models/network/paths, train_path).
+std::set<std::string> sections_of(const net::NetworkGraph& g, const net::DetectionSections& sections,
+                                  const net::PathRequest& request) {
+    const net::NetworkPath path = net::find_path(g, request);
+    const TrainPath laid = net::train_path(g, sections, {}, request, path, {0.0, 0.0});
+    std::set<std::string> out;
+    for (const PathSection& s : laid.sections) out.insert(sections[s.index].name);
+    return out;
+}
+
+std::vector<std::string> shared(const std::set<std::string>& a, const std::set<std::string>& b) {
+    std::vector<std::string> out;
+    std::set_intersection(a.begin(), a.end(), b.begin(), b.end(), std::back_inserter(out));
+    return out;
+}
+
+}  // namespace
+
+TEST_CASE("junction headway: paths over the network demo share the junction's sections as drawn") {
+    // What the headway of two trains compares is the sections both block: on the demo's flat
+    // junction (its drawing at the top of scenarios/junction_branch.yaml) an eastbound branch
+    // train crosses the down line on the diamond X, and a westbound one joins it at J2.
+    const NetworkFile f = read_network(std::string(KNOCKON_SOURCE_DIR) + "/scenarios/junction_branch.yaml");
+    const net::Network& n = f.network;
+    const net::NetworkGraph graph(n);
+    const net::DetectionSections sections(graph);
+    auto call = [&](const char* station, const char* track) {
+        net::PathCall c;
+        c.station = n.find_station(station);
+        c.track = track ? n.find_segment(track) : net::kNone;
+        return c;
+    };
+    net::PathRequest down_main;   // from the boundary ED past EMR, OLV and WRF to WD
+    down_main.enters_at = n.find_node("ED");
+    down_main.leaves_at = n.find_node("WD");
+    down_main.calls = {call("EMR", nullptr), call("OLV", nullptr), call("WRF", nullptr)};
+    net::PathRequest up_main = down_main;
+    up_main.enters_at = n.find_node("WU");
+    up_main.leaves_at = n.find_node("EU");
+    up_main.calls = {call("WRF", nullptr), call("OLV", nullptr), call("EMR", nullptr)};
+    net::PathRequest branch_out;   // OLV to the terminus
+    branch_out.calls = {call("OLV", "U1"), call("PLC", "L1a"), call("QSB", "P1")};
+    net::PathRequest branch_back;  // the terminus to OLV
+    branch_back.calls = {call("QSB", "P1"), call("PLC", "L1b"), call("OLV", "D1")};
+
+    const auto dm = sections_of(graph, sections, down_main), um = sections_of(graph, sections, up_main);
+    const auto bo = sections_of(graph, sections, branch_out), bb = sections_of(graph, sections, branch_back);
+    // Crossing: the eastbound branch train and a down main-line train share the diamond alone.
+    CHECK(shared(dm, bo) == std::vector<std::string>{"X"});
+    // Converging: the westbound branch train joins the down line at J2 and runs on over X to
+    // OLV, so it shares J2's and X's sections and the down line's sections between them and OLV.
+    const std::vector<std::string> merge = shared(dm, bb);
+    CHECK(std::count(merge.begin(), merge.end(), "J2") == 1);
+    CHECK(std::count(merge.begin(), merge.end(), "X") == 1);
+    CHECK(std::count(merge.begin(), merge.end(), "J3") == 0);
+    CHECK(merge.size() >= 4);
+    // Diverging: the eastbound branch train leaves the up line at J1 and never meets X there.
+    const std::vector<std::string> split = shared(um, bo);
+    CHECK(std::count(split.begin(), split.end(), "J1") == 1);
+    CHECK(std::count(split.begin(), split.end(), "X") == 0);
+    // The westbound branch train and an up main-line train meet nowhere.
+    CHECK(shared(um, bb).empty());
 }

@@ -206,7 +206,10 @@ NetworkPath find_path(const NetworkGraph& g, const PathRequest& r) {
     std::vector<Waypoint> way;
     if (r.enters_at != kNone) {
         way.push_back(boundary_waypoint(g, r.enters_at, true));
-        for (std::size_t v : r.entry_via) way.push_back(via_waypoint(g, v));
+        for (std::size_t i = 0; i < r.entry_via.size(); ++i) {
+            way.push_back(via_waypoint(g, r.entry_via[i]));
+            way.back().via = i;
+        }
     }
     for (std::size_t k = 0; k < r.calls.size(); ++k) {
         way.push_back(call_waypoint(g, r, k));

@@ -52,8 +52,8 @@ struct NetworkPath {
 // saying which, so that a reader can point at the call or via in its file.
 struct PathNotFound : NetworkError {
     PathNotFound(const std::string& message, std::size_t call, std::size_t via);
-    std::size_t call;   // the call met there, or whose via it is; kNone: the exit boundary
-    std::size_t via;    // index into that call's via; kNone: the call itself
+    std::size_t call;   // the call met there, or whose via it is; kNone: the exit boundary, or an entry via
+    std::size_t via;    // index into that call's via (or, with call kNone, into entry_via); kNone: the call itself
 };
 
 // Throws PathNotFound saying which call (or via, or boundary) cannot be reached from the one

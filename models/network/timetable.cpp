@@ -135,7 +135,7 @@ void check_path(const NetworkGraph& g, const NetworkService& svc, double length,
     } catch (const PathNotFound& e) {
         const std::string message = "service " + svc.id + ": " + e.what();
         if (e.call == kNone)
-            p.add(kNone, "leave", message);
+            p.add(kNone, e.via == kNone ? "leave" : "", message);
         else if (e.via != kNone)
             p.add(e.call, "via", message, e.via);
         else
