@@ -40,9 +40,13 @@ struct CrossingPlace {
     bool contains(double x) const;
 };
 
+// On a network (models/network/single_track) the same structures hold: chainages are then
+// distances along the stretch from its lower place, a crossing place's `tracks` are segments, and
+// `segments` names what a stretch runs over.
 struct SingleTrackStretch {
     std::string name;            // "<lower place>-<upper place>", e.g. "HTW-BRC"
-    std::string track;           // the main track it lies on
+    std::string track;           // the main track it lies on (a network: its first segment)
+    std::vector<std::string> segments;   // a network: the segments it runs over, from the lower place
     double x_lo = 0.0, x_hi = 0.0;   // chainage extent: between the places' turnouts [m]
     std::size_t lower = 0, upper = 0;   // indices into SingleTrackLayout::places (lower chainage first)
     std::vector<std::string> sections;  // detection section ids lying in it, by chainage

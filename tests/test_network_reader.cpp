@@ -147,7 +147,7 @@ TEST_CASE("network file: validate prints what it found, or every problem with ex
     // The commands that plan or run refuse it, saying what it is.
     r = clitest::knockon("plan " + q(kTerminus), dir, 60);
     CHECK(r.status == 2);
-    CHECK(r.err.find("a network file (knockon: 2) holds a layout only so far") != std::string::npos);
+    CHECK(r.err.find("a network file (knockon: 2) is only checked so far") != std::string::npos);
 }
 
 TEST_CASE("network file: a route name that fits no route or several is located at it") {

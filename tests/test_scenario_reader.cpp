@@ -497,8 +497,8 @@ TEST_CASE("format version", "[reader]") {
     // A network file given to a command that plans or runs: said what it is.
     const std::string net = with("knockon: 1", "knockon: 2");
     CHECK(reported(errors_of(net), "1:10", "knockon",
-                   "a network file (knockon: 2) holds a layout only so far: `knockon validate` checks it; the other "
-                   "commands read knockon: 1"));
+                   "a network file (knockon: 2) is only checked so far, by `knockon validate`; the other commands "
+                   "read knockon: 1"));
     const std::string t2 = with("knockon: 1\n", "");
     CHECK(reported(errors_of(t2), "1:1", "knockon", "missing required key"));
 }

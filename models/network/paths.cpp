@@ -128,6 +128,8 @@ std::vector<Arrival> shortest(const NetworkGraph& g, const std::vector<Source>& 
 struct Waypoint {
     std::vector<Target> targets;
     std::string what;
+    std::size_t call = kNone;   // the call it is or whose via it is (PathNotFound)
+    std::size_t via = kNone;
 };
 
 std::string call_name(const Network& net, const PathRequest& r, std::size_t k) {
@@ -195,20 +197,31 @@ void check_request(const NetworkGraph& g, const PathRequest& r) {
 
 }  // namespace
 
+PathNotFound::PathNotFound(const std::string& message, std::size_t call_, std::size_t via_)
+    : NetworkError(message), call(call_), via(via_) {}
+
 NetworkPath find_path(const NetworkGraph& g, const PathRequest& r) {
     check_request(g, r);
     const Network& net = g.network();
     std::vector<Waypoint> way;
     if (r.enters_at != kNone) {
         way.push_back(boundary_waypoint(g, r.enters_at, true));
-        for (std::size_t v : r.entry_via) way.push_back(via_waypoint(g, v));
+        for (std::size_t i = 0; i < r.entry_via.size(); ++i) {
+            way.push_back(via_waypoint(g, r.entry_via[i]));
+            way.back().via = i;
+        }
     }
     for (std::size_t k = 0; k < r.calls.size(); ++k) {
         way.push_back(call_waypoint(g, r, k));
+        way.back().call = k;
         if (way.back().targets.empty())
-            throw NetworkError(call_name(net, r, k) + ": the station has no track there a train may run on");
+            throw PathNotFound(call_name(net, r, k) + ": the station has no track there a train may run on", k, kNone);
         if (k + 1 < r.calls.size() || r.leaves_at != kNone)
-            for (std::size_t v : r.calls[k].via) way.push_back(via_waypoint(g, v));
+            for (std::size_t i = 0; i < r.calls[k].via.size(); ++i) {
+                way.push_back(via_waypoint(g, r.calls[k].via[i]));
+                way.back().call = k;
+                way.back().via = i;
+            }
     }
     if (r.leaves_at != kNone) way.push_back(boundary_waypoint(g, r.leaves_at, false));
 
@@ -224,7 +237,9 @@ NetworkPath find_path(const NetworkGraph& g, const PathRequest& r) {
         legs[w] = shortest(g, sources, way[w].targets);
         bool any = false;
         for (const Arrival& a : legs[w]) any = any || a.cost < kInf;
-        if (!any) throw NetworkError("no way over the network from " + way[w - 1].what + " to " + way[w].what);
+        if (!any)
+            throw PathNotFound("no way over the network from " + way[w - 1].what + " to " + way[w].what, way[w].call,
+                               way[w].via);
     }
 
     // The best end, then back through the legs.

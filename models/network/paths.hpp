@@ -5,6 +5,7 @@
 // path of its own.  The whole path is the shortest that meets every call in order (one search
 // per leg, carrying every place and heading a call can be met at into the next).
 #include <cstddef>
+#include <string>
 #include <vector>
 
 #include "models/network/routes.hpp"
@@ -47,7 +48,16 @@ struct NetworkPath {
     double length = 0.0;             // [m], the sum of the runs
 };
 
-// Throws NetworkError saying which call (or boundary) cannot be reached from the one before.
+// What find_path throws when a place the path must meet cannot be reached from the one before,
+// saying which, so that a reader can point at the call or via in its file.
+struct PathNotFound : NetworkError {
+    PathNotFound(const std::string& message, std::size_t call, std::size_t via);
+    std::size_t call;   // the call met there, or whose via it is; kNone: the exit boundary, or an entry via
+    std::size_t via;    // index into that call's via (or, with call kNone, into entry_via); kNone: the call itself
+};
+
+// Throws PathNotFound saying which call (or via, or boundary) cannot be reached from the one
+// before; NetworkError for a request that names nothing on the network.
 NetworkPath find_path(const NetworkGraph& graph, const PathRequest& request);
 
 // Where a train of `length` running in `heading` stops at timing point `timing_point` (index into

@@ -7,7 +7,11 @@
 
 #include "models/network/checks.hpp"
 #include "models/network/routes.hpp"
+#include "tools/io/call_fields.hpp"
+#include "tools/io/delay_fields.hpp"
 #include "tools/io/scenario_reader.hpp"
+#include "tools/io/train_type_fields.hpp"
+#include "tools/io/variant_document.hpp"
 #include "tools/io/yaml_fields.hpp"
 
 namespace knockon {
@@ -31,13 +35,21 @@ public:
     explicit NetworkParser(ErrorList& errors) : errors_(errors) {}
 
     NetworkFile parse(const YAML::Node& root) {
-        MapFields top(errors_, root, "", {"knockon", "name", "network"});
+        // `variants` is checked and merged before this parse (yamlio::variant_document).
+        MapFields top(errors_, root, "",
+                      {"knockon", "name", "network", "train_types", "timetable", "corridors", "delays", "variants"});
         if (!top.ok()) return std::move(out_);
         if (auto v = top.text("knockon", true); v && *v != "2")
             top.error("knockon", "a network file has knockon: 2, not \"" + *v + "\"");
         if (auto n = top.text("name", false)) out_.name = *n;
         network_at_ = top.mark_of("network");
         if (top.require("network")) read_network(top.get("network"), top.path_of("network"));
+        layout_errors_ = errors_.size();
+        if (auto seq = top.sequence("train_types", false))
+            out_.train_types = yamlio::read_train_types(errors_, top, *seq, std::nullopt).types;
+        if (top.has("timetable")) read_timetable(top.get("timetable"), top.path_of("timetable"));
+        each(top, "corridors", false, [&](const MapFields& f) { corridor(f); }, {"id", "stations"});
+        if (top.has("delays")) read_delays(top.get("delays"), top.path_of("delays"));
         if (top.has("network")) check();
         return std::move(out_);
     }
@@ -303,22 +315,139 @@ private:
         }, {"id", "segment", "from", "to"});
     }
 
+    // ---------------------------------------------------------------- timetable
+
+    void read_timetable(const YAML::Node& node, const std::string& path) {
+        MapFields t(errors_, node, path, {"rounding", "services"});
+        if (!t.ok()) return;
+        if (auto v = yamlio::ranged(t, "rounding", Input::rounding, false)) out_.timetable.rounding = *v;
+        each(t, "services", true, [&](const MapFields& f) { service(f); },
+             {"id", "type", "category", "draw_key", "enter", "leave", "repeat", "calls"});
+    }
+
+    // A boundary node's id at `key`: checked against the network with the rest of the timetable.
+    std::string node_name(const MapFields& f, std::string_view key) {
+        auto id = f.text(key, true);
+        return id.value_or("");
+    }
+
+    void service(const MapFields& f) {
+        const std::size_t before = errors_.size();
+        net::NetworkService svc;
+        ServiceSource src{f, {}};
+        if (auto id = f.text("id", true)) svc.id = *id;
+        if (auto type = f.text("type", true)) svc.train_type = *type;
+        if (auto c = f.text("category", false)) svc.category = *c;
+        if (auto k = f.text("draw_key", false)) svc.draw_key = *k;
+        // enter: BOUNDARY, or {at: BOUNDARY, speed: 120 km/h}
+        if (f.has("enter")) {
+            if (f.get("enter").IsMap()) {
+                MapFields e(errors_, f.get("enter"), f.path_of("enter"), {"at", "speed"});
+                if (e.ok()) {
+                    svc.enters_at = node_name(e, "at");
+                    svc.entry_speed = yamlio::ranged(e, "speed", Input::entry_speed, false);
+                }
+            } else {
+                svc.enters_at = node_name(f, "enter");
+            }
+        }
+        if (f.has("leave")) svc.leaves_at = node_name(f, "leave");
+        if (f.has("repeat")) {
+            MapFields r(errors_, f.get("repeat"), f.path_of("repeat"), {"every", "until"});
+            auto every = yamlio::ranged(r, "every", Input::repeat_every, true);
+            auto until = r.time_of_day("until", true);
+            if (every && until) svc.repeat = net::RepeatPattern{*every, *until};
+        }
+        if (auto calls = f.sequence("calls", true)) {
+            const std::string path = f.path_of("calls");
+            for (std::size_t j = 0; j < calls->size(); ++j) {
+                MapFields c(errors_, (*calls)[j], item(path, j),
+                            {"station", "arr", "dep", "pass", "track", "min_dwell", "via", "reverses", "min_turnaround"});
+                if (!c.ok()) continue;
+                net::NetworkCall call;
+                yamlio::read_call(c, call.call);
+                if (auto seq = c.sequence("via", false)) {
+                    const std::string vpath = c.path_of("via");
+                    for (std::size_t i = 0; i < seq->size(); ++i)
+                        if (auto id = yamlio::scalar_text(errors_, (*seq)[i], item(vpath, i))) call.via.push_back(*id);
+                }
+                if (auto b = c.boolean("reverses", false)) call.reverses = *b;
+                call.min_turnaround = yamlio::ranged(c, "min_turnaround", Input::min_dwell, false);
+                svc.calls.push_back(std::move(call));
+                src.calls.push_back(c);
+            }
+        }
+        if (errors_.size() > before) flawed_services_.insert(services_.size());
+        services_.push_back(std::move(src));
+        out_.timetable.services.push_back(std::move(svc));
+    }
+
+    void corridor(const MapFields& f) {
+        const std::size_t before = errors_.size();
+        net::Corridor c;
+        if (auto id = f.text("id", true)) c.name = *id;
+        if (auto seq = f.sequence("stations", true)) {
+            const std::string path = f.path_of("stations");
+            for (std::size_t i = 0; i < seq->size(); ++i)
+                if (auto id = yamlio::scalar_text(errors_, (*seq)[i], item(path, i))) c.stations.push_back(*id);
+        }
+        if (errors_.size() > before) flawed_corridors_.insert(corridors_.size());
+        corridors_.push_back({f, {}});
+        out_.timetable.corridors.push_back(std::move(c));
+    }
+
+    // Rules by category and station, as in a line scenario; disruptions (a stretch of track out of
+    // use) are placed by chainage there and have no form on a network yet.
+    void read_delays(const YAML::Node& node, const std::string& path) {
+        MapFields m(errors_, node, path, {"entry", "dwell", "running"});
+        if (!m.ok()) return;
+        auto station_problem = [&](const std::string& id) -> std::optional<std::string> {
+            if (net().find_station(id) != kNone) return std::nullopt;
+            return "no station has the id \"" + id + "\"";
+        };
+        yamlio::read_delay_rules(errors_, m, "entry", out_.delays.entry, station_problem);
+        yamlio::read_delay_rules(errors_, m, "dwell", out_.delays.dwell, station_problem);
+        yamlio::read_delay_rules(errors_, m, "running", out_.delays.running, station_problem);
+    }
+
     // The network's own checks, each put at the object it is about (but for objects the reader
     // has found wrong already); then, on a network with no problem, the sections and routes,
     // whose search can refuse a layout too (a loop of track no signal faces).
     void check() {
-        for (const net::NetworkProblem& p : net::check_network(net()))
+        const std::vector<net::NetworkProblem> problems = net::check_network(net());
+        for (const net::NetworkProblem& p : problems)
             if (!flawed_.count({p.kind, p.index})) locate(p);
-        if (!errors_.empty()) return;
+        // The graph needs a layout without problems; the timetable's problems of reading leave it be.
+        if (layout_errors_ > 0 || !problems.empty()) return;
         try {
             const net::NetworkGraph graph(net());
             const net::DetectionSections sections(graph);
             out_.sections = sections.size();
             out_.routes = net::find_routes(graph, sections).size();
+            for (const net::TimetableProblem& p : net::check_timetable(graph, out_.train_types, out_.timetable))
+                locate(p);
         } catch (const net::NetworkError& e) {
             if (e.problems.empty()) errors_.add(network_at_, "network", e.what());
             for (const net::NetworkProblem& p : e.problems) locate(p);
         }
+    }
+
+    // A problem of the timetable at the field, list entry, call or service it is about; none for a
+    // service or corridor the reader has found wrong already.
+    void locate(const net::TimetableProblem& p) {
+        const bool service = p.part == net::TimetablePart::service;
+        if ((service ? flawed_services_ : flawed_corridors_).count(p.index)) return;
+        const ServiceSource& src = service ? services_[p.index] : corridors_[p.index];
+        const MapFields& at = p.call == kNone ? src.fields : src.calls[p.call];
+        if (p.field.empty() || !at.has(p.field)) {
+            errors_.add(at.node(), at.path(), p.message);
+            return;
+        }
+        const YAML::Node value = at.get(p.field);
+        if (p.item != kNone && value.IsSequence() && p.item < value.size())
+            errors_.add(value[p.item], item(at.path_of(p.field), p.item), p.message);
+        else
+            errors_.add(value, at.path_of(p.field), p.message);
     }
 
     // A problem of the network at the value of the field it is about, where the file gives it,
@@ -332,8 +461,17 @@ private:
             errors_.add(at.node.Mark(), at.path, p.message);
     }
 
+    // Where a service (or a corridor) and its calls stand in the file.
+    struct ServiceSource {
+        MapFields fields;
+        std::vector<MapFields> calls;
+    };
+
     ErrorList& errors_;
     NetworkFile out_;
+    std::size_t layout_errors_ = 0;   // errors found in `network` itself
+    std::vector<ServiceSource> services_, corridors_;
+    std::set<std::size_t> flawed_services_, flawed_corridors_;
     std::map<ObjectKind, std::vector<Source>> sources_;
     std::set<std::pair<ObjectKind, std::size_t>> flawed_;
     YAML::Mark network_at_;
@@ -352,9 +490,9 @@ bool is_network_text(const std::string& yaml_text) {
     }
 }
 
-NetworkFile parse_network(const std::string& yaml_text, const std::string& file_name) {
+NetworkFile parse_network(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
     ErrorList errors(file_name);
-    const YAML::Node root = yamlio::load_document(yaml_text, errors);
+    const YAML::Node root = yamlio::variant_document(yaml_text, variant, errors);
     NetworkFile file;
     try {
         file = NetworkParser(errors).parse(root);
@@ -364,9 +502,12 @@ NetworkFile parse_network(const std::string& yaml_text, const std::string& file_
     }
     if (!errors.empty()) throw ScenarioError(errors.messages());
     file.source_file = file_name;
+    if (!yamlio::is_base_variant(variant)) file.name += " [variant " + variant + "]";
     return file;
 }
 
-NetworkFile read_network(const std::string& path) { return parse_network(read_scenario_text(path), path); }
+NetworkFile read_network(const std::string& path, const std::string& variant) {
+    return parse_network(read_scenario_text(path), path, variant);
+}
 
 }  // namespace knockon

@@ -2,13 +2,19 @@
 // Reads a network file (`knockon: 2`; README, "Network file") into models/network, with every
 // problem located as "file:line:col: path.to.field: message": the reader's own (shape, units,
 // ranges, names that refer to nothing) and the network's checks (models/network/checks), each
-// put at the object it is about.  Train types and a timetable on a network come in a later
-// version of the format; this one holds the layout.
+// put at the object it is about; then the train types, the timetable (models/network/timetable,
+// whose checks and paths are located at the service, call or via concerned), the corridors and
+// the primary delays.  Train types and delay rules are read as in a line scenario
+// (tools/io/train_type_fields, tools/io/delay_fields), calls' times as well (tools/io/call_fields).
 #include <cstddef>
 #include <string>
+#include <vector>
 
 #include "models/network/network.hpp"
+#include "models/network/timetable.hpp"
+#include "models/primary_delay_model.hpp"
 #include "models/scenario_error.hpp"
+#include "models/train_type.hpp"
 
 namespace knockon {
 
@@ -20,14 +26,18 @@ struct NetworkFile {
     // refused with the rest.
     std::size_t sections = 0;
     std::size_t routes = 0;
+    std::vector<TrainType> train_types;
+    net::NetworkTimetable timetable;
+    PrimaryDelayModel delays;
 };
 
 // Whether the text is a network file: a YAML map whose `knockon` is 2.  Anything else (a line
 // scenario, text that is no YAML) is left to the line scenario reader and its messages.
 bool is_network_text(const std::string& yaml_text);
 
-// Throws ScenarioError holding every problem.
-NetworkFile parse_network(const std::string& yaml_text, const std::string& file_name);
-NetworkFile read_network(const std::string& path);
+// Throws ScenarioError holding every problem.  `variant` names one of the file's variants, merged
+// onto the base document as in a line scenario (empty or "base": the file as written).
+NetworkFile parse_network(const std::string& yaml_text, const std::string& file_name, const std::string& variant = "");
+NetworkFile read_network(const std::string& path, const std::string& variant = "");
 
 }  // namespace knockon

@@ -20,6 +20,7 @@
 
 #include <yaml-cpp/yaml.h>
 
+#include "models/call_times.hpp"
 #include "models/input_ranges.hpp"
 #include "models/line_paths.hpp"
 #include "models/links.hpp"
@@ -27,6 +28,10 @@
 #include "models/single_track.hpp"
 #include "models/train_type_checks.hpp"
 #include "models/units.hpp"
+#include "tools/io/call_fields.hpp"
+#include "tools/io/delay_fields.hpp"
+#include "tools/io/train_type_fields.hpp"
+#include "tools/io/variant_document.hpp"
 #include "tools/io/yaml_fields.hpp"
 #include "tools/io/yaml_merge.hpp"
 
@@ -96,8 +101,8 @@ public:
             } catch (const UnitError&) {
             }
             if (*v == "2")
-                top.error("knockon", "a network file (knockon: 2) holds a layout only so far: `knockon validate` "
-                                     "checks it; the other commands read knockon: 1");
+                top.error("knockon", "a network file (knockon: 2) is only checked so far, by `knockon validate`; "
+                                     "the other commands read knockon: 1");
             else if (!supported)
                 top.error("knockon", "format version \"" + *v +
                                          "\" is not supported; this program reads knockon: 1");
@@ -420,14 +425,7 @@ private:
 
     // The same for a table cell.
     std::optional<double> ranged_cell(const YAML::Node& n, const std::string& path, Input which) {
-        auto v = yamlio::quantity_of(errors_, n, path, input_range(which).quantity);
-        if (v) {
-            if (auto problem = range_problem(which, *v)) {
-                errors_.add(n, path, *problem);
-                return std::nullopt;
-            }
-        }
-        return v;
+        return yamlio::ranged_cell(errors_, n, path, which);
     }
 
     void read_areas(const MapFields& s) {
@@ -602,146 +600,11 @@ private:
     // ---------------------------------------------------------------- rolling stock
 
     void read_train_types(const MapFields& top, const YAML::Node& seq) {
-        const std::string path = top.path_of("train_types");
-        if (seq.size() == 0) top.error("train_types", "at least one train type is needed");
-        for (std::size_t i = 0; i < seq.size(); ++i) {
-            MapFields f(errors_, seq[i], item(path, i),
-                        {"id", "length", "mass", "rotating_mass_factor", "max_speed", "traction",
-                         "resistance", "braking", "performance", "min_dwell", "supplement"});
-            if (!f.ok()) continue;
-            const std::size_t errors_before = errors_.size();
-            TrainType tt;
-            auto id = f.text("id", true);
-            if (auto v = ranged(f, "length", Input::train_length, true)) {
-                tt.length = *v;
-                if (length_ && *v > *length_)
-                    f.error("length", "the train (" + km(*v) + ") is longer than the whole line (" + km(*length_) + ")");
-            }
-            if (auto v = ranged(f, "mass", Input::mass, true)) tt.mass = *v;
-            // At least 1: rotating parts add to the mass to accelerate, never subtract.
-            if (auto v = ranged(f, "rotating_mass_factor", Input::rotating_mass_factor, false))
-                tt.rotating_mass_factor = *v;
-            if (auto v = ranged(f, "max_speed", Input::max_speed, true)) tt.max_speed = *v;
-            if (f.require("traction")) read_traction(f, tt);
-            if (f.require("resistance")) {
-                MapFields r(errors_, f.get("resistance"), f.path_of("resistance"), {"a", "b", "c"});
-                if (auto v = ranged(r, "a", Input::davis_a, true)) tt.davis_a = *v;
-                if (auto v = ranged(r, "b", Input::davis_b, false)) tt.davis_b = *v;
-                if (auto v = ranged(r, "c", Input::davis_c, false)) tt.davis_c = *v;
-            }
-            if (f.require("braking")) read_braking(f, tt);
-            if (auto v = ranged(f, "performance", Input::performance, false)) tt.performance = *v;
-            if (auto v = ranged(f, "min_dwell", Input::min_dwell, false)) tt.min_dwell = *v;
-            if (f.has("supplement")) {
-                MapFields s(errors_, f.get("supplement"), f.path_of("supplement"),
-                            {"percent", "per_100km", "threshold"});
-                if (auto v = ranged(s, "percent", Input::supplement_share, false)) tt.supplement.share = *v;
-                if (auto v = ranged(s, "per_100km", Input::supplement_per_100km, false))
-                    tt.supplement.per_100km = *v;
-                if (auto v = ranged(s, "threshold", Input::supplement_threshold, false))
-                    tt.supplement.distance_threshold = *v;
-            }
-            // A type read without errors must also be able to run: start and get going on level
-            // track (climbs are each service's own, checked when it is planned).
-            if (errors_.size() == errors_before) {
-                const std::string problem = level_track_problem(tt);
-                if (!problem.empty()) f.error("traction", "train type " + id.value_or("") + " " + problem);
-            }
-            if (!id) continue;
-            if (auto it = train_type_lines_.find(*id); it != train_type_lines_.end()) {
-                f.error("id", "train type id \"" + *id + "\" is used twice (first at line " +
-                                  std::to_string(it->second) + ")");
-                continue;
-            }
-            tt.id = *id;
-            sc_.sources.train_types[tt.id] = yamlio::location(errors_.file(), f.node().Mark(), f.path());
-            train_type_lines_[tt.id] = line_of(f.get("id"));
-            train_type_ids_.push_back(tt.id);
-            sc_.train_types.push_back(tt);
-        }
-    }
-
-    void read_traction(const MapFields& f, TrainType& tt) {
-        MapFields t(errors_, f.get("traction"), f.path_of("traction"),
-                    {"max_force", "power", "table", "adhesion_mass"});
-        if (!t.ok()) return;
-        if (auto v = ranged(t, "max_force", Input::max_force, false)) tt.max_force = *v;
-        if (auto v = ranged(t, "power", Input::power, false)) tt.power = *v;
-        if (auto v = ranged(t, "adhesion_mass", Input::adhesion_mass, false)) {
-            // Only the weight on driven wheels gives adhesion: part of the train at most.
-            if (tt.mass > 0.0 && *v > tt.mass)
-                t.error("adhesion_mass", "the adhesion mass (" + value_text(input_range(Input::mass), *v) +
-                                             ") is more than the train's mass (" +
-                                             value_text(input_range(Input::mass), tt.mass) + ")");
-            else
-                tt.adhesion_mass = *v;
-        }
-        const bool envelope = t.has("max_force") || t.has("power");
-        if (t.has("table")) {
-            if (envelope)
-                errors_.add(t.node(), t.path(),
-                            "give either a table or max_force/power, not both");
-            if (auto table = read_table(t.get("table"), t.path_of("table"), Input::table_force))
-                tt.force_table = *table;
-        } else if (!envelope) {
-            errors_.add(t.node(), t.path(),
-                        "give max_force and/or power, or a table [[speed, force], ...]");
-        }
-    }
-
-    void read_braking(const MapFields& f, TrainType& tt) {
-        MapFields b(errors_, f.get("braking"), f.path_of("braking"), {"deceleration", "delay"});
-        if (!b.ok()) return;
-        if (b.require("deceleration")) {
-            const YAML::Node d = b.get("deceleration");
-            if (d.IsSequence()) {
-                if (auto table = read_table(d, b.path_of("deceleration"), Input::braking))
-                    tt.braking_table = *table;
-            } else if (auto v = ranged(b, "deceleration", Input::braking, true)) {
-                tt.braking = *v;
-            }
-        }
-        if (auto v = ranged(b, "delay", Input::brake_delay, false)) tt.brake_delay = *v;
-    }
-
-    // [[speed, value], ...] sorted by speed, strictly ascending.
-    std::optional<std::vector<std::pair<double, double>>> read_table(const YAML::Node& n,
-                                                                     const std::string& path,
-                                                                     Input which) {
-        if (!n.IsSequence()) {
-            errors_.add(n, path, "expected a table: a list of [speed, value] rows");
-            return std::nullopt;
-        }
-        if (n.size() == 0) {
-            errors_.add(n, path, "the table has no rows");
-            return std::nullopt;
-        }
-        std::vector<std::pair<double, double>> rows;
-        bool ok = true;
-        for (std::size_t i = 0; i < n.size(); ++i) {
-            const YAML::Node row = n[i];
-            const std::string rp = item(path, i);
-            if (!row.IsSequence() || row.size() != 2) {
-                errors_.add(row, rp, "each row is [speed, value], e.g. [60 km/h, 120 kN]");
-                ok = false;
-                continue;
-            }
-            auto v = ranged_cell(row[0], item(rp, 0), Input::table_speed);
-            auto y = ranged_cell(row[1], item(rp, 1), which);
-            if (!v || !y) {
-                ok = false;
-                continue;
-            }
-            if (!rows.empty() && *v <= rows.back().first) {
-                errors_.add(row[0], item(rp, 0),
-                            "rows must be sorted by speed, ascending: " + yamlio::kmh(*v) +
-                                " follows " + yamlio::kmh(rows.back().first));
-                ok = false;
-            }
-            rows.emplace_back(*v, *y);
-        }
-        if (!ok) return std::nullopt;
-        return rows;
+        yamlio::TrainTypeList list = yamlio::read_train_types(errors_, top, seq, length_);
+        sc_.train_types = std::move(list.types);
+        sc_.sources.train_types = std::move(list.where);
+        train_type_lines_ = std::move(list.lines);
+        train_type_ids_ = std::move(list.ids);
     }
 
     // ---------------------------------------------------------------- timetable
@@ -975,53 +838,7 @@ private:
                 continue;
             }
             Call call;
-            if (auto s = c.text("station", true))
-                call.station = *s;
-            else
-                src.ok = calls_ok = false;
-            if (c.has("pass")) {
-                call.stops = false;
-                auto p = c.text("pass", true);
-                if (!p) {
-                    src.ok = calls_ok = false;
-                } else if (*p != "auto") {
-                    if (auto t = c.time_of_day("pass", true))
-                        call.departure = *t;
-                    else
-                        src.ok = calls_ok = false;
-                }
-                for (std::string_view k : {"arr", "dep", "min_dwell"})
-                    if (c.has(k)) {
-                        c.error(k, "a passing call (pass given) has no " + std::string(k) +
-                                       "; drop one or the other");
-                        src.ok = calls_ok = false;
-                    }
-            } else {
-                if (c.has("arr")) {
-                    if (auto t = c.time_of_day("arr", true))
-                        call.arrival = *t;
-                    else
-                        src.ok = calls_ok = false;
-                }
-                if (c.has("dep")) {
-                    if (auto t = c.time_of_day("dep", true))
-                        call.departure = *t;
-                    else
-                        src.ok = calls_ok = false;
-                }
-                if (c.has("min_dwell")) {
-                    if (auto v = ranged(c, "min_dwell", Input::min_dwell, true))
-                        call.min_dwell = *v;
-                    else
-                        src.ok = calls_ok = false;
-                }
-            }
-            if (c.has("track")) {
-                if (auto t = c.text("track", true))
-                    call.track = *t;
-                else
-                    src.ok = calls_ok = false;
-            }
+            if (!yamlio::read_call(c, call)) src.ok = calls_ok = false;
             svc.calls.push_back(call);
             src.calls.push_back(c);
         }
@@ -1096,23 +913,9 @@ private:
             return;
         }
         // Given times must not run backwards along the calls (arr before dep within a call).
-        std::optional<double> last;
-        std::string last_what;
-        for (std::size_t j = 0; j < svc.calls.size(); ++j) {
-            const Call& call = svc.calls[j];
-            const MapFields& c = src.calls[j];
-            const std::pair<const char*, std::optional<double>> times[] = {
-                {"arr", call.arrival}, {call.stops ? "dep" : "pass", call.departure}};
-            for (const auto& [key, t] : times) {
-                if (!t) continue;
-                if (last && *t < *last) {
-                    c.error(key, std::string(key) + " " + format_time_of_day(*t) +
-                                     " is earlier than " + last_what);
-                    src.ok = false;
-                }
-                last = t;
-                last_what = std::string(key) + " " + format_time_of_day(*t) + " at " + call.station;
-            }
+        for (const CallTimeProblem& p : call_time_problems(svc.calls)) {
+            src.calls[p.call].error(p.key, p.message);
+            src.ok = false;
         }
         if (svc.calls.empty()) return;
         const Call& first = svc.calls.front();
@@ -1246,189 +1049,14 @@ private:
     void read_delays(const YAML::Node& node, const std::string& path) {
         MapFields m(errors_, node, path, {"entry", "dwell", "running", "disruptions"});
         if (!m.ok()) return;
-        read_delay_rules(m, "entry", sc_.delays.entry);
-        read_delay_rules(m, "dwell", sc_.delays.dwell);
-        read_delay_rules(m, "running", sc_.delays.running);
-        read_disruptions(m);
-    }
-
-    // "20 %" for messages.
-    static std::string percent(double share) {
-        char buf[64];
-        std::snprintf(buf, sizeof buf, "%g %%", share * 100.0);
-        return buf;
-    }
-
-    static std::string seconds(double s) {
-        char buf[64];
-        std::snprintf(buf, sizeof buf, "%g s", s);
-        return buf;
-    }
-
-    // A share between 0 % and 100 %.
-    std::optional<double> probability(const MapFields& f, std::string_view key, bool required) {
-        return ranged(f, key, Input::probability, required);
-    }
-
-    void read_delay_rules(const MapFields& m, std::string_view key, std::vector<DelayRule>& out) {
-        auto seq = m.sequence(key, false);
-        if (!seq) return;
-        const std::string path = m.path_of(key);
-        for (std::size_t i = 0; i < seq->size(); ++i) {
-            MapFields f(errors_, std::as_const(*seq)[i], item(path, i),
-                        {"category", "station", "probability", "distribution", "mean", "shape",
-                         "scale", "median", "sigma", "quantiles"});
-            if (!f.ok()) continue;
-            DelayRule rule;
-            bool ok = true;
-            if (f.has("category")) {
-                if (auto c = f.text("category", true))
-                    rule.category = *c;   // free text, as on the services
-                else
-                    ok = false;
-            }
-            if (f.has("station")) {
-                if (auto s = f.text("station", true)) {
-                    rule.station = *s;
-                    if (station_index_.count(*s) == 0) {
-                        f.error("station", "unknown station \"" + *s + "\"; " + known_list(station_ids_));
-                        ok = false;
-                    }
-                } else {
-                    ok = false;
-                }
-            }
-            if (f.has("probability")) {
-                if (auto p = probability(f, "probability", true))
-                    rule.distribution.probability = *p;
-                else
-                    ok = false;
-            }
-            if (!read_distribution(f, rule.distribution)) ok = false;
-            if (ok) out.push_back(std::move(rule));
-        }
-    }
-
-    // `distribution` and the parameters of that kind, no others.
-    bool read_distribution(const MapFields& f, DelayDistribution& d) {
-        auto kind = f.choice("distribution", {"exponential", "weibull", "lognormal", "gamma", "empirical"},
-                             true);
-        if (!kind) return false;
-        std::vector<std::string_view> params;
-        if (*kind == "exponential") {
-            d.kind = DistributionKind::exponential;
-            params = {"mean"};
-        } else if (*kind == "weibull" || *kind == "gamma") {
-            d.kind = *kind == "weibull" ? DistributionKind::weibull : DistributionKind::gamma;
-            params = {"shape", "scale"};
-        } else if (*kind == "lognormal") {
-            d.kind = DistributionKind::lognormal;
-            params = {"median", "sigma"};
-        } else {
-            d.kind = DistributionKind::empirical;
-            params = {"quantiles"};
-        }
-        bool ok = true;
-        std::string takes;
-        for (auto p : params) takes += (takes.empty() ? "" : " and ") + std::string(p);
-        for (std::string_view p : {"mean", "shape", "scale", "median", "sigma", "quantiles"}) {
-            if (f.has(p) && std::find(params.begin(), params.end(), p) == params.end()) {
-                f.error(p, std::string(p) + " does not belong to the " + *kind + " distribution, which takes " +
-                               takes);
-                ok = false;
-            }
-        }
-        auto need = [&](std::string_view key, Input which, double& into) {
-            if (auto v = ranged(f, key, which, true))
-                into = *v;
-            else
-                ok = false;
+        auto station_problem = [&](const std::string& id) -> std::optional<std::string> {
+            if (station_index_.count(id)) return std::nullopt;
+            return "unknown station \"" + id + "\"; " + known_list(station_ids_);
         };
-        switch (d.kind) {
-            case DistributionKind::exponential: need("mean", Input::delay_duration, d.mean); break;
-            case DistributionKind::weibull:
-            case DistributionKind::gamma:
-                need("shape", Input::delay_shape, d.shape);
-                need("scale", Input::delay_duration, d.scale);
-                break;
-            case DistributionKind::lognormal:
-                need("median", Input::delay_duration, d.median);
-                need("sigma", Input::delay_sigma, d.sigma);
-                break;
-            case DistributionKind::empirical:
-                if (!read_quantiles(f, d.quantiles)) ok = false;
-                break;
-        }
-        if (ok) {
-            const std::string problem = d.size_problem();
-            if (!problem.empty()) {
-                errors_.add(f.node(), f.path(), problem);
-                ok = false;
-            }
-        }
-        return ok;
-    }
-
-    // [[p, delay], ...]: p from 0 % to 100 %, strictly increasing; delays not negative, never
-    // decreasing (a quantile function).
-    bool read_quantiles(const MapFields& f, std::vector<std::pair<double, double>>& out) {
-        auto seq = f.sequence("quantiles", true);
-        if (!seq) return false;
-        const std::string path = f.path_of("quantiles");
-        if (seq->size() < 2) {
-            f.error("quantiles", "at least two rows are needed, the first at 0 % and the last at 100 %");
-            return false;
-        }
-        bool ok = true;
-        std::optional<double> prev_p, prev_v;
-        for (std::size_t i = 0; i < seq->size(); ++i) {
-            const YAML::Node row = std::as_const(*seq)[i];
-            const std::string rp = item(path, i);
-            if (!row.IsSequence() || row.size() != 2) {
-                errors_.add(row, rp, "each row is [share, delay], e.g. [50 %, 60 s]");
-                ok = false;
-                continue;
-            }
-            auto p = yamlio::quantity_of(errors_, row[0], item(rp, 0), Quantity::share);
-            auto v = ranged_cell(row[1], item(rp, 1), Input::empirical_delay);
-            if (!p || !v) {
-                ok = false;
-                continue;
-            }
-            // Snap rounding noise at the ends ("100 %" is exactly 1).
-            if (std::abs(*p) < 1e-12) *p = 0.0;
-            if (std::abs(*p - 1.0) < 1e-12) *p = 1.0;
-            if (*p < 0.0 || *p > 1.0) {
-                errors_.add(row[0], item(rp, 0), "must lie between 0 % and 100 %, not " + percent(*p));
-                ok = false;
-            } else if (i == 0 && *p != 0.0) {
-                errors_.add(row[0], item(rp, 0), "the table must start at 0 %, not " + percent(*p));
-                ok = false;
-            } else if (i + 1 == seq->size() && *p != 1.0) {
-                errors_.add(row[0], item(rp, 0), "the table must end at 100 %, not " + percent(*p));
-                ok = false;
-            }
-            if (prev_p && *p <= *prev_p) {
-                errors_.add(row[0], item(rp, 0),
-                            "rows must be sorted by share, strictly increasing: " + percent(*p) +
-                                " follows " + percent(*prev_p));
-                ok = false;
-            }
-            if (*v < 0.0) {
-                errors_.add(row[1], item(rp, 1), "must not be negative");
-                ok = false;
-            } else if (prev_v && *v < *prev_v) {
-                errors_.add(row[1], item(rp, 1),
-                            "delays must not decrease as the share grows: " + seconds(*v) + " follows " +
-                                seconds(*prev_v));
-                ok = false;
-            }
-            prev_p = p;
-            prev_v = v;
-            out.emplace_back(*p, *v);
-        }
-        if (!ok) out.clear();
-        return ok;
+        yamlio::read_delay_rules(errors_, m, "entry", sc_.delays.entry, station_problem);
+        yamlio::read_delay_rules(errors_, m, "dwell", sc_.delays.dwell, station_problem);
+        yamlio::read_delay_rules(errors_, m, "running", sc_.delays.running, station_problem);
+        read_disruptions(m);
     }
 
     void read_disruptions(const MapFields& m) {
@@ -1444,7 +1072,7 @@ private:
             auto track = f.text("track", true);
             auto from = f.quantity("from", Quantity::length, true);
             auto to = f.quantity("to", Quantity::length, true);
-            auto p = probability(f, "daily_probability", true);
+            auto p = ranged(f, "daily_probability", Input::probability, true);
             bool ok = track && from && to && p;
             if (from && to && *from >= *to) {
                 f.error("to", "the range must end beyond its start: to " + km(*to) + " is not beyond from " +
@@ -1463,7 +1091,7 @@ private:
                     }
                 }
             }
-            if (!read_distribution(f, rule.duration)) ok = false;
+            if (!yamlio::read_distribution(errors_, f, rule.duration)) ok = false;
             if (f.has("window") && !read_window(f, rule)) ok = false;
             if (!ok) continue;
             rule.track = *track;
@@ -1659,29 +1287,37 @@ std::string read_text_file(const std::string& path) {
 
 }  // namespace
 
-Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
-    ErrorList errors(file_name);
+namespace yamlio {
+
+bool is_base_variant(const std::string& variant) { return variant.empty() || variant == kBaseVariant; }
+
+YAML::Node variant_document(const std::string& yaml_text, const std::string& variant, ErrorList& errors) {
     YAML::Node root = load_document(yaml_text, errors);
     const VariantsSection variants = read_variants_section(root, errors);
-    const bool base = variant.empty() || variant == kBaseVariant;
-    if (!base) {
-        const VariantSource* chosen = nullptr;
-        std::vector<std::string> names;
-        for (const VariantSource& v : variants.list) {
-            names.push_back(v.name);
-            if (v.name == variant && !chosen) chosen = &v;
-        }
-        if (!chosen) {
-            if (!variants.present)
-                errors.add(root.Mark(), "variants",
-                           "the scenario has no variants, so there is no variant \"" + variant + "\"");
-            else
-                errors.add(variants.key_mark, "variants",
-                           "no variant named \"" + variant + "\"; " + known_list(names));
-            throw ScenarioError(errors.messages());
-        }
-        yamlio::merge_into(root, overlay_body(chosen->overlay));
+    if (is_base_variant(variant)) return root;
+    const VariantSource* chosen = nullptr;
+    std::vector<std::string> names;
+    for (const VariantSource& v : variants.list) {
+        names.push_back(v.name);
+        if (v.name == variant && !chosen) chosen = &v;
     }
+    if (!chosen) {
+        if (!variants.present)
+            errors.add(root.Mark(), "variants", "the scenario has no variants, so there is no variant \"" + variant + "\"");
+        else
+            errors.add(variants.key_mark, "variants", "no variant named \"" + variant + "\"; " + known_list(names));
+        throw ScenarioError(errors.messages());
+    }
+    yamlio::merge_into(root, overlay_body(chosen->overlay));
+    return root;
+}
+
+}  // namespace yamlio
+
+Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
+    ErrorList errors(file_name);
+    YAML::Node root = yamlio::variant_document(yaml_text, variant, errors);
+    const bool base = yamlio::is_base_variant(variant);
     Scenario sc;
     try {
         sc = ScenarioParser(errors).parse(root);

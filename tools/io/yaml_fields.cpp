@@ -265,6 +265,17 @@ std::optional<double> ranged(const MapFields& f, std::string_view key, Input whi
     return v;
 }
 
+std::optional<double> ranged_cell(ErrorList& errors, const YAML::Node& n, const std::string& path, Input which) {
+    auto v = quantity_of(errors, n, path, input_range(which).quantity);
+    if (v) {
+        if (auto problem = range_problem(which, *v)) {
+            errors.add(n, path, *problem);
+            return std::nullopt;
+        }
+    }
+    return v;
+}
+
 std::string kmh(double metres_per_second) {
     char buf[64];
     std::snprintf(buf, sizeof buf, "%.4g km/h", metres_per_second * 3.6);

@@ -118,6 +118,8 @@ YAML::Node load_document(const std::string& yaml_text, ErrorList& errors);
 // A field read as its kind of input and held to that input's plausible range (models/input_ranges):
 // out of range is an error at the field and nothing is returned.
 std::optional<double> ranged(const MapFields& f, std::string_view key, Input which, bool required);
+// The same for a node read directly (a table cell, a map's value).
+std::optional<double> ranged_cell(ErrorList& errors, const YAML::Node& n, const std::string& path, Input which);
 
 // Chainage, speed and time texts for messages: "14.1 km", "120 km/h", "06:15:30".
 std::string km(double metres);

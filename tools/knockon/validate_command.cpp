@@ -47,10 +47,9 @@ std::vector<std::string> plan_warnings(const Scenario& sc, const PlanResult& pla
     return out;
 }
 
-// A network file (knockon: 2) holds a layout only so far: read, checked, its detection sections
-// and routes found.
-int validate_network(const std::string& file) {
-    const NetworkFile nf = read_network(file);
+// What validate prints of a network file (knockon: 2) read without problems: the layout's counts,
+// then its train types, services and corridors.
+void print_network(const std::string& file, const NetworkFile& nf) {
     const net::Network& n = nf.network;
     auto count = [](std::size_t k, const char* one, const char* many) { return std::to_string(k) + " " + (k == 1 ? one : many); };
     std::printf("%s: ok: network %s; %s, %s, %s, %s; %s, %s\n", file.c_str(), nf.name.c_str(),
@@ -58,6 +57,54 @@ int validate_network(const std::string& file) {
                 count(n.signals.size(), "signal", "signals").c_str(), count(n.stations.size(), "station", "stations").c_str(),
                 count(nf.sections, "detection section", "detection sections").c_str(),
                 count(nf.routes, "route", "routes").c_str());
+    const net::NetworkTimetable& tt = nf.timetable;
+    if (nf.train_types.empty() && tt.services.empty()) return;
+    std::printf("%s: ok: %s, %s with their paths; corridors:", file.c_str(),
+                count(nf.train_types.size(), "train type", "train types").c_str(),
+                count(tt.services.size(), "service", "services").c_str());
+    for (const net::Corridor& c : net::corridors_of(tt)) {
+        std::string stations;
+        for (const std::string& st : c.stations) stations += (stations.empty() ? "" : " ") + st;
+        std::printf(" %s (%s);", c.name.c_str(), stations.c_str());
+    }
+    std::printf(" %s\n", tt.corridors.empty() ? "one per route of the services" : "as written");
+}
+
+// A network file: the layout read and checked, its detection sections and routes found; its train
+// types, timetable (every service's path laid), corridors and delays read and checked; the same
+// for each variant, a problem of the base reported once.  Planning and running come next.
+int validate_network(const std::string& file) {
+    std::vector<std::string> problems;
+    std::set<std::string> seen;
+    auto add = [&](const std::vector<std::string>& messages, const std::string& variant) {
+        for (const std::string& m : messages)
+            if (seen.insert(m).second) problems.push_back(variant.empty() ? m : m + " (in variant " + variant + ")");
+    };
+    NetworkFile base;
+    try {
+        base = read_network(file);
+    } catch (const ScenarioError& e) {
+        add(e.messages, "");
+    }
+    std::vector<VariantInfo> variants;
+    try {
+        variants = read_variants(file);
+    } catch (const ScenarioError& e) {
+        add(e.messages, "");
+    }
+    std::vector<std::pair<std::string, NetworkFile>> read;
+    for (const VariantInfo& v : variants) {
+        try {
+            read.emplace_back(v.name, read_network(file, v.name));
+        } catch (const ScenarioError& e) {
+            add(e.messages, v.name);
+        }
+    }
+    if (!problems.empty()) throw ScenarioError(problems);
+    print_network(file, base);
+    for (const auto& [name, nf] : read) print_network(file + " (variant " + name + ")", nf);
+    if (!variants.empty())
+        std::printf("%s: ok (base and %zu variant%s)\n", file.c_str(), variants.size(), variants.size() == 1 ? "" : "s");
     return 0;
 }
 
