@@ -49,6 +49,7 @@ PRESETS = {
     "plan": Expect(
         selectors=[
             "div.caution",
+            "section#verdict table",
             "section#time-distance svg.knockon-chart.time-distance",
             "svg.knockon-chart.time-distance .train-path",
             "svg.knockon-chart.time-distance .block",
@@ -57,7 +58,11 @@ PRESETS = {
             "section#capacity svg.knockon-chart.capacity",
             "svg.knockon-chart.capacity .cap-bar",
             "svg.knockon-chart.capacity .cap-limit",
+            "section#capacity svg.knockon-chart.hourly-capacity .hour-bar",
             "section#buffers table",
+            "section#running-times table",
+            "section#headway-matrix table",
+            "section#run-facts table.facts",
             "footer",
         ],
         **EVERY_REPORT,
@@ -83,7 +88,9 @@ PRESETS = {
     "study": Expect(
         selectors=[
             "div.caution",
-            "section#results table",
+            "section#verdict table",
+            "section#verdict #top-sources",
+            "section#verdict #top-buffers",
             "section#time-distance svg.knockon-chart.time-distance",
             "svg.knockon-chart.time-distance .train-path",
             "svg.knockon-chart.time-distance .asrun-path",
@@ -93,7 +100,10 @@ PRESETS = {
             "section#delays svg.knockon-chart .ci-whisker",
             "section#delay-growth svg.knockon-chart.hbars .hbar",
             "section#capacity svg.knockon-chart.capacity .cap-bar",
+            "section#capacity svg.knockon-chart.hourly-capacity .hour-bar",
             "section#buffers table",
+            "section#running-times table",
+            "section#run-facts table.facts",
             "footer",
         ],
         **EVERY_REPORT,

@@ -84,7 +84,9 @@ int plot(const std::vector<std::string>& args) {
     co.width = width;
     svg::Element doc("svg");
     if (chart == "time-distance") {
-        const TimeWindow w = checked_window(pl, request, nullptr);
+        WindowRequest asked = request;   // as for report: the day's worst hour unless asked otherwise
+        if (in && in->view.day) asked.worst = worst_knock_on_hour(*in->view.day);
+        const TimeWindow w = checked_window(pl, asked, nullptr);
         const AsRunOverlay* as_run = in && in->as_run ? &*in->as_run : nullptr;
         co.title = sc.name + ": time-distance diagram, " + svg::format_hhmm(w.from) + "-" + svg::format_hhmm(w.to) +
                    (as_run ? " (" + as_run->label + ")" : std::string());
