@@ -21,6 +21,7 @@
 #include "models/units.hpp"
 #include "tools/io/as_run.hpp"
 #include "tools/io/chart_kit.hpp"
+#include "tools/io/hdf5_read.hpp"
 #include "tools/io/plan_charts.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "results_test_support.hpp"
@@ -403,4 +404,45 @@ TEST_CASE("above the limit and significant have a mark each and the legend shows
     CHECK(count_class(variants, "signif") == significant);
     CHECK(count_class(variants, "warn") == 0);
     CHECK(page.find("tr.signif td:first-child::before { content: \"\\25C6") != std::string::npos);
+}
+
+TEST_CASE("the verdict of a study gives the JSON's figures and names the days that ended in deadlock",
+          "[report][cli]") {
+    // single_line_crossings.yaml under first come first served deadlocks on some days (accepted).
+    TempDir dir;
+    const std::string crossings = kSource + "/tests/data/study/single_line_crossings.yaml";
+    const fs::path h5 = dir.path / "study.h5";
+    const Result r = run_knockon("simulate " + q(crossings) + " --replications 40 --order first-come --json "
+                                 "--allow-deadlock --out " + q(h5),
+                                 dir);
+    INFO(r.err);
+    REQUIRE(r.status == 0);
+    const json j = json::parse(r.out);
+    const std::string page = report_page(h5.string(), dir);
+    const std::string verdict = section_of(page, "verdict");
+    // The deadlocked days: the count from the JSON, the replication numbers from the file's flags.
+    const std::size_t deadlocked = j["study"]["deadlocked_days"].get<std::size_t>();
+    REQUIRE(deadlocked > 0);
+    CHECK(verdict_value(page, "days that ended in deadlock") ==
+          std::to_string(deadlocked) + " of " + std::to_string(j["study"]["replications"].get<int>()));
+    const knockon::h5::InputFile f(h5.string());
+    const std::vector<double> flags = f.number_column("/study/per_day", "deadlocked");
+    std::string days;
+    std::size_t named = 0;
+    for (std::size_t k = 0; k < flags.size(); ++k)
+        if (flags[k] != 0.0 && named++ < 20) days += (days.empty() ? "" : ", ") + std::to_string(k);
+    CHECK(named == deadlocked);
+    CHECK(verdict.find("Days that ended in deadlock (replication numbers): " + days) != std::string::npos);
+    // Knock-on per day: mean and 95 % half-width as the JSON gives them.
+    const json& k = j["per_day"]["total_knock_on_s"];
+    char want[64];
+    std::snprintf(want, sizeof want, "%.2f \u00B1 %.2f min", k["mean"].get<double>() / 60.0,
+                  k["ci95_half_width"].get<double>() / 60.0);
+    CHECK(verdict_value(page, "knock-on delay") == want);
+    // The two lists have their places, and say plainly that this file cannot fill them.
+    CHECK(verdict.find("<div id=\"top-sources\">") != std::string::npos);
+    CHECK(verdict.find("<div id=\"top-buffers\">") != std::string::npos);
+    CHECK(count_class(verdict, "not-given") == 2);
+    // The deadlock alert stays above the verdict.
+    CHECK(page.find("role=\"alert\"") < page.find("<section id=\"verdict\""));
 }
