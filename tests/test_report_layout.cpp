@@ -272,6 +272,12 @@ TEST_CASE("the hourly capacity profile equals a hand computation of UIC 406 occu
     const std::string chart = knockon::svg::to_string(knockon::hourly_capacity_chart(plan), false);
     CHECK(count_class(chart, "hour-bar") == 2);
     CHECK(count_class(chart, "cap-limit") == 1);
+    // The same chart on its own through plot.
+    const fs::path svg = dir.path / "hourly.svg";
+    const Result p = run_knockon("plot " + q(scenario) + " --chart hourly-capacity --svg " + q(svg), dir);
+    INFO(p.err);
+    REQUIRE(p.status == 0);
+    CHECK(count_class(read_text(svg), "hour-bar") == 2);
 }
 
 TEST_CASE("the diagram opens on the hour a hand-made day lost the most time in", "[report]") {
