@@ -59,7 +59,7 @@ double system_warning_point(const ServiceRun& run, std::size_t i) {
     const double brake = braking_start(run, sig.s);
     switch (sig.system) {
         case AspectSystem::two_aspect:
-            return sig.signal->distant_distance ? sig.s - *sig.signal->distant_distance : brake;
+            return sig.signal.distant_distance ? sig.s - *sig.signal.distant_distance : brake;
         case AspectSystem::three_aspect:
             return i >= 1 ? path.signals[i - 1].s : brake;
         case AspectSystem::four_aspect:
@@ -108,8 +108,8 @@ double aspect_read_point(const PathSignal& sig) {
     switch (sig.system) {
         case AspectSystem::cab_fixed_block: return -INFINITY;
         case AspectSystem::two_aspect:
-            return sig.s - sig.signal->distant_distance.value_or(0.0) - sig.signal->sighting_distance;
-        default: return sig.s - sig.signal->sighting_distance;
+            return sig.s - sig.signal.distant_distance.value_or(0.0) - sig.signal.sighting_distance;
+        default: return sig.s - sig.signal.sighting_distance;
     }
 }
 
@@ -122,7 +122,7 @@ std::vector<WarningShortfall> warning_shortfalls(const ServiceRun& run) {
         double from = kNoTime;   // where the first warning is given
         switch (sig.system) {
             case AspectSystem::two_aspect:
-                if (sig.signal->distant_distance) from = sig.s - *sig.signal->distant_distance;
+                if (sig.signal.distant_distance) from = sig.s - *sig.signal.distant_distance;
                 break;
             case AspectSystem::three_aspect:
                 if (i >= 1) from = path.signals[i - 1].s;
@@ -154,12 +154,12 @@ Stairway blocking_stairway(const ServiceRun& run, const InterlockingTimes& times
         const PathSignal& sig = path.signals[i];
         if (sig.s < -1e-6 || sig.s >= path.length - 1e-6) continue;
         RouteBlocking r;
-        r.entry_signal = sig.signal->id;
+        r.entry_signal = sig.signal.name;
         r.s_entry = sig.s;
         if (i + 1 < path.signals.size()) {
-            r.exit_signal = path.signals[i + 1].signal->id;
+            r.exit_signal = path.signals[i + 1].signal.name;
             r.s_exit = path.signals[i + 1].s;
-            r.overlap = path.signals[i + 1].signal->overlap;
+            r.overlap = path.signals[i + 1].signal.overlap;
         } else {
             r.s_exit = path.ends_at_edge ? path.length : std::min(path.length, path.s_max);
         }

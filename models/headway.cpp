@@ -22,11 +22,10 @@ std::optional<SectionStairway> stairway_in(const LineSection& ls, std::size_t tr
     // A train belongs to the line section when its path runs from one station to the other,
     // whether or not it has calls there; its reference is when its head leaves the first.
     if (run.path.direction != ls.direction) return std::nullopt;
-    const Infrastructure& infra = *run.path.infrastructure;
-    const Station* from = infra.find_station(ls.from_station);
-    const Station* to = infra.find_station(ls.to_station);
-    if (!from || !to) return std::nullopt;
-    const double s_from = run.path.s_at_chainage(from->at), s_to = run.path.s_at_chainage(to->at);
+    // The line section runs from its first station to the other: up from x_lo, down from x_hi.
+    const bool up = ls.direction == Direction::up;
+    const double s_from = run.path.s_at_chainage(up ? ls.x_lo : ls.x_hi);
+    const double s_to = run.path.s_at_chainage(up ? ls.x_hi : ls.x_lo);
     if (std::isnan(s_from) || std::isnan(s_to) || s_to < s_from) return std::nullopt;
     SectionStairway out;
     out.train = train;

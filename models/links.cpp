@@ -62,10 +62,10 @@ std::optional<std::size_t> connecting_call(const Service& s, const std::string& 
 
 // The track a path uses at s: for an end, the piece reaching s from behind; for a start, the
 // piece leaving s.
-const Track* track_at(const TrainPath& path, double s, bool ending) {
+const std::string* track_at(const TrainPath& path, double s, bool ending) {
     for (const PathPiece& p : path.pieces)
         if (ending ? (p.s_from < s - 1e-6 && s <= p.s_to + 1e-6) : (p.s_from - 1e-6 <= s && s < p.s_to - 1e-6))
-            return p.track;
+            return &p.track;
     return nullptr;
 }
 
@@ -84,7 +84,7 @@ std::optional<LinkCalls> link_calls(const ServiceLink& link, const Service& from
     return LinkCalls{from.calls.size() - 1, 0};
 }
 
-std::optional<std::string> link_problem(const Infrastructure& infra, const ServiceLink& link, const Service& from,
+std::optional<std::string> link_problem(const LinePaths& paths, const ServiceLink& link, const Service& from,
                                         const Service& to) {
     const std::string what = std::string(to_string(link.kind)) + " from " + from.id + " to " + to.id;
     if (from.id == to.id) return what + ": a service cannot be linked to itself";
@@ -109,17 +109,17 @@ std::optional<std::string> link_problem(const Infrastructure& infra, const Servi
                "; the set can only form a service where it stands (a crew link may join different places)";
     TrainPath a, b;
     try {
-        a = build_path(infra, from);
-        b = build_path(infra, to);
+        a = paths.lay(from);
+        b = paths.lay(to);
     } catch (const PathError&) {
         return std::nullopt;   // the path's own problem is reported with the service
     }
     if (a.timing_points.empty()) return std::nullopt;
-    const Track* ta = track_at(a, a.timing_points.back().s, true);
-    const Track* tb = track_at(b, 0.0, false);
-    if (ta && tb && ta != tb)
-        return what + ": " + from.id + " ends at " + end + " on track " + ta->id + " but " + to.id +
-               " starts on track " + tb->id + "; a turnaround keeps the set on its platform track (give the "
+    const std::string* ta = track_at(a, a.timing_points.back().s, true);
+    const std::string* tb = track_at(b, 0.0, false);
+    if (ta && tb && *ta != *tb)
+        return what + ": " + from.id + " ends at " + end + " on track " + *ta + " but " + to.id +
+               " starts on track " + *tb + "; a turnaround keeps the set on its platform track (give the "
                "calls a track " + std::string(from.direction == to.direction ? "" : "worked in both directions, ") +
                "that both use)";
     return std::nullopt;

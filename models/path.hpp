@@ -1,22 +1,25 @@
 #pragma once
-// The path of one service through the infrastructure, as a one-dimensional coordinate s
-// (metres from the path's start, increasing in the direction of travel), with everything
-// that lies along it: the track pieces used, train-detection sections, main signals and the
-// timing points.  Running times, blocking times and the simulation all work on this view.
+// The path of one service through the network, as a one-dimensional coordinate s (metres from
+// the path's start, increasing in the direction of travel), with everything that lies along it:
+// the track pieces used, train-detection sections, main signals and the timing points.  Running
+// times, blocking times and the simulation all work on this view.  It is laid from a network path
+// (models/network/train_path.hpp); a version-1 line's services through models/line_paths.hpp.
 #include <cstddef>
 #include <stdexcept>
 #include <string>
 #include <vector>
 
 #include "models/infrastructure.hpp"
-#include "models/timetable.hpp"
+#include "models/network/network.hpp"
 
 namespace knockon {
 
+// A run over one track: segments of one track joined end to end are one piece.
 struct PathPiece {
-    const Track* track = nullptr;
+    std::string track;                 // the track's name (a line's track id, else the segment's name)
+    std::size_t segment = net::kNone;  // the network segment it starts on
     double s_from = 0.0, s_to = 0.0;   // along the path [m]
-    double x_from = 0.0, x_to = 0.0;   // chainage at s_from and s_to [m]
+    double x_from = 0.0, x_to = 0.0;   // position shown (chainage, kilometre posts) at s_from and s_to [m]
 };
 
 // A train-detection section as this path crosses it.  `id` is the same for every path that uses
@@ -24,12 +27,13 @@ struct PathPiece {
 struct PathSection {
     std::string id;
     double s_from = 0.0, s_to = 0.0;   // along the path [m]
-    double x_lo = 0.0, x_hi = 0.0;     // chainage extent of the whole section [m]
-    const Track* track = nullptr;      // the track it lies on
+    double x_lo = 0.0, x_hi = 0.0;     // position shown at the ends of the section's first piece [m]
+    std::size_t index = net::kNone;    // the network's detection section
 };
 
 struct PathSignal {
-    const Signal* signal = nullptr;
+    std::size_t index = net::kNone;    // the network's signal
+    net::Signal signal;                // its name, overlap, sighting and distant distances
     double s = 0.0;
     AspectSystem system = AspectSystem::three_aspect;
 };
@@ -57,7 +61,6 @@ struct PathProfile {
 };
 
 struct TrainPath {
-    const Infrastructure* infrastructure = nullptr;
     Direction direction = Direction::up;
     double length = 0.0;                   // [m]
     bool starts_at_edge = false;
@@ -71,7 +74,7 @@ struct TrainPath {
     std::vector<PathSignal> signals;       // main signals facing the train, in order
     std::vector<TimingPoint> timing_points;
     PathProfile gradient;      // met by the train (positive climbing)
-    PathProfile speed_limit;   // line speed capped by the track's limit [m/s]
+    PathProfile speed_limit;   // line speed capped by the track's limit and switch legs' speeds [m/s]
 
     double chainage_at(double s) const;
     // Where along the path (within [0, length]) the head passes chainage x; NaN if it does not.
@@ -84,11 +87,6 @@ struct TrainPath {
     // Static speed limit at s for the head (line speed capped by the track's limit) [m/s].
     double speed_limit_at(double s) const;
 };
-
-// Lays the service's path; throws PathError saying what does not connect.  `rear` and `ahead`
-// say how far to extend the layout behind the start and beyond the end [m].
-TrainPath build_path(const Infrastructure& infra, const Service& service, double rear = 0.0,
-                     double ahead = 0.0);
 
 // Chainages on `track` where one detection section ends and the next begins (signals, overlap
 // ends, turnouts, extra joints), sorted, the track's ends included: the one rule for sections.

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <cstdio>
 #include <map>
+#include <optional>
 #include <stdexcept>
 
 #include "models/scenario_error.hpp"
@@ -78,7 +79,7 @@ void add_spacing_warnings(PlanResult& plan) {
     for (std::size_t t = 0; t < plan.trains.size(); ++t) {
         const ServiceRun& run = plan.trains[t].run;
         for (const WarningShortfall& w : warning_shortfalls(run)) {
-            const std::string& id = run.path.signals[w.signal].signal->id;
+            const std::string& id = run.path.signals[w.signal].signal.name;
             auto it = worst.find(id);
             if (it == worst.end() || w.needed - w.available > it->second.needed - it->second.available)
                 worst[id] = {id, t, w.available, w.needed, w.speed};
@@ -148,7 +149,7 @@ void add_conflicts(PlanResult& plan) {
 // Each link of the timetable, resolved to trains and timing points, goes to the train it holds.
 // The reader has checked the links; a scenario built in code gets the same sentences, located at
 // the link.
-void link_trains(const Scenario& scenario, std::vector<TrainPlan>& trains) {
+void link_trains(const Scenario& scenario, const LinePaths& paths, std::vector<TrainPlan>& trains) {
     const auto& links = scenario.timetable.links;
     if (links.empty()) return;
     std::map<std::string, std::size_t> index;
@@ -167,7 +168,7 @@ void link_trains(const Scenario& scenario, std::vector<TrainPlan>& trains) {
             continue;
         }
         const ServiceRun &from = trains[a->second].run, &to = trains[b->second].run;
-        if (auto p = link_problem(scenario.infrastructure, link, *from.service, *to.service)) {
+        if (auto p = link_problem(paths, link, *from.service, *to.service)) {
             problems.push_back(scenario.where_link(l) + ": " + *p);
             continue;
         }
@@ -260,12 +261,19 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& o
     // (the runs of a repeat pattern share their type and path).
     std::vector<std::string> problems;
     std::map<std::size_t, std::pair<std::size_t, std::size_t>> failed;   // entry -> (problem, further runs)
+    std::optional<LinePaths> paths;
+    try {
+        paths.emplace(scenario.infrastructure);
+    } catch (const PathError& e) {
+        throw ScenarioError({(scenario.source_file.empty() ? std::string("scenario") : scenario.source_file) +
+                             ": infrastructure: " + e.what()});
+    }
     for (const Service& svc : scenario.timetable.services) {
         std::string problem;
         try {
             const TrainType* type = scenario.find_train_type(svc.train_type);
             if (!type) throw std::runtime_error("unknown train type");
-            TrainPlan tp{plan_service(scenario.infrastructure, svc, *type, scenario.timetable.rounding, options), {}, {}};
+            TrainPlan tp{plan_service(*paths, svc, *type, scenario.timetable.rounding, options), {}, {}};
             tp.stairway = blocking_stairway(tp.run, scenario.infrastructure.interlocking);
             trains.push_back(std::move(tp));
             continue;
@@ -287,7 +295,7 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& o
             problems[at.first] += " (and " + std::to_string(at.second) + " more run" + (at.second == 1 ? "" : "s") +
                                   " of its pattern)";
     if (!problems.empty()) throw ScenarioError(problems);
-    link_trains(scenario, trains);
+    link_trains(scenario, *paths, trains);
     return trains;
 }
 

@@ -82,23 +82,19 @@ struct AccelBound {
 };
 
 // Walks a path profile (gradient or speed limit) with ascending look-ups in amortised O(1), the
-// same value as PathProfile::at; falls back to the path's own look-up where it has no profile.
+// same value as PathProfile::at.
 class ProfileCursor {
 public:
-    ProfileCursor(const TrainPath& path, const PathProfile& profile, double (TrainPath::*fallback)(double) const)
-        : path_(path), profile_(profile), fallback_(fallback) {}
+    explicit ProfileCursor(const PathProfile& profile) : profile_(profile) {}
     double at(double pos) {
         const auto& s = profile_.s;
-        if (s.empty()) return (path_.*fallback_)(pos);
         while (i_ + 1 < s.size() && s[i_ + 1] <= pos) ++i_;
         while (i_ > 0 && s[i_] > pos) --i_;
         return profile_.value[i_];
     }
 
 private:
-    const TrainPath& path_;
     const PathProfile& profile_;
-    double (TrainPath::*fallback_)(double) const;
     std::size_t i_ = 0;
 };
 
@@ -129,7 +125,7 @@ void static_limits(const TrainType& type, const TrainPath& path, const Grid& gri
     cell.resize(total);
     queue.resize(total);
     const double s_floor = std::min(path.s_min, 0.0);
-    ProfileCursor limit(path, path.speed_limit, &TrainPath::speed_limit_at);
+    ProfileCursor limit(path.speed_limit);
     for (std::size_t j = 0; j < total; ++j) {
         const bool behind = j < m;
         double a, b;
@@ -284,7 +280,7 @@ void StepRuns::expand(std::size_t from, std::size_t count, double* out) const {
 LegGrid make_leg_grid(const TrainType& type, const TrainPath& path, double s_start, double s_end,
                       const RunOptions& options) {
     check_type(type);
-    if (!path.infrastructure || path.pieces.empty())
+    if (path.pieces.empty() || path.gradient.s.empty() || path.speed_limit.s.empty())
         throw std::invalid_argument("running time for " + describe(type) + ": the path has no track");
     if (!(options.step > 0.0) || !std::isfinite(options.step))
         throw std::invalid_argument("running time: the distance step must be positive");
@@ -316,7 +312,7 @@ LegGrid make_leg_grid(const TrainType& type, const TrainPath& path, double s_sta
     const Grid grid{g.s0, g.step, g.s_end, g.cells};
     static_limits(type, path, grid, buffer);
     g.limit.assign(buffer, g.cells + 1);
-    ProfileCursor slope(path, path.gradient, &TrainPath::gradient_at);
+    ProfileCursor slope(path.gradient);
     for (std::size_t i = 0; i < g.cells; ++i) buffer[i] = slope.at(0.5 * (grid.at(i) + grid.at(i + 1)));
     g.gradient.assign(buffer, g.cells);
     long_gradient_stretches(path, grid, buffer);

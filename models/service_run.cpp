@@ -45,12 +45,13 @@ double min_dwell_of(const Call& call, const TrainType& type) {
 
 }  // namespace
 
-ServiceRun plan_service(const Infrastructure& infra, const Service& service, const TrainType& type,
+ServiceRun plan_service(const LinePaths& paths, const Service& service, const TrainType& type,
                         double rounding, const RunOptions& options) {
+    const Infrastructure& infra = paths.infrastructure();
     ServiceRun run;
     run.service = &service;
     run.type = &type;
-    run.path = build_path(infra, service, type.length, max_overlap(infra) + kLookAhead);
+    run.path = paths.lay(service, type.length, max_overlap(infra) + kLookAhead);
     const TrainPath& path = run.path;
     if (const std::string problem = brake_hold_problem(type, path, 0.0, path.length); !problem.empty())
         throw std::runtime_error(problem);

@@ -13,16 +13,11 @@ struct Half {
     StretchRun first, second;
 };
 
-const Station* station_of(const ServiceRun& run, const PlannedCall& c) {
-    return run.path.infrastructure->find_station(c.station);
-}
-
 // The planned stop of the run at a station of the place, or nullptr.
 const PlannedCall* stop_at(const ServiceRun& run, const CrossingPlace& place) {
     for (const PlannedCall& c : run.calls) {
         if (!c.stops) continue;
-        const Station* st = station_of(run, c);
-        if (st && std::find(place.stations.begin(), place.stations.end(), st->id) != place.stations.end()) return &c;
+        if (std::find(place.stations.begin(), place.stations.end(), c.station) != place.stations.end()) return &c;
     }
     return nullptr;
 }
@@ -32,7 +27,7 @@ std::string track_at(const ServiceRun& run, const CrossingPlace& place) {
     if (place.tracks.empty()) return {};
     for (const PathPiece& pc : run.path.pieces)
         for (const CrossingTrack& t : place.tracks)
-            if (t.loop && pc.track->id == t.track) return t.track;
+            if (t.loop && pc.track == t.track) return t.track;
     return place.tracks.front().track;
 }
 
@@ -162,7 +157,7 @@ std::vector<CrossingTooShort> crossings_too_short(const SingleTrackLayout& layou
             const PlannedCall* stop = stop_at(run, place);
             const std::string track = track_at(run, place);
             if (!stop || track != place.tracks.front().track || !seen.insert({t, c.place}).second) continue;
-            const double head = station_of(run, *stop)->at;
+            const double head = run.path.chainage_at(stop->s);
             const StandingFit fit = standing_fit(place.x_lo, place.x_hi, head, run.path.direction, run.type->length);
             if (!fit.fits) out.push_back({i, t, track, head, fit.tail, place.x_lo, place.x_hi});
         }

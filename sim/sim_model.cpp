@@ -119,7 +119,7 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
         // Routes: the same ones, in the same order, as the planned stairway.
         std::size_t sig_i = 0;
         for (const RouteBlocking& rb : tp.stairway.routes) {
-            while (sig_i < path.signals.size() && path.signals[sig_i].signal->id != rb.entry_signal) ++sig_i;
+            while (sig_i < path.signals.size() && path.signals[sig_i].signal.name != rb.entry_signal) ++sig_i;
             const PathSignal& ps = path.signals.at(sig_i);
             Route r;
             r.entry_signal = rb.entry_signal;

@@ -180,6 +180,20 @@ TEST_CASE("checks: two signals of one direction at one place on a track are refu
                                  "t.yaml"));
 }
 
+TEST_CASE("checks: two loops meeting at one point of their track are refused at the tracks", "[checks]") {
+    // Paths are laid over the network the line is read into, where two switches need a piece of
+    // track between them.
+    const std::string text = changed(fixture("edge_line.yaml"), "    - {id: U, from: 0 km, to: 10 km, directions: up}\n",
+                                     "    - {id: U, from: 0 km, to: 10 km, directions: up}\n"
+                                     "    - {id: L1, parent: U, from: 2 km, to: 4 km, directions: up}\n"
+                                     "    - {id: L2, parent: U, from: 4 km, to: 6 km, directions: up}\n");
+    const auto errors = read_errors(text);
+    INFO(joined(errors));
+    REQUIRE(errors.size() == 1);
+    CHECK(reported(errors, "t.yaml", where(text, "- {id: U,"), "infrastructure.tracks",
+                   "loops 'L1' and 'L2' meet at km 4.000 of track 'U': a network needs a piece of track between their switches"));
+}
+
 TEST_CASE("checks: traction too weak to start on level track is refused", "[checks]") {
     // 100 N on 100 t: 0.001 m/s2 at standstill, against the 0.01 m/s2 asked for.
     const std::string text = changed(fixture("hand_check_line.yaml"), "max_force: 100 kN", "max_force: 100 N");

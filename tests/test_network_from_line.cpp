@@ -1,7 +1,7 @@
 // Version-1 scenarios read into a network give the detection sections and signal-to-signal
-// routes the line model itself uses (models/path.hpp section_boundaries and build_path, and the
-// routes of models/blocking_time.cpp: from each signal on a path to the next, plus the exit
-// signal's overlap along the path).  The line model is the reference here: a version-1 file must
+// routes the line model itself uses (models/path.hpp section_boundaries, and the routes of
+// models/blocking_time.cpp over each path a line scenario lays: from each signal on a path to the
+// next, plus the exit signal's overlap along the path).  The line model is the reference here: a version-1 file must
 // mean the same as a network.
 #include <catch2/catch.hpp>
 
@@ -15,6 +15,7 @@
 
 #include "models/network/from_line.hpp"
 #include "models/network/routes.hpp"
+#include "models/line_paths.hpp"
 #include "models/path.hpp"
 #include "tools/io/scenario_reader.hpp"
 
@@ -98,8 +99,8 @@ void add_path_routes(const TrainPath& path, std::set<std::string>& out) {
         if (sig.s < -kEps || sig.s >= path.length - kEps) continue;
         const bool exit = i + 1 < path.signals.size();
         const double s_exit = exit ? path.signals[i + 1].s : path.length;
-        const double overlap = exit ? path.signals[i + 1].signal->overlap : 0.0;
-        out.insert(route_text(sig.signal->id, exit ? path.signals[i + 1].signal->id : "",
+        const double overlap = exit ? path.signals[i + 1].signal.overlap : 0.0;
+        out.insert(route_text(sig.signal.name, exit ? path.signals[i + 1].signal.name : "",
                               path_sections(path, sig.s, s_exit),
                               overlap > 0.0 ? path_sections(path, s_exit, s_exit + overlap) : ""));
     }
@@ -108,30 +109,36 @@ void add_path_routes(const TrainPath& path, std::set<std::string>& out) {
 // Every way the line model can lay a train over the whole line: per direction, along the main
 // track, and through each loop that direction may use (a station is put in the loop to call at).
 std::set<std::string> line_routes(const Infrastructure& infra) {
+    // The stations called at: one on the main track of each direction, one in each loop.
     Infrastructure with_calls = infra;
-    std::set<std::string> out;
+    std::vector<std::pair<Direction, const Track*>> mains;
     for (Direction d : {Direction::up, Direction::down}) {
         const Track* main = nullptr;
         for (const Track& t : infra.tracks)
             if (!t.is_loop() && t.allows(d) && !main) main = &t;
         if (!main) continue;
-        std::vector<std::pair<std::string, std::string>> ways{{"", ""}};   // (track, station)
+        mains.push_back({d, main});
+        with_calls.stations.push_back({std::string("main-call-") + to_string(d), "", 0.5 * (main->from + main->to)});
+    }
+    for (const Track& t : infra.tracks)
+        if (t.is_loop()) with_calls.stations.push_back({"loop-call-" + t.id, "", 0.5 * (t.from + t.to)});
+    const LinePaths paths(with_calls);
+    std::set<std::string> out;
+    for (const auto& [d, main] : mains) {
+        std::vector<std::pair<std::string, std::string>> ways{{"", std::string("main-call-") + to_string(d)}};   // (track, station)
         for (const Track& t : infra.tracks)
             if (t.is_loop() && t.allows(d)) ways.push_back({t.id, "loop-call-" + t.id});
-        with_calls.stations.push_back({"main-call", "", 0.5 * (main->from + main->to)});
-        for (const Track& t : infra.tracks)
-            if (t.is_loop()) with_calls.stations.push_back({"loop-call-" + t.id, "", 0.5 * (t.from + t.to)});
         for (const auto& [track, station] : ways) {
             Service s;
             s.id = "all";
             s.direction = d;
             s.enters_at_edge = s.leaves_at_edge = true;
             Call c;
-            c.station = track.empty() ? "main-call" : station;
+            c.station = station;
             c.track = track;
             c.stops = false;
             s.calls.push_back(c);
-            add_path_routes(build_path(with_calls, s), out);
+            add_path_routes(paths.lay(s), out);
         }
     }
     return out;
@@ -186,9 +193,10 @@ TEST_CASE("network from a version-1 line: sections and routes equal the line mod
             routes_compared += compare_with_line_model(infra);
             // The timetable's own paths use only routes the network has.
             const std::set<std::string> found = network_routes(Mapped(infra));
+            const LinePaths paths(infra);
             for (const Service& s : sc.timetable.services) {
                 std::set<std::string> used;
-                add_path_routes(build_path(infra, s), used);
+                add_path_routes(paths.lay(s), used);
                 for (const std::string& r : used) {
                     // A path ending at a station stops short of the next signal: only whole routes.
                     if (r.find("- |") != std::string::npos) continue;

@@ -31,12 +31,11 @@ struct TestLine {
         track.from = 0.0;
         track.to = length;
         infra.tracks.push_back(track);
-        path.infrastructure = &infra;
         path.direction = Direction::up;
         path.length = length;
         path.s_min = 0.0;
         path.s_max = length;
-        path.pieces.push_back({&infra.tracks.front(), 0.0, length, 0.0, length});
+        path.pieces.push_back({"T", 0, 0.0, length, 0.0, length});
         // Gradient and speed profiles as a path built from a scenario carries them: a piece per
         // stretch between any two band edges.
         std::vector<double> breaks{0.0};

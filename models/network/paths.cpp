@@ -180,6 +180,8 @@ void check_request(const NetworkGraph& g, const PathRequest& r) {
     for (std::size_t node : {r.enters_at, r.leaves_at})
         if (node != kNone && (node >= net.nodes.size() || net.nodes[node].kind != NodeKind::boundary))
             throw NetworkError("a train enters and leaves only at a boundary node");
+    for (std::size_t v : r.entry_via)
+        if (v >= net.segments.size()) throw NetworkError("the entry: a via track names no segment");
     for (std::size_t k = 0; k < r.calls.size(); ++k) {
         const PathCall& c = r.calls[k];
         if (c.station >= net.stations.size()) throw NetworkError("call " + std::to_string(k + 1) + ": no such station");
@@ -197,7 +199,10 @@ NetworkPath find_path(const NetworkGraph& g, const PathRequest& r) {
     check_request(g, r);
     const Network& net = g.network();
     std::vector<Waypoint> way;
-    if (r.enters_at != kNone) way.push_back(boundary_waypoint(g, r.enters_at, true));
+    if (r.enters_at != kNone) {
+        way.push_back(boundary_waypoint(g, r.enters_at, true));
+        for (std::size_t v : r.entry_via) way.push_back(via_waypoint(g, v));
+    }
     for (std::size_t k = 0; k < r.calls.size(); ++k) {
         way.push_back(call_waypoint(g, r, k));
         if (way.back().targets.empty())

@@ -21,6 +21,7 @@ struct PathCall {
 
 struct PathRequest {
     std::size_t enters_at = kNone;   // a boundary node; kNone: the train starts at its first call
+    std::vector<std::size_t> entry_via;   // segments run over, end to end, from the entry to the first call
     std::size_t leaves_at = kNone;   // a boundary node; kNone: it ends at its last call
     std::vector<PathCall> calls;     // at least one
     double train_length = 0.0;       // picks the stopping points [m]

@@ -89,10 +89,11 @@ namespace {
 constexpr double kLoopOffset = 4.0;
 
 // Whether the run is on a loop track where its head is at chainage x.
-bool on_loop_at(const ServiceRun& run, double x) {
+bool on_loop_at(const Infrastructure& infra, const ServiceRun& run, double x) {
     for (const PathPiece& pc : run.path.pieces) {
         const double lo = std::min(pc.x_from, pc.x_to), hi = std::max(pc.x_from, pc.x_to);
-        if (pc.track->is_loop() && x > lo + 1e-6 && x < hi - 1e-6) return true;
+        const Track* track = infra.find_track(pc.track);
+        if (track && track->is_loop() && x > lo + 1e-6 && x < hi - 1e-6) return true;
     }
     return false;
 }
@@ -363,7 +364,7 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
         // crossing there read as a crossing, not as overlapping stairways.
         std::vector<Point> on_loop;
         for (Point& p : pts) {
-            const bool loop = on_loop_at(tp.run, p.y);
+            const bool loop = on_loop_at(infra, tp.run, p.y);
             p = {X(p.x), Y(p.y) + (loop ? kLoopOffset : 0.0)};
             if (loop) on_loop.push_back(p);
         }

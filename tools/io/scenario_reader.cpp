@@ -11,6 +11,7 @@
 #include <filesystem>
 #include <fstream>
 #include <map>
+#include <memory>
 #include <optional>
 #include <set>
 #include <sstream>
@@ -20,6 +21,7 @@
 #include <yaml-cpp/yaml.h>
 
 #include "models/input_ranges.hpp"
+#include "models/line_paths.hpp"
 #include "models/links.hpp"
 #include "models/path.hpp"
 #include "models/single_track.hpp"
@@ -232,6 +234,7 @@ private:
         if (!seq) return;
         auto& tracks = sc_.infrastructure.tracks;
         const std::string path = m.path_of("tracks");
+        tracks_ = {*seq, path};
         if (seq->size() == 0) m.error("tracks", "at least one track is needed");
         for (std::size_t i = 0; i < seq->size(); ++i) {
             MapFields t(errors_, std::as_const(*seq)[i], item(path, i),
@@ -772,6 +775,20 @@ private:
     // turnaround), `feeds` (a connection at `at`) or `crew_to` (a crew link), each with its
     // minimum time.  What needs the paths (the platform track of a turnaround) is checked only on
     // a timetable without other errors, as the paths are laid.
+    // The line read into a network to lay paths on; nullptr, with the error reported at the
+    // tracks, where the network cannot take the line.
+    const LinePaths* line_paths() {
+        if (!line_paths_ && !line_refused_) {
+            try {
+                line_paths_ = std::make_unique<LinePaths>(sc_.infrastructure);
+            } catch (const PathError& e) {
+                line_refused_ = true;
+                errors_.add(tracks_.first, tracks_.second, e.what());
+            }
+        }
+        return line_paths_.get();
+    }
+
     void read_links(const MapFields& t) {
         auto seq = t.sequence("links", false);
         if (!seq) return;
@@ -854,8 +871,8 @@ private:
             link.from = *from;
             link.to = *to;
             link.min_time = *min_time;
-            if (paths_laid) {
-                if (auto problem = link_problem(sc_.infrastructure, link, *a, *b)) {
+            if (const LinePaths* paths = paths_laid ? line_paths() : nullptr) {
+                if (auto problem = link_problem(*paths, link, *a, *b)) {
                     f.error(link.kind == LinkKind::connection ? "at" : later_key, *problem);
                     continue;
                 }
@@ -1210,7 +1227,7 @@ private:
             if (reported[origin[k]]) continue;  // runs of one pattern share their path
             std::string problem;
             try {
-                (void)build_path(sc_.infrastructure, out[k]);
+                if (const LinePaths* paths = line_paths()) (void)paths->lay(out[k]);
             } catch (const PathError& e) {
                 problem = e.what();
             } catch (const std::exception& e) {
@@ -1495,6 +1512,10 @@ private:
 
     ErrorList& errors_;
     Scenario sc_;
+    // The line read into a network to lay paths on, once it is complete (line_paths()).
+    std::unique_ptr<LinePaths> line_paths_;
+    bool line_refused_ = false;
+    std::pair<YAML::Node, std::string> tracks_;   // where the tracks stand, for a line the network refuses
     std::optional<double> length_;  // the line length, once known to be valid
 
     std::map<std::string, std::size_t> track_index_;
