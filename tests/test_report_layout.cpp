@@ -265,7 +265,7 @@ TEST_CASE("the hourly capacity profile equals a hand computation of UIC 406 occu
     // The report's table: a row for A-B up with the two hours, per cent of the hour.
     const std::string page = report_page(scenario.string(), dir);
     const auto rows = rows_of(section_of(page, "capacity"));
-    const auto pct = [](double share) { return knockon::svg::number(100.0 * share, 1) + " %"; };
+    const auto pct = [](double share) { return knockon::svg::number(100.0 * share, 1); };   // [% of the hour]
     CHECK(has_row(rows, {"A-B", "up", pct((*ab[0])["consumption"].get<double>()), pct((*ab[1])["consumption"].get<double>())}));
     CHECK(has_row(rows, {"A-B", "up", pct(2 * h / 3600.0), pct(h / 3600.0)}));
     // The chart: one bar per clock hour with trains (08 and 09), and the limit.

@@ -40,7 +40,8 @@ section.verdict h2 { margin-top: 0.6em; }
 .verdict-lists > div { flex: 1 1 26em; }
 .verdict-lists ol { margin: 4px 0; padding-left: 1.4em; }
 .not-given { color: #444444; font-style: italic; }
-td.hours { white-space: nowrap; }
+table.compact { font-size: 0.8em; }
+table.compact th, table.compact td { padding: 2px 4px; white-space: nowrap; }
 table.facts th { background: none; font-weight: normal; color: #444444; }
 code.cmd { font-size: 0.92em; word-break: break-all; }
 figure { margin: 12px 0 8px; }
@@ -75,7 +76,7 @@ std::string html_figure(const svg::Element& chart, const std::string& caption) {
 
 std::string html_table(const HtmlTable& table) {
     auto numeric = [&](std::size_t i) { return i < table.numeric.size() && table.numeric[i]; };
-    std::string out = "<table>\n";
+    std::string out = table.css_class.empty() ? "<table>\n" : "<table class=\"" + html_escape(table.css_class) + "\">\n";
     if (!table.caption.empty()) out += "<caption>" + html_escape(table.caption) + "</caption>\n";
     out += "<thead><tr>";
     for (std::size_t i = 0; i < table.headers.size(); ++i)

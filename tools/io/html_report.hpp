@@ -67,6 +67,7 @@ struct HtmlTable {
     std::vector<bool> highlight;
     std::vector<bool> significant;
     std::string caption;
+    std::string css_class;   // of the <table> ("compact": small, no wrapping), or none
 };
 std::string html_table(const HtmlTable& table);
 

@@ -68,7 +68,8 @@ std::string hourly_capacity_html(const PlanResult& plan) {
         h1 = std::max(h1, f.from);
     }
     HtmlTable t;
-    t.caption = "Capacity consumption by clock hour (per cent of the hour)";
+    t.caption = "Capacity consumption by clock hour [% of the hour]";
+    t.css_class = "compact";
     t.headers = {"line section", "direction"};
     t.numeric = {false, false};
     for (double h = h0; h <= h1; h += 3600.0) {
@@ -87,8 +88,7 @@ std::string hourly_capacity_html(const PlanResult& plan) {
             const CapacityFigure& f = plan.hourly_capacity[i];
             const std::size_t col = 2 + static_cast<std::size_t>(std::lround((f.from - h0) / 3600.0));
             const bool above = f.consumption > f.limit;
-            row[col] = (above ? std::string(kOverMark) + " " : std::string()) + svg::number(f.consumption * 100.0, 1) +
-                       " %";
+            row[col] = (above ? std::string(kOverMark) + " " : std::string()) + svg::number(f.consumption * 100.0, 1);
             over = over || above;
         }
         over_any = over_any || over;

@@ -39,6 +39,7 @@ ReportSection running_times_section(const std::vector<Table>& tables) {
         "supplement) and timetabled (what the timetable allows); reserve = timetabled - scheduled. Times of "
         "day HH:MM:SS, durations in seconds. The same table: knockon plan (running_times), --csv or --json.");
     HtmlTable t = html_table_of(rt);
+    t.css_class = "compact";
     // A negative reserve: the timetable allows less than running time plus supplement.
     const std::size_t reserve = column(rt, "reserve_s");
     for (const auto& row : rt.rows) {

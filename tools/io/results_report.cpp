@@ -483,6 +483,12 @@ ReportSection variants_section(const ResultsView& v) {
     return {"variants", "Variants compared", html};
 }
 
+std::string reference_plan_headline(const ResultsView& v) {
+    HtmlTable t = plan_headline(*v.plan);
+    t.caption += " (" + reference(v) + ")";
+    return html_table(t);
+}
+
 // A comparison in brief: each variant's headline figures side by side, the paired differences
 // whose interval excludes 0, and the reference variant's plan.
 ReportSection comparison_verdict(const ResultsView& v) {
@@ -524,7 +530,7 @@ ReportSection comparison_verdict(const ResultsView& v) {
                        html_paragraph(std::to_string(significant) + " of " + std::to_string(paired) +
                                       " paired differences against " + reference(v) + " have a 95 % interval that " +
                                       "excludes 0 (marked " + kSignificantMark + " in Variants compared).") +
-                       html_table(plan_headline(*v.plan));
+                       reference_plan_headline(v);
     return {"verdict", "Verdict", html};
 }
 

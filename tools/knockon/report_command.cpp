@@ -1,5 +1,6 @@
 // `knockon report`: the study report as one self-contained HTML file.  Of a scenario: the plan
-// (time-distance diagram, capacity consumption, thinnest buffers, conflicts).  Of a results file
+// (verdict, time-distance diagram, capacity consumption per line section and hour by hour,
+// thinnest buffers and links, conflicts, running times, headway matrix, spacing warnings).  Of a results file
 // (simulate --out, compare --out): the plan of the scenario it came from with the simulated day
 // drawn over it, and the results' sections (tools/io/results_report.hpp).
 #include <cstdio>
