@@ -191,6 +191,7 @@ Stairway blocking_stairway(const ServiceRun& run, const InterlockingTimes& times
     for (const PathSection& sec : path.sections) {
         SectionBlocking b;
         b.section = sec.id;
+        b.index = sec.index;
         b.x_lo = sec.x_lo;
         b.x_hi = sec.x_hi;
         b.s_from = sec.s_from;

@@ -36,6 +36,7 @@ struct RouteBlocking {
 
 struct SectionBlocking {
     std::string section;
+    std::size_t index = net::kNone;    // the network's detection section (PathSection::index)
     double x_lo = 0.0, x_hi = 0.0;     // chainage extent of the section
     double s_from = 0.0, s_to = 0.0;   // along this train's path
     double start = 0.0, end = 0.0;     // blocked [s]

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <limits>
 #include <map>
+#include <stdexcept>
 
 #include "models/single_track.hpp"
 
@@ -57,11 +58,19 @@ const StretchUse* SimModel::Train::use_of(std::int32_t stretch) const {
 
 SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& plan)
     : infra_(infra), single_track_(single_track_layout(infra)) {
-    std::map<std::string, std::uint32_t> index;
-    auto section_of = [&](const std::string& id) {
-        auto [it, fresh] = index.try_emplace(id, static_cast<std::uint32_t>(section_names_.size()));
-        if (fresh) section_names_.push_back(id);
-        return it->second;
+    // Sections are numbered in the order trains first meet them, found by the network's index
+    // of each (every path of a plan is laid over one network); the ids are kept for the edges.
+    constexpr std::uint32_t kUnnumbered = UINT32_MAX;
+    std::vector<std::uint32_t> number_of;   // by network section index
+    auto section_of = [&](std::size_t network, const std::string& id) {
+        if (network == net::kNone) throw std::logic_error("section " + id + " of a plan has no network index");
+        if (number_of.size() <= network) number_of.resize(network + 1, kUnnumbered);
+        std::uint32_t& n = number_of[network];
+        if (n == kUnnumbered) {
+            n = static_cast<std::uint32_t>(section_names_.size());
+            section_names_.push_back(id);
+        }
+        return n;
     };
     // Planned blocking start of every (section, train), to order the trains per section.
     std::vector<std::vector<std::pair<double, std::uint32_t>>> starts;
@@ -71,7 +80,7 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
         const TrainPath& path = tp.run.path;
         Train tr;
         tr.plan = &tp;
-        for (const PathSection& sec : path.sections) tr.section_index.push_back(section_of(sec.id));
+        for (const PathSection& sec : path.sections) tr.section_index.push_back(section_of(sec.index, sec.id));
         tr.dispatch_weight = tp.run.service->dispatch_weight;
         {
             const auto n = static_cast<std::uint32_t>(path.sections.size());
@@ -194,15 +203,18 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
         mark_enter_at_same_place(tr.enters, tr.leaves);
         mark_enter_at_same_place(tr.enters, tr.passes);
         for (const SectionBlocking& b : tp.stairway.sections) {
-            std::uint32_t s = section_of(b.section);
+            std::uint32_t s = section_of(b.index, b.section);
             if (starts.size() <= s) starts.resize(s + 1);
             starts[s].push_back({b.start, t});
         }
         trains_.push_back(std::move(tr));
     }
+    // Headways name their critical section: looked up by name, at this edge only.
+    std::map<std::string, std::uint32_t> by_name;
+    for (std::uint32_t s = 0; s < section_names_.size(); ++s) by_name.emplace(section_names_[s], s);
     for (const HeadwayPair& h : consecutive_headways(infra, plan)) {
-        auto it = index.find(h.critical_section);
-        if (it == index.end()) continue;
+        auto it = by_name.find(h.critical_section);
+        if (it == by_name.end()) continue;
         buffer_pairs_.push_back({static_cast<std::uint32_t>(h.leader), static_cast<std::uint32_t>(h.follower),
                                  it->second, h.line_section, h.buffer});
     }

@@ -2,6 +2,8 @@
 
 #include <fcntl.h>
 #include <sys/stat.h>
+#include <sys/syscall.h>
+#include <time.h>
 #include <unistd.h>
 
 #include <atomic>
@@ -17,13 +19,17 @@ namespace {
 
 // ---- the temporary files a fatal signal must remove ------------------------------------------
 // A fixed table, so that a signal handler can walk it without locks or allocation: a slot is
-// claimed (free -> busy), its path filled in, then published (busy -> live); the handler unlinks
-// live slots only.
+// claimed (free -> busy), its path filled in, then published (busy -> creating) while its file is
+// being created, and live once it is; the handler unlinks creating and live slots only.  A signal
+// handled by another thread than the one creating the file (any thread may take a signal) could
+// unlink the name just before the creation makes it: the handler then waits for the creation to end
+// and unlinks it again.
 constexpr std::size_t kSlots = 64;
 constexpr std::size_t kPathBytes = 4096;
-enum SlotState : int { kFree = 0, kBusy = 1, kLive = 2 };
+enum SlotState : int { kFree = 0, kBusy = 1, kLive = 2, kCreating = 3 };
 struct Slot {
     std::atomic<int> state{kFree};
+    std::atomic<long> creator{0};   // kernel thread id of the thread creating the file
     char path[kPathBytes] = {};
 };
 static_assert(std::atomic<int>::is_always_lock_free, "the signal handler needs lock-free flags");
@@ -38,7 +44,8 @@ int register_temporary(const std::string& name) {
         int expected = kFree;
         if (!g_slots[i].state.compare_exchange_strong(expected, kBusy)) continue;
         std::memcpy(g_slots[i].path, path.c_str(), path.size() + 1);
-        g_slots[i].state.store(kLive, std::memory_order_release);
+        g_slots[i].creator.store(static_cast<long>(::syscall(SYS_gettid)));
+        g_slots[i].state.store(kCreating, std::memory_order_release);
         return static_cast<int>(i);
     }
     throw std::runtime_error(name + ": too many output files open at once");
@@ -141,6 +148,7 @@ TemporaryFile::TemporaryFile(const std::string& target, const Creator& create) :
             unregister_temporary(slot);  // not ours: left alone
             continue;
         }
+        g_slots[slot].state.store(kLive, std::memory_order_release);
         name_ = name;
         slot_ = slot;
         return;
@@ -175,8 +183,19 @@ void TemporaryFile::commit() {
 }
 
 void remove_temporary_files() noexcept {
-    for (Slot& s : g_slots)
+    const long self = static_cast<long>(::syscall(SYS_gettid));
+    for (Slot& s : g_slots) {
+        const int state = s.state.load(std::memory_order_acquire);
+        if (state != kLive && state != kCreating) continue;
+        ::unlink(s.path);
+        if (state != kCreating || s.creator.load() == self) continue;   // interrupted here: never made now
+        // Another thread is creating it: wait (1 s at most) until it has, and unlink it again.
+        for (int i = 0; i < 1000 && s.state.load(std::memory_order_acquire) == kCreating; ++i) {
+            struct timespec ms {0, 1'000'000};
+            ::nanosleep(&ms, nullptr);
+        }
         if (s.state.load(std::memory_order_acquire) == kLive) ::unlink(s.path);
+    }
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -1,6 +1,9 @@
 #include "tools/knockon/interrupt.hpp"
 
 #include <signal.h>
+#include <time.h>
+
+#include <cerrno>
 
 #include "tools/io/output_file.hpp"
 
@@ -10,10 +13,16 @@ namespace {
 std::atomic<bool> g_stop{false};
 std::atomic<int> g_guards{0};   // InterruptGuards alive: a study that stops after its batch
 std::atomic<bool> g_installed{false};
+std::atomic<unsigned> g_linger_seconds{0};   // linger_on_signals()
 
-// Only async-signal-safe calls: unlink (in remove_temporary_files), sigaction, raise.
+// Only async-signal-safe calls: unlink (in remove_temporary_files), nanosleep, sigaction, raise.
 extern "C" void stop_now(int sig) {
     knockon::remove_temporary_files();
+    // A process that lingers writes no file; its early end would cost another process its time to
+    // remove its own (see linger_on_signals).  SIGKILL ends it sooner.
+    struct timespec left {static_cast<time_t>(g_linger_seconds.load()), 0};
+    while ((left.tv_sec > 0 || left.tv_nsec > 0) && nanosleep(&left, &left) != 0 && errno == EINTR) {
+    }   // `left` is what an interrupted sleep had still to go
     struct sigaction dfl {};
     dfl.sa_handler = SIG_DFL;
     sigemptyset(&dfl.sa_mask);
@@ -40,6 +49,8 @@ void install_signal_handlers() {
         sigaction(sig, &sa, nullptr);
     }
 }
+
+void linger_on_signals(unsigned seconds) { g_linger_seconds.store(seconds); }
 
 InterruptGuard::InterruptGuard() {
     install_signal_handlers();

@@ -16,6 +16,15 @@ namespace knockon::cli {
 // Installs the handlers; called once at the start of main (calling it again does nothing).
 void install_signal_handlers();
 
+// From now on a signal that stops this process at once still removes its temporary files at once,
+// but ends the process only `seconds` later (or at a SIGKILL before then).  For the processes of an
+// MPI run other than the first (tools/knockon/ranks_mpi.cpp), which write no file: Open MPI's
+// mpirun, stopping a run, sends SIGTERM to every process and SIGKILL as soon as the first of them
+// has ended (its wait of odls_base_sigkill_timeout, 1 s by default, is cut short by that process's
+// SIGCHLD), so a process that ended at once could have the first process killed before its handler
+// had removed the temporary output file.  Lingering, they leave the first process that second.
+void linger_on_signals(unsigned seconds);
+
 class InterruptGuard {
 public:
     InterruptGuard();

@@ -33,8 +33,8 @@ void usage(std::FILE* to) {
                  "                              one chart of the report as an SVG file\n"
                  "  compare SCENARIO [options]  Monte Carlo comparison of scenario variants with the same\n"
                  "                              primary delays (common random numbers)\n"
-                 "  merge PART.h5... -o STUDY.h5 the shard files of a study (simulate --shard K/N) as the\n"
-                 "                              study file one run would have written\n"
+                 "  merge PART.h5... -o OUT.h5   the shard files of a study or comparison (simulate or\n"
+                 "                              compare --shard K/N) as the file one run would have written\n"
                  "\n"
                  "Run 'knockon <command> --help' for the options of a command.\n");
 }

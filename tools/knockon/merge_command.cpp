@@ -1,7 +1,8 @@
 // knockon merge: the shard files of one study (simulate --shard K/N --out) folded into the study
-// file one run would have written.  The shards are checked against each other before anything is
-// written: a shard of another scenario, variant, seed or option, a stopped shard, one given twice
-// or one missing is refused (exit 2) with the file and what differs.
+// file one run would have written, or those of one comparison (compare --shard K/N --out) into its
+// comparison file (tools/knockon/merge_comparison).  The shards are checked against each other
+// before anything is written: a shard of another kind, scenario, variant, seed or option, a
+// stopped shard, one given twice or one missing is refused (exit 2) with the file and what differs.
 #include <cstdio>
 #include <iostream>
 #include <map>
@@ -18,6 +19,7 @@
 #include "tools/knockon/options.hpp"
 #include "tools/io/output_file.hpp"
 #include "tools/io/results_file.hpp"
+#include "tools/knockon/merge_comparison.hpp"
 #include "tools/knockon/study_output.hpp"
 
 namespace knockon::cli {
@@ -29,8 +31,21 @@ std::string numbers(const std::vector<double>& v) {
     return s.str();
 }
 
+std::string kind_text(const ShardFile& s) {
+    return s.comparison() ? "a comparison shard (compare --shard)" : "a study shard (simulate --shard)";
+}
+
+std::string variant_list(const ShardFile& s) {
+    std::string list;
+    for (const ShardDays& d : s.studies) list += (list.empty() ? "" : ",") + d.variant.name;
+    return list;
+}
+
 // A shard must agree with the first one given on everything its days depend on.
 void check_same(const ShardFile& a, const ShardFile& first) {
+    if (a.kind != first.kind)
+        throw UsageError(a.path + ": is " + kind_text(a) + ", but " + first.path + " is " + kind_text(first) +
+                         "; merge the shards of one study or of one comparison");
     const auto differs = [&](const std::string& what, const std::string& here, const std::string& there) {
         if (here != there)
             throw UsageError(a.path + ": " + what + " differs: " + here + " here, " + there + " in " + first.path +
@@ -38,6 +53,7 @@ void check_same(const ShardFile& a, const ShardFile& first) {
     };
     differs("scenario (hash of its text and variant)", a.scenario_hash, first.scenario_hash);
     differs("variant", a.variant, first.variant);
+    differs("variants compared", variant_list(a), variant_list(first));
     differs("seed", std::to_string(a.seed), std::to_string(first.seed));
     differs("number of shards", std::to_string(a.run.shards), std::to_string(first.run.shards));
     differs("replications", std::to_string(a.run.planned), std::to_string(first.run.planned));
@@ -54,9 +70,11 @@ void check_whole(const ShardFile& s) {
     if (s.program_version != KNOCKON_VERSION)
         throw UsageError(s.path + ": written by knockon " + s.program_version + ", this is " + KNOCKON_VERSION +
                          "; run the shards and the merge with one version");
-    if (s.partial || s.days != s.run.end - s.run.first)
-        throw UsageError(s.path + ": shard " + std::to_string(s.run.shard) +
-                         " was stopped before its last replication; run it again");
+    for (const ShardDays& d : s.studies)
+        if (d.partial || d.days != s.run.end - s.run.first)
+            throw UsageError(s.path + ": shard " + std::to_string(s.run.shard) +
+                             (d.variant.name.empty() ? std::string() : " (variant " + d.variant.name + ")") +
+                             " was stopped before its last replication; run it again");
     const ReplicationRange r = shard_range(s.run.shard, s.run.shards, s.run.planned);
     if (r.first != s.run.first || r.end != s.run.end)
         throw UsageError(s.path + ": holds replications " + std::to_string(s.run.first) + " to " +
@@ -81,7 +99,8 @@ std::vector<ShardFile> order_shards(std::vector<ShardFile> shards) {
     for (std::uint32_t k = 1; k <= count; ++k)
         if (!by_number.count(k)) missing += (missing.empty() ? "" : ", ") + std::to_string(k);
     if (!missing.empty())
-        throw UsageError(shards.front().path + ": its study has " + std::to_string(count) +
+        throw UsageError(shards.front().path + ": its " + (shards.front().comparison() ? "comparison" : "study") +
+                         " has " + std::to_string(count) +
                          " shards; missing: shard " + missing + " (files given: " + std::to_string(shards.size()) + ")");
     std::vector<ShardFile> out;
     for (const auto& [k, i] : by_number) out.push_back(std::move(shards[i]));
@@ -95,7 +114,7 @@ int merge(const std::vector<std::string>& args) {
     for (const std::string& a : args) command_line += " " + a;
     po::options_description options("merge options");
     options.add_options()("help,h", "show this help")("out,o", po::value<std::string>(),
-                                                         "the study file to write (HDF5)")(
+                                                         "the study or comparison file to write (HDF5)")(
         "json", "print one JSON document instead of the summary");
     add_deadlock_option(options);
     po::options_description hidden;
@@ -114,12 +133,13 @@ int merge(const std::vector<std::string>& args) {
     if (vm.count("help")) {
         std::cout << "usage: knockon merge PART.h5... -o STUDY.h5 [options]\n"
                      "Folds the shard files of one study (simulate --shard K/N --out PART.h5) into the study file\n"
-                     "one run of all the replications would have written.\n"
+                     "one run of all the replications would have written; those of one comparison (compare --shard\n"
+                     "K/N --out PART.h5) into its comparison file.\n"
                   << options;
         return 0;
     }
     if (!vm.count("parts")) throw UsageError("shard files are required: knockon merge PART.h5... -o STUDY.h5");
-    if (!vm.count("out")) throw UsageError("-o STUDY.h5 is required: the merged study file");
+    if (!vm.count("out")) throw UsageError("-o OUT.h5 is required: the merged study or comparison file");
     const std::vector<std::string> parts = vm["parts"].as<std::vector<std::string>>();
     check_output_path(vm["out"].as<std::string>(), parts);
 
@@ -137,7 +157,9 @@ int merge(const std::vector<std::string>& args) {
         check_whole(s);
     }
     shards = order_shards(std::move(shards));
+    if (shards.front().comparison()) return merge_comparison(shards, vm, command_line);
     const ShardFile& head = shards.front();   // shard 1: replication 0, its names and template
+    const ShardDays& head_days = head.studies.front();
 
     // The model the shards ran on, from the text they ran (equal in all: same hash).
     const Scenario scenario = parse_scenario(head.run.scenario_text, head.scenario_file, head.variant);
@@ -148,9 +170,9 @@ int merge(const std::vector<std::string>& args) {
 
     StudyResult study;
     study.figures = StudyFigures(head.run.thresholds, head.run.planned);
-    study.train_ids = head.train_ids;
-    study.section_names = head.section_names;
-    study.timing_template = head.timing_template;
+    study.train_ids = head_days.train_ids;
+    study.section_names = head_days.section_names;
+    study.timing_template = head_days.timing_template;
     Hdf5RunInfo info;
     info.scenario_file = head.scenario_file;
     info.scenario_name = head.scenario_name;
@@ -165,7 +187,7 @@ int merge(const std::vector<std::string>& args) {
         // Shard by shard, so at most one shard's days are in memory; in shard order, so the days
         // come in replication order and fold exactly as in one run.
         for (const ShardFile& s : shards) {
-            std::vector<ReplicationFigures> days = read_shard_days(s);
+            std::vector<ReplicationFigures> days = read_shard_days(s, s.studies.front());
             for (ReplicationFigures& d : days) {
                 if (d.stats.replication != study.replications.size())
                     throw UsageError(s.path + ": replication " + std::to_string(d.stats.replication) +

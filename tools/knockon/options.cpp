@@ -7,7 +7,9 @@
 #include <sstream>
 
 #include "models/single_track.hpp"
+#include "tools/io/plan_output.hpp"
 #include "tools/io/study_hdf5.hpp"
+#include "tools/knockon/ranks.hpp"
 
 namespace knockon::cli {
 
@@ -52,6 +54,32 @@ std::optional<ShardChoice> shard_option(const po::variables_map& vm) {
         !whole(text.data() + slash + 1, text.data() + text.size(), c.shards) || c.shard == 0 || c.shard > c.shards)
         throw UsageError("--shard must be K/N with whole numbers 1 <= K <= N (shard K of N), not '" + text + "'");
     return c;
+}
+
+ReplicationRange shard_block(const po::variables_map& vm, const ShardChoice& shard, std::uint32_t planned,
+                             const std::string& what) {
+    if (spread_over_ranks())
+        throw UsageError("--shard runs one share of " + what + " days in one process; under mpirun the processes "
+                         "share the days themselves: give one or the other");
+    if (!vm.count("out"))
+        throw UsageError("--shard needs --out: a shard's days go into its file for knockon merge");
+    if (vm.count("until-ci"))
+        throw UsageError("--until-ci cannot be split into shards: when to stop depends on every earlier day");
+    if (shard.shards > planned)
+        throw UsageError("--shard " + std::to_string(shard.shard) + "/" + std::to_string(shard.shards) +
+                         " needs at least " + std::to_string(shard.shards) + " replications, not " +
+                         std::to_string(planned));
+    return shard_range(shard.shard, shard.shards, planned);
+}
+
+std::string shard_done_text(const std::string& command, const ShardChoice& shard, const ReplicationRange& block,
+                            std::uint32_t planned, const std::string& out, bool stopped_early) {
+    return "knockon " + command + ": shard " + std::to_string(shard.shard) + " of " + std::to_string(shard.shards) +
+           ": replications " + std::to_string(block.first) + " to " + std::to_string(block.end - 1) + " of " +
+           std::to_string(planned) + (stopped_early ? " (stopped early)" : "") + " written to " + out +
+           ".\nNo figures from one shard: merge all " + std::to_string(shard.shards) +
+           " shard files with 'knockon merge PARTS... -o " + (command == "compare" ? "COMPARISON" : "STUDY") +
+           ".h5' for the figures.\nCaution: " + kSafetyCaution + "\n";
 }
 
 void add_punctuality_option(po::options_description& options) {

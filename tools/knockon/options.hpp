@@ -9,6 +9,7 @@
 
 #include "models/plan.hpp"
 #include "sim/interlocking.hpp"
+#include "sim/shards.hpp"
 #include "tools/knockon/commands.hpp"
 
 namespace knockon::cli {
@@ -62,6 +63,16 @@ struct ShardChoice {
     std::uint32_t shard = 0, shards = 0;
 };
 std::optional<ShardChoice> shard_option(const po::variables_map& vm);
+// The replications shard K of N runs of a study or comparison of `planned` days, after the checks
+// every command with --shard makes (UsageError): --out given, no --until-ci, at least N days, and
+// one process (under mpirun the processes share the days themselves).  `what`: "a study's" or "a
+// comparison's".
+ReplicationRange shard_block(const po::variables_map& vm, const ShardChoice& shard, std::uint32_t planned,
+                             const std::string& what);
+// What a shard prints once its file is written: which days it ran and where they went; the
+// figures come from `knockon merge`.
+std::string shard_done_text(const std::string& command, const ShardChoice& shard, const ReplicationRange& block,
+                            std::uint32_t planned, const std::string& out, bool stopped_early);
 
 // The command line as a results file stores it: without --threads (or an abbreviation such as
 // --thr, with its value), which changes neither the results nor, so, the file's bytes.

@@ -13,6 +13,7 @@
 #include <stdexcept>
 
 #include "tools/io/output_file.hpp"
+#include "tools/knockon/interrupt.hpp"
 #include "tools/knockon/ranks.hpp"
 
 namespace knockon::cli {
@@ -23,6 +24,9 @@ enum Tag : int { kChunkSize = 1, kChunk = 2, kFailure = 3 };
 // A failure report: the exit status, then as much of the message as fits.  Small, so that MPI
 // sends it at once (eagerly) whatever rank 0 is doing.
 constexpr int kFailureBytes = 1024;
+
+// How long a rank other than 0, told to stop by a signal, waits before it ends.
+constexpr unsigned kLingerSeconds = 2;
 
 bool g_started = false;
 int g_rank = 0, g_count = 1;
@@ -75,6 +79,10 @@ void start_ranks(int& argc, char**& argv) {
         // Rank 0 speaks for the run: the others' output would repeat its own P - 1 times.
         if (!std::freopen("/dev/null", "w", stdout) || !std::freopen("/dev/null", "w", stderr))
             end_every_rank(1);
+        // Rank 0 alone writes a file: when mpirun stops the run, the others must not end before
+        // it has removed its temporary file (interrupt.hpp says why).  Longer than mpirun's default
+        // wait between SIGTERM and SIGKILL (1 s), so that those ranks end by its SIGKILL.
+        linger_on_signals(kLingerSeconds);
     } else if (g_count > 1) {
         MPI_Irecv(g_failure_report, kFailureBytes, MPI_CHAR, MPI_ANY_SOURCE, kFailure, MPI_COMM_WORLD, &g_failure);
     }

@@ -191,17 +191,6 @@ std::string variant_name(const po::variables_map& vm) {
     return vm.count("variant") ? vm["variant"].as<std::string>() : std::string("base");
 }
 
-// The text a shard prints: which days it ran and where they went; the figures come from the merge.
-std::string shard_text(const ShardRun& run, const std::string& out, const StudyResult& study) {
-    std::ostringstream text;
-    text << "knockon simulate: shard " << run.shard << " of " << run.shards << ": replications " << run.first
-         << " to " << run.end - 1 << " of " << run.planned << (study.partial ? " (stopped early)" : "") << " written to "
-         << out << ".\nNo figures from one shard: merge all " << run.shards
-         << " shard files with 'knockon merge PARTS... -o STUDY.h5' for the study's figures.\n";
-    text << "Caution: " << kSafetyCaution << "\n";
-    return text.str();
-}
-
 int run_study_command(const po::variables_map& vm, const Scenario& scenario, const std::string& scenario_text,
                       const std::vector<TrainPlan>& plan, const SimOptions& so, const std::string& command_line) {
     StudyOptions opt;
@@ -227,30 +216,19 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
     const std::optional<ShardChoice> shard = shard_option(vm);
     // Under mpirun every rank runs its block of the days and rank 0 gathers them (rank_study).
     const bool spread = spread_over_ranks();
-    if (spread) {
-        if (shard)
-            throw UsageError("--shard runs one share of a study in one process; under mpirun the processes share "
-                             "the study themselves: give one or the other");
-        if (vm.count("until-ci"))
-            throw UsageError("--until-ci cannot be spread over processes: when to stop depends on every earlier day");
-    }
+    if (spread && vm.count("until-ci"))
+        throw UsageError("--until-ci cannot be spread over processes: when to stop depends on every earlier day");
     ShardRun shard_run;
+    ReplicationRange block;
     if (shard) {
-        if (!vm.count("out")) throw UsageError("--shard needs --out: a shard's days go into its file for knockon merge");
-        if (vm.count("until-ci"))
-            throw UsageError("--until-ci cannot be split into shards: when to stop depends on every earlier day");
-        if (shard->shards > planned)
-            throw UsageError("--shard " + std::to_string(shard->shard) + "/" + std::to_string(shard->shards) +
-                             " needs at least " + std::to_string(shard->shards) + " replications, not " +
-                             std::to_string(planned));
-        const ReplicationRange range = shard_range(shard->shard, shard->shards, planned);
-        opt.first = range.first;
-        opt.replications = range.size();
+        block = shard_block(vm, *shard, planned, "a study's");
+        opt.first = block.first;
+        opt.replications = block.size();
         shard_run.shard = shard->shard;
         shard_run.shards = shard->shards;
         shard_run.planned = planned;
-        shard_run.first = range.first;
-        shard_run.end = range.end;
+        shard_run.first = block.first;
+        shard_run.end = block.end;
         shard_run.scenario_text = scenario_text;
         shard_run.thresholds = opt.thresholds;
         shard_run.order = vm["order"].as<std::string>();
@@ -321,7 +299,8 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
     StudySummary summary = summarize_study(model, study, opt.thresholds);
     if (shard_out) {
         shard_out->finish(study);
-        std::fputs(shard_text(shard_run, vm["out"].as<std::string>(), study).c_str(), stdout);
+        std::fputs(shard_done_text("simulate", *shard, block, planned, vm["out"].as<std::string>(), study.partial).c_str(),
+                   stdout);
         if (interrupted()) return kInterruptedStatus;
         return deadlock_status("simulate", summary.deadlocked, summary.replications, vm);
     }
