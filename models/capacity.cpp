@@ -1,6 +1,7 @@
 #include "models/capacity.hpp"
 
 #include <algorithm>
+#include <cmath>
 
 namespace knockon {
 
@@ -37,6 +38,20 @@ WindowConsumption peak_hour_consumption(const std::vector<SectionStairway>& orde
         if (w.consumption > peak.consumption + 1e-12) peak = w;
     }
     return peak;
+}
+
+std::vector<WindowConsumption> hourly_consumption(const std::vector<SectionStairway>& ordered) {
+    constexpr double kHour = 3600.0;
+    std::vector<WindowConsumption> out;
+    if (ordered.empty()) return out;
+    double lo = ordered.front().reference, hi = lo;
+    for (const SectionStairway& s : ordered) {
+        lo = std::min(lo, s.reference);
+        hi = std::max(hi, s.reference);
+    }
+    for (double h = std::floor(lo / kHour); h <= std::floor(hi / kHour); h += 1.0)
+        out.push_back(window_consumption(ordered, h * kHour, (h + 1.0) * kHour));
+    return out;
 }
 
 WindowConsumption day_consumption(const std::vector<SectionStairway>& ordered) {

@@ -24,6 +24,10 @@ struct WindowConsumption {
 WindowConsumption window_consumption(const std::vector<SectionStairway>& trains_in_order, double from, double to);
 // The peak hour: the whole clock hour of the day with the highest consumption (earliest on ties).
 WindowConsumption peak_hour_consumption(const std::vector<SectionStairway>& trains_in_order);
+// Every whole clock hour from the one holding the first train's reference time to the one holding
+// the last's, each compressed on its own (an hour without trains gives 0): the hour-by-hour profile
+// of a day.  Empty for no trains.
+std::vector<WindowConsumption> hourly_consumption(const std::vector<SectionStairway>& trains_in_order);
 // The whole day, 00:00 to 24:00.
 WindowConsumption day_consumption(const std::vector<SectionStairway>& trains_in_order);
 

@@ -70,6 +70,8 @@ void add_capacity(const LineSection& ls, const std::vector<SectionStairway>& ord
     if (peak.trains == 0) return;
     plan.capacity.push_back(figure("peak hour", peak, limit.peak));
     plan.capacity.push_back(figure("day", day_consumption(ordered), limit.day));
+    for (const WindowConsumption& w : hourly_consumption(ordered))
+        plan.hourly_capacity.push_back(figure("hour", w, limit.peak));
 }
 
 void add_spacing_warnings(PlanResult& plan) {

@@ -90,6 +90,9 @@ struct PlanResult {
     std::vector<HeadwayMatrixEntry> headway_matrix;
     std::vector<Conflict> conflicts;
     std::vector<CapacityFigure> capacity;
+    // The hour-by-hour profile: per line section and direction (in the order of `capacity`), each
+    // clock hour from its first train to its last, window "hour", limit the peak-hour one.
+    std::vector<CapacityFigure> hourly_capacity;
     std::vector<SpacingWarning> spacing_warnings;   // by signal id
     std::vector<TightStretch> tight_stretches;      // by train, in running order
     // Single-track stretches (empty on a line without any) and what the timetable does on them.

@@ -59,6 +59,8 @@ const std::map<std::string, std::vector<std::string>> kTables = {
     {"conflicts", {"section", "first", "second", "from", "overlap_s", "kind"}},
     {"capacity", {"line_section", "direction", "window", "from", "to", "trains", "occupation_s", "consumption",
                   "limit"}},
+    {"capacity_by_hour", {"line_section", "direction", "from", "to", "trains", "occupation_s", "consumption",
+                          "limit"}},
     {"spacing_warnings", {"signal", "train", "speed_kmh", "warning_m", "stopping_distance_m"}},
     {"timetable_warnings", {"train", "from", "to", "timetabled_s", "scheduled_s", "technical_s", "short_s"}},
     {"single_track_stretches", {"stretch", "track", "from_m", "to_m", "lower_place", "lower_kind", "upper_place",

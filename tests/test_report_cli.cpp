@@ -81,8 +81,8 @@ TEST_CASE("the busiest hour counts departures and passes, not terminus arrivals"
     CHECK(all.from == Approx(7 * 3600.0));   // T1's first route is set up just before 08:00
     CHECK(all.to == Approx(9 * 3600.0));
     std::string why;
-    CHECK_THROWS_AS(choose_window(plan, {false, 9 * 3600.0, 8 * 3600.0}, &why), std::invalid_argument);
-    const TimeWindow one = choose_window(plan, {false, 8.5 * 3600.0, std::nullopt}, &why);
+    CHECK_THROWS_AS(choose_window(plan, {false, 9 * 3600.0, 8 * 3600.0, std::nullopt}, &why), std::invalid_argument);
+    const TimeWindow one = choose_window(plan, {false, 8.5 * 3600.0, std::nullopt, std::nullopt}, &why);
     CHECK(one.to - one.from == Approx(3600.0));
 }
 

@@ -56,7 +56,8 @@ TEST_CASE("report of a study: every results section, the median traced day drawn
     REQUIRE(r.status == 0);
     const std::string page = read_text(html);
     check_self_contained(page);
-    for (const char* id : {"results", "time-distance", "delays", "delay-growth", "capacity", "buffers", "conflicts"})
+    for (const char* id : {"verdict", "time-distance", "delays", "delay-growth", "capacity", "buffers", "conflicts",
+                           "running-times", "headway-matrix", "spacing", "run-facts"})
         CHECK(page.find(std::string("<section id=\"") + id + "\"") != std::string::npos);
     // Facts: the command, seed and version from the file, the caution.
     CHECK(page.find(knockon::kSafetyCaution) != std::string::npos);

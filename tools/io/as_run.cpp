@@ -164,4 +164,19 @@ std::vector<std::string> unknown_trains(const SimResult& day, const PlanResult& 
     return out;
 }
 
+std::optional<LossHour> worst_knock_on_hour(const SimResult& day) {
+    constexpr double kHour = 3600.0;
+    std::map<double, double> per_hour;   // hour start -> knock-on [s]
+    for (const TimingRecord& r : day.timing) {
+        if (!(r.knock_on > 0.0)) continue;
+        const double when = std::isfinite(r.departure) ? r.departure : r.arrival;
+        if (!std::isfinite(when)) continue;
+        per_hour[std::floor(when / kHour) * kHour] += r.knock_on;
+    }
+    std::optional<LossHour> worst;
+    for (const auto& [from, lost] : per_hour)   // ascending: the earliest wins a tie
+        if (!worst || lost > worst->knock_on) worst = LossHour{{from, from + kHour}, lost};
+    return worst;
+}
+
 }  // namespace knockon

@@ -42,6 +42,12 @@ std::optional<ReplicationChoice> choose_replication(const std::vector<Replicatio
 AsRunOverlay as_run_overlay(const SimResult& day, const Infrastructure& infra, const PlanResult& plan,
                             const std::string& label);
 
+// The clock hour in which `day` lost the most time to knock-on delay: each timing record's knock-on
+// (gathered on the run to the timing point and waiting to leave it) counts in the hour of its
+// as-run departure, or of its arrival where it has no departure (a terminus); the earliest hour on a
+// tie.  nullopt when no record has knock-on.
+std::optional<LossHour> worst_knock_on_hour(const SimResult& day);
+
 // Train ids of `day` that the plan does not know (the scenario changed since the run).
 std::vector<std::string> unknown_trains(const SimResult& day, const PlanResult& plan);
 

@@ -32,6 +32,23 @@ double text_width(const std::string& s, double font_px) {
     return 0.58 * font_px * static_cast<double>(n);
 }
 
+std::vector<double> spread_labels(const std::vector<double>& wanted, double gap, double lo, double hi) {
+    std::vector<std::size_t> order(wanted.size());
+    for (std::size_t i = 0; i < order.size(); ++i) order[i] = i;
+    std::stable_sort(order.begin(), order.end(), [&](std::size_t a, std::size_t b) { return wanted[a] < wanted[b]; });
+    std::vector<double> at(wanted.size());
+    // Downwards: each no closer than `gap` below the one before it, none above `lo`.
+    double last = lo - gap;
+    for (std::size_t i : order) last = at[i] = std::max(wanted[i], last + gap);
+    // Upwards from `hi`: pulls back whatever the first sweep pushed past the end (when there is
+    // room for all; else the first sweep's positions stand at the top).
+    if (!order.empty() && lo + gap * static_cast<double>(order.size() - 1) <= hi) {
+        double next = hi + gap;
+        for (auto it = order.rbegin(); it != order.rend(); ++it) next = at[*it] = std::min(at[*it], next - gap);
+    }
+    return at;
+}
+
 double legend_height(const std::vector<LegendItem>& items, double width) {
     double x = 0.0, y = 0.0;
     for (const LegendItem& item : items) {
@@ -132,6 +149,7 @@ const std::string& chart_css() {
 .knockon-chart .frame { fill: none; stroke: #555555; stroke-width: 1; }
 .knockon-chart .station-line, .knockon-chart .legend-station { stroke: #999999; stroke-width: 0.8; stroke-dasharray: 4 2; }
 .knockon-chart .station-label { font-size: 11px; font-weight: bold; }
+.knockon-chart .label-leader { stroke: #777777; stroke-width: 0.8; }
 .knockon-chart .signal-tick, .knockon-chart .legend-signal { stroke: #444444; stroke-width: 1.2; }
 .knockon-chart .sig-down { stroke: #777777; }
 .knockon-chart polyline.train-path, .knockon-chart line.legend-line { fill: none; stroke-width: 1.8; stroke-linejoin: round; }
@@ -162,7 +180,7 @@ const std::string& chart_css() {
 .knockon-chart .footnote { font-size: 9.5px; fill: #444444; }
 .knockon-chart .alert { font-size: 13px; font-weight: bold; }
 .knockon-chart .alert-box { fill: #ffffff; stroke: #1a1a1a; stroke-width: 2.5; }
-.knockon-chart .cap-bar, .knockon-chart .legend-bar, .knockon-chart .bar, .knockon-chart .hbar { stroke: #1a1a1a; stroke-width: 0.6; }
+.knockon-chart .cap-bar, .knockon-chart .hour-bar, .knockon-chart .legend-bar, .knockon-chart .bar, .knockon-chart .hbar { stroke: #1a1a1a; stroke-width: 0.6; }
 .knockon-chart .win-peak, .knockon-chart .ser-0 { fill: #1b3b6f; }
 .knockon-chart .win-day, .knockon-chart .ser-1 { fill: #a9c1e0; }
 .knockon-chart .win-other, .knockon-chart .ser-2 { fill: #b8660b; }

@@ -10,6 +10,11 @@
 
 namespace knockon {
 
+// The two marks of the charts and report tables, one symbol each so that they never read alike:
+// a figure above its limit (or a conflict), and a difference whose 95 % interval excludes 0.
+inline constexpr const char* kOverMark = "\u25B2";
+inline constexpr const char* kSignificantMark = "\u25C6";
+
 struct ChartOptions {
     double width = 1100.0;   // pixels of the drawing (it scales: the SVG has a viewBox)
     std::string title;       // drawn at the top when not empty
@@ -29,6 +34,12 @@ std::string series_style(std::size_t k);
 
 // Rough width of a text in the charts' sans-serif font, for laying out legends and labels.
 double text_width(const std::string& s, double font_px);
+
+// Positions for labels wanted at `wanted` (any order) along one axis, each at least `gap` from the
+// next and all within [lo, hi] where there is room: the wanted positions where they are far enough
+// apart, else moved apart as little as a sweep each way allows (the order of the wanted positions is
+// kept).  For station names beside a diagram, so that stations close together do not overlap.
+std::vector<double> spread_labels(const std::vector<double>& wanted, double gap, double lo, double hi);
 
 // A legend entry: a sample drawn in a 26 x 12 box whose top-left is (0, 0), and its label.
 struct LegendItem {

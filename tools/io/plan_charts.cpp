@@ -160,6 +160,10 @@ TimeWindow choose_window(const PlanResult& plan, const WindowRequest& request, s
     } else if (request.to) {
         w = {*request.to - kHour, *request.to};
         why = "the hour up to the time asked for";
+    } else if (request.worst && request.worst->knock_on > 0.0) {
+        w = request.worst->window;
+        why = "the hour in which the day drawn lost the most time to knock-on delay (" +
+              svg::number(request.worst->knock_on / 60.0, 1) + " min, all trains)";
     } else {
         const BusiestHour b = busiest_hour(plan);
         w = b.window;
@@ -208,7 +212,13 @@ ChainageSpan route_span(const TrainPlan& train, const RouteBlocking& route) {
 Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan, TimeWindow window,
                             const ChartOptions& options, const AsRunOverlay* as_run) {
     const double W = options.width;
-    const double left = 190.0, right = 70.0;
+    // The left margin holds the longest station name (bold, hence wider than text_width's rule),
+    // the signal columns and a little room, so no name is cut at the drawing's edge.
+    constexpr double kStationFont = 11.0, kLabelGap = 13.0;
+    double widest = 0.0;
+    for (const Station& st : infra.stations)
+        widest = std::max(widest, 1.12 * text_width(st.name.empty() ? st.id : st.name, kStationFont));
+    const double left = std::max(190.0, widest + 24.0 + 12.0), right = 70.0;
     const double top = options.title.empty() ? 16.0 : 46.0;
     const double plot_h = 520.0;
     const double plot_w = std::max(200.0, W - left - right);
@@ -260,12 +270,20 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
         grid.add(svg::line(x, axis_bottom, x, axis_bottom + 5, "tick"));
         grid.add(svg::text(x, axis_bottom + 18, svg::format_hhmm(t), "tick-label", "middle"));
     }
-    for (const Station& st : infra.stations) {
+    // Station names beside their lines, moved apart where stations lie closer than a line of text
+    // (with a leader to the station's line).
+    std::vector<double> wanted;
+    for (const Station& st : infra.stations) wanted.push_back(Y(st.at) + 4.0);
+    const std::vector<double> label_y = spread_labels(wanted, kLabelGap, top - 2.0, axis_bottom + 12.0);
+    for (std::size_t i = 0; i < infra.stations.size(); ++i) {
+        const Station& st = infra.stations[i];
         const double y = Y(st.at);
         Element& l = grid.add(svg::line(left, y, left + plot_w, y, "station-line"));
         const std::string name = st.name.empty() ? st.id : st.name;
         l.tooltip(name + " (" + st.id + "), km " + km(st.at));
-        grid.add(svg::text(left - 24, y + 4, name, "station-label", "end")).tooltip(st.id + ", km " + km(st.at));
+        grid.add(svg::text(left - 24, label_y[i], name, "station-label", "end")).tooltip(st.id + ", km " + km(st.at));
+        if (std::abs(label_y[i] - wanted[i]) > 1.0)
+            grid.add(svg::line(left - 23, label_y[i] - 4.0, left - 19, y, "label-leader"));
     }
     // Signals: a column of ticks each side of the strip left of the plot.
     Element& sigs = doc.add(svg::group("signals"));
@@ -427,7 +445,9 @@ Element capacity_chart(const PlanResult& plan, const ChartOptions& options) {
         lim.add(svg::line(1, 6, 25, 6, "legend-limit"));
         legend.push_back({std::move(lim), "UIC 406 recommended limit for the window (as recalled)"});
     }
-    legend.push_back({svg::text(13, 10, "88 %", "bar-value over", "middle"), "bold value: above the limit"});
+    // The sample is the mark itself, not a made-up figure that could be read as a result.
+    legend.push_back({svg::text(13, 10, kOverMark, "bar-value over", "middle"),
+                      "above the limit: value in bold, marked " + std::string(kOverMark)});
     const double legend_y = axis_bottom + label_h + 30.0;
     const double legend_h = legend_height(legend, plot_w);
     const double H = legend_y + legend_h + (options.footnote.empty() ? 6.0 : 24.0);
@@ -471,8 +491,8 @@ Element capacity_chart(const PlanResult& plan, const ChartOptions& options) {
             // The value above its bar, or above the limit mark where the two would collide.
             double ly = Y(v) - 4;
             if (f.limit > 0.0 && std::abs(Y(v) - Y(lim)) < 12) ly = std::min(Y(v), Y(lim)) - 5;
-            bars.add(svg::text(x + bar_w / 2, ly, svg::number(v, 0) + " %", over ? "bar-value over" : "bar-value",
-                               "middle"));
+            bars.add(svg::text(x + bar_w / 2, ly, (over ? std::string(kOverMark) + " " : "") + svg::number(v, 0) + " %",
+                               over ? "bar-value over" : "bar-value", "middle"));
         }
         const double cx = gx + group_w / 2, ly = axis_bottom + 16;
         if (slanted) {
@@ -488,6 +508,81 @@ Element capacity_chart(const PlanResult& plan, const ChartOptions& options) {
     axis.add(svg::line(left, axis_bottom, left + plot_w, axis_bottom, "baseline"));
     axis.add(svg::text(left + plot_w / 2, axis_bottom + label_h + 12, "line section and direction", "axis-label",
                        "middle"));
+    draw_legend(doc, std::move(legend), left, legend_y, plot_w);
+    draw_footnote(doc, options, left, H);
+    return doc;
+}
+
+Element hourly_capacity_chart(const PlanResult& plan, const ChartOptions& options) {
+    // Each hour's highest figure, and which line section it is.
+    std::map<double, const CapacityFigure*> top;
+    double limit = 0.0, top_value = 1.0;
+    for (const CapacityFigure& f : plan.hourly_capacity) {
+        const CapacityFigure*& t = top[f.from];
+        if (!t || f.consumption > t->consumption) t = &f;
+        limit = f.limit;
+        top_value = std::max({top_value, f.consumption, f.limit});
+    }
+    const double W = options.width;
+    const double left = 70.0, right = 20.0;
+    const double top_y = options.title.empty() ? 20.0 : 50.0;
+    const double plot_h = 220.0;
+    const double plot_w = std::max(200.0, W - left - right);
+    const double ymax_pct = [&] {
+        const double v = top_value * 100.0;
+        const double st = svg::nice_step(0.0, v, 5);
+        return std::max(100.0, std::ceil(v / st - 1e-9) * st);
+    }();
+    const svg::LinearScale Y{0.0, ymax_pct, top_y + plot_h, top_y};
+    const double axis_bottom = top_y + plot_h;
+    std::vector<LegendItem> legend;
+    legend.push_back({svg::rect(1, 0, 24, 12, "legend-bar win-peak"), "the hour's highest line section and direction"});
+    {
+        Element lim = svg::group();
+        lim.add(svg::line(1, 6, 25, 6, "cap-limit-halo"));
+        lim.add(svg::line(1, 6, 25, 6, "legend-limit"));
+        legend.push_back({std::move(lim), "UIC 406 recommended peak-hour limit (as recalled)"});
+    }
+    legend.push_back({svg::text(13, 10, kOverMark, "bar-value over", "middle"),
+                      "above the limit: value in bold, marked " + std::string(kOverMark)});
+    const double legend_y = axis_bottom + 50.0;
+    const double H = legend_y + legend_height(legend, plot_w) + (options.footnote.empty() ? 6.0 : 24.0);
+    Element doc = chart_document(W, H, "hourly-capacity", options, "capacity consumption hour by hour", left);
+
+    Element& axis = doc.add(svg::group("axis"));
+    for (double v : svg::nice_ticks(0.0, ymax_pct, 5)) {
+        axis.add(svg::line(left, Y(v), left + plot_w, Y(v), "grid"));
+        axis.add(svg::text(left - 8, Y(v) + 4, svg::number(v, 0) + " %", "tick-label", "end"));
+    }
+    {
+        const double cx = 18, cy = top_y + plot_h / 2;
+        axis.add(svg::text(cx, cy, "consumption [% of the hour]", "axis-label", "middle"))
+            .attr("transform", "rotate(-90 " + svg::number(cx) + " " + svg::number(cy) + ")");
+    }
+    Element& bars = doc.add(svg::group("bars"));
+    const double n = static_cast<double>(std::max<std::size_t>(top.size(), 1));
+    const double slot = plot_w / n, bar_w = std::min(40.0, slot * 0.7);
+    std::size_t k = 0;
+    for (const auto& [from, f] : top) {
+        const double x = left + slot * static_cast<double>(k++) + (slot - bar_w) / 2;
+        const double v = f->consumption * 100.0;
+        const bool over = f->consumption > f->limit;
+        bars.add(svg::rect(x, Y(v), bar_w, Y(0) - Y(v), "hour-bar win-peak"))
+            .tooltip(svg::format_hhmm(from) + "-" + svg::format_hhmm(f->to) + ": " + svg::number(v, 1) + " % on " +
+                     f->line_section + " " + to_string(f->direction) + " (" + std::to_string(f->trains) + " trains)");
+        bars.add(svg::text(x + bar_w / 2, Y(v) - 4, (over ? std::string(kOverMark) + " " : "") + svg::number(v, 0) + " %",
+                           over ? "bar-value over" : "bar-value", "middle"));
+        bars.add(svg::text(x + bar_w / 2, axis_bottom + 16, svg::format_hhmm(from), "group-label", "middle"));
+    }
+    if (limit > 0.0) {   // over the bars
+        Element& g = doc.add(svg::group("limit"));
+        g.add(svg::line(left, Y(limit * 100.0), left + plot_w, Y(limit * 100.0), "cap-limit-halo"));
+        g.add(svg::line(left, Y(limit * 100.0), left + plot_w, Y(limit * 100.0), "cap-limit"));
+    }
+    if (top.empty())
+        doc.add(svg::text(left + plot_w / 2, top_y + plot_h / 2, "no line section carries trains", "empty-note", "middle"));
+    axis.add(svg::line(left, axis_bottom, left + plot_w, axis_bottom, "baseline"));
+    axis.add(svg::text(left + plot_w / 2, axis_bottom + 36, "clock hour (start)", "axis-label", "middle"));
     draw_legend(doc, std::move(legend), left, legend_y, plot_w);
     draw_footnote(doc, options, left, H);
     return doc;

@@ -6,7 +6,7 @@
 // The charts style their elements by CSS class only (chart_css()), so they can be restyled and
 // their elements counted: "train-path" (one polyline per train drawn), "block" (one rectangle
 // per route of a train drawn), "conflict", "cap-bar" (one bar per line section and window),
-// "cap-limit"; over a simulated day, "asrun-path" (one polyline per train drawn as run) and
+// "cap-limit", "hour-bar" (one per clock hour of the hourly profile); over a simulated day, "asrun-path" (one polyline per train drawn as run) and
 // "asrun-hold" (one mark per stand at a signal).
 #include <cstddef>
 #include <optional>
@@ -36,12 +36,21 @@ BusiestHour busiest_hour(const PlanResult& plan);
 // From the first blocking to the last of any train, widened to whole hours (00:00-01:00 when empty).
 TimeWindow plan_extent(const PlanResult& plan);
 
+// The clock hour in which a simulated day lost the most time to knock-on delay, and how much
+// (as_run.hpp finds it from the day's records).
+struct LossHour {
+    TimeWindow window;
+    double knock_on = 0.0;   // [s], all trains
+};
+
 // The window a command was asked for: `all` = plan_extent; --from and --to as given; one of them
-// alone = the hour from or up to it; neither = the busiest hour.  `reason` says which, for the
-// reader.  Throws std::invalid_argument for an empty or over-long (> 48 h) window.
+// alone = the hour from or up to it; neither = the hour the drawn day lost the most time in
+// (`worst`, when it lost any), else the busiest hour.  `reason` says which, for the reader.
+// Throws std::invalid_argument for an empty or over-long (> 48 h) window.
 struct WindowRequest {
     bool all = false;
     std::optional<double> from, to;   // seconds after midnight
+    std::optional<LossHour> worst;    // of the day drawn over the plan
 };
 TimeWindow choose_window(const PlanResult& plan, const WindowRequest& request, std::string* reason = nullptr);
 
@@ -81,6 +90,11 @@ svg::Element time_distance_chart(const Infrastructure& infra, const PlanResult& 
                                  const ChartOptions& options = {}, const AsRunOverlay* as_run = nullptr);
 
 svg::Element capacity_chart(const PlanResult& plan, const ChartOptions& options = {});
+
+// The hour-by-hour profile (PlanResult::hourly_capacity): one bar per clock hour ("hour-bar"), the
+// highest consumption of any line section and direction in it, and the peak-hour limit
+// ("cap-limit").
+svg::Element hourly_capacity_chart(const PlanResult& plan, const ChartOptions& options = {});
 
 // Distinct train categories in order of first appearance; a category's index picks its style.
 std::vector<std::string> train_categories(const PlanResult& plan);

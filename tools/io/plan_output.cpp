@@ -244,11 +244,25 @@ Table capacity(const PlanResult& plan) {
     return t;
 }
 
+Table capacity_by_hour(const PlanResult& plan) {
+    Table t{"capacity_by_hour",
+            "Capacity consumption hour by hour (UIC 406 compression of each clock hour, against the peak-hour limit)",
+            {{"line_section", K::text}, {"direction", K::text}, {"from", K::time_of_day}, {"to", K::time_of_day},
+             {"trains", K::number}, {"occupation_s", K::duration}, {"consumption", K::percent},
+             {"limit", K::percent}},
+            {}};
+    for (const CapacityFigure& f : plan.hourly_capacity)
+        t.rows.push_back({f.line_section, to_string(f.direction), f.from, f.to, static_cast<double>(f.trains),
+                          f.occupation, f.consumption, f.limit});
+    return t;
+}
+
 }  // namespace
 
 std::vector<Table> plan_tables(const Scenario&, const PlanResult& plan) {
     return {trains(plan),         running_times(plan),    blocking_routes(plan), blocking_sections(plan),
             headways(plan),       links(plan),            headway_matrix(plan),  conflicts(plan),       capacity(plan),
+            capacity_by_hour(plan),
             spacing_warnings(plan), timetable_warnings(plan), single_track_stretches(plan),
             crossings(plan),      single_track_capacity(plan), crossings_too_short(plan)};
 }

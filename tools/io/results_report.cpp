@@ -127,7 +127,37 @@ std::string crossing_changes_table(const SimResult& d) {
                           "(+ lost, - gained).");
 }
 
-ReportSection glance_section(const ResultsView& v) {
+// The replication numbers of the days that ended in deadlock (the first 20 named).
+std::string deadlocked_days(const StoredStudy& s) {
+    std::vector<std::uint32_t> days;
+    for (const ReplicationStats& d : s.per_day)
+        if (d.deadlocked) days.push_back(d.replication);
+    if (days.empty()) return html_paragraph("No day ended in deadlock.");
+    constexpr std::size_t kNamed = 20;
+    std::string list;
+    for (std::size_t i = 0; i < days.size() && i < kNamed; ++i) list += (i ? ", " : "") + std::to_string(days[i]);
+    if (days.size() > kNamed) list += " and " + std::to_string(days.size() - kNamed) + " more";
+    return html_paragraph("Days that ended in deadlock (replication numbers): " + list +
+                          ". Their figures are left out of every figure of this report.");
+}
+
+// The two lists a decision starts from: where the knock-on comes from, and which buffers to widen
+// first.  They are filled from the results file's attribution of knock-on to its sources; a file
+// without one says so (nothing is guessed in its place).
+std::string attribution_slots(const ResultsView& v) {
+    if (!v.file->study && !v.day) return "";
+    const std::string none =
+        "Not given: this results file holds no attribution of knock-on delay to the primary delays that caused "
+        "it.";
+    std::string html = "<div class=\"verdict-lists\">\n";
+    html += "<div id=\"top-sources\">\n<h3>Top three sources of knock-on delay</h3>\n<p class=\"not-given\">" +
+            html_escape(none) + "</p>\n</div>\n";
+    html += "<div id=\"top-buffers\">\n<h3>Top three buffers to widen</h3>\n<p class=\"not-given\">" +
+            html_escape(none) + "</p>\n</div>\n";
+    return html + "</div>\n";
+}
+
+ReportSection verdict_section(const ResultsView& v) {
     HtmlTable t;
     t.headers = {"figure", "value"};
     t.numeric = {false, true};
@@ -204,9 +234,11 @@ ReportSection glance_section(const ResultsView& v) {
         intro = "One simulated day (knockon simulate --out).";
     }
     std::string html = html_paragraph(intro) + html_table(t);
+    if (v.file->study) html += deadlocked_days(*v.file->study);
     if (incomplete_day(v)) html += waiting_table(*v.day);
-    if (v.day && !v.day->crossing_changes.empty()) html += crossing_changes_table(*v.day);
-    return {"results", "Results at a glance", html};
+    html += attribution_slots(v);
+    html += html_table(plan_headline(*v.plan));
+    return {"verdict", "Verdict", html};
 }
 
 // ---- delays -------------------------------------------------------------------------------------
@@ -328,6 +360,7 @@ ReportSection growth_section(const ResultsView& v) {
     k.numeric = {false, true};
     for (const auto& [station, seconds] : rows) k.rows.push_back({station, min1(seconds)});
     html += html_table(k);
+    if (v.day && !v.day->crossing_changes.empty()) html += crossing_changes_table(*v.day);
     return {"delay-growth", "Where delays grow", html};
 }
 
@@ -415,8 +448,8 @@ ReportSection variants_section(const ResultsView& v) {
 
     HtmlTable t;
     t.caption = "Paired differences against " + reference(v) + " (variant minus " + reference(v) +
-                ", day by day over the days complete in both; mean with 95 % CI; marked where the interval "
-                "excludes 0)";
+                ", day by day over the days complete in both; mean with 95 % CI; marked " + std::string(kSignificantMark) +
+                " where the interval excludes 0)";
     t.headers = {"variant", "figure", "difference", "95 % CI", "days paired"};
     t.numeric = {false, false, true, true, true};
     for (const DifferenceRow& r : v.file->differences) {
@@ -442,12 +475,63 @@ ReportSection variants_section(const ResultsView& v) {
                               r.paired() ? value(e.lower) + " to " + value(e.upper) : "(plan, no interval)",
                               r.paired() ? std::to_string(e.n) : "-"});
         }
-        t.highlight.push_back(r.paired() && (e.lower > 0.0 || e.upper < 0.0));
+        t.significant.push_back(r.paired() && (e.lower > 0.0 || e.upper < 0.0));
     }
     html += html_table(t);
     for (const std::string& name : result_chart_names(ResultsKind::comparison))
         html += figure_of(make_result_chart(name, v));
     return {"variants", "Variants compared", html};
+}
+
+std::string reference_plan_headline(const ResultsView& v) {
+    HtmlTable t = plan_headline(*v.plan);
+    t.caption += " (" + reference(v) + ")";
+    return html_table(t);
+}
+
+// A comparison in brief: each variant's headline figures side by side, the paired differences
+// whose interval excludes 0, and the reference variant's plan.
+ReportSection comparison_verdict(const ResultsView& v) {
+    const auto& vs = v.file->variants;
+    const std::vector<double> thresholds = v.thresholds();
+    HtmlTable s;
+    s.caption = "Per complete simulated day, mean with 95 % CI (days that ended in deadlock left out)";
+    s.headers = {"figure"};
+    s.numeric = {false};
+    for (const VariantFigures& f : vs) {
+        s.headers.push_back(f.name);
+        s.numeric.push_back(true);
+    }
+    auto row = [&](const std::string& label, auto cell) {
+        std::vector<std::string> r = {label};
+        for (const VariantFigures& f : vs) r.push_back(cell(f));
+        s.rows.push_back(std::move(r));
+    };
+    row("days ended in deadlock", [](const VariantFigures& f) {
+        return std::to_string(f.study.summary.deadlocked) + " of " + std::to_string(f.study.summary.replications);
+    });
+    row("knock-on delay", [](const VariantFigures& f) { return min_ci(f.study.summary.total_knock_on); });
+    if (!thresholds.empty())
+        row("punctual within " + threshold_text(thresholds.front()),
+            [](const VariantFigures& f) { return pct_ci(f.study.summary.punctuality.at(0)); });
+    std::size_t deadlocked = 0;
+    for (const VariantFigures& f : vs) deadlocked += f.study.summary.deadlocked;
+    s.highlight.assign(s.rows.size(), false);
+    s.highlight.front() = deadlocked > 0;
+    std::size_t significant = 0, paired = 0;
+    for (const DifferenceRow& d : v.file->differences) {
+        paired += d.paired();
+        significant += d.paired() && (d.difference.lower > 0.0 || d.difference.upper < 0.0);
+    }
+    std::string html = html_paragraph(std::to_string(vs.size()) + " variants, each over the same " +
+                                      std::to_string(v.file->facts.replications) +
+                                      " days of primary delays (common random numbers).") +
+                       html_table(s) +
+                       html_paragraph(std::to_string(significant) + " of " + std::to_string(paired) +
+                                      " paired differences against " + reference(v) + " have a 95 % interval that " +
+                                      "excludes 0 (marked " + kSignificantMark + " in Variants compared).") +
+                       reference_plan_headline(v);
+    return {"verdict", "Verdict", html};
 }
 
 std::size_t section_index(const Report& r, const std::string& id) {
@@ -474,15 +558,19 @@ Report results_report(const ResultsView& v, const PlanReportOptions& options) {
         const std::size_t i = section_index(r, id);
         return i < r.sections.size() ? r.sections[i] : ReportSection{id, id, ""};
     };
+    // The plan's reference tables close the views, after the results.
+    const char* const reference_tables[] = {"running-times", "headway-matrix", "spacing"};
     if (kind == ResultsKind::comparison) {
+        r.verdict = comparison_verdict(v);
         sections.push_back(variants_section(v));
-        for (const char* id : {"time-distance", "capacity", "buffers", "conflicts"}) {
+        for (const char* id : {"time-distance", "capacity", "buffers", "conflicts", "running-times", "headway-matrix",
+                               "spacing"}) {
             ReportSection s = take(id);
             s.title += " (" + reference(v) + ")";
             sections.push_back(std::move(s));
         }
     } else {
-        sections.push_back(glance_section(v));
+        r.verdict = verdict_section(v);
         sections.push_back(take("time-distance"));
         sections.push_back(delays_section(v));
         sections.push_back(growth_section(v));
@@ -493,6 +581,8 @@ Report results_report(const ResultsView& v, const PlanReportOptions& options) {
         add_as_run_buffers(buffers, v);
         sections.push_back(std::move(buffers));
         sections.push_back(take("conflicts"));
+        if (section_index(r, "crossings") < r.sections.size()) sections.push_back(take("crossings"));
+        for (const char* id : reference_tables) sections.push_back(take(id));
     }
     r.sections = std::move(sections);
     return r;

@@ -27,6 +27,8 @@ std::string csv_cell(const Cell& c, ColumnKind kind) {
     return number(v, kind == ColumnKind::percent ? 4 : 3);
 }
 
+}  // namespace
+
 std::string text_cell(const Cell& c, ColumnKind kind) {
     if (auto s = std::get_if<std::string>(&c)) return *s;
     double v = std::get<double>(c);
@@ -38,8 +40,6 @@ std::string text_cell(const Cell& c, ColumnKind kind) {
         default: return number(v, 2);
     }
 }
-
-}  // namespace
 
 std::string to_csv(const Table& t) {
     std::string out;

@@ -28,5 +28,7 @@ std::string to_csv(const Table& t);
 // Aligned text: times as HH:MM:SS, durations as seconds with one decimal, percentages as "62.5 %".
 // At most max_rows rows (0 = all), saying how many were left out.
 std::string to_text(const Table& t, std::size_t max_rows = 0);
+// One cell as to_text writes it ("-" for NaN).
+std::string text_cell(const Cell& c, ColumnKind kind);
 
 }  // namespace knockon

@@ -24,7 +24,7 @@ void refuse_day_options(const po::variables_map& vm);
 namespace {
 
 std::string chart_list() {
-    std::string out = "time-distance, capacity (any input); with a day or study file: ";
+    std::string out = "time-distance, capacity, hourly-capacity (any input); with a day or study file: ";
     const std::vector<std::string> s = result_chart_names(ResultsKind::study);
     for (std::size_t i = 0; i < s.size(); ++i) out += s[i] + (i + 1 < s.size() ? ", " : "; ");
     out += "with a comparison file: ";
@@ -56,7 +56,8 @@ int plot(const std::vector<std::string>& args) {
     const std::string path = vm["svg"].as<std::string>();
     check_output_path(path, {input});
     const bool results = is_results_file(input);
-    if (!results && chart != "time-distance" && chart != "capacity") {
+    const bool plan_chart = chart == "time-distance" || chart == "capacity" || chart == "hourly-capacity";
+    if (!results && !plan_chart) {
         const std::vector<std::string> a = result_chart_names(ResultsKind::study);
         const std::vector<std::string> b = result_chart_names(ResultsKind::comparison);
         const bool known = std::find(a.begin(), a.end(), chart) != a.end() || std::find(b.begin(), b.end(), chart) != b.end();
@@ -84,7 +85,9 @@ int plot(const std::vector<std::string>& args) {
     co.width = width;
     svg::Element doc("svg");
     if (chart == "time-distance") {
-        const TimeWindow w = checked_window(pl, request, nullptr);
+        WindowRequest asked = request;   // as for report: the day's worst hour unless asked otherwise
+        if (in && in->view.day) asked.worst = worst_knock_on_hour(*in->view.day);
+        const TimeWindow w = checked_window(pl, asked, nullptr);
         const AsRunOverlay* as_run = in && in->as_run ? &*in->as_run : nullptr;
         co.title = sc.name + ": time-distance diagram, " + svg::format_hhmm(w.from) + "-" + svg::format_hhmm(w.to) +
                    (as_run ? " (" + as_run->label + ")" : std::string());
@@ -94,6 +97,10 @@ int plot(const std::vector<std::string>& args) {
         co.title = sc.name + ": capacity consumption per line section (UIC 406 compression)";
         co.footnote = kUic406Note;
         doc = capacity_chart(pl, co);
+    } else if (chart == "hourly-capacity") {
+        co.title = sc.name + ": capacity consumption hour by hour (UIC 406 compression of each clock hour)";
+        co.footnote = kUic406Note;
+        doc = hourly_capacity_chart(pl, co);
     } else {
         try {
             ResultChart c = make_result_chart(chart, in->view, width);

@@ -1,5 +1,6 @@
 // `knockon report`: the study report as one self-contained HTML file.  Of a scenario: the plan
-// (time-distance diagram, capacity consumption, thinnest buffers, conflicts).  Of a results file
+// (verdict, time-distance diagram, capacity consumption per line section and hour by hour,
+// thinnest buffers and links, conflicts, running times, headway matrix, spacing warnings).  Of a results file
 // (simulate --out, compare --out): the plan of the scenario it came from with the simulated day
 // drawn over it, and the results' sections (tools/io/results_report.hpp).
 #include <cstdio>
@@ -102,7 +103,10 @@ int report(const std::vector<std::string>& args) {
     if (is_results_file(input)) {
         const std::unique_ptr<ResultsInput> in = open_results(input, vm);
         check_output_path(path, {input, in->scenario_path});
-        ro.window = checked_window(in->plan, request, &ro.window_reason);
+        // Unless a window was asked for, the diagram opens where the day drawn lost the most time.
+        WindowRequest asked = request;
+        if (in->view.day) asked.worst = worst_knock_on_hour(*in->view.day);
+        ro.window = checked_window(in->plan, asked, &ro.window_reason);
         ro.as_run = in->as_run ? &*in->as_run : nullptr;
         ro.as_run_note = in->as_run_note;
         write_file_atomically(path, render_html(results_report(in->view, ro)));
