@@ -6,6 +6,8 @@
 // and one mark for "above the limit", another for "significant".
 #include <catch2/catch.hpp>
 
+#include <hdf5.h>
+
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
@@ -445,10 +447,134 @@ TEST_CASE("the verdict of a study gives the JSON's figures and names the days th
     std::snprintf(want, sizeof want, "%.2f \u00B1 %.2f min", k["mean"].get<double>() / 60.0,
                   k["ci95_half_width"].get<double>() / 60.0);
     CHECK(verdict_value(page, "knock-on delay") == want);
-    // The two lists have their places, and say plainly that this file cannot fill them.
+    // The two lists have their places, filled from the attribution of the complete days: "not
+    // given" exactly where the JSON has no source or no buffer.
     CHECK(verdict.find("<div id=\"top-sources\">") != std::string::npos);
     CHECK(verdict.find("<div id=\"top-buffers\">") != std::string::npos);
-    CHECK(count_class(verdict, "not-given") == 2);
+    CHECK(count_class(verdict, "not-given") ==
+          (j["attribution"]["sources"].empty() ? 1u : 0u) + (j["attribution"]["buffers"].empty() ? 1u : 0u));
     // The deadlock alert stays above the verdict.
     CHECK(page.find("role=\"alert\"") < page.find("<section id=\"verdict\""));
+}
+
+namespace {
+
+// A source as the text output names it, from its JSON record (kind, train, place, section).
+std::string source_words(const json& s) {
+    const std::string kind = s["kind"].get<std::string>();
+    const auto field = [&](const char* k) { return s.contains(k) ? s[k].get<std::string>() : std::string(); };
+    if (kind == "entry") return field("train") + " late start or entry at " + field("place");
+    if (kind == "dwell") return field("train") + " long dwell at " + field("place");
+    if (kind == "running") return field("train") + " slow run from " + field("place");
+    if (kind == "disruption") return "section " + field("section") + " out of use";
+    if (kind == "dispatch") return "the dispatcher";
+    if (kind == "timetable") return "the timetable itself (holder on time)";
+    return "not recorded";
+}
+
+// Mean ± 95 % half-width in minutes, two decimals, as the JSON estimate gives them.
+std::string minutes_ci(const json& e) {
+    char buf[64];
+    std::snprintf(buf, sizeof buf, "%.2f \u00B1 %.2f min", e["mean"].get<double>() / 60.0,
+                  e["ci95_half_width"].get<double>() / 60.0);
+    return buf;
+}
+
+// The markup of <div id="ID"> up to its end.
+std::string div_of(const std::string& html, const std::string& id) {
+    const std::size_t a = html.find("<div id=\"" + id + "\"");
+    if (a == std::string::npos) return "";
+    return html.substr(a, html.find("</div>", a) - a);
+}
+
+}  // namespace
+
+TEST_CASE("the verdict's top sources and buffers and the ranking of sources equal the study's JSON attribution",
+          "[report][cli]") {
+    TempDir dir;
+    const fs::path h5 = dir.path / "study.h5";
+    const Result r = run_knockon("simulate " + q(kSource + "/scenarios/demo.yaml") + " --replications 20 --json --out " +
+                                     q(h5),
+                                 dir);
+    INFO(r.err);
+    REQUIRE(r.status == 0);
+    const json a = json::parse(r.out)["attribution"];
+    const json& sources = a["sources"];
+    const json& buffers = a["buffers"];
+    // The demo's 20 days have knock-on from more than three sources over more than three buffers.
+    REQUIRE(sources.size() > 3);
+    REQUIRE(buffers.size() > 3);
+    const std::string page = report_page(h5.string(), dir);
+    const std::string verdict = section_of(page, "verdict");
+    CHECK(count_class(verdict, "not-given") == 0);
+
+    // The verdict's lists: the first three of the JSON's, in its order, with their figures.
+    const auto top_sources = rows_of(div_of(verdict, "top-sources"));
+    REQUIRE(top_sources.size() == 4);   // the header and three rows
+    for (std::size_t i = 0; i < 3; ++i)
+        CHECK(top_sources[i + 1] == std::vector<std::string>{std::to_string(i + 1), source_words(sources[i]),
+                                                            minutes_ci(sources[i]["damage_s"])});
+    const auto top_buffers = rows_of(div_of(verdict, "top-buffers"));
+    REQUIRE(top_buffers.size() == 4);
+    for (std::size_t i = 0; i < 3; ++i)
+        CHECK(top_buffers[i + 1] ==
+              std::vector<std::string>{std::to_string(i + 1),
+                                       buffers[i]["leader"].get<std::string>() + " -> " +
+                                           buffers[i]["follower"].get<std::string>(),
+                                       minutes_ci(buffers[i]["knock_on_s"])});
+    // The largest first (the JSON's order is the ranking; common practice, no source).
+    CHECK(sources[0]["damage_s"]["mean"].get<double>() >= sources[1]["damage_s"]["mean"].get<double>());
+
+    // The ranking across days: every source the JSON has (up to the table's 30 rows), in its order,
+    // with its mean, half-width and 95 % interval.
+    const auto ranking = rows_of(section_of(page, "knock-on-sources"));
+    REQUIRE(!ranking.empty());
+    CHECK(ranking[0] == std::vector<std::string>{"rank", "source", "kind", "knock-on caused per day", "95 % interval"});
+    const std::size_t shown = std::min<std::size_t>(30, sources.size());
+    for (std::size_t i = 0; i < shown; ++i) {
+        const json& d = sources[i]["damage_s"];
+        char interval[64];
+        std::snprintf(interval, sizeof interval, "%.2f to %.2f min", d["ci95_lower"].get<double>() / 60.0,
+                      d["ci95_upper"].get<double>() / 60.0);
+        INFO("rank " << i + 1);
+        REQUIRE(i + 1 < ranking.size());
+        CHECK(ranking[i + 1] == std::vector<std::string>{std::to_string(i + 1), source_words(sources[i]),
+                                                        sources[i]["kind"].get<std::string>(), minutes_ci(d),
+                                                        interval});
+    }
+    if (sources.size() > 30)
+        CHECK(section_of(page, "knock-on-sources").find(std::to_string(sources.size() - 30) + " more in the results file") !=
+              std::string::npos);
+    // The buffers of the ranking's buffer table, in the JSON's order.
+    for (std::size_t i = 0; i < std::min<std::size_t>(30, buffers.size()); ++i)
+        CHECK(has_row(ranking, {"buffer",
+                                buffers[i]["leader"].get<std::string>() + " -> " + buffers[i]["follower"].get<std::string>(),
+                                minutes_ci(buffers[i]["knock_on_s"])}));
+}
+
+TEST_CASE("a study file without an attribution of knock-on says not given in both lists", "[report][cli]") {
+    // A study file as knockon of schema 7 wrote it: the same tables, read without attribution.
+    TempDir dir;
+    const fs::path h5 = dir.path / "study.h5";
+    const Result r = run_knockon("simulate " + q(kSource + "/scenarios/demo.yaml") + " --replications 5 --out " + q(h5), dir);
+    INFO(r.err);
+    REQUIRE(r.status == 0);
+    {
+        const hid_t file = H5Fopen(h5.string().c_str(), H5F_ACC_RDWR, H5P_DEFAULT);
+        REQUIRE(file >= 0);
+        const hid_t attr = H5Aopen(file, "schema_version", H5P_DEFAULT);
+        REQUIRE(attr >= 0);
+        const int seven = 7;
+        CHECK(H5Awrite(attr, H5T_NATIVE_INT, &seven) >= 0);
+        H5Aclose(attr);
+        H5Fclose(file);
+    }
+    const std::string page = report_page(h5.string(), dir);
+    const std::string verdict = section_of(page, "verdict");
+    CHECK(count_class(verdict, "not-given") == 2);
+    CHECK(div_of(verdict, "top-sources").find("holds no attribution of knock-on delay") != std::string::npos);
+    CHECK(div_of(verdict, "top-buffers").find("holds no attribution of knock-on delay") != std::string::npos);
+    CHECK(rows_of(div_of(verdict, "top-sources")).empty());
+    // No ranking is laid out where the file has none.
+    CHECK(section_of(page, "knock-on-sources").empty());
 }

@@ -32,17 +32,6 @@ nlohmann::ordered_json est(const Estimate& e) {
     return {{"mean", e.mean}, {"ci95_half_width", e.half_width}, {"ci95_lower", e.lower}, {"ci95_upper", e.upper}, {"n", e.n}};
 }
 
-const char* cause_label(std::size_t kind) {
-    switch (static_cast<HoldCause::Kind>(kind)) {
-        case HoldCause::Kind::train: return "other trains' occupation or routes";
-        case HoldCause::Kind::link: return "links (turnarounds, connections, crew)";
-        case HoldCause::Kind::disruption: return "sections out of use";
-        case HoldCause::Kind::dispatch: return "the dispatcher";
-        case HoldCause::Kind::none: return "not recorded";
-    }
-    return "not recorded";
-}
-
 std::string link_name(std::size_t from, std::size_t to, const char* kind, const std::vector<std::string>& train_ids) {
     return train_ids[from] + " -> " + train_ids[to] + " (" + kind + ")";
 }
@@ -66,17 +55,31 @@ nlohmann::ordered_json source_json(const DelaySource& s, const std::vector<std::
 
 }  // namespace
 
+std::string describe_source(const std::string& kind, const std::string& train, const std::string& place,
+                            const std::string& section) {
+    if (kind == "entry") return train + " late start or entry at " + place;
+    if (kind == "dwell") return train + " long dwell at " + place;
+    if (kind == "running") return train + " slow run from " + place;
+    if (kind == "disruption") return "section " + section + " out of use";
+    if (kind == "dispatch") return "the dispatcher";
+    if (kind == "timetable") return "the timetable itself (holder on time)";
+    return "not recorded";
+}
+
 std::string describe_source(const DelaySource& s, const std::vector<std::string>& train_ids,
                             const std::vector<TimingRecord>& timing, const std::vector<std::string>& section_names) {
-    switch (s.kind) {
-        case DelaySource::Kind::entry:
-            return train_ids[s.train] + " late start or entry at " + timing[s.record].station;
-        case DelaySource::Kind::dwell: return train_ids[s.train] + " long dwell at " + timing[s.record].station;
-        case DelaySource::Kind::running: return train_ids[s.train] + " slow run from " + timing[s.record].station;
-        case DelaySource::Kind::disruption: return "section " + section_names[s.section] + " out of use";
-        case DelaySource::Kind::dispatch: return "the dispatcher";
-        case DelaySource::Kind::timetable: return "the timetable itself (holder on time)";
-        case DelaySource::Kind::unexplained: return "not recorded";
+    return describe_source(to_string(s.kind), s.train != DelaySource::kNone ? train_ids[s.train] : std::string(),
+                           s.record != DelaySource::kNone ? timing[s.record].station : std::string(),
+                           s.section != DelaySource::kNone ? section_names[s.section] : std::string());
+}
+
+const char* cause_label(std::size_t kind) {
+    switch (static_cast<HoldCause::Kind>(kind)) {
+        case HoldCause::Kind::train: return "other trains' occupation or routes";
+        case HoldCause::Kind::link: return "links (turnarounds, connections, crew)";
+        case HoldCause::Kind::disruption: return "sections out of use";
+        case HoldCause::Kind::dispatch: return "the dispatcher";
+        case HoldCause::Kind::none: return "not recorded";
     }
     return "not recorded";
 }

@@ -20,6 +20,12 @@ extern const char* const kAttributionRule;
 // "S-0700 at A (entry)", "disruption of section T3", "the timetable itself (holder on time)", ...
 std::string describe_source(const DelaySource& s, const std::vector<std::string>& train_ids,
                             const std::vector<TimingRecord>& timing, const std::vector<std::string>& section_names);
+// The same from a source's kind ("entry", "dwell", ...), train, place and section as the JSON and
+// the HDF5 results name them (empty where they do not apply).
+std::string describe_source(const std::string& kind, const std::string& train, const std::string& place,
+                            const std::string& section);
+// "other trains' occupation or routes", ...: a direct cause (HoldCause::Kind) in words.
+const char* cause_label(std::size_t kind);
 
 std::string day_attribution_text(const SimResult& day, const DayAttribution& a, std::size_t top = 10);
 nlohmann::ordered_json day_attribution_json(const SimResult& day, const DayAttribution& a);

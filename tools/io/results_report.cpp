@@ -7,7 +7,9 @@
 
 #include "models/units.hpp"
 #include "sim/day_summary.hpp"
+#include "sim/attribution_figures.hpp"
 #include "sim/deadlock_text.hpp"
+#include "tools/io/attribution_output.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/study_hdf5.hpp"
 
@@ -141,20 +143,67 @@ std::string deadlocked_days(const StoredStudy& s) {
                           ". Their figures are left out of every figure of this report.");
 }
 
+// The study's attribution of knock-on to its sources, or none (a day file, a file of schema 7 or
+// older).
+const StoredAttribution* attribution_of(const ResultsView& v) {
+    return v.file->study && v.file->study->attribution ? &*v.file->study->attribution : nullptr;
+}
+
+std::string source_text(const StoredAttribution::Source& s) {
+    return describe_source(s.kind, s.train, s.place, s.section);
+}
+std::string buffer_text(const StoredAttribution::Through& b) { return b.leader + " -> " + b.follower; }
+
+// What the knock-on passed through of one kind ("buffer", "link", "section"), largest mean first as
+// the file keeps them.
+std::vector<const StoredAttribution::Through*> through_of(const StoredAttribution& a, const std::string& kind) {
+    std::vector<const StoredAttribution::Through*> out;
+    for (const StoredAttribution::Through& t : a.through)
+        if (t.kind == kind) out.push_back(&t);
+    return out;
+}
+
+// One of the verdict's lists: at most three rows of (what, knock-on per day with its interval), or
+// the reason it is not given.
+std::string verdict_list(const std::string& id, const std::string& title, const std::string& figure,
+                         const std::vector<std::pair<std::string, Estimate>>& entries, const std::string& none) {
+    std::string html = "<div id=\"" + id + "\">\n<h3>" + html_escape(title) + "</h3>\n";
+    if (entries.empty()) return html + "<p class=\"not-given\">" + html_escape(none) + "</p>\n</div>\n";
+    HtmlTable t;
+    t.headers = {"", figure == "source" ? "source" : "buffer (leader -> follower)", "knock-on per day"};
+    t.numeric = {true, false, true};
+    for (std::size_t i = 0; i < entries.size() && i < 3; ++i)
+        t.rows.push_back({std::to_string(i + 1), entries[i].first, min_ci(entries[i].second)});
+    t.css_class = "compact";
+    return html + html_table(t) + "</div>\n";
+}
+
 // The two lists a decision starts from: where the knock-on comes from, and which buffers to widen
-// first.  They are filled from the results file's attribution of knock-on to its sources; a file
-// without one says so (nothing is guessed in its place).
+// first.  They are filled from the results file's attribution of knock-on to its sources, each
+// figure the mean per complete day with its 95 % interval as the file holds it; a file without an
+// attribution says so (nothing is guessed in its place).
 std::string attribution_slots(const ResultsView& v) {
     if (!v.file->study && !v.day) return "";
+    const StoredAttribution* a = attribution_of(v);
     const std::string none =
-        "Not given: this results file holds no attribution of knock-on delay to the primary delays that caused "
-        "it.";
+        a ? "Not given: no knock-on passed directly from one train to the next over a planned buffer on any "
+            "complete day."
+          : "Not given: this results file holds no attribution of knock-on delay to the primary delays that caused "
+            "it.";
+    std::vector<std::pair<std::string, Estimate>> sources, buffers;
+    if (a) {
+        for (const StoredAttribution::Source& s : a->sources) sources.push_back({source_text(s), s.damage});
+        for (const StoredAttribution::Through* b : through_of(*a, "buffer")) buffers.push_back({buffer_text(*b), b->knock_on});
+    }
     std::string html = "<div class=\"verdict-lists\">\n";
-    html += "<div id=\"top-sources\">\n<h3>Top three sources of knock-on delay</h3>\n<p class=\"not-given\">" +
-            html_escape(none) + "</p>\n</div>\n";
-    html += "<div id=\"top-buffers\">\n<h3>Top three buffers to widen</h3>\n<p class=\"not-given\">" +
-            html_escape(none) + "</p>\n</div>\n";
-    return html + "</div>\n";
+    html += verdict_list("top-sources", "Top three sources of knock-on delay", "source", sources,
+                         a ? "Not given: no knock-on on any complete day." : none);
+    html += verdict_list("top-buffers", "Top three buffers to widen", "buffer", buffers, none);
+    html += "</div>\n";
+    if (a && (!sources.empty() || !buffers.empty()))
+        html += html_paragraph("Mean knock-on per complete day with its 95 % interval; the full ranking is under "
+                               "\"Where knock-on comes from\".");
+    return html;
 }
 
 ReportSection verdict_section(const ResultsView& v) {
@@ -311,6 +360,80 @@ ReportSection delays_section(const ResultsView& v) {
         if (!t.rows.empty()) html += html_table(t);
     }
     return {"delays", "Delays and punctuality", html};
+}
+
+// ---- where knock-on comes from ---------------------------------------------------------------------
+
+// The study's "where knock-on comes from" as the text output has it, laid out: the sources ranked by
+// the knock-on they caused, what held the trains, the places, the buffers and links it passed
+// through, the sections.  Every figure is the file's; none is worked out here.
+ReportSection sources_section(const StoredAttribution& a) {
+    const auto shown = [](std::size_t n) { return std::min(n, kTableRows); };
+    const auto more = [](std::size_t n) {
+        return n > kTableRows ? html_paragraph(std::to_string(n - kTableRows) + " more in the results file.")
+                              : std::string();
+    };
+    std::string html = html_paragraph(
+        "Each second of knock-on delay traced back to the delays that started it (README, \"Where knock-on comes "
+        "from\", states the rule); the sources' knock-on adds up to the knock-on measured. Figures are means per "
+        "complete day with their 95 % intervals.");
+    HtmlTable s;
+    s.caption = "Sources of knock-on delay ranked across days";
+    s.headers = {"rank", "source", "kind", "knock-on caused per day", "95 % interval"};
+    s.numeric = {true, false, false, true, true};
+    const auto interval = [](const Estimate& e) {
+        return std::isfinite(e.lower) && e.n > 1 ? fmt("%.2f to %.2f min", e.lower / 60.0, e.upper / 60.0) : std::string("-");
+    };
+    for (std::size_t i = 0; i < shown(a.sources.size()); ++i)
+        s.rows.push_back({std::to_string(i + 1), source_text(a.sources[i]), a.sources[i].kind,
+                          min_ci(a.sources[i].damage), interval(a.sources[i].damage)});
+    if (s.rows.empty()) s.rows.push_back({"-", "no knock-on on any complete day", "-", "-", "-"});
+    html += html_table(s) + more(a.sources.size());
+
+    HtmlTable c;
+    c.caption = "By what held the trains";
+    c.headers = {"direct cause", "knock-on per day"};
+    c.numeric = {false, true};
+    for (const StoredAttribution::Cause& x : a.causes) {
+        if (!(x.knock_on.mean > 0.0)) continue;
+        std::string label = x.cause;
+        for (std::size_t k = 0; k < AttributionLayout::kCauses; ++k)
+            if (x.cause == to_string(static_cast<HoldCause::Kind>(k))) label = cause_label(k);
+        c.rows.push_back({label, min_ci(x.knock_on)});
+    }
+    if (!c.rows.empty()) html += html_table(c);
+
+    std::vector<const StoredAttribution::Place*> places;
+    for (const StoredAttribution::Place& p : a.places)
+        if (p.received.mean > 0.0 || p.caused.mean > 0.0) places.push_back(&p);
+    std::stable_sort(places.begin(), places.end(), [](const auto* x, const auto* y) { return x->received.mean > y->received.mean; });
+    HtmlTable p;
+    p.caption = "Places: knock-on received there, and caused by the primary delays drawn there";
+    p.headers = {"place", "received per day", "caused per day"};
+    p.numeric = {false, true, true};
+    for (std::size_t i = 0; i < shown(places.size()); ++i)
+        p.rows.push_back({places[i]->place, min_ci(places[i]->received), min_ci(places[i]->caused)});
+    if (!p.rows.empty()) html += html_table(p) + more(places.size());
+
+    HtmlTable b;
+    b.caption = "Buffers to widen first (knock-on the leader passed to the follower directly) and links";
+    b.headers = {"what", "leader or earlier train -> follower or later train", "knock-on per day"};
+    b.numeric = {false, false, true};
+    for (const char* kind : {"buffer", "link"}) {
+        const auto rows = through_of(a, kind);
+        for (std::size_t i = 0; i < shown(rows.size()); ++i)
+            b.rows.push_back({kind, buffer_text(*rows[i]), min_ci(rows[i]->knock_on)});
+    }
+    if (!b.rows.empty()) html += html_table(b);
+
+    HtmlTable t;
+    t.caption = "Sections the knock-on passed through most";
+    t.headers = {"section", "knock-on per day"};
+    t.numeric = {false, true};
+    const auto sections = through_of(a, "section");
+    for (std::size_t i = 0; i < shown(sections.size()); ++i) t.rows.push_back({sections[i]->section, min_ci(sections[i]->knock_on)});
+    if (!t.rows.empty()) html += html_table(t) + more(sections.size());
+    return {"knock-on-sources", "Where knock-on comes from", html};
 }
 
 // ---- where delays grow ----------------------------------------------------------------------------
@@ -573,6 +696,7 @@ Report results_report(const ResultsView& v, const PlanReportOptions& options) {
         r.verdict = verdict_section(v);
         sections.push_back(take("time-distance"));
         sections.push_back(delays_section(v));
+        if (const StoredAttribution* a = attribution_of(v)) sections.push_back(sources_section(*a));
         sections.push_back(growth_section(v));
         ReportSection capacity = take("capacity");
         add_as_run_capacity(capacity, v);
