@@ -93,6 +93,10 @@ PRESETS = {
             "section#verdict table",
             "section#verdict #top-sources",
             "section#verdict #top-buffers",
+            # The demo's attribution fills both lists (three rows each) and the ranking across days.
+            "section#verdict #top-sources table tbody tr:nth-child(3) td",
+            "section#verdict #top-buffers table tbody tr:nth-child(3) td",
+            "section#knock-on-sources table",
             "section#time-distance svg.knockon-chart.time-distance",
             "svg.knockon-chart.time-distance .train-path",
             "svg.knockon-chart.time-distance .asrun-path",
