@@ -578,3 +578,34 @@ TEST_CASE("a study file without an attribution of knock-on says not given in bot
     // No ranking is laid out where the file has none.
     CHECK(section_of(page, "knock-on-sources").empty());
 }
+
+TEST_CASE("the verdict of a day file lists the day's top sources of knock-on as its JSON gives them",
+          "[report][cli]") {
+    TempDir dir;
+    const fs::path h5 = dir.path / "day.h5";
+    const Result r = run_knockon("simulate " + q(kSource + "/scenarios/demo.yaml") +
+                                     " --delay SU-0700:entry:8 --delay FU-0708:dwell@HBT:4 --delay SD-1710:entry:12"
+                                     " --json --out " + q(h5),
+                                 dir);
+    INFO(r.err);
+    REQUIRE(r.status == 0);
+    // The JSON's sources, largest damage first (ties in the JSON's order).
+    const json doc = json::parse(r.out);
+    std::vector<json> sources;
+    for (const json& s : doc["attribution"]["sources"])
+        if (s["damage_s"].get<double>() > 0.0) sources.push_back(s);
+    std::stable_sort(sources.begin(), sources.end(), [](const json& a, const json& b) {
+        return a["damage_s"].get<double>() > b["damage_s"].get<double>();
+    });
+    REQUIRE(sources.size() >= 3);   // three late trains on the demo pass knock-on on
+    const std::string verdict = section_of(report_page(h5.string(), dir), "verdict");
+    const auto top = rows_of(div_of(verdict, "top-sources"));
+    REQUIRE(top.size() == 4);
+    CHECK(top[0] == std::vector<std::string>{"", "source", "knock-on caused that day"});
+    for (std::size_t i = 0; i < 3; ++i)
+        CHECK(top[i + 1] == std::vector<std::string>{std::to_string(i + 1), source_words(sources[i]),
+                                                    fixed(sources[i]["damage_s"].get<double>() / 60.0, 1) + " min"});
+    // A day file holds no knock-on per buffer: that list says so.
+    CHECK(count_class(verdict, "not-given") == 1);
+    CHECK(div_of(verdict, "top-buffers").find("a day file holds no knock-on per buffer") != std::string::npos);
+}

@@ -360,6 +360,35 @@ std::vector<double> read_thresholds(const h5::InputFile& f, const std::string& g
     return out;
 }
 
+// A delay source's kind as the attribution tables write it, or an error naming the record.
+void check_source_kind(const h5::InputFile& f, const Table& t, std::size_t i, const std::string& kind) {
+    if (kind != "entry" && kind != "dwell" && kind != "running" && kind != "disruption" && kind != "dispatch" &&
+        kind != "timetable" && kind != "unexplained")
+        throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) + ": kind '" + kind +
+                               "' is not a kind of delay source");
+}
+
+// Where a day's knock-on came from: /attribution_sources of a day group (schema 8 and later; none
+// where the file has no such table), each damage as the day's one figure (n = 1, no interval).
+std::optional<std::vector<StoredAttribution::Source>> read_day_sources(const h5::InputFile& f, const std::string& g,
+                                                                       const SimResult& day, int schema) {
+    if (schema < 8 || !f.exists(g + "/attribution_sources")) return std::nullopt;
+    const Table t(f, g + "/attribution_sources");
+    const auto kind = t.text("kind"), place = t.text("place");
+    const auto train = names_or_empty(f, t, "train", day.train_ids, "trains");
+    const auto section = names_or_empty(f, t, "section", day.section_names, "sections");
+    const auto damage = t.num("damage", kSeconds);
+    std::vector<StoredAttribution::Source> out;
+    for (std::size_t i = 0; i < t.rows(); ++i) {
+        check_source_kind(f, t, i, kind[i]);
+        StoredAttribution::Source x{kind[i], train[i], place[i], section[i], Estimate{}};
+        x.damage.mean = damage[i];
+        x.damage.n = 1;
+        out.push_back(std::move(x));
+    }
+    return out;
+}
+
 // Where the knock-on came from: /attribution_* of a study group (schema 8 and later).
 StoredAttribution read_attribution(const h5::InputFile& f, const std::string& g, const StoredStudy& study,
                                    std::size_t days) {
@@ -378,10 +407,7 @@ StoredAttribution read_attribution(const h5::InputFile& f, const std::string& g,
         const auto damage = est(t, "damage");
         const auto n = t.counts("n", days, "the days simulated");
         for (std::size_t i = 0; i < t.rows(); ++i) {
-            if (kind[i] != "entry" && kind[i] != "dwell" && kind[i] != "running" && kind[i] != "disruption" &&
-                kind[i] != "dispatch" && kind[i] != "timetable" && kind[i] != "unexplained")
-                throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) + ": kind '" +
-                                       kind[i] + "' is not a kind of delay source");
+            check_source_kind(f, t, i, kind[i]);
             StoredAttribution::Source x{kind[i], train[i], place[i], section[i], damage[i]};
             x.damage.n = n[i];
             a.sources.push_back(std::move(x));
@@ -731,7 +757,10 @@ ResultsFile read_results(const std::string& path) {
         out.path = path;
         out.facts = read_facts(f);
         switch (out.facts.kind) {
-            case ResultsKind::day: out.day = read_day_group(f, "/day", out.facts.schema_version); break;
+            case ResultsKind::day:
+                out.day = read_day_group(f, "/day", out.facts.schema_version);
+                out.day_sources = read_day_sources(f, "/day", *out.day, out.facts.schema_version);
+                break;
             case ResultsKind::study:
                 out.study = read_study_group(f, "/study", out.facts.schema_version);
                 if (out.study->summary.replications != out.facts.replications)

@@ -96,6 +96,8 @@ struct ResultsFile {
     std::string path;
     ResultsFacts facts;
     std::optional<SimResult> day;              // kind day: /day (routes are not read)
+    // kind day: /day/attribution_sources (schema 8), in the file's order; none in older files
+    std::optional<std::vector<StoredAttribution::Source>> day_sources;
     std::optional<StoredStudy> study;         // kind study
     std::string traces;                        // kind study: the --traces choice ("none", ...)
     std::vector<std::uint32_t> traced;         // kind study: replications under /replications, ascending

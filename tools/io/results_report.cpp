@@ -163,14 +163,15 @@ std::vector<const StoredAttribution::Through*> through_of(const StoredAttributio
     return out;
 }
 
-// One of the verdict's lists: at most three rows of (what, knock-on per day with its interval), or
-// the reason it is not given.
-std::string verdict_list(const std::string& id, const std::string& title, const std::string& figure,
-                         const std::vector<std::pair<std::string, Estimate>>& entries, const std::string& none) {
+// One of the verdict's lists: at most three rows of (what, its knock-on), or the reason it is not
+// given.
+std::string verdict_list(const std::string& id, const std::string& title, const std::string& what,
+                         const std::string& figure, const std::vector<std::pair<std::string, Estimate>>& entries,
+                         const std::string& none) {
     std::string html = "<div id=\"" + id + "\">\n<h3>" + html_escape(title) + "</h3>\n";
     if (entries.empty()) return html + "<p class=\"not-given\">" + html_escape(none) + "</p>\n</div>\n";
     HtmlTable t;
-    t.headers = {"", figure == "source" ? "source" : "buffer (leader -> follower)", "knock-on per day"};
+    t.headers = {"", what, figure};
     t.numeric = {true, false, true};
     for (std::size_t i = 0; i < entries.size() && i < 3; ++i)
         t.rows.push_back({std::to_string(i + 1), entries[i].first, min_ci(entries[i].second)});
@@ -179,26 +180,42 @@ std::string verdict_list(const std::string& id, const std::string& title, const 
 }
 
 // The two lists a decision starts from: where the knock-on comes from, and which buffers to widen
-// first.  They are filled from the results file's attribution of knock-on to its sources, each
-// figure the mean per complete day with its 95 % interval as the file holds it; a file without an
-// attribution says so (nothing is guessed in its place).
+// first.  They are filled from the results file's attribution of knock-on to its sources: of a
+// study each figure the mean per complete day with its 95 % interval as the file holds it, in its
+// order; of a day file the day's damage per source, largest first (the file holds no figure per
+// buffer).  A file without an attribution says so (nothing is guessed in its place).
 std::string attribution_slots(const ResultsView& v) {
     if (!v.file->study && !v.day) return "";
     const StoredAttribution* a = attribution_of(v);
-    const std::string none =
-        a ? "Not given: no knock-on passed directly from one train to the next over a planned buffer on any "
-            "complete day."
-          : "Not given: this results file holds no attribution of knock-on delay to the primary delays that caused "
-            "it.";
+    const std::optional<std::vector<StoredAttribution::Source>>& day = v.file->day_sources;
+    const bool day_file = !v.file->study;
+    const std::string missing =
+        "Not given: this results file holds no attribution of knock-on delay to the primary delays that caused it.";
     std::vector<std::pair<std::string, Estimate>> sources, buffers;
     if (a) {
         for (const StoredAttribution::Source& s : a->sources) sources.push_back({source_text(s), s.damage});
         for (const StoredAttribution::Through* b : through_of(*a, "buffer")) buffers.push_back({buffer_text(*b), b->knock_on});
+    } else if (day_file && day) {
+        for (const StoredAttribution::Source& s : *day)
+            if (s.damage.mean > 0.0) sources.push_back({source_text(s), s.damage});
+        std::stable_sort(sources.begin(), sources.end(),
+                         [](const auto& x, const auto& y) { return x.second.mean > y.second.mean; });
     }
+    const bool held = a || (day_file && day);
+    const std::string no_sources = !held ? missing
+                                   : a   ? "Not given: no knock-on on any complete day."
+                                         : "Not given: no knock-on on this day.";
+    const std::string no_buffers =
+        !held ? missing
+        : a   ? "Not given: no knock-on passed directly from one train to the next over a planned buffer on any "
+                "complete day."
+              : "Not given: a day file holds no knock-on per buffer; the results file of a study (simulate "
+                "--replications N --out) has it.";
+    const std::string figure = a ? "knock-on per day" : "knock-on caused that day";
     std::string html = "<div class=\"verdict-lists\">\n";
-    html += verdict_list("top-sources", "Top three sources of knock-on delay", "source", sources,
-                         a ? "Not given: no knock-on on any complete day." : none);
-    html += verdict_list("top-buffers", "Top three buffers to widen", "buffer", buffers, none);
+    html += verdict_list("top-sources", "Top three sources of knock-on delay", "source", figure, sources, no_sources);
+    html += verdict_list("top-buffers", "Top three buffers to widen", "buffer (leader -> follower)", figure, buffers,
+                         no_buffers);
     html += "</div>\n";
     if (a && (!sources.empty() || !buffers.empty()))
         html += html_paragraph("Mean knock-on per complete day with its 95 % interval; the full ranking is under "
