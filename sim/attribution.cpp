@@ -3,7 +3,6 @@
 #include <algorithm>
 #include <array>
 #include <cmath>
-#include <map>
 #include <utility>
 
 namespace knockon {
@@ -26,13 +25,12 @@ double total_of(const Shares& s) {
     return sum;
 }
 
-// `y` split in proportion to `w` (sum > 0); the last share is the remainder, so the shares add up
-// to y whatever the rounding.
-std::vector<double> split(double y, const std::vector<double>& w) {
+// `y` split in proportion to `w` (sum > 0) into `out`; the last share is the remainder, so the
+// shares add up to y whatever the rounding.
+void split(double y, const std::vector<double>& w, std::vector<double>& out) {
     double sum = 0.0;
     for (double x : w) sum += x;
-    std::vector<double> out;
-    out.reserve(w.size());
+    out.clear();
     double given = 0.0;
     for (std::size_t i = 0; i + 1 < w.size(); ++i) {
         const double s = y * (w[i] / sum);
@@ -40,7 +38,6 @@ std::vector<double> split(double y, const std::vector<double>& w) {
         given += s;
     }
     out.push_back(y - given);
-    return out;
 }
 
 double value_of(const std::vector<std::vector<double>>& v, std::uint32_t t, std::uint32_t call) {
@@ -134,7 +131,12 @@ DayAttribution attribute_knock_on(const SimResult& day, const InjectedDelays& de
 
     std::vector<Shares> delay(trains), received(trains);
     std::vector<std::uint8_t> entry_done(trains, 0);
-    std::map<std::array<std::uint32_t, 6>, double> edges;
+    // Every share given, keyed by its edge; summed per edge at the end in the order given.
+    using EdgeKey = std::array<std::uint32_t, 6>;
+    std::vector<std::pair<EdgeKey, double>> given;
+    // Buffers reused by every piece, so that a day allocates them once.
+    std::vector<std::uint32_t> sources;
+    std::vector<double> shares, w;
 
     // Passes y seconds with direct cause c, received by record r, on to their sources.
     auto trace = [&](double y, const HoldCause& c, std::uint32_t r) {
@@ -143,13 +145,13 @@ DayAttribution attribute_knock_on(const SimResult& day, const InjectedDelays& de
         if ((c.kind == HoldCause::Kind::train || c.kind == HoldCause::Kind::disruption) && c.section < ix.sections)
             a.through_section[c.section] += y;
         if (c.kind == HoldCause::Kind::link && c.link < a.through_link.size()) a.through_link[c.link] += y;
-        std::vector<std::uint32_t> sources;
-        std::vector<double> shares;
+        sources.clear();
+        shares.clear();
         const bool holder = (c.kind == HoldCause::Kind::train || c.kind == HoldCause::Kind::link) && c.train < trains;
         if (holder && total_of(delay[c.train]) > 0.0) {
             const Shares& d = delay[c.train];
             const double late = total_of(d);
-            std::vector<double> w;
+            w.clear();
             for (const auto& [source, x] : d) {
                 sources.push_back(source);
                 w.push_back(x);
@@ -158,7 +160,7 @@ DayAttribution attribute_knock_on(const SimResult& day, const InjectedDelays& de
                 sources.push_back(static_cast<std::uint32_t>(ix.timetable()));
                 w.push_back(y - late);
             }
-            shares = split(y, w);
+            split(y, w, shares);
         } else {
             std::size_t root = ix.unexplained();
             if (holder) root = ix.timetable();
@@ -170,34 +172,36 @@ DayAttribution attribute_knock_on(const SimResult& day, const InjectedDelays& de
         for (std::size_t k = 0; k < sources.size(); ++k) {
             a.damage[sources[k]] += shares[k];
             add_share(received[t], sources[k], shares[k]);
-            edges[{sources[k], static_cast<std::uint32_t>(c.kind), c.train, c.section, c.link, r}] += shares[k];
+            given.push_back({{sources[k], static_cast<std::uint32_t>(c.kind), c.train, c.section, c.link, r}, shares[k]});
         }
     };
 
+    std::vector<HoldCause> causes;
+    std::vector<double> piece_w, piece_y;
     for (const Event& e : events) {
         if (e.type == 0) {
             const KnockOnPart& p = day.knock_on_parts[e.index];
             const std::uint32_t t = day.timing[p.record].train;
-            std::vector<HoldCause> causes;
-            std::vector<double> w;
+            causes.clear();
+            piece_w.clear();
             if (!p.run) {
                 causes.push_back(p.cause);
-                w.push_back(1.0);
+                piece_w.push_back(1.0);
             } else {
                 // The routes held for the train while it lost the time, by how long within the run.
                 for (const RouteRecord* rr : held_routes[t]) {
                     const double overlap = std::min(rr->granted, p.to) - std::max(rr->requested, p.from);
                     if (!(overlap > 0.0)) continue;
                     causes.push_back(rr->held_by);
-                    w.push_back(overlap);
+                    piece_w.push_back(overlap);
                 }
                 if (causes.empty()) {
                     causes.emplace_back();
-                    w.push_back(1.0);
+                    piece_w.push_back(1.0);
                 }
             }
-            const std::vector<double> y = split(p.seconds, w);
-            for (std::size_t k = 0; k < causes.size(); ++k) trace(y[k], causes[k], p.record);
+            split(p.seconds, piece_w, piece_y);
+            for (std::size_t k = 0; k < causes.size(); ++k) trace(piece_y[k], causes[k], p.record);
             continue;
         }
         // A timing point passed: the train's delay there, as shares of its sources.
@@ -231,8 +235,14 @@ DayAttribution attribute_knock_on(const SimResult& day, const InjectedDelays& de
         }
     }
 
-    a.edges.reserve(edges.size());
-    for (const auto& [key, seconds] : edges) {
+    // A stable sort keeps each edge's shares in the order given, so each sum is the one a running
+    // sum per edge would give, to the bit.
+    std::stable_sort(given.begin(), given.end(),
+                     [](const std::pair<EdgeKey, double>& x, const std::pair<EdgeKey, double>& y) { return x.first < y.first; });
+    for (std::size_t i = 0; i < given.size();) {
+        const EdgeKey& key = given[i].first;
+        double seconds = 0.0;
+        for (; i < given.size() && given[i].first == key; ++i) seconds += given[i].second;
         DelayEdge e;
         e.source = key[0];
         e.cause.kind = static_cast<HoldCause::Kind>(key[1]);

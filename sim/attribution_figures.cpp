@@ -1,38 +1,29 @@
 #include "sim/attribution_figures.hpp"
 
 #include <algorithm>
-#include <map>
+#include <array>
 #include <utility>
 
 namespace knockon {
 
-std::vector<std::string> knock_on_places(const std::vector<TimingRecord>& timing) {
-    std::vector<std::string> places;
-    for (const TimingRecord& r : timing) places.push_back(r.station);
-    std::sort(places.begin(), places.end());
-    places.erase(std::unique(places.begin(), places.end()), places.end());
-    return places;
-}
-
-std::vector<std::uint32_t> place_of_records(const std::vector<TimingRecord>& timing, const std::vector<std::string>& places) {
-    std::vector<std::uint32_t> out;
-    out.reserve(timing.size());
-    for (const TimingRecord& r : timing)
-        out.push_back(static_cast<std::uint32_t>(std::lower_bound(places.begin(), places.end(), r.station) - places.begin()));
-    return out;
-}
-
 std::vector<float> attribution_row(const SimModel& model, const SimResult& day, const DayAttribution& a,
                                    AttributionLayout& layout) {
-    const std::vector<std::string> places = knock_on_places(day.timing);
-    const std::vector<std::uint32_t> place = place_of_records(day.timing, places);
+    // The engine lays out every day's records as the model says, so their places are the
+    // model's, worked out once; a day laid out otherwise (made by hand) gets its own.
+    RecordPlaces own;
+    const RecordPlaces* rp = &model.record_places();
+    if (rp->of_record.size() != day.timing.size()) {
+        own = record_places(day.timing);
+        rp = &own;
+    }
+    const std::vector<std::uint32_t>& place = rp->of_record;
     const auto& pairs = model.buffer_pairs();
     layout.records = static_cast<std::uint32_t>(a.index.records);
     layout.trains = static_cast<std::uint32_t>(a.index.trains);
     layout.sections = static_cast<std::uint32_t>(a.index.sections);
     layout.links = static_cast<std::uint32_t>(a.through_link.size());
     layout.pairs = static_cast<std::uint32_t>(pairs.size());
-    layout.places = static_cast<std::uint32_t>(places.size());
+    layout.places = static_cast<std::uint32_t>(rp->places.size());
     // Sums in double, in one order, then one rounding to float each.
     std::vector<double> row(layout.width(), 0.0);
     for (std::size_t i = 0; i < a.damage.size(); ++i) row[layout.damage(i)] = a.damage[i];
@@ -42,15 +33,20 @@ std::vector<float> attribution_row(const SimModel& model, const SimResult& day, 
         row[layout.by_cause(c)] = a.by_cause[c];
     // A buffer pair passes on what its leader held its follower by directly: on its own section
     // when the hold was there, else on the pair's first section.
-    std::map<std::pair<std::uint32_t, std::uint32_t>, std::vector<std::size_t>> pair_of;
-    for (std::size_t p = 0; p < pairs.size(); ++p) pair_of[{pairs[p].leader, pairs[p].follower}].push_back(p);
+    // The pairs by (leader, follower), in pair order within each: a sorted table, not a map.
+    std::vector<std::array<std::uint32_t, 3>> pair_of;
+    pair_of.reserve(pairs.size());
+    for (std::size_t p = 0; p < pairs.size(); ++p)
+        pair_of.push_back({pairs[p].leader, pairs[p].follower, static_cast<std::uint32_t>(p)});
+    std::sort(pair_of.begin(), pair_of.end());
     for (const DelayEdge& e : a.edges) {
         if (e.cause.kind != HoldCause::Kind::train) continue;
-        const auto it = pair_of.find({e.cause.train, day.timing[e.record].train});
-        if (it == pair_of.end()) continue;
-        std::size_t chosen = it->second.front();
-        for (std::size_t p : it->second)
-            if (pairs[p].section == e.cause.section) chosen = p;
+        const std::uint32_t leader = e.cause.train, follower = day.timing[e.record].train;
+        auto it = std::lower_bound(pair_of.begin(), pair_of.end(), std::array<std::uint32_t, 3>{leader, follower, 0});
+        if (it == pair_of.end() || (*it)[0] != leader || (*it)[1] != follower) continue;
+        std::size_t chosen = (*it)[2];
+        for (; it != pair_of.end() && (*it)[0] == leader && (*it)[1] == follower; ++it)
+            if (pairs[(*it)[2]].section == e.cause.section) chosen = (*it)[2];
         row[layout.through_buffer(chosen)] += e.seconds;
     }
     for (std::size_t r = 0; r < day.timing.size(); ++r) row[layout.received(place[r])] += day.timing[r].knock_on;
@@ -95,7 +91,7 @@ AttributionSummary summarize_attribution(const AttributionLayout& layout, const 
     }
     std::stable_sort(s.sources.begin(), s.sources.end(),
                      [](const SourceDamage& a, const SourceDamage& b) { return a.damage.mean > b.damage.mean; });
-    const std::vector<std::string> places = knock_on_places(timing);
+    const std::vector<std::string> places = record_places(timing).places;
     for (std::size_t p = 0; p < layout.places && p < places.size(); ++p)
         s.places.push_back({places[p], row[layout.received(p)].estimate(), row[layout.caused(p)].estimate()});
     s.sections = largest_first(layout.sections, row, [&](std::size_t k) { return layout.through_section(k); });

@@ -11,6 +11,7 @@
 
 #include "sim/attribution.hpp"
 #include "sim/estimates.hpp"
+#include "sim/record_places.hpp"
 #include "sim/sim_model.hpp"
 
 namespace knockon {
@@ -35,14 +36,9 @@ struct AttributionLayout {
     }
 };
 
-// The places a study reports knock-on at: the timing records' stations, sorted by id.
-std::vector<std::string> knock_on_places(const std::vector<TimingRecord>& timing);
-// The place of each timing record (index into knock_on_places).
-std::vector<std::uint32_t> place_of_records(const std::vector<TimingRecord>& timing, const std::vector<std::string>& places);
-
 // The day's row: damage per source, knock-on through each section, link and buffer pair
 // (SimModel::buffer_pairs: what the leader passed to the follower directly), by direct cause, and
-// per place the knock-on received there and the damage of the primary delays drawn there.
+// per place (RecordPlaces) the knock-on received there and the damage of the primary delays drawn there.
 std::vector<float> attribution_row(const SimModel& model, const SimResult& day, const DayAttribution& a,
                                    AttributionLayout& layout);
 

@@ -44,6 +44,13 @@ RunningMean RunningMean::zeros(std::size_t count) {
 }
 
 void RunningMean::add(double x) {
+    // A 0 while the sum is 0 (most figures of a day's attribution row): the mean stays 0 and M2
+    // gains (0 - 0) * (0 - 0), which leaves it as it is (M2 is never -0), so skip the divisions.
+    if (x == 0.0 && sum_ == 0.0) {
+        ++n_;
+        sum_ += x;   // keeps the sign of zero the long way would leave
+        return;
+    }
     const double before = n_ ? sum_ / static_cast<double>(n_) : 0.0;
     ++n_;
     sum_ += x;

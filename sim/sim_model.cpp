@@ -218,6 +218,12 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
         buffer_pairs_.push_back({static_cast<std::uint32_t>(h.leader), static_cast<std::uint32_t>(h.follower),
                                  it->second, h.line_section, h.buffer});
     }
+    {
+        std::vector<std::string> stations;   // the engine's timing records, in its order
+        for (const TrainPlan& tp : plan)
+            for (const PlannedCall& c : tp.run.calls) stations.push_back(c.station);
+        record_places_ = knockon::record_places(stations);
+    }
     for (const TrainPlan& tp : plan)
         for (const LinkPlan& l : tp.incoming) links_.push_back(l);
     std::sort(links_.begin(), links_.end(), [](const LinkPlan& a, const LinkPlan& b) { return a.link < b.link; });

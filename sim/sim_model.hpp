@@ -10,6 +10,7 @@
 #include "models/plan.hpp"
 #include "models/single_track.hpp"
 #include "models/sorted_index.hpp"
+#include "sim/record_places.hpp"
 
 namespace knockon {
 
@@ -130,6 +131,9 @@ public:
     const std::vector<BufferPair>& buffer_pairs() const { return buffer_pairs_; }
     // The timetable's links (TrainPlan::incoming of every train), in timetable order.
     const std::vector<LinkPlan>& links() const { return links_; }
+    // The places of a day's timing records, laid out as the engine lays them out (train by
+    // train, call by call), so that every day of a study shares them (sim/attribution_figures).
+    const RecordPlaces& record_places() const { return record_places_; }
 
 private:
     const Infrastructure& infra_;
@@ -139,6 +143,7 @@ private:
     std::vector<std::vector<std::uint32_t>> planned_order_;
     std::vector<BufferPair> buffer_pairs_;
     std::vector<LinkPlan> links_;
+    RecordPlaces record_places_;
 };
 
 }  // namespace knockon

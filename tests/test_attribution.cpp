@@ -15,6 +15,7 @@
 #include "models/plan.hpp"
 #include "sim/attribution.hpp"
 #include "sim/delay_draws.hpp"
+#include "sim/record_places.hpp"
 #include "sim/study.hpp"
 #include "sim_test_support.hpp"
 
@@ -99,6 +100,25 @@ TEST_CASE("attribution: the shares add up to the knock-on measured on demo days"
     CHECK(total > 600.0);   // the check is of something: the demo's days have knock-on
 }
 
+TEST_CASE("attribution: record places are the stations sorted by id and each record's index among them",
+          "[attribution][places]") {
+    // Common practice, no source: a sorted set of names and each name's rank in it.
+    const RecordPlaces p = record_places(std::vector<std::string>{"Bexfold", "Amber Hill", "Bexfold", "Crane"});
+    CHECK(p.places == std::vector<std::string>{"Amber Hill", "Bexfold", "Crane"});
+    CHECK(p.of_record == std::vector<std::uint32_t>{1, 0, 1, 2});
+    // The demo model lays out its days' records as the engine does.
+    Scenario sc = read_scenario(kSource + "/scenarios/demo.yaml");
+    const std::vector<TrainPlan> plan = plan_trains(sc);
+    const SimModel model(sc.infrastructure, plan);
+    const DelayDrawer drawer(sc.delays, sc.infrastructure, plan);
+    const InjectedDelays delays = drawer.draw(1, 0);
+    const SimResult day = simulate_day(model, delays, SimOptions{});
+    const RecordPlaces own = record_places(day.timing);
+    REQUIRE(own.places.size() > 2);
+    CHECK(model.record_places().places == own.places);
+    CHECK(model.record_places().of_record == own.of_record);
+}
+
 TEST_CASE("attribution: the shares add up to the knock-on measured on random days", "[attribution][conservation][property]") {
     // KNOCKON_PROPERTY_SEED=<n> reruns one case.
     std::uint64_t first = 1, cases = 60;
@@ -129,6 +149,10 @@ TEST_CASE("attribution: the shares add up to the knock-on measured on random day
         const SimResult day = simulate_day(model, delays, SimOptions{});
         const DayAttribution a = attribute_knock_on(day, delays);
         CHECK(conservation_mismatch(day, a) == "");
+        // The places a study works out once, with the model, are those of the day's own records.
+        const RecordPlaces own = record_places(day.timing);
+        CHECK(model.record_places().places == own.places);
+        CHECK(model.record_places().of_record == own.of_record);
         for (const TimingRecord& r : day.timing)
             if (r.knock_on > 0.0) {
                 ++with_knock_on;
