@@ -544,6 +544,16 @@ void add_as_run_buffers(ReportSection& buffers, const ResultsView& v) {
 
 // ---- comparison ---------------------------------------------------------------------------------
 
+// A table of figures with one column per variant, headed by its name (the figure's label first).
+void add_variant_columns(HtmlTable& t, const std::vector<VariantFigures>& vs) {
+    t.headers = {"figure"};
+    t.numeric = {false};
+    for (const VariantFigures& f : vs) {
+        t.headers.push_back(f.name);
+        t.numeric.push_back(true);
+    }
+}
+
 ReportSection variants_section(const ResultsView& v) {
     const auto& vs = v.file->variants;
     const std::vector<double> thresholds = v.thresholds();
@@ -559,12 +569,7 @@ ReportSection variants_section(const ResultsView& v) {
     HtmlTable s;
     s.caption = "Per complete simulated day (mean with 95 % CI; days that ended in deadlock left out) and from the "
                 "plan";
-    s.headers = {"figure"};
-    s.numeric = {false};
-    for (const VariantFigures& f : vs) {
-        s.headers.push_back(f.name);
-        s.numeric.push_back(true);
-    }
+    add_variant_columns(s, vs);
     auto row = [&](const std::string& label, auto cell) {
         std::vector<std::string> r = {label};
         for (const VariantFigures& f : vs) r.push_back(cell(f));
@@ -636,12 +641,7 @@ ReportSection comparison_verdict(const ResultsView& v) {
     const std::vector<double> thresholds = v.thresholds();
     HtmlTable s;
     s.caption = "Per complete simulated day, mean with 95 % CI (days that ended in deadlock left out)";
-    s.headers = {"figure"};
-    s.numeric = {false};
-    for (const VariantFigures& f : vs) {
-        s.headers.push_back(f.name);
-        s.numeric.push_back(true);
-    }
+    add_variant_columns(s, vs);
     auto row = [&](const std::string& label, auto cell) {
         std::vector<std::string> r = {label};
         for (const VariantFigures& f : vs) r.push_back(cell(f));
