@@ -159,15 +159,7 @@ int compare(const std::vector<std::string>& args) {
         info.step = opt.sim.run.step;
         if (shard) {
             info.scenario_hash = scenario_hash(scenario_text, "");
-            ShardRun run;
-            run.shard = shard->shard;
-            run.shards = shard->shards;
-            run.planned = planned;
-            run.first = block.first;
-            run.end = block.end;
-            run.scenario_text = scenario_text;
-            run.thresholds = opt.thresholds;
-            run.order = vm["order"].as<std::string>();
+            ShardRun run = shard_run(vm, *shard, planned, block, scenario_text, opt.thresholds);
             run.traces = TraceSelection().text();   // a comparison keeps no traced days
             std::vector<ShardVariant> variants;
             for (const auto& r : runs) variants.push_back({r->name, r->description});

@@ -72,6 +72,21 @@ ReplicationRange shard_block(const po::variables_map& vm, const ShardChoice& sha
     return shard_range(shard.shard, shard.shards, planned);
 }
 
+ShardRun shard_run(const po::variables_map& vm, const ShardChoice& shard, std::uint32_t planned,
+                   const ReplicationRange& block, const std::string& scenario_text,
+                   const std::vector<double>& thresholds) {
+    ShardRun run;
+    run.shard = shard.shard;
+    run.shards = shard.shards;
+    run.planned = planned;
+    run.first = block.first;
+    run.end = block.end;
+    run.scenario_text = scenario_text;
+    run.thresholds = thresholds;
+    run.order = vm["order"].as<std::string>();
+    return run;
+}
+
 std::string shard_done_text(const std::string& command, const ShardChoice& shard, const ReplicationRange& block,
                             std::uint32_t planned, const std::string& out, bool stopped_early) {
     return "knockon " + command + ": shard " + std::to_string(shard.shard) + " of " + std::to_string(shard.shards) +

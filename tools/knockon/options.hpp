@@ -10,6 +10,7 @@
 #include "models/plan.hpp"
 #include "sim/interlocking.hpp"
 #include "sim/shards.hpp"
+#include "tools/io/shard_hdf5.hpp"
 #include "tools/knockon/commands.hpp"
 
 namespace knockon::cli {
@@ -69,6 +70,11 @@ std::optional<ShardChoice> shard_option(const po::variables_map& vm);
 // comparison's".
 ReplicationRange shard_block(const po::variables_map& vm, const ShardChoice& shard, std::uint32_t planned,
                              const std::string& what);
+// The facts of a shard's run that merge compares, as `simulate` and `compare` both fill them
+// (`sample` and `traces` are the command's own).
+ShardRun shard_run(const po::variables_map& vm, const ShardChoice& shard, std::uint32_t planned,
+                   const ReplicationRange& block, const std::string& scenario_text,
+                   const std::vector<double>& thresholds);
 // What a shard prints once its file is written: which days it ran and where they went; the
 // figures come from `knockon merge`.
 std::string shard_done_text(const std::string& command, const ShardChoice& shard, const ReplicationRange& block,

@@ -228,14 +228,7 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
         block = shard_block(vm, *shard, planned, "a study's");
         opt.first = block.first;
         opt.replications = block.size();
-        shard_run.shard = shard->shard;
-        shard_run.shards = shard->shards;
-        shard_run.planned = planned;
-        shard_run.first = block.first;
-        shard_run.end = block.end;
-        shard_run.scenario_text = scenario_text;
-        shard_run.thresholds = opt.thresholds;
-        shard_run.order = vm["order"].as<std::string>();
+        shard_run = cli::shard_run(vm, *shard, planned, block, scenario_text, opt.thresholds);
         shard_run.sample = so.sample_interval;
         shard_run.traces = traces.text();
     }
