@@ -1,5 +1,7 @@
 #include "tools/io/scenario_reader.hpp"
 
+#include "tools/io/network_reader.hpp"
+
 #include <algorithm>
 #include <cctype>
 #include <array>
@@ -23,6 +25,7 @@
 #include "models/call_times.hpp"
 #include "models/input_ranges.hpp"
 #include "models/line_paths.hpp"
+#include "models/repeat_runs.hpp"
 #include "models/links.hpp"
 #include "models/path.hpp"
 #include "models/single_track.hpp"
@@ -51,8 +54,6 @@ using yamlio::MapFields;
 constexpr double kEps = 1e-6;
 // Main signals of one direction on a track closer than this stand at one place [m].
 constexpr double kSignalSpacingMin = 1.0;
-// A repeat pattern giving more runs than this is surely a typing mistake (e.g. every: 1 s).
-constexpr long kMaxRunsPerPattern = 5000;
 
 // "known: a, b, c" (at most a dozen names) for unknown-reference messages.
 std::string known_list(const std::vector<std::string>& ids) {
@@ -64,14 +65,6 @@ std::string known_list(const std::vector<std::string>& ids) {
     }
     if (ids.size() > 12) out += ", ...";
     return out;
-}
-
-// "0615" for 06:15:xx; hours go past 23 for after-midnight runs.
-std::string hhmm(double seconds) {
-    const long long s = std::llround(std::floor(seconds));
-    char buf[32];
-    std::snprintf(buf, sizeof buf, "%02lld%02lld", s / 3600, (s / 60) % 60);
-    return buf;
 }
 
 // A service as read, with what is needed to point back into the file.
@@ -100,10 +93,7 @@ public:
                 supported = parse_number(*v) == 1.0;
             } catch (const UnitError&) {
             }
-            if (*v == "2")
-                top.error("knockon", "a network file (knockon: 2) is only checked so far, by `knockon validate`; "
-                                     "the other commands read knockon: 1");
-            else if (!supported)
+            if (!supported)
                 top.error("knockon", "format version \"" + *v +
                                          "\" is not supported; this program reads knockon: 1");
         }
@@ -987,7 +977,7 @@ private:
                                 " is before the first call's time " + format_time_of_day(t0));
                 continue;
             }
-            const double runs_d = std::floor((*src.until - t0) / *src.every + 1e-9) + 1.0;
+            const double runs_d = repeat_count(t0, *src.every, *src.until);
             if (runs_d > kMaxRunsPerPattern) {
                 const YAML::Node repeat = src.fields.get("repeat");
                 errors_.add(repeat["every"].Mark(), src.fields.path_of("repeat.every"),
@@ -1004,7 +994,7 @@ private:
                     if (c.arrival) *c.arrival += shift;
                     if (c.departure) *c.departure += shift;
                 }
-                copy.id = src.service.id + "-" + hhmm(t0 + shift);
+                copy.id = run_id(src.service.id, t0 + shift);
                 copy.draw.occurrence = static_cast<std::uint32_t>(k);
                 out.push_back(std::move(copy));
                 origin.push_back(i);
@@ -1315,6 +1305,7 @@ YAML::Node variant_document(const std::string& yaml_text, const std::string& var
 }  // namespace yamlio
 
 Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
+    if (is_network_text(yaml_text)) return network_scenario(parse_network(yaml_text, file_name, variant));
     ErrorList errors(file_name);
     YAML::Node root = yamlio::variant_document(yaml_text, variant, errors);
     const bool base = yamlio::is_base_variant(variant);
