@@ -1,7 +1,6 @@
 #include "tools/io/scenario_reader.hpp"
 
 #include "tools/io/link_fields.hpp"
-#include "tools/io/network_reader.hpp"
 
 #include <algorithm>
 #include <cctype>
@@ -1206,8 +1205,7 @@ YAML::Node variant_document(const std::string& yaml_text, const std::string& var
 
 }  // namespace yamlio
 
-Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
-    if (is_network_text(yaml_text)) return parse_network_scenario(yaml_text, file_name, variant);
+Scenario parse_line_scenario(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
     ErrorList errors(file_name);
     YAML::Node root = yamlio::variant_document(yaml_text, variant, errors);
     const bool base = yamlio::is_base_variant(variant);
@@ -1226,9 +1224,6 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file_na
 
 std::string read_scenario_text(const std::string& path) { return read_text_file(path); }
 
-Scenario read_scenario(const std::string& path, const std::string& variant) {
-    return parse_scenario(read_text_file(path), path, variant);
-}
 
 std::vector<VariantInfo> read_variants(const std::string& path) {
     ErrorList errors(path);
