@@ -269,6 +269,18 @@ private:
     // A train leaves timing point k: its links' records, and the link that held it longest (or -1).
     long finish_links(std::uint32_t t, std::size_t k);
     long binding_link(std::uint32_t t, std::size_t k) const;   // the link into k that lets t go last, or -1
+    // The link that keeps t for good when the day stops: one whose earlier train has not arrived,
+    // holding t ready at a stop or keeping a formed service from appearing; else -1.
+    long stuck_link(std::uint32_t t) const {
+        const TrainState& s = st_[t];
+        if (s.awaiting_set)
+            for (std::uint32_t l : train(t).links_in) {
+                const LinkPlan& link = model_.links()[l];
+                if (link.kind == LinkKind::turnaround && st_[link.from].phase != Phase::finished) return l;
+            }
+        if (s.phase != Phase::standing || s.stop_call < 0 || train(t).links_in.empty()) return -1;
+        return std::isinf(link_hold(t, s.stop_call)) ? binding_link(t, static_cast<std::size_t>(s.stop_call)) : -1;
+    }
     // The formed services' sets (turnaround links into t) have all arrived and left the model.
     bool set_arrived(std::uint32_t t) const {
         for (std::uint32_t l : train(t).links_in) {
@@ -1490,7 +1502,15 @@ void Day::report_deadlock() {
         for (const Pending& p : pending_)
             if (p.train == t) pending = &p;
         const std::vector<std::uint32_t>* needed = nullptr;
-        if (pending && pending->route < 0) {
+        if (const long l = stuck_link(t); l >= 0) {
+            // A link whose earlier train never came keeps it, whatever else it might wait for.
+            const LinkPlan& link = model_.links()[static_cast<std::size_t>(l)];
+            w.waits_for = DeadlockWait::For::link;
+            w.link_kind = link.kind;
+            w.link_from = static_cast<std::uint32_t>(link.from);
+            // (a formed service that never appeared is due at its origin)
+            if (outside && !run.calls.empty()) w.station = run.calls.front().station;
+        } else if (pending && pending->route < 0) {
             w.waits_for = DeadlockWait::For::appear;
             if (!run.calls.empty()) w.station = run.calls.front().station;
             needed = &train(t).origin_sections;

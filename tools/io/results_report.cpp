@@ -5,6 +5,7 @@
 #include <cstdio>
 #include <map>
 
+#include "models/links.hpp"
 #include "models/units.hpp"
 #include "sim/day_summary.hpp"
 #include "sim/attribution_figures.hpp"
@@ -94,6 +95,8 @@ std::string waiting_table(const SimResult& d) {
     t.numeric = {false, false, true, false, false};
     for (const DeadlockWait& w : d.deadlock.waiting) {
         std::string kept;
+        if (w.waits_for == DeadlockWait::For::link && w.link_from < d.train_ids.size())
+            kept = d.train_ids[w.link_from] + " (" + to_string(w.link_kind) + ", not arrived)";
         for (const DeadlockBlock& b : w.blocks) {
             const std::string who = b.by == DeadlockBlock::By::disruption ? std::string("a disruption")
                                     : b.train < d.train_ids.size()        ? d.train_ids[b.train]
@@ -102,7 +105,7 @@ std::string waiting_table(const SimResult& d) {
                     ": " + (b.by == DeadlockBlock::By::promised ? "promised to " : "") + who;
         }
         t.rows.push_back({w.train < d.train_ids.size() ? d.train_ids[w.train] : "?", where_it_stands(w),
-                          std::isfinite(w.since) ? format_time_of_day(w.since) : "-", what_it_waits_for(w),
+                          std::isfinite(w.since) ? format_time_of_day(w.since) : "-", what_it_waits_for(w, d.train_ids),
                           kept.empty() ? "-" : kept});
     }
     return html_table(t);
