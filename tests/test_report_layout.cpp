@@ -25,6 +25,7 @@
 #include "tools/io/chart_kit.hpp"
 #include "tools/io/hdf5_read.hpp"
 #include "tools/io/plan_charts.hpp"
+#include "tools/io/results_file.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "results_test_support.hpp"
 
@@ -608,4 +609,52 @@ TEST_CASE("the verdict of a day file lists the day's top sources of knock-on as 
     // A day file holds no knock-on per buffer: that list says so.
     CHECK(count_class(verdict, "not-given") == 1);
     CHECK(div_of(verdict, "top-buffers").find("a day file holds no knock-on per buffer") != std::string::npos);
+}
+
+TEST_CASE("the verdict of a comparison lists each variant's top sources and buffers as the file holds them",
+          "[report][cli]") {
+    TempDir dir;
+    const fs::path h5 = dir.path / "cmp.h5";
+    const Result r = run_knockon("compare " + q(kSource + "/scenarios/demo.yaml") +
+                                     " --variants base,shorter_blocks --replications 12 --out " + q(h5),
+                                 dir);
+    INFO(r.err);
+    REQUIRE(r.status == 0);
+    const knockon::ResultsFile file = knockon::read_results(h5.string());
+    REQUIRE(file.variants.size() == 2);
+    const std::string verdict = section_of(report_page(h5.string(), dir), "verdict");
+    CHECK(count_class(verdict, "not-given") == 0);
+    for (const knockon::VariantFigures& v : file.variants) {
+        INFO("variant " << v.name);
+        REQUIRE(v.study.attribution);
+        const knockon::StoredAttribution& a = *v.study.attribution;
+        // The file's figures as the JSON would give them (mean and half-width in seconds), its
+        // sources in its order (the largest damage first), its buffers in its order.
+        auto estimate = [](const knockon::Estimate& e) {
+            return json{{"mean", e.mean}, {"ci95_half_width", e.half_width}};
+        };
+        std::vector<std::vector<std::string>> sources, buffers;
+        for (const knockon::StoredAttribution::Source& s : a.sources) {
+            json j = {{"kind", s.kind}, {"train", s.train}, {"place", s.place}, {"section", s.section}};
+            sources.push_back({std::to_string(sources.size() + 1), source_words(j), minutes_ci(estimate(s.damage))});
+            if (sources.size() == 3) break;
+        }
+        for (const knockon::StoredAttribution::Through& t : a.through) {
+            if (t.kind != "buffer") continue;
+            buffers.push_back({std::to_string(buffers.size() + 1), t.leader + " -> " + t.follower,
+                               minutes_ci(estimate(t.knock_on))});
+            if (buffers.size() == 3) break;
+        }
+        REQUIRE(sources.size() == 3);   // the demo's 12 days have knock-on from many sources
+        REQUIRE(buffers.size() == 3);
+        const auto top_sources = rows_of(div_of(verdict, "top-sources-" + v.name));
+        REQUIRE(top_sources.size() == 4);   // the header and three rows
+        CHECK(top_sources[0] == std::vector<std::string>{"", "source", "knock-on per day"});
+        for (std::size_t i = 0; i < 3; ++i) CHECK(top_sources[i + 1] == sources[i]);
+        const auto top_buffers = rows_of(div_of(verdict, "top-buffers-" + v.name));
+        REQUIRE(top_buffers.size() == 4);
+        for (std::size_t i = 0; i < 3; ++i) CHECK(top_buffers[i + 1] == buffers[i]);
+        CHECK(a.sources[0].damage.mean >= a.sources[1].damage.mean);   // the largest first (common practice, no source)
+        CHECK(verdict.find("Top three sources of knock-on delay: " + v.name) != std::string::npos);
+    }
 }
