@@ -791,6 +791,56 @@ ResultsFile read_results(const std::string& path) {
     }
 }
 
+std::optional<StoredDelayTrees> read_delay_trees(const std::string& path, std::optional<std::uint32_t> replication,
+                                                 const SimResult& day) {
+    try {
+        const h5::InputFile f(path);
+        const std::string g = replication ? "/replications/" + replication_group_name(*replication) : "/day";
+        if (read_facts(f).schema_version < 8 || !f.exists(g + "/attribution_edges") ||
+            !f.exists(g + "/attribution_sources"))
+            return std::nullopt;
+        StoredDelayTrees out;
+        {
+            const Table t(f, g + "/attribution_sources");
+            const auto number = t.num("source", kCount32);
+            const auto kind = t.text("kind"), place = t.text("place");
+            const auto train = names_or_empty(f, t, "train", day.train_ids, "trains");
+            const auto section = names_or_empty(f, t, "section", day.section_names, "sections");
+            const auto damage = t.num("damage", kSeconds);
+            for (std::size_t i = 0; i < t.rows(); ++i) {
+                check_source_kind(f, t, i, kind[i]);
+                StoredAttribution::Source x{kind[i], train[i], place[i], section[i], Estimate{}};
+                x.damage.mean = damage[i];
+                x.damage.n = 1;
+                out.sources[static_cast<std::uint32_t>(number[i])] = std::move(x);
+            }
+        }
+        const Table t(f, g + "/attribution_edges");
+        const auto source = t.num("source", kCount32);
+        const auto cause = t.text("cause");
+        const auto from = t.num("from_train", Rule{0.0, 4294967295.0, true, true, "a whole number below 2^32, or NaN"});
+        const auto record = t.index("record", day.timing.size(), "timing");
+        const auto seconds = t.num("seconds", kSeconds);
+        for (std::size_t i = 0; i < t.rows(); ++i) {
+            // (a source that caused no knock-on has no row in attribution_sources, but may have
+            // edges of 0 s)
+            if (!std::isnan(from[i]) && !(from[i] < static_cast<double>(day.train_ids.size())))
+                throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) +
+                                       ", field 'from_train' names no train of the day");
+            StoredDelayTrees::Edge e;
+            e.source = static_cast<std::uint32_t>(source[i]);
+            e.cause = cause[i];
+            e.from = std::isnan(from[i]) ? StoredDelayTrees::kNoTrain : static_cast<std::uint32_t>(from[i]);
+            e.record = record[i];
+            e.seconds = seconds[i];
+            out.edges.push_back(std::move(e));
+        }
+        return out;
+    } catch (const h5::Error& e) {
+        throw ResultsFileError(e.what());
+    }
+}
+
 SimResult read_traced_day(const std::string& path, std::uint32_t replication) {
     try {
         const h5::InputFile f(path);
