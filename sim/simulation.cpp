@@ -1356,9 +1356,13 @@ void Day::link_arrival(std::uint32_t t, std::size_t k) {
         double go = now_ + link.min_time;
         if (link.kind == LinkKind::connection) go = std::min(go, link.wait_until());
         push(std::max(go, now_), kLinkCheck, static_cast<std::uint32_t>(link.to));
-        // The later train's route out can now be timed by the known hold.
+        // The later train's route out can now be timed by the known hold (a request the link
+        // times; any other stands as it was scheduled).
         const std::uint32_t next = static_cast<std::uint32_t>(link.to);
-        if (st_[next].phase == Phase::standing || st_[next].phase == Phase::moving) schedule_point(next, kRequest);
+        const TrainState& n = st_[next];
+        if ((n.phase == Phase::standing || n.phase == Phase::moving) && !n.request_pending &&
+            n.next_request < train(next).routes.size() && link_timed_stop(next, n.next_request) >= 0)
+            schedule_point(next, kRequest);
     }
 }
 
