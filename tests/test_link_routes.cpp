@@ -86,3 +86,31 @@ TEST_CASE("A train whose crew is known to be late asks for its route for the cre
     CHECK(first_route(d, "P2").requested == Approx(f_at_b.arrival + 600.0 - 18.0).margin(1e-3));
     CHECK(timing_of(d, "P3", "A").departure == Approx(8 * 3600.0 + 34 * 60.0).margin(1e-3));
 }
+
+TEST_CASE("A crew change shorter than route setting and reaction: the route is asked for on the crew's arrival",
+          "[sim][links]") {
+    // With a 10 s crew change (less than the 6 s route setting plus 12 s sight and reaction) and F
+    // later than planned, P2's route out cannot be timed before F arrives at B: it is asked for
+    // then, set 6 s later and known to the driver 12 s after that, so P2 leaves 18 s after F's
+    // arrival (worked by hand from the interlocking times of the fixture).  All of its wait is
+    // the crew link's.
+    Scenario sc = read_scenario(kExitRoute);
+    sc.timetable.links[0].min_time = 10.0;
+    SimOptions first_come;
+    first_come.route_order = RouteOrder::first_come;
+    const DayPtr day = simulate(std::move(sc), {{"F", 17 * 60.0}}, first_come);
+    const Day& d = *day;
+    const TimingRecord& f_at_b = timing_of(d, "F", "B");
+    CHECK(first_route(d, "P2").requested == Approx(f_at_b.arrival).margin(1e-3));
+    CHECK(timing_of(d, "P2", "A").departure == Approx(f_at_b.arrival + 18.0).margin(1e-3));
+    // (P3 then follows P2 out of A at the headway: a wait of its own, caused by P2's train.)
+    const std::size_t p2 = index_of(d.plan, "P2");
+    std::size_t waits = 0;
+    for (const HoldRecord& w : d.result.waits)
+        if (w.train == p2) {
+            ++waits;
+            CHECK(w.cause.kind == HoldCause::Kind::link);
+            CHECK(w.to - w.from == Approx(f_at_b.arrival + 18.0 - (8 * 3600.0 + 30 * 60.0)).margin(1e-3));
+        }
+    CHECK(waits == 1);
+}
