@@ -11,9 +11,9 @@ std::vector<LineSection> line_sections(const Infrastructure& infra) {
     std::sort(st.begin(), st.end(), [](const Station* a, const Station* b) { return a->at < b->at; });
     std::vector<LineSection> out;
     for (std::size_t i = 0; i + 1 < st.size(); ++i)
-        out.push_back({st[i]->id, st[i + 1]->id, Direction::up, st[i]->at, st[i + 1]->at});
+        out.push_back({st[i]->id, st[i + 1]->id, Direction::up, {}});
     for (std::size_t i = st.size(); i-- > 1;)
-        out.push_back({st[i]->id, st[i - 1]->id, Direction::down, st[i - 1]->at, st[i]->at});
+        out.push_back({st[i]->id, st[i - 1]->id, Direction::down, {}});
     return out;
 }
 
@@ -21,17 +21,14 @@ std::optional<SectionStairway> stairway_in(const LineSection& ls, std::size_t tr
                                            const Stairway& stairway) {
     // A train belongs to the line section when its path runs from one station to the other,
     // whether or not it has calls there; its reference is when its head leaves the first.
-    if (run.path.direction != ls.direction) return std::nullopt;
-    // The line section runs from its first station to the other: up from x_lo, down from x_hi.
-    const bool up = ls.direction == Direction::up;
-    const double s_from = run.path.s_at_chainage(up ? ls.x_lo : ls.x_hi);
-    const double s_to = run.path.s_at_chainage(up ? ls.x_hi : ls.x_lo);
-    if (std::isnan(s_from) || std::isnan(s_to) || s_to < s_from) return std::nullopt;
+    const double s_from = run.path.station_s(ls.from_station);
+    const double s_to = run.path.station_s(ls.to_station);
+    if (std::isnan(s_from) || std::isnan(s_to) || s_to <= s_from) return std::nullopt;
     SectionStairway out;
     out.train = train;
     out.reference = run.head_leave(s_from);
     for (const SectionBlocking& b : stairway.sections)
-        if (std::min(b.x_hi, ls.x_hi) - std::max(b.x_lo, ls.x_lo) > 1e-6) out.sections.push_back(b);
+        if (std::min(b.s_to, s_to) - std::max(b.s_from, s_from) > 1e-6) out.sections.push_back(b);
     return out;
 }
 

@@ -7,18 +7,11 @@
 #include <vector>
 
 #include "models/blocking_time.hpp"
+#include "models/line_section.hpp"
 
 namespace knockon {
 
-// A line section: the stretch between two consecutive stations, in one direction.
-struct LineSection {
-    std::string from_station, to_station;
-    Direction direction = Direction::up;
-    double x_lo = 0.0, x_hi = 0.0;   // chainage extent
-    std::string name() const { return from_station + "-" + to_station; }
-};
 
-std::vector<LineSection> line_sections(const Infrastructure& infra);
 
 // A train's blocking times on one line section, relative to its reference time there (its
 // departure or pass at the line section's first station).
@@ -28,7 +21,8 @@ struct SectionStairway {
     std::vector<SectionBlocking> sections;   // only those lying in the line section
 };
 
-// Whether the run passes both stations of the line section in order; if so its stairway there.
+// Whether the run passes both stations of the line section in order; if so its stairway there:
+// the blocking of the sections it crosses between them.
 std::optional<SectionStairway> stairway_in(const LineSection& ls, std::size_t train, const ServiceRun& run,
                                            const Stairway& stairway);
 

@@ -161,6 +161,12 @@ net::PathRequest LinePaths::request(const Service& service, double train_length)
     return r;
 }
 
+double LinePaths::longest_overlap() const {
+    double o = 0.0;
+    for (const Signal& s : infra_.signals) o = std::max(o, s.overlap);
+    return o;
+}
+
 TrainPath LinePaths::lay(const Service& service, double rear, double ahead) const {
     const net::PathRequest r = request(service, rear);
     try {

@@ -17,11 +17,12 @@
 #include "models/network/sections.hpp"
 #include "models/network/train_path.hpp"
 #include "models/path.hpp"
+#include "models/service_paths.hpp"
 #include "models/timetable.hpp"
 
 namespace knockon {
 
-class LinePaths {
+class LinePaths : public ServicePaths {
 public:
     // Keeps a reference: `infra` must outlive this.  Throws PathError where the line cannot be
     // read into a network (two loops meeting at one point of their track).
@@ -31,7 +32,11 @@ public:
 
     // Lays the service's path; throws PathError saying what does not connect.  `rear` and `ahead`
     // say how far to extend the layout behind the start and beyond the end [m].
-    TrainPath lay(const Service& service, double rear = 0.0, double ahead = 0.0) const;
+    TrainPath lay(const Service& service, double rear = 0.0, double ahead = 0.0) const override;
+    double longest_overlap() const override;
+    const InterlockingTimes& interlocking() const override { return infra_.interlocking; }
+    std::vector<LineSection> line_sections() const override { return knockon::line_sections(infra_); }
+    SingleTrackLayout single_track() const override { return single_track_layout(infra_); }
 
     const Infrastructure& infrastructure() const { return infra_; }
     const net::LineNetwork& line() const { return line_; }

@@ -90,7 +90,7 @@ std::optional<LinkCalls> link_calls(const ServiceLink& link, const Service& from
     return LinkCalls{from.calls.size() - 1, 0};
 }
 
-std::optional<std::string> link_problem(const LinePaths& paths, const ServiceLink& link, const Service& from,
+std::optional<std::string> link_problem(const ServicePaths& paths, const ServiceLink& link, const Service& from,
                                         const Service& to) {
     const std::string what = std::string(to_string(link.kind)) + " from " + from.id + " to " + to.id;
     if (from.id == to.id) return what + ": a service cannot be linked to itself";

@@ -9,7 +9,7 @@
 #include <vector>
 
 #include "models/infrastructure.hpp"
-#include "models/line_paths.hpp"
+#include "models/service_paths.hpp"
 #include "models/timetable.hpp"
 
 namespace knockon {
@@ -49,7 +49,7 @@ std::optional<LinkCalls> link_calls(const ServiceLink& link, const Service& from
 // later start on the line or stop there with a departure; a turnaround needs the later service to
 // start on the platform track the earlier one ends on (a reversal needs a track both directions
 // use).  `paths` lays the paths for the track check.
-std::optional<std::string> link_problem(const LinePaths& paths, const ServiceLink& link, const Service& from,
+std::optional<std::string> link_problem(const ServicePaths& paths, const ServiceLink& link, const Service& from,
                                         const Service& to);
 
 }  // namespace knockon

@@ -106,6 +106,12 @@ double TrainPath::s_at_chainage(double x) const {
     return std::numeric_limits<double>::quiet_NaN();
 }
 
+double TrainPath::station_s(const std::string& station) const {
+    for (const StationPass& p : stations)
+        if (p.station == station) return p.s;
+    return std::numeric_limits<double>::quiet_NaN();
+}
+
 double TrainPath::gradient_at(double s) const { return gradient.at(s); }
 
 ProfileStretch TrainPath::steepest_fall(double from, double to) const { return gradient.lowest(from, to); }

@@ -45,6 +45,12 @@ struct TimingPoint {
     bool stops = true;
 };
 
+// A station whose timing point (on whichever of its tracks the path takes) lies on the path.
+struct StationPass {
+    std::string station;   // station id
+    double s = 0.0;        // within [0, length]
+};
+
 // A stretch of a path over which a profile holds one value.
 struct ProfileStretch {
     double value = 0.0;
@@ -73,10 +79,15 @@ struct TrainPath {
     std::vector<PathSection> sections;
     std::vector<PathSignal> signals;       // main signals facing the train, in order
     std::vector<TimingPoint> timing_points;
+    // Every station the path passes between its start and end, called at or not, in running
+    // order: what the planner's line sections are measured by (models/headway).
+    std::vector<StationPass> stations;
     PathProfile gradient;      // met by the train (positive climbing)
     PathProfile speed_limit;   // line speed capped by the track's limit and switch legs' speeds [m/s]
 
     double chainage_at(double s) const;
+    // Where along the path the station's timing point lies; NaN if the path does not pass it.
+    double station_s(const std::string& station) const;
     // Where along the path (within [0, length]) the head passes chainage x; NaN if it does not.
     double s_at_chainage(double x) const;
     // Gradient met by the train at s: positive when it climbs.

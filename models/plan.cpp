@@ -8,6 +8,7 @@
 #include <stdexcept>
 
 #include "models/scenario_error.hpp"
+#include "models/service_paths.hpp"
 
 namespace knockon {
 namespace {
@@ -149,7 +150,7 @@ void add_conflicts(PlanResult& plan) {
 // Each link of the timetable, resolved to trains and timing points, goes to the train it holds.
 // The reader has checked the links; a scenario built in code gets the same sentences, located at
 // the link.
-void link_trains(const Scenario& scenario, const LinePaths& paths, std::vector<TrainPlan>& trains) {
+void link_trains(const Scenario& scenario, const ServicePaths& paths, std::vector<TrainPlan>& trains) {
     const auto& links = scenario.timetable.links;
     if (links.empty()) return;
     std::map<std::string, std::size_t> index;
@@ -224,8 +225,29 @@ std::string conflict_kind(const Conflict& c) {
 }
 
 PlanSize plan_size(const Scenario& scenario, const RunOptions& options) {
-    const Infrastructure& in = scenario.infrastructure;
     PlanSize size;
+    auto add = [&](double km) {
+        size.train_km += km;
+        size.grid_points += km * 1000.0 / options.step + 1.0;
+        ++size.runs;
+    };
+    if (scenario.network) {
+        // A network's paths are laid to be measured (cheap beside integrating them).
+        std::unique_ptr<ServicePaths> paths;
+        try {
+            paths = service_paths(scenario);
+        } catch (const PathError&) {
+            return size;   // refused with its reason when the plan is made
+        }
+        for (const Service& svc : scenario.timetable.services) {
+            try {
+                add(paths->lay(svc).length / 1000.0);
+            } catch (const PathError&) {
+            }
+        }
+        return size;
+    }
+    const Infrastructure& in = scenario.infrastructure;
     for (const Service& svc : scenario.timetable.services) {
         if (svc.calls.empty()) continue;
         const Station* first = in.find_station(svc.calls.front().station);
@@ -234,9 +256,7 @@ PlanSize plan_size(const Scenario& scenario, const RunOptions& options) {
         const bool up = svc.direction == Direction::up;
         const double from = svc.enters_at_edge ? (up ? 0.0 : in.length) : first->at;
         const double to = svc.leaves_at_edge ? (up ? in.length : 0.0) : last->at;
-        size.train_km += std::abs(to - from) / 1000.0;
-        size.grid_points += std::abs(to - from) / options.step + 1.0;
-        ++size.runs;
+        add(std::abs(to - from) / 1000.0);
     }
     return size;
 }
@@ -261,9 +281,9 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& o
     // (the runs of a repeat pattern share their type and path).
     std::vector<std::string> problems;
     std::map<std::size_t, std::pair<std::size_t, std::size_t>> failed;   // entry -> (problem, further runs)
-    std::optional<LinePaths> paths;
+    std::unique_ptr<ServicePaths> paths;
     try {
-        paths.emplace(scenario.infrastructure);
+        paths = service_paths(scenario);
     } catch (const PathError& e) {
         throw ScenarioError({(scenario.source_file.empty() ? std::string("scenario") : scenario.source_file) +
                              ": infrastructure: " + e.what()});
@@ -274,7 +294,7 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& o
             const TrainType* type = scenario.find_train_type(svc.train_type);
             if (!type) throw std::runtime_error("unknown train type");
             TrainPlan tp{plan_service(*paths, svc, *type, scenario.timetable.rounding, options), {}, {}};
-            tp.stairway = blocking_stairway(tp.run, scenario.infrastructure.interlocking);
+            tp.stairway = blocking_stairway(tp.run, paths->interlocking());
             trains.push_back(std::move(tp));
             continue;
         } catch (const std::runtime_error& e) {
@@ -299,23 +319,25 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& o
     return trains;
 }
 
-std::vector<HeadwayPair> consecutive_headways(const Infrastructure& infra, const std::vector<TrainPlan>& trains) {
+std::vector<HeadwayPair> consecutive_headways(const std::vector<LineSection>& sections,
+                                              const std::vector<TrainPlan>& trains) {
     std::vector<HeadwayPair> out;
-    for (const LineSection& ls : line_sections(infra)) add_headways(ls, stairways_in(ls, trains), out);
+    for (const LineSection& ls : sections) add_headways(ls, stairways_in(ls, trains), out);
     return out;
 }
 
 PlanResult make_plan(const Scenario& scenario, const RunOptions& options) {
     PlanResult plan;
     plan.trains = plan_trains(scenario, options);
-    plan.line_sections = line_sections(scenario.infrastructure);
+    const std::unique_ptr<ServicePaths> paths = service_paths(scenario);
+    plan.line_sections = paths->line_sections();
     for (const LineSection& ls : plan.line_sections) {
         std::vector<SectionStairway> ordered = stairways_in(ls, plan.trains);
         add_headways(ls, ordered, plan.headways);
         add_matrix(ls, ordered, plan);
         add_capacity(ls, ordered, scenario.line_type, plan);
     }
-    plan.single_track = single_track_layout(scenario.infrastructure);
+    plan.single_track = paths->single_track();
     plan.crossings = find_crossings(plan.single_track, plan.trains);
     plan.stretch_capacity = stretch_capacity(plan.single_track, plan.trains, scenario.line_type);
     plan.crossings_too_short = crossings_too_short(plan.single_track, plan.trains, plan.crossings);

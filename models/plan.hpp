@@ -107,7 +107,8 @@ struct PlanResult {
 PlanResult make_plan(const Scenario& scenario, const RunOptions& options = {});
 
 // Headways of consecutive trains in every line section (part of make_plan).
-std::vector<HeadwayPair> consecutive_headways(const Infrastructure& infra, const std::vector<TrainPlan>& trains);
+std::vector<HeadwayPair> consecutive_headways(const std::vector<LineSection>& sections,
+                                              const std::vector<TrainPlan>& trains);
 
 // Every service's planned run and stairway only (what the simulation builds on).  Throws
 // ScenarioError, each message located at the service's timetable entry, for a train that cannot

@@ -44,6 +44,7 @@ std::string Scenario::where(const Service& service) const {
 }
 
 std::string Scenario::where(const Service& service, std::size_t call) const {
+    call += service.first_call;
     if (service.entry < sources.calls.size() && call < sources.calls[service.entry].size())
         return sources.calls[service.entry][call];
     return where(service);

@@ -2,10 +2,13 @@
 // A whole scenario as the models see it: infrastructure, rolling stock, timetable and the
 // study settings.  Built by the scenario reader at the edge (tools/io), never from YAML here.
 #include <map>
+#include <optional>
 #include <string>
 #include <vector>
 
 #include "models/infrastructure.hpp"
+#include "models/network/network.hpp"
+#include "models/network/timetable.hpp"
 #include "models/primary_delay_model.hpp"
 #include "models/timetable.hpp"
 #include "models/train_type.hpp"
@@ -27,6 +30,16 @@ struct SourceMap {
     std::vector<std::string> links;                   // per Timetable::links entry
 };
 
+// The network of a scenario read from a network file (`knockon: 2`): the layout, the corridors
+// the planner's views are reported along, and per timetable service (Timetable::services, in
+// order) the network run it is: its calls with their tracks and vias, its boundaries, in one
+// heading (models/network/runs splits a reversing service into one run per heading).
+struct ScenarioNetwork {
+    net::Network network;
+    std::vector<net::Corridor> corridors;
+    std::vector<net::NetworkService> runs;
+};
+
 struct Scenario {
     std::string name;
     std::string source_file;
@@ -36,6 +49,8 @@ struct Scenario {
     std::vector<TrainType> train_types;
     Timetable timetable;
     PrimaryDelayModel delays;   // optional `delays:` section; empty = no primary delays
+    // A network scenario's layout; `infrastructure` is then empty.  None for a line scenario.
+    std::optional<ScenarioNetwork> network;
 
     const TrainType* find_train_type(const std::string& id) const;
     // Locations for messages: the service's timetable entry, one of its calls, a train type.

@@ -21,12 +21,6 @@ namespace {
 // first signal past a terminus, and its overlap, are known.
 constexpr double kLookAhead = 3000.0;
 
-double max_overlap(const Infrastructure& infra) {
-    double o = 0.0;
-    for (const Signal& s : infra.signals) o = std::max(o, s.overlap);
-    return o;
-}
-
 // Where on the line a train stalls and what force it lacks there.
 std::string stall_text(const TrainPath& path, const StallError& e) {
     char buf[320];
@@ -45,13 +39,12 @@ double min_dwell_of(const Call& call, const TrainType& type) {
 
 }  // namespace
 
-ServiceRun plan_service(const LinePaths& paths, const Service& service, const TrainType& type,
+ServiceRun plan_service(const ServicePaths& paths, const Service& service, const TrainType& type,
                         double rounding, const RunOptions& options) {
-    const Infrastructure& infra = paths.infrastructure();
     ServiceRun run;
     run.service = &service;
     run.type = &type;
-    run.path = paths.lay(service, type.length, max_overlap(infra) + kLookAhead);
+    run.path = paths.lay(service, type.length, paths.longest_overlap() + kLookAhead);
     const TrainPath& path = run.path;
     if (const std::string problem = brake_hold_problem(type, path, 0.0, path.length); !problem.empty())
         throw std::runtime_error(problem);

@@ -12,7 +12,7 @@
 #include <vector>
 
 #include "models/infrastructure.hpp"
-#include "models/line_paths.hpp"
+#include "models/service_paths.hpp"
 #include "models/path.hpp"
 #include "models/running_time.hpp"
 #include "models/timetable.hpp"
@@ -63,7 +63,7 @@ struct ServiceRun {
     double speed_at(double s) const;
 };
 
-ServiceRun plan_service(const LinePaths& paths, const Service& service, const TrainType& type,
+ServiceRun plan_service(const ServicePaths& paths, const Service& service, const TrainType& type,
                         double rounding, const RunOptions& options = {});
 
 // Rounds t up to the next multiple of grid (grid <= 0: unchanged), ignoring sub-millisecond noise.

@@ -44,12 +44,18 @@ struct Service {
     bool enters_at_edge = false;
     std::optional<double> entry_speed;   // [m/s]
     bool leaves_at_edge = false;         // runs on beyond the far line end
+    // Starts where its set reversed as the service before it (a network service that reverses
+    // runs as one service per heading): it does not enter, so draws no entry delay.
+    bool continues = false;
     std::vector<Call> calls;             // in running order; at least one
 
     const std::string& draw_name() const { return draw.name.empty() ? id : draw.name; }
     // Index of the timetable entry it was written as (the runs of a repeat pattern share it):
     // where messages about it point (Scenario::where).
     std::size_t entry = 0;
+    // Index of its first call among the entry's calls as written (a network service that
+    // reverses runs as one service per heading, the later ones starting at a reversal).
+    std::size_t first_call = 0;
 };
 
 // Links between services (models/links): a set that forms a later service, a connection, a crew

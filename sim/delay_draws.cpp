@@ -43,13 +43,13 @@ std::map<std::string, SectionExtent> known_sections(const std::vector<TrainPlan>
 
 }  // namespace
 
-InjectedDelays draw_delays(const PrimaryDelayModel& model, const Infrastructure& infra,
+InjectedDelays draw_delays(const PrimaryDelayModel& model,
                            const std::vector<TrainPlan>& trains, std::uint64_t seed,
                            std::uint32_t replication) {
-    return DelayDrawer(model, infra, trains).draw(seed, replication);
+    return DelayDrawer(model, trains).draw(seed, replication);
 }
 
-DelayDrawer::DelayDrawer(const PrimaryDelayModel& model, const Infrastructure& infra,
+DelayDrawer::DelayDrawer(const PrimaryDelayModel& model,
                          const std::vector<TrainPlan>& trains)
     : model_(model), trains_(trains) {
     for (const TrainPlan& tp : trains) {
@@ -59,7 +59,8 @@ DelayDrawer::DelayDrawer(const PrimaryDelayModel& model, const Infrastructure& i
         t.key = stable_key(svc.draw_name());
         // A service of its own keeps run 0, the word its draws have always had.
         if (svc.draw.occurrence) t.run = *svc.draw.occurrence + 1;
-        t.entry = match(model.entry, svc.category, svc.calls.front().station);
+        // A service that starts where its set reversed does not enter: no entry delay.
+        if (!svc.continues) t.entry = match(model.entry, svc.category, svc.calls.front().station);
         const std::size_t n = svc.calls.size();
         for (std::size_t c = 0; c < n; ++c) {
             const Call& call = svc.calls[c];
@@ -75,12 +76,9 @@ DelayDrawer::DelayDrawer(const PrimaryDelayModel& model, const Infrastructure& i
     // overlaps [from, to), as the trains' paths know them, in chainage order.
     const auto sections = known_sections(trains);
     for (const DisruptionRule& rule : model.disruptions) {
-        // The range as far as the track goes (the reader has checked it lies on the track).
-        double from = rule.from, to = rule.to;
-        if (const Track* tr = infra.find_track(rule.track)) {
-            from = std::max(from, tr->from);
-            to = std::min(to, tr->to);
-        }
+        // (The track's sections lie within its extent, so a range reaching beyond the track
+        // blocks no more than the track.)
+        const double from = rule.from, to = rule.to;
         const std::string prefix = rule.track + ":";
         std::vector<std::pair<double, std::string>> hit;   // by chainage, for a stable order
         for (const auto& [id, ext] : sections)

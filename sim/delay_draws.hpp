@@ -24,7 +24,7 @@ namespace knockon {
 // from that call to the next (and from the last call to the line end when the train runs on);
 // `call` indexes Service::calls.  Disruptions block every detection section of their track that
 // overlaps [from, to), as the trains' paths know them, for the drawn time.
-InjectedDelays draw_delays(const PrimaryDelayModel& model, const Infrastructure& infra,
+InjectedDelays draw_delays(const PrimaryDelayModel& model,
                            const std::vector<TrainPlan>& trains, std::uint64_t seed,
                            std::uint32_t replication);
 
@@ -32,7 +32,7 @@ InjectedDelays draw_delays(const PrimaryDelayModel& model, const Infrastructure&
 // once (a study draws thousands of days).  Holds references to the model and the plans.
 class DelayDrawer {
 public:
-    DelayDrawer(const PrimaryDelayModel& model, const Infrastructure& infra, const std::vector<TrainPlan>& trains);
+    DelayDrawer(const PrimaryDelayModel& model, const std::vector<TrainPlan>& trains);
     InjectedDelays draw(std::uint64_t seed, std::uint32_t replication) const;
 
 private:

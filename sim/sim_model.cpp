@@ -56,8 +56,11 @@ const StretchUse* SimModel::Train::use_of(std::int32_t stretch) const {
     return nullptr;
 }
 
-SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& plan)
-    : infra_(infra), single_track_(single_track_layout(infra)) {
+SimModel::SimModel(const Scenario& scenario, const std::vector<TrainPlan>& plan)
+    : SimModel(*service_paths(scenario), plan) {}
+
+SimModel::SimModel(const ServicePaths& paths, const std::vector<TrainPlan>& plan)
+    : interlocking_(paths.interlocking()), single_track_(paths.single_track()) {
     // Sections are numbered in the order trains first meet them, found by the network's index
     // of each (every path of a plan is laid over one network); the ids are kept for the edges.
     constexpr std::uint32_t kUnnumbered = UINT32_MAX;
@@ -212,7 +215,7 @@ SimModel::SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& pl
     // Headways name their critical section: looked up by name, at this edge only.
     std::map<std::string, std::uint32_t> by_name;
     for (std::uint32_t s = 0; s < section_names_.size(); ++s) by_name.emplace(section_names_[s], s);
-    for (const HeadwayPair& h : consecutive_headways(infra, plan)) {
+    for (const HeadwayPair& h : consecutive_headways(paths.line_sections(), plan)) {
         auto it = by_name.find(h.critical_section);
         if (it == by_name.end()) continue;
         buffer_pairs_.push_back({static_cast<std::uint32_t>(h.leader), static_cast<std::uint32_t>(h.follower),

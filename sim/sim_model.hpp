@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "models/plan.hpp"
+#include "models/service_paths.hpp"
 #include "models/single_track.hpp"
 #include "models/sorted_index.hpp"
 #include "sim/record_places.hpp"
@@ -39,7 +40,10 @@ struct StretchUse {
 
 class SimModel {
 public:
-    SimModel(const Infrastructure& infra, const std::vector<TrainPlan>& plan);
+    // The scenario's paths (models/service_paths) give the interlocking's times, the single-track
+    // stretches and the line sections buffers are measured in; `plan` is the scenario's.
+    SimModel(const Scenario& scenario, const std::vector<TrainPlan>& plan);
+    SimModel(const ServicePaths& paths, const std::vector<TrainPlan>& plan);
 
     struct Route {
         std::string entry_signal, exit_signal;
@@ -115,7 +119,7 @@ public:
         std::vector<std::uint32_t> links_in, links_out;
     };
 
-    const Infrastructure& infrastructure() const { return infra_; }
+    const InterlockingTimes& interlocking() const { return interlocking_; }
     const SingleTrackLayout& single_track() const { return single_track_; }
     const std::vector<Train>& trains() const { return trains_; }
     const std::vector<std::string>& section_names() const { return section_names_; }
@@ -136,7 +140,7 @@ public:
     const RecordPlaces& record_places() const { return record_places_; }
 
 private:
-    const Infrastructure& infra_;
+    InterlockingTimes interlocking_;
     SingleTrackLayout single_track_;
     std::vector<Train> trains_;
     std::vector<std::string> section_names_;

@@ -447,7 +447,7 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
     : model_(model),
       delays_(delays),
       options_(options),
-      times_(model.infrastructure().interlocking),
+      times_(model.interlocking()),
       interlocking_(model.section_names().size(), options.route_order, model.planned_order()),
       dispatch_(model),
       generations_(kEntitiesPerTrain * model.trains().size()) {

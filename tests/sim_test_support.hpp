@@ -55,7 +55,7 @@ inline DayPtr simulate(Scenario scenario, const std::vector<std::pair<std::strin
     d->plan = plan_trains(d->scenario, options.run);
     InjectedDelays delays = no_delays(d->plan);
     for (const auto& [id, seconds] : entry_delays) delays.entry[index_of(d->plan, id)] = seconds;
-    SimModel model(d->scenario.infrastructure, d->plan);
+    SimModel model(d->scenario, d->plan);
     d->result = simulate_day(model, delays, options);
     return d;
 }
@@ -69,7 +69,7 @@ struct Loaded {
 
     explicit Loaded(const std::string& path, const std::string& variant = {})
         : scenario(read_scenario(path, variant)), plan(plan_trains(scenario)) {
-        model = std::make_unique<SimModel>(scenario.infrastructure, plan);
+        model = std::make_unique<SimModel>(scenario, plan);
     }
     Loaded(const Loaded&) = delete;
     Loaded& operator=(const Loaded&) = delete;

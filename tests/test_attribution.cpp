@@ -78,8 +78,8 @@ double uniform(std::mt19937_64& g) { return static_cast<double>(g() >> 11) * 0x1
 TEST_CASE("attribution: the shares add up to the knock-on measured on demo days", "[attribution][conservation]") {
     Scenario sc = read_scenario(kSource + "/scenarios/demo.yaml");
     const std::vector<TrainPlan> plan = plan_trains(sc);
-    const SimModel model(sc.infrastructure, plan);
-    const DelayDrawer drawer(sc.delays, sc.infrastructure, plan);
+    const SimModel model(sc, plan);
+    const DelayDrawer drawer(sc.delays, plan);
     double total = 0.0;
     for (std::uint32_t k = 0; k < 4; ++k) {
         INFO("demo, seed 1, replication " << k);
@@ -109,8 +109,8 @@ TEST_CASE("attribution: record places are the stations sorted by id and each rec
     // The demo model lays out its days' records as the engine does.
     Scenario sc = read_scenario(kSource + "/scenarios/demo.yaml");
     const std::vector<TrainPlan> plan = plan_trains(sc);
-    const SimModel model(sc.infrastructure, plan);
-    const DelayDrawer drawer(sc.delays, sc.infrastructure, plan);
+    const SimModel model(sc, plan);
+    const DelayDrawer drawer(sc.delays, plan);
     const InjectedDelays delays = drawer.draw(1, 0);
     const SimResult day = simulate_day(model, delays, SimOptions{});
     const RecordPlaces own = record_places(day.timing);
@@ -145,7 +145,7 @@ TEST_CASE("attribution: the shares add up to the knock-on measured on random day
             for (double& x : v) x = draw();
         for (auto& v : delays.running)
             for (double& x : v) x = 0.3 * draw();
-        const SimModel model(scenario.infrastructure, plan.trains);
+        const SimModel model(scenario, plan.trains);
         const SimResult day = simulate_day(model, delays, SimOptions{});
         const DayAttribution a = attribute_knock_on(day, delays);
         CHECK(conservation_mismatch(day, a) == "");
@@ -194,7 +194,7 @@ TEST_CASE("attribution: Monte Carlo knock-on of an exponential delay on a turnar
     const double p = 0.6, m = 240.0, b = 300.0;
     Scenario sc = turnaround_with_5_min_buffer();
     const std::vector<TrainPlan> plan = plan_trains(sc);
-    const SimModel model(sc.infrastructure, plan);
+    const SimModel model(sc, plan);
     const std::size_t u1 = index_of(plan, "U1");
     auto draw = [&](std::uint32_t k) {
         std::mt19937_64 g(1000 + k);
@@ -278,7 +278,7 @@ TEST_CASE("attribution: a delay tree on a three-train chain checked by hand", "[
     const std::uint32_t u2 = static_cast<std::uint32_t>(index_of(d->plan, "U2"));
     delays.entry[u1] = D;
     delays.entry[d1] = R;
-    const SimModel model(d->scenario.infrastructure, d->plan);
+    const SimModel model(d->scenario, d->plan);
     d->result = simulate_day(model, delays, SimOptions{});
     const DayAttribution a = attribute_knock_on(d->result, delays);
     REQUIRE(conservation_mismatch(d->result, a) == "");

@@ -93,7 +93,7 @@ TEST_CASE("A deadlocked day reports each waiting train and who keeps its route",
             if (order == RouteOrder::first_come)
                 for (const DeadlockBlock& b : w.blocks) CHECK(b.by == DeadlockBlock::By::held);
         }
-        check_blocks_against_records(d, SimModel(d.scenario.infrastructure, d.plan));
+        check_blocks_against_records(d, SimModel(d.scenario, d.plan));
         CHECK_THAT(rep.cause, Contains("wait for each other") && Contains("UP1") && Contains("DN1"));
         // One line per waiting train, in words.
         CHECK_THAT(rep.description, StartsWith(d.result.train_ids[rep.waiting[0].train] + " stands at signal "));
@@ -113,7 +113,7 @@ TEST_CASE("A train promised a section it never took keeps a deadlock's waiting t
     for (const DeadlockWait& w : rep.waiting)
         for (const DeadlockBlock& b : w.blocks) promised += b.by == DeadlockBlock::By::promised;
     CHECK(promised > 0);
-    check_blocks_against_records(d, SimModel(d.scenario.infrastructure, d.plan));
+    check_blocks_against_records(d, SimModel(d.scenario, d.plan));
     // A train ready to leave a stop names the stop and when it was ready.
     bool at_stop = false;
     for (const DeadlockWait& w : rep.waiting)

@@ -31,7 +31,7 @@ StudyResult study_of(const Loaded& f, RouteOrder order, std::uint32_t days) {
     opt.replications = days;
     opt.threads = 2;
     opt.sim.route_order = order;
-    opt.draw = [&f](std::uint32_t k) { return draw_delays(f.scenario.delays, f.scenario.infrastructure, f.plan, 1, k); };
+    opt.draw = [&f](std::uint32_t k) { return draw_delays(f.scenario.delays, f.plan, 1, k); };
     return run_study(*f.model, opt);
 }
 
@@ -72,7 +72,7 @@ TEST_CASE("dispatch: an undisturbed day equals the plan", "[dispatch][simulation
         const PlanResult plan = make_plan(sc);
         if (!plan.spacing_warnings.empty() || !plan.conflicts.empty()) continue;
         ++checked;
-        const SimModel model(sc.infrastructure, plan.trains);
+        const SimModel model(sc, plan.trains);
         const SimResult day = simulate_day(model, simtest::no_delays(plan.trains), options);
         CHECK_FALSE(day.deadlock.deadlocked);
         CHECK(day.holds.empty());

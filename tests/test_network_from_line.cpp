@@ -66,7 +66,7 @@ struct Mapped {
     }
 };
 
-std::set<std::string> line_sections(const Infrastructure& infra) {
+std::set<std::string> line_section_ids(const Infrastructure& infra) {
     std::set<std::string> out;
     for (const Track& t : infra.tracks) {
         const auto b = section_boundaries(infra, t);
@@ -163,7 +163,7 @@ std::size_t compare_with_line_model(const Infrastructure& infra) {
     const Mapped m(infra);
     std::set<std::string> sections;
     for (std::size_t s = 0; s < m.sections.size(); ++s) sections.insert(m.line_id(s));
-    CHECK(sections == line_sections(infra));
+    CHECK(sections == line_section_ids(infra));
     const std::set<std::string> expected = line_routes(infra);
     CHECK(network_routes(m) == expected);
     return expected.size();

@@ -130,7 +130,7 @@ TEST_CASE("network timetable: each mistake located at the call or field that bre
                                    "n.yaml:79:10: corridors[1].id: corridor id \"Branch\" is used twice",
                                    "n.yaml:79:28: corridors[1].stations: a corridor runs through at least two stations"});
     // Bad units, in a call and in a train type (read as a line scenario reads them).
-    CHECK(problems_of(changed("min_turnaround: 4 min}", "min_turnaround: 4 kg}")) ==
+    CHECK(problems_of(changed("min_turnaround: 4 min,", "min_turnaround: 4 kg,")) ==
           std::vector<std::string>{"n.yaml:64:69: timetable.services[0].calls[2].min_turnaround: unknown unit \"kg\" "
                                    "for a duration; use s, min or h"});
     CHECK(problems_of(changed("    length: 45 m", "    length: 45 kN")) ==

@@ -22,7 +22,7 @@ namespace {
 
 // What went wrong with one case, or "" when the day ran as planned.
 std::string undisturbed_day_mismatch(const Scenario& scenario, const PlanResult& plan) {
-    const SimModel model(scenario.infrastructure, plan.trains);
+    const SimModel model(scenario, plan.trains);
     const SimResult day = simulate_day(model, simtest::no_delays(plan.trains), SimOptions{});
     std::ostringstream why;
     if (day.deadlock.deadlocked) why << "deadlock: " << day.deadlock.description << "\n";

@@ -331,7 +331,7 @@ TEST_CASE("the traced day drawn is the one nearest the median knock-on", "[resul
 TEST_CASE("as-run paths: through the records of the day, and over the plan in the diagram", "[result_charts]") {
     const Scenario s = read_scenario(kTwoTrains);
     const PlanResult plan = make_plan(s);
-    const SimModel model(s.infrastructure, plan.trains);
+    const SimModel model(s, plan.trains);
     SimOptions opt;
     const SimResult day = simulate_day(model, simtest::no_delays(plan.trains), opt);
     opt.sample_interval = 2.0;

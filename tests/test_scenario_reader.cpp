@@ -494,11 +494,9 @@ TEST_CASE("several errors in one file are all reported, in file order", "[reader
 TEST_CASE("format version", "[reader]") {
     const std::string t = with("knockon: 1", "knockon: 3");
     CHECK(reported(errors_of(t), "1:10", "knockon", "format version \"3\" is not supported; this program reads knockon: 1"));
-    // A network file given to a command that plans or runs: said what it is.
+    // knockon: 2 is a network file, read as one: a line's sections are not its keys.
     const std::string net = with("knockon: 1", "knockon: 2");
-    CHECK(reported(errors_of(net), "1:10", "knockon",
-                   "a network file (knockon: 2) is only checked so far, by `knockon validate`; the other commands "
-                   "read knockon: 1"));
+    CHECK(reported(errors_of(net), "1:1", "network", "missing required key \"network\""));
     const std::string t2 = with("knockon: 1\n", "");
     CHECK(reported(errors_of(t2), "1:1", "knockon", "missing required key"));
 }

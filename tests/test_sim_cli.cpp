@@ -45,7 +45,7 @@ TEST_CASE("simulate --out writes /day/timing, /day/occupancy and /day/routes wit
 
     const Scenario sc = read_scenario(kTwoTrains);
     const std::vector<TrainPlan> plan = plan_trains(sc);
-    const SimModel model(sc.infrastructure, plan);
+    const SimModel model(sc, plan);
     const SimResult day = simulate_day(model, InjectedDelays{}, SimOptions{});
     std::size_t calls = 0;
     for (const TrainPlan& tp : plan) calls += tp.run.service->calls.size();

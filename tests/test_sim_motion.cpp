@@ -163,7 +163,7 @@ struct Sim {
 
 std::unique_ptr<const Sim> simulate(const InjectedDelays& delays, double sample = 0.0) {
     auto s = std::make_unique<Sim>();
-    SimModel model(s->scenario.infrastructure, s->plan);
+    SimModel model(s->scenario, s->plan);
     SimOptions opt;
     opt.sample_interval = sample;
     s->result = simulate_day(model, delays, opt);

@@ -128,7 +128,7 @@ TEST_CASE("a train standing at a signal has not entered the section beyond it", 
     const std::vector<TrainPlan> plan = plan_trains(sc);
     InjectedDelays delays = no_delays(plan);
     delays.dwell[index_of(plan, "LEAD")][1] = 330.0;
-    const SimModel model(sc.infrastructure, plan);
+    const SimModel model(sc, plan);
     const SimResult r = simulate_day(model, delays, SimOptions{});
     const std::size_t f = index_of(plan, "FOLL");
     const HoldRecord* hold = nullptr;

@@ -237,7 +237,7 @@ TEST_CASE("Two runs with the same delays give identical records", "[sim][determi
     delays.running[2][0] = 120.0;
     SimOptions opt;
     opt.sample_interval = 30.0;
-    const SimModel model(sc.infrastructure, plan);
+    const SimModel model(sc, plan);
     const SimResult a = simulate_day(model, delays, opt);
     const SimResult b = simulate_day(model, delays, opt);
     auto same = [](double x, double y) { return (std::isnan(x) && std::isnan(y)) || x == y; };
@@ -292,7 +292,7 @@ TEST_CASE("The head reaches a section's end together with the next section, unle
     const std::vector<TrainPlan> plan = plan_trains(sc);
     InjectedDelays delays = no_delays(plan);
     for (std::size_t t = 0; t < plan.size(); t += 3) delays.entry[t] = 420.0;   // many trains held at signals
-    const SimModel model(sc.infrastructure, plan);
+    const SimModel model(sc, plan);
     const SimResult day = simulate_day(model, delays, {});
     REQUIRE_FALSE(day.deadlock.deadlocked);
     REQUIRE_FALSE(day.holds.empty());

@@ -51,7 +51,7 @@ std::string stopping_line(const std::string& supplement) {
 
 ServiceRun plan_only_service(const Scenario& sc) {
     const Service& svc = sc.timetable.services.at(0);
-    return plan_service(LinePaths(sc.infrastructure), svc, *sc.find_train_type(svc.train_type), sc.timetable.rounding);
+    return plan_service(*service_paths(sc), svc, *sc.find_train_type(svc.train_type), sc.timetable.rounding);
 }
 
 }  // namespace

@@ -5,6 +5,7 @@
 #include <set>
 
 #include "models/call_times.hpp"
+#include "models/repeat_runs.hpp"
 #include "models/units.hpp"
 
 namespace knockon::net {
@@ -103,6 +104,9 @@ bool check_names(const Network& net, const std::vector<TrainType>& types, const 
                                          (tracks.size() == 1 ? " carries" : " carry") +
                                          " trains one way only (directions: both is needed)");
         }
+        // The return working leaves at a time of the timetable, as any service's first call.
+        if (c.call.stops && !c.call.departure)
+            p.add(k, "reverses", "a reversal needs its departure time (dep): the return working leaves then");
     }
     for (const CallTimeProblem& t : call_time_problems([&] {
              std::vector<Call> calls;
@@ -124,6 +128,10 @@ bool check_names(const Network& net, const std::vector<TrainType>& types, const 
     if (svc.repeat && first.departure && svc.repeat->until < *first.departure)
         p.add(kNone, "repeat", "until " + format_time_of_day(svc.repeat->until) + " is before the first call's time " +
                                    format_time_of_day(*first.departure));
+    else if (svc.repeat && first.departure &&
+             repeat_count(*first.departure, svc.repeat->every, svc.repeat->until) > kMaxRunsPerPattern)
+        p.add(kNone, "repeat", "the pattern gives more than " + std::to_string(kMaxRunsPerPattern) +
+                                   " runs, which is taken for a mistake");
     return p.count == before;
 }
 

@@ -180,6 +180,30 @@ void lay_profiles(const NetworkGraph& g, const std::vector<Placed>& placed, Trai
 }
 
 // The detection sections crossed, in order, one entry per section even across stretches.
+// Every station timing point the runs pass within [0, length], in running order (a station once,
+// where the path first meets it).
+void lay_stations(const NetworkGraph& g, const std::vector<Placed>& placed, TrainPath& path) {
+    const Network& n = g.network();
+    std::vector<std::pair<double, std::size_t>> met;   // (s, station)
+    for (const TimingPoint& tp : n.timing_points)
+        for (const Placed& p : placed) {
+            if (p.run.segment != tp.at.segment) continue;
+            const double lo = std::min(p.run.from, p.run.to), hi = std::max(p.run.from, p.run.to);
+            if (tp.at.offset < lo - kSamePlace || tp.at.offset > hi + kSamePlace) continue;
+            const double s = p.s_at(tp.at.offset);
+            if (s < -kSamePlace || s > path.length + kSamePlace) continue;
+            met.emplace_back(s, tp.station);
+            break;
+        }
+    std::sort(met.begin(), met.end());
+    for (const auto& [s, station] : met) {
+        const std::string& id = n.stations[station].id;
+        if (std::none_of(path.stations.begin(), path.stations.end(),
+                         [&](const StationPass& p) { return p.station == id; }))
+            path.stations.push_back({id, s});
+    }
+}
+
 void lay_sections(const NetworkGraph& g, const DetectionSections& sections, const PathNames& names,
                   const std::vector<Placed>& placed, TrainPath& path) {
     for (const Placed& p : placed) {
@@ -255,6 +279,7 @@ TrainPath train_path(const NetworkGraph& g, const DetectionSections& sections, c
     lay_profiles(g, placed, out);
     for (std::size_t k = 0; k < path.calls.size(); ++k)
         out.timing_points.push_back({k, path.calls[k].s, request.calls[k].stops});
+    lay_stations(g, placed, out);
     return out;
 }
 

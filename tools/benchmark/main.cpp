@@ -49,7 +49,7 @@ Measure run(const knockon::SimModel& model, const knockon::Scenario& sc, const s
     knockon::StudyOptions opt;
     opt.replications = replications;
     opt.threads = threads;
-    const knockon::DelayDrawer drawer(sc.delays, sc.infrastructure, plan);
+    const knockon::DelayDrawer drawer(sc.delays, plan);
     opt.draw = [&](std::uint32_t k) { return drawer.draw(1, k); };
     const double c0 = cpu_seconds();
     const auto w0 = std::chrono::steady_clock::now();
@@ -89,7 +89,7 @@ int main(int argc, char** argv) {
     try {
         const knockon::Scenario sc = knockon::read_scenario(file);
         const std::vector<knockon::TrainPlan> plan = knockon::plan_trains(sc);
-        const knockon::SimModel model(sc.infrastructure, plan);
+        const knockon::SimModel model(sc, plan);
         double train_km = 0.0;   // per simulated day
         for (const auto& tp : plan) train_km += tp.run.path.length / 1000.0;
 

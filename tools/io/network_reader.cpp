@@ -1,5 +1,9 @@
 #include "tools/io/network_reader.hpp"
 
+#include "models/network/network_paths.hpp"
+#include "models/network/runs.hpp"
+#include "tools/io/link_fields.hpp"
+
 #include <map>
 #include <set>
 #include <utility>
@@ -45,12 +49,21 @@ public:
         network_at_ = top.mark_of("network");
         if (top.require("network")) read_network(top.get("network"), top.path_of("network"));
         layout_errors_ = errors_.size();
-        if (auto seq = top.sequence("train_types", false))
-            out_.train_types = yamlio::read_train_types(errors_, top, *seq, std::nullopt).types;
+        if (auto seq = top.sequence("train_types", false)) {
+            auto list = yamlio::read_train_types(errors_, top, *seq, std::nullopt);
+            out_.train_types = std::move(list.types);
+            out_.sources.train_types = std::move(list.where);
+        }
         if (top.has("timetable")) read_timetable(top.get("timetable"), top.path_of("timetable"));
         each(top, "corridors", false, [&](const MapFields& f) { corridor(f); }, {"id", "stations"});
         if (top.has("delays")) read_delays(top.get("delays"), top.path_of("delays"));
         if (top.has("network")) check();
+        for (const ServiceSource& src : services_) {
+            out_.sources.services.push_back(yamlio::location(errors_.file(), src.fields.node().Mark(), src.fields.path()));
+            auto& calls = out_.sources.calls.emplace_back();
+            for (const MapFields& c : src.calls)
+                calls.push_back(yamlio::location(errors_.file(), c.node().Mark(), c.path()));
+        }
         return std::move(out_);
     }
 
@@ -318,7 +331,7 @@ private:
     // ---------------------------------------------------------------- timetable
 
     void read_timetable(const YAML::Node& node, const std::string& path) {
-        MapFields t(errors_, node, path, {"rounding", "services"});
+        MapFields t(errors_, node, path, {"rounding", "services", "links"});
         if (!t.ok()) return;
         if (auto v = yamlio::ranged(t, "rounding", Input::rounding, false)) out_.timetable.rounding = *v;
         each(t, "services", true, [&](const MapFields& f) { service(f); },
@@ -508,6 +521,51 @@ NetworkFile parse_network(const std::string& yaml_text, const std::string& file_
 
 NetworkFile read_network(const std::string& path, const std::string& variant) {
     return parse_network(read_scenario_text(path), path, variant);
+}
+
+Scenario parse_network_scenario(const std::string& yaml_text, const std::string& file_name,
+                                const std::string& variant) {
+    Scenario sc = network_scenario(parse_network(yaml_text, file_name, variant));
+    // Links name the runs, so they are read once the runs are made, against the network's paths.
+    ErrorList errors(file_name);
+    const YAML::Node root = yamlio::variant_document(yaml_text, variant, errors);
+    const YAML::Node tt = root["timetable"];
+    if (tt && tt.IsMap() && tt["links"]) {
+        const MapFields t(errors, tt, "timetable", {"rounding", "services", "links"});
+        const NetworkPaths paths(sc);
+        sc.sources.links.assign(sc.timetable.links.size(), std::string());   // the reversals': at their services
+        const net::Network& n = sc.network->network;
+        yamlio::read_links(errors, t, sc.timetable.services,
+                           [&](const std::string& id) -> std::optional<std::string> {
+                               if (n.find_station(id) != kNone) return std::nullopt;
+                               return "no station has the id \"" + id + "\"";
+                           },
+                           &paths, sc.timetable.links, sc.sources.links);
+    }
+    if (!errors.empty()) throw ScenarioError(errors.messages());
+    return sc;
+}
+
+Scenario network_scenario(NetworkFile file) {
+    Scenario sc;
+    sc.name = std::move(file.name);
+    sc.source_file = std::move(file.source_file);
+    sc.sources = std::move(file.sources);
+    sc.train_types = std::move(file.train_types);
+    sc.delays = std::move(file.delays);
+    sc.timetable.rounding = file.timetable.rounding;
+    {
+        const net::NetworkGraph graph(file.network);
+        net::NetworkRuns runs = net::network_runs(graph, file.timetable, sc.train_types);
+        sc.timetable.services = std::move(runs.services);
+        sc.timetable.links = std::move(runs.links);
+        ScenarioNetwork n;
+        n.corridors = net::corridors_of(file.timetable);
+        n.runs = std::move(runs.runs);
+        sc.network = std::move(n);
+    }
+    sc.network->network = std::move(file.network);
+    return sc;
 }
 
 }  // namespace knockon

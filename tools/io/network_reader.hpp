@@ -13,6 +13,7 @@
 #include "models/network/network.hpp"
 #include "models/network/timetable.hpp"
 #include "models/primary_delay_model.hpp"
+#include "models/scenario.hpp"
 #include "models/scenario_error.hpp"
 #include "models/train_type.hpp"
 
@@ -29,6 +30,8 @@ struct NetworkFile {
     std::vector<TrainType> train_types;
     net::NetworkTimetable timetable;
     PrimaryDelayModel delays;
+    // Where each service as written, each of its calls and each train type stand in the file.
+    SourceMap sources;
 };
 
 // Whether the text is a network file: a YAML map whose `knockon` is 2.  Anything else (a line
@@ -39,5 +42,15 @@ bool is_network_text(const std::string& yaml_text);
 // onto the base document as in a line scenario (empty or "base": the file as written).
 NetworkFile parse_network(const std::string& yaml_text, const std::string& file_name, const std::string& variant = "");
 NetworkFile read_network(const std::string& path, const std::string& variant = "");
+
+// The scenario a network file read without problems describes (what plan, simulate, compare and
+// the rest run): its services as runs in one heading (models/network/runs), the turnarounds at
+// reversals as links, the corridors as written or the default ones.
+Scenario network_scenario(NetworkFile file);
+
+// A network file read as a scenario: parse_network, network_scenario, then the timetable's links
+// between the runs (README "Links"), located in the file.  Throws ScenarioError holding every problem.
+Scenario parse_network_scenario(const std::string& yaml_text, const std::string& file_name,
+                                const std::string& variant = "");
 
 }  // namespace knockon

@@ -1,5 +1,7 @@
 #include "tools/io/scenario_reader.hpp"
 
+#include "tools/io/link_fields.hpp"
+
 #include <algorithm>
 #include <cctype>
 #include <array>
@@ -23,6 +25,7 @@
 #include "models/call_times.hpp"
 #include "models/input_ranges.hpp"
 #include "models/line_paths.hpp"
+#include "models/repeat_runs.hpp"
 #include "models/links.hpp"
 #include "models/path.hpp"
 #include "models/single_track.hpp"
@@ -51,8 +54,6 @@ using yamlio::MapFields;
 constexpr double kEps = 1e-6;
 // Main signals of one direction on a track closer than this stand at one place [m].
 constexpr double kSignalSpacingMin = 1.0;
-// A repeat pattern giving more runs than this is surely a typing mistake (e.g. every: 1 s).
-constexpr long kMaxRunsPerPattern = 5000;
 
 // "known: a, b, c" (at most a dozen names) for unknown-reference messages.
 std::string known_list(const std::vector<std::string>& ids) {
@@ -64,14 +65,6 @@ std::string known_list(const std::vector<std::string>& ids) {
     }
     if (ids.size() > 12) out += ", ...";
     return out;
-}
-
-// "0615" for 06:15:xx; hours go past 23 for after-midnight runs.
-std::string hhmm(double seconds) {
-    const long long s = std::llround(std::floor(seconds));
-    char buf[32];
-    std::snprintf(buf, sizeof buf, "%02lld%02lld", s / 3600, (s / 60) % 60);
-    return buf;
 }
 
 // A service as read, with what is needed to point back into the file.
@@ -100,10 +93,7 @@ public:
                 supported = parse_number(*v) == 1.0;
             } catch (const UnitError&) {
             }
-            if (*v == "2")
-                top.error("knockon", "a network file (knockon: 2) is only checked so far, by `knockon validate`; "
-                                     "the other commands read knockon: 1");
-            else if (!supported)
+            if (!supported)
                 top.error("knockon", "format version \"" + *v +
                                          "\" is not supported; this program reads knockon: 1");
         }
@@ -653,112 +643,13 @@ private:
     }
 
     void read_links(const MapFields& t) {
-        auto seq = t.sequence("links", false);
-        if (!seq) return;
-        std::map<std::string, const Service*> services;
-        for (const Service& svc : sc_.timetable.services) services[svc.id] = &svc;
         const bool paths_laid = errors_.empty();
-        std::map<std::pair<int, std::string>, std::string> used;   // (kind, side + service) -> first link's path
-        for (std::size_t i = 0; i < seq->size(); ++i) {
-            const std::string path = item(t.path_of("links"), i);
-            MapFields f(errors_, std::as_const(*seq)[i], path,
-                        {"from", "forms", "feeds", "crew_to", "at", "turnaround", "transfer", "crew_change",
-                         "max_wait"});
-            if (!f.ok()) continue;
-            ServiceLink link;
-            std::string later_key;
-            int kinds = 0;
-            for (const auto& [key, kind] : {std::pair<const char*, LinkKind>{"forms", LinkKind::turnaround},
-                                            {"feeds", LinkKind::connection},
-                                            {"crew_to", LinkKind::crew}})
-                if (f.has(key)) {
-                    ++kinds;
-                    link.kind = kind;
-                    later_key = key;
-                }
-            if (kinds != 1) {
-                f.error("", kinds == 0 ? "a link needs one of forms (turnaround), feeds (connection) or crew_to (crew link)"
-                                       : "a link is one of forms, feeds or crew_to, not several; write one link each");
-                continue;
-            }
-            const char* time_key = link.kind == LinkKind::turnaround   ? "turnaround"
-                                   : link.kind == LinkKind::connection ? "transfer"
-                                                                       : "crew_change";
-            bool ok = true;
-            // Keys of the other kinds are mistakes, not options.
-            for (const char* k : {"turnaround", "transfer", "crew_change", "max_wait", "at"}) {
-                const bool belongs = std::string_view(k) == time_key ||
-                                     (link.kind == LinkKind::connection && (std::string_view(k) == "max_wait" ||
-                                                                            std::string_view(k) == "at"));
-                if (!belongs && f.has(k)) {
-                    f.error(k, std::string("a ") + (link.kind == LinkKind::crew ? "crew link" : to_string(link.kind)) +
-                                   " (" + later_key + ") has no " + k + "; it takes " + time_key +
-                                   (link.kind == LinkKind::connection ? ", at and max_wait" : ""));
-                    ok = false;
-                }
-            }
-            auto from = f.text("from", true);
-            auto to = f.text(later_key, true);
-            auto min_time = ranged(f, time_key, Input::link_time, true);
-            if (!from || !to || !min_time) ok = false;
-            if (link.kind == LinkKind::connection) {
-                auto at = f.text("at", true);
-                auto wait = ranged(f, "max_wait", Input::link_wait, true);
-                if (!at || !wait) {
-                    ok = false;
-                } else {
-                    link.station = *at;
-                    link.max_wait = *wait;
-                    if (station_index_.find(*at) == station_index_.end()) {
-                        f.error("at", "unknown station \"" + *at + "\"; " + known_list(station_ids_));
-                        ok = false;
-                    }
-                }
-            }
-            const Service* a = nullptr;
-            const Service* b = nullptr;
-            for (const auto& [key, id, svc] : {std::tuple<const char*, const std::optional<std::string>*, const Service**>{
-                                                   "from", &from, &a},
-                                               {later_key.c_str(), &to, &b}})
-                if (*id) {
-                    auto it = services.find(**id);
-                    if (it == services.end()) {
-                        f.error(key, "unknown service \"" + **id +
-                                         "\" (runs of a repeat pattern are named by their first time, e.g. S1-0630)");
-                        ok = false;
-                    } else {
-                        *svc = it->second;
-                    }
-                }
-            if (!ok || !a || !b) continue;
-            link.from = *from;
-            link.to = *to;
-            link.min_time = *min_time;
-            if (const LinePaths* paths = paths_laid ? line_paths() : nullptr) {
-                if (auto problem = link_problem(*paths, link, *a, *b)) {
-                    f.error(link.kind == LinkKind::connection ? "at" : later_key, *problem);
-                    continue;
-                }
-            }
-            // A set forms one later service and is formed by one; a crew works one after another.
-            if (link.kind != LinkKind::connection) {
-                const int k = static_cast<int>(link.kind);
-                for (const auto& [side, key, id] : {std::tuple<const char*, const char*, std::string>{"from ", "from", link.from},
-                                                   {"to ", later_key.c_str(), link.to}}) {
-                    auto [pos, fresh] = used.emplace(std::make_pair(k, side + id), path);
-                    if (!fresh) {
-                        f.error(key, std::string("service ") + id + " is already " +
-                                         (std::string_view(side) == "from " ? "the earlier" : "the later") + " service of a " +
-                                         (link.kind == LinkKind::crew ? "crew link" : "turnaround") + " (" + pos->second +
-                                         "); a set or crew goes on to one service at a time");
-                        ok = false;
-                    }
-                }
-                if (!ok) continue;
-            }
-            sc_.timetable.links.push_back(link);
-            sc_.sources.links.push_back(yamlio::location(errors_.file(), f.node().Mark(), f.path()));
-        }
+        yamlio::read_links(errors_, t, sc_.timetable.services,
+                           [&](const std::string& id) -> std::optional<std::string> {
+                               if (station_index_.count(id)) return std::nullopt;
+                               return "unknown station \"" + id + "\"; " + known_list(station_ids_);
+                           },
+                           paths_laid ? line_paths() : nullptr, sc_.timetable.links, sc_.sources.links);
     }
 
     std::optional<ServiceSource> read_service(const YAML::Node& node, const std::string& path) {
@@ -987,7 +878,7 @@ private:
                                 " is before the first call's time " + format_time_of_day(t0));
                 continue;
             }
-            const double runs_d = std::floor((*src.until - t0) / *src.every + 1e-9) + 1.0;
+            const double runs_d = repeat_count(t0, *src.every, *src.until);
             if (runs_d > kMaxRunsPerPattern) {
                 const YAML::Node repeat = src.fields.get("repeat");
                 errors_.add(repeat["every"].Mark(), src.fields.path_of("repeat.every"),
@@ -1004,7 +895,7 @@ private:
                     if (c.arrival) *c.arrival += shift;
                     if (c.departure) *c.departure += shift;
                 }
-                copy.id = src.service.id + "-" + hhmm(t0 + shift);
+                copy.id = run_id(src.service.id, t0 + shift);
                 copy.draw.occurrence = static_cast<std::uint32_t>(k);
                 out.push_back(std::move(copy));
                 origin.push_back(i);
@@ -1314,7 +1205,7 @@ YAML::Node variant_document(const std::string& yaml_text, const std::string& var
 
 }  // namespace yamlio
 
-Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
+Scenario parse_line_scenario(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
     ErrorList errors(file_name);
     YAML::Node root = yamlio::variant_document(yaml_text, variant, errors);
     const bool base = yamlio::is_base_variant(variant);
@@ -1333,9 +1224,6 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file_na
 
 std::string read_scenario_text(const std::string& path) { return read_text_file(path); }
 
-Scenario read_scenario(const std::string& path, const std::string& variant) {
-    return parse_scenario(read_text_file(path), path, variant);
-}
 
 std::vector<VariantInfo> read_variants(const std::string& path) {
     ErrorList errors(path);

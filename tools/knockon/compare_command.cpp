@@ -181,7 +181,7 @@ int compare(const std::vector<std::string>& args) {
         o.first = block.first;
         o.replications = block.size();
         // The same seed for every variant: replication k draws the same primary delays everywhere.
-        const DelayDrawer drawer(r.scenario.delays, r.scenario.infrastructure, r.plan.trains);
+        const DelayDrawer drawer(r.scenario.delays, r.plan.trains);
         o.draw = [&drawer, seed](std::uint32_t k) { return drawer.draw(seed, k); };
         const auto t0 = std::chrono::steady_clock::now();
         o.progress = [&, v](std::uint32_t done, std::uint32_t planned) {
@@ -191,7 +191,7 @@ int compare(const std::vector<std::string>& args) {
                          planned, el > 0 ? done / el : 0.0);
             if (done == planned) std::fprintf(stderr, "\n");
         };
-        r.model = std::make_unique<SimModel>(r.scenario.infrastructure, r.plan.trains);
+        r.model = std::make_unique<SimModel>(r.scenario, r.plan.trains);
         if (shard_out) {
             shard_out->begin_variant();
             o.on_day = [&shard_out](const ReplicationFigures& day) { shard_out->add_day(day); };

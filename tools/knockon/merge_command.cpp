@@ -166,7 +166,7 @@ int merge(const std::vector<std::string>& args) {
     RunOptions run;
     run.step = head.step;
     const std::vector<TrainPlan> plan = plan_trains(scenario, run);
-    const SimModel model(scenario.infrastructure, plan);
+    const SimModel model(scenario, plan);
 
     StudyResult study;
     study.figures = StudyFigures(head.run.thresholds, head.run.planned);

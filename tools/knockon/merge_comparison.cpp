@@ -25,7 +25,7 @@ int merge_comparison(const std::vector<ShardFile>& shards, const po::variables_m
         r->scenario = parse_scenario(head.run.scenario_text, head.scenario_file, r->name);
         r->plan = make_plan(r->scenario, run);
         r->figures = plan_figures(r->plan);
-        r->model = std::make_unique<SimModel>(r->scenario.infrastructure, r->plan.trains);
+        r->model = std::make_unique<SimModel>(r->scenario, r->plan.trains);
         runs.push_back(std::move(r));
     }
     Hdf5RunInfo info;   // as compare writes it, but for the command line (provenance)

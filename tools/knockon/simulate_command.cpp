@@ -235,7 +235,7 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
     const std::uint64_t seed = count_option(vm, "seed", 0, UINT64_MAX);
     if (scenario.delays.empty())
         std::fprintf(stderr, "knockon simulate: note: the scenario has no `delays:` section, so every day is the same\n");
-    const DelayDrawer drawer(scenario.delays, scenario.infrastructure, plan);
+    const DelayDrawer drawer(scenario.delays, plan);
     opt.draw = [&](std::uint32_t k) { return drawer.draw(seed, k); };
 
     // Progress on stderr only when it is a terminal, a few times a second at most.
@@ -288,7 +288,7 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
             };
         }
     }
-    SimModel model(scenario.infrastructure, plan);
+    SimModel model(scenario, plan);
     const auto fingerprint = [&] { return study_fingerprint(scenario_hash(scenario_text, variant_name(vm)), command_line); };
     std::optional<StudyResult> gathered =
         spread ? run_study_on_ranks(model, opt, fingerprint(), "simulate") : run_study(model, opt);
@@ -371,7 +371,7 @@ int simulate(const std::vector<std::string>& args) {
     if (vm.count("traces")) throw UsageError("--traces needs --replications: a single day's --out has all its records");
     InjectedDelays delays = parse_delays(
         vm.count("delay") ? vm["delay"].as<std::vector<std::string>>() : std::vector<std::string>{}, plan);
-    SimModel model(scenario.infrastructure, plan);
+    SimModel model(scenario, plan);
     SimResult result = simulate_day(model, delays, so);
     DaySummary summary = summarize_day(result, thresholds);
     const DayAttribution attribution = attribute_knock_on(result, delays);

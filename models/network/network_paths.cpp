@@ -1,0 +1,57 @@
+#include "models/network/network_paths.hpp"
+
+#include <algorithm>
+
+#include "models/network/paths.hpp"
+#include "models/network/single_track.hpp"
+#include "models/network/timetable.hpp"
+
+namespace knockon {
+namespace {
+
+const ScenarioNetwork& network_of(const Scenario& scenario) {
+    if (!scenario.network) throw PathError("the scenario has no network");
+    return *scenario.network;
+}
+
+}  // namespace
+
+NetworkPaths::NetworkPaths(const Scenario& scenario) try
+    : net_(network_of(scenario)), graph_(net_.network), sections_(graph_) {
+    const auto& services = scenario.timetable.services;
+    for (std::size_t i = 0; i < services.size() && i < net_.runs.size(); ++i) run_of_[services[i].id] = i;
+} catch (const net::NetworkError& e) {
+    throw PathError(e.what());
+}
+
+TrainPath NetworkPaths::lay(const Service& service, double rear, double ahead) const {
+    auto it = run_of_.find(service.id);
+    if (it == run_of_.end()) throw PathError("service " + service.id + " has no run on the network");
+    try {
+        const net::PathRequest r = net::path_request(net_.network, net_.runs[it->second], rear);
+        const net::NetworkPath found = net::find_path(graph_, r);
+        return net::train_path(graph_, sections_, {}, r, found, {rear, ahead});
+    } catch (const net::NetworkError& e) {
+        throw PathError(e.what());
+    }
+}
+
+double NetworkPaths::longest_overlap() const {
+    double o = 0.0;
+    for (const net::Signal& s : net_.network.signals) o = std::max(o, s.overlap);
+    return o;
+}
+
+std::vector<LineSection> NetworkPaths::line_sections() const {
+    std::vector<LineSection> out;
+    for (const net::Corridor& c : net_.corridors) {
+        const auto& st = c.stations;
+        for (std::size_t i = 0; i + 1 < st.size(); ++i) out.push_back({st[i], st[i + 1], Direction::up, c.name});
+        for (std::size_t i = st.size(); i-- > 1;) out.push_back({st[i], st[i - 1], Direction::down, c.name});
+    }
+    return out;
+}
+
+SingleTrackLayout NetworkPaths::single_track() const { return net::single_track_layout(graph_, sections_); }
+
+}  // namespace knockon
