@@ -575,12 +575,21 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
         // departure there, as the plan times it from the planned departure.
         const long k = r.stop_before_warning;
         const PlannedCall& c = run_of(t).calls[k];
+        // Where the warning point lies on the leg leaving that stop, it is timed as the engine
+        // will time the head there (the departure's tick plus the place's time on the leg), so
+        // the driver learns the route on the very tick the head passes the signal in rear, not
+        // a tick after it (then unread: the train would brake for a route that was set in time).
+        const Place& w = train(t).warnings[i];
+        const bool on_leg_out = w.leg >= 0 && std::fabs(train(t).leg_ends[static_cast<std::size_t>(w.leg)].s0 - c.s) < kEps;
+        auto after_departure = [&](double departure) {
+            return on_leg_out ? SimTime::from_seconds(departure).to_seconds() + w.t : departure + r.warning_after_departure;
+        };
         if (s.phase == Phase::standing && s.stop_call == k && !std::isnan(s.ready_time))
-            return ask_for(s.ready_time + r.warning_after_departure);
+            return ask_for(after_departure(s.ready_time));
         if (s.phase == Phase::moving && !s.free_end && std::fabs(ends(t).s_end - c.s) < kEps &&
             s.next_call == static_cast<std::size_t>(k)) {
             const double arrival = s.t0 + ends(t).duration;
-            return ask_for(std::max(c.scheduled_departure, arrival + dwell_at(t, k)) + r.warning_after_departure);
+            return ask_for(after_departure(std::max(c.scheduled_departure, arrival + dwell_at(t, k))));
         }
     }
     if (s.phase == Phase::waiting) {
