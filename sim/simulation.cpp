@@ -1260,6 +1260,19 @@ void Day::vanish(std::uint32_t t) {
     TrainState& s = st_[t];
     sample_until(t, now_);
     if (s.stop_call >= 0) record_call(t, static_cast<std::size_t>(s.stop_call), kNoTime, now_);
+    // A set that turns back stays on its platform: the sections it stands on pass straight to
+    // its return part, which holds them until it leaves (models/blocking_time, platform_handover).
+    const SimModel::Train& tr = train(t);
+    for (const PlatformHandover& h : tr.hands_over) {
+        if (!s.holds[h.incoming]) continue;
+        s.holds[h.incoming] = 0;
+        SectionRecord& r = out_.sections[s.section_record[h.incoming]];
+        if (std::isnan(r.tail_clears)) r.tail_clears = now_;
+        r.released = now_;
+        const std::uint32_t g = tr.section_index[h.incoming];
+        interlocking_.release(t, g);
+        take_sections(tr.turns_into, {g}, {static_cast<std::uint32_t>(h.outgoing)});
+    }
     for (std::size_t k = 0; k < s.holds.size(); ++k) {
         if (!s.holds[k]) continue;
         long r = s.section_record[k];
