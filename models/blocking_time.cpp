@@ -221,4 +221,52 @@ Stairway blocking_stairway(const ServiceRun& run, const InterlockingTimes& times
     return st;
 }
 
+bool stands_at_start(const ServiceRun& run, const PathSection& sec) {
+    return !run.path.starts_at_edge && sec.s_from < net::kSamePlace && sec.s_to > -run.type->length + net::kSamePlace;
+}
+
+bool stands_at_end(const ServiceRun& run, const PathSection& sec) {
+    const double end = run.path.length;
+    return !run.path.ends_at_edge && sec.s_from < end - net::kSamePlace && sec.s_to > end - run.type->length + net::kSamePlace;
+}
+
+bool turns_back(const LinkPlan& link, const ServiceRun& later) {
+    return link.kind == LinkKind::turnaround && link.to_call == 0 && later.service->continues;
+}
+
+std::vector<PlatformHandover> platform_handover(const ServiceRun& incoming, const ServiceRun& outgoing) {
+    std::vector<PlatformHandover> out;
+    const auto& in = incoming.path.sections;
+    const auto& next = outgoing.path.sections;
+    for (std::size_t j = 0; j < next.size(); ++j) {
+        if (!stands_at_start(outgoing, next[j]) || next[j].index == net::kNone) continue;
+        for (std::size_t k = 0; k < in.size(); ++k)
+            if (in[k].index == next[j].index && stands_at_end(incoming, in[k])) {
+                out.push_back({k, j});
+                break;
+            }
+    }
+    return out;
+}
+
+void hand_over_platform(const ServiceRun& incoming_run, Stairway& incoming, const ServiceRun& outgoing_run,
+                        Stairway& outgoing) {
+    const double handover = incoming_run.vanish_time;
+    auto blocking_of = [](Stairway& st, std::size_t index) -> SectionBlocking* {
+        for (SectionBlocking& b : st.sections)
+            if (b.index == index) return &b;
+        return nullptr;
+    };
+    for (const PlatformHandover& h : platform_handover(incoming_run, outgoing_run)) {
+        SectionBlocking* from = blocking_of(incoming, incoming_run.path.sections[h.incoming].index);
+        SectionBlocking* to = blocking_of(outgoing, outgoing_run.path.sections[h.outgoing].index);
+        if (!from || !to) continue;
+        // The set is there from the handover on, as the return part.
+        to->start = std::min(to->start, handover);
+        to->occupied_from = std::min(to->occupied_from, handover);
+        from->end = to->start;
+        from->occupied_to = std::min(from->occupied_to, to->start);
+    }
+}
+
 }  // namespace knockon

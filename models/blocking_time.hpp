@@ -17,6 +17,7 @@
 #include <vector>
 
 #include "models/infrastructure.hpp"
+#include "models/links.hpp"
 #include "models/service_run.hpp"
 
 namespace knockon {
@@ -49,6 +50,32 @@ struct Stairway {
 };
 
 Stairway blocking_stairway(const ServiceRun& run, const InterlockingTimes& times);
+
+// Where a train stands when it starts at a stop (not entering over the line end): the path
+// section lies under its body, from its head at s = 0 back one train length.
+bool stands_at_start(const ServiceRun& run, const PathSection& sec);
+// Where a train stands when it ends at a stop (not running on over the line end): the path
+// section lies under its body, from its head at the path's end back one train length.
+bool stands_at_end(const ServiceRun& run, const PathSection& sec);
+
+// A set that turns back never leaves its platform.  The part of a service after its reversal
+// (Service::continues, the later train of a turnaround link) starts where the part before it
+// ended; the sections both stand on pass from the incoming part to the return part when the
+// incoming part ends (ServiceRun::vanish_time: its arrival plus the minimum dwell), with no
+// clearing and no release between, so no other train can be let onto the platform.  The one
+// rule for the plan (hand_over_platform) and the engine (SimModel::Train::hands_over).
+// A link is such a turnback when it is a turnaround into the first call of a part that continues.
+bool turns_back(const LinkPlan& link, const ServiceRun& later);
+struct PlatformHandover {
+    std::size_t incoming = 0, outgoing = 0;   // the section, as an index into each part's path sections
+};
+std::vector<PlatformHandover> platform_handover(const ServiceRun& incoming, const ServiceRun& outgoing);
+// The two parts' stairways under that rule: the incoming part's blocking of each section handed
+// over ends when the return part's begins, which begins no later than the handover.  So the
+// platform is blocked from the incoming part's arrival (its route in) to the return part's
+// departure and clearing plus release, without a gap and without the two overlapping.
+void hand_over_platform(const ServiceRun& incoming_run, Stairway& incoming, const ServiceRun& outgoing_run,
+                        Stairway& outgoing);
 
 // Where the driver can first read a lineside signal's aspect: its sighting distance in rear (of
 // its distant signal, under two aspects); -infinity under cab signalling (always known).

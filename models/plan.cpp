@@ -190,6 +190,14 @@ void link_trains(const Scenario& scenario, const ServicePaths& paths, std::vecto
     if (!problems.empty()) throw ScenarioError(problems);
 }
 
+// A set that turns back keeps its platform (models/blocking_time, hand_over_platform).
+void keep_turnback_platforms(std::vector<TrainPlan>& trains) {
+    for (TrainPlan& later : trains)
+        for (const LinkPlan& l : later.incoming)
+            if (turns_back(l, later.run))
+                hand_over_platform(trains[l.from].run, trains[l.from].stairway, later.run, later.stairway);
+}
+
 void add_links(PlanResult& plan) {
     for (const TrainPlan& tp : plan.trains)
         for (const LinkPlan& l : tp.incoming) plan.links.push_back(l);
@@ -316,6 +324,7 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& o
                                   " of its pattern)";
     if (!problems.empty()) throw ScenarioError(problems);
     link_trains(scenario, *paths, trains);
+    keep_turnback_platforms(trains);
     return trains;
 }
 

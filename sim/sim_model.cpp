@@ -123,7 +123,7 @@ SimModel::SimModel(const ServicePaths& paths, const std::vector<TrainPlan>& plan
         const double first_signal = tp.stairway.routes.empty() ? path.length : tp.stairway.routes.front().s_entry;
         for (std::size_t k = 0; k < path.sections.size(); ++k)
             if (path.starts_at_edge ? path.sections[k].s_from < first_signal - kEps
-                                    : path.sections[k].s_from < kEps && path.sections[k].s_to > -length + kEps) {
+                                    : stands_at_start(tp.run, path.sections[k])) {
                 tr.origin_sections.push_back(tr.section_index[k]);
                 tr.origin_path_sections.push_back(static_cast<std::uint32_t>(k));
             }
@@ -233,6 +233,11 @@ SimModel::SimModel(const ServicePaths& paths, const std::vector<TrainPlan>& plan
     for (std::uint32_t l = 0; l < links_.size(); ++l) {
         trains_[links_[l].to].links_in.push_back(l);
         trains_[links_[l].from].links_out.push_back(l);
+        if (turns_back(links_[l], plan[links_[l].to].run)) {
+            Train& from = trains_[links_[l].from];
+            from.turns_into = static_cast<std::uint32_t>(links_[l].to);
+            from.hands_over = platform_handover(plan[links_[l].from].run, plan[links_[l].to].run);
+        }
     }
     starts.resize(section_names_.size());
     planned_order_.resize(section_names_.size());

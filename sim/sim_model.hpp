@@ -11,6 +11,7 @@
 #include "models/service_paths.hpp"
 #include "models/single_track.hpp"
 #include "models/sorted_index.hpp"
+#include "sim/interlocking.hpp"
 #include "sim/record_places.hpp"
 
 namespace knockon {
@@ -117,6 +118,10 @@ public:
         // Links (indices into links()) that hold this train's departures, and those it is the
         // earlier train of (its arrival frees them).
         std::vector<std::uint32_t> links_in, links_out;
+        // A set that turns back (models/blocking_time, platform_handover): the return part it
+        // becomes, or kNoTrain, and the sections it hands over as it ends (path sections of each).
+        std::uint32_t turns_into = kNoTrain;
+        std::vector<PlatformHandover> hands_over;
     };
 
     const InterlockingTimes& interlocking() const { return interlocking_; }

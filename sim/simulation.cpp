@@ -619,13 +619,21 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
         // departure there, as the plan times it from the planned departure.
         const long k = r.stop_before_warning;
         const PlannedCall& c = run_of(t).calls[k];
+        // Where the warning point lies on the leg leaving that stop, it is timed as the engine
+        // will time the head there (the departure's tick plus the place's time on the leg), so
+        // the driver learns the route on the very tick the head passes the signal in rear, not
+        // a tick after it (then unread: the train would brake for a route that was set in time).
+        const Place& w = train(t).warnings[i];
+        const bool on_leg_out = w.leg >= 0 && std::fabs(train(t).leg_ends[static_cast<std::size_t>(w.leg)].s0 - c.s) < kEps;
+        auto after_departure = [&](double departure) {
+            return on_leg_out ? SimTime::from_seconds(departure).to_seconds() + w.t : departure + r.warning_after_departure;
+        };
         if (s.phase == Phase::standing && s.stop_call == k && !std::isnan(s.ready_time))
-            return ask_for(leaves(k, s.ready_time) + r.warning_after_departure);
+            return ask_for(after_departure(leaves(k, s.ready_time)));
         if (s.phase == Phase::moving && !s.free_end && std::fabs(ends(t).s_end - c.s) < kEps &&
             s.next_call == static_cast<std::size_t>(k)) {
             const double arrival = s.t0 + ends(t).duration;
-            return ask_for(leaves(k, std::max(c.scheduled_departure, arrival + dwell_at(t, k))) +
-                           r.warning_after_departure);
+            return ask_for(after_departure(leaves(k, std::max(c.scheduled_departure, arrival + dwell_at(t, k)))));
         }
     }
     if (s.phase == Phase::waiting) {
@@ -1313,6 +1321,19 @@ void Day::vanish(std::uint32_t t) {
     TrainState& s = st_[t];
     sample_until(t, now_);
     if (s.stop_call >= 0) record_call(t, static_cast<std::size_t>(s.stop_call), kNoTime, now_);
+    // A set that turns back stays on its platform: the sections it stands on pass straight to
+    // its return part, which holds them until it leaves (models/blocking_time, platform_handover).
+    const SimModel::Train& tr = train(t);
+    for (const PlatformHandover& h : tr.hands_over) {
+        if (!s.holds[h.incoming]) continue;
+        s.holds[h.incoming] = 0;
+        SectionRecord& r = out_.sections[s.section_record[h.incoming]];
+        if (std::isnan(r.tail_clears)) r.tail_clears = now_;
+        r.released = now_;
+        const std::uint32_t g = tr.section_index[h.incoming];
+        interlocking_.release(t, g);
+        take_sections(tr.turns_into, {g}, {static_cast<std::uint32_t>(h.outgoing)});
+    }
     for (std::size_t k = 0; k < s.holds.size(); ++k) {
         if (!s.holds[k]) continue;
         long r = s.section_record[k];

@@ -2,7 +2,9 @@
 // plan's blocking times and the engine read one rule for when each route is asked for, when a
 // standing train may leave and where the driver must know an aspect, so an undisturbed train is
 // never held, books no knock-on and passes every timing point at its planned time.  Checked on
-// random layouts (tests/layout_generator.hpp); a failure prints the seed and the scenario.
+// random lines (tests/layout_generator.hpp) and on random small networks with a flat junction
+// and a terminus where trains turn back (tests/network_layout_generator.hpp); a failure prints
+// the seed and the scenario.
 #include <catch2/catch.hpp>
 
 #include <cmath>
@@ -13,8 +15,10 @@
 
 #include "layout_generator.hpp"
 #include "models/plan.hpp"
+#include "network_layout_generator.hpp"
 #include "sim/simulation.hpp"
 #include "sim_test_support.hpp"
+#include "tools/io/network_reader.hpp"
 #include "tools/io/scenario_reader.hpp"
 
 namespace knockon {
@@ -46,6 +50,38 @@ std::string undisturbed_day_mismatch(const Scenario& scenario, const PlanResult&
         off(r.arrival, c.planned_arrival, "arrives at");
         if (!(next[r.train] == calls.size() && c.stops)) off(r.departure, c.planned_departure, "leaves");
     }
+    return why.str();
+}
+
+// A set that turns back hands its platform to its return part (models/blocking_time): in the
+// day's records the incoming part's release of each section it hands over is the return part's
+// lock of it, and no section is ever held by two trains at once.
+std::string turnback_mismatch(const Scenario& scenario, const PlanResult& plan) {
+    const SimModel model(scenario, plan.trains);
+    const SimResult day = simulate_day(model, simtest::no_delays(plan.trains), SimOptions{});
+    std::ostringstream why;
+    std::size_t handed = 0;
+    for (std::size_t t = 0; t < model.trains().size(); ++t) {
+        const SimModel::Train& tr = model.trains()[t];
+        for (const PlatformHandover& h : tr.hands_over) {
+            const std::uint32_t g = tr.section_index[h.incoming];
+            double released = NAN, locked = NAN;
+            for (const SectionRecord& r : day.sections) {
+                if (r.section == g && r.train == t) released = r.released;
+                if (r.section == g && r.train == tr.turns_into) locked = r.locked;
+            }
+            ++handed;
+            if (!(released == locked))
+                why << day.train_ids[t] << " releases " << day.section_names[g] << " at " << released << ", "
+                    << day.train_ids[tr.turns_into] << " locks it at " << locked << "\n";
+        }
+    }
+    if (handed == 0) why << "no platform handed over\n";
+    for (const SectionRecord& x : day.sections)
+        for (const SectionRecord& y : day.sections)
+            if (&x < &y && x.section == y.section && x.released > y.locked + 1e-9 && y.released > x.locked + 1e-9)
+                why << day.train_ids[x.train] << " and " << day.train_ids[y.train] << " both hold "
+                    << day.section_names[x.section] << "\n";
     return why.str();
 }
 
@@ -87,6 +123,44 @@ TEST_CASE("An undisturbed day equals the plan on random valid layouts", "[proper
     }
     INFO(checked << " layouts checked, " << set_aside << " set aside");
     CHECK(checked >= (cases == 1 ? 0 : 200));
+}
+
+TEST_CASE("An undisturbed day equals the plan on random networks with a junction and a turnback", "[property][simulation][network]") {
+    // KNOCKON_PROPERTY_SEED=<n> reruns one case; KNOCKON_PROPERTY_CASES sets how many.
+    std::uint64_t first = 1, cases = 60;
+    if (const char* s = std::getenv("KNOCKON_PROPERTY_SEED")) first = std::strtoull(s, nullptr, 10), cases = 1;
+    if (const char* n = std::getenv("KNOCKON_PROPERTY_CASES")) cases = std::strtoull(n, nullptr, 10);
+    std::size_t checked = 0, set_aside = 0;
+    for (std::uint64_t seed = first; seed < first + cases; ++seed) {
+        const layoutgen::Layout layout = netgen::random_network(seed);
+        INFO("seed " << seed << " (rerun: KNOCKON_PROPERTY_SEED=" << seed << "): " << layout.summary << "\n"
+                     << layout.yaml);
+        Scenario scenario;
+        REQUIRE_NOTHROW(scenario = network_scenario(parse_network(layout.yaml, "network-" + std::to_string(seed) + ".yaml")));
+        PlanResult plan;
+        try {
+            plan = make_plan(scenario);
+        } catch (const std::exception& e) {
+            FAIL("plan failed: " << e.what());
+        }
+        if (!plan.spacing_warnings.empty() || !plan.conflicts.empty()) {
+            if (std::getenv("KNOCKON_PROPERTY_BRIEF"))
+                std::fprintf(stderr, "seed %llu set aside: %zu spacing warnings, %zu conflicts\n",
+                             static_cast<unsigned long long>(seed), plan.spacing_warnings.size(), plan.conflicts.size());
+            ++set_aside;
+            continue;
+        }
+        ++checked;
+        const std::string mismatch = undisturbed_day_mismatch(scenario, plan) + turnback_mismatch(scenario, plan);
+        if (!mismatch.empty() && std::getenv("KNOCKON_PROPERTY_BRIEF"))
+            std::fprintf(stderr, "seed %llu | %s | %s\n", static_cast<unsigned long long>(seed), layout.summary.c_str(),
+                         mismatch.substr(0, mismatch.find('\n')).c_str());
+        if (const char* dir = std::getenv("KNOCKON_PROPERTY_DUMP"); dir && !mismatch.empty())
+            std::ofstream(std::string(dir) + "/network-" + std::to_string(seed) + ".yaml") << layout.yaml;
+        CHECK(mismatch == "");
+    }
+    INFO(checked << " networks checked, " << set_aside << " set aside");
+    CHECK(checked >= (cases == 1 ? 0 : cases / 2));
 }
 
 }  // namespace
