@@ -67,18 +67,20 @@ Crossing make_crossing(const SingleTrackLayout& layout, const std::vector<TrainP
 
 }  // namespace
 
+std::optional<Direction> stretch_direction(const SingleTrackLayout& layout, std::size_t stretch, const TrainPath& path) {
+    for (const StretchPass& p : stretch_passes(layout, path))
+        if (p.stretch == stretch) return p.direction;
+    return std::nullopt;
+}
+
 std::vector<StretchRun> stretch_runs(const SingleTrackLayout& layout, std::size_t stretch,
                                      const std::vector<TrainPlan>& trains) {
     const SingleTrackStretch& st = layout.stretches[stretch];
     std::vector<StretchRun> runs;
     for (std::size_t i = 0; i < trains.size(); ++i) {
         bool any = false;
-        StretchRun r{i, trains[i].run.path.direction, 0.0, 0.0};
-        for (const StretchPass& p : stretch_passes(layout, trains[i].run.path))
-            if (p.stretch == stretch) {
-                r.direction = p.direction;
-                break;
-            }
+        StretchRun r{i, stretch_direction(layout, stretch, trains[i].run.path).value_or(trains[i].run.path.direction),
+                     0.0, 0.0};
         for (const SectionBlocking& b : trains[i].stairway.sections) {
             if (!st.has_section(b.section)) continue;
             r.start = any ? std::min(r.start, b.start) : b.start;

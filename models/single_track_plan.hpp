@@ -4,6 +4,7 @@
 // their buffers, the capacity consumption of both directions together, and trains too long for
 // the crossing place they stand at.
 #include <cstddef>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -20,6 +21,10 @@ struct StretchRun {
     Direction direction = Direction::up;
     double start = 0.0, end = 0.0;   // [s]
 };
+
+// The way a path runs over stretch `stretch` of the layout (its first StretchPass there), or
+// nothing where it does not run over it.
+std::optional<Direction> stretch_direction(const SingleTrackLayout& layout, std::size_t stretch, const TrainPath& path);
 
 // All trains' runs over stretch `stretch` of the layout, by blocking start (then train index); a
 // train's direction there is its StretchPass's (models/single_track).
