@@ -22,6 +22,20 @@ struct PathPiece {
     double x_from = 0.0, x_to = 0.0;   // position shown (chainage, kilometre posts) at s_from and s_to [m]
 };
 
+// A run over part of one network segment, as the path is laid over it: the network's own view of
+// the path (a piece may join several), from which places on the network's layout (a single-track
+// stretch, a crossing track) are found along the path.
+struct PathRun {
+    std::size_t segment = net::kNone;
+    double from = 0.0, to = 0.0;       // offsets on the segment, in running order [m]
+    net::Heading heading = net::Heading::forward;
+    double s_from = 0.0, s_to = 0.0;   // along the path [m]
+    // The offset on the segment where the head stands at s (within [s_from, s_to]).
+    double offset_at(double s) const {
+        return heading == net::Heading::forward ? from + (s - s_from) : from - (s - s_from);
+    }
+};
+
 // A train-detection section as this path crosses it.  `id` is the same for every path that uses
 // the section, so two paths conflict exactly where they share ids.
 struct PathSection {
@@ -76,6 +90,7 @@ struct TrainPath {
     // as far as the track goes.
     double s_min = 0.0, s_max = 0.0;
     std::vector<PathPiece> pieces;
+    std::vector<PathRun> runs;             // the same ground as the pieces, segment by segment
     std::vector<PathSection> sections;
     std::vector<PathSignal> signals;       // main signals facing the train, in order
     std::vector<TimingPoint> timing_points;

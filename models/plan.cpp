@@ -139,7 +139,14 @@ void add_conflicts(PlanResult& plan) {
                 c.overlap = overlap;
                 c.from = uses[j].start;
                 c.opposing = plan.trains[c.first].run.path.direction != plan.trains[c.second].run.path.direction;
-                if (const SingleTrackStretch* st = plan.single_track.stretch_of_section(section)) c.stretch = st->name;
+                if (const SingleTrackStretch* st = plan.single_track.stretch_of_section(section)) {
+                    c.stretch = st->name;
+                    // On a stretch: the ways they run there (on a network not the headings they start in).
+                    const auto k = static_cast<std::size_t>(st - plan.single_track.stretches.data());
+                    const auto a = stretch_direction(plan.single_track, k, plan.trains[c.first].run.path);
+                    const auto b = stretch_direction(plan.single_track, k, plan.trains[c.second].run.path);
+                    if (a && b) c.opposing = *a != *b;
+                }
                 plan.conflicts.push_back(c);
             }
     }

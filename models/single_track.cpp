@@ -169,6 +169,46 @@ SingleTrackLayout single_track_layout(const Infrastructure& infra) {
     return out;
 }
 
+std::optional<AxisPosition> position_on(const std::vector<AxisSegment>& axis, const TrainPath& path, double s) {
+    if (axis.empty()) return AxisPosition{path.chainage_at(s), path.direction};
+    for (const PathRun& r : path.runs) {
+        if (s < r.s_from - kEps || s > r.s_to + kEps) continue;
+        for (const AxisSegment& a : axis) {
+            if (a.segment != r.segment) continue;
+            const double offset = r.offset_at(std::clamp(s, r.s_from, r.s_to));
+            const bool up = r.heading == a.up;
+            return AxisPosition{a.start + (a.up == net::Heading::forward ? offset : a.length - offset),
+                                up ? Direction::up : Direction::down};
+        }
+    }
+    return std::nullopt;
+}
+
+std::vector<StretchPass> stretch_passes(const SingleTrackLayout& layout, const TrainPath& path) {
+    std::vector<StretchPass> out;
+    for (std::size_t k = 0; k < path.sections.size(); ++k) {
+        const SingleTrackStretch* st = layout.stretch_of_section(path.sections[k].id);
+        if (!st) continue;
+        const auto i = static_cast<std::size_t>(st - layout.stretches.data());
+        if (out.empty() || out.back().stretch != i || out.back().end != k) out.push_back({i, k, k, path.direction});
+        out.back().end = k + 1;
+    }
+    // The way the path runs in the middle of the first of its sections there that lies on the
+    // stretch's own segments (a section may reach beyond the stretch's end into a place).
+    for (StretchPass& p : out) {
+        const SingleTrackStretch& st = layout.stretches[p.stretch];
+        for (std::size_t k = p.first; k < p.end; ++k) {
+            const double lo = std::max(path.sections[k].s_from, path.s_min), hi = std::min(path.sections[k].s_to, path.s_max);
+            if (hi < lo) continue;
+            if (const auto at = position_on(st.axis, path, 0.5 * (lo + hi))) {
+                p.direction = at->direction;
+                break;
+            }
+        }
+    }
+    return out;
+}
+
 StandingFit standing_fit(double lo, double hi, double head_x, Direction d, double length) {
     const double tail = d == Direction::up ? head_x - length : head_x + length;
     const bool head_in = head_x >= lo - kEps && head_x <= hi + kEps;

@@ -1,6 +1,7 @@
 #include "models/single_track_plan.hpp"
 
 #include <algorithm>
+#include <optional>
 #include <set>
 
 namespace knockon {
@@ -22,13 +23,31 @@ const PlannedCall* stop_at(const ServiceRun& run, const CrossingPlace& place) {
     return nullptr;
 }
 
-// The track the run uses at a loop place: a loop of the place its path runs through, else the main.
-std::string track_at(const ServiceRun& run, const CrossingPlace& place) {
-    if (place.tracks.empty()) return {};
+// Whether the path runs over any segment of a network track's axis between its start and end.
+bool runs_over(const TrainPath& path, const std::vector<AxisSegment>& axis) {
+    for (const PathRun& r : path.runs) {
+        if (r.s_to <= 0.0 || r.s_from >= path.length) continue;
+        for (const AxisSegment& a : axis)
+            if (a.segment == r.segment) return true;
+    }
+    return false;
+}
+
+// The track the run uses at a loop place: on a network the one whose segments its path runs over;
+// on a line a loop of the place its path runs through, else the main.  Nullptr at an end.
+const CrossingTrack* track_at(const ServiceRun& run, const CrossingPlace& place) {
+    if (place.tracks.empty()) return nullptr;
+    for (const CrossingTrack& t : place.tracks)
+        if (!t.axis.empty() && runs_over(run.path, t.axis)) return &t;
     for (const PathPiece& pc : run.path.pieces)
         for (const CrossingTrack& t : place.tracks)
-            if (t.loop && pc.track == t.track) return t.track;
-    return place.tracks.front().track;
+            if (t.loop && t.axis.empty() && pc.track == t.track) return &t;
+    return &place.tracks.front();
+}
+
+std::string track_name_at(const ServiceRun& run, const CrossingPlace& place) {
+    const CrossingTrack* t = track_at(run, place);
+    return t ? t->track : std::string();
 }
 
 Crossing make_crossing(const SingleTrackLayout& layout, const std::vector<TrainPlan>& trains, const Half& h) {
@@ -41,18 +60,27 @@ Crossing make_crossing(const SingleTrackLayout& layout, const std::vector<TrainP
     c.waiting_blocks = h.second.start;
     c.buffer = c.waiting_blocks - c.opposing_release;
     const CrossingPlace& place = layout.places[h.place];
-    c.waiting_track = track_at(trains[c.waiting].run, place);
+    c.waiting_track = track_name_at(trains[c.waiting].run, place);
     c.waiting_stops = stop_at(trains[c.waiting].run, place) != nullptr;
     return c;
 }
 
 }  // namespace
 
-std::vector<StretchRun> stretch_runs(const SingleTrackStretch& st, const std::vector<TrainPlan>& trains) {
+std::optional<Direction> stretch_direction(const SingleTrackLayout& layout, std::size_t stretch, const TrainPath& path) {
+    for (const StretchPass& p : stretch_passes(layout, path))
+        if (p.stretch == stretch) return p.direction;
+    return std::nullopt;
+}
+
+std::vector<StretchRun> stretch_runs(const SingleTrackLayout& layout, std::size_t stretch,
+                                     const std::vector<TrainPlan>& trains) {
+    const SingleTrackStretch& st = layout.stretches[stretch];
     std::vector<StretchRun> runs;
     for (std::size_t i = 0; i < trains.size(); ++i) {
         bool any = false;
-        StretchRun r{i, trains[i].run.path.direction, 0.0, 0.0};
+        StretchRun r{i, stretch_direction(layout, stretch, trains[i].run.path).value_or(trains[i].run.path.direction),
+                     0.0, 0.0};
         for (const SectionBlocking& b : trains[i].stairway.sections) {
             if (!st.has_section(b.section)) continue;
             r.start = any ? std::min(r.start, b.start) : b.start;
@@ -71,7 +99,7 @@ std::vector<Crossing> find_crossings(const SingleTrackLayout& layout, const std:
     std::vector<Half> halves;
     for (std::size_t s = 0; s < layout.stretches.size(); ++s) {
         const SingleTrackStretch& st = layout.stretches[s];
-        const std::vector<StretchRun> runs = stretch_runs(st, trains);
+        const std::vector<StretchRun> runs = stretch_runs(layout, s, trains);
         for (std::size_t k = 1; k < runs.size(); ++k)
             if (runs[k - 1].direction != runs[k].direction)
                 halves.push_back({s, st.exit_place(runs[k - 1].direction), runs[k - 1], runs[k]});
@@ -120,7 +148,7 @@ std::vector<StretchCapacity> stretch_capacity(const SingleTrackLayout& layout, c
         const SingleTrackStretch& st = layout.stretches[s];
         // Each train's stairway on the stretch's sections, referred to its blocking start there.
         std::vector<SectionStairway> both, up, down;
-        for (const StretchRun& r : stretch_runs(st, trains)) {
+        for (const StretchRun& r : stretch_runs(layout, s, trains)) {
             SectionStairway sw;
             sw.train = r.train;
             sw.reference = r.start;
@@ -155,11 +183,12 @@ std::vector<CrossingTooShort> crossings_too_short(const SingleTrackLayout& layou
         for (std::size_t t : {c.waiting, c.opposing}) {
             const ServiceRun& run = trains[t].run;
             const PlannedCall* stop = stop_at(run, place);
-            const std::string track = track_at(run, place);
-            if (!stop || track != place.tracks.front().track || !seen.insert({t, c.place}).second) continue;
-            const double head = run.path.chainage_at(stop->s);
-            const StandingFit fit = standing_fit(place.x_lo, place.x_hi, head, run.path.direction, run.type->length);
-            if (!fit.fits) out.push_back({i, t, track, head, fit.tail, place.x_lo, place.x_hi});
+            const CrossingTrack* track = track_at(run, place);
+            if (!stop || !track || !seen.insert({t, c.place}).second) continue;
+            const std::optional<AxisPosition> head = position_on(track->axis, run.path, stop->s);
+            if (!head) continue;   // it stops at the place's station beyond the track it uses
+            const StandingFit fit = standing_fit(track->x_lo, track->x_hi, head->x, head->direction, run.type->length);
+            if (!fit.fits) out.push_back({i, t, track->track, head->x, fit.tail, track->x_lo, track->x_hi});
         }
     }
     return out;

@@ -4,6 +4,7 @@
 // their buffers, the capacity consumption of both directions together, and trains too long for
 // the crossing place they stand at.
 #include <cstddef>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -21,8 +22,14 @@ struct StretchRun {
     double start = 0.0, end = 0.0;   // [s]
 };
 
-// All trains' runs over stretch `st`, by blocking start (then train index).
-std::vector<StretchRun> stretch_runs(const SingleTrackStretch& st, const std::vector<TrainPlan>& trains);
+// The way a path runs over stretch `stretch` of the layout (its first StretchPass there), or
+// nothing where it does not run over it.
+std::optional<Direction> stretch_direction(const SingleTrackLayout& layout, std::size_t stretch, const TrainPath& path);
+
+// All trains' runs over stretch `stretch` of the layout, by blocking start (then train index); a
+// train's direction there is its StretchPass's (models/single_track).
+std::vector<StretchRun> stretch_runs(const SingleTrackLayout& layout, std::size_t stretch,
+                                     const std::vector<TrainPlan>& trains);
 
 // Two opposing trains whose runs over a stretch follow each other at a crossing place: the
 // opposing train releases the stretch, then the waiting train blocks it.  Where each train comes
@@ -62,15 +69,18 @@ struct StretchCapacity {
 std::vector<StretchCapacity> stretch_capacity(const SingleTrackLayout& layout, const std::vector<TrainPlan>& trains,
                                               LineType type);
 
-// A train standing at a crossing place on its main track (so that the opposing train can use
-// the loop) whose body reaches beyond the place's turnouts: the crossing cannot work.  (A train
-// standing in a loop it does not fit is refused by the input checks before planning.)
+// A train standing at a crossing place (on its main track, so that the opposing train can use the
+// loop, or in a loop) whose body reaches beyond the place's turnouts: the crossing cannot work.
+// (On a line a train standing in a loop it does not fit is refused by the input checks before
+// planning; a network's stopping points leave it to this check.)
 struct CrossingTooShort {
     std::size_t crossing = 0;   // index into the crossings
     std::size_t train = 0;      // the train that does not fit
     std::string track;
-    double head = 0.0, tail = 0.0;   // chainage where it stands [m]
-    double lo = 0.0, hi = 0.0;       // the room between the place's turnouts [m]
+    // Where it stands and the room on its track between the place's turnouts [m]: chainages on a
+    // line, distances along the track from the place's first node on a network.
+    double head = 0.0, tail = 0.0;
+    double lo = 0.0, hi = 0.0;
 };
 std::vector<CrossingTooShort> crossings_too_short(const SingleTrackLayout& layout,
                                                   const std::vector<TrainPlan>& trains,

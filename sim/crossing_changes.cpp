@@ -48,18 +48,22 @@ double use_start(const SimModel::Train& tr, std::uint32_t t, std::int32_t s, con
     return as_run->use_starts[t][static_cast<std::size_t>(u - tr.stretch_uses.data())];
 }
 
-// The place where the order of a and b flips over their shared stretches (by chainage), or
-// kNoPlace when it never does and they run one way; NaN-free inputs assumed.
+Direction opposite(Direction d) { return d == Direction::up ? Direction::down : Direction::up; }
+
+// The place where the order of a and b flips over their shared stretches, or kNoPlace when it
+// never does and they run one way.  `shared` lies in the order of a train running up the first
+// of them (a's path order, reversed where a runs down there: chainage order on a line), and
+// `reversed` says whether a runs against that order.  NaN-free inputs assumed.
 struct Flip {
     std::size_t place = kNoPlace;
     bool valid = true;
 };
 
 Flip flip_place(const SimModel& model, const std::vector<std::int32_t>& shared, std::uint32_t a, std::uint32_t b,
-                const AsRun* as_run, bool opposing, bool a_up) {
+                const AsRun* as_run, bool opposing, bool reversed) {
     const auto& trains = model.trains();
     const auto& stretches = model.single_track().stretches;
-    // a_first[i]: a passed shared stretch i (by chainage) before b.
+    // a_first[i]: a passed shared stretch i before b.
     std::vector<char> a_first;
     for (std::int32_t s : shared) {
         const double ta = use_start(trains[a], a, s, as_run);
@@ -67,28 +71,74 @@ Flip flip_place(const SimModel& model, const std::vector<std::int32_t>& shared, 
         if (std::isnan(ta) || std::isnan(tb)) return {kNoPlace, false};
         a_first.push_back(ta < tb || (ta == tb && a < b));
     }
-    // In chainage order a_first runs true... then false... for an up train a (it meets b, or b
-    // overtakes it, further up); the reverse for a down train.
+    // The direction on stretch i of a train running in the list's order.
+    const auto along = [&](std::size_t i) {
+        const Direction d = trains[a].use_of(shared[i])->direction;
+        return reversed ? opposite(d) : d;
+    };
+    const auto stretch = [&](std::size_t i) -> const SingleTrackStretch& {
+        return stretches[static_cast<std::size_t>(shared[i])];
+    };
+    // In the list's order a_first runs true... then false... for a train a running that way (it
+    // meets b, or b overtakes it, further on); the reverse for a train running against it.
     for (std::size_t i = 0; i + 1 < shared.size(); ++i)
-        if (a_first[i] != a_first[i + 1]) return {stretches[static_cast<std::size_t>(shared[i])].upper, true};
+        if (a_first[i] != a_first[i + 1]) return {stretch(i).exit_place(along(i)), true};
     if (!opposing) return {kNoPlace, true};
-    // No flip: the up train passed every shared stretch first, so they meet beyond the last one
-    // by chainage; or the down train did, and they meet before the first.
-    const bool up_train_first = a_up ? a_first.front() : !a_first.front();
-    return {up_train_first ? stretches[static_cast<std::size_t>(shared.back())].upper
-                           : stretches[static_cast<std::size_t>(shared.front())].lower,
+    // No flip: the train running in the list's order passed every shared stretch first, so they
+    // meet beyond the last one; or the other did, and they meet before the first.
+    const bool in_order_first = reversed ? !a_first.front() : a_first.front();
+    return {in_order_first ? stretch(shared.size() - 1).exit_place(along(shared.size() - 1))
+                           : stretch(0).entry_place(along(0)),
             true};
 }
 
-// Train t's delay when its head reaches chainage x (as run minus planned), x a section boundary:
-// from the section starting there; where x lies at or before where its run starts, its delay when
-// ready to leave there, and at or beyond where it ends, its arrival delay there; else NaN (it
-// never got there).
-double delay_at(const SimModel::Train& tr, std::uint32_t t, double x, bool up, const AsRun& as_run,
+// A point of train t's path where its delay is measured: before or at where its run starts (its
+// delay when ready to leave there), at or beyond where it ends (its arrival delay), else where
+// its head enters path section `section` (which starts at s).
+struct PathPoint {
+    double s = 0.0;
+    std::size_t section = 0;
+};
+
+// Where t's head reaches place p, and where it leaves it: the end of its passage over the stretch
+// it arrives by, the start of its passage over the stretch it leaves by.  Where it arrives by no
+// stretch it started in the place (a loop: its start) or came from track off the single line to a
+// place that is a point (an end of the single track: reaching it is leaving it); likewise where it
+// leaves by none.
+struct PlaceOnPath {
+    bool arrives = false, leaves = false;
+    PathPoint reach, leave;
+};
+
+PlaceOnPath place_on_path(const SimModel& model, std::uint32_t t, std::size_t p) {
+    const SimModel::Train& tr = model.trains()[t];
+    const auto& sections = tr.plan->run.path.sections;
+    const auto& stretches = model.single_track().stretches;
+    PlaceOnPath out;
+    for (const StretchUse& u : tr.stretch_uses) {
+        const SingleTrackStretch& st = stretches[static_cast<std::size_t>(u.stretch)];
+        if (!out.arrives && st.exit_place(u.direction) == p) {
+            out.arrives = true;
+            out.reach = {sections[u.end - 1].s_to, u.end};
+        }
+        if (!out.leaves && st.entry_place(u.direction) == p) {
+            out.leaves = true;
+            out.leave = {sections[u.first].s_from, u.first};
+        }
+    }
+    const bool loop = model.single_track().places[p].kind == CrossingPlaceKind::loop;
+    const double inf = std::numeric_limits<double>::infinity();
+    if (!out.arrives) out.reach = loop || !out.leaves ? PathPoint{-inf, 0} : out.leave;
+    if (!out.leaves) out.leave = loop || !out.arrives ? PathPoint{inf, 0} : out.reach;
+    return out;
+}
+
+// Train t's delay at a point of its path (as run minus planned); NaN if it never got there.
+double delay_at(const SimModel::Train& tr, std::uint32_t t, const PathPoint& at, const AsRun& as_run,
                 const SimResult& day) {
     const ServiceRun& run = tr.plan->run;
     const auto& path = run.path;
-    const double first = path.chainage_at(run.calls.front().s), last = path.chainage_at(run.calls.back().s);
+    const double first = run.calls.front().s, last = run.calls.back().s;
     const auto record = [&](bool origin) -> const TimingRecord* {
         const TimingRecord* found = nullptr;
         for (const TimingRecord& r : day.timing)
@@ -98,38 +148,33 @@ double delay_at(const SimModel::Train& tr, std::uint32_t t, double x, bool up, c
             }
         return found;
     };
-    if (up ? x <= first + kEps : x >= first - kEps) {
+    if (at.s <= first + kEps) {
         // Reaching the place it starts at: when it was ready to leave (its departure delay less
         // what it then waited for others, the origin's knock-on).
         const TimingRecord* r = record(true);
         if (!r) return kNaN;
         return std::isnan(r->departure_delay) ? r->arrival_delay : r->departure_delay - r->knock_on;
     }
-    if (up ? x >= last - kEps : x <= last + kEps) {
+    if (at.s >= last - kEps) {
         const TimingRecord* r = record(false);
         return r ? r->arrival_delay : kNaN;
     }
-    for (std::size_t k = 0; k < path.sections.size(); ++k) {
-        const PathSection& sec = path.sections[k];
-        if (std::fabs((up ? sec.x_lo : sec.x_hi) - x) > kEps) continue;
-        const SectionRecord* r = as_run.of(t, tr.section_index[k]);
-        if (!r || std::isnan(r->head_enters)) return kNaN;
-        return r->head_enters - run.head_reach(sec.s_from);
-    }
-    return kNaN;
+    if (at.section >= path.sections.size()) return kNaN;
+    const SectionRecord* r = as_run.of(t, tr.section_index[at.section]);
+    if (!r || std::isnan(r->head_enters)) return kNaN;
+    return r->head_enters - run.head_reach(path.sections[at.section].s_from);
 }
 
-// Delay on leaving the later of two places minus that on reaching the earlier, in t's direction.
+// Delay on leaving the later of two places minus that on reaching the earlier, along t's path.
 double change_between(const SimModel& model, std::uint32_t t, std::size_t p, std::size_t q, const AsRun& as_run,
                       const SimResult& day) {
-    const SimModel::Train& tr = model.trains()[t];
-    const bool up = tr.plan->run.service->direction == Direction::up;
-    const auto& places = model.single_track().places;
     if (p == kNoPlace || q == kNoPlace) return kNaN;
-    const CrossingPlace &a = places[std::min(p, q)], &b = places[std::max(p, q)];
-    // Up: reaches the lower-chainage place first, enters it at x_lo, leaves the other at x_hi.
-    const double reach = up ? a.x_lo : b.x_hi, leave = up ? b.x_hi : a.x_lo;
-    return delay_at(tr, t, leave, up, as_run, day) - delay_at(tr, t, reach, up, as_run, day);
+    const SimModel::Train& tr = model.trains()[t];
+    const PlaceOnPath at_p = place_on_path(model, t, p), at_q = place_on_path(model, t, q);
+    const bool p_first = at_p.reach.s <= at_q.reach.s;
+    const PlaceOnPath& earlier = p_first ? at_p : at_q;
+    const PlaceOnPath& later = p_first ? at_q : at_p;
+    return delay_at(tr, t, later.leave, as_run, day) - delay_at(tr, t, earlier.reach, as_run, day);
 }
 
 }  // namespace
@@ -153,21 +198,23 @@ std::vector<CrossingChange> crossing_changes(const SimModel& model, const SimRes
     for (std::uint32_t a = 0; a < trains.size(); ++a) {
         if (trains[a].stretch_uses.empty()) continue;
         for (std::uint32_t b = a + 1; b < trains.size(); ++b) {
+            // The shared stretches in a's path order, the first it meets first.
             std::vector<std::int32_t> shared;
             for (const StretchUse& u : trains[a].stretch_uses)
                 if (trains[b].use_of(u.stretch)) shared.push_back(u.stretch);
             if (shared.empty()) continue;
-            std::sort(shared.begin(), shared.end());   // stretches are by chainage
-            const bool a_up = trains[a].plan->run.service->direction == Direction::up;
-            const bool opposing = a_up != (trains[b].plan->run.service->direction == Direction::up);
-            const Flip planned = flip_place(model, shared, a, b, nullptr, opposing, a_up);
-            const Flip actual = flip_place(model, shared, a, b, &as_run, opposing, a_up);
+            const std::int32_t first_met = shared.front();
+            const Direction a_dir = trains[a].use_of(first_met)->direction;
+            const bool opposing = a_dir != trains[b].use_of(first_met)->direction;
+            const bool reversed = a_dir == Direction::down;
+            if (reversed) std::reverse(shared.begin(), shared.end());
+            const Flip planned = flip_place(model, shared, a, b, nullptr, opposing, reversed);
+            const Flip actual = flip_place(model, shared, a, b, &as_run, opposing, reversed);
             if (!actual.valid || planned.place == actual.place) continue;
 
             CrossingChange c;
             c.kind = opposing ? CrossingChange::Kind::moved_crossing : CrossingChange::Kind::changed_order;
-            // Who was planned first over the first shared stretch each meets.
-            const std::int32_t first_met = a_up ? shared.front() : shared.back();
+            // Who was planned first over the first shared stretch a meets.
             const bool a_planned_first = trains[a].use_of(first_met)->start <= trains[b].use_of(first_met)->start;
             c.first = a_planned_first ? a : b;
             c.second = a_planned_first ? b : a;
@@ -176,14 +223,12 @@ std::vector<CrossingChange> crossing_changes(const SimModel& model, const SimRes
             // When: the later of the two trains entering the shared stretch beyond the actual place
             // in its direction (beyond the last shared one when one direction kept its order).
             double when = -std::numeric_limits<double>::infinity();
-            for (std::uint32_t t : {a, b}) {
-                const bool up = trains[t].plan->run.service->direction == Direction::up;
+            for (std::uint32_t t : {a, b})
                 for (std::int32_t s : shared) {
                     const SingleTrackStretch& st = model.single_track().stretches[static_cast<std::size_t>(s)];
-                    const bool beyond = actual.place == kNoPlace || (up ? st.lower : st.upper) == actual.place;
+                    const bool beyond = actual.place == kNoPlace || st.entry_place(trains[t].use_of(s)->direction) == actual.place;
                     if (beyond) when = std::max(when, use_start(trains[t], t, s, &as_run));
                 }
-            }
             c.when = std::isfinite(when) ? when : kNaN;
             const std::size_t p = planned.place == kNoPlace ? actual.place : planned.place;
             const std::size_t q = actual.place == kNoPlace ? p : actual.place;

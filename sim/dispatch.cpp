@@ -67,6 +67,27 @@ bool DispatchCheck::check(const Interlocking& interlocking, std::uint32_t train,
                 outside_[i] = 0;
                 moved = true;
             }
+            // Its authority ends at the far end of a place where it stands clear (a loop track,
+            // up to the section before the switch, as routes on a network end at section
+            // boundaries): it can come to a stand there, freeing what it holds behind.
+            const std::uint32_t f = frontier_[i];
+            if (f > 0 && tr.stretch_of[f - 1] < 0 && (f >= tr.stretch_of.size() || tr.stretch_of[f] >= 0)) {
+                std::uint32_t run = f - 1;
+                while (run > 0 && tr.stretch_of[run - 1] < 0 && holder_[tr.section_index[run - 1]] == t) --run;
+                bool held = holder_[tr.section_index[run]] == t;
+                for (std::uint32_t k = run; k < f && held; ++k) held = holder_[tr.section_index[k]] == t;
+                bool freed = false;
+                for (std::uint32_t k = 0; k < tr.section_index.size() && held; ++k)
+                    if ((k < run || k >= f) && holder_[tr.section_index[k]] == t) {
+                        // (a section a path crosses twice keeps its holder while the train stands on it)
+                        bool in_run = false;
+                        for (std::uint32_t j = run; j < f && !in_run; ++j) in_run = tr.section_index[j] == tr.section_index[k];
+                        if (in_run) continue;
+                        holder_[tr.section_index[k]] = kNoTrain;
+                        freed = true;
+                    }
+                moved = moved || freed;
+            }
             const auto [from, to] = tr.advance[frontier_[i]];
             bool clear = true;
             for (std::uint32_t k = frontier_[i]; k < to && clear; ++k) {

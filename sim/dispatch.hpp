@@ -4,11 +4,13 @@
 // forward on the sections alone: a train may move on to the next place where it can stand clear
 // of opposing traffic (a crossing place, or track of one direction; SimModel::Train::advance) when
 // every section up to and through that place is free, and leaves the line when that place is its
-// path's end; moving releases what it held.  If some order of such moves takes every train off
-// the line, a way exists, and granting cannot close a circle of trains each waiting for the next:
-// the trains could at worst wait their turn in that order.  If no such order is found the grant
-// waits (the check errs on the side of waiting: it moves trains from place to place whole, and
-// tries the trains in a fixed order instead of every order).
+// path's end; moving releases what it held.  A train whose held sections end at the far end of
+// such a place (on a network a route into a loop holds up to the section before the switch) may
+// first come to a stand there, releasing what it holds behind.  If some order of such moves takes
+// every train off the line, a way exists, and granting cannot close a circle of trains each
+// waiting for the next: the trains could at worst wait their turn in that order.  If no such
+// order is found the grant waits (the check errs on the side of waiting: it moves trains from
+// place to place whole, and tries the trains in a fixed order instead of every order).
 #include <cstdint>
 #include <vector>
 

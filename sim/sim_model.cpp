@@ -88,24 +88,20 @@ SimModel::SimModel(const ServicePaths& paths, const std::vector<TrainPlan>& plan
         {
             const auto n = static_cast<std::uint32_t>(path.sections.size());
             tr.stretch_of.assign(n, -1);
-            for (std::uint32_t k = 0; k < n; ++k) {
-                const SingleTrackStretch* st = single_track_.stretch_of_section(path.sections[k].id);
-                if (!st) continue;
-                const auto i = static_cast<std::int32_t>(st - single_track_.stretches.data());
-                tr.stretch_of[k] = i;
-                double start = kInf, release = -kInf;
-                for (const SectionBlocking& b : tp.stairway.sections)
-                    if (b.section == path.sections[k].id) {
-                        start = b.start;
-                        release = b.end;
-                        break;
-                    }
-                if (tr.stretch_uses.empty() || tr.stretch_uses.back().stretch != i || tr.stretch_uses.back().end != k)
-                    tr.stretch_uses.push_back({i, k, k, kInf, -kInf});
-                StretchUse& u = tr.stretch_uses.back();
-                u.end = k + 1;
-                u.start = std::min(u.start, start);
-                u.release = std::max(u.release, release);
+            for (const StretchPass& pass : stretch_passes(single_track_, path)) {
+                const auto i = static_cast<std::int32_t>(pass.stretch);
+                StretchUse u{i, static_cast<std::uint32_t>(pass.first), static_cast<std::uint32_t>(pass.end), kInf, -kInf,
+                             pass.direction};
+                for (std::uint32_t k = u.first; k < u.end; ++k) {
+                    tr.stretch_of[k] = i;
+                    for (const SectionBlocking& b : tp.stairway.sections)
+                        if (b.section == path.sections[k].id) {
+                            u.start = std::min(u.start, b.start);
+                            u.release = std::max(u.release, b.end);
+                            break;
+                        }
+                }
+                tr.stretch_uses.push_back(u);
             }
             tr.advance.assign(n + 1, {n, n});
             for (std::uint32_t k = n; k-- > 0;) {

@@ -32,11 +32,13 @@ struct Place {
 };
 
 // One train's planned passage over one single-track stretch: the blocking time of its sections
-// together, and the path sections it covers.
+// together, the path sections it covers, and the way it runs there (its StretchPass,
+// models/single_track: up from the stretch's lower place to its upper one).
 struct StretchUse {
     std::int32_t stretch = -1;
     std::uint32_t first = 0, end = 0;     // path sections [first, end)
     double start = 0.0, release = 0.0;   // planned blocking of the stretch [s]
+    Direction direction = Direction::up;
 };
 
 class SimModel {

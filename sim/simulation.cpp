@@ -999,11 +999,12 @@ std::uint32_t Day::crossing_promise(std::uint32_t t, std::uint32_t g, std::uint3
     const std::int32_t stretch = a.stretch_of[k];
     if (stretch < 0) return kNoTrain;
     const std::uint32_t p = interlocking_.planned_before(t, g);
-    if (p == kNoTrain || run_of(p).service->direction == run_of(t).service->direction) return kNoTrain;
+    if (p == kNoTrain) return kNoTrain;
     const SimModel::Train& b = train(p);
     const StretchUse* ua = a.use_of(stretch);
     const StretchUse* ub = b.use_of(stretch);
-    if (!ua || !ub) return kNoTrain;
+    // Opposing on this stretch (on a network that need not match the headings they started in).
+    if (!ua || !ub || ua->direction == ub->direction) return kNoTrain;
     const CrossingChoice c =
         choose_crossing(*ua, forecast_delay(t), a.dispatch_weight, *ub, forecast_delay(p), b.dispatch_weight);
     if (c.asking_goes_first) return kNoTrain;

@@ -54,9 +54,10 @@ TEST_CASE("network single track: a branch with two loops has three stretches bet
     CHECK(hol.tracks[1].usable_down == 0.0);
 
     // Stretches: B1 from Jn to FEN; B2 from FEN to HOL; B3a and B3b (joined at the link K) from
-    // HOL to TRM.  Sections by hand: B1 cut at 50, 100 and 1950 m and bounded at both ends: 4;
-    // B2 cut at 50 and 2950 m: 3; B3a cut at 50 m, its rest one section with B3b up to A3 at
-    // 750 m, then the last 50 m: 3.  Loop tracks and platform tracks are no stretch.
+    // HOL to TRM.  Sections by hand: B1 cut at 50, 100 and 1950 m and bounded at both ends: 4,
+    // and the switch S1's at its end: 5; B2 cut at 50 and 2950 m: 3, with S2's and S3's: 5; B3a
+    // cut at 50 m, its rest one section with B3b up to A3 at 750 m, then the last 50 m: 3, with
+    // S4's and S5's: 5.  Loop tracks and platform tracks are no stretch.
     REQUIRE(layout.stretches.size() == 3);
     const SingleTrackStretch& s0 = layout.stretches[0];
     CHECK(s0.name == "Jn-FEN");
@@ -64,17 +65,18 @@ TEST_CASE("network single track: a branch with two loops has three stretches bet
     CHECK(s0.lower == 0);
     CHECK(s0.upper == 1);
     CHECK(s0.x_hi == Approx(2000.0));
-    CHECK(s0.sections.size() == 4);
+    CHECK(s0.sections.size() == 5);
+    CHECK(s0.has_section("S1"));
     const SingleTrackStretch& s1 = layout.stretches[1];
     CHECK(s1.name == "FEN-HOL");
     CHECK(s1.lower == 1);
     CHECK(s1.upper == 2);
-    CHECK(s1.sections.size() == 3);
+    CHECK(s1.sections.size() == 5);
     const SingleTrackStretch& s2 = layout.stretches[2];
     CHECK(s2.name == "HOL-TRM");
     CHECK(s2.segments == std::vector<std::string>{"B3a", "B3b"});
     CHECK(s2.x_hi == Approx(1800.0));
-    CHECK(s2.sections.size() == 3);
+    CHECK(s2.sections.size() == 5);
     // Each stretch's sections belong to it alone.
     for (const std::string& id : s2.sections) CHECK(layout.stretch_of_section(id) == &s2);
 }

@@ -46,6 +46,18 @@ double length_of(const NetworkGraph& g, const std::vector<Step>& chain) {
     return l;
 }
 
+// The chain as the axis positions along it are measured on (position_on).
+std::vector<AxisSegment> axis_of(const NetworkGraph& g, const std::vector<Step>& chain) {
+    std::vector<AxisSegment> axis;
+    double start = 0.0;
+    for (const Step& s : chain) {
+        const double length = g.segment(s.segment).length;
+        axis.push_back({s.segment, s.heading, start, length});
+        start += length;
+    }
+    return axis;
+}
+
 // A crossing track along `chain` (from the place's first node): its room for a train entering at
 // either end, up to the first signal facing it on the track.
 CrossingTrack crossing_track(const NetworkGraph& g, const std::vector<Step>& chain, bool loop) {
@@ -58,6 +70,7 @@ CrossingTrack crossing_track(const NetworkGraph& g, const std::vector<Step>& cha
     ct.x_lo = 0.0;
     ct.x_hi = length;
     ct.usable_up = ct.usable_down = length;
+    ct.axis = axis_of(g, chain);
     bool up_ok = true, down_ok = true;
     double before = 0.0;   // length of the chain before this step
     for (const Step& st : chain) {
@@ -184,15 +197,28 @@ private:
         st.track = net.segments[chain.front().segment].name;
         st.x_lo = 0.0;
         st.x_hi = length_of(g_, chain);
+        st.axis = axis_of(g_, chain);
+        auto add_section = [&](std::size_t sec) {
+            const std::string& name = sections_[sec].name;
+            if (std::find(st.sections.begin(), st.sections.end(), name) == st.sections.end()) st.sections.push_back(name);
+        };
+        // The sections of the switches at its ends belong to the stretch too: every track of the
+        // place meets there, so no train stands clear of opposing traffic on them, and a train
+        // has left the stretch only when it has cleared them (as on a line, where the stretch
+        // ends at the loop's turnout).
+        auto add_switch_at = [&](const EndRef& e) {
+            const std::size_t node = g_.node_at(e).node;
+            for (std::size_t sec = 0; sec < sections_.size(); ++sec)
+                if (sections_[sec].node == node) add_section(sec);
+        };
+        add_switch_at(entry_end(chain.front().segment, chain.front().heading));
         for (const Step& s : chain) {
             st.segments.push_back(net.segments[s.segment].name);
             const double len = g_.segment(s.segment).length;
             const double a = s.heading == Heading::forward ? 0.0 : len, b = len - a;
-            for (std::size_t sec : sections_.crossed(s.segment, a, b)) {
-                const std::string& name = sections_[sec].name;
-                if (std::find(st.sections.begin(), st.sections.end(), name) == st.sections.end()) st.sections.push_back(name);
-            }
+            for (std::size_t sec : sections_.crossed(s.segment, a, b)) add_section(sec);
         }
+        add_switch_at(exit_end(chain.back().segment, chain.back().heading));
         out_.stretches.push_back(std::move(st));
     }
 

@@ -274,6 +274,7 @@ TrainPath train_path(const NetworkGraph& g, const DetectionSections& sections, c
     out.s_min = placed.front().s_from;
     out.s_max = placed.back().s_to();
     lay_pieces(g, names, placed, out);
+    for (const Placed& p : placed) out.runs.push_back({p.run.segment, p.run.from, p.run.to, p.run.heading, p.s_from, p.s_to()});
     lay_sections(g, sections, names, placed, out);
     lay_signals(g, placed, out);
     lay_profiles(g, placed, out);
