@@ -5,6 +5,7 @@
 
 #include <nlohmann/json.hpp>
 
+#include "models/corridor_axis.hpp"
 #include "models/plan.hpp"
 #include "models/scenario.hpp"
 #include "tools/io/table.hpp"
@@ -30,6 +31,14 @@ std::string tight_stretch_text(const PlanResult& plan, const TightStretch& w);
 // "signal U04: its aspect system gives 1200 m of warning, less than the stopping distance of
 // service G1 from 100 km/h (2378.7 m); ..." for validate.
 std::string spacing_warning_text(const PlanResult& plan, const SpacingWarning& w);
+
+// The head line's account of the layout: "Line 12.0 km, 5 stations, 9 signals" or "Network of 17
+// segments, 6 stations, 32 signals; corridors Main (WRF OLV EMR), Branch (OLV PLC HTB QSB)".
+std::string layout_summary(const Scenario& scenario);
+// A station's name as shown (its id where it has none or is unknown), on a line or a network.
+std::string station_name(const Scenario& scenario, const std::string& id);
+// The axis of each of a network scenario's corridors from the plan's paths (none for a line).
+std::vector<CorridorAxis> corridor_axes(const Scenario& scenario, const PlanResult& plan);
 
 // Facts about the scenario shown at the head of every output.
 nlohmann::json scenario_facts(const Scenario& scenario);
