@@ -23,6 +23,7 @@ class LineAxis : public DiagramAxis {
 public:
     explicit LineAxis(const Infrastructure& infra) : infra_(infra) {
         axis_label = "chainage [km], increasing downwards";
+        signal_legend = "main signal: left column up, right column down direction";
         length = std::max(infra.length, 1.0);
         for (const Station& st : infra.stations)
             stations.push_back({st.id, st.name.empty() ? st.id : st.name, st.at, "km " + km(st.at)});
@@ -81,6 +82,7 @@ public:
         : corridor_(corridor) {
         name = corridor.name;
         axis_label = "distance along " + corridor.name + " [km], increasing downwards";
+        signal_legend = "main signal: left column for trains running down the page, right column up it";
         length = std::max(corridor.length(), 1.0);
         for (const CorridorStation& st : corridor.stations)
             stations.push_back({st.id, station_name(scenario, st.id), st.at,

@@ -50,7 +50,7 @@ public:
     virtual ~DiagramAxis() = default;
     std::string name;          // the corridor's; empty for a line
     std::string axis_label;    // beside the distance ticks
-    std::string station_kind;  // "station (timing point)"
+    std::string signal_legend; // what the two columns of signal ticks are
     double length = 1.0;       // the axis runs from 0 to here [m]
     std::vector<AxisStation> stations;
     std::vector<AxisSignal> signals;

@@ -264,7 +264,7 @@ Element time_distance_chart(const DiagramAxis& dax, const PlanResult& plan, Time
         Element sig = svg::group();
         sig.add(svg::line(4, 6, 11, 6, "legend-signal sig-up"));
         sig.add(svg::line(15, 6, 22, 6, "legend-signal sig-down"));
-        legend.push_back({std::move(sig), "main signal: left column up, right column down direction"});
+        legend.push_back({std::move(sig), dax.signal_legend});
     }
     const double legend_h = legend_height(legend, plot_w);
     const double axis_bottom = top + plot_h;

@@ -81,6 +81,7 @@ struct AsRunHold {                    // a stand at a signal showing stop
 };
 struct AsRunOverlay {
     std::string label;                // for the legend, e.g. "as run, replication 7"
+    bool along_path = false;          // points lie along each train's path (a network), not by chainage
     std::vector<AsRunPath> paths;
     std::vector<AsRunHold> holds;
 };

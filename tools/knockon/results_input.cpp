@@ -143,7 +143,7 @@ std::unique_ptr<ResultsInput> open_results(const std::string& path, const po::va
     if (day) {
         const std::string label =
             choice ? "as run, replication " + std::to_string(choice->replication) : std::string("as run");
-        in->as_run = as_run_overlay(*day, in->scenario.infrastructure, in->plan, label);
+        in->as_run = as_run_overlay(*day, in->scenario, in->plan, label);
         in->as_run_note += unknown_note(*day, in->plan);
     }
 
