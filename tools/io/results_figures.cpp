@@ -516,6 +516,11 @@ std::vector<StationPunctuality> station_punctuality(const ResultsView& v) {
         row[s.id] = out.size();
         out.push_back({s.id, s.name.empty() ? s.id : s.name, s.at, 0, {}});
     }
+    // A network has no one chainage: its stations in the order its corridors name them (no km).
+    if (v.scenario->network)
+        for (const net::Corridor& c : v.scenario->network->corridors)
+            for (const std::string& id : c.stations)
+                if (row.emplace(id, out.size()).second) out.push_back({id, station_name(*v.scenario, id), INFINITY, 0, {}});
     std::vector<std::vector<std::size_t>> within(out.size(), std::vector<std::size_t>(thresholds.size(), 0));
     auto station = [&](const std::string& id) -> std::size_t {
         const auto it = row.find(id);
