@@ -432,7 +432,7 @@ nlohmann::json plan_json(const Scenario& scenario, const PlanResult& plan) {
 
 std::string plan_text(const Scenario& scenario, const PlanResult& plan) {
     std::string out = "knockon plan: " + scenario.name + " (" + scenario.source_file + ")\n" + layout_summary(scenario) +
-                      ", " + std::to_string(scenario.train_types.size()) + " train types, " +
+                      (scenario.network ? "; " : ", ") + std::to_string(scenario.train_types.size()) + " train types, " +
                       std::to_string(plan.trains.size()) + " trains.\n";
     out += std::string("Caution: ") + kSafetyCaution + "\n\n";
 
