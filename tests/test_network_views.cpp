@@ -180,3 +180,21 @@ TEST_CASE("the network demo's corridor diagrams split the trains by corridor", "
     CHECK(layout_summary(net) ==
           "Network of 17 segments, 6 stations, 32 signals; corridors Main (WRF OLV EMR), Branch (OLV PLC HTB QSB)");
 }
+
+TEST_CASE("a signal's place names its segment and heading on a network and its km on a line", "[network][views]") {
+    const Scenario net = read_scenario(kJunction);
+    // scenarios/junction_branch.yaml: {id: D560, segment: D1, at: 6000 m, heading: backward}.
+    const std::optional<SignalPlace> d560 = signal_place(net, "D560");
+    REQUIRE(d560);
+    CHECK(d560->track == "D1");
+    CHECK(d560->direction == "backward");
+    CHECK(std::isnan(d560->km_m));
+    CHECK(!signal_place(net, "NOPE"));
+    const Scenario line = read_scenario(std::string(KNOCKON_SOURCE_DIR) + "/tests/data/two_trains.yaml");
+    REQUIRE(!line.infrastructure.signals.empty());
+    const Signal& first = line.infrastructure.signals.front();
+    const std::optional<SignalPlace> s = signal_place(line, first.id);
+    REQUIRE(s);
+    CHECK(s->track == first.track);
+    CHECK(s->km_m == first.at);
+}

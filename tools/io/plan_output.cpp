@@ -290,6 +290,20 @@ std::string station_name(const Scenario& scenario, const std::string& id) {
     return id;
 }
 
+std::optional<SignalPlace> signal_place(const Scenario& scenario, const std::string& id) {
+    if (scenario.network) {
+        const net::Network& n = scenario.network->network;
+        for (const net::Signal& s : n.signals)
+            if (s.name == id)
+                return SignalPlace{s.at.segment < n.segments.size() ? n.segments[s.at.segment].name : std::string("-"),
+                                   net::to_string(s.heading), NAN};
+        return std::nullopt;
+    }
+    for (const Signal& s : scenario.infrastructure.signals)
+        if (s.id == id) return SignalPlace{s.track, to_string(s.direction), s.at};
+    return std::nullopt;
+}
+
 std::string layout_summary(const Scenario& scenario) {
     char text[256];
     if (!scenario.network) {

@@ -1,5 +1,6 @@
 #pragma once
 // What `knockon plan` prints and writes: the plan as tables (CSV, text) and as one JSON document.
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -37,6 +38,13 @@ std::string spacing_warning_text(const PlanResult& plan, const SpacingWarning& w
 std::string layout_summary(const Scenario& scenario);
 // A station's name as shown (its id where it has none or is unknown), on a line or a network.
 std::string station_name(const Scenario& scenario, const std::string& id);
+// Where a signal stands, for tables: its track (a network: its segment), the direction or heading
+// it faces and its chainage (NaN on a network, which has none).  Nullopt for an unknown signal.
+struct SignalPlace {
+    std::string track, direction;
+    double km_m = 0.0;
+};
+std::optional<SignalPlace> signal_place(const Scenario& scenario, const std::string& id);
 // The axis of each of a network scenario's corridors from the plan's paths (none for a line).
 std::vector<CorridorAxis> corridor_axes(const Scenario& scenario, const PlanResult& plan);
 
