@@ -16,6 +16,12 @@ const char* to_string(LinkKind k) {
     return "?";
 }
 
+std::optional<LinkKind> link_kind_from_name(const std::string& name) {
+    for (LinkKind k : {LinkKind::turnaround, LinkKind::connection, LinkKind::crew})
+        if (name == to_string(k)) return k;
+    return std::nullopt;
+}
+
 const char* minimum_name(LinkKind k) {
     switch (k) {
         case LinkKind::turnaround: return "turnaround";

@@ -17,6 +17,7 @@ namespace knockon {
 struct ServiceRun;
 
 const char* to_string(LinkKind k);            // "turnaround", "connection", "crew"
+std::optional<LinkKind> link_kind_from_name(const std::string& name);   // back from to_string; nullopt: none
 const char* minimum_name(LinkKind k);         // "turnaround", "transfer", "crew change"
 
 // A link resolved against the plan: the trains (indices into the plan, the same as into

@@ -6,6 +6,7 @@
 #include <limits>
 #include <map>
 
+#include "models/links.hpp"
 #include "models/units.hpp"
 
 namespace knockon {
@@ -58,7 +59,22 @@ std::string where_it_stands(const DeadlockWait& w) {
     return "at " + km(w.chainage);
 }
 
-std::string what_it_waits_for(const DeadlockWait& w) {
+namespace {
+
+// "for its crew from UP1 (crew link)": a link wait, with the earlier train named.
+std::string link_text(const DeadlockWait& w, const Names& trains) {
+    const std::string from = name_of(trains, w.link_from);
+    switch (w.link_kind) {
+        case LinkKind::turnaround: return "for its set from " + from + " (turnaround)";
+        case LinkKind::connection: return "for passengers from " + from + " (connection)";
+        case LinkKind::crew: return "for its crew from " + from + " (crew link)";
+    }
+    return "for " + from;
+}
+
+}  // namespace
+
+std::string what_it_waits_for(const DeadlockWait& w, const Names& trains) {
     switch (w.waits_for) {
         case DeadlockWait::For::appear: return "to appear at " + (w.station.empty() ? "its origin" : w.station);
         case DeadlockWait::For::enter: return "to enter the line (route from " + w.signal + ")";
@@ -66,6 +82,7 @@ std::string what_it_waits_for(const DeadlockWait& w) {
         case DeadlockWait::For::route: return "for the route from " + w.signal;
         case DeadlockWait::For::view: return "to see signal " + w.signal;
         case DeadlockWait::For::request: return "for the route from " + w.signal + " to be asked for";
+        case DeadlockWait::For::link: return link_text(w, trains);
         case DeadlockWait::For::other: break;
     }
     return "with no event left";
@@ -75,15 +92,23 @@ namespace {
 
 // The train a wait names first as keeping it (holder or promised), if any.
 const DeadlockBlock* first_train_block(const DeadlockWait& w) {
+    if (w.waits_for == DeadlockWait::For::link) return nullptr;
     for (const DeadlockBlock& b : w.blocks)
         if (b.by != DeadlockBlock::By::disruption) return &b;
     return nullptr;
 }
 
+// The train that keeps a wait: the earlier train of a link, else the first block's train.
+std::optional<std::uint32_t> keeping_train(const DeadlockWait& w) {
+    if (w.waits_for == DeadlockWait::For::link) return w.link_from;
+    if (const DeadlockBlock* b = first_train_block(w)) return b->train;
+    return std::nullopt;
+}
+
 constexpr DeadlockWait::For kWaits[] = {DeadlockWait::For::appear, DeadlockWait::For::enter,
                                         DeadlockWait::For::entry_view, DeadlockWait::For::route,
                                         DeadlockWait::For::view, DeadlockWait::For::request,
-                                        DeadlockWait::For::other};
+                                        DeadlockWait::For::link, DeadlockWait::For::other};
 constexpr DeadlockBlock::By kBlocks[] = {DeadlockBlock::By::held, DeadlockBlock::By::promised,
                                          DeadlockBlock::By::disruption};
 
@@ -97,6 +122,7 @@ const char* wait_name(DeadlockWait::For kind) {
         case DeadlockWait::For::route: return "route";
         case DeadlockWait::For::view: return "view";
         case DeadlockWait::For::request: return "request";
+        case DeadlockWait::For::link: return "link";
         case DeadlockWait::For::other: break;
     }
     return "other";
@@ -149,6 +175,12 @@ std::string describe_wait(const DeadlockWait& w, const Names& trains, const Name
         case DeadlockWait::For::request:
             return id + " stands " + where_it_stands(w) + " since " + since + ": the route from " + w.signal +
                    " was never asked for";
+        case DeadlockWait::For::link:
+            if (std::isnan(w.chainage))
+                return id + " cannot appear at " + (w.station.empty() ? "its origin" : w.station) + " (due " + since +
+                       "): it waits " + link_text(w, trains) + ", which has not arrived";
+            return id + " stands " + where_it_stands(w) + ", ready to leave since " + since + ", waiting " +
+                   link_text(w, trains) + ", which has not arrived";
         case DeadlockWait::For::other: break;
     }
     return id + (std::isnan(w.chainage) ? " waits outside the line" : " stands " + where_it_stands(w)) +
@@ -173,9 +205,9 @@ std::string deadlock_cause(const std::vector<DeadlockWait>& waiting, const Names
             }
             seen.emplace(i, chain.size());
             chain.push_back(i);
-            const DeadlockBlock* b = first_train_block(waiting[i]);
-            if (!b) return chain;
-            const auto next = at.find(b->train);
+            const std::optional<std::uint32_t> keeper = keeping_train(waiting[i]);
+            if (!keeper) return chain;
+            const auto next = at.find(*keeper);
             if (next == at.end()) return chain;
             i = next->second;
         }
@@ -187,7 +219,7 @@ std::string deadlock_cause(const std::vector<DeadlockWait>& waiting, const Names
 
     // "A for the route from U05 (section S:1-2 held by B)"
     auto step = [&](const DeadlockWait& w, const char* verb) {
-        std::string out = name_of(trains, w.train) + verb + what_it_waits_for(w);
+        std::string out = name_of(trains, w.train) + verb + what_it_waits_for(w, trains);
         if (const DeadlockBlock* b = first_train_block(w)) out += " (" + block_text(*b, trains, sections) + ")";
         return out;
     };
@@ -211,8 +243,8 @@ std::string deadlock_cause(const std::vector<DeadlockWait>& waiting, const Names
         for (std::size_t k = 0; k + 1 < chain.size(); ++k) out += step(waiting[chain[k]], " waits ") + "; ";
         const DeadlockWait& last = waiting[chain.back()];
         out += describe_wait(last, trains, sections);
-        if (const DeadlockBlock* b = first_train_block(last); b && !at.count(b->train))
-            out += " (" + name_of(trains, b->train) + " is not waiting)";
+        if (const auto keeper = keeping_train(last); keeper && !at.count(*keeper))
+            out += " (" + name_of(trains, *keeper) + " is not waiting)";
     }
     const std::size_t others = waiting.size() - chain.size();
     if (others > 0)

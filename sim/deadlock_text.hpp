@@ -22,8 +22,9 @@ std::optional<DeadlockBlock::By> block_from_name(const std::string& name);
 // Where a waiting train stands: "at QLM (0.5 km)", "at signal U05 (15.3 km)", "at 12.4 km" or
 // "outside the line".
 std::string where_it_stands(const DeadlockWait& wait);
-// What it waits for, short: "for the route from U05", "to appear at QLM", ...
-std::string what_it_waits_for(const DeadlockWait& wait);
+// What it waits for, short: "for the route from U05", "to appear at QLM", ...; a link wait
+// names the earlier train, so it needs the train ids: "for its crew from UP1 (crew link)".
+std::string what_it_waits_for(const DeadlockWait& wait, const std::vector<std::string>& train_ids);
 
 // One line (no newline) for one waiting train.
 std::string describe_wait(const DeadlockWait& wait, const std::vector<std::string>& train_ids,

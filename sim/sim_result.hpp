@@ -7,6 +7,7 @@
 #include <string>
 #include <vector>
 
+#include "models/timetable.hpp"
 #include "sim/crossing_changes.hpp"
 
 namespace knockon {
@@ -129,6 +130,9 @@ struct DeadlockWait {
         view,         // on the line: the route from `signal` is set, but the signal is not in view
                       // from where the train stands
         request,      // the route from `signal` was never asked for
+        link,         // ready, but a link keeps it (a turnaround's set, a feeder, a crew): the
+                      // earlier train `link_from` has not arrived (a formed service: not even
+                      // appeared, so `chainage` is NaN)
         other,        // none of these (the engine should not leave a train so: a fault to report)
     };
     static constexpr double kNone = std::numeric_limits<double>::quiet_NaN();
@@ -142,6 +146,8 @@ struct DeadlockWait {
     std::string signal;        // entry signal of the route it waits for (empty: waits to appear)
     double route_set = kNone;  // entry_view and view: when that route was set
     double read_from = kNone;  // entry_view and view: where the signal comes into view
+    LinkKind link_kind = LinkKind::turnaround;   // link: the kind of link that keeps it
+    std::uint32_t link_from = 0;                 // link: the earlier train (index into SimResult::train_ids)
     std::vector<DeadlockBlock> blocks;   // the sections it needs that others keep from it
 };
 

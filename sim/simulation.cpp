@@ -264,11 +264,49 @@ private:
         const double hold = link_hold(t, st_[t].stop_call);
         if (std::isfinite(hold) && hold > now_) push(hold, kLinkCheck, t);
     }
+    // When train t, ready to leave timing point k at `ready`, is let go by its links there: the
+    // time a route request for that departure is timed from (the one rule for it: a train kept by
+    // a link must not hold its route out, and with it other trains, while it waits).  A link
+    // whose earlier train has arrived holds it until link_hold; one whose earlier train has not,
+    // at least until the earliest that train can arrive, its planned arrival (no train runs
+    // ahead of its plan), plus the minimum time.  Once that has passed with the train still to
+    // come the time is not known (NaN): link_arrival asks again.  A connection lets go by its
+    // latest departure in any case.
+    double released_by_links(std::uint32_t t, long k, double ready) const {
+        for (std::uint32_t l : train(t).links_in) {
+            const LinkPlan& link = model_.links()[l];
+            if (static_cast<long>(link.to_call) != k) continue;
+            const double arrival = out_.links[l].arrival;
+            double until = !std::isnan(arrival)             ? arrival + link.min_time
+                           : link.arrival > now_ + kEps ? link.arrival + link.min_time
+                                                            : kNoTime;
+            if (link.kind == LinkKind::connection) until = std::isnan(until) ? link.wait_until()
+                                                                            : std::min(until, link.wait_until());
+            if (std::isnan(until)) return kNoTime;
+            ready = std::max(ready, SimTime::from_seconds(until).to_seconds());
+        }
+        return ready;
+    }
+    // The stop whose departure times route i's request through released_by_links (the stop the
+    // route leaves, or one before its warning point), if links are timed into it; else -1.
+    long link_timed_stop(std::uint32_t t, std::size_t i) const;
     // The earlier train of links arrives at timing point k: the later trains may go after the minimum time.
     void link_arrival(std::uint32_t t, std::size_t k);
     // A train leaves timing point k: its links' records, and the link that held it longest (or -1).
     long finish_links(std::uint32_t t, std::size_t k);
     long binding_link(std::uint32_t t, std::size_t k) const;   // the link into k that lets t go last, or -1
+    // The link that keeps t for good when the day stops: one whose earlier train has not arrived,
+    // holding t ready at a stop or keeping a formed service from appearing; else -1.
+    long stuck_link(std::uint32_t t) const {
+        const TrainState& s = st_[t];
+        if (s.awaiting_set)
+            for (std::uint32_t l : train(t).links_in) {
+                const LinkPlan& link = model_.links()[l];
+                if (link.kind == LinkKind::turnaround && st_[link.from].phase != Phase::finished) return l;
+            }
+        if (s.phase != Phase::standing || s.stop_call < 0 || train(t).links_in.empty()) return -1;
+        return std::isinf(link_hold(t, s.stop_call)) ? binding_link(t, static_cast<std::size_t>(s.stop_call)) : -1;
+    }
     // The formed services' sets (turnaround links into t) have all arrived and left the model.
     bool set_arrived(std::uint32_t t) const {
         for (std::uint32_t l : train(t).links_in) {
@@ -557,15 +595,21 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
     // from `when`'s own tick, so that the driver learns it on the very tick the head reaches the
     // place timed by the same sum (a signal passed then is still read).
     auto ask_for = [&](double when) {
+        if (std::isnan(when)) return kNoTime;   // not known yet (a link's earlier train to come)
         return SimTime::from_seconds(when).to_seconds() - (times_.sight_reaction + times_.route_setup);
+    };
+    // The departure from stop k, ready at `ready`, as the links there let it go (NaN: not known yet).
+    auto leaves = [&](long k, double ready) {
+        return train(t).links_in.empty() ? ready : released_by_links(t, k, ready);
     };
     if (r.after_stop >= 0) {
         const PlannedCall& c = run_of(t).calls[r.after_stop];
-        if (s.phase == Phase::standing && s.stop_call == r.after_stop) return ask_for(s.ready_time);
+        if (s.phase == Phase::standing && s.stop_call == r.after_stop) return ask_for(leaves(r.after_stop, s.ready_time));
         if (s.phase == Phase::moving && std::fabs(ends(t).s_end - c.s) < kEps && !s.free_end) {
             // Heading for that stop: ready when both the schedule and the dwell allow.
             const double arrival = s.t0 + ends(t).duration;
-            return ask_for(std::max(c.scheduled_departure, arrival + dwell_at(t, r.after_stop)));
+            return ask_for(
+                leaves(r.after_stop, std::max(c.scheduled_departure, arrival + dwell_at(t, r.after_stop))));
         }
         if (s.next_call > static_cast<std::size_t>(r.after_stop)) return now_;  // already left it
         return kNoTime;
@@ -576,11 +620,12 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
         const long k = r.stop_before_warning;
         const PlannedCall& c = run_of(t).calls[k];
         if (s.phase == Phase::standing && s.stop_call == k && !std::isnan(s.ready_time))
-            return ask_for(s.ready_time + r.warning_after_departure);
+            return ask_for(leaves(k, s.ready_time) + r.warning_after_departure);
         if (s.phase == Phase::moving && !s.free_end && std::fabs(ends(t).s_end - c.s) < kEps &&
             s.next_call == static_cast<std::size_t>(k)) {
             const double arrival = s.t0 + ends(t).duration;
-            return ask_for(std::max(c.scheduled_departure, arrival + dwell_at(t, k)) + r.warning_after_departure);
+            return ask_for(leaves(k, std::max(c.scheduled_departure, arrival + dwell_at(t, k))) +
+                           r.warning_after_departure);
         }
     }
     if (s.phase == Phase::waiting) {
@@ -617,6 +662,18 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
         }
     }
     return std::isnan(tw) ? kNoTime : ask_for(tw);
+}
+
+long Day::link_timed_stop(std::uint32_t t, std::size_t i) const {
+    const SimModel::Route& r = train(t).routes[i];
+    const long k = r.after_stop >= 0 ? r.after_stop
+                   : r.stop_before_warning >= 0 && st_[t].next_call <= static_cast<std::size_t>(r.stop_before_warning) + 1
+                       ? r.stop_before_warning
+                       : -1;
+    if (k < 0) return -1;
+    for (std::uint32_t l : train(t).links_in)
+        if (static_cast<long>(model_.links()[l].to_call) == k) return k;
+    return -1;
 }
 
 void Day::schedule_point(std::uint32_t t, Kind kind) {
@@ -1206,6 +1263,11 @@ void Day::depart(std::uint32_t t) {
                     cause = out_.routes[s.route_record[j]].held_by;
                     cause.signal = routes[j].entry_signal;
                 }
+            // A route nothing held, asked for late only because the link's time was not known
+            // before its earlier train arrived: the link kept it.
+            if (cause.kind == HoldCause::Kind::none && link >= 0 &&
+                link_hold(t, s.stop_call) > s.ready_time + kNoiseFloor)
+                cause = link_cause(link);
         }
         out_.waits.push_back({t, std::string(), s.ready_time, now_, run_of(t).calls[k].station, cause});
     }
@@ -1294,6 +1356,13 @@ void Day::link_arrival(std::uint32_t t, std::size_t k) {
         double go = now_ + link.min_time;
         if (link.kind == LinkKind::connection) go = std::min(go, link.wait_until());
         push(std::max(go, now_), kLinkCheck, static_cast<std::uint32_t>(link.to));
+        // The later train's route out can now be timed by the known hold (a request the link
+        // times; any other stands as it was scheduled).
+        const std::uint32_t next = static_cast<std::uint32_t>(link.to);
+        const TrainState& n = st_[next];
+        if ((n.phase == Phase::standing || n.phase == Phase::moving) && !n.request_pending &&
+            n.next_request < train(next).routes.size() && link_timed_stop(next, n.next_request) >= 0)
+            schedule_point(next, kRequest);
     }
 }
 
@@ -1435,6 +1504,16 @@ void Day::handle(const Event& e) {
             break;
         case kRequest: {
             if (e.payload != s.next_request || s.request_pending) break;
+            if (link_timed_stop(t, e.payload) >= 0) {
+                // Timed before a link's earlier train arrived: ask now only if the links still let
+                // it go by then (else later, or once that train arrives: link_arrival).
+                const double when = desired_request_time(t, e.payload);
+                if (std::isnan(when)) break;
+                if (SimTime::from_seconds(when) > e.time) {
+                    push(when, kRequest, t, e.payload);
+                    break;
+                }
+            }
             const SimModel::Route& r = train(t).routes[e.payload];
             RouteRecord rec;
             rec.train = t;
@@ -1490,7 +1569,15 @@ void Day::report_deadlock() {
         for (const Pending& p : pending_)
             if (p.train == t) pending = &p;
         const std::vector<std::uint32_t>* needed = nullptr;
-        if (pending && pending->route < 0) {
+        if (const long l = stuck_link(t); l >= 0) {
+            // A link whose earlier train never came keeps it, whatever else it might wait for.
+            const LinkPlan& link = model_.links()[static_cast<std::size_t>(l)];
+            w.waits_for = DeadlockWait::For::link;
+            w.link_kind = link.kind;
+            w.link_from = static_cast<std::uint32_t>(link.from);
+            // (a formed service that never appeared is due at its origin)
+            if (outside && !run.calls.empty()) w.station = run.calls.front().station;
+        } else if (pending && pending->route < 0) {
             w.waits_for = DeadlockWait::For::appear;
             if (!run.calls.empty()) w.station = run.calls.front().station;
             needed = &train(t).origin_sections;

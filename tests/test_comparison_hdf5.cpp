@@ -56,7 +56,7 @@ TEST_CASE("compare --out writes a comparison file that agrees with compare --jso
     // Layout (tools/io/HDF5_LAYOUT.md, our own spec).
     const h5::InputFile f(out.string());
     CHECK(f.text_attribute("/", "kind") == "comparison");
-    CHECK(f.number_attribute("/", "schema_version") == 8);
+    CHECK(f.number_attribute("/", "schema_version") == 9);
     CHECK(f.number_attribute("/", "replications") == kDays);
     CHECK(f.number_attribute("/", "seed") == 7);
     CHECK(f.number_attribute("/", "step_m") == 2.0);

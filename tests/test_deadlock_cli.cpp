@@ -169,6 +169,40 @@ TEST_CASE("A deadlocked single day shows what it did and who waits, never a punc
     CHECK(w["summary"]["punctuality"][0]["share"].is_number());
 }
 
+TEST_CASE("A day file keeps a link wait of a deadlocked day", "[cli][deadlock][links]") {
+    // tools/io/HDF5_LAYOUT.md /day/deadlock, fields link and link_from (schema 9): written by
+    // simulate, read back by read_results, the same as the JSON says.
+    TempDir dir;
+    const fs::path h5 = dir.path / "day.h5";
+    const Result r = run_knockon("simulate " + q(kSource + "/tests/data/links/crew_link_deadlock.yaml") +
+                                     " --delay UP1:entry:45 --order first-come --allow-deadlock --json --out " + q(h5),
+                                 dir);
+    INFO(r.err);
+    REQUIRE(r.status == 0);
+    const json j = json::parse(r.out);
+    std::size_t links = 0;
+    for (const json& w : j["deadlock"]["waiting"])
+        if (w["waits_for"] == "link") {
+            ++links;
+            CHECK(w["link"]["from"] == "UP1");
+            CHECK(w["link"]["kind"] == (w["train"] == "DN2" ? "crew" : "turnaround"));
+        }
+    CHECK(links == 2);
+    const knockon::ResultsFile file = knockon::read_results(h5.string());
+    REQUIRE(file.day);
+    const knockon::SimResult& day = *file.day;
+    std::size_t read = 0;
+    for (const knockon::DeadlockWait& w : day.deadlock.waiting) {
+        if (w.waits_for != knockon::DeadlockWait::For::link) continue;
+        ++read;
+        CHECK(day.train_ids[w.link_from] == "UP1");
+        CHECK(w.link_kind ==
+              (day.train_ids[w.train] == "DN2" ? knockon::LinkKind::crew : knockon::LinkKind::turnaround));
+    }
+    CHECK(read == 2);
+    CHECK(day.deadlock.description == j["deadlock"]["description"].get<std::string>());
+}
+
 TEST_CASE("compare with deadlocked days pairs the complete days and exits 3 unless allowed",
           "[cli][compare][deadlock]") {
     TempDir dir;

@@ -197,7 +197,7 @@ TEST_CASE("Deadlock report wording for every kind of wait", "[sim][deadlock]") {
           "C3 stands at signal U05 (15.3 km) since 06:10:00, waiting for the route from U05: section S:1-2 free but "
           "promised to D4, planned to use it first; section S:2-3 out of use (disruption)");
     CHECK(where_it_stands(entry) == "outside the line");
-    CHECK(what_it_waits_for(route) == "for the route from U05");
+    CHECK(what_it_waits_for(route, trains) == "for the route from U05");
 
     // No circle: the chain from the first waiting train down to the one that keeps the rest.
     // (A1 waits for B2; B2 waits for nothing a train holds: it cannot see its signal.)
@@ -219,7 +219,7 @@ TEST_CASE("Deadlock report wording for every kind of wait", "[sim][deadlock]") {
     // The names in files and JSON, both ways.
     for (DeadlockWait::For k : {DeadlockWait::For::appear, DeadlockWait::For::enter, DeadlockWait::For::entry_view,
                                 DeadlockWait::For::route, DeadlockWait::For::view, DeadlockWait::For::request,
-                                DeadlockWait::For::other})
+                                DeadlockWait::For::link, DeadlockWait::For::other})
         CHECK(wait_from_name(wait_name(k)) == k);
     for (DeadlockBlock::By k : {DeadlockBlock::By::held, DeadlockBlock::By::promised, DeadlockBlock::By::disruption})
         CHECK(block_from_name(block_name(k)) == k);

@@ -13,10 +13,12 @@
 #include <cstdio>
 #include <fstream>
 #include <functional>
+#include <map>
 #include <optional>
 #include <nlohmann/json.hpp>
 #include <regex>
 #include <string>
+#include <tuple>
 #include <vector>
 
 #include "models/plan.hpp"
@@ -25,6 +27,7 @@
 #include "tools/io/chart_kit.hpp"
 #include "tools/io/hdf5_read.hpp"
 #include "tools/io/plan_charts.hpp"
+#include "tools/io/results_file.hpp"
 #include "tools/io/scenario_reader.hpp"
 #include "results_test_support.hpp"
 
@@ -608,4 +611,128 @@ TEST_CASE("the verdict of a day file lists the day's top sources of knock-on as 
     // A day file holds no knock-on per buffer: that list says so.
     CHECK(count_class(verdict, "not-given") == 1);
     CHECK(div_of(verdict, "top-buffers").find("a day file holds no knock-on per buffer") != std::string::npos);
+}
+
+TEST_CASE("the verdict of a comparison lists each variant's top sources and buffers as the file holds them",
+          "[report][cli]") {
+    TempDir dir;
+    const fs::path h5 = dir.path / "cmp.h5";
+    const Result r = run_knockon("compare " + q(kSource + "/scenarios/demo.yaml") +
+                                     " --variants base,shorter_blocks --replications 12 --out " + q(h5),
+                                 dir);
+    INFO(r.err);
+    REQUIRE(r.status == 0);
+    const knockon::ResultsFile file = knockon::read_results(h5.string());
+    REQUIRE(file.variants.size() == 2);
+    const std::string verdict = section_of(report_page(h5.string(), dir), "verdict");
+    CHECK(count_class(verdict, "not-given") == 0);
+    for (const knockon::VariantFigures& v : file.variants) {
+        INFO("variant " << v.name);
+        REQUIRE(v.study.attribution);
+        const knockon::StoredAttribution& a = *v.study.attribution;
+        // The file's figures as the JSON would give them (mean and half-width in seconds), its
+        // sources in its order (the largest damage first), its buffers in its order.
+        auto estimate = [](const knockon::Estimate& e) {
+            return json{{"mean", e.mean}, {"ci95_half_width", e.half_width}};
+        };
+        std::vector<std::vector<std::string>> sources, buffers;
+        for (const knockon::StoredAttribution::Source& s : a.sources) {
+            json j = {{"kind", s.kind}, {"train", s.train}, {"place", s.place}, {"section", s.section}};
+            sources.push_back({std::to_string(sources.size() + 1), source_words(j), minutes_ci(estimate(s.damage))});
+            if (sources.size() == 3) break;
+        }
+        for (const knockon::StoredAttribution::Through& t : a.through) {
+            if (t.kind != "buffer") continue;
+            buffers.push_back({std::to_string(buffers.size() + 1), t.leader + " -> " + t.follower,
+                               minutes_ci(estimate(t.knock_on))});
+            if (buffers.size() == 3) break;
+        }
+        REQUIRE(sources.size() == 3);   // the demo's 12 days have knock-on from many sources
+        REQUIRE(buffers.size() == 3);
+        const auto top_sources = rows_of(div_of(verdict, "top-sources-" + v.name));
+        REQUIRE(top_sources.size() == 4);   // the header and three rows
+        CHECK(top_sources[0] == std::vector<std::string>{"", "source", "knock-on per day"});
+        for (std::size_t i = 0; i < 3; ++i) CHECK(top_sources[i + 1] == sources[i]);
+        const auto top_buffers = rows_of(div_of(verdict, "top-buffers-" + v.name));
+        REQUIRE(top_buffers.size() == 4);
+        for (std::size_t i = 0; i < 3; ++i) CHECK(top_buffers[i + 1] == buffers[i]);
+        CHECK(a.sources[0].damage.mean >= a.sources[1].damage.mean);   // the largest first (common practice, no source)
+        CHECK(verdict.find("Top three sources of knock-on delay: " + v.name) != std::string::npos);
+    }
+}
+
+TEST_CASE("the traced day's three largest delay trees are drawn as the day's JSON attribution edges give them",
+          "[report][cli]") {
+    TempDir dir;
+    const fs::path h5 = dir.path / "day.h5";
+    const Result r = run_knockon("simulate " + q(kSource + "/scenarios/demo.yaml") +
+                                     " --delay SU-0700:entry:8 --delay FU-0708:dwell@HBT:4 --delay SD-1710:entry:12"
+                                     " --json --out " + q(h5),
+                                 dir);
+    INFO(r.err);
+    REQUIRE(r.status == 0);
+    const json doc = json::parse(r.out);
+    // Trees by all the knock-on their source caused, largest first (the lower source number on a
+    // tie); what passed from train to train in each: edges of one causing train, receiving train
+    // and place, and cause, summed (our own rule, README "Reports of results").
+    std::map<std::uint32_t, double> damage;
+    for (const json& e : doc["attribution"]["edges"]) damage[e["source"].get<std::uint32_t>()] += e["seconds"].get<double>();
+    std::vector<std::pair<std::uint32_t, double>> ranked(damage.begin(), damage.end());
+    std::stable_sort(ranked.begin(), ranked.end(), [](const auto& a, const auto& b) { return a.second > b.second; });
+    REQUIRE(ranked.size() >= 3);   // three late trains, each passing knock-on on
+    using Key = std::tuple<std::size_t, std::string, std::string, std::string, std::string>;   // tree, from, to, place, cause
+    std::map<Key, double> want;
+    for (std::size_t k = 0; k < 3; ++k)
+        for (const json& e : doc["attribution"]["edges"])
+            if (e["source"].get<std::uint32_t>() == ranked[k].first && e.contains("from_train"))
+                want[{k + 1, e["from_train"].get<std::string>(), e["to_train"].get<std::string>(),
+                      e["place"].get<std::string>(), e["cause"].get<std::string>()}] += e["seconds"].get<double>();
+    REQUIRE(!want.empty());
+
+    // The whole day in the window, so that every arrow is drawn.
+    const std::string diagram = section_of(report_page(h5.string(), dir, " --all"), "time-distance");
+    static const std::regex arrow(
+        R"re(<line [^>]*class="tree-arrow tree-(\d)" data-tree="\d" data-from="([^"]*)" data-to="([^"]*)" data-place="([^"]*)" data-cause="([^"]*)" data-seconds="([^"]*)")re");
+    std::map<Key, double> drawn;
+    std::size_t arrows = 0;
+    for (auto m = std::sregex_iterator(diagram.begin(), diagram.end(), arrow); m != std::sregex_iterator(); ++m) {
+        ++arrows;
+        drawn[{std::stoul((*m)[1].str()), (*m)[2].str(), (*m)[3].str(), (*m)[4].str(), (*m)[5].str()}] +=
+            std::stod((*m)[6].str());
+    }
+    CHECK(arrows == want.size());   // one arrow per causing train, delayed train and place
+    CHECK(count_class(diagram, "tree-head") == arrows + 3);   // a head per arrow and per legend entry
+    REQUIRE(drawn.size() == want.size());
+    for (const auto& [key, seconds] : want) {
+        INFO("tree " << std::get<0>(key) << " " << std::get<1>(key) << " -> " << std::get<2>(key) << " at "
+                     << std::get<3>(key));
+        REQUIRE(drawn.count(key));
+        CHECK(drawn[key] == Approx(seconds).margin(1e-3));
+    }
+    // The legend names each tree's source and all its knock-on, largest first.
+    for (std::size_t k = 0; k < 3; ++k) {
+        const json* source = nullptr;
+        for (const json& s : doc["attribution"]["sources"])
+            if (s["id"].get<std::uint32_t>() == ranked[k].first) source = &s;
+        REQUIRE(source);
+        char minutes[32];
+        std::snprintf(minutes, sizeof minutes, "%.1f", ranked[k].second / 60.0);
+        CHECK(unescape(diagram).find("delay tree " + std::to_string(k + 1) + ": " + source_words(*source) + ", " +
+                                     minutes + " min of knock-on") != std::string::npos);
+    }
+}
+
+TEST_CASE("a study's traced day is drawn with its delay trees", "[report][cli]") {
+    // A traced day keeps edges of sources that caused no knock-on (0 s), which no source row
+    // names: the report reads them and draws the trees that did cause some.
+    TempDir dir;
+    const fs::path h5 = dir.path / "study.h5";
+    const Result r = run_knockon("simulate " + q(kSource + "/scenarios/demo.yaml") +
+                                     " --replications 8 --traces sample:2 --out " + q(h5),
+                                 dir);
+    INFO(r.err);
+    REQUIRE(r.status == 0);
+    const std::string diagram = section_of(report_page(h5.string(), dir, " --all"), "time-distance");
+    CHECK(count_class(diagram, "tree-arrow") > 0);
+    CHECK(diagram.find("delay tree 1: ") != std::string::npos);
 }

@@ -246,7 +246,7 @@ TEST_CASE("report of a results file: bad input gives exit status 2 and no file",
     check_refused("report " + q(weather) + " -o " + q(html), dir, html,
                   "root attribute kind is 'weather'; known kinds: day, study, comparison");
     // Schemas this knockon does not read: a newer one, and the first (day files without kind).
-    for (const int schema : {9, 1}) {
+    for (const int schema : {10, 1}) {
         const fs::path other = dir.path / ("schema" + std::to_string(schema) + ".h5");
         knockon::h5::OutputFile out(other.string());
         {
@@ -256,7 +256,7 @@ TEST_CASE("report of a results file: bad input gives exit status 2 and no file",
         }
         out.commit();
         check_refused("report " + q(other) + " -o " + q(html), dir, html,
-                      schema == 9 ? "schema version 9 is newer than this knockon reads (up to 8)"
+                      schema == 10 ? "schema version 10 is newer than this knockon reads (up to 9)"
                                   : "schema version 1 is older than this knockon reads");
     }
     const fs::path foreign = dir.path / "foreign.h5";

@@ -161,7 +161,7 @@ TEST_CASE("HDF5 results: every dataset exists with its record count", "[sim_hdf5
           Names{"from", "to", "connection", "arrival", "departure", "waited", "missed"});
     CHECK(f.field_names("/day/trajectories") == Names{"train", "time", "position", "chainage", "speed"});
     CHECK(f.field_names("/day/deadlock") == Names{"train", "waits_for", "chainage", "station", "since", "signal",
-                                                  "route_set", "read_from", "text"});
+                                                  "route_set", "read_from", "link", "link_from", "text"});
     CHECK(f.field_names("/day/deadlock_blocks") == Names{"train", "section", "by", "holder"});
 
     for (const char* name : kDatasets) {
@@ -247,7 +247,7 @@ TEST_CASE("HDF5 results: root and /day attributes", "[sim_hdf5]") {
 
     // Layout of tools/io/HDF5_LAYOUT.md (our own spec).
     CHECK(f.attr_class("/", "schema_version") == H5T_INTEGER);
-    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 8);
+    CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 9);
     CHECK(f.text_attr("/", "kind") == "day");
     CHECK(f.text_attr("/", "variant") == "base");
     CHECK(f.number_attr<double>("/", "step_m", H5T_NATIVE_DOUBLE) == 1.5);

@@ -102,6 +102,8 @@ PRESETS = {
             "section#time-distance svg.knockon-chart.time-distance",
             "svg.knockon-chart.time-distance .train-path",
             "svg.knockon-chart.time-distance .asrun-path",
+            # The traced day's largest delay trees, drawn as arrows over the as-run paths.
+            "svg.knockon-chart.time-distance .delay-trees line.tree-arrow",
             "svg.knockon-chart.time-distance .block",
             "section#delays svg.knockon-chart",
             "section#delays svg.knockon-chart .bar",

@@ -6,6 +6,9 @@
 #include <limits>
 #include <map>
 #include <stdexcept>
+#include <tuple>
+
+#include "tools/io/attribution_output.hpp"
 
 namespace knockon {
 
@@ -213,6 +216,78 @@ AsRunOverlay as_run_overlay(const SimResult& day, const Scenario& scenario, cons
                             const std::string& label) {
     if (!scenario.network) return as_run_overlay(day, scenario.infrastructure, plan, label);
     return overlay_in(day, plan, label, PathWhere{});
+}
+
+namespace {
+
+// The time a path (time-ordered, never running back) passes chainage x, or the point of it
+// nearest x in chainage where it never does.
+svg::Point where_path_meets(const std::vector<svg::Point>& p, double x) {
+    for (std::size_t i = 1; i < p.size(); ++i) {
+        const double lo = std::min(p[i - 1].y, p[i].y), hi = std::max(p[i - 1].y, p[i].y);
+        if (x < lo || x > hi) continue;
+        const double f = hi > lo ? (x - p[i - 1].y) / (p[i].y - p[i - 1].y) : 0.0;
+        return {p[i - 1].x + f * (p[i].x - p[i - 1].x), x};
+    }
+    return std::fabs(p.front().y - x) <= std::fabs(p.back().y - x) ? p.front() : p.back();
+}
+
+}  // namespace
+
+std::vector<AsRunTree> largest_delay_trees(const SimResult& day, const StoredDelayTrees& trees,
+                                           const AsRunOverlay& overlay, const Infrastructure& infra,
+                                           const PlanResult& plan, std::size_t count) {
+    std::map<std::uint32_t, double> damage;   // source -> all its knock-on
+    for (const StoredDelayTrees::Edge& e : trees.edges)
+        if (e.seconds > 0.0) damage[e.source] += e.seconds;
+    std::vector<std::pair<std::uint32_t, double>> ranked(damage.begin(), damage.end());
+    std::stable_sort(ranked.begin(), ranked.end(), [](const auto& a, const auto& b) { return a.second > b.second; });
+    if (ranked.size() > count) ranked.resize(count);
+
+    const std::map<std::string, std::size_t> index = plan_index(plan);
+    auto plan_train = [&](std::uint32_t t) -> std::optional<std::size_t> {
+        if (t >= day.train_ids.size()) return std::nullopt;
+        const auto it = index.find(day.train_ids[t]);
+        return it == index.end() ? std::nullopt : std::optional<std::size_t>(it->second);
+    };
+    std::map<std::size_t, const std::vector<svg::Point>*> path_of;   // plan train -> as-run path
+    for (const AsRunPath& p : overlay.paths) path_of[p.train] = &p.points;
+    std::map<std::string, double> station_at;
+    for (const Station& s : infra.stations) station_at[s.id] = s.at;
+
+    std::vector<AsRunTree> out;
+    for (const auto& [source, total] : ranked) {
+        AsRunTree tree;
+        const auto s = trees.sources.find(source);
+        tree.label = s == trees.sources.end() ? "source " + std::to_string(source)
+                                              : describe_source(s->second.kind, s->second.train, s->second.place,
+                                                                s->second.section);
+        tree.damage = total;
+        // (causing train, record, cause) -> seconds, in that order
+        std::map<std::tuple<std::uint32_t, std::uint32_t, std::string>, double> summed;
+        for (const StoredDelayTrees::Edge& e : trees.edges)
+            if (e.source == source && e.from != StoredDelayTrees::kNoTrain) summed[{e.from, e.record, e.cause}] += e.seconds;
+        for (const auto& [key, seconds] : summed) {
+            const auto& [from, record, cause] = key;
+            const TimingRecord& r = day.timing[record];
+            const auto a = plan_train(from), b = plan_train(r.train);
+            const auto x = station_at.find(r.station);
+            if (!a || !b || x == station_at.end() || !path_of.count(*a)) continue;
+            const double when = std::isfinite(r.departure) ? r.departure : r.arrival;
+            if (!std::isfinite(when)) continue;
+            AsRunArrow arrow;
+            arrow.from_train = *a;
+            arrow.to_train = *b;
+            arrow.place = r.station;
+            arrow.cause = cause;
+            arrow.from = where_path_meets(*path_of[*a], x->second);
+            arrow.to = {when, x->second};
+            arrow.seconds = seconds;
+            tree.arrows.push_back(std::move(arrow));
+        }
+        out.push_back(std::move(tree));
+    }
+    return out;
 }
 
 std::vector<std::string> unknown_trains(const SimResult& day, const PlanResult& plan) {

@@ -12,6 +12,7 @@
 #include "sim/sim_result.hpp"
 #include "sim/study.hpp"
 #include "tools/io/plan_charts.hpp"
+#include "tools/io/results_file.hpp"
 
 namespace knockon {
 
@@ -52,6 +53,17 @@ AsRunOverlay as_run_overlay(const SimResult& day, const Scenario& scenario, cons
 // as-run departure, or of its arrival where it has no departure (a terminus); the earliest hour on a
 // tie.  nullopt when no record has knock-on.
 std::optional<LossHour> worst_knock_on_hour(const SimResult& day);
+
+// The `count` largest delay trees of `day` (by all the knock-on their source caused, the lower
+// source number on a tie) as arrows over the as-run paths of `overlay`: an arrow per causing
+// train and receiving timing record (edges of one tree, cause and record summed), from the
+// causing train's path where it passes the place (or, if it never does, the end of its path
+// nearest it: a link's earlier train ending elsewhere) to the delayed train at that timing point
+// as it left it (arrived, where it did not leave).  Knock-on with no train as its cause (a
+// disruption, the dispatcher) counts in a tree's damage but draws no arrow.
+std::vector<AsRunTree> largest_delay_trees(const SimResult& day, const StoredDelayTrees& trees,
+                                           const AsRunOverlay& overlay, const Infrastructure& infra,
+                                           const PlanResult& plan, std::size_t count = 3);
 
 // Train ids of `day` that the plan does not know (the scenario changed since the run).
 std::vector<std::string> unknown_trains(const SimResult& day, const PlanResult& plan);

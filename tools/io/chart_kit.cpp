@@ -157,6 +157,13 @@ const std::string& chart_css() {
 .knockon-chart polyline.asrun-halo { fill: none; stroke: #ffffff; stroke-width: 5; stroke-opacity: 0.85; stroke-linejoin: round; }
 .knockon-chart polyline.asrun-path, .knockon-chart line.legend-asrun { fill: none; stroke-width: 2.6; stroke-linejoin: round; }
 .knockon-chart .asrun-hold, .knockon-chart .legend-hold { stroke: #000000; stroke-width: 4.5; }
+.knockon-chart .tree-arrow, .knockon-chart .legend-tree { fill: none; stroke-width: 1.6; }
+.knockon-chart .tree-head { stroke: none; }
+.knockon-chart .tree-1 { stroke: #c2185b; fill: #c2185b; }
+.knockon-chart .tree-2 { stroke: #00796b; fill: #00796b; }
+.knockon-chart .tree-arrow.tree-2, .knockon-chart .legend-tree.tree-2 { stroke-dasharray: 6 3; }
+.knockon-chart .tree-3 { stroke: #8d6e00; fill: #8d6e00; }
+.knockon-chart .tree-arrow.tree-3, .knockon-chart .legend-tree.tree-3 { stroke-dasharray: 2 2.5; stroke-width: 2; }
 .knockon-chart .block, .knockon-chart .legend-block { stroke-width: 0.5; fill-opacity: 0.2; stroke-opacity: 0.55; }
 .knockon-chart .cat-0 { stroke: #1b3b6f; fill: #1b3b6f; }
 .knockon-chart .cat-1 { stroke: #b8660b; fill: #b8660b; }

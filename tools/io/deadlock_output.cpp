@@ -2,6 +2,7 @@
 
 #include <cmath>
 
+#include "models/links.hpp"
 #include "models/units.hpp"
 #include "sim/deadlock_text.hpp"
 
@@ -75,6 +76,16 @@ std::size_t deadlocked_days(const std::vector<NamedSummary>& variants) {
     return n;
 }
 
+namespace {
+
+// A link wait's link: its kind and the earlier train it waits for; null for any other wait.
+nlohmann::json link_json(const DeadlockWait& w, const std::vector<std::string>& train_ids) {
+    if (w.waits_for != DeadlockWait::For::link) return nullptr;
+    return {{"kind", to_string(w.link_kind)}, {"from", name_of(train_ids, w.link_from)}};
+}
+
+}  // namespace
+
 nlohmann::json day_deadlock_json(const DeadlockReport& d, const std::vector<std::string>& train_ids,
                                  const std::vector<std::string>& section_names, std::size_t unfinished) {
     nlohmann::json j = {{"deadlocked", d.deadlocked},
@@ -99,6 +110,7 @@ nlohmann::json day_deadlock_json(const DeadlockReport& d, const std::vector<std:
                                 {"route_set", number_or_null(w.route_set)},
                                 {"read_from_m", number_or_null(w.read_from)},
                                 {"blocks", blocks},
+                                {"link", link_json(w, train_ids)},
                                 {"text", describe_wait(w, train_ids, section_names)}});
     }
     return j;

@@ -1,6 +1,8 @@
 #include "tools/io/network_reader.hpp"
 
+#include "models/network/network_paths.hpp"
 #include "models/network/runs.hpp"
+#include "tools/io/link_fields.hpp"
 
 #include <map>
 #include <set>
@@ -329,7 +331,7 @@ private:
     // ---------------------------------------------------------------- timetable
 
     void read_timetable(const YAML::Node& node, const std::string& path) {
-        MapFields t(errors_, node, path, {"rounding", "services"});
+        MapFields t(errors_, node, path, {"rounding", "services", "links"});
         if (!t.ok()) return;
         if (auto v = yamlio::ranged(t, "rounding", Input::rounding, false)) out_.timetable.rounding = *v;
         each(t, "services", true, [&](const MapFields& f) { service(f); },
@@ -519,6 +521,29 @@ NetworkFile parse_network(const std::string& yaml_text, const std::string& file_
 
 NetworkFile read_network(const std::string& path, const std::string& variant) {
     return parse_network(read_scenario_text(path), path, variant);
+}
+
+Scenario parse_network_scenario(const std::string& yaml_text, const std::string& file_name,
+                                const std::string& variant) {
+    Scenario sc = network_scenario(parse_network(yaml_text, file_name, variant));
+    // Links name the runs, so they are read once the runs are made, against the network's paths.
+    ErrorList errors(file_name);
+    const YAML::Node root = yamlio::variant_document(yaml_text, variant, errors);
+    const YAML::Node tt = root["timetable"];
+    if (tt && tt.IsMap() && tt["links"]) {
+        const MapFields t(errors, tt, "timetable", {"rounding", "services", "links"});
+        const NetworkPaths paths(sc);
+        sc.sources.links.assign(sc.timetable.links.size(), std::string());   // the reversals': at their services
+        const net::Network& n = sc.network->network;
+        yamlio::read_links(errors, t, sc.timetable.services,
+                           [&](const std::string& id) -> std::optional<std::string> {
+                               if (n.find_station(id) != kNone) return std::nullopt;
+                               return "no station has the id \"" + id + "\"";
+                           },
+                           &paths, sc.timetable.links, sc.sources.links);
+    }
+    if (!errors.empty()) throw ScenarioError(errors.messages());
+    return sc;
 }
 
 Scenario network_scenario(NetworkFile file) {

@@ -48,4 +48,9 @@ NetworkFile read_network(const std::string& path, const std::string& variant = "
 // reversals as links, the corridors as written or the default ones.
 Scenario network_scenario(NetworkFile file);
 
+// A network file read as a scenario: parse_network, network_scenario, then the timetable's links
+// between the runs (README "Links"), located in the file.  Throws ScenarioError holding every problem.
+Scenario parse_network_scenario(const std::string& yaml_text, const std::string& file_name,
+                                const std::string& variant = "");
+
 }  // namespace knockon

@@ -55,6 +55,55 @@ std::vector<Point> thin_in_time(const std::vector<Point>& pts, double step) {
     return out;
 }
 
+// The day's largest delay trees over the as-run paths: an arrow per piece of knock-on one train
+// passed to another, from the causing train's path to the delayed train's, in the tree's style
+// ("tree-arrow tree-K", K from 1, largest first), with what it carried in data- attributes.  An
+// arrow is cut to the window; one wholly outside it is left out.
+void draw_delay_trees(Element& doc, const AsRunOverlay& as_run, const PlanResult& plan, TimeWindow window,
+                      const svg::LinearScale& X, const svg::LinearScale& Y) {
+    if (as_run.trees.empty()) return;
+    Element& g = doc.add(svg::group("delay-trees"));
+    for (std::size_t k = 0; k < as_run.trees.size(); ++k) {
+        const AsRunTree& tree = as_run.trees[k];
+        const std::string style = "tree-" + std::to_string(k + 1);
+        for (const AsRunArrow& a : tree.arrows) {
+            if (a.from_train >= plan.trains.size() || a.to_train >= plan.trains.size()) continue;
+            Point p = a.from, q = a.to;
+            // Cut to the window in time (the head, then the tail).
+            auto at = [](const Point& u, const Point& v, double t) {
+                const double f = v.x != u.x ? (t - u.x) / (v.x - u.x) : 0.0;
+                return Point{t, u.y + f * (v.y - u.y)};
+            };
+            if ((p.x < window.from && q.x < window.from) || (p.x > window.to && q.x > window.to)) continue;
+            if (p.x < window.from) p = at(p, q, window.from);
+            if (p.x > window.to) p = at(p, q, window.to);
+            if (q.x < window.from) q = at(p, q, window.from);
+            if (q.x > window.to) q = at(p, q, window.to);
+            const std::string from = plan.trains[a.from_train].run.service->id;
+            const std::string to = plan.trains[a.to_train].run.service->id;
+            const double x1 = X(p.x), y1 = Y(p.y), x2 = X(q.x), y2 = Y(q.y);
+            g.add(svg::line(x1, y1, x2, y2, "tree-arrow " + style))
+                .attr("data-tree", static_cast<double>(k + 1))
+                .attr("data-from", from)
+                .attr("data-to", to)
+                .attr("data-place", a.place)
+                .attr("data-cause", a.cause)
+                .attr("data-seconds", svg::number(a.seconds, 3))
+                .tooltip("delay tree " + std::to_string(k + 1) + " (" + tree.label + "): " +
+                         svg::number(a.seconds / 60.0, 1) + " min passed from " + from + " to " + to + " at " +
+                         a.place + (a.cause == "link" ? " (a link)" : " (it held a section)"));
+            // The head: a small triangle pointing along the arrow at the delayed train.
+            const double len = std::hypot(x2 - x1, y2 - y1);
+            const double ux = len > 1e-9 ? (x2 - x1) / len : 1.0, uy = len > 1e-9 ? (y2 - y1) / len : 0.0;
+            const double b1x = x2 - 7.0 * ux - 3.5 * uy, b1y = y2 - 7.0 * uy + 3.5 * ux;
+            const double b2x = x2 - 7.0 * ux + 3.5 * uy, b2y = y2 - 7.0 * uy - 3.5 * ux;
+            g.add(svg::path("M" + svg::number(x2) + "," + svg::number(y2) + " L" + svg::number(b1x) + "," +
+                                svg::number(b1y) + " L" + svg::number(b2x) + "," + svg::number(b2y) + " Z",
+                            "tree-head " + style));
+        }
+    }
+}
+
 // The as-run paths over the plan (each with a white halo so it stands out from the planned
 // paths and blocks beneath) and the stands at signals.
 void draw_as_run(Element& doc, const AsRunOverlay& as_run, const PlanResult& plan,
@@ -85,6 +134,7 @@ void draw_as_run(Element& doc, const AsRunOverlay& as_run, const PlanResult& pla
                      format_time_of_day(h.from) + "-" + format_time_of_day(h.to) + " (" +
                      svg::number(h.to - h.from, 0) + " s)");
     }
+    draw_delay_trees(doc, as_run, plan, window, X, Y);
 }
 
 }  // namespace
@@ -254,6 +304,17 @@ Element time_distance_chart(const DiagramAxis& dax, const PlanResult& plan, Time
     if (as_run) {
         legend.push_back({sample_line("legend-asrun cat-0"), as_run->label + " (solid, bold, in the train's colour)"});
         legend.push_back({svg::line(4, 6, 22, 6, "legend-hold"), "standing at a signal showing stop"});
+        for (std::size_t k = 0; k < as_run->trees.size(); ++k) {
+            const AsRunTree& tree = as_run->trees[k];
+            const std::string style = "tree-" + std::to_string(k + 1);
+            Element arrow = svg::group();
+            arrow.add(svg::line(2, 6, 18, 6, "legend-tree " + style));
+            arrow.add(svg::path("M24,6 L17,2.5 L17,9.5 Z", "tree-head " + style));
+            legend.push_back({std::move(arrow), "delay tree " + std::to_string(k + 1) + ": " + tree.label + ", " +
+                                                    svg::number(tree.damage / 60.0, 1) +
+                                                    " min of knock-on (arrow: from the train that passed it on "
+                                                    "to the train it delayed)"});
+        }
     }
     {
         Element block = svg::group();

@@ -79,11 +79,26 @@ struct AsRunHold {                    // a stand at a signal showing stop
     double from = 0.0, to = 0.0;      // [s]
     double chainage = 0.0;            // of the signal [m] (on a network: along the train's path)
 };
+// Knock-on one train passed to another on the day (an edge of a delay tree, tools/io/as_run):
+// from the causing train's path to the delayed train's at the place and time it arrived there.
+struct AsRunArrow {
+    std::size_t from_train = 0, to_train = 0;   // indices into PlanResult::trains
+    std::string place;                          // the delayed train's timing point
+    std::string cause;                          // "train" (it held a section) or "link"
+    svg::Point from, to;                        // (time [s], chainage [m])
+    double seconds = 0.0;
+};
+struct AsRunTree {                    // the knock-on one source of delay started that day
+    std::string label;                // the source, in words
+    double damage = 0.0;              // all of its knock-on [s]
+    std::vector<AsRunArrow> arrows;   // the part of it passed from train to train
+};
 struct AsRunOverlay {
     std::string label;                // for the legend, e.g. "as run, replication 7"
     bool along_path = false;          // points lie along each train's path (a network), not by chainage
     std::vector<AsRunPath> paths;
     std::vector<AsRunHold> holds;
+    std::vector<AsRunTree> trees;     // the day's largest delay trees, largest first (may be none)
 };
 
 // With `as_run`, the planned paths are drawn lighter ("dimmed") and the as-run paths over them,

@@ -206,7 +206,7 @@ Estimate mean_estimate(double mean, double half, std::size_t n) {
 
 // The trains a deadlocked day left waiting, /deadlock and /deadlock_blocks of a day group
 // (schema 4 and later).
-void read_deadlock(const h5::InputFile& f, const std::string& g, SimResult& day) {
+void read_deadlock(const h5::InputFile& f, const std::string& g, SimResult& day, int schema) {
     const std::size_t trains = day.train_ids.size(), sections = day.section_names.size();
     std::map<std::uint32_t, std::size_t> wait_of;   // train -> its entry
     {
@@ -215,6 +215,10 @@ void read_deadlock(const h5::InputFile& f, const std::string& g, SimResult& day)
         const auto kind = t.text("waits_for"), station = t.text("station"), signal = t.text("signal");
         const auto chainage = t.num("chainage", kMetresOrNaN), since = t.num("since", kClockOrNaN),
                    set = t.num("route_set", kClockOrNaN), read_from = t.num("read_from", kMetresOrNaN);
+        // The link a link wait waits for (schema 9; older files have no link waits).
+        const bool has_links = schema >= 9;
+        const auto link = has_links ? t.text("link") : std::vector<std::string>(t.rows());
+        const auto link_from = has_links ? t.text("link_from") : std::vector<std::string>(t.rows());
         for (std::size_t i = 0; i < t.rows(); ++i) {
             const auto waits = wait_from_name(kind[i]);
             if (!waits)
@@ -228,6 +232,15 @@ void read_deadlock(const h5::InputFile& f, const std::string& g, SimResult& day)
             w.signal = signal[i];
             w.route_set = set[i];
             w.read_from = read_from[i];
+            if (w.waits_for == DeadlockWait::For::link) {
+                const auto kind_of_link = link_kind_from_name(link[i]);
+                const auto from = std::find(day.train_ids.begin(), day.train_ids.end(), link_from[i]);
+                if (!kind_of_link || from == day.train_ids.end())
+                    throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) +
+                                           " waits for a link but names no kind of link or earlier train of the day");
+                w.link_kind = *kind_of_link;
+                w.link_from = static_cast<std::uint32_t>(from - day.train_ids.begin());
+            }
             wait_of[w.train] = day.deadlock.waiting.size();
             day.deadlock.waiting.push_back(std::move(w));
         }
@@ -263,7 +276,7 @@ SimResult read_day_group(const h5::InputFile& f, const std::string& g, int schem
     day.section_names = ids(f, g + "/sections");
     const std::size_t trains = day.train_ids.size(), sections = day.section_names.size();
     if (f.has_attribute(g, "deadlock_cause")) day.deadlock.cause = f.text_attribute(g, "deadlock_cause");
-    if (f.exists(g + "/deadlock")) read_deadlock(f, g, day);
+    if (f.exists(g + "/deadlock")) read_deadlock(f, g, day, schema);
 
     {
         const Table t(f, g + "/timing");
@@ -771,6 +784,56 @@ ResultsFile read_results(const std::string& path) {
                 out.traced = traced_replications(f, out.study->summary.replications);
                 break;
             case ResultsKind::comparison: read_comparison(f, out); break;
+        }
+        return out;
+    } catch (const h5::Error& e) {
+        throw ResultsFileError(e.what());
+    }
+}
+
+std::optional<StoredDelayTrees> read_delay_trees(const std::string& path, std::optional<std::uint32_t> replication,
+                                                 const SimResult& day) {
+    try {
+        const h5::InputFile f(path);
+        const std::string g = replication ? "/replications/" + replication_group_name(*replication) : "/day";
+        if (read_facts(f).schema_version < 8 || !f.exists(g + "/attribution_edges") ||
+            !f.exists(g + "/attribution_sources"))
+            return std::nullopt;
+        StoredDelayTrees out;
+        {
+            const Table t(f, g + "/attribution_sources");
+            const auto number = t.num("source", kCount32);
+            const auto kind = t.text("kind"), place = t.text("place");
+            const auto train = names_or_empty(f, t, "train", day.train_ids, "trains");
+            const auto section = names_or_empty(f, t, "section", day.section_names, "sections");
+            const auto damage = t.num("damage", kSeconds);
+            for (std::size_t i = 0; i < t.rows(); ++i) {
+                check_source_kind(f, t, i, kind[i]);
+                StoredAttribution::Source x{kind[i], train[i], place[i], section[i], Estimate{}};
+                x.damage.mean = damage[i];
+                x.damage.n = 1;
+                out.sources[static_cast<std::uint32_t>(number[i])] = std::move(x);
+            }
+        }
+        const Table t(f, g + "/attribution_edges");
+        const auto source = t.num("source", kCount32);
+        const auto cause = t.text("cause");
+        const auto from = t.num("from_train", Rule{0.0, 4294967295.0, true, true, "a whole number below 2^32, or NaN"});
+        const auto record = t.index("record", day.timing.size(), "timing");
+        const auto seconds = t.num("seconds", kSeconds);
+        for (std::size_t i = 0; i < t.rows(); ++i) {
+            // (a source that caused no knock-on has no row in attribution_sources, but may have
+            // edges of 0 s)
+            if (!std::isnan(from[i]) && !(from[i] < static_cast<double>(day.train_ids.size())))
+                throw ResultsFileError(f.path() + ": " + t.path() + ": record " + std::to_string(i) +
+                                       ", field 'from_train' names no train of the day");
+            StoredDelayTrees::Edge e;
+            e.source = static_cast<std::uint32_t>(source[i]);
+            e.cause = cause[i];
+            e.from = std::isnan(from[i]) ? StoredDelayTrees::kNoTrain : static_cast<std::uint32_t>(from[i]);
+            e.record = record[i];
+            e.seconds = seconds[i];
+            out.edges.push_back(std::move(e));
         }
         return out;
     } catch (const h5::Error& e) {

@@ -9,6 +9,7 @@
 // out of range, a newer schema) throws ResultsFileError naming the file, the object and what is
 // wrong.
 #include <cstdint>
+#include <map>
 #include <optional>
 #include <stdexcept>
 #include <string>
@@ -109,6 +110,27 @@ ResultsFile read_results(const std::string& path);
 
 // A traced day of a study file, /replications/<k> (routes are not read).
 SimResult read_traced_day(const std::string& path, std::uint32_t replication);
+
+// A day's delay trees as a results file keeps them (/attribution_sources and /attribution_edges
+// of a day group, schema 8 and later): each source that caused knock-on, by its number in the
+// day, and the edges, knock-on `seconds` that `source` passed from train `from` (the holder or
+// the link's earlier train; kNoTrain for a cause that is no train) to timing record `record`.
+struct StoredDelayTrees {
+    static constexpr std::uint32_t kNoTrain = UINT32_MAX;
+    struct Edge {
+        std::uint32_t source = 0;
+        std::string cause;                 // "train", "link", "disruption", "dispatch", "none"
+        std::uint32_t from = kNoTrain;     // index into the day's trains
+        std::uint32_t record = 0;          // index into the day's timing records
+        double seconds = 0.0;
+    };
+    std::map<std::uint32_t, StoredAttribution::Source> sources;   // by source number
+    std::vector<Edge> edges;
+};
+// Of the day file's /day (no replication) or a study's traced day /replications/<k>; nothing
+// where the file holds no delay trees.  `day` is that day as read.
+std::optional<StoredDelayTrees> read_delay_trees(const std::string& path, std::optional<std::uint32_t> replication,
+                                                 const SimResult& day);
 
 namespace h5 {
 class InputFile;

@@ -5,6 +5,7 @@
 #include <cstdio>
 #include <map>
 
+#include "models/links.hpp"
 #include "models/units.hpp"
 #include "sim/day_summary.hpp"
 #include "sim/attribution_figures.hpp"
@@ -94,6 +95,8 @@ std::string waiting_table(const SimResult& d) {
     t.numeric = {false, false, true, false, false};
     for (const DeadlockWait& w : d.deadlock.waiting) {
         std::string kept;
+        if (w.waits_for == DeadlockWait::For::link && w.link_from < d.train_ids.size())
+            kept = d.train_ids[w.link_from] + " (" + to_string(w.link_kind) + ", not arrived)";
         for (const DeadlockBlock& b : w.blocks) {
             const std::string who = b.by == DeadlockBlock::By::disruption ? std::string("a disruption")
                                     : b.train < d.train_ids.size()        ? d.train_ids[b.train]
@@ -102,7 +105,7 @@ std::string waiting_table(const SimResult& d) {
                     ": " + (b.by == DeadlockBlock::By::promised ? "promised to " : "") + who;
         }
         t.rows.push_back({w.train < d.train_ids.size() ? d.train_ids[w.train] : "?", where_it_stands(w),
-                          std::isfinite(w.since) ? format_time_of_day(w.since) : "-", what_it_waits_for(w),
+                          std::isfinite(w.since) ? format_time_of_day(w.since) : "-", what_it_waits_for(w, d.train_ids),
                           kept.empty() ? "-" : kept});
     }
     return html_table(t);
@@ -180,28 +183,28 @@ std::string verdict_list(const std::string& id, const std::string& title, const 
 }
 
 // The two lists a decision starts from: where the knock-on comes from, and which buffers to widen
-// first.  They are filled from the results file's attribution of knock-on to its sources: of a
-// study each figure the mean per complete day with its 95 % interval as the file holds it, in its
-// order; of a day file the day's damage per source, largest first (the file holds no figure per
-// buffer).  A file without an attribution says so (nothing is guessed in its place).
-std::string attribution_slots(const ResultsView& v) {
-    if (!v.file->study && !v.day) return "";
-    const StoredAttribution* a = attribution_of(v);
-    const std::optional<std::vector<StoredAttribution::Source>>& day = v.file->day_sources;
-    const bool day_file = !v.file->study;
+// first.  They are filled from a results file's attribution of knock-on to its sources: of a
+// study (`a`, a study file's or one variant's of a comparison) each figure the mean per complete
+// day with its 95 % interval as the file holds it, in its order; of a day file (`day`) the day's
+// damage per source, largest first (the file holds no figure per buffer).  A file without an
+// attribution says so (nothing is guessed in its place).  `id` follows the lists' ids
+// ("top-sources<id>", "top-buffers<id>"), `of` their titles; `ranking` says whether the report
+// has the full ranking ("Where knock-on comes from") to point to.
+std::string attribution_lists(const StoredAttribution* a, const std::vector<StoredAttribution::Source>* day,
+                              const std::string& id = "", const std::string& of = "", bool ranking = true) {
     const std::string missing =
         "Not given: this results file holds no attribution of knock-on delay to the primary delays that caused it.";
     std::vector<std::pair<std::string, Estimate>> sources, buffers;
     if (a) {
         for (const StoredAttribution::Source& s : a->sources) sources.push_back({source_text(s), s.damage});
         for (const StoredAttribution::Through* b : through_of(*a, "buffer")) buffers.push_back({buffer_text(*b), b->knock_on});
-    } else if (day_file && day) {
+    } else if (day) {
         for (const StoredAttribution::Source& s : *day)
             if (s.damage.mean > 0.0) sources.push_back({source_text(s), s.damage});
         std::stable_sort(sources.begin(), sources.end(),
                          [](const auto& x, const auto& y) { return x.second.mean > y.second.mean; });
     }
-    const bool held = a || (day_file && day);
+    const bool held = a || day;
     const std::string no_sources = !held ? missing
                                    : a   ? "Not given: no knock-on on any complete day."
                                          : "Not given: no knock-on on this day.";
@@ -211,16 +214,27 @@ std::string attribution_slots(const ResultsView& v) {
                 "complete day."
               : "Not given: a day file holds no knock-on per buffer; the results file of a study (simulate "
                 "--replications N --out) has it.";
-    const std::string figure = a ? "knock-on per day" : "knock-on caused that day";
+    const std::string figure = a || !day ? "knock-on per day" : "knock-on caused that day";
     std::string html = "<div class=\"verdict-lists\">\n";
-    html += verdict_list("top-sources", "Top three sources of knock-on delay", "source", figure, sources, no_sources);
-    html += verdict_list("top-buffers", "Top three buffers to widen", "buffer (leader -> follower)", figure, buffers,
-                         no_buffers);
+    html += verdict_list("top-sources" + id, "Top three sources of knock-on delay" + of, "source", figure, sources,
+                         no_sources);
+    html += verdict_list("top-buffers" + id, "Top three buffers to widen" + of, "buffer (leader -> follower)", figure,
+                         buffers, no_buffers);
     html += "</div>\n";
     if (a && (!sources.empty() || !buffers.empty()))
-        html += html_paragraph("Mean knock-on per complete day with its 95 % interval; the full ranking is under "
-                               "\"Where knock-on comes from\".");
+        html += html_paragraph(ranking ? "Mean knock-on per complete day with its 95 % interval; the full ranking "
+                                         "is under \"Where knock-on comes from\"."
+                                       : "Mean knock-on per complete day with its 95 % interval; the full ranking "
+                                         "is in the results file.");
     return html;
+}
+
+// The lists of a study or day file.
+std::string attribution_slots(const ResultsView& v) {
+    if (!v.file->study && !v.day) return "";
+    const bool day_file = !v.file->study;
+    const auto& day = v.file->day_sources;
+    return attribution_lists(attribution_of(v), day_file && day ? &*day : nullptr);
 }
 
 ReportSection verdict_section(const ResultsView& v) {
@@ -666,8 +680,14 @@ ReportSection comparison_verdict(const ResultsView& v) {
                        html_table(s) +
                        html_paragraph(std::to_string(significant) + " of " + std::to_string(paired) +
                                       " paired differences against " + reference(v) + " have a 95 % interval that " +
-                                      "excludes 0 (marked " + kSignificantMark + " in Variants compared).") +
-                       reference_plan_headline(v);
+                                      "excludes 0 (marked " + kSignificantMark + " in Variants compared).");
+    // Per variant, the lists a study's verdict gives, from that variant's attribution.
+    for (const VariantFigures& f : vs) {
+        const StoredAttribution* a = f.study.attribution ? &*f.study.attribution : nullptr;
+        html += "<div class=\"variant-lists\" id=\"lists-" + html_escape(f.name) + "\">\n" +
+                attribution_lists(a, nullptr, "-" + html_escape(f.name), ": " + f.name, false) + "</div>\n";
+    }
+    html += reference_plan_headline(v);
     return {"verdict", "Verdict", html};
 }
 

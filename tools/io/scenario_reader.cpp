@@ -1,6 +1,6 @@
 #include "tools/io/scenario_reader.hpp"
 
-#include "tools/io/network_reader.hpp"
+#include "tools/io/link_fields.hpp"
 
 #include <algorithm>
 #include <cctype>
@@ -643,112 +643,13 @@ private:
     }
 
     void read_links(const MapFields& t) {
-        auto seq = t.sequence("links", false);
-        if (!seq) return;
-        std::map<std::string, const Service*> services;
-        for (const Service& svc : sc_.timetable.services) services[svc.id] = &svc;
         const bool paths_laid = errors_.empty();
-        std::map<std::pair<int, std::string>, std::string> used;   // (kind, side + service) -> first link's path
-        for (std::size_t i = 0; i < seq->size(); ++i) {
-            const std::string path = item(t.path_of("links"), i);
-            MapFields f(errors_, std::as_const(*seq)[i], path,
-                        {"from", "forms", "feeds", "crew_to", "at", "turnaround", "transfer", "crew_change",
-                         "max_wait"});
-            if (!f.ok()) continue;
-            ServiceLink link;
-            std::string later_key;
-            int kinds = 0;
-            for (const auto& [key, kind] : {std::pair<const char*, LinkKind>{"forms", LinkKind::turnaround},
-                                            {"feeds", LinkKind::connection},
-                                            {"crew_to", LinkKind::crew}})
-                if (f.has(key)) {
-                    ++kinds;
-                    link.kind = kind;
-                    later_key = key;
-                }
-            if (kinds != 1) {
-                f.error("", kinds == 0 ? "a link needs one of forms (turnaround), feeds (connection) or crew_to (crew link)"
-                                       : "a link is one of forms, feeds or crew_to, not several; write one link each");
-                continue;
-            }
-            const char* time_key = link.kind == LinkKind::turnaround   ? "turnaround"
-                                   : link.kind == LinkKind::connection ? "transfer"
-                                                                       : "crew_change";
-            bool ok = true;
-            // Keys of the other kinds are mistakes, not options.
-            for (const char* k : {"turnaround", "transfer", "crew_change", "max_wait", "at"}) {
-                const bool belongs = std::string_view(k) == time_key ||
-                                     (link.kind == LinkKind::connection && (std::string_view(k) == "max_wait" ||
-                                                                            std::string_view(k) == "at"));
-                if (!belongs && f.has(k)) {
-                    f.error(k, std::string("a ") + (link.kind == LinkKind::crew ? "crew link" : to_string(link.kind)) +
-                                   " (" + later_key + ") has no " + k + "; it takes " + time_key +
-                                   (link.kind == LinkKind::connection ? ", at and max_wait" : ""));
-                    ok = false;
-                }
-            }
-            auto from = f.text("from", true);
-            auto to = f.text(later_key, true);
-            auto min_time = ranged(f, time_key, Input::link_time, true);
-            if (!from || !to || !min_time) ok = false;
-            if (link.kind == LinkKind::connection) {
-                auto at = f.text("at", true);
-                auto wait = ranged(f, "max_wait", Input::link_wait, true);
-                if (!at || !wait) {
-                    ok = false;
-                } else {
-                    link.station = *at;
-                    link.max_wait = *wait;
-                    if (station_index_.find(*at) == station_index_.end()) {
-                        f.error("at", "unknown station \"" + *at + "\"; " + known_list(station_ids_));
-                        ok = false;
-                    }
-                }
-            }
-            const Service* a = nullptr;
-            const Service* b = nullptr;
-            for (const auto& [key, id, svc] : {std::tuple<const char*, const std::optional<std::string>*, const Service**>{
-                                                   "from", &from, &a},
-                                               {later_key.c_str(), &to, &b}})
-                if (*id) {
-                    auto it = services.find(**id);
-                    if (it == services.end()) {
-                        f.error(key, "unknown service \"" + **id +
-                                         "\" (runs of a repeat pattern are named by their first time, e.g. S1-0630)");
-                        ok = false;
-                    } else {
-                        *svc = it->second;
-                    }
-                }
-            if (!ok || !a || !b) continue;
-            link.from = *from;
-            link.to = *to;
-            link.min_time = *min_time;
-            if (const LinePaths* paths = paths_laid ? line_paths() : nullptr) {
-                if (auto problem = link_problem(*paths, link, *a, *b)) {
-                    f.error(link.kind == LinkKind::connection ? "at" : later_key, *problem);
-                    continue;
-                }
-            }
-            // A set forms one later service and is formed by one; a crew works one after another.
-            if (link.kind != LinkKind::connection) {
-                const int k = static_cast<int>(link.kind);
-                for (const auto& [side, key, id] : {std::tuple<const char*, const char*, std::string>{"from ", "from", link.from},
-                                                   {"to ", later_key.c_str(), link.to}}) {
-                    auto [pos, fresh] = used.emplace(std::make_pair(k, side + id), path);
-                    if (!fresh) {
-                        f.error(key, std::string("service ") + id + " is already " +
-                                         (std::string_view(side) == "from " ? "the earlier" : "the later") + " service of a " +
-                                         (link.kind == LinkKind::crew ? "crew link" : "turnaround") + " (" + pos->second +
-                                         "); a set or crew goes on to one service at a time");
-                        ok = false;
-                    }
-                }
-                if (!ok) continue;
-            }
-            sc_.timetable.links.push_back(link);
-            sc_.sources.links.push_back(yamlio::location(errors_.file(), f.node().Mark(), f.path()));
-        }
+        yamlio::read_links(errors_, t, sc_.timetable.services,
+                           [&](const std::string& id) -> std::optional<std::string> {
+                               if (station_index_.count(id)) return std::nullopt;
+                               return "unknown station \"" + id + "\"; " + known_list(station_ids_);
+                           },
+                           paths_laid ? line_paths() : nullptr, sc_.timetable.links, sc_.sources.links);
     }
 
     std::optional<ServiceSource> read_service(const YAML::Node& node, const std::string& path) {
@@ -1304,8 +1205,7 @@ YAML::Node variant_document(const std::string& yaml_text, const std::string& var
 
 }  // namespace yamlio
 
-Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
-    if (is_network_text(yaml_text)) return network_scenario(parse_network(yaml_text, file_name, variant));
+Scenario parse_line_scenario(const std::string& yaml_text, const std::string& file_name, const std::string& variant) {
     ErrorList errors(file_name);
     YAML::Node root = yamlio::variant_document(yaml_text, variant, errors);
     const bool base = yamlio::is_base_variant(variant);
@@ -1324,9 +1224,6 @@ Scenario parse_scenario(const std::string& yaml_text, const std::string& file_na
 
 std::string read_scenario_text(const std::string& path) { return read_text_file(path); }
 
-Scenario read_scenario(const std::string& path, const std::string& variant) {
-    return parse_scenario(read_text_file(path), path, variant);
-}
 
 std::vector<VariantInfo> read_variants(const std::string& path) {
     ErrorList errors(path);

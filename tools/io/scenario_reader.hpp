@@ -22,9 +22,13 @@ Scenario read_scenario(const std::string& path, const std::string& variant = "")
 // cannot): for a caller that also keeps or hashes the text it ran.
 std::string read_scenario_text(const std::string& path);
 
-// Same from text already in memory; `file_name` is used in messages and as source_file.
+// Same from text already in memory; `file_name` is used in messages and as source_file.  A
+// network file (`knockon: 2`) is read by tools/io/network_reader, a line scenario by
+// parse_line_scenario (tools/io/scenario_file.cpp chooses).
 Scenario parse_scenario(const std::string& yaml_text, const std::string& file_name,
                         const std::string& variant = "");
+Scenario parse_line_scenario(const std::string& yaml_text, const std::string& file_name,
+                             const std::string& variant = "");
 
 // The variants a file defines, in file order.  Checks only the `variants:` map itself (its
 // shape, the names, the descriptions); throws ScenarioError on those problems or when the file

@@ -5,6 +5,7 @@
 #include <stdexcept>
 #include <vector>
 
+#include "models/links.hpp"
 #include "sim/day_summary.hpp"
 #include "sim/deadlock_text.hpp"
 #include "tools/io/attribution_hdf5.hpp"
@@ -257,11 +258,15 @@ void write_trajectories(const h5::Group& day, const std::vector<TrajectorySample
 // One record per train the day left waiting, and one per section kept from such a train.
 void write_deadlock(const h5::Group& day, const SimResult& r) {
     const std::vector<DeadlockWait>& waiting = r.deadlock.waiting;
-    std::vector<std::string> texts, kinds;
+    std::vector<std::string> texts, kinds, links, link_from;
     for (const DeadlockWait& w : waiting) {
         texts.push_back(describe_wait(w, r.train_ids, r.section_names));
         kinds.push_back(wait_name(w.waits_for));
+        const bool link = w.waits_for == DeadlockWait::For::link && w.link_from < r.train_ids.size();
+        links.push_back(link ? to_string(w.link_kind) : "");
+        link_from.push_back(link ? r.train_ids[w.link_from] : "");
     }
+    auto text_of = [](auto& s) -> auto& { return s; };
     RecordTable t(day, "deadlock",
                   RecordLayout()
                       .add("train", FieldKind::u32)
@@ -272,7 +277,9 @@ void write_deadlock(const h5::Group& day, const SimResult& r) {
                       .add_text("signal", longest(waiting, [](auto& w) -> auto& { return w.signal; }))
                       .add("route_set", FieldKind::f64)
                       .add("read_from", FieldKind::f64)
-                      .add_text("text", longest(texts, [](auto& s) -> auto& { return s; })));
+                      .add_text("link", longest(links, text_of))
+                      .add_text("link_from", longest(link_from, text_of))
+                      .add_text("text", longest(texts, text_of)));
     for (std::size_t i = 0; i < waiting.size(); ++i) {
         const DeadlockWait& w = waiting[i];
         t.begin()
@@ -284,17 +291,21 @@ void write_deadlock(const h5::Group& day, const SimResult& r) {
             .text(w.signal)
             .f64(w.route_set)
             .f64(w.read_from)
+            .text(links[i])
+            .text(link_from[i])
             .text(texts[i]);
     }
     t.flush();
     describe(t,
-             "train: index into trains, waits_for: appear / enter / entry_view / route / view / request / other, "
-             "chainage: m along the line, station: text, since: s after midnight, signal: text, "
-             "route_set: s after midnight, read_from: m along the line, text: text",
+             "train: index into trains, waits_for: appear / enter / entry_view / route / view / request / link / "
+             "other, chainage: m along the line, station: text, since: s after midnight, signal: text, "
+             "route_set: s after midnight, read_from: m along the line, link: turnaround / connection / crew, "
+             "link_from: train id, text: text",
              "Each train a deadlocked day left waiting (none if the day ran to the end): where its head stood "
              "(NaN: not on the line), the timing point it stood at, since when it waited, what it waited for "
              "and at which signal, and for a route set but not seen when it was set and where the signal "
-             "comes into view; text says it in words. The sections kept from it are in deadlock_blocks.");
+             "comes into view; for a link wait the kind of link and the earlier train it waits for (empty "
+             "otherwise); text says it in words. The sections kept from it are in deadlock_blocks.");
 
     struct Block {
         std::uint32_t train, section;

@@ -27,7 +27,9 @@ class RecordTable;
 // 8: where knock-on comes from: a day's attribution_sources and attribution_edges, a study's
 //    attribution_sources, attribution_places, attribution_through and attribution_causes, a
 //    shard's attribution_figures.
-inline constexpr int kSimHdf5SchemaVersion = 8;
+// 9: a deadlocked day's train kept by a link whose earlier train never came: waits_for "link"
+//    and the fields link and link_from of /day/deadlock.
+inline constexpr int kSimHdf5SchemaVersion = 9;
 
 // Facts about the run that the results alone do not carry.
 struct Hdf5RunInfo {

@@ -72,17 +72,30 @@ void print_network(const std::string& file, const NetworkFile& nf) {
 
 // A network file: the layout read and checked, its detection sections and routes found; its train
 // types, timetable (every service's path laid), corridors and delays read and checked; the same
-// for each variant, a problem of the base reported once.  Planning and running come next.
+// for each variant, a problem of the base reported once; then each read as the scenario the
+// other commands run (its links) and planned, as a line scenario is.
 int validate_network(const std::string& file) {
-    std::vector<std::string> problems;
+    std::vector<std::string> problems, warnings;
     std::set<std::string> seen;
-    auto add = [&](const std::vector<std::string>& messages, const std::string& variant) {
+    auto add_to = [&](std::vector<std::string>& to, const std::vector<std::string>& messages, const std::string& variant) {
         for (const std::string& m : messages)
-            if (seen.insert(m).second) problems.push_back(variant.empty() ? m : m + " (in variant " + variant + ")");
+            if (seen.insert(m).second) to.push_back(variant.empty() ? m : m + " (in variant " + variant + ")");
+    };
+    auto add = [&](const std::vector<std::string>& messages, const std::string& variant) {
+        add_to(problems, messages, variant);
+    };
+    auto plan_check = [&](const std::string& variant) {
+        try {
+            const Scenario sc = read_scenario(file, variant);
+            add_to(warnings, plan_warnings(sc, make_plan(sc)), variant);
+        } catch (const ScenarioError& e) {
+            add(e.messages, variant);
+        }
     };
     NetworkFile base;
     try {
         base = read_network(file);
+        plan_check("");
     } catch (const ScenarioError& e) {
         add(e.messages, "");
     }
@@ -96,12 +109,16 @@ int validate_network(const std::string& file) {
     for (const VariantInfo& v : variants) {
         try {
             read.emplace_back(v.name, read_network(file, v.name));
+            plan_check(v.name);
         } catch (const ScenarioError& e) {
             add(e.messages, v.name);
         }
     }
+    for (const std::string& w : warnings) std::fprintf(stderr, "%s\n", w.c_str());
     if (!problems.empty()) throw ScenarioError(problems);
     print_network(file, base);
+    if (!warnings.empty())
+        std::printf("%s: %zu warning%s (on stderr)\n", file.c_str(), warnings.size(), warnings.size() == 1 ? "" : "s");
     for (const auto& [name, nf] : read) print_network(file + " (variant " + name + ")", nf);
     if (!variants.empty())
         std::printf("%s: ok (base and %zu variant%s)\n", file.c_str(), variants.size(), variants.size() == 1 ? "" : "s");
