@@ -3,15 +3,17 @@
 
     check_reports.py --knockon build/knockon [--page FILE.html PRESET|SELECTOR... ...]
                      [--scratch DIR] [--window-size W,H] [--screenshot-out PNG]
+                     [--network-screenshot-out PNG]
     check_reports.py --self-test [--scratch DIR]
 
 With --knockon it builds the demo's plan report (knockon report scenarios/demo.yaml -o
 SCRATCH/plan.html), the bundled single line's plan report (scenarios/single_line.yaml) and a
 small demo study's report (simulate --replications 20 --traces sample:4
---out SCRATCH/study.h5, then report SCRATCH/study.h5) and checks them against the "plan",
-"single" and "study" presets below; each --page adds a file of your own, checked against a preset name or a
+--out SCRATCH/study.h5, then report SCRATCH/study.h5) and the same study's report of the network
+demo (scenarios/junction_branch.yaml), and checks them against the "plan", "single", "study" and
+"network" presets below; each --page adds a file of your own, checked against a preset name or a
 list of CSS selectors. --screenshot-out keeps the demo study report's screenshot (the README's
-picture). --self-test feeds the checker deliberately broken
+picture), --network-screenshot-out the network study report's. --self-test feeds the checker deliberately broken
 pages and fails unless it catches every one.
 
 Exit status: 0 passed, 1 failed (Chromium missing included), 77 skipped because
@@ -116,6 +118,28 @@ PRESETS = {
         ],
         **EVERY_REPORT,
     ),
+    # knockon report of a network study: one time-distance diagram per corridor, the day as run
+    # over the plan, the branch's crossing places as bands.
+    "network": Expect(
+        selectors=[
+            "div.caution",
+            "section#verdict table",
+            "section#time-distance svg.knockon-chart.time-distance",
+            "svg.knockon-chart.time-distance .train-path",
+            "svg.knockon-chart.time-distance .asrun-path",
+            "svg.knockon-chart.time-distance .station-line",
+            "svg.knockon-chart.time-distance .loop-band",
+            "section#delays svg.knockon-chart .bar",
+            "section#crossings table",
+            "footer",
+        ],
+        texts=EVERY_REPORT["texts"] + [
+            ("section#time-distance", "corridor Main (WRF-OLV-EMR)"),
+            ("section#time-distance", "corridor Branch (OLV-PLC-HTB-QSB)"),
+        ],
+        min_colours=EVERY_REPORT["min_colours"],
+        min_ink_share=EVERY_REPORT["min_ink_share"],
+    ),
 }
 
 
@@ -147,6 +171,12 @@ def demo_reports(knockon, scratch):
          "--out", shown(h5)])
     run([knockon, "report", shown(h5), "-o", shown(study)])
     yield study, "study"
+    # The same study of the network demo.
+    h5, network = scratch / "network.h5", scratch / "network.html"
+    run([knockon, "simulate", "scenarios/junction_branch.yaml", "--replications", "20", "--traces", "sample:4",
+         "--out", shown(h5)])
+    run([knockon, "report", shown(h5), "-o", shown(network)])
+    yield network, "network"
 
 
 def expectation(spec):
@@ -176,6 +206,7 @@ def main():
     parser.add_argument("--scratch", help="working directory (emptied first; default: a temporary one)")
     parser.add_argument("--window-size", default="1400,2000", help="browser window W,H in px")
     parser.add_argument("--screenshot-out", help="keep the demo study report's screenshot here (PNG)")
+    parser.add_argument("--network-screenshot-out", help="keep the network study report's screenshot here (PNG)")
     parser.add_argument("--chromium", help="browser executable (default: $CHROMIUM or chromium)")
     parser.add_argument("--self-test", action="store_true", help="check the checker with broken pages")
     args = parser.parse_args()
@@ -197,15 +228,18 @@ def main():
         status = self_test.run(chromium, scratch / "self_test")
     else:
         pages = [(pathlib.Path(spec[0]), expectation(spec[1:])) for spec in args.page]
-        keep_at = None
+        keep = {}   # page index -> where to keep its screenshot
         if args.knockon:
             knockon = str(pathlib.Path(args.knockon).resolve())
-            demo = [(f, PRESETS[p]) for f, p in demo_reports(knockon, scratch)]
-            keep_at = len(demo) - 1 if args.screenshot_out else None   # the study report
-            pages = demo + pages
+            built = list(demo_reports(knockon, scratch))
+            presets = [p for _, p in built]
+            for preset, out in (("study", args.screenshot_out), ("network", args.network_screenshot_out)):
+                if out:
+                    keep[presets.index(preset)] = out
+            pages = [(f, PRESETS[p]) for f, p in built] + pages
         if not pages:
             parser.error("nothing to check: give --knockon, --page or --self-test")
-        status = check_pages(chromium, pages, scratch, window, args.screenshot_out, keep_at)
+        status = check_pages(chromium, pages, scratch, window, keep)
     if status:
         print(f"pages, DOM dumps and screenshots are in {scratch}")
     elif not args.scratch:
@@ -213,8 +247,9 @@ def main():
     return status
 
 
-def check_pages(chromium, pages, scratch, window, screenshot_out=None, keep_at=None):
-    """Checks each (file, Expect); keeps page keep_at's screenshot as `screenshot_out` if it passed."""
+def check_pages(chromium, pages, scratch, window, keep=None):
+    """Checks each (file, Expect); keeps page i's screenshot as keep[i] (a PNG path) if it passed."""
+    keep = keep or {}
     failed = 0
     names = [html.stem for html, _ in pages]
     for i, (html, expect) in enumerate(pages):
@@ -227,11 +262,11 @@ def check_pages(chromium, pages, scratch, window, screenshot_out=None, keep_at=N
                 print(f"  [{f.kind}] {f.message}")
             continue
         print(f"ok   {html}: {result.summary}")
-        if i == keep_at and screenshot_out:
-            tmp = pathlib.Path(screenshot_out + ".tmp")
+        if i in keep:
+            tmp = pathlib.Path(keep[i] + ".tmp")
             shutil.copyfile(result.screenshot, tmp)
-            os.replace(tmp, screenshot_out)   # whole or absent
-            print(f"     screenshot kept as {screenshot_out}")
+            os.replace(tmp, keep[i])   # whole or absent
+            print(f"     screenshot kept as {keep[i]}")
     print(f"{len(pages) - failed} of {len(pages)} report pages passed the browser check")
     return 1 if failed else 0
 

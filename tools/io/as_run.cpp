@@ -90,55 +90,63 @@ std::optional<ReplicationChoice> choose_replication(const std::vector<Replicatio
     return ReplicationChoice{*best, reason};
 }
 
-AsRunOverlay as_run_overlay(const SimResult& day, const Infrastructure& infra, const PlanResult& plan,
-                            const std::string& label) {
+namespace {
+
+// The overlay of `day` in the coordinate `where` gives: a line's chainage, or a network's distance
+// along each train's path.  `where` says where a train's stop at a station, its stand at a signal,
+// its head on entering or leaving a section and a trajectory sample lie (NaN: not known), and the
+// ends of its path.
+template <class Where>
+AsRunOverlay overlay_in(const SimResult& day, const PlanResult& plan, const std::string& label, const Where& where) {
     AsRunOverlay out;
     out.label = label;
+    out.along_path = where.along_path;
     const std::map<std::string, std::size_t> index = plan_index(plan);
-    std::vector<std::optional<std::size_t>> to_plan(day.train_ids.size());
+    std::vector<const TrainPlan*> to_plan(day.train_ids.size(), nullptr);
+    std::vector<std::size_t> plan_of(day.train_ids.size(), 0);
     for (std::size_t t = 0; t < day.train_ids.size(); ++t) {
         const auto it = index.find(day.train_ids[t]);
-        if (it != index.end()) to_plan[t] = it->second;
+        if (it != index.end()) {
+            to_plan[t] = &plan.trains[it->second];
+            plan_of[t] = it->second;
+        }
     }
-    std::map<std::string, double> station_at, signal_at;
-    for (const Station& s : infra.stations) station_at[s.id] = s.at;
-    for (const Signal& s : infra.signals) signal_at[s.id] = s.at;
-
     std::vector<std::vector<svg::Point>> pts(day.train_ids.size());
     std::vector<bool> sampled(day.train_ids.size(), false);
-    for (const TrajectorySample& s : day.samples)
-        if (s.train < pts.size() && std::isfinite(s.time) && std::isfinite(s.chainage)) {
-            pts[s.train].push_back({s.time, s.chainage});
+    for (const TrajectorySample& s : day.samples) {
+        if (s.train >= pts.size() || !std::isfinite(s.time)) continue;
+        const double y = where.sample(s);
+        if (std::isfinite(y)) {
+            pts[s.train].push_back({s.time, y});
             sampled[s.train] = true;
         }
-    auto add = [&](std::uint32_t train, double time, double chainage) {
-        if (train < pts.size() && !sampled[train] && std::isfinite(time) && std::isfinite(chainage))
-            pts[train].push_back({time, chainage});
+    }
+    auto add = [&](std::uint32_t train, double time, double y) {
+        if (train < pts.size() && !sampled[train] && std::isfinite(time) && std::isfinite(y))
+            pts[train].push_back({time, y});
     };
     for (const TimingRecord& r : day.timing) {
-        const auto it = station_at.find(r.station);
-        if (it == station_at.end()) continue;
-        add(r.train, r.arrival, it->second);
-        add(r.train, r.departure, it->second);
+        const double y = where.station(r.train < to_plan.size() ? to_plan[r.train] : nullptr, r.station);
+        if (std::isnan(y)) continue;
+        add(r.train, r.arrival, y);
+        add(r.train, r.departure, y);
     }
     for (const SectionRecord& r : day.sections) {
         if (r.train >= to_plan.size() || !to_plan[r.train] || r.section >= day.section_names.size()) continue;
-        const TrainPlan& tp = plan.trains[*to_plan[r.train]];
+        const TrainPlan& tp = *to_plan[r.train];
         const std::string& name = day.section_names[r.section];
         const auto sb = std::find_if(tp.stairway.sections.begin(), tp.stairway.sections.end(),
                                      [&](const SectionBlocking& b) { return b.section == name; });
         if (sb == tp.stairway.sections.end()) continue;
-        const bool up = tp.run.path.direction == Direction::up;
-        add(r.train, r.head_enters, up ? sb->x_lo : sb->x_hi);
-        add(r.train, r.head_leaves, up ? sb->x_hi : sb->x_lo);
+        add(r.train, r.head_enters, where.section_end(tp, *sb, true));
+        add(r.train, r.head_leaves, where.section_end(tp, *sb, false));
     }
     for (const HoldRecord& h : day.holds) {
-        const auto it = signal_at.find(h.signal);
-        if (it == signal_at.end()) continue;
-        add(h.train, h.from, it->second);
-        add(h.train, h.to, it->second);
-        if (h.train < to_plan.size() && to_plan[h.train])
-            out.holds.push_back({*to_plan[h.train], h.signal, h.from, h.to, it->second});
+        const double y = where.signal(h.train < to_plan.size() ? to_plan[h.train] : nullptr, h.signal);
+        if (std::isnan(y)) continue;
+        add(h.train, h.from, y);
+        add(h.train, h.to, y);
+        if (h.train < to_plan.size() && to_plan[h.train]) out.holds.push_back({plan_of[h.train], h.signal, h.from, h.to, y});
     }
 
     for (std::size_t t = 0; t < pts.size(); ++t) {
@@ -147,16 +155,67 @@ AsRunOverlay as_run_overlay(const SimResult& day, const Infrastructure& infra, c
         std::stable_sort(p.begin(), p.end(), [](const svg::Point& a, const svg::Point& b) { return a.x < b.x; });
         // The head runs from the path's start to its end: a section's far boundary behind an
         // originating train's stopping mark, or beyond its terminus, is where the head never was.
-        const TrainPath& path = plan.trains[*to_plan[t]].run.path;
-        const double a = path.chainage_at(0.0), b = path.chainage_at(path.length);
+        const TrainPath& path = to_plan[t]->run.path;
+        const double a = where.at(path, 0.0), b = where.at(path, path.length);
         for (svg::Point& q : p) q.y = std::clamp(q.y, std::min(a, b), std::max(a, b));
         // A train never runs back: where records disagree by a few metres (a stand just short of
         // a signal, a section boundary a metre off), the path keeps its furthest point.
-        const bool up = path.direction == Direction::up;
+        const bool up = b >= a;
         for (std::size_t i = 1; i < p.size(); ++i) p[i].y = up ? std::max(p[i].y, p[i - 1].y) : std::min(p[i].y, p[i - 1].y);
-        out.paths.push_back({*to_plan[t], std::move(p)});
+        out.paths.push_back({plan_of[t], std::move(p)});
     }
     return out;
+}
+
+// A line: chainage, from the line's stations and signals and the sections' extents.
+struct LineWhere {
+    static constexpr bool along_path = false;
+    std::map<std::string, double> station_at, signal_at;
+    double sample(const TrajectorySample& s) const { return s.chainage; }
+    double station(const TrainPlan*, const std::string& id) const { return find(station_at, id); }
+    double signal(const TrainPlan*, const std::string& id) const { return find(signal_at, id); }
+    double section_end(const TrainPlan& tp, const SectionBlocking& b, bool enters) const {
+        const bool up = tp.run.path.direction == Direction::up;
+        return enters == up ? b.x_lo : b.x_hi;
+    }
+    double at(const TrainPath& path, double s) const { return path.chainage_at(s); }
+    static double find(const std::map<std::string, double>& m, const std::string& id) {
+        const auto it = m.find(id);
+        return it == m.end() ? NAN : it->second;
+    }
+};
+
+// A network: distance along each train's own path (the diagram's corridor axis places it).
+struct PathWhere {
+    static constexpr bool along_path = true;
+    double sample(const TrajectorySample& s) const { return s.position; }
+    double station(const TrainPlan* tp, const std::string& id) const { return tp ? tp->run.path.station_s(id) : NAN; }
+    double signal(const TrainPlan* tp, const std::string& id) const {
+        if (tp)
+            for (const PathSignal& ps : tp->run.path.signals)
+                if (ps.signal.name == id) return ps.s;
+        return NAN;
+    }
+    double section_end(const TrainPlan&, const SectionBlocking& b, bool enters) const {
+        return enters ? b.s_from : b.s_to;
+    }
+    double at(const TrainPath&, double s) const { return s; }
+};
+
+}  // namespace
+
+AsRunOverlay as_run_overlay(const SimResult& day, const Infrastructure& infra, const PlanResult& plan,
+                            const std::string& label) {
+    LineWhere where;
+    for (const Station& s : infra.stations) where.station_at[s.id] = s.at;
+    for (const Signal& s : infra.signals) where.signal_at[s.id] = s.at;
+    return overlay_in(day, plan, label, where);
+}
+
+AsRunOverlay as_run_overlay(const SimResult& day, const Scenario& scenario, const PlanResult& plan,
+                            const std::string& label) {
+    if (!scenario.network) return as_run_overlay(day, scenario.infrastructure, plan, label);
+    return overlay_in(day, plan, label, PathWhere{});
 }
 
 namespace {

@@ -8,6 +8,7 @@
 
 #include "models/infrastructure.hpp"
 #include "models/plan.hpp"
+#include "models/scenario.hpp"
 #include "sim/sim_result.hpp"
 #include "sim/study.hpp"
 #include "tools/io/plan_charts.hpp"
@@ -41,6 +42,10 @@ std::optional<ReplicationChoice> choose_replication(const std::vector<Replicatio
 // the stands at signals (at the signal), in time order and never running backwards: linear
 // between these moments, so a path is exact at every one of them.
 AsRunOverlay as_run_overlay(const SimResult& day, const Infrastructure& infra, const PlanResult& plan,
+                            const std::string& label);
+// The same for either kind of scenario: on a network the points lie along each train's path
+// (AsRunOverlay::along_path), for the corridor diagrams to place.
+AsRunOverlay as_run_overlay(const SimResult& day, const Scenario& scenario, const PlanResult& plan,
                             const std::string& label);
 
 // The clock hour in which `day` lost the most time to knock-on delay: each timing record's knock-on

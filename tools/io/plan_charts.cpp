@@ -108,11 +108,15 @@ void draw_delay_trees(Element& doc, const AsRunOverlay& as_run, const PlanResult
 // paths and blocks beneath) and the stands at signals.
 void draw_as_run(Element& doc, const AsRunOverlay& as_run, const PlanResult& plan,
                  const std::vector<std::string>& categories, TimeWindow window, const svg::LinearScale& X,
-                 const svg::LinearScale& Y, double step) {
+                 const svg::LinearScale& Y, double step, const DiagramAxis& axis) {
     Element& g = doc.add(svg::group("as-run"));
     for (const AsRunPath& p : as_run.paths) {
         if (p.train >= plan.trains.size()) continue;
-        std::vector<Point> pts = thin_in_time(clip_in_time(p.points, window.from, window.to), step);
+        // Onto the axis; a point off it (beyond a corridor's part of the path) is left out.
+        std::vector<Point> placed;
+        for (const Point& q : p.points)
+            if (const double y = axis.as_run(p.train, q.y); std::isfinite(y)) placed.push_back({q.x, y});
+        std::vector<Point> pts = thin_in_time(clip_in_time(placed, window.from, window.to), step);
         if (pts.size() < 2) continue;
         for (Point& q : pts) q = {X(q.x), Y(q.y)};
         const ServiceRun& run = plan.trains[p.train].run;
@@ -123,7 +127,9 @@ void draw_as_run(Element& doc, const AsRunOverlay& as_run, const PlanResult& pla
     for (const AsRunHold& h : as_run.holds) {
         const double t0 = std::max(h.from, window.from), t1 = std::min(h.to, window.to);
         if (!(t1 > t0) || h.train >= plan.trains.size()) continue;
-        g.add(svg::line(X(t0), Y(h.chainage), std::max(X(t1), X(t0) + 1.5), Y(h.chainage), "asrun-hold"))
+        const double at = axis.as_run(h.train, h.chainage);
+        if (!std::isfinite(at)) continue;
+        g.add(svg::line(X(t0), Y(at), std::max(X(t1), X(t0) + 1.5), Y(at), "asrun-hold"))
             .tooltip(plan.trains[h.train].run.service->id + " stood at signal " + h.signal + " " +
                      format_time_of_day(h.from) + "-" + format_time_of_day(h.to) + " (" +
                      svg::number(h.to - h.from, 0) + " s)");
@@ -135,17 +141,27 @@ void draw_as_run(Element& doc, const AsRunOverlay& as_run, const PlanResult& pla
 
 namespace {
 
-// How far a path on a loop is drawn off the main track's [px].
+// How far a path on a loop (a crossing place's other track) is drawn off the through track's [px].
 constexpr double kLoopOffset = 4.0;
 
-// Whether the run is on a loop track where its head is at chainage x.
-bool on_loop_at(const Infrastructure& infra, const ServiceRun& run, double x) {
-    for (const PathPiece& pc : run.path.pieces) {
-        const double lo = std::min(pc.x_from, pc.x_to), hi = std::max(pc.x_from, pc.x_to);
-        const Track* track = infra.find_track(pc.track);
-        if (track && track->is_loop() && x > lo + 1e-6 && x < hi - 1e-6) return true;
+// A train's legs sampled about every `sample_step` seconds as (time, pos(s)), leg ends always
+// included; a leg wholly outside the window only needs its ends (the clipping interpolates stops
+// that span an edge).
+template <class Position>
+std::vector<Point> sample_legs(const ServiceRun& run, TimeWindow window, double sample_step, Position pos) {
+    std::vector<Point> pts;
+    const double step = std::max(sample_step, 0.1);
+    for (const RunLeg& leg : run.legs) {
+        const Trajectory& tr = leg.trajectory;
+        const double t0 = leg.start_time, dur = tr.duration();
+        const bool outside = t0 + dur < window.from || t0 > window.to;
+        const long n = outside ? 1 : std::max(1L, static_cast<long>(std::ceil(dur / step)));
+        for (long i = 0; i <= n; ++i) {
+            const double tau = dur * static_cast<double>(i) / static_cast<double>(n);
+            pts.push_back({t0 + tau, pos(tr.position_at(tau))});
+        }
     }
-    return false;
+    return pts;
 }
 
 }  // namespace
@@ -226,21 +242,20 @@ TimeWindow choose_window(const PlanResult& plan, const WindowRequest& request, s
 }
 
 std::vector<Point> train_path_points(const ServiceRun& run, TimeWindow window, double sample_step) {
-    std::vector<Point> pts;
-    const double step = std::max(sample_step, 0.1);
-    for (const RunLeg& leg : run.legs) {
-        const Trajectory& tr = leg.trajectory;
-        const double t0 = leg.start_time, dur = tr.duration();
-        const bool outside = t0 + dur < window.from || t0 > window.to;
-        // A leg wholly outside the window only needs its ends (the clipping interpolates stops
-        // that span an edge); one inside is sampled at the step, ends included.
-        const long n = outside ? 1 : std::max(1L, static_cast<long>(std::ceil(dur / step)));
-        for (long i = 0; i <= n; ++i) {
-            const double tau = dur * static_cast<double>(i) / static_cast<double>(n);
-            pts.push_back({t0 + tau, run.path.chainage_at(tr.position_at(tau))});
-        }
-    }
-    return clip_in_time(pts, window.from, window.to);
+    return clip_in_time(sample_legs(run, window, sample_step, [&](double s) { return run.path.chainage_at(s); }),
+                        window.from, window.to);
+}
+
+std::vector<Point> train_path_positions(const ServiceRun& run, TimeWindow window, double sample_step, double s_from,
+                                        double s_to) {
+    std::vector<Point> pts =
+        clip_in_time(sample_legs(run, window, sample_step, [](double s) { return s; }), window.from, window.to);
+    // The head never runs back along its path, so the part from s_from to s_to is clipped as the
+    // window is, with the axes swapped.
+    for (Point& p : pts) std::swap(p.x, p.y);
+    pts = clip_in_time(pts, s_from, s_to);
+    for (Point& p : pts) std::swap(p.x, p.y);
+    return pts;
 }
 
 ChainageSpan route_span(const TrainPlan& train, const RouteBlocking& route) {
@@ -261,19 +276,23 @@ ChainageSpan route_span(const TrainPlan& train, const RouteBlocking& route) {
 
 Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan, TimeWindow window,
                             const ChartOptions& options, const AsRunOverlay* as_run) {
+    return time_distance_chart(*line_axis(infra), plan, window, options, as_run);
+}
+
+Element time_distance_chart(const DiagramAxis& dax, const PlanResult& plan, TimeWindow window,
+                            const ChartOptions& options, const AsRunOverlay* as_run) {
     const double W = options.width;
     // The left margin holds the longest station name (bold, hence wider than text_width's rule),
     // the signal columns and a little room, so no name is cut at the drawing's edge.
     constexpr double kStationFont = 11.0, kLabelGap = 13.0;
     double widest = 0.0;
-    for (const Station& st : infra.stations)
-        widest = std::max(widest, 1.12 * text_width(st.name.empty() ? st.id : st.name, kStationFont));
+    for (const AxisStation& st : dax.stations) widest = std::max(widest, 1.12 * text_width(st.name, kStationFont));
     const double left = std::max(190.0, widest + 24.0 + 12.0), right = 70.0;
     const double top = options.title.empty() ? 16.0 : 46.0;
     const double plot_h = 520.0;
     const double plot_w = std::max(200.0, W - left - right);
     const svg::LinearScale X{window.from, window.to, left, left + plot_w};
-    const double length = std::max(infra.length, 1.0);
+    const double length = dax.length;
     const svg::LinearScale Y{0.0, length, top, top + plot_h};   // chainage grows downwards
     const std::vector<std::string> categories = train_categories(plan);
 
@@ -306,7 +325,7 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
         Element sig = svg::group();
         sig.add(svg::line(4, 6, 11, 6, "legend-signal sig-up"));
         sig.add(svg::line(15, 6, 22, 6, "legend-signal sig-down"));
-        legend.push_back({std::move(sig), "main signal: left column up, right column down direction"});
+        legend.push_back({std::move(sig), dax.signal_legend});
     }
     const double legend_h = legend_height(legend, plot_w);
     const double axis_bottom = top + plot_h;
@@ -334,26 +353,24 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
     // Station names beside their lines, moved apart where stations lie closer than a line of text
     // (with a leader to the station's line).
     std::vector<double> wanted;
-    for (const Station& st : infra.stations) wanted.push_back(Y(st.at) + 4.0);
+    for (const AxisStation& st : dax.stations) wanted.push_back(Y(st.at) + 4.0);
     const std::vector<double> label_y = spread_labels(wanted, kLabelGap, top - 2.0, axis_bottom + 12.0);
-    for (std::size_t i = 0; i < infra.stations.size(); ++i) {
-        const Station& st = infra.stations[i];
+    for (std::size_t i = 0; i < dax.stations.size(); ++i) {
+        const AxisStation& st = dax.stations[i];
         const double y = Y(st.at);
         Element& l = grid.add(svg::line(left, y, left + plot_w, y, "station-line"));
-        const std::string name = st.name.empty() ? st.id : st.name;
-        l.tooltip(name + " (" + st.id + "), km " + km(st.at));
-        grid.add(svg::text(left - 24, label_y[i], name, "station-label", "end")).tooltip(st.id + ", km " + km(st.at));
+        l.tooltip(st.name + " (" + st.id + "), " + st.where);
+        grid.add(svg::text(left - 24, label_y[i], st.name, "station-label", "end")).tooltip(st.id + ", " + st.where);
         if (std::abs(label_y[i] - wanted[i]) > 1.0)
             grid.add(svg::line(left - 23, label_y[i] - 4.0, left - 19, y, "label-leader"));
     }
     // Signals: a column of ticks each side of the strip left of the plot.
     Element& sigs = doc.add(svg::group("signals"));
-    for (const Signal& s : infra.signals) {
+    for (const AxisSignal& s : dax.signals) {
         const double y = Y(s.at);
-        const bool up = s.direction == Direction::up;
+        const bool up = s.downwards;
         const double x0 = up ? left - 18 : left - 9;
-        sigs.add(svg::line(x0, y, x0 + 7, y, up ? "signal-tick sig-up" : "signal-tick sig-down"))
-            .tooltip("signal " + s.id + " (" + to_string(s.direction) + "), track " + s.track + ", km " + km(s.at));
+        sigs.add(svg::line(x0, y, x0 + 7, y, up ? "signal-tick sig-up" : "signal-tick sig-down")).tooltip(s.tooltip);
     }
     // Chainage axis on the right.
     Element& axis = doc.add(svg::group("axis"));
@@ -364,7 +381,7 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
     }
     {
         const double cx = left + plot_w + 52, cy = top + plot_h / 2;
-        axis.add(svg::text(cx, cy, "chainage [km], increasing downwards", "axis-label", "middle"))
+        axis.add(svg::text(cx, cy, dax.axis_label, "axis-label", "middle"))
             .attr("transform", "rotate(90 " + svg::number(cx) + " " + svg::number(cy) + ")");
     }
     axis.add(svg::text(left + plot_w / 2, axis_bottom + 38, "time of day [HH:MM]", "axis-label", "middle"));
@@ -373,19 +390,19 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
 
     // Loops: a band over each loop's extent, where trains on the loop are drawn offset.
     Element& loop_bands = doc.add(svg::group("loops"));
-    for (const Track& t : infra.tracks)
-        if (t.is_loop())
-            loop_bands.add(svg::rect(left, Y(t.from), plot_w, Y(t.to) - Y(t.from), "loop-band"))
-                .tooltip("loop " + t.id + " beside " + t.parent + ", km " + km(t.from) + " to " + km(t.to) +
-                         " (trains on it drawn offset)");
+    for (const AxisBand& b : dax.bands)
+        loop_bands.add(svg::rect(left, Y(b.from), plot_w, Y(b.to) - Y(b.from), "loop-band")).tooltip(b.tooltip);
     // Blocking-time stairways beneath the paths.
     Element& blocks = doc.add(svg::group("stairways"));
-    for (const TrainPlan& tp : plan.trains) {
+    for (std::size_t ti = 0; ti < plan.trains.size(); ++ti) {
+        const TrainPlan& tp = plan.trains[ti];
         const std::string cls = "block " + category_class(categories, tp.run.service->category);
         Element* g = nullptr;
         for (const RouteBlocking& r : tp.stairway.routes) {
             if (r.end <= window.from || r.start >= window.to) continue;
-            const ChainageSpan span = route_span(tp, r);
+            const std::optional<AxisSpan> on_axis = dax.route(ti, tp, r);
+            if (!on_axis) continue;
+            const AxisSpan span = *on_axis;
             const double x0 = X(std::max(r.start, window.from)), x1 = X(std::min(r.end, window.to));
             if (!g) {
                 g = &blocks.add(svg::group());
@@ -407,7 +424,9 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
         for (const SectionBlocking& b : plan.trains[c.second].stairway.sections)
             if (b.section == c.section) sec = &b;
         if (!sec) continue;
-        conflicts.add(svg::rect(X(t0), Y(sec->x_lo), X(t1) - X(t0), Y(sec->x_hi) - Y(sec->x_lo), "conflict"))
+        const std::optional<AxisSpan> span = dax.section(c.second, plan.trains[c.second], *sec);
+        if (!span) continue;
+        conflicts.add(svg::rect(X(t0), Y(span->lo), X(t1) - X(t0), Y(span->hi) - Y(span->lo), "conflict"))
             .tooltip("conflict on " + c.section + ": " + plan.trains[c.first].run.service->id + " and " +
                      plan.trains[c.second].run.service->id + ", " + svg::number(c.overlap, 0) + " s from " +
                      format_time_of_day(c.from));
@@ -417,38 +436,40 @@ Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan,
     const double step = std::max(10.0, window.length() / plot_w);
     Element& paths = doc.add(svg::group("paths"));
     Element& loop_marks = doc.add(svg::group("loop-paths"));
-    std::vector<std::pair<const TrainPlan*, Point>> labels;
-    for (const TrainPlan& tp : plan.trains) {
-        std::vector<Point> pts = train_path_points(tp.run, window, step);
-        if (pts.empty()) continue;
-        // On a loop the path is drawn a few pixels off the main track's, so that two trains
-        // crossing there read as a crossing, not as overlapping stairways.
-        std::vector<Point> on_loop;
-        for (Point& p : pts) {
-            const bool loop = on_loop_at(infra, tp.run, p.y);
-            p = {X(p.x), Y(p.y) + (loop ? kLoopOffset : 0.0)};
-            if (loop) on_loop.push_back(p);
+    std::vector<std::pair<std::size_t, Point>> labels;
+    for (std::size_t ti = 0; ti < plan.trains.size(); ++ti) {
+        const TrainPlan& tp = plan.trains[ti];
+        const std::vector<AxisPoint> drawn = dax.planned(ti, tp, window.from, window.to, step);
+        if (drawn.empty()) continue;
+        // On a loop (a crossing place's other track) the path is drawn a few pixels off the
+        // through track's, so that two trains crossing there read as a crossing, not as
+        // overlapping stairways.
+        std::vector<Point> pts, on_loop;
+        for (const AxisPoint& a : drawn) {
+            pts.push_back({X(a.t), Y(a.at) + kLoopOffset * a.slot});
+            if (a.slot > 0) on_loop.push_back(pts.back());
         }
         if (on_loop.size() > 1)
-            loop_marks.add(svg::polyline(on_loop, "loop-path")).tooltip(tp.run.service->id + " on a loop track");
+            loop_marks.add(svg::polyline(on_loop, "loop-path")).tooltip(dax.offset_note(ti, tp));
         const ServiceRun& r = tp.run;
         paths.add(svg::polyline(pts, "train-path " + category_class(categories, r.service->category) +
                                          (as_run ? " dimmed" : "")))
             .tooltip(r.service->id + " (" + r.service->category + ", " + r.type->id + ", " + to_string(r.path.direction) + ")");
-        labels.push_back({&tp, pts.front()});
+        labels.push_back({ti, pts.front()});
     }
-    if (as_run) draw_as_run(doc, *as_run, plan, categories, window, X, Y, step);
+    if (as_run) draw_as_run(doc, *as_run, plan, categories, window, X, Y, step, dax);
     if (labels.size() <= kMaxTrainLabels) {
         Element& g = doc.add(svg::group("train-labels"));
-        for (const auto& [tp, p] : labels) {
+        for (const auto& [ti, p] : labels) {
             // Inside the plot beside the path's first point, on the side away from the path (up
             // trains run down the page, down trains up it), unless that would leave the plot.
-            const bool up = tp->run.path.direction == Direction::up;
+            const TrainPlan& tp = plan.trains[ti];
+            const bool up = dax.downwards(ti, tp);
             const double y = up ? p.y + 11 : p.y - 4;
             if (p.x - left > 50)
-                g.add(svg::text(p.x - 3, y, tp->run.service->id, "train-label", "end"));
+                g.add(svg::text(p.x - 3, y, tp.run.service->id, "train-label", "end"));
             else
-                g.add(svg::text(p.x + 3, y, tp->run.service->id, "train-label"));
+                g.add(svg::text(p.x + 3, y, tp.run.service->id, "train-label"));
         }
     }
     if (labels.empty())

@@ -16,14 +16,11 @@
 #include "models/infrastructure.hpp"
 #include "models/plan.hpp"
 #include "tools/io/chart_kit.hpp"
+#include "tools/io/diagram_axis.hpp"
 #include "tools/io/svg.hpp"
 
 namespace knockon {
 
-struct TimeWindow {
-    double from = 0.0, to = 0.0;   // seconds after midnight
-    double length() const { return to - from; }
-};
 
 // The whole clock hour in which most trains depart or pass a timing point (earliest on ties),
 // and that count; 06:00-07:00 with no trains at all.
@@ -59,6 +56,10 @@ TimeWindow choose_window(const PlanResult& plan, const WindowRequest& request, s
 // legs), clipped to the window with the crossing points interpolated.  Empty when the train does
 // not run in the window.
 std::vector<svg::Point> train_path_points(const ServiceRun& run, TimeWindow window, double sample_step);
+// The same sampling as (time [s], distance along the path [m]), clipped to the window and to the
+// part of the path from s_from to s_to (a network corridor's part of it).
+std::vector<svg::Point> train_path_positions(const ServiceRun& run, TimeWindow window, double sample_step,
+                                             double s_from, double s_to);
 
 // The chainage extent of a route's blocking: the detection sections it locks, from its entry
 // signal to its exit signal plus the overlap (min x_lo, max x_hi).
@@ -70,13 +71,13 @@ ChainageSpan route_span(const TrainPlan& train, const RouteBlocking& route);
 // One simulated day as run, to draw over the plan.
 struct AsRunPath {
     std::size_t train = 0;            // index into PlanResult::trains
-    std::vector<svg::Point> points;   // (time [s], chainage [m]) in time order
+    std::vector<svg::Point> points;   // (time [s], chainage [m]; on a network along the path) in time order
 };
 struct AsRunHold {                    // a stand at a signal showing stop
     std::size_t train = 0;
     std::string signal;
     double from = 0.0, to = 0.0;      // [s]
-    double chainage = 0.0;            // of the signal [m]
+    double chainage = 0.0;            // of the signal [m] (on a network: along the train's path)
 };
 // Knock-on one train passed to another on the day (an edge of a delay tree, tools/io/as_run):
 // from the causing train's path to the delayed train's at the place and time it arrived there.
@@ -94,13 +95,17 @@ struct AsRunTree {                    // the knock-on one source of delay starte
 };
 struct AsRunOverlay {
     std::string label;                // for the legend, e.g. "as run, replication 7"
+    bool along_path = false;          // points lie along each train's path (a network), not by chainage
     std::vector<AsRunPath> paths;
     std::vector<AsRunHold> holds;
     std::vector<AsRunTree> trees;     // the day's largest delay trees, largest first (may be none)
 };
 
 // With `as_run`, the planned paths are drawn lighter ("dimmed") and the as-run paths over them,
-// solid and bold in the train's colour, with the stands at signals marked.
+// solid and bold in the train's colour, with the stands at signals marked.  Drawn along `axis`
+// (diagram_axis: a line's chainage or a network corridor); the first form along the line.
+svg::Element time_distance_chart(const DiagramAxis& axis, const PlanResult& plan, TimeWindow window,
+                                 const ChartOptions& options = {}, const AsRunOverlay* as_run = nullptr);
 svg::Element time_distance_chart(const Infrastructure& infra, const PlanResult& plan, TimeWindow window,
                                  const ChartOptions& options = {}, const AsRunOverlay* as_run = nullptr);
 

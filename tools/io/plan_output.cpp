@@ -259,12 +259,81 @@ Table capacity_by_hour(const PlanResult& plan) {
 
 }  // namespace
 
-std::vector<Table> plan_tables(const Scenario&, const PlanResult& plan) {
-    return {trains(plan),         running_times(plan),    blocking_routes(plan), blocking_sections(plan),
+// A network's corridors: each station at its distance along the corridor (models/corridor_axis),
+// the distance axis of the corridor's time-distance diagram, and how many trains run along it.
+static Table corridor_table(const Scenario& scenario, const PlanResult& plan) {
+    Table t{"corridors", "Corridors (distance along the trains' paths from the corridor's first station)",
+            {{"corridor", K::text}, {"station", K::text}, {"name", K::text}, {"distance_m", K::number},
+             {"trains", K::number}},
+            {}};
+    for (const CorridorAxis& axis : corridor_axes(scenario, plan))
+        for (const CorridorStation& st : axis.stations)
+            t.rows.push_back({axis.name, st.id, station_name(scenario, st.id), st.at,
+                              static_cast<double>(axis.runs.size())});
+    return t;
+}
+
+std::vector<CorridorAxis> corridor_axes(const Scenario& scenario, const PlanResult& plan) {
+    std::vector<CorridorAxis> out;
+    if (!scenario.network) return out;
+    for (const net::Corridor& c : scenario.network->corridors) out.push_back(corridor_axis(c, plan.trains));
+    return out;
+}
+
+std::string station_name(const Scenario& scenario, const std::string& id) {
+    if (scenario.network) {
+        for (const net::Station& st : scenario.network->network.stations)
+            if (st.id == id) return st.name.empty() ? st.id : st.name;
+    } else if (const Station* st = scenario.infrastructure.find_station(id)) {
+        return st->name.empty() ? st->id : st->name;
+    }
+    return id;
+}
+
+std::optional<SignalPlace> signal_place(const Scenario& scenario, const std::string& id) {
+    if (scenario.network) {
+        const net::Network& n = scenario.network->network;
+        for (const net::Signal& s : n.signals)
+            if (s.name == id)
+                return SignalPlace{s.at.segment < n.segments.size() ? n.segments[s.at.segment].name : std::string("-"),
+                                   net::to_string(s.heading), NAN};
+        return std::nullopt;
+    }
+    for (const Signal& s : scenario.infrastructure.signals)
+        if (s.id == id) return SignalPlace{s.track, to_string(s.direction), s.at};
+    return std::nullopt;
+}
+
+std::string layout_summary(const Scenario& scenario) {
+    char text[256];
+    if (!scenario.network) {
+        const Infrastructure& in = scenario.infrastructure;
+        std::snprintf(text, sizeof text, "Line %.1f km, %zu stations, %zu signals", in.length / 1000.0,
+                      in.stations.size(), in.signals.size());
+        return text;
+    }
+    const net::Network& n = scenario.network->network;
+    std::snprintf(text, sizeof text, "Network of %zu segments, %zu stations, %zu signals", n.segments.size(),
+                  n.stations.size(), n.signals.size());
+    std::string out = text;
+    const auto& corridors = scenario.network->corridors;
+    out += corridors.size() == 1 ? "; corridor" : "; corridors";
+    for (std::size_t i = 0; i < corridors.size(); ++i) {
+        out += (i ? ", " : " ") + corridors[i].name + " (";
+        for (std::size_t k = 0; k < corridors[i].stations.size(); ++k) out += (k ? " " : "") + corridors[i].stations[k];
+        out += ")";
+    }
+    return out;
+}
+
+std::vector<Table> plan_tables(const Scenario& scenario, const PlanResult& plan) {
+    std::vector<Table> out{trains(plan),         running_times(plan),    blocking_routes(plan), blocking_sections(plan),
             headways(plan),       links(plan),            headway_matrix(plan),  conflicts(plan),       capacity(plan),
             capacity_by_hour(plan),
             spacing_warnings(plan), timetable_warnings(plan), single_track_stretches(plan),
             crossings(plan),      single_track_capacity(plan), crossings_too_short(plan)};
+    if (scenario.network) out.push_back(corridor_table(scenario, plan));
+    return out;
 }
 
 namespace {
@@ -337,6 +406,21 @@ nlohmann::json table_json(const Table& t) {
 }
 
 nlohmann::json scenario_facts(const Scenario& s) {
+    if (s.network) {
+        const net::Network& n = s.network->network;
+        nlohmann::json corridors = nlohmann::json::array();
+        for (const net::Corridor& c : s.network->corridors) corridors.push_back({{"id", c.name}, {"stations", c.stations}});
+        return {{"name", s.name},
+                {"file", s.source_file},
+                {"layout", "network"},
+                {"segments", n.segments.size()},
+                {"line_type", to_string(s.line_type)},
+                {"stations", n.stations.size()},
+                {"signals", n.signals.size()},
+                {"corridors", corridors},
+                {"train_types", s.train_types.size()},
+                {"trains", s.timetable.services.size()}};
+    }
     const Infrastructure& in = s.infrastructure;
     return {{"name", s.name},
             {"file", s.source_file},
@@ -361,12 +445,9 @@ nlohmann::json plan_json(const Scenario& scenario, const PlanResult& plan) {
 }
 
 std::string plan_text(const Scenario& scenario, const PlanResult& plan) {
-    const Infrastructure& in = scenario.infrastructure;
-    char head[512];
-    std::snprintf(head, sizeof head, "knockon plan: %s (%s)\nLine %.1f km, %zu stations, %zu signals, %zu train types, %zu trains.\n",
-                  scenario.name.c_str(), scenario.source_file.c_str(), in.length / 1000.0, in.stations.size(),
-                  in.signals.size(), scenario.train_types.size(), plan.trains.size());
-    std::string out = head;
+    std::string out = "knockon plan: " + scenario.name + " (" + scenario.source_file + ")\n" + layout_summary(scenario) +
+                      (scenario.network ? "; " : ", ") + std::to_string(scenario.train_types.size()) + " train types, " +
+                      std::to_string(plan.trains.size()) + " trains.\n";
     out += std::string("Caution: ") + kSafetyCaution + "\n\n";
 
     std::vector<Table> tables = plan_tables(scenario, plan);
@@ -423,6 +504,7 @@ std::string plan_text(const Scenario& scenario, const PlanResult& plan) {
         out += to_text(find("single_track_capacity")) + "\n";
     }
     if (!plan.links.empty()) out += to_text(find("links")) + "\n";
+    if (scenario.network) out += to_text(find("corridors")) + "\n";
     out += to_text(find("headway_matrix")) + "\n";
     out += to_text(find("capacity")) + "\n";
     if (!plan.spacing_warnings.empty()) {

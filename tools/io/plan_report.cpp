@@ -19,6 +19,17 @@ std::string seconds(double s) { return std::isfinite(s) ? svg::number(s, 0) + " 
 std::string percent(double share) { return svg::number(share * 100.0, 1) + " %"; }
 std::string km_text(double metres) { return svg::number(metres / 1000.0, 1) + " km"; }
 
+// "Main (WRF-OLV-EMR), Branch (OLV-PLC-HTB-QSB)".
+std::string corridor_list(const Scenario& scenario) {
+    std::string out;
+    for (const net::Corridor& c : scenario.network->corridors) {
+        std::string stations;
+        for (const std::string& st : c.stations) stations += (stations.empty() ? "" : "-") + st;
+        out += (out.empty() ? "" : ", ") + c.name + " (" + stations + ")";
+    }
+    return out;
+}
+
 const std::string& train_id(const PlanResult& plan, std::size_t i) { return plan.trains[i].run.service->id; }
 
 std::string paragraph(const std::string& text) { return html_paragraph(text); }
@@ -39,11 +50,32 @@ ReportSection time_distance_section(const Scenario& scenario, const PlanResult& 
         "beyond the exit signal. Hatched blocks with a black outline are conflicts: two trains' blocking "
         "times overlap on a section.");
     if (!options.as_run_note.empty()) html += paragraph(options.as_run_note);
-    html += figure(time_distance_chart(scenario.infrastructure, plan, w, chart, options.as_run),
-                   "Distance runs downwards along the line (chainage in km on the right, stations on the left, "
-                   "main signals as ticks); time runs to the right. Pointing at a path, block or conflict "
-                   "shows its details.");
-    return {"time-distance", "Time-distance diagram", html};
+    if (!scenario.network) {
+        html += figure(time_distance_chart(scenario.infrastructure, plan, w, chart, options.as_run),
+                       "Distance runs downwards along the line (chainage in km on the right, stations on the left, "
+                       "main signals as ticks); time runs to the right. Pointing at a path, block or conflict "
+                       "shows its details.");
+        return {"time-distance", "Time-distance diagram", html};
+    }
+    // A network: one diagram per corridor, each train over the part of its path between the
+    // corridor's stations it passes.
+    html += paragraph("One diagram per corridor of the network. Distance runs downwards from the corridor's first "
+                      "station, measured along the trains' paths; each train is drawn over the part of its path "
+                      "between corridor stations it passes, in either direction. At a crossing place a train on "
+                      "the place's second track is drawn a few pixels aside, in the place's band, so that two "
+                      "trains crossing there read as a crossing.");
+    for (const auto& axis : diagram_axes(scenario, plan)) {
+        ChartOptions c = chart;
+        std::string stations;
+        for (const AxisStation& st : axis->stations) stations += (stations.empty() ? "" : "-") + st.id;
+        c.title = "Time-distance diagram, corridor " + axis->name + " (" + stations + "), " + svg::format_hhmm(w.from) +
+                  "-" + svg::format_hhmm(w.to);
+        html += figure(time_distance_chart(*axis, plan, w, c, options.as_run),
+                       "Corridor " + axis->name + ": distance along it downwards (km on the right, stations on the "
+                       "left, main signals as ticks, left column for trains running down the page); time runs to "
+                       "the right. Pointing at a path, block, band or conflict shows its details.");
+    }
+    return {"time-distance", "Time-distance diagrams", html};
 }
 
 // The hour-by-hour profile: a chart of each hour's busiest line section, and a table of every line
@@ -340,6 +372,7 @@ HtmlTable plan_headline(const PlanResult& plan) {
 
 Report plan_report(const Scenario& scenario, const PlanResult& plan, const PlanReportOptions& options) {
     const Infrastructure& in = scenario.infrastructure;
+    const bool network = scenario.network.has_value();
     Report r;
     r.title = "Plan report: " + scenario.name;
     r.caution = kSafetyCaution;
@@ -359,16 +392,24 @@ Report plan_report(const Scenario& scenario, const PlanResult& plan, const PlanR
             trains += (i ? ", " : "") + std::to_string(per_category[i].second) + " " + per_category[i].first;
         trains += ")";
     }
-    r.facts = {{"scenario", scenario.name},
-               {"file", scenario.source_file},
-               {"line length", km_text(in.length)},
-               {"line type (UIC 406 limits)", to_string(scenario.line_type)},
-               {"stations", std::to_string(in.stations.size())},
-               {"main signals", std::to_string(in.signals.size())},
+    r.facts = {{"scenario", scenario.name}, {"file", scenario.source_file}};
+    if (network) {
+        const net::Network& n = scenario.network->network;
+        r.facts.push_back({"layout", layout_summary(scenario)});
+        r.facts.push_back({"line type (UIC 406 limits)", to_string(scenario.line_type)});
+        r.facts.push_back({"stations", std::to_string(n.stations.size())});
+        r.facts.push_back({"main signals", std::to_string(n.signals.size())});
+    } else {
+        r.facts.push_back({"line length", km_text(in.length)});
+        r.facts.push_back({"line type (UIC 406 limits)", to_string(scenario.line_type)});
+        r.facts.push_back({"stations", std::to_string(in.stations.size())});
+        r.facts.push_back({"main signals", std::to_string(in.signals.size())});
+    }
+    r.facts.insert(r.facts.end(), {
                {"train types", std::to_string(scenario.train_types.size())},
                {"trains", trains},
                {"conflicts", std::to_string(plan.conflicts.size() + plan.crossings_too_short.size())},
-               {"made by", std::string("knockon ") + KNOCKON_VERSION}};
+               {"made by", std::string("knockon ") + KNOCKON_VERSION}});
     if (!options.command_line.empty()) r.facts.push_back({"command", options.command_line});
     r.notes = {kUic406Note,
                "Planned times: trains run at their performance and wait at each stop until the scheduled "
@@ -377,7 +418,8 @@ Report plan_report(const Scenario& scenario, const PlanResult& plan, const PlanR
     const std::vector<Table> tables = plan_tables(scenario, plan);
     r.verdict = {"verdict", "Verdict",
                  paragraph("The timetable analysis in brief: " + std::to_string(plan.trains.size()) + " trains on " +
-                           km_text(in.length) + " of line.") +
+                           (network ? "a network, reported along its corridors (" + corridor_list(scenario) + ")."
+                                    : km_text(in.length) + " of line.")) +
                      html_table(plan_headline(plan))};
     r.sections.push_back(time_distance_section(scenario, plan, options));
     r.sections.push_back(capacity_section(plan));

@@ -216,14 +216,13 @@ HBars signals_data(const ResultsView& v, std::string& source) {
     HBars h;
     h.format = kMinutes;
     h.value_axis = "time trains stood at the signal showing stop, per day [min]";
-    std::map<std::string, const Signal*> signals;
-    for (const Signal& s : v.scenario->infrastructure.signals) signals[s.id] = &s;
     const std::vector<SignalStats> held = held_at_signals(v);
     for (std::size_t i = 0; i < held.size() && i < kRankedRows; ++i) {
         const SignalStats& s = held[i];
         std::string label = s.signal;
-        const auto it = signals.find(s.signal);
-        if (it != signals.end()) label += " (km " + svg::number(it->second->at / 1000.0, 1) + ")";
+        const std::optional<SignalPlace> at = signal_place(*v.scenario, s.signal);
+        if (at && std::isfinite(at->km_m)) label += " (km " + svg::number(at->km_m / 1000.0, 1) + ")";
+        else if (at) label += " (" + at->track + ")";
         BarValue value{s.held.mean};
         if (s.held.n > 1) value = {s.held.mean, s.held.lower, s.held.upper};
         h.bars.push_back({label, value, 0, ""});
@@ -516,6 +515,11 @@ std::vector<StationPunctuality> station_punctuality(const ResultsView& v) {
         row[s.id] = out.size();
         out.push_back({s.id, s.name.empty() ? s.id : s.name, s.at, 0, {}});
     }
+    // A network has no one chainage: its stations in the order its corridors name them (no km).
+    if (v.scenario->network)
+        for (const net::Corridor& c : v.scenario->network->corridors)
+            for (const std::string& id : c.stations)
+                if (row.emplace(id, out.size()).second) out.push_back({id, station_name(*v.scenario, id), INFINITY, 0, {}});
     std::vector<std::vector<std::size_t>> within(out.size(), std::vector<std::size_t>(thresholds.size(), 0));
     auto station = [&](const std::string& id) -> std::size_t {
         const auto it = row.find(id);

@@ -475,8 +475,6 @@ ReportSection growth_section(const ResultsView& v) {
         "free, and at stops waiting for a late train to clear. The signals are ranked by the time trains "
         "stood at them.");
     html += figure_of(make_result_chart("signals", v));
-    std::map<std::string, const Signal*> signals;
-    for (const Signal& s : v.scenario->infrastructure.signals) signals[s.id] = &s;
     const std::vector<SignalStats> held = held_at_signals(v);
     double total = 0.0;
     for (const SignalStats& s : held) total += s.held.mean;
@@ -485,10 +483,9 @@ ReportSection growth_section(const ResultsView& v) {
     t.headers = {"rank", "signal", "track", "direction", "km", "time held", "share of all time held"};
     t.numeric = {true, false, false, false, true, true, true};
     for (std::size_t i = 0; i < held.size() && i < kTableRows; ++i) {
-        const auto it = signals.find(held[i].signal);
-        const Signal* s = it == signals.end() ? nullptr : it->second;
-        t.rows.push_back({std::to_string(i + 1), held[i].signal, s ? s->track : "-", s ? to_string(s->direction) : "-",
-                          s ? svg::number(s->at / 1000.0, 2) : "-", min_ci(held[i].held),
+        const std::optional<SignalPlace> s = signal_place(*v.scenario, held[i].signal);
+        t.rows.push_back({std::to_string(i + 1), held[i].signal, s ? s->track : "-", s ? s->direction : "-",
+                          s && std::isfinite(s->km_m) ? svg::number(s->km_m / 1000.0, 2) : "-", min_ci(held[i].held),
                           total > 0.0 ? pct(held[i].held.mean / total) : "-"});
     }
     if (t.rows.empty())

@@ -129,8 +129,8 @@ int compare(const std::vector<std::string>& args) {
         r->figures = plan_figures(r->plan);
         runs.push_back(std::move(r));
     }
-    // (auto: by the first variant's line; every variant runs under the same order)
-    opt.sim.route_order = route_order_option(vm, runs.front()->scenario.infrastructure);
+    // (auto: by the first variant's single track; every variant runs under the same order)
+    opt.sim.route_order = route_order_option(vm, runs.front()->scenario);
     if (runs.front()->scenario.delays.empty())
         std::fprintf(stderr, "knockon compare: note: %s has no `delays:` section, so every day is the same\n",
                      file.c_str());

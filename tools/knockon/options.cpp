@@ -6,6 +6,7 @@
 #include <iostream>
 #include <sstream>
 
+#include "models/service_paths.hpp"
 #include "models/single_track.hpp"
 #include "tools/io/plan_output.hpp"
 #include "tools/io/study_hdf5.hpp"
@@ -161,9 +162,11 @@ void add_order_option(po::options_description& options) {
                           "where the line has single line, else timetable; README)");
 }
 
-RouteOrder route_order_option(const po::variables_map& vm, const Infrastructure& infra) {
+RouteOrder route_order_option(const po::variables_map& vm, const Scenario& scenario) {
     const std::string order = vm["order"].as<std::string>();
-    if (order == "auto") return !single_track_layout(infra).empty() ? RouteOrder::dispatch : RouteOrder::timetable;
+    // auto: the scenario's single track as its paths find it, a line's or a network's.
+    if (order == "auto")
+        return !service_paths(scenario)->single_track().empty() ? RouteOrder::dispatch : RouteOrder::timetable;
     if (order == "timetable") return RouteOrder::timetable;
     if (order == "first-come") return RouteOrder::first_come;
     if (order == "dispatch") return RouteOrder::dispatch;

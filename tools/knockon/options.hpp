@@ -44,9 +44,9 @@ int deadlock_status(const std::string& command, std::size_t deadlocked, std::siz
 inline constexpr double kMinStep = 0.5, kMaxStep = 50.0;
 double step_option(const po::variables_map& vm);
 
-// `--order`: timetable, first-come or dispatch; auto (the default): dispatch where the line has
-// single line, else timetable.
-RouteOrder route_order_option(const po::variables_map& vm, const Infrastructure& infra);
+// `--order`: timetable, first-come or dispatch; auto (the default): dispatch where the scenario has
+// single track (a line's or a network's), else timetable.
+RouteOrder route_order_option(const po::variables_map& vm, const Scenario& scenario);
 void add_order_option(po::options_description& options);
 
 // `--sample`: seconds between trajectory samples of a simulated day; 0 for none, else at least

@@ -33,13 +33,41 @@ std::string chart_list() {
     return out;
 }
 
+// The axis of the time-distance diagram: the line's, or the network corridor --corridor names
+// (the first without it), which the title then names.
+std::unique_ptr<DiagramAxis> diagram_axis_option(const po::variables_map& vm, const Scenario& sc,
+                                                 const PlanResult& plan, std::string& title) {
+    std::vector<std::unique_ptr<DiagramAxis>> axes = diagram_axes(sc, plan);
+    if (!sc.network) {
+        if (vm.count("corridor"))
+            throw UsageError("--corridor is for a network scenario; a line's diagram runs along the line");
+        return std::move(axes.front());
+    }
+    if (axes.empty()) throw UsageError("the network has no corridor to draw a time-distance diagram along");
+    std::size_t pick = 0;
+    if (vm.count("corridor")) {
+        const std::string want = vm["corridor"].as<std::string>();
+        std::string known;
+        pick = axes.size();
+        for (std::size_t i = 0; i < axes.size(); ++i) {
+            if (axes[i]->name == want) pick = i;
+            known += (i ? ", " : "") + axes[i]->name;
+        }
+        if (pick == axes.size()) throw UsageError("--corridor: no corridor '" + want + "'; the network has " + known);
+    }
+    title += ", corridor " + axes[pick]->name;
+    return std::move(axes[pick]);
+}
+
 }  // namespace
 
 int plot(const std::vector<std::string>& args) {
     po::options_description options("plot options");
     options.add_options()("chart", po::value<std::string>(), ("the chart (required): " + chart_list()).c_str())(
         "svg", po::value<std::string>(), "write the chart to this SVG file (required)")(
-        "width", po::value<double>()->default_value(1100.0), "width of the drawing [px]; it scales");
+        "width", po::value<double>()->default_value(1100.0), "width of the drawing [px]; it scales")(
+        "corridor", po::value<std::string>(),
+        "a network: the corridor the time-distance diagram runs along (default: the first)");
     add_drawing_options(options);
     po::variables_map vm;
     if (!parse_command_line("plot", args, options, vm, "input", "SCENARIO|RESULTS.h5")) return 0;
@@ -50,8 +78,8 @@ int plot(const std::vector<std::string>& args) {
     if (!(width >= 400.0 && width <= 20000.0)) throw UsageError("--width must be in [400, 20000] pixels");
     const double step = step_option(vm);
     const WindowRequest request = window_request(vm);
-    if (chart != "time-distance" && (request.all || request.from || request.to))
-        throw UsageError("--from, --to and --all apply to --chart time-distance only");
+    if (chart != "time-distance" && (request.all || request.from || request.to || vm.count("corridor")))
+        throw UsageError("--from, --to, --all and --corridor apply to --chart time-distance only");
     const std::string input = vm["input"].as<std::string>();
     const std::string path = vm["svg"].as<std::string>();
     check_output_path(path, {input});
@@ -92,7 +120,7 @@ int plot(const std::vector<std::string>& args) {
         co.title = sc.name + ": time-distance diagram, " + svg::format_hhmm(w.from) + "-" + svg::format_hhmm(w.to) +
                    (as_run ? " (" + as_run->label + ")" : std::string());
         co.footnote = kSafetyCaution;
-        doc = time_distance_chart(sc.infrastructure, pl, w, co, as_run);
+        doc = time_distance_chart(*diagram_axis_option(vm, sc, pl, co.title), pl, w, co, as_run);
     } else if (chart == "capacity") {
         co.title = sc.name + ": capacity consumption per line section (UIC 406 compression)";
         co.footnote = kUic406Note;

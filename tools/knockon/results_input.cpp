@@ -143,10 +143,11 @@ std::unique_ptr<ResultsInput> open_results(const std::string& path, const po::va
     if (day) {
         const std::string label =
             choice ? "as run, replication " + std::to_string(choice->replication) : std::string("as run");
-        in->as_run = as_run_overlay(*day, in->scenario.infrastructure, in->plan, label);
+        in->as_run = as_run_overlay(*day, in->scenario, in->plan, label);
         try {
             const std::optional<std::uint32_t> replication =
                 choice ? std::optional<std::uint32_t>(choice->replication) : std::nullopt;
+            // (on a network the arrows wait for places along the corridors: none are drawn yet)
             if (const auto trees = read_delay_trees(path, replication, *day))
                 in->as_run->trees =
                     largest_delay_trees(*day, *trees, *in->as_run, in->scenario.infrastructure, in->plan);

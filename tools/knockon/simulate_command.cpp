@@ -356,7 +356,7 @@ int simulate(const std::vector<std::string>& args) {
     const std::string scenario_path = vm["scenario"].as<std::string>();
     const std::string scenario_text = read_scenario_text(scenario_path);
     Scenario scenario = parse_scenario(scenario_text, scenario_path, variant);
-    so.route_order = route_order_option(vm, scenario.infrastructure);
+    so.route_order = route_order_option(vm, scenario);
     std::vector<TrainPlan> plan = plan_trains(scenario, so.run);
     check_sample_count(plan, so.sample_interval);
     if (vm.count("replications")) {
