@@ -141,8 +141,8 @@ TEST_CASE("network crossings: trains longer than the loop they stand in are flag
 
 TEST_CASE("network crossings: the demo's branch trains meet one after the other at PLC and HTB and fit its loops") {
     // By hand from the demo's timetable: one train works the branch, leaving Orlen Vale at
-    // HH:10 (up, through PLC and HTB to QSB, due 25.5 min later) and QSB at HH:50 (down, due at
-    // Orlen Vale 16 min later, before the next leaves at HH+1:10), 06:10 to 20:10.  So no two
+    // HH:16 (up, through PLC and HTB to QSB, due about 15 min later) and QSB at HH:46 (down, due
+    // at Orlen Vale about 16 min later, before the next leaves at HH+1:16), 06:16 to 20:16.  So no two
     // trains are ever on the branch together: no crossing proper.  At PLC the up train releases
     // J3-PLC before the same hour's down train enters it (15 times), and the down train releases
     // PLC-HTB before the next hour's up train enters it (14 times); at HTB likewise with PLC-HTB
@@ -161,7 +161,7 @@ TEST_CASE("network crossings: the demo's branch trains meet one after the other 
         CHECK(c.buffer > 0.0);
         const std::string& opposing = id_of(plan, c.opposing);
         const std::string& waiting = id_of(plan, c.waiting);
-        const bool up_first = opposing.size() == 7;   // "BR-0610": up; "BR-0610.2": down
+        const bool up_first = opposing.size() == 7;   // "BR-0616": up; "BR-0616.2": down
         const std::string hour = opposing.substr(3, 2);
         const std::string& stretch = layout.stretches[c.stretch].name;
         if (up_first) {
@@ -171,7 +171,7 @@ TEST_CASE("network crossings: the demo's branch trains meet one after the other 
         } else {
             // The next hour's up train, over the stretch the down train came by.
             const int next = std::stoi(hour) + 1;
-            CHECK(waiting == "BR-" + std::string(next < 10 ? "0" : "") + std::to_string(next) + "10");
+            CHECK(waiting == "BR-" + std::string(next < 10 ? "0" : "") + std::to_string(next) + "16");
             CHECK(stretch == (place == "PLC" ? "PLC-HTB" : "HTB-QSB"));
         }
         // The opposing train releases the stretch between leaving its origin and reaching its

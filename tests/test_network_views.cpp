@@ -118,7 +118,7 @@ TEST_CASE("each train lies along the corridors it runs in either direction", "[n
             CHECK(std::isnan(m->position(path.length + 1.0)));
         }
     }
-    // The timetable's counts: UP every 30 min 06:01-20:31, DN 06:18-21:18, BR hourly 06:10-20:10.
+    // The timetable's counts: UP every 30 min 06:01-20:31, DN 06:18-21:18, BR hourly 06:16-20:16.
     CHECK(up == 30);
     CHECK(down == 31);
     CHECK(out == 15);
@@ -168,8 +168,8 @@ TEST_CASE("the network demo's corridor diagrams split the trains by corridor", "
         INFO(axis->name);
         const bool main = axis->name == "Main";
         // Main, 06:00-08:00: UP 06:01 06:31 07:01 07:31, DN 06:18 06:48 07:18 07:48 (the one
-        // entering at 05:48 never runs: the pattern starts at 06:18); Branch: BR-0610, -0710 out
-        // and BR-0610.2, -0710.2 back (leaving Quenby Sands 06:50, 07:50).
+        // entering at 05:48 never runs: the pattern starts at 06:18); Branch: BR-0616, -0716 out
+        // and BR-0616.2, -0716.2 back (leaving Quenby Sands 06:46, 07:46).
         CHECK(pagetest::count_class(svg, "train-path") == (main ? 8u : 4u));
         CHECK((svg.find("<title>BR-") != std::string::npos) == !main);
         CHECK((svg.find("<title>UP-") != std::string::npos) == main);
