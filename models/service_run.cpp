@@ -33,11 +33,11 @@ std::string stall_text(const TrainPath& path, const StallError& e) {
     return buf;
 }
 
+}  // namespace
+
 double min_dwell_of(const Call& call, const TrainType& type) {
     return call.min_dwell ? *call.min_dwell : type.min_dwell;
 }
-
-}  // namespace
 
 ServiceRun plan_service(const ServicePaths& paths, const Service& service, const TrainType& type,
                         double rounding, const RunOptions& options) {

@@ -66,6 +66,9 @@ struct ServiceRun {
 ServiceRun plan_service(const ServicePaths& paths, const Service& service, const TrainType& type,
                         double rounding, const RunOptions& options = {});
 
+// The least time a train stands at a stop: the call's minimum dwell, else its type's.
+double min_dwell_of(const Call& call, const TrainType& type);
+
 // Rounds t up to the next multiple of grid (grid <= 0: unchanged), ignoring sub-millisecond noise.
 double round_up_to_grid(double t, double grid);
 

@@ -4,6 +4,7 @@
 
 #include "models/network/paths.hpp"
 #include "models/repeat_runs.hpp"
+#include "models/service_run.hpp"
 
 namespace knockon::net {
 namespace {
@@ -19,11 +20,10 @@ NetworkService shifted(const NetworkService& svc, double shift) {
     return out;
 }
 
-double min_dwell_of(const NetworkCall& c, const std::vector<TrainType>& types, const std::string& type) {
-    if (c.call.min_dwell) return *c.call.min_dwell;
+const TrainType* type_of(const std::vector<TrainType>& types, const std::string& id) {
     for (const TrainType& t : types)
-        if (t.id == type) return t.min_dwell;
-    return 0.0;
+        if (t.id == id) return &t;
+    return nullptr;
 }
 
 }  // namespace
@@ -81,9 +81,8 @@ NetworkRuns network_runs(const NetworkGraph& graph, const NetworkTimetable& time
                 svc.first_call = from;
                 for (const NetworkCall& c : piece.calls) svc.calls.push_back(c.call);
                 // The heading it starts in.
-                double length = 0.0;
-                for (const TrainType& t : types)
-                    if (t.id == run.train_type) length = t.length;
+                const TrainType* type = type_of(types, run.train_type);
+                const double length = type ? type->length : 0.0;
                 const NetworkPath path = find_path(graph, path_request(network, piece, length));
                 const Heading h = path.steps.empty() ? path.calls.front().heading : path.steps.front().run.heading;
                 svc.direction = h == Heading::forward ? Direction::up : Direction::down;
@@ -93,7 +92,9 @@ NetworkRuns network_runs(const NetworkGraph& graph, const NetworkTimetable& time
                     link.kind = LinkKind::turnaround;
                     link.from = out.services.back().id;
                     link.to = svc.id;
-                    link.min_time = at.min_turnaround ? *at.min_turnaround : min_dwell_of(at, types, run.train_type);
+                    link.min_time = at.min_turnaround ? *at.min_turnaround
+                                    : type                ? min_dwell_of(at.call, *type)
+                                                          : 0.0;
                     out.links.push_back(link);
                 }
                 out.services.push_back(std::move(svc));
