@@ -176,6 +176,15 @@ DayAttribution attribute_knock_on(const SimResult& day, const InjectedDelays& de
         }
     };
 
+    // When the train of record r left the timing point before the previous one (that one, for
+    // the second record; the run's start for the first).
+    auto earlier_departure = [&](std::uint32_t r) {
+        const std::uint32_t t = day.timing[r].train;
+        for (std::uint32_t back = 2; back >= 1; --back)
+            if (r >= back && day.timing[r - back].train == t && !std::isnan(day.timing[r - back].departure))
+                return day.timing[r - back].departure;
+        return std::isnan(day.timing[r].arrival) ? 0.0 : day.timing[r].arrival;
+    };
     std::vector<HoldCause> causes;
     std::vector<double> piece_w, piece_y;
     for (const Event& e : events) {
@@ -194,6 +203,19 @@ DayAttribution attribute_knock_on(const SimResult& day, const InjectedDelays& de
                     if (!(overlap > 0.0)) continue;
                     causes.push_back(rr->held_by);
                     piece_w.push_back(overlap);
+                }
+                if (causes.empty()) {
+                    // None held within the run: a hold just before it still costs time in it (the
+                    // train brakes for the late route and re-accelerates after it, past the timing
+                    // point).  The routes held since the train left the timing point before the
+                    // previous one take it, by how long each was held.
+                    const double since = earlier_departure(p.record);
+                    for (const RouteRecord* rr : held_routes[t]) {
+                        const double held = std::min(rr->granted, p.to) - std::max(rr->requested, since);
+                        if (!(held > 0.0)) continue;
+                        causes.push_back(rr->held_by);
+                        piece_w.push_back(held);
+                    }
                 }
                 if (causes.empty()) {
                     causes.emplace_back();

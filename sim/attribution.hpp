@@ -9,7 +9,10 @@
 // The rule (README, "Where knock-on comes from"):
 // - a wait takes the cause the engine recorded for it; time lost on a run goes to the routes held
 //   for the train during that run (RouteRecord::held_by), in proportion to how long each was held
-//   within the run; with none, its cause is not known ("unexplained");
+//   within the run; with none, to those held since it left the timing point before the previous
+//   one (braking for a late route and re-accelerating outlast the hold, past a timing point); with
+//   none either, its cause is not known ("unexplained": on the demo only the part of a train's
+//   own slow running that the drawn extra running time does not hold);
 // - a piece of y seconds whose holder was D seconds late at its last timing point passes min(y, D)
 //   on to the sources of that delay, in proportion to each one's share of it; the rest, y - min(y, D),
 //   is the timetable's own (the holder on time would have held it as long);

@@ -1143,9 +1143,11 @@ void Day::try_appear(std::uint32_t t) {
     const double entry = t < delays_.entry.size() ? delays_.entry[t] : 0.0;
     s.ready_time = std::max(run.calls[0].scheduled_departure + entry, now_ + dwell_at(t, 0));
     // Kept off its platform by the previous occupant, or waiting for its set or crew (a link whose
-    // earlier train has arrived): what that costs it is knock-on.
+    // earlier train has arrived): what that costs it is knock-on.  Its own readiness counts its
+    // dwell from its own (late) appearance: a late start and a long preparation are both its own
+    // delays, not knock-on.
     const double ready_on_time =
-        std::max(run.calls[0].scheduled_departure + entry, run.appear_time + dwell_at(t, 0));
+        std::max(run.calls[0].scheduled_departure + entry, run.appear_time + entry + dwell_at(t, 0));
     s.own_ready = ready_on_time;
     long binding = -1;
     if (!train(t).links_in.empty()) {
