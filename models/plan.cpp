@@ -239,7 +239,11 @@ std::string conflict_kind(const Conflict& c) {
     return c.stretch.empty() ? "opposing trains" : "opposing trains on single-track stretch " + c.stretch;
 }
 
-PlanSize plan_size(const Scenario& scenario, const RunOptions& options) {
+namespace {
+
+// The plan's size; a network's paths are laid by `paths` to be measured (cheap beside integrating
+// them), where it is given (nullptr: the layout is refused with its reason when the plan is made).
+PlanSize plan_size(const Scenario& scenario, const ServicePaths* paths, const RunOptions& options) {
     PlanSize size;
     auto add = [&](double km) {
         size.train_km += km;
@@ -247,13 +251,7 @@ PlanSize plan_size(const Scenario& scenario, const RunOptions& options) {
         ++size.runs;
     };
     if (scenario.network) {
-        // A network's paths are laid to be measured (cheap beside integrating them).
-        std::unique_ptr<ServicePaths> paths;
-        try {
-            paths = service_paths(scenario);
-        } catch (const PathError&) {
-            return size;   // refused with its reason when the plan is made
-        }
+        if (!paths) return size;
         for (const Service& svc : scenario.timetable.services) {
             try {
                 add(paths->lay(svc).length / 1000.0);
@@ -276,9 +274,19 @@ PlanSize plan_size(const Scenario& scenario, const RunOptions& options) {
     return size;
 }
 
-std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& options) {
+// The scenario's paths, or the reason the layout cannot take them as an input problem.
+std::unique_ptr<ServicePaths> paths_of(const Scenario& scenario) {
+    try {
+        return service_paths(scenario);
+    } catch (const PathError& e) {
+        throw ScenarioError({(scenario.source_file.empty() ? std::string("scenario") : scenario.source_file) +
+                             ": infrastructure: " + e.what()});
+    }
+}
+
+std::vector<TrainPlan> plan_trains(const Scenario& scenario, const ServicePaths& paths, const RunOptions& options) {
     // Refused before any work: a plan's memory is its grid points (README, "Memory").
-    const PlanSize size = plan_size(scenario, options);
+    const PlanSize size = plan_size(scenario, &paths, options);
     if (size.grid_points > kMaxPlanGridPoints) {
         char buf[400];
         std::snprintf(buf, sizeof buf,
@@ -296,20 +304,13 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& o
     // (the runs of a repeat pattern share their type and path).
     std::vector<std::string> problems;
     std::map<std::size_t, std::pair<std::size_t, std::size_t>> failed;   // entry -> (problem, further runs)
-    std::unique_ptr<ServicePaths> paths;
-    try {
-        paths = service_paths(scenario);
-    } catch (const PathError& e) {
-        throw ScenarioError({(scenario.source_file.empty() ? std::string("scenario") : scenario.source_file) +
-                             ": infrastructure: " + e.what()});
-    }
     for (const Service& svc : scenario.timetable.services) {
         std::string problem;
         try {
             const TrainType* type = scenario.find_train_type(svc.train_type);
             if (!type) throw std::runtime_error("unknown train type");
-            TrainPlan tp{plan_service(*paths, svc, *type, scenario.timetable.rounding, options), {}, {}};
-            tp.stairway = blocking_stairway(tp.run, paths->interlocking());
+            TrainPlan tp{plan_service(paths, svc, *type, scenario.timetable.rounding, options), {}, {}};
+            tp.stairway = blocking_stairway(tp.run, paths.interlocking());
             trains.push_back(std::move(tp));
             continue;
         } catch (const std::runtime_error& e) {
@@ -330,9 +331,26 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& o
             problems[at.first] += " (and " + std::to_string(at.second) + " more run" + (at.second == 1 ? "" : "s") +
                                   " of its pattern)";
     if (!problems.empty()) throw ScenarioError(problems);
-    link_trains(scenario, *paths, trains);
+    link_trains(scenario, paths, trains);
     keep_turnback_platforms(trains);
     return trains;
+}
+
+}  // namespace
+
+PlanSize plan_size(const Scenario& scenario, const RunOptions& options) {
+    std::unique_ptr<ServicePaths> paths;
+    if (scenario.network) {
+        try {
+            paths = service_paths(scenario);
+        } catch (const PathError&) {
+        }
+    }
+    return plan_size(scenario, paths.get(), options);
+}
+
+std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& options) {
+    return plan_trains(scenario, *paths_of(scenario), options);
 }
 
 std::vector<HeadwayPair> consecutive_headways(const std::vector<LineSection>& sections,
@@ -344,8 +362,8 @@ std::vector<HeadwayPair> consecutive_headways(const std::vector<LineSection>& se
 
 PlanResult make_plan(const Scenario& scenario, const RunOptions& options) {
     PlanResult plan;
-    plan.trains = plan_trains(scenario, options);
-    const std::unique_ptr<ServicePaths> paths = service_paths(scenario);
+    const std::unique_ptr<ServicePaths> paths = paths_of(scenario);
+    plan.trains = plan_trains(scenario, *paths, options);
     plan.line_sections = paths->line_sections();
     for (const LineSection& ls : plan.line_sections) {
         std::vector<SectionStairway> ordered = stairways_in(ls, plan.trains);

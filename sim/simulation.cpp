@@ -673,6 +673,7 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
 }
 
 long Day::link_timed_stop(std::uint32_t t, std::size_t i) const {
+    if (train(t).links_in.empty()) return -1;   // most trains: asked at every route request
     const SimModel::Route& r = train(t).routes[i];
     const long k = r.after_stop >= 0 ? r.after_stop
                    : r.stop_before_warning >= 0 && st_[t].next_call <= static_cast<std::size_t>(r.stop_before_warning) + 1
