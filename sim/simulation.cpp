@@ -11,60 +11,14 @@
 #include "sim/deadlock_text.hpp"
 #include "sim/crossing_changes.hpp"
 #include "sim/dispatch.hpp"
+#include "sim/day_records.hpp"
+#include "sim/day_state.hpp"
 #include "sim/event_queue.hpp"
 
 namespace knockon {
 namespace {
 
-constexpr double kInf = std::numeric_limits<double>::infinity();
-constexpr double kEps = kSamePlace;
-// Positions recomputed from event times (rounded to the tick) may fall short of the point the
-// event was for by speed x 1 ms; comparisons with such points allow this much [m].
-constexpr double kPositionTolerance = 0.5;
-// Knock-on below this per timing point is not counted: recomputing the motion from another grid
-// point moves arrival times by a few hundredths of a second [s].
-constexpr double kNoiseFloor = 0.5;
-
-enum Kind : std::uint32_t {
-    kAppear,
-    kRelease,
-    kAuthorityCheck,
-    kDepartReady,
-    kVanish,
-    // Motion events: stale once the train's motion is recomputed.
-    kEnter,
-    kLeave,
-    kClear,
-    kSight,
-    kPass,
-    kCall,
-    kRequest,
-    kArrive,
-    kExit,
-    kJoin,         // a train integrated again is back on its planned leg's motion
-    kBrakePoint,   // a train following its planned leg must start braking for its authority
-    kDisruptionStart,   // not a train's: payload indexes InjectedDelays::blocked
-    kDisruptionEnd,
-    kLinkCheck,    // a link that held a train's departure may let it go now
-};
-
-// Phases order simultaneous events: releases before grants, authority before motion.
-std::uint8_t phase_of(Kind k) {
-    switch (k) {
-        case kRelease: return 0;
-        case kAuthorityCheck: return 2;
-        case kRequest: return 3;
-        case kAppear: return 4;
-        case kBrakePoint: return 5;
-        case kDisruptionEnd: return 0;
-        case kDisruptionStart: return 0;
-        case kDepartReady: return 5;
-        case kLinkCheck: return 5;
-        default: return 6;
-    }
-}
-
-bool is_motion(Kind k) { return k >= kEnter && k <= kBrakePoint; }
+using namespace day;
 
 // A train's buffers are kept from one simulated day to the next on the same thread: growing
 // thousands of fresh vectors a day cost more than the integration in them.
@@ -93,61 +47,6 @@ public:
     SimResult run();
 
 private:
-    enum class Phase { waiting, standing, moving, finished };
-
-    struct TrainState {
-        Phase phase = Phase::waiting;
-        double t0 = 0.0;            // when the current motion started (its time 0)
-        // The motion: a planned leg followed as planned (no integration needed) while the
-        // authority allows, else integrated from the train's state (`own`).
-        long leg = -1;              // planned leg followed, or -1
-        bool leg_scheduled = false; // the leg's points are in the queue (false: just started it)
-        Trajectory own;
-        double brake_from = kInf;   // on a planned leg: where braking for the authority would begin
-        double brake_time = 0.0;    // and when, from the leg's start
-        std::size_t brake_index = 0;   // and its point on the leg's motion
-        // `own` brakes to a stop at own_target; when the authority grows, it still stands up to
-        // its settled point (own.settled), where the engine integrates again (a brake event).
-        double own_target = kNoTime;
-        long join_leg = -1;         // `own` ends where it rejoins this planned leg, at grid point join_point
-        std::size_t join_point = 0;
-        bool free_end = false;      // the motion runs out over the line end
-        double s_stand = 0.0;
-        double stand_since = 0.0;
-        double eoa = 0.0;           // end of the authority the driver knows
-        bool ready = false;         // at a stop: dwell and schedule allow departure
-        double ready_time = kNoTime;
-        // When it would have been ready by itself, links aside (differs from ready_time at its
-        // origin, where a turnaround or crew link already known is part of ready_time).
-        double own_ready = kNoTime;
-        long stop_call = -1;        // timing point where it stands, if a scheduled stop
-        double hold_from = kNoTime; // standing at a signal since
-        std::size_t next_enter = 0, next_leave = 0, next_clear = 0;
-        std::size_t next_sight = 0, next_pass = 0, next_request = 0, next_call = 0;
-        std::vector<double> route_set;        // when each route is set for it (NaN: not granted yet)
-        std::vector<long> route_record;       // per route: index into result.routes
-        bool appear_granted = false;          // its appearance time has come and the sections it
-                                              // appears on are its own
-        // A formed service (turnaround) whose set has not yet arrived: it appears when it has.
-        bool awaiting_set = false, appear_deferred = false;
-        HoldCause appear_cause;               // what kept its origin sections from it, last
-        double last_departure = kNoTime;      // from the previous timing point (or entry)
-        double appeared = kNoTime;
-        std::vector<long> section_record;     // per path section: index into result.sections
-        std::vector<std::uint8_t> holds;      // per path section: it holds the section now
-        bool request_pending = false;
-        double last_sample = -kInf;
-        // head_position is asked several times per event, and a leg's motion is mostly out of
-        // cache: the last answer is kept with everything it depends on.
-        std::uint64_t own_version = 0;   // counts writes of `own`
-        struct {
-            double now = kNoTime, t0 = kNoTime, position = 0.0;
-            long leg = -2;
-            std::uint64_t own_version = 0;
-            bool free_end = false;
-        } mutable head_memo;
-    };
-
     // A stretch run slower by an injected running-time extension.
     struct SlowStretch {
         double from, to, factor;
@@ -166,51 +65,21 @@ private:
     Interlocking interlocking_;
     DispatchCheck dispatch_;
     std::vector<std::uint8_t> outside_;   // [train]: 1 until given the sections it appears on
-    EventQueue queue_;
-    GenerationTable generations_;
+    DayEvents events_;
     std::vector<TrainState> st_;
     std::vector<Pending> pending_;
-    SimResult out_;
-    std::vector<long> timing_first_;   // [train] -> its first record in out_.timing (then one per call)
+    DayRecords records_;
     std::vector<std::vector<SlowStretch>> slow_;     // [train]
     std::vector<std::vector<std::uint32_t>> disrupted_;   // per InjectedDelays::blocked entry: sections
-    double now_ = 0.0;
     std::uint32_t trace_ = kNoTrain;   // KNOCKON_TRACE=<train id>: print its events (debugging aid)
 
     const SimModel::Train& train(std::uint32_t t) const { return model_.trains()[t]; }
     const ServiceRun& run_of(std::uint32_t t) const { return train(t).plan->run; }
-    // Each train's events fall in three groups cancelled separately: its motion (points along
-    // the way, arrival), the brake point for its authority (which moves whenever the authority
-    // grows, while the motion stays), and the rest.
-    static constexpr std::uint32_t kEntitiesPerTrain = 3;
-    std::uint32_t motion_entity(std::uint32_t t) const { return kEntitiesPerTrain * t; }
-    std::uint32_t fixed_entity(std::uint32_t t) const { return kEntitiesPerTrain * t + 1; }
-    std::uint32_t brake_entity(std::uint32_t t) const { return kEntitiesPerTrain * t + 2; }
-    std::uint32_t train_of(std::uint32_t entity) const { return entity / kEntitiesPerTrain; }
-    void cancel_motion(std::uint32_t t) {
-        generations_.bump(motion_entity(t));
-        generations_.bump(brake_entity(t));
-    }
-
+    double now() const { return events_.now(); }
     void push(double time, Kind kind, std::uint32_t t, std::uint32_t payload = 0) {
-        std::uint32_t entity = t == kNoTrain       ? no_entity
-                               : kind == kBrakePoint ? brake_entity(t)
-                               : is_motion(kind)     ? motion_entity(t)
-                                                     : fixed_entity(t);
-        SimTime when = SimTime::from_seconds(std::max(time, now_));
-        if (when < queue_.now()) when = queue_.now();
-        // Releases and authority checks come a constant time after the event that makes them:
-        // they are pushed in order, and their own lanes spare the heap a third of the events.
-        if (kind == kRelease || kind == kAuthorityCheck)
-            queue_.push_in_order(kind == kRelease ? 0 : 1, when, phase_of(kind), kind, entity,
-                                 generations_.current(entity), payload);
-        else
-            queue_.push(when, phase_of(kind), kind, entity, generations_.current(entity), payload);
+        events_.push(time, kind, t, payload);
     }
-
-    double delay_of(const std::vector<std::vector<double>>& v, std::uint32_t t, std::size_t call) const {
-        return t < v.size() && call < v[t].size() ? v[t][call] : 0.0;
-    }
+    void cancel_motion(std::uint32_t t) { events_.cancel_motion(t); }
 
     // Minimum dwell at a timing point plus any injected extension [s].
     double dwell_at(std::uint32_t t, std::size_t tp) const {
@@ -235,7 +104,7 @@ private:
     // route is needed for the departure, its authority must reach beyond the stop.
     bool may_depart(std::uint32_t t) const {
         const TrainState& s = st_[t];
-        if (!train(t).links_in.empty() && link_hold(t, s.stop_call) > now_ + kEps) return false;
+        if (!train(t).links_in.empty() && link_hold(t, s.stop_call) > now() + kEps) return false;
         const auto& routes = train(t).routes;
         // (they are the routes from the first signal ahead on: models/blocking_time stop_in)
         std::size_t j = s.next_pass;
@@ -251,7 +120,7 @@ private:
         for (std::uint32_t l : train(t).links_in) {
             const LinkPlan& link = model_.links()[l];
             if (static_cast<long>(link.to_call) != k) continue;
-            const double arrival = out_.links[l].arrival;
+            const double arrival = records_.link(l).arrival;
             double until = std::isnan(arrival) ? kInf : arrival + link.min_time;
             if (link.kind == LinkKind::connection) until = std::min(until, link.wait_until());
             hold = std::max(hold, until);
@@ -262,7 +131,7 @@ private:
     // Wakes a train held by its links when they would let it go.
     void schedule_link_check(std::uint32_t t) {
         const double hold = link_hold(t, st_[t].stop_call);
-        if (std::isfinite(hold) && hold > now_) push(hold, kLinkCheck, t);
+        if (std::isfinite(hold) && hold > now()) push(hold, kLinkCheck, t);
     }
     // When train t, ready to leave timing point k at `ready`, is let go by its links there: the
     // time a route request for that departure is timed from (the one rule for it: a train kept by
@@ -276,9 +145,9 @@ private:
         for (std::uint32_t l : train(t).links_in) {
             const LinkPlan& link = model_.links()[l];
             if (static_cast<long>(link.to_call) != k) continue;
-            const double arrival = out_.links[l].arrival;
+            const double arrival = records_.link(l).arrival;
             double until = !std::isnan(arrival)             ? arrival + link.min_time
-                           : link.arrival > now_ + kEps ? link.arrival + link.min_time
+                           : link.arrival > now() + kEps ? link.arrival + link.min_time
                                                             : kNoTime;
             if (link.kind == LinkKind::connection) until = std::isnan(until) ? link.wait_until()
                                                                             : std::min(until, link.wait_until());
@@ -330,7 +199,7 @@ private:
     // The route is set and the driver has had the reaction time since.
     bool route_known(std::uint32_t t, std::size_t j) const {
         const double set = st_[t].route_set[j];
-        return !std::isnan(set) && set + times_.sight_reaction <= now_ + kEps;
+        return !std::isnan(set) && set + times_.sight_reaction <= now() + kEps;
     }
     // The driver can read the aspect of route j's entry signal: from its read point (always under
     // cab signalling) until the head passes it, and while standing at a stop whose departure
@@ -418,26 +287,17 @@ private:
     void check_authority(std::uint32_t t);
     void depart(std::uint32_t t);
     void vanish(std::uint32_t t);
-    // `cause`: what kept it beyond its readiness when it departs (none: not known).
-    void record_call(std::uint32_t t, std::size_t tp, double arrival, double departure, const HoldCause& cause = {});
-    // Knock-on gathered at a timing record, with what sim/attribution needs to trace it: the run
-    // or wait it was lost on, and the cause of a wait.
-    void add_knock_on(long record, double seconds, double from, double to, bool run, const HoldCause& cause = {}) {
-        out_.timing[record].knock_on += seconds;
-        out_.knock_on_parts.push_back({static_cast<std::uint32_t>(record), seconds, from, to, run, cause});
-    }
-
     void handle(const Event& e);
     // The head reaches the end of its next section / its next signal.
     void head_leaves(std::uint32_t t) {
         TrainState& s = st_[t];
-        if (s.section_record[s.next_leave] >= 0) out_.sections[s.section_record[s.next_leave]].head_leaves = now_;
+        if (s.section_record[s.next_leave] >= 0) records_.section(s.section_record[s.next_leave]).head_leaves = now();
         ++s.next_leave;
         schedule_point(t, kLeave);
     }
     void passes_signal(std::uint32_t t) {
         ++st_[t].next_pass;
-        ++out_.block_passages;
+        records_.count_block_passage();
         schedule_point(t, kPass);
     }
     void report_deadlock();
@@ -450,7 +310,8 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
       times_(model.interlocking()),
       interlocking_(model.section_names().size(), options.route_order, model.planned_order()),
       dispatch_(model),
-      generations_(kEntitiesPerTrain * model.trains().size()) {
+      events_(model.trains().size()),
+      records_(model, delays) {
     const auto& trains = model.trains();
     st_.resize(trains.size());
     std::vector<TrainBuffers>& spare = spare_buffers();
@@ -464,48 +325,16 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
         s.holds = std::move(b.holds);
         spare.pop_back();
     }
-    out_.section_names = model.section_names();
-    std::size_t calls = 0, sections = 0, routes = 0;
-    for (const SimModel::Train& tr : trains) {
-        calls += tr.plan->run.calls.size();
-        sections += tr.plan->stairway.sections.size();
-        routes += tr.routes.size();
-    }
-    out_.timing.reserve(calls);
-    for (const LinkPlan& l : model.links()) {
-        LinkRecord r;
-        r.from = static_cast<std::uint32_t>(l.from);
-        r.to = static_cast<std::uint32_t>(l.to);
-        r.connection = l.kind == LinkKind::connection;
-        out_.links.push_back(r);
-    }
-    out_.sections.reserve(sections + sections / 8);
-    out_.routes.reserve(routes);
-    timing_first_.resize(trains.size());
     outside_.assign(trains.size(), 1);
     const char* const trace_id = std::getenv("KNOCKON_TRACE");
     for (std::uint32_t t = 0; t < trains.size(); ++t) {
         const ServiceRun& run = run_of(t);
-        out_.train_ids.push_back(run.service->id);
         if (trace_id && run.service->id == trace_id) trace_ = t;
         TrainState& s = st_[t];
         s.route_set.assign(train(t).routes.size(), kNoTime);
         s.route_record.assign(train(t).routes.size(), -1);
         s.section_record.assign(run.path.sections.size(), -1);
         s.holds.assign(run.path.sections.size(), 0);
-        timing_first_[t] = static_cast<long>(out_.timing.size());
-        for (const PlannedCall& c : run.calls) {
-            TimingRecord r;
-            r.train = t;
-            r.call = static_cast<std::uint32_t>(c.call);
-            r.station = c.station;
-            r.stops = c.stops;
-            r.scheduled_arrival = c.scheduled_arrival;
-            r.scheduled_departure = c.scheduled_departure;
-            r.arrival = r.departure = kNoTime;
-            r.arrival_delay = r.departure_delay = kNoTime;
-            out_.timing.push_back(r);
-        }
         // Running-time extensions become slower running over the stretch to the next timing
         // point: limits scaled by T / (T + extra), exact where the train would cruise.
         slow_.emplace_back();
@@ -519,7 +348,7 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
             const double T = run.legs.back().trajectory.duration();   // to the line end, roughly
             if (extra > 0.0 && T > 0.0) slow_[t].push_back({run.calls.back().s, run.path.length + 1.0, T / (T + extra)});
         }
-        const double entry = t < delays.entry.size() ? delays.entry[t] : 0.0;
+        const double entry = entry_delay(delays, t);
         push(run.appear_time + entry, kAppear, t);
         // A train entering over the line end asks for its first routes before it comes in.
         if (run.path.starts_at_edge) schedule_point(t, kRequest);
@@ -528,7 +357,7 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
     // uses them, so they cannot matter).
     std::map<std::string, std::uint32_t> index;
     if (!delays.blocked.empty())   // (most days have none: no name look-up built for them)
-        for (std::uint32_t k = 0; k < out_.section_names.size(); ++k) index[out_.section_names[k]] = k;
+        for (std::uint32_t k = 0; k < records_.section_names().size(); ++k) index[records_.section_names()[k]] = k;
     for (std::uint32_t b = 0; b < delays.blocked.size(); ++b) {
         disrupted_.emplace_back();
         auto it = index.find(delays.blocked[b].section);
@@ -543,17 +372,17 @@ double Day::head_position(std::uint32_t t) const {
     const TrainState& s = st_[t];
     if (s.phase != Phase::moving) return s.s_stand;
     auto& m = s.head_memo;
-    if (m.now == now_ && m.t0 == s.t0 && m.leg == s.leg && m.own_version == s.own_version && m.free_end == s.free_end)
+    if (m.now == now() && m.t0 == s.t0 && m.leg == s.leg && m.own_version == s.own_version && m.free_end == s.free_end)
         return m.position;
     double position;
-    const double dt = now_ - s.t0;
+    const double dt = now() - s.t0;
     if (traj(t).v.size() <= 1)
         position = traj(t).s0;
     else if (const auto e = ends(t); s.free_end && dt > e.duration)
         position = e.s_end + (dt - e.duration) * e.v_end;
     else
         position = traj(t).position_at(dt);
-    m.now = now_;
+    m.now = now();
     m.t0 = s.t0;
     m.leg = s.leg;
     m.own_version = s.own_version;
@@ -572,10 +401,10 @@ double Day::head_speed(std::uint32_t t) const {
 
 double Day::time_at_head(std::uint32_t t, double p) const {
     const TrainState& s = st_[t];
-    if (s.phase == Phase::standing) return p <= s.s_stand + kEps ? now_ : kNoTime;
+    if (s.phase == Phase::standing) return p <= s.s_stand + kEps ? now() : kNoTime;
     if (s.phase != Phase::moving) return kNoTime;
     const auto e = ends(t);
-    if (p <= e.s0 + kEps) return now_;
+    if (p <= e.s0 + kEps) return now();
     if (p <= e.s_end + kEps) return s.t0 + traj(t).time_at(std::min(p, e.s_end));
     if (s.free_end) return s.t0 + e.duration + (p - e.s_end) / std::max(e.v_end, 0.1);
     return kNoTime;
@@ -611,7 +440,7 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
             return ask_for(
                 leaves(r.after_stop, std::max(c.scheduled_departure, arrival + dwell_at(t, r.after_stop))));
         }
-        if (s.next_call > static_cast<std::size_t>(r.after_stop)) return now_;  // already left it
+        if (s.next_call > static_cast<std::size_t>(r.after_stop)) return now();  // already left it
         return kNoTime;
     }
     if (r.stop_before_warning >= 0 && s.next_call <= static_cast<std::size_t>(r.stop_before_warning) + 1) {
@@ -641,13 +470,13 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
         // best forecast of when it reaches the warning point.
         const ServiceRun& run = run_of(t);
         if (!run.path.starts_at_edge) return kNoTime;
-        const double entry = t < delays_.entry.size() ? delays_.entry[t] : 0.0;
+        const double entry = entry_delay(delays_, t);
         // (on its first leg, timed as the engine will time the place: from the appearance's tick)
         const Place& w = train(t).warnings[i];
         if (w.leg == 0) return ask_for(SimTime::from_seconds(run.appear_time + entry).to_seconds() + w.t);
         return ask_for(run.head_reach(r.warning_point) + entry);
     }
-    if (s.phase == Phase::standing && s.s_stand >= r.warning_point - kPositionTolerance) return now_;
+    if (s.phase == Phase::standing && s.s_stand >= r.warning_point - kPositionTolerance) return now();
     // (a warning point already passed gives a time in the past: the request goes out now)
     double tw = time_at_place(t, train(t).warnings[i]);
     if (s.phase == Phase::moving && !s.free_end) {
@@ -661,11 +490,11 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
         const double end = to_end ? run.path.length : stop;
         if (e.s_end < end - kEps && r.warning_point <= end + kEps) {
             const double head = head_position(t);
-            if (head >= r.warning_point - kPositionTolerance) return now_;
+            if (head >= r.warning_point - kPositionTolerance) return now();
             // The planned motion over [head, warning point] (no stop lies between): a lower bound
             // of the time it will take, so the request is never late (early by at most the
             // re-acceleration the train still needs).
-            const double tf = now_ + std::max(0.0, run.head_reach(r.warning_point) - run.head_reach(head));
+            const double tf = now() + std::max(0.0, run.head_reach(r.warning_point) - run.head_reach(head));
             tw = std::isnan(tw) ? tf : std::min(tw, tf);
         }
     }
@@ -769,7 +598,7 @@ void Day::sample_until(std::uint32_t t, double until) {
         }
         if (pos > path.length + kEps && !path.ends_at_edge) return;
         double x = pos <= path.length ? path.chainage_at(pos) : path.chainage_at(path.length);
-        out_.samples.push_back({t, time, pos, x, v});
+        records_.add_sample({t, time, pos, x, v});
         s.last_sample = time;
     };
     for (double time = first; time <= until + 1e-9; time += dt) add(time);
@@ -790,7 +619,7 @@ void Day::join_leg(std::uint32_t t) {
     TrainState& s = st_[t];
     const ServiceRun& run = run_of(t);
     const std::size_t k = static_cast<std::size_t>(s.join_leg);
-    sample_until(t, now_);
+    sample_until(t, now());
     s.t0 += s.own.duration() - run.legs[k].trajectory.t[s.join_point];
     s.leg = static_cast<long>(k);
     s.leg_scheduled = false;
@@ -808,7 +637,7 @@ bool Day::start_leg(std::uint32_t t, double s_now) {
         if (std::fabs(lt.s0 - s_now) > kEps) continue;
         s.leg = static_cast<long>(k);
         s.leg_scheduled = false;
-        s.t0 = now_;
+        s.t0 = now();
         s.free_end = k + 1 == run.legs.size() && run.path.ends_at_edge;
         s.phase = Phase::moving;
         return true;
@@ -823,7 +652,7 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
         set_brake_point(t);
         // (compared in time, not place: the leg's time at its brake point is known, the head
         // position would need a look-up in the leg's long motion)
-        if (std::isinf(s.brake_from) || s.t0 + s.brake_time > now_) {
+        if (std::isinf(s.brake_from) || s.t0 + s.brake_time > now()) {
             // Still free to run the plan: the points ahead stand (once scheduled for this leg),
             // only the brake point moves.
             if (!s.leg_scheduled) {
@@ -831,18 +660,18 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
                 schedule_points(t);
                 s.leg_scheduled = true;
             } else {
-                generations_.bump(brake_entity(t));
+                events_.cancel_brake_point(t);
             }
             // (time_at_head, without a look-up in the leg's motion)
             if (const auto e = ends(t); s.brake_from < e.s_end)
-                push(s.brake_from <= e.s0 + kEps ? now_ : s.t0 + s.brake_time, kBrakePoint, t);
+                push(s.brake_from <= e.s0 + kEps ? now() : s.t0 + s.brake_time, kBrakePoint, t);
             return;
         }
     }
     if (s.phase == Phase::moving && s.leg < 0 && !leave_leg && motion_stands(t)) return;
     // Where the new motion starts: at a brake event, exactly at the point the current motion
     // hands over (its time, place and speed there); otherwise where the head is now.
-    double s_now, v_now, t_start = now_;
+    double s_now, v_now, t_start = now();
     if (s.phase == Phase::moving && leave_leg) {
         const Trajectory& from = traj(t);
         const std::size_t i = s.leg >= 0 ? s.brake_index : from.settled;
@@ -853,7 +682,7 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
         s_now = head_position(t);
         v_now = head_speed(t);
     }
-    sample_until(t, now_);
+    sample_until(t, now());
 
     double target = motion_target(t, s_now);
     bool free = false;
@@ -865,7 +694,7 @@ void Day::replan(std::uint32_t t, bool leave_leg) {
     if (target - s_now < 1e-3 && v_now <= 1e-6) {
         s.phase = Phase::standing;
         s.s_stand = s_now;
-        s.stand_since = now_;
+        s.stand_since = now();
         schedule_points(t);
         return;
     }
@@ -918,23 +747,13 @@ bool Day::motion_stands(std::uint32_t t) {
     const Trajectory& own = s.own;
     if (!(own.point(own.settled) > head + kPositionTolerance)) return false;
     // Up to the settled point the motion is the same for any further end: integrate there.
-    generations_.bump(brake_entity(t));
+    events_.cancel_brake_point(t);
     push(s.t0 + own.t[own.settled], kBrakePoint, t);
     return true;
 }
 
 long Day::record_for(std::uint32_t t, std::size_t k) {
-    TrainState& s = st_[t];
-    if (s.section_record[k] < 0) {
-        SectionRecord r;
-        r.train = t;
-        r.section = train(t).section_index[k];
-        r.locked = now_;
-        r.head_enters = r.head_leaves = r.tail_clears = r.released = kNoTime;
-        s.section_record[k] = static_cast<long>(out_.sections.size());
-        out_.sections.push_back(r);
-    }
-    return s.section_record[k];
+    return records_.open_section(st_[t], t, train(t).section_index[k], k, now());
 }
 
 void Day::take_sections(std::uint32_t t, const std::vector<std::uint32_t>& globals,
@@ -980,17 +799,17 @@ bool Day::waits_on(std::uint32_t a, std::uint32_t b, std::vector<std::uint8_t>& 
 double Day::forecast_delay(std::uint32_t t) const {
     const ServiceRun& run = run_of(t);
     const TrainState& s = st_[t];
-    if (s.phase == Phase::waiting) return std::max(0.0, now_ - run.appear_time);
+    if (s.phase == Phase::waiting) return std::max(0.0, now() - run.appear_time);
     double shown = 0.0;
     std::size_t k = 0;
     for (; k < run.calls.size(); ++k) {
-        const TimingRecord& r = out_.timing[timing_first_[t] + static_cast<long>(k)];
+        const TimingRecord& r = records_.timing(t, k);
         if (!std::isnan(r.departure)) shown = r.departure - run.calls[k].planned_departure;
         else if (!std::isnan(r.arrival)) shown = r.arrival - run.calls[k].planned_arrival;
         else break;
     }
     const double late = k < run.calls.size() && !std::isnan(run.calls[k].planned_arrival)
-                            ? now_ - run.calls[k].planned_arrival
+                            ? now() - run.calls[k].planned_arrival
                             : 0.0;
     return std::max({0.0, shown, late});
 }
@@ -1066,10 +885,10 @@ void Day::grant_pending() {
         // The route is set after the setting time (at that event tick), and the driver reacts to
         // the aspect after the reaction time.  Until then route_set lies in the future, which
         // every reader takes as "not set yet".
-        RouteRecord& record = out_.routes[st_[p.train].route_record[p.route]];
-        record.granted = now_;
+        RouteRecord& record = records_.route(st_[p.train].route_record[p.route]);
+        record.granted = now();
         record.held_by = p.cause;
-        const double set = SimTime::from_seconds(now_ + times_.route_setup).to_seconds();
+        const double set = SimTime::from_seconds(now() + times_.route_setup).to_seconds();
         st_[p.train].route_set[p.route] = set;
         record.cleared = set;
         push(set + times_.sight_reaction, kAuthorityCheck, p.train);
@@ -1094,14 +913,14 @@ void Day::try_appear(std::uint32_t t) {
             ++known_outside;
         }
         s.phase = Phase::moving;
-        s.t0 = now_;
+        s.t0 = now();
         s.s_stand = 0.0;
         s.eoa = 0.0;
         {
             // Held outside the model beyond its (possibly late) entry: knock-on at the first call.
-            const double due = run.appear_time + (t < delays_.entry.size() ? delays_.entry[t] : 0.0);
-            if (now_ - due > kNoiseFloor) add_knock_on(timing_first_[t], now_ - due, due, now_, true);
-            s.last_departure = now_;
+            const double due = run.appear_time + (entry_delay(delays_, t));
+            if (now() - due > kNoiseFloor) records_.add_knock_on(records_.first_timing(t), now() - due, due, now(), true);
+            s.last_departure = now();
         }
         // Motion starts at entry speed on the planned first leg; authority is read at once
         // (signals in sight), and the motion follows from it.
@@ -1139,10 +958,10 @@ void Day::try_appear(std::uint32_t t) {
     // Originating: stands at its first stop until ready and the exit route is set.
     s.phase = Phase::standing;
     s.s_stand = 0.0;
-    s.stand_since = now_;
+    s.stand_since = now();
     s.stop_call = 0;
-    const double entry = t < delays_.entry.size() ? delays_.entry[t] : 0.0;
-    s.ready_time = std::max(run.calls[0].scheduled_departure + entry, now_ + dwell_at(t, 0));
+    const double entry = entry_delay(delays_, t);
+    s.ready_time = std::max(run.calls[0].scheduled_departure + entry, now() + dwell_at(t, 0));
     // Kept off its platform by the previous occupant, or waiting for its set or crew (a link whose
     // earlier train has arrived): what that costs it is knock-on.  Its own readiness counts its
     // dwell from its own (late) appearance: a late start and a long preparation are both its own
@@ -1159,51 +978,22 @@ void Day::try_appear(std::uint32_t t) {
     if (s.ready_time - ready_on_time > kNoiseFloor) {
         HoldCause cause = s.appear_cause;
         if (binding >= 0) cause = link_cause(binding_link(t, 0));
-        add_knock_on(timing_first_[t], s.ready_time - ready_on_time, ready_on_time, s.ready_time, false, cause);
-        out_.waits.push_back({t, std::string(), ready_on_time, s.ready_time, run.calls[0].station, cause});
+        records_.add_knock_on(records_.first_timing(t), s.ready_time - ready_on_time, ready_on_time, s.ready_time, false, cause);
+        records_.add_wait({t, std::string(), ready_on_time, s.ready_time, run.calls[0].station, cause});
     }
     const auto& sec = run.path.sections;
     while (s.next_enter < sec.size() && sec[s.next_enter].s_from < kEps) {
         long r = record_for(t, s.next_enter);
-        out_.sections[r].head_enters = now_;
+        records_.section(r).head_enters = now();
         ++s.next_enter;
     }
     s.eoa = train(t).routes.empty() ? run.path.length : std::min(train(t).routes[0].s_entry, run.path.length);
     if (train(t).routes.empty() || train(t).routes[0].s_entry > kEps) s.eoa = std::max(s.eoa, 0.0);
-    record_call(t, 0, kNoTime, kNoTime);
+    records_.record_call(s, t, 0, kNoTime, kNoTime);
     s.next_call = 1;
     push(s.ready_time, kDepartReady, t);
     cancel_motion(t);
     schedule_points(t);
-}
-
-void Day::record_call(std::uint32_t t, std::size_t tp, double arrival, double departure, const HoldCause& cause) {
-    TimingRecord& r = out_.timing[timing_first_[t] + static_cast<long>(tp)];
-    TrainState& s = st_[t];
-    const ServiceRun& run = run_of(t);
-    if (!std::isnan(arrival)) {
-        r.arrival = arrival;
-        r.arrival_delay = arrival - r.scheduled_arrival;
-        // Running time lost to other trains: as run minus unhindered (plus own slow running).
-        double expected;
-        if (tp == 0) {
-            expected = run.calls[0].planned_arrival - run.appear_time;
-        } else {
-            expected = run.calls[tp].technical_running +
-                       delay_of(delays_.running, t, run.calls[tp - 1].call);
-        }
-        // Below half a second it is integration noise (motion recomputed from other grid points).
-        const double lost = std::isnan(s.last_departure) ? 0.0 : arrival - s.last_departure - expected;
-        if (lost > kNoiseFloor) add_knock_on(timing_first_[t] + static_cast<long>(tp), lost, s.last_departure, arrival, true);
-    }
-    if (!std::isnan(departure)) {
-        r.departure = departure;
-        r.departure_delay = departure - r.scheduled_departure;
-        if (!std::isnan(s.ready_time) && departure - s.ready_time > kNoiseFloor)
-            add_knock_on(timing_first_[t] + static_cast<long>(tp), departure - s.ready_time, s.ready_time, departure,
-                         false, cause);
-        s.last_departure = departure;
-    }
 }
 
 void Day::check_authority(std::uint32_t t) {
@@ -1249,11 +1039,11 @@ void Day::end_hold(std::uint32_t t) {
         if (std::fabs(routes[j].s_entry - s.s_stand) < 50.0 && routes[j].s_entry >= s.s_stand - kEps) {
             signal = routes[j].entry_signal;
             // What kept the route from this signal back (the train stood for it).
-            if (s.route_record[j] >= 0) cause = out_.routes[s.route_record[j]].held_by;
+            if (s.route_record[j] >= 0) cause = records_.route(s.route_record[j]).held_by;
             cause.signal = signal;
             break;
         }
-    out_.holds.push_back({t, signal, s.hold_from, now_, std::string(), cause});
+    records_.add_hold({t, signal, s.hold_from, now(), std::string(), cause});
     s.hold_from = kNoTime;
 }
 
@@ -1263,8 +1053,8 @@ void Day::depart(std::uint32_t t) {
     const long link = train(t).links_in.empty() ? -1 : finish_links(t, k);
     // Ready but kept: by a link that let it go only now, else by the last route out to be set.
     HoldCause cause;
-    if (!std::isnan(s.ready_time) && now_ - s.ready_time > kNoiseFloor) {
-        if (link >= 0 && link_hold(t, s.stop_call) >= now_ - kEps) {
+    if (!std::isnan(s.ready_time) && now() - s.ready_time > kNoiseFloor) {
+        if (link >= 0 && link_hold(t, s.stop_call) >= now() - kEps) {
             cause = link_cause(link);
         } else {
             double last = -kInf;
@@ -1272,7 +1062,7 @@ void Day::depart(std::uint32_t t) {
             for (std::size_t j = s.next_pass; j < routes.size() && routes[j].after_stop == s.stop_call; ++j)
                 if (s.route_record[j] >= 0 && !(st_[t].route_set[j] < last)) {
                     last = st_[t].route_set[j];
-                    cause = out_.routes[s.route_record[j]].held_by;
+                    cause = records_.route(s.route_record[j]).held_by;
                     cause.signal = routes[j].entry_signal;
                 }
             // A route nothing held, asked for late only because the link's time was not known
@@ -1281,13 +1071,13 @@ void Day::depart(std::uint32_t t) {
                 link_hold(t, s.stop_call) > s.ready_time + kNoiseFloor)
                 cause = link_cause(link);
         }
-        out_.waits.push_back({t, std::string(), s.ready_time, now_, run_of(t).calls[k].station, cause});
+        records_.add_wait({t, std::string(), s.ready_time, now(), run_of(t).calls[k].station, cause});
     }
-    record_call(t, k, kNoTime, now_, cause);
+    records_.record_call(s, t, k, kNoTime, now(), cause);
     s.stop_call = -1;
     s.ready = false;
     s.ready_time = kNoTime;
-    sample_until(t, now_);
+    sample_until(t, now());
     start_leg(t, s.s_stand);
     replan(t);
 }
@@ -1295,27 +1085,27 @@ void Day::depart(std::uint32_t t) {
 void Day::begin_standing(std::uint32_t t) {
     TrainState& s = st_[t];
     const ServiceRun& run = run_of(t);
-    sample_until(t, now_);
+    sample_until(t, now());
     s.s_stand = traj(t).s_end;
     s.leg = -1;
     s.phase = Phase::standing;
-    s.stand_since = now_;
+    s.stand_since = now();
     const auto& calls = run.calls;
     if (s.next_call < calls.size() && calls[s.next_call].stops && std::fabs(calls[s.next_call].s - s.s_stand) < 1e-3) {
         const std::size_t k = s.next_call++;
         s.stop_call = static_cast<long>(k);
-        record_call(t, k, now_, kNoTime);
+        records_.record_call(s, t, k, now(), kNoTime);
         if (!train(t).links_out.empty()) link_arrival(t, k);
         const double min_dwell = dwell_at(t, k);
         if (k + 1 == calls.size() && !run.path.ends_at_edge) {
-            push(now_ + min_dwell, kVanish, t);
+            push(now() + min_dwell, kVanish, t);
         } else {
-            s.ready_time = std::max(calls[k].scheduled_departure, now_ + min_dwell);
+            s.ready_time = std::max(calls[k].scheduled_departure, now() + min_dwell);
             s.own_ready = s.ready_time;
             push(s.ready_time, kDepartReady, t);
         }
     } else {
-        s.hold_from = now_;
+        s.hold_from = now();
     }
     cancel_motion(t);
     schedule_points(t);
@@ -1323,17 +1113,17 @@ void Day::begin_standing(std::uint32_t t) {
 
 void Day::vanish(std::uint32_t t) {
     TrainState& s = st_[t];
-    sample_until(t, now_);
-    if (s.stop_call >= 0) record_call(t, static_cast<std::size_t>(s.stop_call), kNoTime, now_);
+    sample_until(t, now());
+    if (s.stop_call >= 0) records_.record_call(s, t, static_cast<std::size_t>(s.stop_call), kNoTime, now());
     // A set that turns back stays on its platform: the sections it stands on pass straight to
     // its return part, which holds them until it leaves (models/blocking_time, platform_handover).
     const SimModel::Train& tr = train(t);
     for (const PlatformHandover& h : tr.hands_over) {
         if (!s.holds[h.incoming]) continue;
         s.holds[h.incoming] = 0;
-        SectionRecord& r = out_.sections[s.section_record[h.incoming]];
-        if (std::isnan(r.tail_clears)) r.tail_clears = now_;
-        r.released = now_;
+        SectionRecord& r = records_.section(s.section_record[h.incoming]);
+        if (std::isnan(r.tail_clears)) r.tail_clears = now();
+        r.released = now();
         const std::uint32_t g = tr.section_index[h.incoming];
         interlocking_.release(t, g);
         take_sections(tr.turns_into, {g}, {static_cast<std::uint32_t>(h.outgoing)});
@@ -1341,8 +1131,8 @@ void Day::vanish(std::uint32_t t) {
     for (std::size_t k = 0; k < s.holds.size(); ++k) {
         if (!s.holds[k]) continue;
         long r = s.section_record[k];
-        if (std::isnan(out_.sections[r].tail_clears)) out_.sections[r].tail_clears = now_;
-        push(now_ + times_.release, kRelease, t, static_cast<std::uint32_t>(k));
+        if (std::isnan(records_.section(r).tail_clears)) records_.section(r).tail_clears = now();
+        push(now() + times_.release, kRelease, t, static_cast<std::uint32_t>(k));
     }
     s.phase = Phase::finished;
     cancel_motion(t);
@@ -1353,7 +1143,7 @@ void Day::vanish(std::uint32_t t) {
         if (link.kind != LinkKind::turnaround || !next.awaiting_set) continue;
         next.awaiting_set = false;
         next.appear_deferred = true;
-        push(now_, kAppear, static_cast<std::uint32_t>(link.to));
+        push(now(), kAppear, static_cast<std::uint32_t>(link.to));
     }
 }
 
@@ -1377,10 +1167,10 @@ void Day::link_arrival(std::uint32_t t, std::size_t k) {
     for (std::uint32_t l : train(t).links_out) {
         const LinkPlan& link = model_.links()[l];
         if (link.from_call != k) continue;
-        out_.links[l].arrival = now_;
-        double go = now_ + link.min_time;
+        records_.link(l).arrival = now();
+        double go = now() + link.min_time;
         if (link.kind == LinkKind::connection) go = std::min(go, link.wait_until());
-        push(std::max(go, now_), kLinkCheck, static_cast<std::uint32_t>(link.to));
+        push(std::max(go, now()), kLinkCheck, static_cast<std::uint32_t>(link.to));
         // The later train's route out can now be timed by the known hold (a request the link
         // times; any other stands as it was scheduled).
         const std::uint32_t next = static_cast<std::uint32_t>(link.to);
@@ -1397,7 +1187,7 @@ long Day::binding_link(std::uint32_t t, std::size_t k) const {
     for (std::uint32_t l : train(t).links_in) {
         const LinkPlan& link = model_.links()[l];
         if (link.to_call != k) continue;
-        const double arrival = out_.links[l].arrival;
+        const double arrival = records_.link(l).arrival;
         double until = std::isnan(arrival) ? kInf : arrival + link.min_time;
         if (link.kind == LinkKind::connection) until = std::min(until, link.wait_until());
         if (until > latest) {
@@ -1413,11 +1203,11 @@ long Day::finish_links(std::uint32_t t, std::size_t k) {
     for (std::uint32_t l : train(t).links_in) {
         const LinkPlan& link = model_.links()[l];
         if (link.to_call != k) continue;
-        LinkRecord& r = out_.links[l];
-        r.departure = now_;
+        LinkRecord& r = records_.link(l);
+        r.departure = now();
         const double ready = std::isnan(r.arrival) ? kInf : r.arrival + link.min_time;
-        r.missed = link.kind == LinkKind::connection && ready > now_ + kEps;
-        r.waited = std::max(0.0, std::min(now_, ready) - s.own_ready);
+        r.missed = link.kind == LinkKind::connection && ready > now() + kEps;
+        r.waited = std::max(0.0, std::min(now(), ready) - s.own_ready);
     }
     return binding_link(t, k);
 }
@@ -1431,7 +1221,7 @@ void Day::handle(const Event& e) {
         if (e.kind == kDisruptionEnd) grant_pending();
         return;
     }
-    const std::uint32_t t = train_of(e.entity);
+    const std::uint32_t t = DayEvents::train_of(e.entity);
     TrainState& s = st_[t];
     const TrainPath& path = run_of(t).path;
     // A point event is for the next point of its kind only: a handler that recomputes the
@@ -1455,7 +1245,7 @@ void Day::handle(const Event& e) {
             if (!s.holds[k]) break;
             s.holds[k] = 0;
             interlocking_.release(t, train(t).section_index[k]);
-            out_.sections[s.section_record[k]].released = now_;
+            records_.section(s.section_record[k]).released = now();
             grant_pending();
             break;
         }
@@ -1484,7 +1274,7 @@ void Day::handle(const Event& e) {
                 interlocking_.take(t, {train(t).section_index[e.payload]});
                 s.holds[e.payload] = 1;
             }
-            out_.sections[r].head_enters = now_;
+            records_.section(r).head_enters = now();
             ++s.next_enter;
             schedule_point(t, kEnter);
             // The section end and the signal at the same spot (see schedule_point).
@@ -1501,8 +1291,8 @@ void Day::handle(const Event& e) {
         case kClear: {
             if (stale_point(s.next_clear)) break;
             const std::size_t k = e.payload;
-            if (s.section_record[k] >= 0) out_.sections[s.section_record[k]].tail_clears = now_;
-            if (s.holds[k]) push(now_ + times_.release, kRelease, t, static_cast<std::uint32_t>(k));
+            if (s.section_record[k] >= 0) records_.section(s.section_record[k]).tail_clears = now();
+            if (s.holds[k]) push(now() + times_.release, kRelease, t, static_cast<std::uint32_t>(k));
             ++s.next_clear;
             schedule_point(t, kClear);
             break;
@@ -1519,11 +1309,7 @@ void Day::handle(const Event& e) {
             break;
         case kCall:
             if (stale_point(s.next_call)) break;
-            record_call(t, e.payload, now_, kNoTime);
-            out_.timing[timing_first_[t] + e.payload].departure = now_;
-            out_.timing[timing_first_[t] + e.payload].departure_delay =
-                now_ - out_.timing[timing_first_[t] + e.payload].scheduled_departure;
-            st_[t].last_departure = now_;
+            records_.record_pass(s, t, e.payload, now());
             ++s.next_call;
             schedule_point(t, kCall);
             break;
@@ -1544,10 +1330,9 @@ void Day::handle(const Event& e) {
             rec.train = t;
             rec.entry_signal = r.entry_signal;
             rec.exit_signal = r.exit_signal;
-            rec.requested = now_;
+            rec.requested = now();
             rec.granted = rec.cleared = kNoTime;
-            s.route_record[e.payload] = static_cast<long>(out_.routes.size());
-            out_.routes.push_back(rec);
+            s.route_record[e.payload] = records_.open_route(std::move(rec));
             s.request_pending = true;
             pending_.push_back({t, static_cast<long>(e.payload)});
             grant_pending();
@@ -1561,7 +1346,7 @@ void Day::handle(const Event& e) {
         case kExit:
             // Head over the line end: the rest of the train follows at exit speed; the tail
             // clearings are already scheduled by extrapolation.
-            push(now_ + run_of(t).type->length / std::max(traj(t).v.back(), 0.1), kVanish, t);
+            push(now() + run_of(t).type->length / std::max(traj(t).v.back(), 0.1), kVanish, t);
             break;
     }
 }
@@ -1569,8 +1354,8 @@ void Day::handle(const Event& e) {
 void Day::report_deadlock() {
     // Every train not finished, with what it waits for and who keeps that from it (sim_result.hpp,
     // DeadlockWait); the words follow from these (sim/deadlock_text).
-    DeadlockReport& report = out_.deadlock;
-    report.time = now_;
+    DeadlockReport& report = records_.deadlock();
+    report.time = now();
     report.waiting.clear();
     for (std::uint32_t t = 0; t < st_.size(); ++t) {
         const TrainState& s = st_[t];
@@ -1586,7 +1371,7 @@ void Day::report_deadlock() {
         w.train = t;
         if (!outside) w.chainage = chainage(head_position(t));
         if (s.phase == Phase::standing && s.stop_call >= 0) w.station = run.calls[s.stop_call].station;
-        if (outside) w.since = run.appear_time + (t < delays_.entry.size() ? delays_.entry[t] : 0.0);
+        if (outside) w.since = run.appear_time + (entry_delay(delays_, t));
         else if (s.phase == Phase::moving) w.since = s.t0;
         else w.since = s.stop_call >= 0 && !std::isnan(s.ready_time) ? s.ready_time : s.stand_since;
 
@@ -1644,24 +1429,23 @@ void Day::report_deadlock() {
         report.waiting.push_back(std::move(w));
     }
     report.deadlocked = !report.waiting.empty();
-    put_deadlock_into_words(report, out_.train_ids, out_.section_names);
+    records_.put_deadlock_into_words();
 }
 
 SimResult Day::run() {
     Event e;
-    while (queue_.pop_current(e, generations_)) {
-        now_ = e.time.to_seconds();
-        if (trace_ != kNoTrain && e.entity != no_entity && train_of(e.entity) == trace_)
-            std::fprintf(stderr, "%.3f kind %u payload %u phase %d s=%.1f eoa=%.1f req=%zu pend=%d\n", now_, e.kind, e.payload,
+    while (events_.next(e)) {
+        if (trace_ != kNoTrain && e.entity != no_entity && DayEvents::train_of(e.entity) == trace_)
+            std::fprintf(stderr, "%.3f kind %u payload %u phase %d s=%.1f eoa=%.1f req=%zu pend=%d\n", now(), e.kind, e.payload,
                          static_cast<int>(st_[trace_].phase), head_position(trace_), st_[trace_].eoa,
                          st_[trace_].next_request, (int)st_[trace_].request_pending);
         handle(e);
-        if (++out_.events > options_.max_events)
+        if (records_.count_event() > options_.max_events)
             throw std::runtime_error("simulation exceeded " + std::to_string(options_.max_events) +
                                      " events: stopped (a bug; please report the scenario)");
     }
     report_deadlock();
-    return std::move(out_);
+    return records_.take();
 }
 
 }  // namespace
