@@ -14,6 +14,7 @@
 #include "sim/day_records.hpp"
 #include "sim/day_state.hpp"
 #include "sim/event_queue.hpp"
+#include "sim/train_motion.hpp"
 
 namespace knockon {
 namespace {
@@ -47,11 +48,6 @@ public:
     SimResult run();
 
 private:
-    // A stretch run slower by an injected running-time extension.
-    struct SlowStretch {
-        double from, to, factor;
-    };
-
     struct Pending {
         std::uint32_t train;
         long route;  // -1: the train waits to appear at its origin
@@ -69,7 +65,7 @@ private:
     std::vector<TrainState> st_;
     std::vector<Pending> pending_;
     DayRecords records_;
-    std::vector<std::vector<SlowStretch>> slow_;     // [train]
+    TrainMotion motion_;
     std::vector<std::vector<std::uint32_t>> disrupted_;   // per InjectedDelays::blocked entry: sections
     std::uint32_t trace_ = kNoTrain;   // KNOCKON_TRACE=<train id>: print its events (debugging aid)
 
@@ -87,17 +83,6 @@ private:
         const Call& call = run.service->calls[run.calls[tp].call];
         return (call.min_dwell ? *call.min_dwell : run.type->min_dwell) + delay_of(delays_.dwell, t, run.calls[tp].call);
     }
-    const Trajectory& traj(std::uint32_t t) const {
-        const TrainState& s = st_[t];
-        return s.leg >= 0 ? run_of(t).legs[static_cast<std::size_t>(s.leg)].trajectory : s.own;
-    }
-    // The current motion's ends, read from the model for a planned leg (its motion is cold).
-    SimModel::Train::LegEnds ends(std::uint32_t t) const {
-        const TrainState& s = st_[t];
-        if (s.leg >= 0) return train(t).leg_ends[static_cast<std::size_t>(s.leg)];
-        return {s.own.s0, s.own.s_end, s.own.duration(), s.own.v.back()};
-    }
-    bool start_leg(std::uint32_t t, double s_now);
     // A train at a stop leaves once the driver knows that every route its departure needs (the
     // routes the plan blocks from this departure, SimModel::Route::after_stop) is set: the
     // starter shows proceed, whether in sight of the stopping mark or repeated there.  Where no
@@ -210,55 +195,18 @@ private:
         return j < s.next_sight || tr.sightings[j].skip ||
                (s.phase == Phase::standing && s.stop_call >= 0 && tr.routes[j].after_stop == s.stop_call);
     }
-    double brake_point(std::uint32_t t, std::size_t k, double eoa) const { return train(t).brake_point(k, eoa).s; }
-    // Where the next slow running begins with the head beyond s (infinity: none).
-    double next_slow_start(std::uint32_t t, double s) const {
-        double from = kInf;
-        for (const SlowStretch& sl : slow_[t])
-            if (sl.to > s + kEps) from = std::min(from, sl.from);
-        return from;
-    }
-    // A train follows its planned leg until it must brake for the end of its authority or for
-    // slow running ahead (braking to a stop there: on the safe side).
-    void set_brake_point(std::uint32_t t) {
-        TrainState& s = st_[t];
-        const double limit = slow_[t].empty() ? s.eoa : std::min(s.eoa, next_slow_start(t, head_position(t)));
-        const SimModel::Train::BrakePoint b = train(t).brake_point(static_cast<std::size_t>(s.leg), limit);
-        s.brake_from = b.s;
-        s.brake_time = b.t;
-        s.brake_index = b.index;
-    }
-    // The planned leg that holds [from, to], or -1.
-    long leg_holding(std::uint32_t t, double from, double to) const;
-    void join_leg(std::uint32_t t);
-    double head_position(std::uint32_t t) const;
-    double head_speed(std::uint32_t t) const;
-    double time_at_head(std::uint32_t t, double s) const;   // NaN: not on the current motion
-    // The same for a fixed place timed on the planned legs, straight from the model while the
-    // train runs its planned leg.
-    double time_at_place(std::uint32_t t, const Place& at) const {
-        const TrainState& st = st_[t];
-        if (st.phase == Phase::moving && st.leg >= 0 && at.leg == st.leg) return st.t0 + at.t;
-        return time_at_head(t, at.s);
-    }
-    double next_stop_s(std::uint32_t t, double s) const;
-    // Where a motion from s must end: the next stop, the end of authority or the path's end
-    // (infinity: it runs out over the line end).
-    double motion_target(std::uint32_t t, double s) const {
-        const ServiceRun& run = run_of(t);
-        return std::min({next_stop_s(t, s - kEps), st_[t].eoa, run.path.ends_at_edge ? kInf : run.path.length});
-    }
     double desired_request_time(std::uint32_t t, std::size_t route) const;
 
     void schedule_points(std::uint32_t t);
     void schedule_point(std::uint32_t t, Kind kind);
-    // Recomputes the motion after the authority or the state changed.  A train on a planned leg
-    // stays on it while the authority allows (leave_leg: it must not).
-    void replan(std::uint32_t t, bool leave_leg = false);
-    // An integrated motion that the authority just extended stands as it is for now (same stop,
-    // or a rejoin or a brake event comes first): nothing to integrate yet.
-    bool motion_stands(std::uint32_t t);
-    void sample_until(std::uint32_t t, double until);
+    // Recomputes the motion after the authority or the state changed, and schedules the
+    // train's points again where the motion changed (sim/train_motion).
+    void replan(std::uint32_t t, bool leave_leg = false) {
+        if (motion_.replan(t, leave_leg)) schedule_points(t);
+    }
+    void join_leg(std::uint32_t t) {
+        if (motion_.join_leg(t)) schedule_points(t);
+    }
 
     long record_for(std::uint32_t t, std::size_t k);
     // A grant: the train holds these sections (global indices, and the same as path indices).
@@ -311,7 +259,8 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
       interlocking_(model.section_names().size(), options.route_order, model.planned_order()),
       dispatch_(model),
       events_(model.trains().size()),
-      records_(model, delays) {
+      records_(model, delays),
+      motion_(model, delays, options.run, options.sample_interval, st_, events_, records_) {
     const auto& trains = model.trains();
     st_.resize(trains.size());
     std::vector<TrainBuffers>& spare = spare_buffers();
@@ -335,19 +284,6 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
         s.route_record.assign(train(t).routes.size(), -1);
         s.section_record.assign(run.path.sections.size(), -1);
         s.holds.assign(run.path.sections.size(), 0);
-        // Running-time extensions become slower running over the stretch to the next timing
-        // point: limits scaled by T / (T + extra), exact where the train would cruise.
-        slow_.emplace_back();
-        for (std::size_t k = 0; k + 1 < run.calls.size(); ++k) {
-            const double extra = delay_of(delays.running, t, run.calls[k].call);
-            const double T = run.calls[k + 1].technical_running;
-            if (extra > 0.0 && T > 0.0) slow_[t].push_back({run.calls[k].s, run.calls[k + 1].s, T / (T + extra)});
-        }
-        if (run.path.ends_at_edge && !run.calls.empty()) {
-            const double extra = delay_of(delays.running, t, run.calls.back().call);
-            const double T = run.legs.back().trajectory.duration();   // to the line end, roughly
-            if (extra > 0.0 && T > 0.0) slow_[t].push_back({run.calls.back().s, run.path.length + 1.0, T / (T + extra)});
-        }
         const double entry = entry_delay(delays, t);
         push(run.appear_time + entry, kAppear, t);
         // A train entering over the line end asks for its first routes before it comes in.
@@ -368,55 +304,6 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
     }
 }
 
-double Day::head_position(std::uint32_t t) const {
-    const TrainState& s = st_[t];
-    if (s.phase != Phase::moving) return s.s_stand;
-    auto& m = s.head_memo;
-    if (m.now == now() && m.t0 == s.t0 && m.leg == s.leg && m.own_version == s.own_version && m.free_end == s.free_end)
-        return m.position;
-    double position;
-    const double dt = now() - s.t0;
-    if (traj(t).v.size() <= 1)
-        position = traj(t).s0;
-    else if (const auto e = ends(t); s.free_end && dt > e.duration)
-        position = e.s_end + (dt - e.duration) * e.v_end;
-    else
-        position = traj(t).position_at(dt);
-    m.now = now();
-    m.t0 = s.t0;
-    m.leg = s.leg;
-    m.own_version = s.own_version;
-    m.free_end = s.free_end;
-    m.position = position;
-    return position;
-}
-
-double Day::head_speed(std::uint32_t t) const {
-    const TrainState& s = st_[t];
-    if (s.phase != Phase::moving) return 0.0;
-    double pos = head_position(t);
-    if (pos >= traj(t).s_end || traj(t).v.size() <= 1) return traj(t).v.back();
-    return traj(t).speed_at(pos);
-}
-
-double Day::time_at_head(std::uint32_t t, double p) const {
-    const TrainState& s = st_[t];
-    if (s.phase == Phase::standing) return p <= s.s_stand + kEps ? now() : kNoTime;
-    if (s.phase != Phase::moving) return kNoTime;
-    const auto e = ends(t);
-    if (p <= e.s0 + kEps) return now();
-    if (p <= e.s_end + kEps) return s.t0 + traj(t).time_at(std::min(p, e.s_end));
-    if (s.free_end) return s.t0 + e.duration + (p - e.s_end) / std::max(e.v_end, 0.1);
-    return kNoTime;
-}
-
-double Day::next_stop_s(std::uint32_t t, double from) const {
-    const ServiceRun& run = run_of(t);
-    for (const PlannedCall& c : run.calls)
-        if (c.stops && c.s > from + kEps) return c.s;
-    return run.path.ends_at_edge ? kInf : run.path.length;
-}
-
 double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
     const SimModel::Route& r = train(t).routes[i];
     const TrainState& s = st_[t];
@@ -434,9 +321,9 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
     if (r.after_stop >= 0) {
         const PlannedCall& c = run_of(t).calls[r.after_stop];
         if (s.phase == Phase::standing && s.stop_call == r.after_stop) return ask_for(leaves(r.after_stop, s.ready_time));
-        if (s.phase == Phase::moving && std::fabs(ends(t).s_end - c.s) < kEps && !s.free_end) {
+        if (s.phase == Phase::moving && std::fabs(motion_.ends(t).s_end - c.s) < kEps && !s.free_end) {
             // Heading for that stop: ready when both the schedule and the dwell allow.
-            const double arrival = s.t0 + ends(t).duration;
+            const double arrival = s.t0 + motion_.ends(t).duration;
             return ask_for(
                 leaves(r.after_stop, std::max(c.scheduled_departure, arrival + dwell_at(t, r.after_stop))));
         }
@@ -459,9 +346,9 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
         };
         if (s.phase == Phase::standing && s.stop_call == k && !std::isnan(s.ready_time))
             return ask_for(after_departure(leaves(k, s.ready_time)));
-        if (s.phase == Phase::moving && !s.free_end && std::fabs(ends(t).s_end - c.s) < kEps &&
+        if (s.phase == Phase::moving && !s.free_end && std::fabs(motion_.ends(t).s_end - c.s) < kEps &&
             s.next_call == static_cast<std::size_t>(k)) {
-            const double arrival = s.t0 + ends(t).duration;
+            const double arrival = s.t0 + motion_.ends(t).duration;
             return ask_for(after_departure(leaves(k, std::max(c.scheduled_departure, arrival + dwell_at(t, k)))));
         }
     }
@@ -478,18 +365,18 @@ double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
     }
     if (s.phase == Phase::standing && s.s_stand >= r.warning_point - kPositionTolerance) return now();
     // (a warning point already passed gives a time in the past: the request goes out now)
-    double tw = time_at_place(t, train(t).warnings[i]);
+    double tw = motion_.time_at_place(t, train(t).warnings[i]);
     if (s.phase == Phase::moving && !s.free_end) {
         // A motion that brakes for the end of the authority, not for a stop, reaches the warning
         // point late or never: the route is wanted for when the train would get there running on.
         // (No stop lies between the motion's start and the head, other than one at the start.)
         const ServiceRun& run = run_of(t);
-        const auto e = ends(t);
-        const double stop = next_stop_s(t, e.s0);
+        const auto e = motion_.ends(t);
+        const double stop = motion_.next_stop_s(t, e.s0);
         const bool to_end = std::isinf(stop);
         const double end = to_end ? run.path.length : stop;
         if (e.s_end < end - kEps && r.warning_point <= end + kEps) {
-            const double head = head_position(t);
+            const double head = motion_.head_position(t);
             if (head >= r.warning_point - kPositionTolerance) return now();
             // The planned motion over [head, warning point] (no stop lies between): a lower bound
             // of the time it will take, so the request is never late (early by at most the
@@ -549,7 +436,7 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
     auto held_short = [&] {
         if (s.phase == Phase::standing) return p >= s.s_stand - kEps;
         if (s.phase != Phase::moving || s.free_end) return false;
-        const auto e = ends(t);
+        const auto e = motion_.ends(t);
         return e.v_end <= 0.0 && p >= e.s_end - kEps;
     };
     if ((kind == kEnter || kind == kPass) && held_short()) return;
@@ -562,7 +449,7 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
             (kind == kPass || !held_short()))
             return;
     }
-    const double when = time_at_place(t, *at);
+    const double when = motion_.time_at_place(t, *at);
     if (!std::isnan(when)) push(when, kind, t, payload);
 }
 
@@ -570,186 +457,7 @@ void Day::schedule_points(std::uint32_t t) {
     for (Kind k : {kEnter, kLeave, kClear, kSight, kPass, kCall, kRequest}) schedule_point(t, k);
     const TrainState& s = st_[t];
     if (s.phase == Phase::moving)
-        push(s.t0 + ends(t).duration, s.leg < 0 && s.join_leg >= 0 ? kJoin : s.free_end ? kExit : kArrive, t);
-}
-
-void Day::sample_until(std::uint32_t t, double until) {
-    if (options_.sample_interval <= 0.0) return;
-    TrainState& s = st_[t];
-    const TrainPath& path = run_of(t).path;
-    double start = s.phase == Phase::moving ? s.t0 : s.stand_since;
-    double dt = options_.sample_interval;
-    double first = std::max(start, s.last_sample + dt);
-    first = std::ceil(first / dt - 1e-9) * dt;
-    auto add = [&](double time) {
-        double pos, v;
-        if (s.phase == Phase::moving) {
-            double rel = time - s.t0;
-            if (s.free_end && rel > traj(t).duration()) {
-                v = traj(t).v.back();
-                pos = traj(t).s_end + (rel - traj(t).duration()) * v;
-            } else {
-                pos = traj(t).position_at(rel);
-                v = traj(t).speed_at(pos);
-            }
-        } else {
-            pos = s.s_stand;
-            v = 0.0;
-        }
-        if (pos > path.length + kEps && !path.ends_at_edge) return;
-        double x = pos <= path.length ? path.chainage_at(pos) : path.chainage_at(path.length);
-        records_.add_sample({t, time, pos, x, v});
-        s.last_sample = time;
-    };
-    for (double time = first; time <= until + 1e-9; time += dt) add(time);
-}
-
-long Day::leg_holding(std::uint32_t t, double from, double to) const {
-    const ServiceRun& run = run_of(t);
-    for (std::size_t k = 0; k < run.legs.size(); ++k) {
-        const Trajectory& lt = run.legs[k].trajectory;
-        if (from >= lt.s0 - kEps && to <= lt.s_end + kEps) return static_cast<long>(k);
-    }
-    return -1;
-}
-
-void Day::join_leg(std::uint32_t t) {
-    // The integrated motion has reached the planned leg's speed at one of its grid points: from
-    // there the leg's motion is the train's, shifted in time.
-    TrainState& s = st_[t];
-    const ServiceRun& run = run_of(t);
-    const std::size_t k = static_cast<std::size_t>(s.join_leg);
-    sample_until(t, now());
-    s.t0 += s.own.duration() - run.legs[k].trajectory.t[s.join_point];
-    s.leg = static_cast<long>(k);
-    s.leg_scheduled = false;
-    s.join_leg = -1;
-    s.free_end = k + 1 == run.legs.size() && run.path.ends_at_edge;
-    replan(t);
-}
-
-bool Day::start_leg(std::uint32_t t, double s_now) {
-    // The planned leg that starts here: the train follows it until it must brake (set_brake_point).
-    TrainState& s = st_[t];
-    const ServiceRun& run = run_of(t);
-    for (std::size_t k = 0; k < run.legs.size(); ++k) {
-        const Trajectory& lt = run.legs[k].trajectory;
-        if (std::fabs(lt.s0 - s_now) > kEps) continue;
-        s.leg = static_cast<long>(k);
-        s.leg_scheduled = false;
-        s.t0 = now();
-        s.free_end = k + 1 == run.legs.size() && run.path.ends_at_edge;
-        s.phase = Phase::moving;
-        return true;
-    }
-    return false;
-}
-
-void Day::replan(std::uint32_t t, bool leave_leg) {
-    TrainState& s = st_[t];
-    const ServiceRun& run = run_of(t);
-    if (s.phase == Phase::moving && s.leg >= 0 && !leave_leg) {
-        set_brake_point(t);
-        // (compared in time, not place: the leg's time at its brake point is known, the head
-        // position would need a look-up in the leg's long motion)
-        if (std::isinf(s.brake_from) || s.t0 + s.brake_time > now()) {
-            // Still free to run the plan: the points ahead stand (once scheduled for this leg),
-            // only the brake point moves.
-            if (!s.leg_scheduled) {
-                cancel_motion(t);
-                schedule_points(t);
-                s.leg_scheduled = true;
-            } else {
-                events_.cancel_brake_point(t);
-            }
-            // (time_at_head, without a look-up in the leg's motion)
-            if (const auto e = ends(t); s.brake_from < e.s_end)
-                push(s.brake_from <= e.s0 + kEps ? now() : s.t0 + s.brake_time, kBrakePoint, t);
-            return;
-        }
-    }
-    if (s.phase == Phase::moving && s.leg < 0 && !leave_leg && motion_stands(t)) return;
-    // Where the new motion starts: at a brake event, exactly at the point the current motion
-    // hands over (its time, place and speed there); otherwise where the head is now.
-    double s_now, v_now, t_start = now();
-    if (s.phase == Phase::moving && leave_leg) {
-        const Trajectory& from = traj(t);
-        const std::size_t i = s.leg >= 0 ? s.brake_index : from.settled;
-        s_now = from.point(i);
-        v_now = from.v[i];
-        t_start = s.t0 + from.t[i];
-    } else {
-        s_now = head_position(t);
-        v_now = head_speed(t);
-    }
-    sample_until(t, now());
-
-    double target = motion_target(t, s_now);
-    bool free = false;
-    if (std::isinf(target)) {
-        target = run.path.length;
-        free = true;
-    }
-    cancel_motion(t);
-    if (target - s_now < 1e-3 && v_now <= 1e-6) {
-        s.phase = Phase::standing;
-        s.s_stand = s_now;
-        s.stand_since = now();
-        schedule_points(t);
-        return;
-    }
-    RunOptions ro = options_.run;
-    for (const SlowStretch& sl : slow_[t])
-        if (sl.to > s_now + kEps && sl.from < target) {
-            ro.slow_from = sl.from;
-            ro.slow_to = sl.to;
-            ro.slow_factor = sl.factor;
-            break;
-        }
-    s.leg = -1;
-    s.join_leg = -1;
-    s.own_target = free ? kNoTime : target;
-    const double end = std::max(target, s_now);
-    // On a planned leg the motion is integrated on the leg's grid, and hands back to the leg
-    // where it regains the leg's speed, past the slow running it integrates and short of
-    // braking for the authority or the next slow running: a hindered train then costs
-    // integration only while it runs differently from its plan.
-    const long k = leg_holding(t, s_now, end);
-    if (k >= 0) {
-        const RunLeg& leg = run.legs[static_cast<std::size_t>(k)];
-        const double after = ro.slow_factor < 1.0 ? ro.slow_to : s_now;
-        const double before =
-            brake_point(t, static_cast<std::size_t>(k), std::min(s.eoa, next_slow_start(t, after)));
-        const Rejoin rejoin{&leg.trajectory, after, before};
-        ++s.own_version;
-        const long j = run_on_grid_into(s.own, *run.type, leg.grid, s_now, v_now, end, !free, ro, &rejoin);
-        if (j >= 0) {
-            s.join_leg = k;
-            s.join_point = static_cast<std::size_t>(j);
-        }
-    } else {
-        ++s.own_version;
-        run_leg_into(s.own, *run.type, run.path, s_now, v_now, end, !free, ro);
-    }
-    s.t0 = t_start;
-    s.free_end = free && s.join_leg < 0;
-    s.phase = Phase::moving;
-    schedule_points(t);
-}
-
-bool Day::motion_stands(std::uint32_t t) {
-    // The authority grew while the train runs an integrated motion braking for its old end.
-    TrainState& s = st_[t];
-    if (std::isnan(s.own_target)) return false;
-    const double head = head_position(t);
-    if (motion_target(t, head) == s.own_target) return true;        // it stops at the same place anyway
-    if (s.join_leg >= 0) return true;                // it rejoins its leg first, which reads the authority
-    const Trajectory& own = s.own;
-    if (!(own.point(own.settled) > head + kPositionTolerance)) return false;
-    // Up to the settled point the motion is the same for any further end: integrate there.
-    events_.cancel_brake_point(t);
-    push(s.t0 + own.t[own.settled], kBrakePoint, t);
-    return true;
+        push(s.t0 + motion_.ends(t).duration, s.leg < 0 && s.join_leg >= 0 ? kJoin : s.free_end ? kExit : kArrive, t);
 }
 
 long Day::record_for(std::uint32_t t, std::size_t k) {
@@ -924,19 +632,7 @@ void Day::try_appear(std::uint32_t t) {
         }
         // Motion starts at entry speed on the planned first leg; authority is read at once
         // (signals in sight), and the motion follows from it.
-        cancel_motion(t);
-        if (!start_leg(t, 0.0)) {
-            s.leg = -1;
-            s.join_leg = -1;
-            ++s.own_version;
-            s.own_target = kNoTime;
-            s.own.s0 = s.own.s_end = s.own.origin = 0.0;
-            s.own.base = 0;
-            s.own.v.assign(1, run.entry_speed);   // keeps the buffers
-            s.own.t.assign(1, 0.0);
-            s.own.time_index.clear();
-            s.free_end = false;
-        }
+        motion_.enter(t);
         // Signals whose read point lies at or behind the line end, or whose route the driver had
         // to know there, are in view as it enters.
         const auto& sightings = train(t).sightings;
@@ -1077,19 +773,15 @@ void Day::depart(std::uint32_t t) {
     s.stop_call = -1;
     s.ready = false;
     s.ready_time = kNoTime;
-    sample_until(t, now());
-    start_leg(t, s.s_stand);
+    motion_.sample_until(t, now());
+    motion_.start_leg(t, s.s_stand);
     replan(t);
 }
 
 void Day::begin_standing(std::uint32_t t) {
     TrainState& s = st_[t];
     const ServiceRun& run = run_of(t);
-    sample_until(t, now());
-    s.s_stand = traj(t).s_end;
-    s.leg = -1;
-    s.phase = Phase::standing;
-    s.stand_since = now();
+    motion_.come_to_stand(t);
     const auto& calls = run.calls;
     if (s.next_call < calls.size() && calls[s.next_call].stops && std::fabs(calls[s.next_call].s - s.s_stand) < 1e-3) {
         const std::size_t k = s.next_call++;
@@ -1113,7 +805,7 @@ void Day::begin_standing(std::uint32_t t) {
 
 void Day::vanish(std::uint32_t t) {
     TrainState& s = st_[t];
-    sample_until(t, now());
+    motion_.sample_until(t, now());
     if (s.stop_call >= 0) records_.record_call(s, t, static_cast<std::size_t>(s.stop_call), kNoTime, now());
     // A set that turns back stays on its platform: the sections it stands on pass straight to
     // its return part, which holds them until it leaves (models/blocking_time, platform_handover).
@@ -1346,7 +1038,7 @@ void Day::handle(const Event& e) {
         case kExit:
             // Head over the line end: the rest of the train follows at exit speed; the tail
             // clearings are already scheduled by extrapolation.
-            push(now() + run_of(t).type->length / std::max(traj(t).v.back(), 0.1), kVanish, t);
+            push(now() + run_of(t).type->length / std::max(motion_.traj(t).v.back(), 0.1), kVanish, t);
             break;
     }
 }
@@ -1369,7 +1061,7 @@ void Day::report_deadlock() {
         const bool outside = s.phase == Phase::waiting;
         DeadlockWait w;
         w.train = t;
-        if (!outside) w.chainage = chainage(head_position(t));
+        if (!outside) w.chainage = chainage(motion_.head_position(t));
         if (s.phase == Phase::standing && s.stop_call >= 0) w.station = run.calls[s.stop_call].station;
         if (outside) w.since = run.appear_time + (entry_delay(delays_, t));
         else if (s.phase == Phase::moving) w.since = s.t0;
@@ -1437,7 +1129,7 @@ SimResult Day::run() {
     while (events_.next(e)) {
         if (trace_ != kNoTrain && e.entity != no_entity && DayEvents::train_of(e.entity) == trace_)
             std::fprintf(stderr, "%.3f kind %u payload %u phase %d s=%.1f eoa=%.1f req=%zu pend=%d\n", now(), e.kind, e.payload,
-                         static_cast<int>(st_[trace_].phase), head_position(trace_), st_[trace_].eoa,
+                         static_cast<int>(st_[trace_].phase), motion_.head_position(trace_), st_[trace_].eoa,
                          st_[trace_].next_request, (int)st_[trace_].request_pending);
         handle(e);
         if (records_.count_event() > options_.max_events)
