@@ -12,6 +12,7 @@
 #include <vector>
 
 #include "models/running_time.hpp"
+#include "models/service_run.hpp"
 #include "sim/event_queue.hpp"
 #include "sim/injected_delays.hpp"
 #include "sim/interlocking.hpp"
@@ -77,6 +78,11 @@ inline double delay_of(const std::vector<std::vector<double>>& v, std::uint32_t 
 }
 inline double entry_delay(const InjectedDelays& delays, std::uint32_t t) {
     return t < delays.entry.size() ? delays.entry[t] : 0.0;
+}
+
+// Minimum dwell of train t (running `run`) at timing point tp plus any injected extension [s].
+inline double dwell_at(const ServiceRun& run, const InjectedDelays& delays, std::uint32_t t, std::size_t tp) {
+    return min_dwell_of(run.service->calls[run.calls[tp].call], *run.type) + delay_of(delays.dwell, t, run.calls[tp].call);
 }
 
 enum class Phase { waiting, standing, moving, finished };

@@ -14,6 +14,7 @@
 #include "sim/day_records.hpp"
 #include "sim/day_state.hpp"
 #include "sim/event_queue.hpp"
+#include "sim/route_requests.hpp"
 #include "sim/train_motion.hpp"
 
 namespace knockon {
@@ -66,6 +67,7 @@ private:
     std::vector<Pending> pending_;
     DayRecords records_;
     TrainMotion motion_;
+    RouteRequests requests_;
     std::vector<std::vector<std::uint32_t>> disrupted_;   // per InjectedDelays::blocked entry: sections
     std::uint32_t trace_ = kNoTrain;   // KNOCKON_TRACE=<train id>: print its events (debugging aid)
 
@@ -78,11 +80,7 @@ private:
     void cancel_motion(std::uint32_t t) { events_.cancel_motion(t); }
 
     // Minimum dwell at a timing point plus any injected extension [s].
-    double dwell_at(std::uint32_t t, std::size_t tp) const {
-        const ServiceRun& run = run_of(t);
-        const Call& call = run.service->calls[run.calls[tp].call];
-        return (call.min_dwell ? *call.min_dwell : run.type->min_dwell) + delay_of(delays_.dwell, t, run.calls[tp].call);
-    }
+    double dwell_at(std::uint32_t t, std::size_t tp) const { return day::dwell_at(run_of(t), delays_, t, tp); }
     // A train at a stop leaves once the driver knows that every route its departure needs (the
     // routes the plan blocks from this departure, SimModel::Route::after_stop) is set: the
     // starter shows proceed, whether in sight of the stopping mark or repeated there.  Where no
@@ -118,32 +116,6 @@ private:
         const double hold = link_hold(t, st_[t].stop_call);
         if (std::isfinite(hold) && hold > now()) push(hold, kLinkCheck, t);
     }
-    // When train t, ready to leave timing point k at `ready`, is let go by its links there: the
-    // time a route request for that departure is timed from (the one rule for it: a train kept by
-    // a link must not hold its route out, and with it other trains, while it waits).  A link
-    // whose earlier train has arrived holds it until link_hold; one whose earlier train has not,
-    // at least until the earliest that train can arrive, its planned arrival (no train runs
-    // ahead of its plan), plus the minimum time.  Once that has passed with the train still to
-    // come the time is not known (NaN): link_arrival asks again.  A connection lets go by its
-    // latest departure in any case.
-    double released_by_links(std::uint32_t t, long k, double ready) const {
-        for (std::uint32_t l : train(t).links_in) {
-            const LinkPlan& link = model_.links()[l];
-            if (static_cast<long>(link.to_call) != k) continue;
-            const double arrival = records_.link(l).arrival;
-            double until = !std::isnan(arrival)             ? arrival + link.min_time
-                           : link.arrival > now() + kEps ? link.arrival + link.min_time
-                                                            : kNoTime;
-            if (link.kind == LinkKind::connection) until = std::isnan(until) ? link.wait_until()
-                                                                            : std::min(until, link.wait_until());
-            if (std::isnan(until)) return kNoTime;
-            ready = std::max(ready, SimTime::from_seconds(until).to_seconds());
-        }
-        return ready;
-    }
-    // The stop whose departure times route i's request through released_by_links (the stop the
-    // route leaves, or one before its warning point), if links are timed into it; else -1.
-    long link_timed_stop(std::uint32_t t, std::size_t i) const;
     // The earlier train of links arrives at timing point k: the later trains may go after the minimum time.
     void link_arrival(std::uint32_t t, std::size_t k);
     // A train leaves timing point k: its links' records, and the link that held it longest (or -1).
@@ -195,8 +167,6 @@ private:
         return j < s.next_sight || tr.sightings[j].skip ||
                (s.phase == Phase::standing && s.stop_call >= 0 && tr.routes[j].after_stop == s.stop_call);
     }
-    double desired_request_time(std::uint32_t t, std::size_t route) const;
-
     void schedule_points(std::uint32_t t);
     void schedule_point(std::uint32_t t, Kind kind);
     // Recomputes the motion after the authority or the state changed, and schedules the
@@ -260,7 +230,8 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
       dispatch_(model),
       events_(model.trains().size()),
       records_(model, delays),
-      motion_(model, delays, options.run, options.sample_interval, st_, events_, records_) {
+      motion_(model, delays, options.run, options.sample_interval, st_, events_, records_),
+      requests_(model, delays, st_, events_, motion_, records_) {
     const auto& trains = model.trains();
     st_.resize(trains.size());
     std::vector<TrainBuffers>& spare = spare_buffers();
@@ -287,7 +258,7 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
         const double entry = entry_delay(delays, t);
         push(run.appear_time + entry, kAppear, t);
         // A train entering over the line end asks for its first routes before it comes in.
-        if (run.path.starts_at_edge) schedule_point(t, kRequest);
+        if (run.path.starts_at_edge) requests_.schedule_next(t);
     }
     // Disruptions: sections out of use over their drawn interval (unknown sections: no train
     // uses them, so they cannot matter).
@@ -302,103 +273,6 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
         push(delays.blocked[b].from, kDisruptionStart, kNoTrain, b);
         push(delays.blocked[b].to, kDisruptionEnd, kNoTrain, b);
     }
-}
-
-double Day::desired_request_time(std::uint32_t t, std::size_t i) const {
-    const SimModel::Route& r = train(t).routes[i];
-    const TrainState& s = st_[t];
-    // The route must be known by `when`: asked for setting plus reaction time earlier, counted
-    // from `when`'s own tick, so that the driver learns it on the very tick the head reaches the
-    // place timed by the same sum (a signal passed then is still read).
-    auto ask_for = [&](double when) {
-        if (std::isnan(when)) return kNoTime;   // not known yet (a link's earlier train to come)
-        return SimTime::from_seconds(when).to_seconds() - (times_.sight_reaction + times_.route_setup);
-    };
-    // The departure from stop k, ready at `ready`, as the links there let it go (NaN: not known yet).
-    auto leaves = [&](long k, double ready) {
-        return train(t).links_in.empty() ? ready : released_by_links(t, k, ready);
-    };
-    if (r.after_stop >= 0) {
-        const PlannedCall& c = run_of(t).calls[r.after_stop];
-        if (s.phase == Phase::standing && s.stop_call == r.after_stop) return ask_for(leaves(r.after_stop, s.ready_time));
-        if (s.phase == Phase::moving && std::fabs(motion_.ends(t).s_end - c.s) < kEps && !s.free_end) {
-            // Heading for that stop: ready when both the schedule and the dwell allow.
-            const double arrival = s.t0 + motion_.ends(t).duration;
-            return ask_for(
-                leaves(r.after_stop, std::max(c.scheduled_departure, arrival + dwell_at(t, r.after_stop))));
-        }
-        if (s.next_call > static_cast<std::size_t>(r.after_stop)) return now();  // already left it
-        return kNoTime;
-    }
-    if (r.stop_before_warning >= 0 && s.next_call <= static_cast<std::size_t>(r.stop_before_warning) + 1) {
-        // The warning point lies beyond a stop the train stands at or heads for: forecast from its
-        // departure there, as the plan times it from the planned departure.
-        const long k = r.stop_before_warning;
-        const PlannedCall& c = run_of(t).calls[k];
-        // Where the warning point lies on the leg leaving that stop, it is timed as the engine
-        // will time the head there (the departure's tick plus the place's time on the leg), so
-        // the driver learns the route on the very tick the head passes the signal in rear, not
-        // a tick after it (then unread: the train would brake for a route that was set in time).
-        const Place& w = train(t).warnings[i];
-        const bool on_leg_out = w.leg >= 0 && std::fabs(train(t).leg_ends[static_cast<std::size_t>(w.leg)].s0 - c.s) < kEps;
-        auto after_departure = [&](double departure) {
-            return on_leg_out ? SimTime::from_seconds(departure).to_seconds() + w.t : departure + r.warning_after_departure;
-        };
-        if (s.phase == Phase::standing && s.stop_call == k && !std::isnan(s.ready_time))
-            return ask_for(after_departure(leaves(k, s.ready_time)));
-        if (s.phase == Phase::moving && !s.free_end && std::fabs(motion_.ends(t).s_end - c.s) < kEps &&
-            s.next_call == static_cast<std::size_t>(k)) {
-            const double arrival = s.t0 + motion_.ends(t).duration;
-            return ask_for(after_departure(leaves(k, std::max(c.scheduled_departure, arrival + dwell_at(t, k)))));
-        }
-    }
-    if (s.phase == Phase::waiting) {
-        // Not yet in the model: the planned approach (extrapolated beyond the line end) is the
-        // best forecast of when it reaches the warning point.
-        const ServiceRun& run = run_of(t);
-        if (!run.path.starts_at_edge) return kNoTime;
-        const double entry = entry_delay(delays_, t);
-        // (on its first leg, timed as the engine will time the place: from the appearance's tick)
-        const Place& w = train(t).warnings[i];
-        if (w.leg == 0) return ask_for(SimTime::from_seconds(run.appear_time + entry).to_seconds() + w.t);
-        return ask_for(run.head_reach(r.warning_point) + entry);
-    }
-    if (s.phase == Phase::standing && s.s_stand >= r.warning_point - kPositionTolerance) return now();
-    // (a warning point already passed gives a time in the past: the request goes out now)
-    double tw = motion_.time_at_place(t, train(t).warnings[i]);
-    if (s.phase == Phase::moving && !s.free_end) {
-        // A motion that brakes for the end of the authority, not for a stop, reaches the warning
-        // point late or never: the route is wanted for when the train would get there running on.
-        // (No stop lies between the motion's start and the head, other than one at the start.)
-        const ServiceRun& run = run_of(t);
-        const auto e = motion_.ends(t);
-        const double stop = motion_.next_stop_s(t, e.s0);
-        const bool to_end = std::isinf(stop);
-        const double end = to_end ? run.path.length : stop;
-        if (e.s_end < end - kEps && r.warning_point <= end + kEps) {
-            const double head = motion_.head_position(t);
-            if (head >= r.warning_point - kPositionTolerance) return now();
-            // The planned motion over [head, warning point] (no stop lies between): a lower bound
-            // of the time it will take, so the request is never late (early by at most the
-            // re-acceleration the train still needs).
-            const double tf = now() + std::max(0.0, run.head_reach(r.warning_point) - run.head_reach(head));
-            tw = std::isnan(tw) ? tf : std::min(tw, tf);
-        }
-    }
-    return std::isnan(tw) ? kNoTime : ask_for(tw);
-}
-
-long Day::link_timed_stop(std::uint32_t t, std::size_t i) const {
-    if (train(t).links_in.empty()) return -1;   // most trains: asked at every route request
-    const SimModel::Route& r = train(t).routes[i];
-    const long k = r.after_stop >= 0 ? r.after_stop
-                   : r.stop_before_warning >= 0 && st_[t].next_call <= static_cast<std::size_t>(r.stop_before_warning) + 1
-                       ? r.stop_before_warning
-                       : -1;
-    if (k < 0) return -1;
-    for (std::uint32_t l : train(t).links_in)
-        if (static_cast<long>(model_.links()[l].to_call) == k) return k;
-    return -1;
 }
 
 void Day::schedule_point(std::uint32_t t, Kind kind) {
@@ -420,12 +294,7 @@ void Day::schedule_point(std::uint32_t t, Kind kind) {
             break;
         case kPass: at = next(tr.passes, index = s.next_pass); break;
         case kCall: at = next(tr.calls, index = s.next_call); break;
-        case kRequest: {
-            if (s.next_request >= tr.routes.size() || s.request_pending) return;
-            double when = desired_request_time(t, s.next_request);
-            if (!std::isnan(when)) push(when, kRequest, t, static_cast<std::uint32_t>(s.next_request));
-            return;
-        }
+        case kRequest: requests_.schedule_next(t); return;
         default: return;
     }
     if (!at) return;
@@ -602,7 +471,7 @@ void Day::grant_pending() {
         push(set + times_.sight_reaction, kAuthorityCheck, p.train);
         st_[p.train].request_pending = false;
         ++st_[p.train].next_request;
-        schedule_point(p.train, kRequest);
+        requests_.schedule_next(p.train);
     }
 }
 
@@ -868,8 +737,8 @@ void Day::link_arrival(std::uint32_t t, std::size_t k) {
         const std::uint32_t next = static_cast<std::uint32_t>(link.to);
         const TrainState& n = st_[next];
         if ((n.phase == Phase::standing || n.phase == Phase::moving) && !n.request_pending &&
-            n.next_request < train(next).routes.size() && link_timed_stop(next, n.next_request) >= 0)
-            schedule_point(next, kRequest);
+            n.next_request < train(next).routes.size() && requests_.link_timed_stop(next, n.next_request) >= 0)
+            requests_.schedule_next(next);
     }
 }
 
@@ -1006,17 +875,7 @@ void Day::handle(const Event& e) {
             schedule_point(t, kCall);
             break;
         case kRequest: {
-            if (e.payload != s.next_request || s.request_pending) break;
-            if (link_timed_stop(t, e.payload) >= 0) {
-                // Timed before a link's earlier train arrived: ask now only if the links still let
-                // it go by then (else later, or once that train arrives: link_arrival).
-                const double when = desired_request_time(t, e.payload);
-                if (std::isnan(when)) break;
-                if (SimTime::from_seconds(when) > e.time) {
-                    push(when, kRequest, t, e.payload);
-                    break;
-                }
-            }
+            if (e.payload != s.next_request || s.request_pending || !requests_.due(t, e.payload, e.time)) break;
             const SimModel::Route& r = train(t).routes[e.payload];
             RouteRecord rec;
             rec.train = t;
