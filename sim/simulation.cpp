@@ -10,10 +10,10 @@
 
 #include "sim/deadlock_text.hpp"
 #include "sim/crossing_changes.hpp"
-#include "sim/dispatch.hpp"
 #include "sim/day_records.hpp"
 #include "sim/day_state.hpp"
 #include "sim/event_queue.hpp"
+#include "sim/movement_authority.hpp"
 #include "sim/route_requests.hpp"
 #include "sim/train_motion.hpp"
 
@@ -35,7 +35,7 @@ std::vector<TrainBuffers>& spare_buffers() {
     return spare;
 }
 
-class Day {
+class Day final : private MovementAuthority::Grants {
 public:
     Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& options);
     ~Day() {
@@ -49,25 +49,16 @@ public:
     SimResult run();
 
 private:
-    struct Pending {
-        std::uint32_t train;
-        long route;  // -1: the train waits to appear at its origin
-        HoldCause cause = {};   // what kept it back when last tried
-    };
-
     const SimModel& model_;
     const InjectedDelays& delays_;
     const SimOptions& options_;
     const InterlockingTimes& times_;
-    Interlocking interlocking_;
-    DispatchCheck dispatch_;
-    std::vector<std::uint8_t> outside_;   // [train]: 1 until given the sections it appears on
     DayEvents events_;
     std::vector<TrainState> st_;
-    std::vector<Pending> pending_;
     DayRecords records_;
     TrainMotion motion_;
     RouteRequests requests_;
+    SectionAuthority authority_;   // (the concrete class: its calls on the hot path are direct)
     std::vector<std::vector<std::uint32_t>> disrupted_;   // per InjectedDelays::blocked entry: sections
     std::uint32_t trace_ = kNoTrain;   // KNOCKON_TRACE=<train id>: print its events (debugging aid)
 
@@ -81,19 +72,12 @@ private:
 
     // Minimum dwell at a timing point plus any injected extension [s].
     double dwell_at(std::uint32_t t, std::size_t tp) const { return day::dwell_at(run_of(t), delays_, t, tp); }
-    // A train at a stop leaves once the driver knows that every route its departure needs (the
-    // routes the plan blocks from this departure, SimModel::Route::after_stop) is set: the
-    // starter shows proceed, whether in sight of the stopping mark or repeated there.  Where no
-    // route is needed for the departure, its authority must reach beyond the stop.
+    // A train at a stop leaves once its links let it go and its authority allows
+    // (MovementAuthority::departure_known).
     bool may_depart(std::uint32_t t) const {
         const TrainState& s = st_[t];
         if (!train(t).links_in.empty() && link_hold(t, s.stop_call) > now() + kEps) return false;
-        const auto& routes = train(t).routes;
-        // (they are the routes from the first signal ahead on: models/blocking_time stop_in)
-        std::size_t j = s.next_pass;
-        for (; j < routes.size() && routes[j].after_stop == s.stop_call; ++j)
-            if (!route_known(t, j)) return false;
-        return j > s.next_pass || s.eoa > s.s_stand + kEps;
+        return authority_.departure_known(t);
     }
     // Links (models/links): until when the links into timing point k keep train t there (minus
     // infinity: none; infinity: an earlier train it must wait for has not arrived).  A connection
@@ -141,9 +125,6 @@ private:
         }
         return true;
     }
-    // What keeps a request for these sections back now: the first section another train holds or
-    // a disruption closes, else the first promised to a train planned earlier, else the dispatcher.
-    HoldCause blocking_cause(std::uint32_t t, const std::vector<std::uint32_t>& sections) const;
     HoldCause link_cause(long l) const {
         HoldCause c;
         if (l < 0) return c;
@@ -153,20 +134,6 @@ private:
         return c;
     }
 
-    // The route is set and the driver has had the reaction time since.
-    bool route_known(std::uint32_t t, std::size_t j) const {
-        const double set = st_[t].route_set[j];
-        return !std::isnan(set) && set + times_.sight_reaction <= now() + kEps;
-    }
-    // The driver can read the aspect of route j's entry signal: from its read point (always under
-    // cab signalling) until the head passes it, and while standing at a stop whose departure
-    // needs the route.
-    bool signal_in_view(std::uint32_t t, std::size_t j) const {
-        const TrainState& s = st_[t];
-        const SimModel::Train& tr = train(t);
-        return j < s.next_sight || tr.sightings[j].skip ||
-               (s.phase == Phase::standing && s.stop_call >= 0 && tr.routes[j].after_stop == s.stop_call);
-    }
     void schedule_points(std::uint32_t t);
     void schedule_point(std::uint32_t t, Kind kind);
     // Recomputes the motion after the authority or the state changed, and schedules the
@@ -179,26 +146,10 @@ private:
     }
 
     long record_for(std::uint32_t t, std::size_t k);
-    // A grant: the train holds these sections (global indices, and the same as path indices).
-    void take_sections(std::uint32_t t, const std::vector<std::uint32_t>& globals,
-                       const std::vector<std::uint32_t>& path_sections);
-    void grant_pending();
-    const std::vector<std::uint32_t>& sections_of(const Pending& p) const;
-    const std::vector<std::uint32_t>& path_sections_of(const Pending& p) const;
-    // Why t may not take section g (path section k) now: the interlocking's blocker, or under the
-    // dispatcher the opposing train it lets through first (crossing_promise); kNoTrain if none.
-    std::uint32_t blocker_of(std::uint32_t t, std::uint32_t g, std::uint32_t k) const;
-    // Train a's pending requests wait, directly or through other waiting trains, for train b.
-    bool waits_on(std::uint32_t a, std::uint32_t b, std::vector<std::uint8_t>& seen) const;
-    // The interlocking may give train t these sections now (see grant_pending).
-    bool may_take(std::uint32_t t, const std::vector<std::uint32_t>& sections,
-                  const std::vector<std::uint32_t>& path_sections) const;
-    // Under the dispatcher: the opposing train `t` must let through first on the single-track
-    // stretch holding its path section k (global g), by the crossing rule; else kNoTrain.
-    std::uint32_t crossing_promise(std::uint32_t t, std::uint32_t g, std::uint32_t k) const;
-    // The delay a train has now, as the dispatcher forecasts it: the larger of what its last
-    // timing point showed and how late it is for the next one (0 when on time or early).
-    double forecast_delay(std::uint32_t t) const;
+    void grant_pending() { authority_.grant_pending(*this); }
+    // MovementAuthority::Grants
+    void appear_granted(std::uint32_t t, const HoldCause& held_by) override;
+    void route_granted(std::uint32_t t, std::size_t route) override;
     void try_appear(std::uint32_t t);
     void begin_standing(std::uint32_t t);
     void end_hold(std::uint32_t t);
@@ -226,12 +177,11 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
       delays_(delays),
       options_(options),
       times_(model.interlocking()),
-      interlocking_(model.section_names().size(), options.route_order, model.planned_order()),
-      dispatch_(model),
       events_(model.trains().size()),
       records_(model, delays),
       motion_(model, delays, options.run, options.sample_interval, st_, events_, records_),
-      requests_(model, delays, st_, events_, motion_, records_) {
+      requests_(model, delays, st_, events_, motion_, records_),
+      authority_(model, options.route_order, st_, events_, records_) {
     const auto& trains = model.trains();
     st_.resize(trains.size());
     std::vector<TrainBuffers>& spare = spare_buffers();
@@ -245,7 +195,6 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
         s.holds = std::move(b.holds);
         spare.pop_back();
     }
-    outside_.assign(trains.size(), 1);
     const char* const trace_id = std::getenv("KNOCKON_TRACE");
     for (std::uint32_t t = 0; t < trains.size(); ++t) {
         const ServiceRun& run = run_of(t);
@@ -333,146 +282,16 @@ long Day::record_for(std::uint32_t t, std::size_t k) {
     return records_.open_section(st_[t], t, train(t).section_index[k], k, now());
 }
 
-void Day::take_sections(std::uint32_t t, const std::vector<std::uint32_t>& globals,
-                        const std::vector<std::uint32_t>& path_sections) {
-    interlocking_.take(t, globals);
-    for (std::uint32_t k : path_sections)
-        if (!st_[t].holds[k]) {
-            st_[t].holds[k] = 1;
-            record_for(t, k);
-        }
+void Day::appear_granted(std::uint32_t t, const HoldCause& held_by) {
+    st_[t].appear_cause = held_by;
+    st_[t].appear_granted = true;
+    try_appear(t);
 }
 
-const std::vector<std::uint32_t>& Day::sections_of(const Pending& p) const {
-    return p.route < 0 ? train(p.train).origin_sections : train(p.train).routes[p.route].sections;
-}
-
-const std::vector<std::uint32_t>& Day::path_sections_of(const Pending& p) const {
-    return p.route < 0 ? train(p.train).origin_path_sections : train(p.train).routes[p.route].path_sections;
-}
-
-std::uint32_t Day::blocker_of(std::uint32_t t, std::uint32_t g, std::uint32_t k) const {
-    const std::uint32_t b = interlocking_.blocker(t, g);
-    if (b != kNoTrain || options_.route_order != RouteOrder::dispatch) return b;
-    return crossing_promise(t, g, k);
-}
-
-bool Day::waits_on(std::uint32_t a, std::uint32_t b, std::vector<std::uint8_t>& seen) const {
-    if (seen[a]) return false;
-    seen[a] = 1;
-    for (const Pending& p : pending_) {
-        if (p.train != a) continue;
-        const auto& globals = sections_of(p);
-        const auto& path = path_sections_of(p);
-        for (std::size_t i = 0; i < globals.size(); ++i) {
-            const std::uint32_t c = blocker_of(a, globals[i], path[i]);
-            if (c == b) return true;
-            if (c < st_.size() && waits_on(c, b, seen)) return true;
-        }
-    }
-    return false;
-}
-
-double Day::forecast_delay(std::uint32_t t) const {
-    const ServiceRun& run = run_of(t);
-    const TrainState& s = st_[t];
-    if (s.phase == Phase::waiting) return std::max(0.0, now() - run.appear_time);
-    double shown = 0.0;
-    std::size_t k = 0;
-    for (; k < run.calls.size(); ++k) {
-        const TimingRecord& r = records_.timing(t, k);
-        if (!std::isnan(r.departure)) shown = r.departure - run.calls[k].planned_departure;
-        else if (!std::isnan(r.arrival)) shown = r.arrival - run.calls[k].planned_arrival;
-        else break;
-    }
-    const double late = k < run.calls.size() && !std::isnan(run.calls[k].planned_arrival)
-                            ? now() - run.calls[k].planned_arrival
-                            : 0.0;
-    return std::max({0.0, shown, late});
-}
-
-std::uint32_t Day::crossing_promise(std::uint32_t t, std::uint32_t g, std::uint32_t k) const {
-    const SimModel::Train& a = train(t);
-    const std::int32_t stretch = a.stretch_of[k];
-    if (stretch < 0) return kNoTrain;
-    const std::uint32_t p = interlocking_.planned_before(t, g);
-    if (p == kNoTrain) return kNoTrain;
-    const SimModel::Train& b = train(p);
-    const StretchUse* ua = a.use_of(stretch);
-    const StretchUse* ub = b.use_of(stretch);
-    // Opposing on this stretch (on a network that need not match the headings they started in).
-    if (!ua || !ub || ua->direction == ub->direction) return kNoTrain;
-    const CrossingChoice c =
-        choose_crossing(*ua, forecast_delay(t), a.dispatch_weight, *ub, forecast_delay(p), b.dispatch_weight);
-    if (c.asking_goes_first) return kNoTrain;
-    // A train kept waiting for one that cannot come: p already asks for a route the safety rule
-    // refuses (it would leave some train no way off the line, t among them).  Keeping the order
-    // would only hold both until the forecasts tip the rule.
-    for (const Pending& q : pending_)
-        if (q.train == p && !dispatch_.leaves_a_way(interlocking_, p, sections_of(q), outside_)) return kNoTrain;
-    return p;
-}
-
-bool Day::may_take(std::uint32_t t, const std::vector<std::uint32_t>& sections,
-                   const std::vector<std::uint32_t>& path_sections) const {
-    const bool dispatch = options_.route_order == RouteOrder::dispatch;
-    for (std::size_t i = 0; i < sections.size(); ++i) {
-        const std::uint32_t g = sections[i];
-        const std::uint32_t b = blocker_of(t, g, path_sections[i]);
-        if (b == kNoTrain) continue;
-        // Held, or out of use: it must wait.  Promised to a train planned earlier: it waits for
-        // that train, unless that train itself waits (directly or through others) for this one:
-        // then the promise can never be kept (the other train is behind it, or held up by it),
-        // and the order is given up for this section rather than locking both for good.
-        if (b == kDisruption || interlocking_.holder(g) == b) return false;
-        std::vector<std::uint8_t> seen(st_.size(), 0);
-        if (!waits_on(b, t, seen)) return false;
-    }
-    return !dispatch || dispatch_.leaves_a_way(interlocking_, t, sections, outside_);
-}
-
-void Day::grant_pending() {
-    for (std::size_t i = 0; i < pending_.size();) {
-        const Pending p = pending_[i];
-        if (p.route < 0) {
-            const SimModel::Train& tr = train(p.train);
-            if (!may_take(p.train, tr.origin_sections, tr.origin_path_sections)) {
-                pending_[i].cause = blocking_cause(p.train, tr.origin_sections);
-                ++i;
-                continue;
-            }
-            pending_.erase(pending_.begin() + static_cast<long>(i));
-            st_[p.train].appear_cause = p.cause;
-            take_sections(p.train, tr.origin_sections, tr.origin_path_sections);
-            st_[p.train].appear_granted = true;
-            outside_[p.train] = 0;
-            try_appear(p.train);
-            i = 0;  // a grant changes nothing that frees others, but keep the order simple
-            continue;
-        }
-        const SimModel::Route& r = train(p.train).routes[p.route];
-        if (!may_take(p.train, r.sections, r.path_sections)) {
-            pending_[i].cause = blocking_cause(p.train, r.sections);
-            pending_[i].cause.signal = r.entry_signal;
-            ++i;
-            continue;
-        }
-        pending_.erase(pending_.begin() + static_cast<long>(i));
-        take_sections(p.train, r.sections, r.path_sections);
-        // The route is set after the setting time (at that event tick), and the driver reacts to
-        // the aspect after the reaction time.  Until then route_set lies in the future, which
-        // every reader takes as "not set yet".
-        RouteRecord& record = records_.route(st_[p.train].route_record[p.route]);
-        record.granted = now();
-        record.held_by = p.cause;
-        const double set = SimTime::from_seconds(now() + times_.route_setup).to_seconds();
-        st_[p.train].route_set[p.route] = set;
-        record.cleared = set;
-        push(set + times_.sight_reaction, kAuthorityCheck, p.train);
-        st_[p.train].request_pending = false;
-        ++st_[p.train].next_request;
-        requests_.schedule_next(p.train);
-    }
+void Day::route_granted(std::uint32_t t, std::size_t) {
+    st_[t].request_pending = false;
+    ++st_[t].next_request;
+    requests_.schedule_next(t);
 }
 
 void Day::try_appear(std::uint32_t t) {
@@ -486,7 +305,7 @@ void Day::try_appear(std::uint32_t t) {
         const auto& routes = train(t).routes;
         std::size_t known_outside = 0;
         while (known_outside < routes.size() && routes[known_outside].warning_point <= kEps) {
-            if (!route_known(t, known_outside)) return;
+            if (!authority_.route_known(t, known_outside)) return;
             ++known_outside;
         }
         s.phase = Phase::moving;
@@ -564,22 +383,7 @@ void Day::try_appear(std::uint32_t t) {
 void Day::check_authority(std::uint32_t t) {
     TrainState& s = st_[t];
     if (s.phase == Phase::finished) return;
-    const SimModel::Train& tr = train(t);
-    const auto& routes = tr.routes;
-    // The end of authority the signals in view give: a signal is in view from the sight event
-    // at its read point (always under cab signalling) until the head passes it (its pass
-    // event; a train standing at a signal still reads it).  Counting events, not looking the
-    // head up in the motion, keeps this off the long, mostly cold motion arrays.
-    double eoa = s.eoa;
-    for (std::size_t j = s.next_pass; j < routes.size(); ++j) {
-        if (!signal_in_view(t, j)) break;
-        int k = 0;
-        while (k < routes[j].aspect_cap && j + k < routes.size() && route_known(t, j + k)) ++k;
-        if (k == 0) continue;
-        double end = routes[j + k - 1].authority_end;
-        if (j + k < routes.size()) end = routes[j + k].s_entry;
-        eoa = std::max(eoa, end);
-    }
+    const double eoa = authority_.known_end(t);
     if (eoa <= s.eoa + kEps) return;
     s.eoa = eoa;
     if (s.phase == Phase::moving) {
@@ -681,13 +485,10 @@ void Day::vanish(std::uint32_t t) {
     const SimModel::Train& tr = train(t);
     for (const PlatformHandover& h : tr.hands_over) {
         if (!s.holds[h.incoming]) continue;
-        s.holds[h.incoming] = 0;
         SectionRecord& r = records_.section(s.section_record[h.incoming]);
         if (std::isnan(r.tail_clears)) r.tail_clears = now();
         r.released = now();
-        const std::uint32_t g = tr.section_index[h.incoming];
-        interlocking_.release(t, g);
-        take_sections(tr.turns_into, {g}, {static_cast<std::uint32_t>(h.outgoing)});
+        authority_.hand_over(t, h.incoming, tr.turns_into, h.outgoing);
     }
     for (std::size_t k = 0; k < s.holds.size(); ++k) {
         if (!s.holds[k]) continue;
@@ -706,22 +507,6 @@ void Day::vanish(std::uint32_t t) {
         next.appear_deferred = true;
         push(now(), kAppear, static_cast<std::uint32_t>(link.to));
     }
-}
-
-HoldCause Day::blocking_cause(std::uint32_t t, const std::vector<std::uint32_t>& sections) const {
-    HoldCause c;
-    c.kind = HoldCause::Kind::dispatch;
-    for (std::uint32_t g : sections) {
-        const std::uint32_t b = interlocking_.blocker(t, g);
-        if (b == kNoTrain) continue;
-        const bool held = b == kDisruption || interlocking_.holder(g) == b;
-        if (c.kind != HoldCause::Kind::dispatch && !held) continue;   // a promise only where nothing is held
-        c.section = g;
-        c.kind = b == kDisruption ? HoldCause::Kind::disruption : HoldCause::Kind::train;
-        c.train = b == kDisruption ? HoldCause::kNone : b;
-        if (held) break;
-    }
-    return c;
 }
 
 void Day::link_arrival(std::uint32_t t, std::size_t k) {
@@ -776,8 +561,8 @@ long Day::finish_links(std::uint32_t t, std::size_t k) {
 void Day::handle(const Event& e) {
     if (e.entity == no_entity) {
         for (std::uint32_t g : disrupted_[e.payload]) {
-            if (e.kind == kDisruptionStart) interlocking_.take_out_of_use(g);
-            else interlocking_.restore(g);
+            if (e.kind == kDisruptionStart) authority_.close_section(g);
+            else authority_.reopen_section(g);
         }
         if (e.kind == kDisruptionEnd) grant_pending();
         return;
@@ -798,14 +583,12 @@ void Day::handle(const Event& e) {
             }
             // First the sections it appears on (a train entering over the line end: those up to
             // the first signal, which no route of its own protects) must be free.
-            pending_.push_back({t, -1});
+            authority_.ask_to_appear(t);
             grant_pending();
             break;
         case kRelease: {
             const std::size_t k = e.payload;
-            if (!s.holds[k]) break;
-            s.holds[k] = 0;
-            interlocking_.release(t, train(t).section_index[k]);
+            if (!authority_.release(t, k)) break;
             records_.section(s.section_record[k]).released = now();
             grant_pending();
             break;
@@ -830,11 +613,8 @@ void Day::handle(const Event& e) {
         case kEnter: {
             if (stale_point(s.next_enter)) break;
             long r = record_for(t, e.payload);
-            if (!s.holds[e.payload]) {
-                // Unprotected stretch (no route covers it): occupied as the head enters.
-                interlocking_.take(t, {train(t).section_index[e.payload]});
-                s.holds[e.payload] = 1;
-            }
+            // Unprotected stretch (no route covers it): occupied as the head enters.
+            authority_.occupy(t, e.payload);
             records_.section(r).head_enters = now();
             ++s.next_enter;
             schedule_point(t, kEnter);
@@ -885,7 +665,7 @@ void Day::handle(const Event& e) {
             rec.granted = rec.cleared = kNoTime;
             s.route_record[e.payload] = records_.open_route(std::move(rec));
             s.request_pending = true;
-            pending_.push_back({t, static_cast<long>(e.payload)});
+            authority_.ask_for_route(t, e.payload);
             grant_pending();
             break;
         }
@@ -926,10 +706,8 @@ void Day::report_deadlock() {
         else if (s.phase == Phase::moving) w.since = s.t0;
         else w.since = s.stop_call >= 0 && !std::isnan(s.ready_time) ? s.ready_time : s.stand_since;
 
-        const Pending* pending = nullptr;
-        for (const Pending& p : pending_)
-            if (p.train == t) pending = &p;
-        const std::vector<std::uint32_t>* needed = nullptr;
+        const long request = authority_.pending_request(t);
+        bool blocked = false;   // it waits for sections others keep from it
         if (const long l = stuck_link(t); l >= 0) {
             // A link whose earlier train never came keeps it, whatever else it might wait for.
             const LinkPlan& link = model_.links()[static_cast<std::size_t>(l)];
@@ -938,15 +716,15 @@ void Day::report_deadlock() {
             w.link_from = static_cast<std::uint32_t>(link.from);
             // (a formed service that never appeared is due at its origin)
             if (outside && !run.calls.empty()) w.station = run.calls.front().station;
-        } else if (pending && pending->route < 0) {
+        } else if (request == MovementAuthority::kToAppear) {
             w.waits_for = DeadlockWait::For::appear;
             if (!run.calls.empty()) w.station = run.calls.front().station;
-            needed = &train(t).origin_sections;
-        } else if (pending) {
-            const SimModel::Route& r = routes[static_cast<std::size_t>(pending->route)];
+            blocked = true;
+        } else if (request != MovementAuthority::kNothing) {
+            const SimModel::Route& r = routes[static_cast<std::size_t>(request)];
             w.waits_for = outside ? DeadlockWait::For::enter : DeadlockWait::For::route;
             w.signal = r.entry_signal;
-            needed = &r.sections;
+            blocked = true;
         } else if (s.phase != Phase::moving) {
             // Nothing it asked for is outstanding: the route that would take its authority on is
             // set but not seen, or was never asked for.
@@ -963,20 +741,7 @@ void Day::report_deadlock() {
                 }
             }
         }
-        if (needed)
-            for (std::uint32_t g : *needed) {
-                const std::uint32_t b = interlocking_.blocker(t, g);
-                if (b == kNoTrain) continue;
-                DeadlockBlock block;
-                block.section = g;
-                if (b == kDisruption) {
-                    block.by = DeadlockBlock::By::disruption;
-                } else {
-                    block.train = b;
-                    block.by = interlocking_.holder(g) == b ? DeadlockBlock::By::held : DeadlockBlock::By::promised;
-                }
-                w.blocks.push_back(block);
-            }
+        if (blocked) authority_.blocks(t, request, w.blocks);
         report.waiting.push_back(std::move(w));
     }
     report.deadlocked = !report.waiting.empty();
