@@ -8,7 +8,7 @@ namespace knockon::day {
 bool RouteRequests::due(std::uint32_t t, std::size_t i, SimTime time) {
     if (link_timed_stop(t, i) < 0) return true;
     // Timed before a link's earlier train arrived: ask now only if the links still let it go by
-    // then (else later, or once that train arrives: link_arrival).
+    // then (else later, or once that train arrives: DayLinks::arrive).
     const double when = desired_request_time(t, i);
     if (std::isnan(when)) return false;
     if (SimTime::from_seconds(when) > time) {
@@ -16,22 +16,6 @@ bool RouteRequests::due(std::uint32_t t, std::size_t i, SimTime time) {
         return false;
     }
     return true;
-}
-
-double RouteRequests::released_by_links(std::uint32_t t, long k, double ready) const {
-    for (std::uint32_t l : train(t).links_in) {
-        const LinkPlan& link = model_.links()[l];
-        if (static_cast<long>(link.to_call) != k) continue;
-        const double arrival = records_.link(l).arrival;
-        double until = !std::isnan(arrival)             ? arrival + link.min_time
-                       : link.arrival > now() + kEps ? link.arrival + link.min_time
-                                                        : kNoTime;
-        if (link.kind == LinkKind::connection) until = std::isnan(until) ? link.wait_until()
-                                                                        : std::min(until, link.wait_until());
-        if (std::isnan(until)) return kNoTime;
-        ready = std::max(ready, SimTime::from_seconds(until).to_seconds());
-    }
-    return ready;
 }
 
 double RouteRequests::desired_request_time(std::uint32_t t, std::size_t i) const {
@@ -46,7 +30,7 @@ double RouteRequests::desired_request_time(std::uint32_t t, std::size_t i) const
     };
     // The departure from stop k, ready at `ready`, as the links there let it go (NaN: not known yet).
     auto leaves = [&](long k, double ready) {
-        return train(t).links_in.empty() ? ready : released_by_links(t, k, ready);
+        return train(t).links_in.empty() ? ready : links_.released(t, k, ready);
     };
     if (r.after_stop >= 0) {
         const PlannedCall& c = run_of(t).calls[r.after_stop];

@@ -7,10 +7,10 @@
 //
 // Why a class of its own: the request time is a forecast of the train's motion and of its
 // links, made before the authority (sim/movement_authority) is asked; it is one rule, read here
-// by the event loop (sim/simulation) and nowhere else.
+// by the event loop (sim/simulation) and nowhere else; the links' part is sim/day_links.
 #include <cstdint>
 
-#include "sim/day_records.hpp"
+#include "sim/day_links.hpp"
 #include "sim/day_state.hpp"
 #include "sim/train_motion.hpp"
 
@@ -19,14 +19,14 @@ namespace knockon::day {
 class RouteRequests {
 public:
     RouteRequests(const SimModel& model, const InjectedDelays& delays, std::vector<TrainState>& states,
-                  DayEvents& events, const TrainMotion& motion, const DayRecords& records)
+                  DayEvents& events, const TrainMotion& motion, const DayLinks& links)
         : model_(model),
           delays_(delays),
           times_(model.interlocking()),
           st_(states),
           events_(events),
           motion_(motion),
-          records_(records) {}
+          links_(links) {}
 
     // Puts train t's next route request in the queue, timed by desired_request_time (none while
     // one is pending, none left, or its time not known yet).
@@ -41,18 +41,9 @@ public:
     bool due(std::uint32_t t, std::size_t i, SimTime time);
     // When train t should ask for route i (NaN: not known yet; a time passed: at once).
     double desired_request_time(std::uint32_t t, std::size_t route) const;
-    // The stop whose departure times route i's request through released_by_links (the stop the
+    // The stop whose departure times route i's request through DayLinks::released (the stop the
     // route leaves, or one before its warning point), if links are timed into it; else -1.
     long link_timed_stop(std::uint32_t t, std::size_t i) const;
-    // When train t, ready to leave timing point k at `ready`, is let go by its links there: the
-    // time a route request for that departure is timed from (the one rule for it: a train kept by
-    // a link must not hold its route out, and with it other trains, while it waits).  A link
-    // whose earlier train has arrived holds it until link_hold; one whose earlier train has not,
-    // at least until the earliest that train can arrive, its planned arrival (no train runs
-    // ahead of its plan), plus the minimum time.  Once that has passed with the train still to
-    // come the time is not known (NaN): link_arrival asks again.  A connection lets go by its
-    // latest departure in any case.
-    double released_by_links(std::uint32_t t, long k, double ready) const;
 
 private:
     const SimModel::Train& train(std::uint32_t t) const { return model_.trains()[t]; }
@@ -65,7 +56,7 @@ private:
     std::vector<TrainState>& st_;
     DayEvents& events_;
     const TrainMotion& motion_;
-    const DayRecords& records_;
+    const DayLinks& links_;
 };
 
 }  // namespace knockon::day

@@ -10,6 +10,7 @@
 
 #include "sim/deadlock_text.hpp"
 #include "sim/crossing_changes.hpp"
+#include "sim/day_links.hpp"
 #include "sim/day_records.hpp"
 #include "sim/day_state.hpp"
 #include "sim/event_queue.hpp"
@@ -56,6 +57,7 @@ private:
     DayEvents events_;
     std::vector<TrainState> st_;
     DayRecords records_;
+    DayLinks links_;
     TrainMotion motion_;
     RouteRequests requests_;
     SectionAuthority authority_;   // (the concrete class: its calls on the hot path are direct)
@@ -76,64 +78,9 @@ private:
     // (MovementAuthority::departure_known).
     bool may_depart(std::uint32_t t) const {
         const TrainState& s = st_[t];
-        if (!train(t).links_in.empty() && link_hold(t, s.stop_call) > now() + kEps) return false;
+        if (!train(t).links_in.empty() && links_.hold(t, s.stop_call) > now() + kEps) return false;
         return authority_.departure_known(t);
     }
-    // Links (models/links): until when the links into timing point k keep train t there (minus
-    // infinity: none; infinity: an earlier train it must wait for has not arrived).  A connection
-    // is waited for up to its planned departure plus the maximum wait.
-    double link_hold(std::uint32_t t, long k) const {
-        double hold = -kInf;
-        for (std::uint32_t l : train(t).links_in) {
-            const LinkPlan& link = model_.links()[l];
-            if (static_cast<long>(link.to_call) != k) continue;
-            const double arrival = records_.link(l).arrival;
-            double until = std::isnan(arrival) ? kInf : arrival + link.min_time;
-            if (link.kind == LinkKind::connection) until = std::min(until, link.wait_until());
-            hold = std::max(hold, until);
-        }
-        // On the engine's clock: an event pushed for `hold` happens at its tick.
-        return std::isfinite(hold) ? SimTime::from_seconds(hold).to_seconds() : hold;
-    }
-    // Wakes a train held by its links when they would let it go.
-    void schedule_link_check(std::uint32_t t) {
-        const double hold = link_hold(t, st_[t].stop_call);
-        if (std::isfinite(hold) && hold > now()) push(hold, kLinkCheck, t);
-    }
-    // The earlier train of links arrives at timing point k: the later trains may go after the minimum time.
-    void link_arrival(std::uint32_t t, std::size_t k);
-    // A train leaves timing point k: its links' records, and the link that held it longest (or -1).
-    long finish_links(std::uint32_t t, std::size_t k);
-    long binding_link(std::uint32_t t, std::size_t k) const;   // the link into k that lets t go last, or -1
-    // The link that keeps t for good when the day stops: one whose earlier train has not arrived,
-    // holding t ready at a stop or keeping a formed service from appearing; else -1.
-    long stuck_link(std::uint32_t t) const {
-        const TrainState& s = st_[t];
-        if (s.awaiting_set)
-            for (std::uint32_t l : train(t).links_in) {
-                const LinkPlan& link = model_.links()[l];
-                if (link.kind == LinkKind::turnaround && st_[link.from].phase != Phase::finished) return l;
-            }
-        if (s.phase != Phase::standing || s.stop_call < 0 || train(t).links_in.empty()) return -1;
-        return std::isinf(link_hold(t, s.stop_call)) ? binding_link(t, static_cast<std::size_t>(s.stop_call)) : -1;
-    }
-    // The formed services' sets (turnaround links into t) have all arrived and left the model.
-    bool set_arrived(std::uint32_t t) const {
-        for (std::uint32_t l : train(t).links_in) {
-            const LinkPlan& link = model_.links()[l];
-            if (link.kind == LinkKind::turnaround && st_[link.from].phase != Phase::finished) return false;
-        }
-        return true;
-    }
-    HoldCause link_cause(long l) const {
-        HoldCause c;
-        if (l < 0) return c;
-        c.kind = HoldCause::Kind::link;
-        c.link = static_cast<std::uint32_t>(l);
-        c.train = static_cast<std::uint32_t>(model_.links()[static_cast<std::size_t>(l)].from);
-        return c;
-    }
-
     void schedule_points(std::uint32_t t);
     void schedule_point(std::uint32_t t, Kind kind);
     // Recomputes the motion after the authority or the state changed, and schedules the
@@ -179,8 +126,9 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
       times_(model.interlocking()),
       events_(model.trains().size()),
       records_(model, delays),
+      links_(model, st_, events_, records_),
       motion_(model, delays, options.run, options.sample_interval, st_, events_, records_),
-      requests_(model, delays, st_, events_, motion_, records_),
+      requests_(model, delays, st_, events_, motion_, links_),
       authority_(model, options.route_order, st_, events_, records_) {
     const auto& trains = model.trains();
     st_.resize(trains.size());
@@ -355,13 +303,13 @@ void Day::try_appear(std::uint32_t t) {
     s.own_ready = ready_on_time;
     long binding = -1;
     if (!train(t).links_in.empty()) {
-        const double hold = link_hold(t, 0);
+        const double hold = links_.hold(t, 0);
         if (std::isfinite(hold) && hold > s.ready_time) s.ready_time = hold;
         binding = s.appear_deferred || hold > ready_on_time + kNoiseFloor ? 0 : -1;
     }
     if (s.ready_time - ready_on_time > kNoiseFloor) {
         HoldCause cause = s.appear_cause;
-        if (binding >= 0) cause = link_cause(binding_link(t, 0));
+        if (binding >= 0) cause = links_.cause(links_.binding(t, 0));
         records_.add_knock_on(records_.first_timing(t), s.ready_time - ready_on_time, ready_on_time, s.ready_time, false, cause);
         records_.add_wait({t, std::string(), ready_on_time, s.ready_time, run.calls[0].station, cause});
     }
@@ -419,12 +367,12 @@ void Day::end_hold(std::uint32_t t) {
 void Day::depart(std::uint32_t t) {
     TrainState& s = st_[t];
     const std::size_t k = static_cast<std::size_t>(s.stop_call);
-    const long link = train(t).links_in.empty() ? -1 : finish_links(t, k);
+    const long link = train(t).links_in.empty() ? -1 : links_.finish(t, k);
     // Ready but kept: by a link that let it go only now, else by the last route out to be set.
     HoldCause cause;
     if (!std::isnan(s.ready_time) && now() - s.ready_time > kNoiseFloor) {
-        if (link >= 0 && link_hold(t, s.stop_call) >= now() - kEps) {
-            cause = link_cause(link);
+        if (link >= 0 && links_.hold(t, s.stop_call) >= now() - kEps) {
+            cause = links_.cause(link);
         } else {
             double last = -kInf;
             const auto& routes = train(t).routes;
@@ -437,8 +385,8 @@ void Day::depart(std::uint32_t t) {
             // A route nothing held, asked for late only because the link's time was not known
             // before its earlier train arrived: the link kept it.
             if (cause.kind == HoldCause::Kind::none && link >= 0 &&
-                link_hold(t, s.stop_call) > s.ready_time + kNoiseFloor)
-                cause = link_cause(link);
+                links_.hold(t, s.stop_call) > s.ready_time + kNoiseFloor)
+                cause = links_.cause(link);
         }
         records_.add_wait({t, std::string(), s.ready_time, now(), run_of(t).calls[k].station, cause});
     }
@@ -460,7 +408,15 @@ void Day::begin_standing(std::uint32_t t) {
         const std::size_t k = s.next_call++;
         s.stop_call = static_cast<long>(k);
         records_.record_call(s, t, k, now(), kNoTime);
-        if (!train(t).links_out.empty()) link_arrival(t, k);
+        if (!train(t).links_out.empty())
+            links_.arrive(t, k, [&](std::uint32_t next) {
+                // The later train's route out can now be timed by the known hold (a request the
+                // link times; any other stands as it was scheduled).
+                const TrainState& n = st_[next];
+                if ((n.phase == Phase::standing || n.phase == Phase::moving) && !n.request_pending &&
+                    n.next_request < train(next).routes.size() && requests_.link_timed_stop(next, n.next_request) >= 0)
+                    requests_.schedule_next(next);
+            });
         const double min_dwell = dwell_at(t, k);
         if (k + 1 == calls.size() && !run.path.ends_at_edge) {
             push(now() + min_dwell, kVanish, t);
@@ -499,63 +455,7 @@ void Day::vanish(std::uint32_t t) {
     s.phase = Phase::finished;
     cancel_motion(t);
     // The set has left the platform: the services it forms may appear.
-    for (std::uint32_t l : train(t).links_out) {
-        const LinkPlan& link = model_.links()[l];
-        TrainState& next = st_[link.to];
-        if (link.kind != LinkKind::turnaround || !next.awaiting_set) continue;
-        next.awaiting_set = false;
-        next.appear_deferred = true;
-        push(now(), kAppear, static_cast<std::uint32_t>(link.to));
-    }
-}
-
-void Day::link_arrival(std::uint32_t t, std::size_t k) {
-    for (std::uint32_t l : train(t).links_out) {
-        const LinkPlan& link = model_.links()[l];
-        if (link.from_call != k) continue;
-        records_.link(l).arrival = now();
-        double go = now() + link.min_time;
-        if (link.kind == LinkKind::connection) go = std::min(go, link.wait_until());
-        push(std::max(go, now()), kLinkCheck, static_cast<std::uint32_t>(link.to));
-        // The later train's route out can now be timed by the known hold (a request the link
-        // times; any other stands as it was scheduled).
-        const std::uint32_t next = static_cast<std::uint32_t>(link.to);
-        const TrainState& n = st_[next];
-        if ((n.phase == Phase::standing || n.phase == Phase::moving) && !n.request_pending &&
-            n.next_request < train(next).routes.size() && requests_.link_timed_stop(next, n.next_request) >= 0)
-            requests_.schedule_next(next);
-    }
-}
-
-long Day::binding_link(std::uint32_t t, std::size_t k) const {
-    long binding = -1;
-    double latest = -kInf;
-    for (std::uint32_t l : train(t).links_in) {
-        const LinkPlan& link = model_.links()[l];
-        if (link.to_call != k) continue;
-        const double arrival = records_.link(l).arrival;
-        double until = std::isnan(arrival) ? kInf : arrival + link.min_time;
-        if (link.kind == LinkKind::connection) until = std::min(until, link.wait_until());
-        if (until > latest) {
-            latest = until;
-            binding = l;
-        }
-    }
-    return binding;
-}
-
-long Day::finish_links(std::uint32_t t, std::size_t k) {
-    const TrainState& s = st_[t];
-    for (std::uint32_t l : train(t).links_in) {
-        const LinkPlan& link = model_.links()[l];
-        if (link.to_call != k) continue;
-        LinkRecord& r = records_.link(l);
-        r.departure = now();
-        const double ready = std::isnan(r.arrival) ? kInf : r.arrival + link.min_time;
-        r.missed = link.kind == LinkKind::connection && ready > now() + kEps;
-        r.waited = std::max(0.0, std::min(now(), ready) - s.own_ready);
-    }
-    return binding_link(t, k);
+    links_.set_left(t);
 }
 
 void Day::handle(const Event& e) {
@@ -577,7 +477,7 @@ void Day::handle(const Event& e) {
     auto stale_point = [&](std::size_t next) { return e.payload != next; };
     switch (static_cast<Kind>(e.kind)) {
         case kAppear:
-            if (!set_arrived(t)) {   // a formed service waits for its set (vanish wakes it)
+            if (!links_.set_arrived(t)) {   // a formed service waits for its set (vanish wakes it)
                 s.awaiting_set = true;
                 break;
             }
@@ -604,7 +504,7 @@ void Day::handle(const Event& e) {
             if (s.phase != Phase::standing || s.stop_call < 0) break;
             s.ready = true;
             if (may_depart(t)) depart(t);
-            else if (!train(t).links_in.empty()) schedule_link_check(t);
+            else if (!train(t).links_in.empty()) links_.schedule_check(t);
             break;
         case kLinkCheck:
             if (s.phase == Phase::standing && s.stop_call >= 0 && s.ready && may_depart(t)) depart(t);
@@ -708,7 +608,7 @@ void Day::report_deadlock() {
 
         const long request = authority_.pending_request(t);
         bool blocked = false;   // it waits for sections others keep from it
-        if (const long l = stuck_link(t); l >= 0) {
+        if (const long l = links_.stuck(t); l >= 0) {
             // A link whose earlier train never came keeps it, whatever else it might wait for.
             const LinkPlan& link = model_.links()[static_cast<std::size_t>(l)];
             w.waits_for = DeadlockWait::For::link;
