@@ -177,14 +177,10 @@ void SectionAuthority::grant_pending(Grants& grants) {
         // The route is set after the setting time (at that event tick), and the driver reacts to
         // the aspect after the reaction time.  Until then route_set lies in the future, which
         // every reader takes as "not set yet".
-        RouteRecord& record = records_.route(st_[p.train].route_record[p.route]);
-        record.granted = now();
-        record.held_by = p.cause;
         const double set = SimTime::from_seconds(now() + times_.route_setup).to_seconds();
         st_[p.train].route_set[p.route] = set;
-        record.cleared = set;
         events_.push(set + times_.sight_reaction, kAuthorityCheck, p.train);
-        grants.route_granted(p.train, static_cast<std::size_t>(p.route));
+        grants.route_granted(p.train, static_cast<std::size_t>(p.route), p.cause);
     }
 }
 

@@ -30,8 +30,9 @@ public:
     public:
         // The sections train t appears on are its own (held_by: what kept them from it, last).
         virtual void appear_granted(std::uint32_t t, const HoldCause& held_by) = 0;
-        // Route `route` of train t is granted (TrainState::route_set says when it is set).
-        virtual void route_granted(std::uint32_t t, std::size_t route) = 0;
+        // Route `route` of train t is granted now (TrainState::route_set says when it is set;
+        // held_by: what kept it from the train, last).
+        virtual void route_granted(std::uint32_t t, std::size_t route, const HoldCause& held_by) = 0;
 
     protected:
         ~Grants() = default;
@@ -43,7 +44,9 @@ public:
 
     virtual void ask_to_appear(std::uint32_t t) = 0;
     virtual void ask_for_route(std::uint32_t t, std::size_t route) = 0;
-    // Grants every pending request it may now, in order of asking.
+    // Grants every pending request it may now, in order of asking.  A route granted is set after
+    // the set-up time (TrainState::route_set), and the driver's check of the authority comes the
+    // sight-and-reaction time after that (a kAuthorityCheck event).
     virtual void grant_pending(Grants& grants) = 0;
     // The head of train t enters its path section k, which no route covers: it holds it now.
     virtual void occupy(std::uint32_t t, std::size_t k) = 0;

@@ -36,6 +36,11 @@ std::vector<TrainBuffers>& spare_buffers() {
     return spare;
 }
 
+// The event loop of one day: it keeps the train states and hands each event to the piece whose
+// rule it is: the train's motion (sim/train_motion), its movement authority
+// (sim/movement_authority), its route requests (sim/route_requests), its links (sim/day_links)
+// and the day's records (sim/day_records).  What is left here is the order of things at each
+// event: a train appearing, standing, departing, reaching the points along its way, vanishing.
 class Day final : private MovementAuthority::Grants {
 public:
     Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& options);
@@ -96,7 +101,7 @@ private:
     void grant_pending() { authority_.grant_pending(*this); }
     // MovementAuthority::Grants
     void appear_granted(std::uint32_t t, const HoldCause& held_by) override;
-    void route_granted(std::uint32_t t, std::size_t route) override;
+    void route_granted(std::uint32_t t, std::size_t route, const HoldCause& held_by) override;
     void try_appear(std::uint32_t t);
     void begin_standing(std::uint32_t t);
     void end_hold(std::uint32_t t);
@@ -236,7 +241,11 @@ void Day::appear_granted(std::uint32_t t, const HoldCause& held_by) {
     try_appear(t);
 }
 
-void Day::route_granted(std::uint32_t t, std::size_t) {
+void Day::route_granted(std::uint32_t t, std::size_t route, const HoldCause& held_by) {
+    RouteRecord& record = records_.route(st_[t].route_record[route]);
+    record.granted = now();
+    record.held_by = held_by;
+    record.cleared = st_[t].route_set[route];
     st_[t].request_pending = false;
     ++st_[t].next_request;
     requests_.schedule_next(t);
@@ -262,7 +271,7 @@ void Day::try_appear(std::uint32_t t) {
         s.eoa = 0.0;
         {
             // Held outside the model beyond its (possibly late) entry: knock-on at the first call.
-            const double due = run.appear_time + (entry_delay(delays_, t));
+            const double due = run.appear_time + entry_delay(delays_, t);
             if (now() - due > kNoiseFloor) records_.add_knock_on(records_.first_timing(t), now() - due, due, now(), true);
             s.last_departure = now();
         }
@@ -602,7 +611,7 @@ void Day::report_deadlock() {
         w.train = t;
         if (!outside) w.chainage = chainage(motion_.head_position(t));
         if (s.phase == Phase::standing && s.stop_call >= 0) w.station = run.calls[s.stop_call].station;
-        if (outside) w.since = run.appear_time + (entry_delay(delays_, t));
+        if (outside) w.since = run.appear_time + entry_delay(delays_, t);
         else if (s.phase == Phase::moving) w.since = s.t0;
         else w.since = s.stop_call >= 0 && !std::isnan(s.ready_time) ? s.ready_time : s.stand_since;
 
