@@ -21,7 +21,7 @@ namespace knockon {
 
 // Where two opposing trains cross, when the one asking for a single-track stretch (`asking`) is
 // planned to use it after an opposing train (`planned_first`) that has not yet been through.
-// Both are forecast to run with the delay they have now (Day::forecast_delay), over their planned
+// Both are forecast to run with the delay they have now (SectionAuthority::forecast_delay in sim/movement_authority), over their planned
 // blocking times of the stretch.  Keeping the planned order costs the asking train the time from
 // its own forecast blocking start until the other train's forecast release; going first costs the
 // other train the time from its forecast blocking start until the asking train's forecast

@@ -20,6 +20,10 @@
 // ahead.  A driver learns an aspect when the signal is in sight (its sighting distance; for
 // 2-aspect, the sighting point of its distant signal; cab signalling: always) and the
 // sight-and-reaction time after the route was set, whichever is later.
+//
+// The event loop (sim/simulation.cpp) hands each rule to its piece: the train's motion
+// (sim/train_motion), movement authority (sim/movement_authority), route requests
+// (sim/route_requests), links (sim/day_links) and the day's records (sim/day_records).
 #include <cstdint>
 #include <string>
 #include <vector>
