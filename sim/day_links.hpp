@@ -18,7 +18,7 @@ namespace knockon::day {
 class DayLinks {
 public:
     DayLinks(const SimModel& model, std::vector<TrainState>& states, DayEvents& events, DayRecords& records)
-        : model_(model), st_(states), events_(events), records_(records) {}
+        : model_(model), st_(states.data()), events_(events), records_(records) {}
 
     // Until when the links into timing point k keep train t there (minus infinity: none;
     // infinity: an earlier train it must wait for has not arrived).  A connection is waited for
@@ -82,7 +82,7 @@ public:
 
 private:
     const SimModel& model_;
-    std::vector<TrainState>& st_;
+    TrainState* const st_;   // the engine's train states, one per train for the whole day
     DayEvents& events_;
     DayRecords& records_;
 };

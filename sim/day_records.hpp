@@ -41,9 +41,14 @@ public:
     }
     SectionRecord& section(long record) { return out_.sections[record]; }
 
-    // A route asked for: its record's index.
-    long open_route(RouteRecord r) {
-        out_.routes.push_back(std::move(r));
+    // Train t asks for `route` at `now`: its record's index.
+    long open_route(std::uint32_t t, const SimModel::Route& route, double now) {
+        RouteRecord& r = out_.routes.emplace_back();
+        r.train = t;
+        r.entry_signal = route.entry_signal;
+        r.exit_signal = route.exit_signal;
+        r.requested = now;
+        r.granted = r.cleared = kNoTime;
         return static_cast<long>(out_.routes.size()) - 1;
     }
     RouteRecord& route(long record) { return out_.routes[record]; }

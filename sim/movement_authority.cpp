@@ -10,7 +10,7 @@ SectionAuthority::SectionAuthority(const SimModel& model, RouteOrder order, std:
     : model_(model),
       times_(model.interlocking()),
       order_(order),
-      st_(states),
+      st_(states.data()),
       events_(events),
       records_(records),
       interlocking_(model.section_names().size(), order, model.planned_order()),
@@ -84,7 +84,7 @@ bool SectionAuthority::waits_on(std::uint32_t a, std::uint32_t b, std::vector<st
         for (std::size_t i = 0; i < globals.size(); ++i) {
             const std::uint32_t c = blocker_of(a, globals[i], path[i]);
             if (c == b) return true;
-            if (c < st_.size() && waits_on(c, b, seen)) return true;
+            if (c < model_.trains().size() && waits_on(c, b, seen)) return true;
         }
     }
     return false;
@@ -142,7 +142,7 @@ bool SectionAuthority::may_take(std::uint32_t t, const std::vector<std::uint32_t
         // then the promise can never be kept (the other train is behind it, or held up by it),
         // and the order is given up for this section rather than locking both for good.
         if (b == kDisruption || interlocking_.holder(g) == b) return false;
-        std::vector<std::uint8_t> seen(st_.size(), 0);
+        std::vector<std::uint8_t> seen(model_.trains().size(), 0);
         if (!waits_on(b, t, seen)) return false;
     }
     return !dispatch || dispatch_.leaves_a_way(interlocking_, t, sections, outside_);

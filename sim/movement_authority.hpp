@@ -186,7 +186,7 @@ private:
     const SimModel& model_;
     const InterlockingTimes& times_;
     const RouteOrder order_;
-    std::vector<TrainState>& st_;
+    TrainState* const st_;   // the engine's train states, one per train for the whole day
     DayEvents& events_;
     DayRecords& records_;
     Interlocking interlocking_;

@@ -23,7 +23,7 @@ public:
         : model_(model),
           delays_(delays),
           times_(model.interlocking()),
-          st_(states),
+          st_(states.data()),
           events_(events),
           motion_(motion),
           links_(links) {}
@@ -53,7 +53,7 @@ private:
     const SimModel& model_;
     const InjectedDelays& delays_;
     const InterlockingTimes& times_;
-    std::vector<TrainState>& st_;
+    TrainState* const st_;   // the engine's train states, one per train for the whole day
     DayEvents& events_;
     const TrainMotion& motion_;
     const DayLinks& links_;

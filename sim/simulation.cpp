@@ -60,7 +60,7 @@ private:
     const SimOptions& options_;
     const InterlockingTimes& times_;
     DayEvents events_;
-    std::vector<TrainState> st_;
+    std::vector<TrainState> st_;   // sized once, before the pieces that keep a pointer to it
     DayRecords records_;
     DayLinks links_;
     TrainMotion motion_;
@@ -130,13 +130,13 @@ Day::Day(const SimModel& model, const InjectedDelays& delays, const SimOptions& 
       options_(options),
       times_(model.interlocking()),
       events_(model.trains().size()),
+      st_(model.trains().size()),
       records_(model, delays),
       links_(model, st_, events_, records_),
       motion_(model, delays, options.run, options.sample_interval, st_, events_, records_),
       requests_(model, delays, st_, events_, motion_, links_),
       authority_(model, options.route_order, st_, events_, records_) {
     const auto& trains = model.trains();
-    st_.resize(trains.size());
     std::vector<TrainBuffers>& spare = spare_buffers();
     for (TrainState& s : st_) {
         if (spare.empty()) break;
@@ -566,13 +566,7 @@ void Day::handle(const Event& e) {
         case kRequest: {
             if (e.payload != s.next_request || s.request_pending || !requests_.due(t, e.payload, e.time)) break;
             const SimModel::Route& r = train(t).routes[e.payload];
-            RouteRecord rec;
-            rec.train = t;
-            rec.entry_signal = r.entry_signal;
-            rec.exit_signal = r.exit_signal;
-            rec.requested = now();
-            rec.granted = rec.cleared = kNoTime;
-            s.route_record[e.payload] = records_.open_route(std::move(rec));
+            s.route_record[e.payload] = records_.open_route(t, r, now());
             s.request_pending = true;
             authority_.ask_for_route(t, e.payload);
             grant_pending();

@@ -10,7 +10,7 @@ TrainMotion::TrainMotion(const SimModel& model, const InjectedDelays& delays, co
     : model_(model),
       run_options_(run),
       sample_interval_(sample_interval),
-      st_(states),
+      st_(states.data()),
       events_(events),
       records_(records) {
     for (std::uint32_t t = 0; t < model.trains().size(); ++t) {

@@ -99,7 +99,7 @@ private:
     const SimModel& model_;
     const RunOptions& run_options_;
     const double sample_interval_;
-    std::vector<TrainState>& st_;
+    TrainState* const st_;   // the engine's train states, one per train for the whole day
     DayEvents& events_;
     DayRecords& records_;
     std::vector<std::vector<SlowStretch>> slow_;     // [train]
