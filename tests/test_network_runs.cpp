@@ -1,4 +1,4 @@
-// A network file as the services plan and simulate run (models/network/runs, tools/io
+// A network file as the services plan and simulate run (models/network/runs, tools/read
 // network_scenario): repeat patterns expanded, a reversing run split into one service per heading
 // joined by a turnaround link, links between runs read and located, line sections along the
 // corridors.  The example is tests/data/network/loop_line.yaml (R1 from Ashcombe to Tarnwick and
@@ -12,7 +12,7 @@
 #include "cli_support.hpp"
 #include "models/plan.hpp"
 #include "models/service_paths.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 

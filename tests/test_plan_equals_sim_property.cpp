@@ -18,8 +18,8 @@
 #include "network_layout_generator.hpp"
 #include "sim/simulation.hpp"
 #include "sim_test_support.hpp"
-#include "tools/io/network_reader.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/network_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 namespace knockon {
 namespace {
