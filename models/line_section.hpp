@@ -12,7 +12,7 @@ namespace knockon {
 struct LineSection {
     std::string from_station, to_station;
     Direction direction = Direction::up;
-    std::string corridor;   // the network corridor it lies on; empty on a line
+    std::string corridor;   // the first network corridor it lies on (corridors may share it); empty on a line
     std::string name() const { return from_station + "-" + to_station; }
 };
 

@@ -1,6 +1,6 @@
 #pragma once
 // A whole scenario as the models see it: infrastructure, rolling stock, timetable and the
-// study settings.  Built by the scenario reader at the edge (tools/io), never from YAML here.
+// study settings.  Built by the scenario reader at the edge (tools/read), never from YAML here.
 #include <map>
 #include <optional>
 #include <string>

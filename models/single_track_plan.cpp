@@ -4,6 +4,8 @@
 #include <optional>
 #include <set>
 
+#include "models/blocking_time.hpp"
+
 namespace knockon {
 namespace {
 
@@ -48,6 +50,14 @@ const CrossingTrack* track_at(const ServiceRun& run, const CrossingPlace& place)
 std::string track_name_at(const ServiceRun& run, const CrossingPlace& place) {
     const CrossingTrack* t = track_at(run, place);
     return t ? t->track : std::string();
+}
+
+// Whether `later` is the set of `earlier` turned back (models/blocking_time, turns_back): one set
+// running in and out again, which meets no other train, so no crossing of two trains.
+bool turned_back(const std::vector<TrainPlan>& trains, std::size_t earlier, std::size_t later) {
+    for (const LinkPlan& l : trains[later].incoming)
+        if (l.from == earlier && turns_back(l, trains[later].run)) return true;
+    return false;
 }
 
 Crossing make_crossing(const SingleTrackLayout& layout, const std::vector<TrainPlan>& trains, const Half& h) {
@@ -101,7 +111,7 @@ std::vector<Crossing> find_crossings(const SingleTrackLayout& layout, const std:
         const SingleTrackStretch& st = layout.stretches[s];
         const std::vector<StretchRun> runs = stretch_runs(layout, s, trains);
         for (std::size_t k = 1; k < runs.size(); ++k)
-            if (runs[k - 1].direction != runs[k].direction)
+            if (runs[k - 1].direction != runs[k].direction && !turned_back(trains, runs[k - 1].train, runs[k].train))
                 halves.push_back({s, st.exit_place(runs[k - 1].direction), runs[k - 1], runs[k]});
     }
     // A crossing proper: each train arrives over the stretch the other leaves by.  The train that

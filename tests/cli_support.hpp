@@ -79,7 +79,7 @@ inline Result knockon(const std::string& args, const TempDir& dir, int timeout_s
 }
 
 // The temporary file of output `out` written by process `pid` ("<out>.partial-<pid>-<random>",
-// tools/io/output_file.hpp), or an empty path while there is none.
+// tools/results/output_file.hpp), or an empty path while there is none.
 inline fs::path temporary_of(const fs::path& out, pid_t pid) {
     const std::string prefix = out.filename().string() + ".partial-" + std::to_string(pid) + "-";
     std::error_code ec;

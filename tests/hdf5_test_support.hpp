@@ -1,8 +1,8 @@
 #pragma once
 // Shared by the tests of the HDF5 writers (test_sim_hdf5.cpp, test_study_hdf5.cpp, test_sim_cli.cpp): read-only
 // access to a results file through the plain HDF5 C API, not through the writer's own wrappers
-// (tools/io/hdf5_file) nor the program's reader (tools/io/hdf5_read), so that the layout of
-// tools/io/HDF5_LAYOUT.md is checked from outside the code that writes it.
+// (tools/results/hdf5_file) nor the program's reader (tools/results/hdf5_read), so that the layout of
+// tools/results/HDF5_LAYOUT.md is checked from outside the code that writes it.
 #include <catch2/catch.hpp>
 
 #include <hdf5.h>

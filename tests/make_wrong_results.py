@@ -4,7 +4,7 @@ results reader (tests/test_results_hardening.cpp).
 
     make_wrong_results.py GOOD_DIR OUT_DIR [KIND ...]
 
-GOOD_DIR holds day.h5, study.h5 and comparison.h5 as knockon wrote them (tools/io/HDF5_LAYOUT.md);
+GOOD_DIR holds day.h5, study.h5 and comparison.h5 as knockon wrote them (tools/results/HDF5_LAYOUT.md);
 KIND (day, study, comparison; all three by default) says which of them to derive files from.
 OUT_DIR receives one file per defect and manifest.tsv, one line per file:
 
@@ -24,7 +24,7 @@ import sys
 import h5py
 import numpy as np
 
-# ---- what the layout says (tools/io/HDF5_LAYOUT.md) ---------------------------------------------
+# ---- what the layout says (tools/results/HDF5_LAYOUT.md) ---------------------------------------------
 
 # Fields the reader uses, per table (by the table's last path component).  A table or field not
 # listed may be changed or dropped without making the file unreadable.

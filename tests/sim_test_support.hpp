@@ -13,7 +13,7 @@
 
 #include "models/plan.hpp"
 #include "sim/simulation.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "scenario_text_support.hpp"
 
 namespace knockon::simtest {

@@ -1,5 +1,5 @@
 // "Where knock-on comes from" in the outputs: the day's and the study's terminal table, JSON and
-// HDF5 results (README "Where knock-on comes from", tools/io/HDF5_LAYOUT.md: our own layout).  In
+// HDF5 results (README "Where knock-on comes from", tools/results/HDF5_LAYOUT.md: our own layout).  In
 // each, the knock-on attributed adds up to the knock-on the same output measures.
 #include <catch2/catch.hpp>
 
@@ -8,8 +8,8 @@
 #include <nlohmann/json.hpp>
 
 #include "cli_support.hpp"
-#include "tools/io/hdf5_read.hpp"
-#include "tools/io/results_file.hpp"
+#include "tools/results/hdf5_read.hpp"
+#include "tools/results/results_file.hpp"
 
 namespace {
 

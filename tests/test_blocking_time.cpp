@@ -13,7 +13,7 @@
 #include <vector>
 
 #include "models/plan.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 

@@ -20,7 +20,7 @@
 #include "sim/delay_draws.hpp"
 #include "sim/simulation.hpp"
 #include "sim/study.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "cli_support.hpp"
 
 using namespace knockon;

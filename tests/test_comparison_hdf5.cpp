@@ -1,6 +1,6 @@
 // Comparison files: `knockon compare SCENARIO --out FILE.h5` is run on the study fixture with a
-// variant, and the file is read back (tools/io/hdf5_read.hpp for the layout of
-// tools/io/HDF5_LAYOUT.md, tools/io/results_file.hpp as the report reads it) to check the kind,
+// variant, and the file is read back (tools/results/hdf5_read.hpp for the layout of
+// tools/results/HDF5_LAYOUT.md, tools/results/results_file.hpp as the report reads it) to check the kind,
 // the per-variant study groups, agreement with `compare --json`, the paired differences against
 // their definition, byte-identical files whatever --threads, and that bad input leaves no file.
 #include <catch2/catch.hpp>
@@ -14,8 +14,8 @@
 #include <nlohmann/json.hpp>
 
 #include "results_test_support.hpp"
-#include "tools/io/hdf5_read.hpp"
-#include "tools/io/results_file.hpp"
+#include "tools/results/hdf5_read.hpp"
+#include "tools/results/results_file.hpp"
 
 using namespace knockon;
 using namespace resultstest;
@@ -53,7 +53,7 @@ TEST_CASE("compare --out writes a comparison file that agrees with compare --jso
     const nlohmann::json j = nlohmann::json::parse(r.out);
     CHECK(stray_files(dir, {"cmp.h5"}).empty());
 
-    // Layout (tools/io/HDF5_LAYOUT.md, our own spec).
+    // Layout (tools/results/HDF5_LAYOUT.md, our own spec).
     const h5::InputFile f(out.string());
     CHECK(f.text_attribute("/", "kind") == "comparison");
     CHECK(f.number_attribute("/", "schema_version") == 9);

@@ -3,7 +3,7 @@
 #include <catch2/catch.hpp>
 
 #include "cli_support.hpp"
-#include "tools/io/hdf5_read.hpp"
+#include "tools/results/hdf5_read.hpp"
 
 using namespace clitest;
 

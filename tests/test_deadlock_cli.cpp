@@ -13,7 +13,7 @@
 
 #include "hdf5_test_support.hpp"
 #include "results_test_support.hpp"
-#include "tools/io/results_file.hpp"
+#include "tools/results/results_file.hpp"
 
 using namespace resultstest;
 using Catch::Matchers::Contains;
@@ -170,7 +170,7 @@ TEST_CASE("A deadlocked single day shows what it did and who waits, never a punc
 }
 
 TEST_CASE("A day file keeps a link wait of a deadlocked day", "[cli][deadlock][links]") {
-    // tools/io/HDF5_LAYOUT.md /day/deadlock, fields link and link_from (schema 9): written by
+    // tools/results/HDF5_LAYOUT.md /day/deadlock, fields link and link_from (schema 9): written by
     // simulate, read back by read_results, the same as the JSON says.
     TempDir dir;
     const fs::path h5 = dir.path / "day.h5";

@@ -21,7 +21,7 @@
 #include "models/plan.hpp"
 #include "sim/delay_draws.hpp"
 #include "sim/random_stream.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 using Catch::Matchers::Contains;

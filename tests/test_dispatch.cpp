@@ -16,7 +16,7 @@
 #include "sim/simulation.hpp"
 #include "sim/study.hpp"
 #include "sim_test_support.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 

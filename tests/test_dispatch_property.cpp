@@ -15,7 +15,7 @@
 #include "sim/delay_draws.hpp"
 #include "sim/simulation.hpp"
 #include "single_line_generator.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 

@@ -14,7 +14,7 @@
 
 #include "models/capacity.hpp"
 #include "models/plan.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 

@@ -11,7 +11,7 @@
 #include "input_checks_support.hpp"
 #include "models/plan.hpp"
 #include "models/train_type_checks.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 using namespace inputcheck;

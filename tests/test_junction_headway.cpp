@@ -15,7 +15,7 @@
 
 #include "models/headway.hpp"
 #include "models/network/train_path.hpp"
-#include "tools/io/network_reader.hpp"
+#include "tools/read/network_reader.hpp"
 
 using namespace knockon;
 

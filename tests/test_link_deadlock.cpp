@@ -8,7 +8,7 @@
 
 #include "sim/deadlock_text.hpp"
 #include "sim_test_support.hpp"
-#include "tools/io/deadlock_output.hpp"
+#include "tools/results/deadlock_output.hpp"
 
 using namespace knockon;
 using namespace knockon::simtest;

@@ -17,7 +17,7 @@
 #include "models/network/routes.hpp"
 #include "models/line_paths.hpp"
 #include "models/path.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 

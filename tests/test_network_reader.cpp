@@ -8,7 +8,7 @@
 
 #include "cli_support.hpp"
 #include "models/network/routes.hpp"
-#include "tools/io/network_reader.hpp"
+#include "tools/read/network_reader.hpp"
 
 using namespace knockon;
 

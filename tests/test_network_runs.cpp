@@ -1,4 +1,4 @@
-// A network file as the services plan and simulate run (models/network/runs, tools/io
+// A network file as the services plan and simulate run (models/network/runs, tools/read
 // network_scenario): repeat patterns expanded, a reversing run split into one service per heading
 // joined by a turnaround link, links between runs read and located, line sections along the
 // corridors.  The example is tests/data/network/loop_line.yaml (R1 from Ashcombe to Tarnwick and
@@ -12,7 +12,7 @@
 #include "cli_support.hpp"
 #include "models/plan.hpp"
 #include "models/service_paths.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 
@@ -145,4 +145,34 @@ TEST_CASE("network runs: line sections run along the corridors, both ways") {
         CHECK(h.buffer > 0.0);
     }
     CHECK(pairs == 29);   // 30 runs of UP, from 06:01 to 20:31 (until 21:00)
+}
+
+TEST_CASE("network runs: corridors that share a stretch share its line section, listed once") {
+    // Main and branch trains run together from AAV to FRK, so both corridors (AAV-GLN and AAV-HLT)
+    // hold AAV-FRK and FRK-AAV; the stretch is one line section with all their trains, and its
+    // headways and UIC 406 figures appear once.
+    const Scenario sc = read_scenario(std::string(KNOCKON_SOURCE_DIR) + "/tests/data/network/shared_corridors.yaml");
+    const auto paths = service_paths(sc);
+    std::vector<std::string> names;
+    for (const LineSection& ls : paths->line_sections()) names.push_back(ls.name());
+    CHECK(names == std::vector<std::string>{"AAV-FRK", "FRK-GLN", "GLN-FRK", "FRK-AAV", "FRK-HLT", "HLT-FRK"});
+    const PlanResult plan = make_plan(sc);
+    std::size_t shared_up = 0;
+    for (std::size_t i = 0; i < plan.headways.size(); ++i) {
+        const HeadwayPair& h = plan.headways[i];
+        for (std::size_t j = 0; j < i; ++j)
+            CHECK_FALSE((plan.headways[j].line_section == h.line_section && plan.headways[j].leader == h.leader &&
+                         plan.headways[j].follower == h.follower));
+        if (h.line_section == "AAV-FRK") ++shared_up;
+    }
+    // 9 main and 9 branch trains up between 06:00 and 09:00 (every 20 min each), all consecutive
+    // pairs of the one line section.
+    CHECK(shared_up == 17);
+    std::size_t day_figures = 0;
+    for (const CapacityFigure& f : plan.capacity)
+        if (f.line_section == "AAV-FRK" && f.window == "day") {
+            ++day_figures;
+            CHECK(f.trains == 18);
+        }
+    CHECK(day_figures == 1);
 }

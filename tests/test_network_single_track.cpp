@@ -7,7 +7,7 @@
 #include <vector>
 
 #include "models/network/single_track.hpp"
-#include "tools/io/network_reader.hpp"
+#include "tools/read/network_reader.hpp"
 
 using namespace knockon;
 

@@ -1,4 +1,4 @@
-// A network file's train types, timetable, corridors and delays (tools/io/network_reader,
+// A network file's train types, timetable, corridors and delays (tools/read/network_reader,
 // models/network/timetable): read as written, every service's path laid, and each mistake located
 // at file:line:col of the call, via, track or field that breaks it.  The example is
 // tests/data/network/loop_line.yaml (drawn at its top); each broken case changes one line of it.
@@ -10,7 +10,7 @@
 
 #include "cli_support.hpp"
 #include "models/network/timetable.hpp"
-#include "tools/io/network_reader.hpp"
+#include "tools/read/network_reader.hpp"
 
 using namespace knockon;
 

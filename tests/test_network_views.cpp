@@ -11,10 +11,10 @@
 
 #include "models/corridor_axis.hpp"
 #include "models/plan.hpp"
-#include "tools/io/diagram_axis.hpp"
-#include "tools/io/plan_charts.hpp"
-#include "tools/io/plan_output.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/report/diagram_axis.hpp"
+#include "tools/report/plan_charts.hpp"
+#include "tools/results/plan_output.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "page_test_support.hpp"
 
 using namespace knockon;

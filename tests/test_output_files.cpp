@@ -1,4 +1,4 @@
-// Output files never harm another file and never stay half-written (tools/io/output_file.hpp):
+// Output files never harm another file and never stay half-written (tools/results/output_file.hpp):
 // temporary names created exclusively and never through a link, targets that are not regular
 // files or that are an input refused (exit status 2), and the temporary file removed on SIGTERM,
 // SIGHUP and a second Ctrl-C.  Expected behaviour is our own rule (README, "Output files"), from
@@ -16,8 +16,8 @@
 #include <vector>
 
 #include "cli_support.hpp"
-#include "tools/io/hdf5_file.hpp"
-#include "tools/io/output_file.hpp"
+#include "tools/results/hdf5_file.hpp"
+#include "tools/results/output_file.hpp"
 
 using namespace clitest;
 

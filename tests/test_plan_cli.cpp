@@ -43,7 +43,7 @@ std::vector<std::vector<std::string>> read_csv(const fs::path& p) {
     return rows;
 }
 
-// Columns each table must carry (tools/io/plan_output.cpp; what planners' scripts read).
+// Columns each table must carry (tools/results/plan_output.cpp; what planners' scripts read).
 const std::map<std::string, std::vector<std::string>> kTables = {
     {"trains", {"train", "type", "category", "direction", "from", "to", "departure", "arrival", "length_m",
                 "technical_s", "scheduled_s", "timetabled_s"}},

@@ -10,6 +10,7 @@
 #include <cmath>
 #include <cstdio>
 #include <cstdlib>
+#include <functional>
 #include <fstream>
 #include <sstream>
 
@@ -18,8 +19,8 @@
 #include "network_layout_generator.hpp"
 #include "sim/simulation.hpp"
 #include "sim_test_support.hpp"
-#include "tools/io/network_reader.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/network_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 namespace knockon {
 namespace {
@@ -85,58 +86,34 @@ std::string turnback_mismatch(const Scenario& scenario, const PlanResult& plan) 
     return why.str();
 }
 
-TEST_CASE("An undisturbed day equals the plan on random valid layouts", "[property][simulation]") {
-    // KNOCKON_PROPERTY_SEED=<n> reruns one case; KNOCKON_PROPERTY_CASES sets how many.
-    std::uint64_t first = 1, cases = 240;
-    if (const char* s = std::getenv("KNOCKON_PROPERTY_SEED")) first = std::strtoull(s, nullptr, 10), cases = 1;
-    if (const char* n = std::getenv("KNOCKON_PROPERTY_CASES")) cases = std::strtoull(n, nullptr, 10);
-    std::size_t checked = 0, set_aside = 0;
-    for (std::uint64_t seed = first; seed < first + cases; ++seed) {
-        const layoutgen::Layout layout = layoutgen::random_layout(seed);
-        INFO("seed " << seed << " (rerun: KNOCKON_PROPERTY_SEED=" << seed << "): " << layout.summary << "\n"
-                     << layout.yaml);
-        Scenario scenario;
-        REQUIRE_NOTHROW(scenario = parse_scenario(layout.yaml, "random-" + std::to_string(seed) + ".yaml"));
-        PlanResult plan;
-        try {
-            plan = make_plan(scenario);
-        } catch (const std::exception& e) {
-            FAIL("plan failed: " << e.what());
-        }
-        // A layout that breaks the spacing rule, or a timetable with a conflict, is not one the
-        // property speaks of.
-        if (!plan.spacing_warnings.empty() || !plan.conflicts.empty()) {
-            ++set_aside;
-            continue;
-        }
-        ++checked;
-        const std::string mismatch = undisturbed_day_mismatch(scenario, plan);
-        // (KNOCKON_PROPERTY_BRIEF=1: one line per failing case on stderr, to survey many at once)
-        if (!mismatch.empty() && std::getenv("KNOCKON_PROPERTY_BRIEF"))
-            std::fprintf(stderr, "seed %llu | %s | %s\n", static_cast<unsigned long long>(seed),
-                         layout.summary.substr(0, layout.summary.find(',', layout.summary.find(',') + 1)).c_str(),
-                         mismatch.substr(0, mismatch.find('\n')).c_str());
-        // (KNOCKON_PROPERTY_DUMP=DIR: each failing case's scenario written there, to run the CLI on)
-        if (const char* dir = std::getenv("KNOCKON_PROPERTY_DUMP"); dir && !mismatch.empty())
-            std::ofstream(std::string(dir) + "/random-" + std::to_string(seed) + ".yaml") << layout.yaml;
-        CHECK(mismatch == "");
-    }
-    INFO(checked << " layouts checked, " << set_aside << " set aside");
-    CHECK(checked >= (cases == 1 ? 0 : 200));
-}
+// One kind of generated scenario: how a seed becomes a scenario, the extra check it needs, and
+// how many cases a run takes by default and must check at least.
+struct Generated {
+    std::string name;   // "random" or "network": the name of a scenario dumped for a failing seed
+    std::function<layoutgen::Layout(std::uint64_t)> make;
+    std::function<Scenario(const layoutgen::Layout&, const std::string& file)> parse;
+    std::function<std::string(const Scenario&, const PlanResult&)> extra_check;
+    std::uint64_t cases = 0, least_checked = 0;
+};
 
-TEST_CASE("An undisturbed day equals the plan on random networks with a junction and a turnback", "[property][simulation][network]") {
-    // KNOCKON_PROPERTY_SEED=<n> reruns one case; KNOCKON_PROPERTY_CASES sets how many.
-    std::uint64_t first = 1, cases = 60;
+// Plans and runs each generated case; a case whose plan has a spacing warning or a conflict is set
+// aside (the property speaks of conflict-free timetables only).
+//   KNOCKON_PROPERTY_SEED=<n>   reruns one case; KNOCKON_PROPERTY_CASES sets how many
+//   KNOCKON_PROPERTY_BRIEF=1    one line per failing or set-aside case on stderr, to survey many
+//   KNOCKON_PROPERTY_DUMP=DIR   each failing case's scenario written there, to run the CLI on
+void check_generated(const Generated& g) {
+    std::uint64_t first = 1, cases = g.cases;
     if (const char* s = std::getenv("KNOCKON_PROPERTY_SEED")) first = std::strtoull(s, nullptr, 10), cases = 1;
     if (const char* n = std::getenv("KNOCKON_PROPERTY_CASES")) cases = std::strtoull(n, nullptr, 10);
+    const bool brief = std::getenv("KNOCKON_PROPERTY_BRIEF") != nullptr;
     std::size_t checked = 0, set_aside = 0;
     for (std::uint64_t seed = first; seed < first + cases; ++seed) {
-        const layoutgen::Layout layout = netgen::random_network(seed);
+        const layoutgen::Layout layout = g.make(seed);
         INFO("seed " << seed << " (rerun: KNOCKON_PROPERTY_SEED=" << seed << "): " << layout.summary << "\n"
                      << layout.yaml);
+        const std::string file = g.name + "-" + std::to_string(seed) + ".yaml";
         Scenario scenario;
-        REQUIRE_NOTHROW(scenario = network_scenario(parse_network(layout.yaml, "network-" + std::to_string(seed) + ".yaml")));
+        REQUIRE_NOTHROW(scenario = g.parse(layout, file));
         PlanResult plan;
         try {
             plan = make_plan(scenario);
@@ -144,23 +121,39 @@ TEST_CASE("An undisturbed day equals the plan on random networks with a junction
             FAIL("plan failed: " << e.what());
         }
         if (!plan.spacing_warnings.empty() || !plan.conflicts.empty()) {
-            if (std::getenv("KNOCKON_PROPERTY_BRIEF"))
+            if (brief)
                 std::fprintf(stderr, "seed %llu set aside: %zu spacing warnings, %zu conflicts\n",
                              static_cast<unsigned long long>(seed), plan.spacing_warnings.size(), plan.conflicts.size());
             ++set_aside;
             continue;
         }
         ++checked;
-        const std::string mismatch = undisturbed_day_mismatch(scenario, plan) + turnback_mismatch(scenario, plan);
-        if (!mismatch.empty() && std::getenv("KNOCKON_PROPERTY_BRIEF"))
-            std::fprintf(stderr, "seed %llu | %s | %s\n", static_cast<unsigned long long>(seed), layout.summary.c_str(),
+        std::string mismatch = undisturbed_day_mismatch(scenario, plan);
+        if (g.extra_check) mismatch += g.extra_check(scenario, plan);
+        if (!mismatch.empty() && brief)
+            std::fprintf(stderr, "seed %llu | %s | %s\n", static_cast<unsigned long long>(seed),
+                         layout.summary.substr(0, layout.summary.find(',', layout.summary.find(',') + 1)).c_str(),
                          mismatch.substr(0, mismatch.find('\n')).c_str());
         if (const char* dir = std::getenv("KNOCKON_PROPERTY_DUMP"); dir && !mismatch.empty())
-            std::ofstream(std::string(dir) + "/network-" + std::to_string(seed) + ".yaml") << layout.yaml;
+            std::ofstream(std::string(dir) + "/" + file) << layout.yaml;
         CHECK(mismatch == "");
     }
-    INFO(checked << " networks checked, " << set_aside << " set aside");
-    CHECK(checked >= (cases == 1 ? 0 : cases / 2));
+    INFO(checked << " " << g.name << " cases checked, " << set_aside << " set aside");
+    CHECK(checked >= (cases == 1 ? 0 : std::min(g.least_checked, cases)));
+}
+
+TEST_CASE("An undisturbed day equals the plan on random valid layouts", "[property][simulation]") {
+    check_generated({"random", layoutgen::random_layout,
+                     [](const layoutgen::Layout& l, const std::string& file) { return parse_scenario(l.yaml, file); },
+                     nullptr, 240, 200});
+}
+
+TEST_CASE("An undisturbed day equals the plan on random networks with a junction and a turnback", "[property][simulation][network]") {
+    check_generated({"network", netgen::random_network,
+                     [](const layoutgen::Layout& l, const std::string& file) {
+                         return network_scenario(parse_network(l.yaml, file));
+                     },
+                     turnback_mismatch, 60, 30});
 }
 
 }  // namespace

@@ -1,4 +1,4 @@
-// A day's figures as bytes between the processes of one study (tools/io/replication_bytes), and a
+// A day's figures as bytes between the processes of one study (tools/results/replication_bytes), and a
 // study folded from blocks run apart (the way the ranks of an MPI run share a study): the days
 // come back to the bit, and the folded study equals one run's to the bit.
 #include <catch2/catch.hpp>
@@ -10,7 +10,7 @@
 #include "sim/delay_draws.hpp"
 #include "sim/shards.hpp"
 #include "sim/study.hpp"
-#include "tools/io/replication_bytes.hpp"
+#include "tools/results/replication_bytes.hpp"
 #include "sim_test_support.hpp"
 
 using namespace knockon;

@@ -16,10 +16,10 @@
 #include <vector>
 
 #include "models/plan.hpp"
-#include "tools/io/html_report.hpp"
-#include "tools/io/plan_charts.hpp"
-#include "tools/io/plan_output.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/report/html_report.hpp"
+#include "tools/report/plan_charts.hpp"
+#include "tools/results/plan_output.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "results_test_support.hpp"
 
 namespace fs = std::filesystem;

@@ -23,12 +23,12 @@
 
 #include "models/plan.hpp"
 #include "models/units.hpp"
-#include "tools/io/as_run.hpp"
-#include "tools/io/chart_kit.hpp"
-#include "tools/io/hdf5_read.hpp"
-#include "tools/io/plan_charts.hpp"
-#include "tools/io/results_file.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/report/as_run.hpp"
+#include "tools/report/chart_kit.hpp"
+#include "tools/results/hdf5_read.hpp"
+#include "tools/report/plan_charts.hpp"
+#include "tools/results/results_file.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "results_test_support.hpp"
 
 using namespace resultstest;

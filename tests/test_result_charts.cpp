@@ -15,11 +15,11 @@
 #include "results_test_support.hpp"
 #include "sim/simulation.hpp"
 #include "sim_test_support.hpp"
-#include "tools/io/as_run.hpp"
-#include "tools/io/plan_charts.hpp"
-#include "tools/io/result_charts.hpp"
-#include "tools/io/results_figures.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/report/as_run.hpp"
+#include "tools/report/plan_charts.hpp"
+#include "tools/report/result_charts.hpp"
+#include "tools/report/results_figures.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 using resultstest::count_class;

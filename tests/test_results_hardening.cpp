@@ -1,7 +1,7 @@
-// Results files read defensively (tools/io/results_file.cpp, hdf5_read.cpp): a file that is not a
+// Results files read defensively (tools/results/results_file.cpp, hdf5_read.cpp): a file that is not a
 // knockon results file of a known schema is refused with exit status 2, naming the file and the
 // first thing wrong; no input crashes the report, makes it allocate for records the file does not
-// hold, or puts NaN or infinity into it.  The layout is ours (tools/io/HDF5_LAYOUT.md); the
+// hold, or puts NaN or infinity into it.  The layout is ours (tools/results/HDF5_LAYOUT.md); the
 // wrong-layout files come from tests/make_wrong_results.py (h5py), which changes one thing each.
 #include <catch2/catch.hpp>
 
@@ -10,8 +10,8 @@
 #include <vector>
 
 #include "cli_support.hpp"
-#include "tools/io/results_file.hpp"
-#include "tools/io/sim_hdf5.hpp"
+#include "tools/results/results_file.hpp"
+#include "tools/results/sim_hdf5.hpp"
 
 using namespace clitest;
 

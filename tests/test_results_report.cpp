@@ -12,9 +12,9 @@
 #include <vector>
 
 #include "results_test_support.hpp"
-#include "tools/io/hdf5_file.hpp"
-#include "tools/io/hdf5_read.hpp"
-#include "tools/io/plan_output.hpp"
+#include "tools/results/hdf5_file.hpp"
+#include "tools/results/hdf5_read.hpp"
+#include "tools/results/plan_output.hpp"
 
 using namespace resultstest;
 using Catch::Matchers::Contains;

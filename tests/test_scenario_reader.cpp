@@ -8,7 +8,7 @@
 #include <vector>
 
 #include "models/units.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 using Catch::Matchers::Contains;

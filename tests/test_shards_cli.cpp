@@ -6,8 +6,8 @@
 
 #include "cli_support.hpp"
 #include "sim/shards.hpp"
-#include "tools/io/hdf5_read.hpp"
-#include "tools/io/scenario_hash.hpp"
+#include "tools/results/hdf5_read.hpp"
+#include "tools/read/scenario_hash.hpp"
 
 using namespace clitest;
 

@@ -1,5 +1,5 @@
 // End-to-end runs of `knockon simulate`: the HDF5 results file read back with the plain HDF5 C API
-// (tools/io/HDF5_LAYOUT.md), a failed write, the deadlock exit status, and refused --delay options.
+// (tools/results/HDF5_LAYOUT.md), a failed write, the deadlock exit status, and refused --delay options.
 #include <catch2/catch.hpp>
 
 #include <sys/wait.h>
@@ -15,7 +15,7 @@
 
 #include "models/plan.hpp"
 #include "sim/simulation.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "cli_support.hpp"
 #include "hdf5_test_support.hpp"
 
@@ -34,7 +34,7 @@ Result run_knockon(const std::string& args, const TempDir& dir) { return clitest
 }  // namespace
 
 TEST_CASE("simulate --out writes /day/timing, /day/occupancy and /day/routes with every record", "[sim][cli][hdf5]") {
-    // tools/io/HDF5_LAYOUT.md: one record per train and timing point, per train and section used,
+    // tools/results/HDF5_LAYOUT.md: one record per train and timing point, per train and section used,
     // per route asked for.  Counts from the same day simulated in this process.
     TempDir dir;
     const fs::path h5 = dir.path / "day.h5";

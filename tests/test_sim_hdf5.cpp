@@ -1,5 +1,5 @@
 // HDF5 results writer: a hand-made SimResult is written, then read back with the plain HDF5 C API
-// (not through the writer's own wrappers) to check the layout of tools/io/HDF5_LAYOUT.md, exact
+// (not through the writer's own wrappers) to check the layout of tools/results/HDF5_LAYOUT.md, exact
 // round trips (strings, NaN, a uint64 seed above 2^63), byte-identical repeated writes, and that a
 // failed write leaves nothing behind.
 #include <catch2/catch.hpp>
@@ -19,11 +19,11 @@
 
 #include "cli_support.hpp"
 #include "hdf5_test_support.hpp"
-#include "tools/io/hdf5_file.hpp"
-#include "tools/io/output_file.hpp"
-#include "tools/io/plan_output.hpp"
-#include "tools/io/results_file.hpp"
-#include "tools/io/sim_hdf5.hpp"
+#include "tools/results/hdf5_file.hpp"
+#include "tools/results/output_file.hpp"
+#include "tools/results/plan_output.hpp"
+#include "tools/results/results_file.hpp"
+#include "tools/results/sim_hdf5.hpp"
 
 using namespace knockon;
 using Catch::Matchers::Contains;
@@ -129,7 +129,7 @@ TEST_CASE("HDF5 results: every dataset exists with its record count", "[sim_hdf5
     write_sim_hdf5(out.string(), r, small_info());
 
     Reader f(out);
-    // Layout of tools/io/HDF5_LAYOUT.md (our own spec): one record per SimResult record.
+    // Layout of tools/results/HDF5_LAYOUT.md (our own spec): one record per SimResult record.
     CHECK(f.count("/day/trains") == 3);
     CHECK(f.count("/day/sections") == 4);
     CHECK(f.count("/day/timing") == 4);
@@ -245,7 +245,7 @@ TEST_CASE("HDF5 results: root and /day attributes", "[sim_hdf5]") {
     write_sim_hdf5(out.string(), small_result(), small_info());
     Reader f(out);
 
-    // Layout of tools/io/HDF5_LAYOUT.md (our own spec).
+    // Layout of tools/results/HDF5_LAYOUT.md (our own spec).
     CHECK(f.attr_class("/", "schema_version") == H5T_INTEGER);
     CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == 9);
     CHECK(f.text_attr("/", "kind") == "day");
@@ -280,7 +280,7 @@ TEST_CASE("HDF5 results: root and /day attributes", "[sim_hdf5]") {
 }
 
 TEST_CASE("HDF5 results: the deadlock report reads back as written", "[sim_hdf5][deadlock]") {
-    // tools/io/HDF5_LAYOUT.md /day/deadlock and /day/deadlock_blocks, read by read_results.
+    // tools/results/HDF5_LAYOUT.md /day/deadlock and /day/deadlock_blocks, read by read_results.
     TempDir dir("deadlock");
     const fs::path out = dir.path / "run.h5";
     const SimResult r = small_result();

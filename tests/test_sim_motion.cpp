@@ -19,7 +19,7 @@
 
 #include "models/plan.hpp"
 #include "sim/simulation.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 

@@ -15,7 +15,7 @@
 #include "cli_support.hpp"
 #include "models/plan.hpp"
 #include "models/single_track_plan.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 using namespace knockon;
 namespace fs = std::filesystem;

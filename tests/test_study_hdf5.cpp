@@ -1,6 +1,6 @@
 // Study HDF5 files: `knockon simulate SCENARIO --replications N --out study.h5 [--traces ...]` is run
 // on a small fixture with drawn primary delays, and the file is read back with the plain HDF5 C API
-// (not the writer's wrappers) to check the layout of tools/io/HDF5_LAYOUT.md, agreement with the
+// (not the writer's wrappers) to check the layout of tools/results/HDF5_LAYOUT.md, agreement with the
 // --json output of the same run, which days are traced, byte-identical files whatever --threads,
 // and that a failed or interrupted run leaves a whole file or none.
 #include <catch2/catch.hpp>
@@ -27,7 +27,7 @@
 
 #include "cli_support.hpp"
 #include "hdf5_test_support.hpp"
-#include "tools/io/study_hdf5.hpp"
+#include "tools/results/study_hdf5.hpp"
 
 using namespace knockon;
 using Catch::Matchers::Contains;
@@ -97,7 +97,7 @@ TEST_CASE("study HDF5: per-day records and statistics agree with the JSON output
     const nlohmann::json j = nlohmann::json::parse(fx.out());
     Reader f(out);
 
-    // Layout of tools/io/HDF5_LAYOUT.md (our own spec).
+    // Layout of tools/results/HDF5_LAYOUT.md (our own spec).
     CHECK(f.text_attr("/", "kind") == "study");
     CHECK(f.number_attr<int>("/", "schema_version", H5T_NATIVE_INT) == kSimHdf5SchemaVersion);
     CHECK(f.number_attr<std::uint64_t>("/", "seed", H5T_NATIVE_UINT64) == 1);  // the default seed

@@ -7,7 +7,7 @@
 
 #include "models/service_run.hpp"
 #include "models/supplement.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "scenario_text_support.hpp"
 
 using namespace knockon;

@@ -5,8 +5,8 @@
 #include <string>
 #include <vector>
 
-#include "tools/io/html_report.hpp"
-#include "tools/io/svg.hpp"
+#include "tools/report/html_report.hpp"
+#include "tools/report/svg.hpp"
 
 using namespace knockon;
 

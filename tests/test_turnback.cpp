@@ -10,7 +10,7 @@
 
 #include "models/plan.hpp"
 #include "sim_test_support.hpp"
-#include "tools/io/network_reader.hpp"
+#include "tools/read/network_reader.hpp"
 
 namespace knockon {
 namespace {

@@ -13,8 +13,8 @@
 
 #include "models/plan.hpp"
 #include "sim/comparison.hpp"
-#include "tools/io/scenario_reader.hpp"
-#include "tools/io/yaml_merge.hpp"
+#include "tools/read/scenario_reader.hpp"
+#include "tools/read/yaml_merge.hpp"
 
 using namespace knockon;
 using Catch::Matchers::Contains;

@@ -6,7 +6,7 @@
 
 #include "models/plan.hpp"
 #include "sim_test_support.hpp"
-#include "tools/io/plan_output.hpp"
+#include "tools/results/plan_output.hpp"
 
 using namespace knockon;
 using knockon::simtest::plain_line;

@@ -1,5 +1,5 @@
 #!/usr/bin/env python3
-"""Read a knockon HDF5 results file (layout: tools/io/HDF5_LAYOUT.md): one simulated day
+"""Read a knockon HDF5 results file (layout: tools/results/HDF5_LAYOUT.md): one simulated day
 (root attribute kind = "day"), a Monte Carlo study (kind = "study") or a comparison of variants
 (kind = "comparison").
 

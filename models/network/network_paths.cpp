@@ -1,6 +1,8 @@
 #include "models/network/network_paths.hpp"
 
 #include <algorithm>
+#include <set>
+#include <utility>
 
 #include "models/network/paths.hpp"
 #include "models/network/single_track.hpp"
@@ -43,11 +45,19 @@ double NetworkPaths::longest_overlap() const {
 }
 
 std::vector<LineSection> NetworkPaths::line_sections() const {
+    // A line section is its two stations in order (a train belongs to it when it passes both), so
+    // corridors that share a stretch, e.g. a main line and a branch up to their junction, share
+    // its line section: it is listed once, under the first corridor, and its headways and UIC 406
+    // figures are not counted twice.
     std::vector<LineSection> out;
+    std::set<std::pair<std::string, std::string>> listed;
+    auto add = [&](const std::string& from, const std::string& to, Direction d, const std::string& corridor) {
+        if (listed.emplace(from, to).second) out.push_back({from, to, d, corridor});
+    };
     for (const net::Corridor& c : net_.corridors) {
         const auto& st = c.stations;
-        for (std::size_t i = 0; i + 1 < st.size(); ++i) out.push_back({st[i], st[i + 1], Direction::up, c.name});
-        for (std::size_t i = st.size(); i-- > 1;) out.push_back({st[i], st[i - 1], Direction::down, c.name});
+        for (std::size_t i = 0; i + 1 < st.size(); ++i) add(st[i], st[i + 1], Direction::up, c.name);
+        for (std::size_t i = st.size(); i-- > 1;) add(st[i], st[i - 1], Direction::down, c.name);
     }
     return out;
 }

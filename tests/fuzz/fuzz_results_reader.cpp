@@ -1,4 +1,4 @@
-// libFuzzer target of the results reader (tools/io/results_file, hdf5_read): the input is a list
+// libFuzzer target of the results reader (tools/results/results_file, hdf5_read): the input is a list
 // of edits applied to a results file knockon wrote, then read as `knockon report` reads it.
 // Editing through the HDF5 library, rather than flipping bytes of the file, keeps the library's
 // own checksummed structures intact, so the fuzzer spends its time on what the reader must judge:
@@ -26,8 +26,8 @@
 #include <string>
 #include <vector>
 
-#include "tools/io/hdf5_file.hpp"
-#include "tools/io/results_file.hpp"
+#include "tools/results/hdf5_file.hpp"
+#include "tools/results/results_file.hpp"
 
 namespace {
 

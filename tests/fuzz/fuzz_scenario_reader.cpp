@@ -1,4 +1,4 @@
-// libFuzzer target of the scenario readers (tools/io/scenario_reader, tools/io/network_reader): the
+// libFuzzer target of the scenario readers (tools/read/scenario_reader, tools/read/network_reader): the
 // input is a scenario file, read as `knockon validate` reads it, the base and its first variants,
 // and as a network file where it says knockon: 2.  A ScenarioError is the
 // expected answer to bad input; a crash, a sanitizer report, a hang, a huge allocation or any other
@@ -13,8 +13,8 @@
 #include <fstream>
 #include <string>
 
-#include "tools/io/network_reader.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/network_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 namespace {
 

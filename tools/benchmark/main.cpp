@@ -28,7 +28,7 @@
 #include "models/plan.hpp"
 #include "sim/delay_draws.hpp"
 #include "sim/study.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 namespace {
 

@@ -34,8 +34,8 @@ from page_check import Expect, check_page
 ROOT = pathlib.Path(__file__).resolve().parents[2]
 SKIPPED = 77
 
-# What each kind of report must show, by the classes and ids tools/io/html_report.cpp,
-# tools/io/plan_charts.cpp, tools/io/results_report.cpp and tools/io/result_charts.cpp write.
+# What each kind of report must show, by the classes and ids tools/report/html_report.cpp,
+# tools/report/plan_charts.cpp, tools/report/results_report.cpp and tools/report/result_charts.cpp write.
 # Every report carries the safety caution at the top and at the foot, and is no blank page.
 EVERY_REPORT = dict(
     texts=[

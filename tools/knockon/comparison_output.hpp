@@ -1,7 +1,7 @@
 #pragma once
 // What `knockon compare` prints, and `knockon merge` of a comparison's shards: the readable tables
 // or one JSON document.  Days that ended in deadlock are stated first and enter no figure
-// (tools/io/deadlock_output).
+// (tools/results/deadlock_output).
 #include <memory>
 #include <string>
 #include <vector>
@@ -13,9 +13,9 @@
 #include "models/scenario.hpp"
 #include "sim/comparison.hpp"
 #include "sim/study.hpp"
-#include "tools/io/comparison_hdf5.hpp"
-#include "tools/io/deadlock_output.hpp"
-#include "tools/io/plan_output.hpp"
+#include "tools/results/comparison_hdf5.hpp"
+#include "tools/results/deadlock_output.hpp"
+#include "tools/results/plan_output.hpp"
 
 namespace knockon::cli {
 

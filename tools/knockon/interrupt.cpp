@@ -5,7 +5,7 @@
 
 #include <cerrno>
 
-#include "tools/io/output_file.hpp"
+#include "tools/results/output_file.hpp"
 
 namespace knockon::cli {
 namespace {

@@ -1,7 +1,7 @@
 #pragma once
 // Signals that end or interrupt a command, handled in this one place.
 // - SIGTERM, SIGHUP, and SIGINT (Ctrl-C) outside a study: stop at once.  Every temporary output
-//   file still being written is removed (tools/io/output_file), then the program ends by the same
+//   file still being written is removed (tools/results/output_file), then the program ends by the same
 //   signal (a shell reports 128 + its number, e.g. 143 for SIGTERM), so nothing half-written stays.
 // - SIGINT during a study (while an InterruptGuard lives), the first time: the running study is
 //   asked to stop after its current batch; the days finished are kept and reported as partial,

@@ -9,8 +9,8 @@
 #include <string>
 #include <vector>
 
-#include "tools/io/output_file.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/results/output_file.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "tools/knockon/commands.hpp"
 #include "tools/knockon/interrupt.hpp"
 #include "tools/knockon/ranks.hpp"

@@ -4,10 +4,10 @@
 
 #include "models/plan.hpp"
 #include "sim/study.hpp"
-#include "tools/io/comparison_hdf5.hpp"
-#include "tools/io/hdf5_file.hpp"
-#include "tools/io/results_file.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/results/comparison_hdf5.hpp"
+#include "tools/results/hdf5_file.hpp"
+#include "tools/results/results_file.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "tools/knockon/comparison_output.hpp"
 
 namespace knockon::cli {

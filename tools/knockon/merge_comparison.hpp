@@ -4,7 +4,7 @@
 #include <string>
 #include <vector>
 
-#include "tools/io/shard_hdf5.hpp"
+#include "tools/results/shard_hdf5.hpp"
 #include "tools/knockon/options.hpp"
 
 namespace knockon::cli {

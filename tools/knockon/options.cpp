@@ -8,8 +8,8 @@
 
 #include "models/service_paths.hpp"
 #include "models/single_track.hpp"
-#include "tools/io/plan_output.hpp"
-#include "tools/io/study_hdf5.hpp"
+#include "tools/results/plan_output.hpp"
+#include "tools/results/study_hdf5.hpp"
 #include "tools/knockon/ranks.hpp"
 
 namespace knockon::cli {

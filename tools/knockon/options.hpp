@@ -10,7 +10,7 @@
 #include "models/plan.hpp"
 #include "sim/interlocking.hpp"
 #include "sim/shards.hpp"
-#include "tools/io/shard_hdf5.hpp"
+#include "tools/results/shard_hdf5.hpp"
 #include "tools/knockon/commands.hpp"
 
 namespace knockon::cli {

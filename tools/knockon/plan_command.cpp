@@ -2,9 +2,9 @@
 #include <filesystem>
 
 #include "models/plan.hpp"
-#include "tools/io/output_file.hpp"
-#include "tools/io/plan_output.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/results/output_file.hpp"
+#include "tools/results/plan_output.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "tools/knockon/options.hpp"
 
 namespace knockon::cli {

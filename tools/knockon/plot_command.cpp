@@ -4,12 +4,12 @@
 #include <cstdio>
 
 #include "models/plan.hpp"
-#include "tools/io/chart_kit.hpp"
-#include "tools/io/output_file.hpp"
-#include "tools/io/plan_charts.hpp"
-#include "tools/io/plan_output.hpp"
-#include "tools/io/results_figures.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/report/chart_kit.hpp"
+#include "tools/results/output_file.hpp"
+#include "tools/report/plan_charts.hpp"
+#include "tools/results/plan_output.hpp"
+#include "tools/report/results_figures.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "tools/knockon/options.hpp"
 #include "tools/knockon/results_input.hpp"
 

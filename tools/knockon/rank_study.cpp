@@ -4,7 +4,7 @@
 #include <vector>
 
 #include "sim/shards.hpp"
-#include "tools/io/replication_bytes.hpp"
+#include "tools/results/replication_bytes.hpp"
 #include "tools/knockon/options.hpp"
 #include "tools/knockon/ranks.hpp"
 

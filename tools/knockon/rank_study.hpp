@@ -3,7 +3,7 @@
 //
 // Rank r runs block r + 1 of P of the replications (shard_range, the blocks of simulate --shard),
 // with its own threads.  The other ranks hand their days (ReplicationFigures, every value to the
-// bit: tools/io/replication_bytes) to rank 0, which folds them after its own block, rank by rank,
+// bit: tools/results/replication_bytes) to rank 0, which folds them after its own block, rank by rank,
 // so in replication order, with fold_day, as one process and `knockon merge` do: the study equals
 // a one-process run's to the bit, whatever the number of ranks and threads.
 //

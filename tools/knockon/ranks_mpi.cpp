@@ -12,7 +12,7 @@
 #include <cstring>
 #include <stdexcept>
 
-#include "tools/io/output_file.hpp"
+#include "tools/results/output_file.hpp"
 #include "tools/knockon/interrupt.hpp"
 #include "tools/knockon/ranks.hpp"
 

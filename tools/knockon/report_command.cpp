@@ -2,15 +2,15 @@
 // (verdict, time-distance diagram, capacity consumption per line section and hour by hour,
 // thinnest buffers and links, conflicts, running times, headway matrix, spacing warnings).  Of a results file
 // (simulate --out, compare --out): the plan of the scenario it came from with the simulated day
-// drawn over it, and the results' sections (tools/io/results_report.hpp).
+// drawn over it, and the results' sections (tools/report/results_report.hpp).
 #include <cstdio>
 
 #include "models/plan.hpp"
 #include "models/units.hpp"
-#include "tools/io/html_report.hpp"
-#include "tools/io/results_report.hpp"
-#include "tools/io/output_file.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/report/html_report.hpp"
+#include "tools/report/results_report.hpp"
+#include "tools/results/output_file.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "tools/knockon/options.hpp"
 #include "tools/knockon/results_input.hpp"
 

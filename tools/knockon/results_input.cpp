@@ -5,8 +5,8 @@
 #include <stdexcept>
 
 #include "models/units.hpp"
-#include "tools/io/hdf5_read.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/results/hdf5_read.hpp"
+#include "tools/read/scenario_reader.hpp"
 
 namespace knockon::cli {
 

@@ -9,9 +9,9 @@
 
 #include "models/plan.hpp"
 #include "models/scenario.hpp"
-#include "tools/io/as_run.hpp"
-#include "tools/io/results_figures.hpp"
-#include "tools/io/results_file.hpp"
+#include "tools/report/as_run.hpp"
+#include "tools/report/results_figures.hpp"
+#include "tools/results/results_file.hpp"
 #include "tools/knockon/options.hpp"
 
 namespace knockon::cli {

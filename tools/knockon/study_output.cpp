@@ -4,9 +4,9 @@
 #include <cstdio>
 #include <sstream>
 
-#include "tools/io/attribution_output.hpp"
-#include "tools/io/deadlock_output.hpp"
-#include "tools/io/plan_output.hpp"
+#include "tools/results/attribution_output.hpp"
+#include "tools/results/deadlock_output.hpp"
+#include "tools/results/plan_output.hpp"
 
 namespace knockon::cli {
 namespace {

@@ -1,6 +1,6 @@
 #pragma once
 // What `knockon simulate --replications N` prints: a readable study summary or one JSON document.
-// Days that ended in deadlock are stated first and enter no figure (tools/io/deadlock_output).
+// Days that ended in deadlock are stated first and enter no figure (tools/results/deadlock_output).
 #include <string>
 
 #include <nlohmann/json.hpp>

@@ -3,9 +3,9 @@
 #include <set>
 
 #include "models/plan.hpp"
-#include "tools/io/network_reader.hpp"
-#include "tools/io/plan_output.hpp"
-#include "tools/io/scenario_reader.hpp"
+#include "tools/read/network_reader.hpp"
+#include "tools/results/plan_output.hpp"
+#include "tools/read/scenario_reader.hpp"
 #include "tools/knockon/options.hpp"
 
 namespace knockon::cli {
