@@ -4,8 +4,9 @@
 //
 // Why a header of its own: the day is run by the event loop (sim/simulation) with a train's
 // motion (sim/train_motion), its movement authority (sim/movement_authority), its route requests
-// (sim/route_requests) and the day's records (sim/day_records); each reads the same train
-// states and pushes events on the same clock, and none of them should own what all use.
+// (sim/route_requests), the links between trains (sim/day_links) and the day's records
+// (sim/day_records); each reads the same train states and pushes events on the same clock, and
+// none of them should own what all use.
 #include <algorithm>
 #include <cstdint>
 #include <limits>
