@@ -164,3 +164,20 @@ TEST_CASE("model checks: a call at an unknown station is refused in code and loc
                        "unknown station \"CRX\"; known: ALD, BEX"));
     }
 }
+
+TEST_CASE("model checks: a field the reader could not read is left out of the model's checks", "[modelchecks]") {
+    // U's end unread: no "must end beyond its start", and U's signals and calls are not judged
+    // against a track end that was never given.
+    const std::string text = changed(fixture("hand_check_line.yaml"), "{id: U, from: 0 km, to: 12 km",
+                                     "{id: U, from: 0 km, to: twelve");
+    const auto errors = read_errors(text);
+    INFO(joined(errors));
+    REQUIRE(errors.size() == 1);
+    CHECK(reported(errors, "t.yaml", where(text, "twelve"), "infrastructure.tracks[0].to", ""));
+    // The same track built in code with its end at its start is refused for it.
+    Scenario sc = hand_check_line();
+    sc.infrastructure.tracks[0].to = 0.0;
+    const auto planned = planning_errors(sc);
+    INFO(joined(planned));
+    CHECK(holds(planned, "hand.yaml: track U, to: a track must end beyond its start: to 0 km is not beyond from 0 km"));
+}
