@@ -289,6 +289,8 @@ private:
         return &sc_.infrastructure.tracks[*k];
     }
 
+    // Stations as written; on the line and one id each is checked with the rest of the
+    // infrastructure.
     void read_stations(const MapFields& m) {
         auto seq = m.sequence("stations", true);
         if (!seq) return;
@@ -416,6 +418,8 @@ private:
         areas_ok_ = covers;
     }
 
+    // Signals as written; where they may stand (on a track carrying their direction, 1 m from
+    // the next of their direction, one id each) is checked with the rest of the infrastructure.
     void read_signals(const MapFields& m) {
         auto seq = m.sequence("signals", true);
         if (!seq) return;
