@@ -258,6 +258,57 @@ std::optional<std::size_t> InfrastructureCheck::station_index(const std::string&
     return find_id(station_ids, station_at, id);
 }
 
+AreasCheck check_signalling_areas(const std::vector<SignallingArea>& areas, std::optional<double> length,
+                                  const UnreadFields& unread, bool complete) {
+    AreasCheck out;
+    auto add = [&](LineObject kind, std::size_t index, const char* field, std::string message) {
+        LineProblem p;
+        p.kind = kind;
+        p.index = index;
+        p.field = field;
+        p.message = std::move(message);
+        out.problems.push_back(std::move(p));
+    };
+    if (areas.empty()) {
+        add(LineObject::area_list, 0, "", "at least one area is needed, covering the line from 0 km to its end");
+        return out;
+    }
+    for (std::size_t i = 0; i < areas.size(); ++i) {
+        const SignallingArea& a = areas[i];
+        if (unread.any(LineObject::area, i)) complete = false;
+        const bool from_read = !unread.has(LineObject::area, i, "from");
+        const bool to_read = !unread.has(LineObject::area, i, "to");
+        if (from_read)
+            if (auto p = off_line(a.from, length)) add(LineObject::area, i, "from", *p);
+        if (to_read)
+            if (auto p = off_line(a.to, length)) add(LineObject::area, i, "to", *p);
+        if (from_read && to_read && a.from >= a.to)
+            add(LineObject::area, i, "to",
+                "an area must end beyond its start: to " + format_km(a.to) + " is not beyond from " +
+                    format_km(a.from));
+    }
+    // Coverage is only judged on a complete list, else one bad entry shows up as a gap too.
+    if (!complete || !out.problems.empty()) return out;
+    double covered = 0.0;
+    for (std::size_t i = 0; i < areas.size(); ++i) {
+        const SignallingArea& a = areas[i];
+        if (a.from > covered + kEps)
+            add(LineObject::area, i, "from",
+                "the areas leave " + format_km(covered) + " to " + format_km(a.from) +
+                    " uncovered; list them in chainage order without gaps");
+        else if (a.from < covered - kEps)
+            add(LineObject::area, i, "from",
+                "this area overlaps the one before it, which ends at " + format_km(covered) +
+                    "; list them in chainage order without overlaps");
+        covered = std::max(covered, a.to);
+    }
+    if (length && covered < *length - kEps)
+        add(LineObject::area_list, 0, "",
+            "the areas leave " + format_km(covered) + " to " + format_km(*length) + " (the line end) uncovered");
+    out.covers = out.problems.empty();
+    return out;
+}
+
 InfrastructureCheck check_infrastructure(const Infrastructure& infrastructure, const UnreadFields& unread,
                                          bool length_read) {
     return InfrastructureChecker(infrastructure, unread, length_read).run();

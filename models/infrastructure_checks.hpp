@@ -36,7 +36,19 @@ struct InfrastructureCheck {
     std::optional<std::size_t> station_index(const std::string& id) const;
 };
 
-// Every problem of the infrastructure; `unread` names fields the reader could not read, so that
+// The signalling areas: each on the line and ending beyond its start, and together covering the
+// line from 0 km to its end in chainage order without gaps or overlaps (judged only on a list
+// without other problems: `complete` false when a reader could not read every area).  `covers`
+// true when they do: only then can a signal's aspect system be looked up.
+struct AreasCheck {
+    std::vector<LineProblem> problems;
+    bool covers = false;
+};
+AreasCheck check_signalling_areas(const std::vector<SignallingArea>& areas, std::optional<double> length,
+                                  const UnreadFields& unread = {}, bool complete = true);
+
+// Every problem of the infrastructure but its signalling areas (check_signalling_areas, which a
+// reader needs first); `unread` names fields the reader could not read, so that
 // rules needing them are skipped (`length_read` false: the line's length, so nothing is checked
 // against the line end).
 InfrastructureCheck check_infrastructure(const Infrastructure& infrastructure, const UnreadFields& unread = {},

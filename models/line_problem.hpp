@@ -8,7 +8,8 @@
 
 namespace knockon {
 
-enum class LineObject { track, station, signal, joint, service };
+// `area_list`: the signalling areas as a whole (index 0).
+enum class LineObject { track, station, signal, joint, area, area_list, service };
 const char* to_string(LineObject kind);
 
 struct LineProblem {

@@ -18,6 +18,8 @@ std::string name_of(const Scenario& sc, const LineProblem& p) {
         case LineObject::station: return in.stations[p.index].id;
         case LineObject::signal: return in.signals[p.index].id;
         case LineObject::joint: return std::to_string(p.index);
+        case LineObject::area: return std::to_string(p.index);
+        case LineObject::area_list: return {};
         case LineObject::service: return sc.timetable.services[p.index].id;
     }
     return {};
@@ -28,8 +30,10 @@ std::string name_of(const Scenario& sc, const LineProblem& p) {
 void check_scenario(const Scenario& scenario) {
     if (scenario.network) return;
     const std::string file = scenario.source_file.empty() ? std::string("scenario") : scenario.source_file;
-    const InfrastructureCheck infra = check_infrastructure(scenario.infrastructure);
-    std::vector<LineProblem> problems = infra.problems;
+    const Infrastructure& in = scenario.infrastructure;
+    std::vector<LineProblem> problems = check_signalling_areas(in.areas, in.length).problems;
+    const InfrastructureCheck infra = check_infrastructure(in);
+    problems.insert(problems.end(), infra.problems.begin(), infra.problems.end());
     const auto& services = scenario.timetable.services;
     for (std::size_t k = 0; k < services.size(); ++k)
         for (LineProblem& p :

@@ -181,3 +181,29 @@ TEST_CASE("model checks: a field the reader could not read is left out of the mo
     INFO(joined(planned));
     CHECK(holds(planned, "hand.yaml: track U, to: a track must end beyond its start: to 0 km is not beyond from 0 km"));
 }
+
+TEST_CASE("model checks: signalling areas that leave the line uncovered are refused in code and located in a file",
+          "[modelchecks]") {
+    SECTION("built in code") {
+        Scenario sc = hand_check_line();
+        sc.infrastructure.areas[0].to = 6.0e3;
+        const auto errors = planning_errors(sc);
+        INFO(joined(errors));
+        REQUIRE(errors.size() == 1);
+        CHECK(errors[0] == "hand.yaml: signalling areas: the areas leave 6 km to 12 km (the line end) uncovered");
+        CHECK_FALSE(check_signalling_areas(sc.infrastructure.areas, sc.infrastructure.length).covers);
+        sc.infrastructure.areas.clear();
+        CHECK(holds(planning_errors(sc), "hand.yaml: signalling areas: at least one area is needed"));
+    }
+    SECTION("read from a file") {
+        const std::string text = changed(fixture("hand_check_line.yaml"), "      - {from: 0 km, to: 12 km, system: three_aspect}",
+                                         "      - {from: 0 km, to: 7 km, system: three_aspect}\n"
+                                         "      - {from: 6 km, to: 12 km, system: three_aspect}");
+        const auto errors = read_errors(text);
+        INFO(joined(errors));
+        REQUIRE(errors.size() == 1);
+        CHECK(reported(errors, "t.yaml", where(text, "6 km, to: 12 km"), "infrastructure.signalling.areas[1].from",
+                       "this area overlaps the one before it, which ends at 7 km; list them in chainage order "
+                       "without overlaps"));
+    }
+}

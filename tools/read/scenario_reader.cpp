@@ -352,70 +352,52 @@ private:
         return yamlio::ranged_cell(errors_, n, path, which);
     }
 
+    // Areas as written; that they lie on the line and cover it in order is the model's rule
+    // (check_signalling_areas), checked here already: a signal's aspect system is looked up in
+    // them as the signals are read.
     void read_areas(const MapFields& s) {
         auto seq = s.sequence("areas", true);
         if (!seq) return;
         const std::string path = s.path_of("areas");
-        if (seq->size() == 0) {
-            s.error("areas", "at least one area is needed, covering the line from 0 km to its end");
-            return;
-        }
-        std::vector<std::pair<SignallingArea, MapFields>> areas;
-        bool all_ok = true;
+        std::vector<SignallingArea> areas;
+        std::vector<MapFields> where;
+        UnreadFields unread;
+        bool complete = true;
         for (std::size_t i = 0; i < seq->size(); ++i) {
             MapFields a(errors_, std::as_const(*seq)[i], item(path, i), {"from", "to", "system"});
             if (!a.ok()) {
-                all_ok = false;
+                complete = false;
                 continue;
             }
             auto from = a.quantity("from", Quantity::length, true);
             auto to = a.quantity("to", Quantity::length, true);
             auto sys = a.choice("system",
                                 {"two_aspect", "three_aspect", "four_aspect", "cab_fixed_block"}, true);
-            bool ok = from && to && sys;
-            if (from && !on_line(a, "from", *from)) ok = false;
-            if (to && !on_line(a, "to", *to)) ok = false;
-            if (from && to && *from >= *to) {
-                a.error("to", "an area must end beyond its start: to " + km(*to) +
-                                  " is not beyond from " + km(*from));
-                ok = false;
-            }
-            if (!ok) {
-                all_ok = false;
-                continue;
-            }
+            const std::size_t k = areas.size();
+            if (!from) unread.add(LineObject::area, k, "from");
+            if (!to) unread.add(LineObject::area, k, "to");
+            if (!sys) unread.add(LineObject::area, k, "system");
             SignallingArea area;
-            area.from = *from;
-            area.to = *to;
-            area.system = *sys == "two_aspect"     ? AspectSystem::two_aspect
-                          : *sys == "three_aspect" ? AspectSystem::three_aspect
-                          : *sys == "four_aspect"  ? AspectSystem::four_aspect
-                                                   : AspectSystem::cab_fixed_block;
-            areas.emplace_back(area, a);
+            area.from = from.value_or(0.0);
+            area.to = to.value_or(0.0);
+            area.system = !sys || *sys == "three_aspect" ? AspectSystem::three_aspect
+                          : *sys == "two_aspect"         ? AspectSystem::two_aspect
+                          : *sys == "four_aspect"        ? AspectSystem::four_aspect
+                                                         : AspectSystem::cab_fixed_block;
+            areas.push_back(area);
+            where.push_back(a);
         }
-        // Coverage is only judged on a complete list, else one bad entry shows up as a gap too.
-        if (!all_ok) return;
-        double covered = 0.0;
-        bool covers = true;
-        for (const auto& [area, a] : areas) {
-            if (area.from > covered + kEps) {
-                a.error("from", "the areas leave " + km(covered) + " to " + km(area.from) +
-                                    " uncovered; list them in chainage order without gaps");
-                covers = false;
-            } else if (area.from < covered - kEps) {
-                a.error("from", "this area overlaps the one before it, which ends at " +
-                                    km(covered) + "; list them in chainage order without overlaps");
-                covers = false;
-            }
-            covered = std::max(covered, area.to);
+        // An empty list is the model's problem; entries none of which could be read are reported.
+        if (areas.empty() && seq->size() > 0) return;
+        const AreasCheck check = check_signalling_areas(areas, length_, unread, complete);
+        for (const LineProblem& p : check.problems) {
+            if (p.kind == LineObject::area_list)
+                s.error("areas", p.message);
+            else
+                locate(p, where[p.index]);
         }
-        if (length_ && covered < *length_ - kEps) {
-            s.error("areas", "the areas leave " + km(covered) + " to " + km(*length_) +
-                                 " (the line end) uncovered");
-            covers = false;
-        }
-        for (const auto& [area, a] : areas) sc_.infrastructure.areas.push_back(area);
-        areas_ok_ = covers;
+        sc_.infrastructure.areas = std::move(areas);
+        areas_ok_ = check.covers;
     }
 
     // Signals as written; where they may stand (on a track carrying their direction, 1 m from
