@@ -7,6 +7,7 @@
 #include <optional>
 #include <stdexcept>
 
+#include "models/scenario_checks.hpp"
 #include "models/scenario_error.hpp"
 #include "models/service_paths.hpp"
 
@@ -274,8 +275,11 @@ PlanSize plan_size(const Scenario& scenario, const ServicePaths* paths, const Ru
     return size;
 }
 
-// The scenario's paths, or the reason the layout cannot take them as an input problem.
+// The scenario's paths, or the reason the layout cannot take them as an input problem.  A line
+// scenario is checked as a model first (models/scenario_checks): the path builder trusts the
+// infrastructure it is given, and a scenario built in code has met no reader.
 std::unique_ptr<ServicePaths> paths_of(const Scenario& scenario) {
+    check_scenario(scenario);
     try {
         return service_paths(scenario);
     } catch (const PathError& e) {

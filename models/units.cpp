@@ -225,4 +225,15 @@ std::string format_time_of_day(double seconds) {
     return buf;
 }
 
+std::string format_km(double metres) {
+    char buf[64];
+    std::snprintf(buf, sizeof buf, "%.3f", metres / 1000.0);
+    std::string s = buf;
+    // "14.100" -> "14.1", "36.000" -> "36"
+    while (!s.empty() && s.back() == '0') s.pop_back();
+    if (!s.empty() && s.back() == '.') s.pop_back();
+    if (s == "-0") s = "0";
+    return s + " km";
+}
+
 }  // namespace knockon

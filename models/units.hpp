@@ -50,4 +50,8 @@ double parse_time_of_day(std::string_view text);
 // Seconds after midnight as "HH:MM:SS", rounded to the nearest second; hours go past 23.
 std::string format_time_of_day(double seconds);
 
+// A chainage or length in metres as input messages write it: km with at most three decimals and
+// no trailing zeros ("14.1 km", "36 km").
+std::string format_km(double metres);
+
 }  // namespace knockon

@@ -22,14 +22,15 @@
 
 #include <yaml-cpp/yaml.h>
 
-#include "models/call_times.hpp"
+#include "models/infrastructure_checks.hpp"
 #include "models/input_ranges.hpp"
+#include "models/line_timetable_checks.hpp"
 #include "models/line_paths.hpp"
 #include "models/repeat_runs.hpp"
 #include "models/links.hpp"
 #include "models/path.hpp"
-#include "models/single_track.hpp"
 #include "models/train_type_checks.hpp"
+#include "models/unread_fields.hpp"
 #include "models/units.hpp"
 #include "tools/read/call_fields.hpp"
 #include "tools/read/delay_fields.hpp"
@@ -51,21 +52,7 @@ using yamlio::MapFields;
 
 // Chainages written in km and in m are snapped to one grid by parse_quantity; this tolerance only
 // absorbs rounding in sums.
-constexpr double kEps = 1e-6;
-// Main signals of one direction on a track closer than this stand at one place [m].
-constexpr double kSignalSpacingMin = 1.0;
-
-// "known: a, b, c" (at most a dozen names) for unknown-reference messages.
-std::string known_list(const std::vector<std::string>& ids) {
-    if (ids.empty()) return "none are defined";
-    std::string out = "known: ";
-    for (std::size_t i = 0; i < ids.size() && i < 12; ++i) {
-        if (i > 0) out += ", ";
-        out += ids[i];
-    }
-    if (ids.size() > 12) out += ", ...";
-    return out;
-}
+constexpr double kEps = kChainageTolerance;
 
 // A service as read, with what is needed to point back into the file.
 struct ServiceSource {
@@ -170,16 +157,43 @@ private:
         if (m.require("signalling")) read_signalling(m.get("signalling"), m.path_of("signalling"));
         read_signals(m);
         read_joints(m);
+        // The model's checks (models/infrastructure_checks), located at the fields they name.
+        infra_check_ = check_infrastructure(inf, unread_, length_.has_value());
+        for (const LineProblem& p : infra_check_.problems) locate(p);
     }
 
-    // Checks a chainage lies on the line [0, length]; reports at `key` of `f`.
-    bool on_line(const MapFields& f, std::string_view key, double x) {
-        if (x < -kEps) {
-            f.error(key, km(x) + " lies before the line start (0 km)");
-            return false;
+    // The entry a problem of the infrastructure is about, as read.
+    const MapFields& source_of(LineObject kind, std::size_t index) const {
+        switch (kind) {
+            case LineObject::station: return station_src_[index];
+            case LineObject::signal: return signal_src_[index];
+            case LineObject::joint: return joint_src_[index];
+            default: return track_src_[index];
         }
-        if (length_ && x > *length_ + kEps) {
-            f.error(key, km(x) + " lies beyond the line end (" + km(*length_) + ")");
+    }
+
+    // A problem at the field it names of `src` (the entry as a whole when it names none), with
+    // where the object it clashes with stands.
+    void locate(const LineProblem& p, const MapFields& src) {
+        std::string message = p.message;
+        if (p.other != LineProblem::kNone) {
+            const MapFields& o = source_of(p.kind, p.other);
+            const std::string line =
+                std::to_string(line_of(p.other_field.empty() ? o.node() : o.get(p.other_field)));
+            message.insert(p.other_at, p.other_field == "id" ? " (first at line " + line + ")" : " (line " + line + ")");
+        }
+        if (p.field.empty())
+            errors_.add(src.node(), src.path(), message);
+        else
+            src.error(p.field, message);
+    }
+    void locate(const LineProblem& p) { locate(p, source_of(p.kind, p.index)); }
+
+    // Checks a chainage lies on the line [0, length] (models/infrastructure_checks); reports at
+    // `key` of `f`.
+    bool on_line(const MapFields& f, std::string_view key, double x) {
+        if (auto problem = off_line(x, length_)) {
+            f.error(key, *problem);
             return false;
         }
         return true;
@@ -224,6 +238,8 @@ private:
         return out;
     }
 
+    // Tracks as written; what they must be as a model (on the line, loops within a main track,
+    // one id each) is checked with the rest of the infrastructure.
     void read_tracks(const MapFields& m) {
         auto seq = m.sequence("tracks", true);
         if (!seq) return;
@@ -241,115 +257,40 @@ private:
             auto dirs = t.choice("directions", {"up", "down", "both"}, true);
             auto parent = t.text("parent", false);
             auto limit = ranged(t, "speed_limit", Input::speed_limit, false);
-            bool ok = id && from && to && dirs && (parent || !t.has("parent")) &&
-                      (limit || !t.has("speed_limit"));
-            if (from && !on_line(t, "from", *from)) ok = false;
-            if (to && !on_line(t, "to", *to)) ok = false;
-            if (from && to && *from >= *to) {
-                t.error("to", "a track must end beyond its start: to " + km(*to) +
-                                  " is not beyond from " + km(*from));
-                ok = false;
-            }
-            if (!id) continue;
-            if (auto it = track_index_.find(*id); it != track_index_.end()) {
-                t.error("id", "track id \"" + *id + "\" is used twice (first at line " +
-                                  std::to_string(line_of(track_src_[it->second].get("id"))) + ")");
-                continue;
-            }
+            const std::size_t k = tracks.size();
+            if (!id) unread_.add(LineObject::track, k, "id");
+            if (!from) unread_.add(LineObject::track, k, "from");
+            if (!to) unread_.add(LineObject::track, k, "to");
+            if (!dirs) unread_.add(LineObject::track, k, "directions");
+            if (!parent && t.has("parent")) unread_.add(LineObject::track, k, "parent");
+            if (!limit && t.has("speed_limit")) unread_.add(LineObject::track, k, "speed_limit");
             Track tr;
-            tr.id = *id;
+            tr.id = id.value_or("");
             tr.from = from.value_or(0.0);
             tr.to = to.value_or(0.0);
             tr.up = dirs && *dirs != "down";
             tr.down = dirs && *dirs != "up";
             if (parent) tr.parent = *parent;
             if (limit) tr.speed_limit = *limit;
-            track_index_[tr.id] = tracks.size();
-            track_ids_.push_back(tr.id);
             tracks.push_back(tr);
             track_src_.push_back(t);
-            track_ok_.push_back(ok);
-        }
-        check_loops();
-        check_main_tracks();
-    }
-
-    void check_loops() {
-        const auto& tracks = sc_.infrastructure.tracks;
-        for (std::size_t k = 0; k < tracks.size(); ++k) {
-            const Track& tr = tracks[k];
-            if (!tr.is_loop()) continue;
-            const MapFields& src = track_src_[k];
-            if (tr.parent == tr.id) {
-                src.error("parent", "a track cannot be its own parent");
-                continue;
-            }
-            auto it = track_index_.find(tr.parent);
-            if (it == track_index_.end()) {
-                src.error("parent", "unknown track \"" + tr.parent + "\"; " + known_list(track_ids_));
-                continue;
-            }
-            const Track& p = tracks[it->second];
-            if (p.is_loop()) {
-                src.error("parent", "track \"" + p.id +
-                                        "\" is itself a loop; a loop must leave a main track");
-                continue;
-            }
-            if (!track_ok_[k] || !track_ok_[it->second]) continue;
-            if (tr.from < p.from - kEps || tr.to > p.to + kEps) {
-                errors_.add(src.node(), src.path(),
-                            "loop " + tr.id + " (" + km(tr.from) + " to " + km(tr.to) +
-                                ") does not lie within its parent " + p.id + " (" + km(p.from) +
-                                " to " + km(p.to) + ")");
-            }
-            for (Direction d : {Direction::up, Direction::down}) {
-                if (tr.allows(d) && !p.allows(d)) {
-                    src.error("directions", "loop " + tr.id + " carries " + to_string(d) +
-                                                " trains but its parent " + p.id + " does not");
-                    break;
-                }
-            }
         }
     }
 
-    // Two main tracks carrying one direction over the same stretch would make the main line
-    // ambiguous; a second track there is a loop with a parent.
-    void check_main_tracks() {
-        const auto& tracks = sc_.infrastructure.tracks;
-        for (std::size_t b = 0; b < tracks.size(); ++b) {
-            if (tracks[b].is_loop() || !track_ok_[b]) continue;
-            for (std::size_t a = 0; a < b; ++a) {
-                if (tracks[a].is_loop() || !track_ok_[a]) continue;
-                const double lo = std::max(tracks[a].from, tracks[b].from);
-                const double hi = std::min(tracks[a].to, tracks[b].to);
-                if (hi - lo <= kEps) continue;
-                for (Direction d : {Direction::up, Direction::down}) {
-                    if (tracks[a].allows(d) && tracks[b].allows(d)) {
-                        errors_.add(track_src_[b].node(), track_src_[b].path(),
-                                    "main tracks " + tracks[a].id + " and " + tracks[b].id +
-                                        " both carry " + to_string(d) + " trains from " + km(lo) +
-                                        " to " + km(hi) +
-                                        "; main tracks of one direction may only meet end to end "
-                                        "(a second track alongside is a loop with a parent)");
-                        break;
-                    }
-                }
-            }
-        }
-    }
-
-    // The track `key` of `f` names: reports unknown ids; nullptr also when that track has errors
-    // of its own (no further checks against it then).
+    // The track `key` of `f` names: reports unknown ids; nullptr also when that track has
+    // problems of its own (no further checks against it then).
     const Track* track_ref(const MapFields& f, std::string_view key, const std::string& id) {
-        auto it = track_index_.find(id);
-        if (it == track_index_.end()) {
-            f.error(key, "unknown track \"" + id + "\"; " + known_list(track_ids_));
+        const auto k = infra_check_.track_index(id);
+        if (!k) {
+            f.error(key, unknown_name("track", id, infra_check_.track_ids));
             return nullptr;
         }
-        if (!track_ok_[it->second]) return nullptr;
-        return &sc_.infrastructure.tracks[it->second];
+        if (!infra_check_.track_usable[*k]) return nullptr;
+        return &sc_.infrastructure.tracks[*k];
     }
 
+    // Stations as written; on the line and one id each is checked with the rest of the
+    // infrastructure.
     void read_stations(const MapFields& m) {
         auto seq = m.sequence("stations", true);
         if (!seq) return;
@@ -362,22 +303,15 @@ private:
             auto id = s.text("id", true);
             auto name = s.text("name", false);
             auto at = s.quantity("at", Quantity::length, true);
-            bool ok = id && at && (name || !s.has("name"));
-            if (at && !on_line(s, "at", *at)) ok = false;
-            if (!id) continue;
-            if (auto it = station_index_.find(*id); it != station_index_.end()) {
-                s.error("id", "station id \"" + *id + "\" is used twice (first at line " +
-                                  std::to_string(it->second.second) + ")");
-                continue;
-            }
+            if (!id) unread_.add(LineObject::station, stations.size(), "id");
+            if (!at) unread_.add(LineObject::station, stations.size(), "at");
+            if (!name && s.has("name")) unread_.add(LineObject::station, stations.size(), "name");
             Station st;
-            st.id = *id;
-            st.name = name.value_or(*id);
+            st.id = id.value_or("");
+            st.name = name.value_or(st.id);
             st.at = at.value_or(0.0);
-            station_index_[st.id] = {ok ? static_cast<long>(stations.size()) : -1,
-                                     line_of(s.get("id"))};
-            station_ids_.push_back(st.id);
             stations.push_back(st);
+            station_src_.push_back(s);
         }
     }
 
@@ -418,124 +352,85 @@ private:
         return yamlio::ranged_cell(errors_, n, path, which);
     }
 
+    // Areas as written; that they lie on the line and cover it in order is the model's rule
+    // (check_signalling_areas), checked here already: a signal's aspect system is looked up in
+    // them as the signals are read.
     void read_areas(const MapFields& s) {
         auto seq = s.sequence("areas", true);
         if (!seq) return;
         const std::string path = s.path_of("areas");
-        if (seq->size() == 0) {
-            s.error("areas", "at least one area is needed, covering the line from 0 km to its end");
-            return;
-        }
-        std::vector<std::pair<SignallingArea, MapFields>> areas;
-        bool all_ok = true;
+        std::vector<SignallingArea> areas;
+        std::vector<MapFields> where;
+        UnreadFields unread;
+        bool complete = true;
         for (std::size_t i = 0; i < seq->size(); ++i) {
             MapFields a(errors_, std::as_const(*seq)[i], item(path, i), {"from", "to", "system"});
             if (!a.ok()) {
-                all_ok = false;
+                complete = false;
                 continue;
             }
             auto from = a.quantity("from", Quantity::length, true);
             auto to = a.quantity("to", Quantity::length, true);
             auto sys = a.choice("system",
                                 {"two_aspect", "three_aspect", "four_aspect", "cab_fixed_block"}, true);
-            bool ok = from && to && sys;
-            if (from && !on_line(a, "from", *from)) ok = false;
-            if (to && !on_line(a, "to", *to)) ok = false;
-            if (from && to && *from >= *to) {
-                a.error("to", "an area must end beyond its start: to " + km(*to) +
-                                  " is not beyond from " + km(*from));
-                ok = false;
-            }
-            if (!ok) {
-                all_ok = false;
-                continue;
-            }
+            const std::size_t k = areas.size();
+            if (!from) unread.add(LineObject::area, k, "from");
+            if (!to) unread.add(LineObject::area, k, "to");
+            if (!sys) unread.add(LineObject::area, k, "system");
             SignallingArea area;
-            area.from = *from;
-            area.to = *to;
-            area.system = *sys == "two_aspect"     ? AspectSystem::two_aspect
-                          : *sys == "three_aspect" ? AspectSystem::three_aspect
-                          : *sys == "four_aspect"  ? AspectSystem::four_aspect
-                                                   : AspectSystem::cab_fixed_block;
-            areas.emplace_back(area, a);
+            area.from = from.value_or(0.0);
+            area.to = to.value_or(0.0);
+            area.system = !sys || *sys == "three_aspect" ? AspectSystem::three_aspect
+                          : *sys == "two_aspect"         ? AspectSystem::two_aspect
+                          : *sys == "four_aspect"        ? AspectSystem::four_aspect
+                                                         : AspectSystem::cab_fixed_block;
+            areas.push_back(area);
+            where.push_back(a);
         }
-        // Coverage is only judged on a complete list, else one bad entry shows up as a gap too.
-        if (!all_ok) return;
-        double covered = 0.0;
-        bool covers = true;
-        for (const auto& [area, a] : areas) {
-            if (area.from > covered + kEps) {
-                a.error("from", "the areas leave " + km(covered) + " to " + km(area.from) +
-                                    " uncovered; list them in chainage order without gaps");
-                covers = false;
-            } else if (area.from < covered - kEps) {
-                a.error("from", "this area overlaps the one before it, which ends at " +
-                                    km(covered) + "; list them in chainage order without overlaps");
-                covers = false;
-            }
-            covered = std::max(covered, area.to);
+        // An empty list is the model's problem; entries none of which could be read are reported.
+        if (areas.empty() && seq->size() > 0) return;
+        const AreasCheck check = check_signalling_areas(areas, length_, unread, complete);
+        for (const LineProblem& p : check.problems) {
+            if (p.kind == LineObject::area_list)
+                s.error("areas", p.message);
+            else
+                locate(p, where[p.index]);
         }
-        if (length_ && covered < *length_ - kEps) {
-            s.error("areas", "the areas leave " + km(covered) + " to " + km(*length_) +
-                                 " (the line end) uncovered");
-            covers = false;
-        }
-        for (const auto& [area, a] : areas) sc_.infrastructure.areas.push_back(area);
-        areas_ok_ = covers;
+        sc_.infrastructure.areas = std::move(areas);
+        areas_ok_ = check.covers;
     }
 
+    // Signals as written; where they may stand (on a track carrying their direction, 1 m from
+    // the next of their direction, one id each) is checked with the rest of the infrastructure.
     void read_signals(const MapFields& m) {
         auto seq = m.sequence("signals", true);
         if (!seq) return;
         auto& inf = sc_.infrastructure;
         const std::string path = m.path_of("signals");
         if (seq->size() == 0) m.error("signals", "at least one main signal is needed");
-        std::map<std::string, int> seen;  // id -> line
-        // Signals read so far per (track, direction): chainage, id, line.
-        std::map<std::pair<std::string, Direction>, std::vector<std::tuple<double, std::string, int>>> placed;
         for (std::size_t i = 0; i < seq->size(); ++i) {
             MapFields f(errors_, std::as_const(*seq)[i], item(path, i),
                         {"id", "track", "at", "direction", "sighting_distance", "overlap",
                          "distant_distance"});
             if (!f.ok()) continue;
             Signal sig;
+            const std::size_t k = inf.signals.size();
             auto id = f.text("id", true);
             auto track = f.text("track", true);
             auto at = f.quantity("at", Quantity::length, true);
             auto dir = f.choice("direction", {"up", "down"}, true);
             if (id) {
                 sc_.sources.signals[*id] = yamlio::location(errors_.file(), f.node().Mark(), f.path());
-                auto [pos, fresh] = seen.emplace(*id, line_of(f.get("id")));
-                if (!fresh)
-                    f.error("id", "signal id \"" + *id + "\" is used twice (first at line " +
-                                      std::to_string(pos->second) + ")");
                 sig.id = *id;
+            } else {
+                unread_.add(LineObject::signal, k, "id");
             }
             if (dir) sig.direction = *dir == "up" ? Direction::up : Direction::down;
+            else unread_.add(LineObject::signal, k, "direction");
             if (at) sig.at = *at;
-            if (track) {
-                sig.track = *track;
-                const Track* tr = track_ref(f, "track", *track);
-                if (tr && at && (*at < tr->from - kEps || *at > tr->to + kEps))
-                    f.error("at", "signal at " + km(*at) + " lies off track " + tr->id +
-                                      ", which runs from " + km(tr->from) + " to " + km(tr->to));
-                if (tr && dir && !tr->allows(sig.direction))
-                    f.error("direction", "track " + tr->id + " does not carry " + *dir + " trains");
-                // Two main signals of one direction at one place on a track would bound a block
-                // of no length: the second could never be passed at danger or cleared apart.
-                if (tr && at && dir) {
-                    auto& here = placed[{*track, sig.direction}];
-                    for (const auto& [x, other, line] : here)
-                        if (std::abs(x - *at) < kSignalSpacingMin) {
-                            f.error("at", "signal " + sig.id + " stands at " + km(*at) + " on track " + *track +
-                                              " facing " + *dir + ", where signal " + other + " (line " +
-                                              std::to_string(line) + ") already stands; main signals of one "
-                                              "direction on a track must be at least 1 m apart");
-                            break;
-                        }
-                    here.emplace_back(*at, sig.id, line_of(f.node()));
-                }
-            }
+            else unread_.add(LineObject::signal, k, "at");
+            if (track) sig.track = *track;
+            else unread_.add(LineObject::signal, k, "track");
             sig.sighting_distance =
                 signal_value(f, "sighting_distance", default_sighting_, defaults_given_[0], true)
                     .value_or(0.0);
@@ -547,6 +442,7 @@ private:
             sig.distant_distance =
                 signal_value(f, "distant_distance", default_distant_, defaults_given_[2], needs_distant);
             inf.signals.push_back(sig);
+            signal_src_.push_back(f);
         }
     }
 
@@ -577,13 +473,8 @@ private:
             auto track = f.text("track", true);
             auto at = f.quantity("at", Quantity::length, true);
             if (!track || !at) continue;
-            const Track* tr = track_ref(f, "track", *track);
-            if (tr && (*at < tr->from - kEps || *at > tr->to + kEps)) {
-                f.error("at", "joint at " + km(*at) + " lies off track " + tr->id +
-                                  ", which runs from " + km(tr->from) + " to " + km(tr->to));
-                continue;
-            }
             sc_.infrastructure.extra_joints.emplace_back(*track, *at);
+            joint_src_.push_back(f);
         }
     }
 
@@ -646,8 +537,8 @@ private:
         const bool paths_laid = errors_.empty();
         yamlio::read_links(errors_, t, sc_.timetable.services,
                            [&](const std::string& id) -> std::optional<std::string> {
-                               if (station_index_.count(id)) return std::nullopt;
-                               return "unknown station \"" + id + "\"; " + known_list(station_ids_);
+                               if (infra_check_.station_index(id)) return std::nullopt;
+                               return unknown_name("station", id, infra_check_.station_ids);
                            },
                            paths_laid ? line_paths() : nullptr, sc_.timetable.links, sc_.sources.links);
     }
@@ -717,10 +608,7 @@ private:
             src.ok = calls_ok = false;
             return src;
         }
-        if (calls->size() == 0) {
-            f.error("calls", "at least one call is needed");
-            src.ok = calls_ok = false;
-        }
+        if (calls->size() == 0) src.ok = calls_ok = false;   // the model's checks say so
         for (std::size_t j = 0; j < calls->size(); ++j) {
             MapFields c(errors_, std::as_const(*calls)[j], item(f.path_of("calls"), j),
                         {"station", "arr", "dep", "pass", "track", "min_dwell"});
@@ -739,100 +627,18 @@ private:
         return src;
     }
 
-    // Cross-checks of one fully read service against the line and its own calls.
+    // The model's checks of one read service (models/line_timetable_checks), located at its
+    // calls and fields; `complete` false when a call or a field they need could not be read.
     void check_service(ServiceSource& src, bool complete) {
-        Service& svc = src.service;
-        const auto& stations = sc_.infrastructure.stations;
-        const bool up = svc.direction == Direction::up;
-        const char* dir = to_string(svc.direction);
-        const Station* prev = nullptr;
-        for (std::size_t j = 0; j < svc.calls.size(); ++j) {
-            const Call& call = svc.calls[j];
-            const MapFields& c = src.calls[j];
-            if (call.station.empty()) continue;  // reported already
-            auto it = station_index_.find(call.station);
-            if (it == station_index_.end()) {
-                c.error("station", "unknown station \"" + call.station + "\"; " + known_list(station_ids_));
-                src.ok = false;
-                continue;
-            }
-            if (it->second.first < 0) {  // the station has errors of its own
-                src.ok = false;
-                continue;
-            }
-            const Station& st = stations[static_cast<std::size_t>(it->second.first)];
-            if (prev && (up ? st.at <= prev->at : st.at >= prev->at)) {
-                c.error("station", std::string("calls must follow the running order of ") +
-                                       (up ? "an up" : "a down") +
-                                       " service (chainage " + (up ? "increasing" : "decreasing") +
-                                       "): " + st.id + " at " + km(st.at) + " comes after " +
-                                       prev->id + " at " + km(prev->at));
-                src.ok = false;
-            }
-            prev = &st;
-            if (!call.track.empty()) {
-                const Track* tr = track_ref(c, "track", call.track);
-                if (tr == nullptr) {
-                    src.ok = false;
-                } else if (st.at < tr->from - kEps || st.at > tr->to + kEps) {
-                    c.error("track", "track " + tr->id + " (" + km(tr->from) + " to " + km(tr->to) +
-                                         ") does not reach station " + st.id + " at " + km(st.at));
-                    src.ok = false;
-                } else if (!tr->allows(svc.direction)) {
-                    c.error("track", "track " + tr->id + " does not carry " + dir + " trains");
-                    src.ok = false;
-                } else if (const TrainType* type = sc_.find_train_type(svc.train_type);
-                           type && call.stops && tr->is_loop()) {
-                    // A train standing in a loop must clear both its turnouts: its tail, a train
-                    // length in rear of the stopping mark, must lie within the loop (the rule
-                    // planning also applies to a train standing on the main track at a crossing).
-                    const StandingFit fit = standing_fit(tr->from, tr->to, st.at, svc.direction, type->length);
-                    const double tail = fit.tail;
-                    if (!fit.fits) {
-                        c.error("track", "service " + svc.id + " (train type " + type->id + ", " +
-                                             km(type->length) + " long) stops at " + st.id + " in loop " +
-                                             tr->id + " (" + km(tr->from) + " to " + km(tr->to) +
-                                             "), but its tail would stand at " + km(tail) +
-                                             ", outside the loop: the train does not fit");
-                        src.ok = false;
-                    }
-                }
-            }
-        }
-        if (!complete) {
-            src.ok = false;
-            return;
-        }
-        // Given times must not run backwards along the calls (arr before dep within a call).
-        for (const CallTimeProblem& p : call_time_problems(svc.calls)) {
-            src.calls[p.call].error(p.key, p.message);
-            src.ok = false;
-        }
-        if (svc.calls.empty()) return;
-        const Call& first = svc.calls.front();
-        if (!svc.enters_at_edge && (!first.stops || !first.departure)) {
-            errors_.add(src.calls.front().node(), src.calls.front().path(),
-                        "the first call of a service that starts on the line must be a stop with "
-                        "dep given (a service coming from beyond the line end gives enter)");
-            src.ok = false;
-        }
-        if (svc.enters_at_edge && !first.departure) {
-            errors_.add(src.calls.front().node(), src.calls.front().path(),
-                        "a service that enters from beyond the line end must give a time at its "
-                        "first call (dep or pass)");
-            src.ok = false;
-        }
-        if (!svc.leaves_at_edge && !svc.calls.back().stops) {
-            errors_.add(src.calls.back().node(), src.calls.back().path(),
-                        "the last call of a service that ends on the line must be a stop (give "
-                        "leave: true if it runs on beyond the line end)");
-            src.ok = false;
-        }
-        if (svc.calls.size() == 1 && !svc.enters_at_edge && !svc.leaves_at_edge) {
-            src.fields.error("calls", "a service that neither enters nor leaves the line needs at "
-                                      "least two calls");
-            src.ok = false;
-        }
+        const Service& svc = src.service;
+        UnreadFields unread;
+        for (std::size_t j = 0; j < svc.calls.size(); ++j)
+            if (svc.calls[j].station.empty()) unread.add(LineObject::service, 0, "station", j);  // reported already
+        const ServiceCheck check =
+            check_line_service(sc_.infrastructure, infra_check_, sc_.train_types, svc, 0, complete, unread);
+        for (const LineProblem& p : check.problems)
+            locate(p, p.call == LineProblem::kNone ? src.fields : src.calls[p.call]);
+        if (!check.clean) src.ok = false;
     }
 
     // Two trains with one draw identity would share their primary delays.  Ids are unique, so this
@@ -941,8 +747,8 @@ private:
         MapFields m(errors_, node, path, {"entry", "dwell", "running", "disruptions"});
         if (!m.ok()) return;
         auto station_problem = [&](const std::string& id) -> std::optional<std::string> {
-            if (station_index_.count(id)) return std::nullopt;
-            return "unknown station \"" + id + "\"; " + known_list(station_ids_);
+            if (infra_check_.station_index(id)) return std::nullopt;
+            return unknown_name("station", id, infra_check_.station_ids);
         };
         yamlio::read_delay_rules(errors_, m, "entry", sc_.delays.entry, station_problem);
         yamlio::read_delay_rules(errors_, m, "dwell", sc_.delays.dwell, station_problem);
@@ -975,9 +781,9 @@ private:
                 if (tr == nullptr) ok = false;
                 for (std::string_view key : {"from", "to"}) {
                     const auto& x = key == "from" ? from : to;
-                    if (tr && x && (*x < tr->from - kEps || *x > tr->to + kEps)) {
-                        f.error(key, std::string(key) + " " + km(*x) + " lies off track " + tr->id +
-                                         ", which runs from " + km(tr->from) + " to " + km(tr->to));
+                    if (!tr || !x) continue;
+                    if (auto problem = off_track(std::string(key), *x, *tr)) {
+                        f.error(key, *problem);
                         ok = false;
                     }
                 }
@@ -1037,14 +843,10 @@ private:
     std::pair<YAML::Node, std::string> tracks_;   // where the tracks stand, for a line the network refuses
     std::optional<double> length_;  // the line length, once known to be valid
 
-    std::map<std::string, std::size_t> track_index_;
-    std::vector<std::string> track_ids_;
-    std::vector<MapFields> track_src_;  // parallel to infrastructure.tracks
-    std::vector<bool> track_ok_;        // the track read without errors
-
-    // id -> (index into stations, or -1 when the station has errors; line of its id)
-    std::map<std::string, std::pair<long, int>> station_index_;
-    std::vector<std::string> station_ids_;
+    // Where each object of the infrastructure was read, parallel to its vector there.
+    std::vector<MapFields> track_src_, station_src_, signal_src_, joint_src_;
+    UnreadFields unread_;              // fields of them that could not be read
+    InfrastructureCheck infra_check_;  // the model's verdict on them (usable tracks and stations)
 
     std::optional<double> default_sighting_, default_overlap_, default_distant_;
     std::array<bool, 3> defaults_given_{false, false, false};

@@ -228,16 +228,7 @@ std::optional<YAML::Node> MapFields::sequence(std::string_view key, bool require
     return n;
 }
 
-std::string km(double metres) {
-    char buf[64];
-    std::snprintf(buf, sizeof buf, "%.3f", metres / 1000.0);
-    std::string s = buf;
-    // "14.100" -> "14.1", "36.000" -> "36"
-    while (!s.empty() && s.back() == '0') s.pop_back();
-    if (!s.empty() && s.back() == '.') s.pop_back();
-    if (s == "-0") s = "0";
-    return s + " km";
-}
+std::string km(double metres) { return format_km(metres); }
 
 YAML::Node load_document(const std::string& yaml_text, ErrorList& errors) {
     YAML::Node root;
