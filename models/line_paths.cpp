@@ -6,6 +6,7 @@
 
 #include "models/network/checks.hpp"
 #include "models/network/paths.hpp"
+#include "models/scenario_error.hpp"
 
 namespace knockon {
 namespace {
@@ -162,6 +163,9 @@ net::PathRequest LinePaths::request(const Service& service, double train_length)
 }
 
 std::vector<std::size_t> LinePaths::sections_out_of_use(const DisruptionRule& rule) const {
+    if (!rule.segment.empty())
+        throw ScenarioError({"delays.disruptions: segment: a line places a disruption by `track` and chainage, not "
+                             "by a network's segment (\"" + rule.segment + "\")"});
     // The track's segments (one per piece between the turnouts of loops beside it) each take the
     // part of the chainage range that lies on them, as offsets from the piece's start.
     std::vector<std::size_t> out;

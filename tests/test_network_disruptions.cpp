@@ -118,6 +118,33 @@ TEST_CASE("network disruptions: each mistake of place located at its field", "[d
     }
 }
 
+TEST_CASE("network disruptions: a scenario built in code gets the reader's checks of place", "[delays][network]") {
+    // The reader's checks are the model's (disruption_place_problems): a rule set in code that
+    // names no segment of the network, or a line's track, is refused when its sections are sought.
+    simtest::Loaded f(kDisrupted);
+    auto refused = [&](const std::string& what) {
+        try {
+            const DelayDrawer drawer(f.scenario, f.plan);
+        } catch (const ScenarioError& e) {
+            REQUIRE(e.messages.size() == 1);
+            CHECK_THAT(e.messages[0], Catch::Contains(what));
+            return;
+        }
+        FAIL("the disruption was accepted");
+    };
+    f.scenario.delays.disruptions[0].segment = "Z";
+    refused("segment: no segment has the id \"Z\"");
+    f.scenario.delays.disruptions[0].segment.clear();
+    f.scenario.delays.disruptions[0].track = "A";
+    refused("a disruption on a network is placed by `segment`");
+    // And a line refuses a segment.
+    Scenario line = read_scenario(std::string(KNOCKON_SOURCE_DIR) + "/tests/data/study/delayed_line.yaml");
+    REQUIRE_FALSE(line.delays.disruptions.empty());
+    line.delays.disruptions[0].segment = "U";
+    const std::vector<TrainPlan> plan = plan_trains(line);
+    CHECK_THROWS_AS(DelayDrawer(line, plan), ScenarioError);
+}
+
 TEST_CASE("network disruptions: the sections a range reaches, a switch's within its fouling points", "[delays][network]") {
     // tests/data/network/loop_line.yaml, counted by hand: A (1200 m) is cut at W0 (50 m), E1
     // (100 m), H1 (1150 m) and at its end, S1's toe (a switch's toe side is cut at the switch
