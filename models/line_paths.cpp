@@ -6,6 +6,7 @@
 
 #include "models/network/checks.hpp"
 #include "models/network/paths.hpp"
+#include "models/scenario_error.hpp"
 
 namespace knockon {
 namespace {
@@ -159,6 +160,25 @@ net::PathRequest LinePaths::request(const Service& service, double train_length)
         r.calls.back().via = main_between(x_last, x_hi, d);
     }
     return r;
+}
+
+std::vector<std::size_t> LinePaths::sections_out_of_use(const DisruptionRule& rule) const {
+    if (!rule.segment.empty())
+        throw ScenarioError({"delays.disruptions: segment: a line places a disruption by `track` and chainage, not "
+                             "by a network's segment (\"" + rule.segment + "\")"});
+    // The track's segments (one per piece between the turnouts of loops beside it) each take the
+    // part of the chainage range that lies on them, as offsets from the piece's start.
+    std::vector<std::size_t> out;
+    for (std::size_t k = 0; k < line_.pieces.size(); ++k) {
+        const net::LinePiece& piece = line_.pieces[k];
+        if (piece.track != rule.track) continue;
+        const double a = std::max(rule.from, piece.x_from), b = std::min(rule.to, piece.x_to);
+        if (b <= a) continue;
+        for (std::size_t i : sections_.crossed(k, a - piece.x_from, b - piece.x_from)) out.push_back(i);
+    }
+    std::sort(out.begin(), out.end());
+    out.erase(std::unique(out.begin(), out.end()), out.end());
+    return out;
 }
 
 double LinePaths::longest_overlap() const {

@@ -37,6 +37,9 @@ public:
     const InterlockingTimes& interlocking() const override { return infra_.interlocking; }
     std::vector<LineSection> line_sections() const override { return knockon::line_sections(infra_); }
     SingleTrackLayout single_track() const override { return single_track_layout(infra_); }
+    // The rule's `track` and chainage range; a track the line does not have blocks nothing (the
+    // reader refuses it).  Throws ScenarioError for a rule placed by a network's segment.
+    std::vector<std::size_t> sections_out_of_use(const DisruptionRule& rule) const override;
 
     const Infrastructure& infrastructure() const { return infra_; }
     const net::LineNetwork& line() const { return line_; }

@@ -19,10 +19,15 @@ struct DelayRule {
     DelayDistribution distribution;
 };
 
-// A stretch of track out of use for a drawn time, on days drawn with daily_probability.
+// A stretch of track out of use for a drawn time, on days drawn with daily_probability.  Its
+// place is given in the scenario's own terms: on a line a track and a chainage range, on a network
+// a segment and a range of offsets from the segment's start (one segment per rule).  Exactly one
+// of `track` and `segment` is set.  Which detection sections that takes out of use is worked out
+// in one place for both, ServicePaths::sections_out_of_use.
 struct DisruptionRule {
-    std::string track;
-    double from = 0.0, to = 0.0;        // chainage range [m]
+    std::string track;                  // a line's track id
+    std::string segment;                // a network's segment id
+    double from = 0.0, to = 0.0;        // chainage (line) or offset (network) range [m]
     double daily_probability = 0.0;     // in [0, 1]
     DelayDistribution duration;         // its probability field is unused (1)
     double window_from = 0.0, window_to = 86400.0;   // start drawn uniformly in this window [s]

@@ -9,6 +9,7 @@
 #include "models/infrastructure.hpp"
 #include "models/line_section.hpp"
 #include "models/path.hpp"
+#include "models/primary_delay_model.hpp"
 #include "models/single_track.hpp"
 #include "models/timetable.hpp"
 
@@ -28,6 +29,11 @@ public:
     // The sections headways, buffers and UIC 406 consumption are reported for, in report order.
     virtual std::vector<LineSection> line_sections() const = 0;
     virtual SingleTrackLayout single_track() const = 0;
+    // The detection sections (network indices, as PathSection::index) a disruption takes out of
+    // use: every one that overlaps its range by more than a micrometre (DetectionSections::crossed),
+    // a switch's or diamond's section too where the range reaches into its fouling points.  A
+    // line finds the segments its track was cut into, a network the named segment.
+    virtual std::vector<std::size_t> sections_out_of_use(const DisruptionRule& rule) const = 0;
 };
 
 // The scenario's paths (a network's when it has one, else its line's).  Keeps references into

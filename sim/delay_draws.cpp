@@ -5,6 +5,7 @@
 #include <string>
 #include <utility>
 
+#include "models/service_paths.hpp"
 #include "sim/random_stream.hpp"
 
 namespace knockon {
@@ -29,29 +30,25 @@ double draw_at(const RandomStream& rng, StreamKind kind, const DelayRule* rule, 
     return rule->distribution.sample(u.first, u.second);
 }
 
-struct SectionExtent {
-    double x_lo = 0.0, x_hi = 0.0;
-};
-
-// Every detection section any train's path crosses, by id (ids are shared between paths).
-std::map<std::string, SectionExtent> known_sections(const std::vector<TrainPlan>& trains) {
-    std::map<std::string, SectionExtent> out;
+// Every detection section any train's path crosses: its id (ids are shared between paths) and
+// the position shown at its first piece's start, by the network's section index.
+std::map<std::size_t, std::pair<double, std::string>> known_sections(const std::vector<TrainPlan>& trains) {
+    std::map<std::size_t, std::pair<double, std::string>> out;
     for (const TrainPlan& tp : trains)
-        for (const PathSection& s : tp.run.path.sections) out.emplace(s.id, SectionExtent{s.x_lo, s.x_hi});
+        for (const PathSection& s : tp.run.path.sections) out.emplace(s.index, std::make_pair(s.x_lo, s.id));
     return out;
 }
 
 }  // namespace
 
-InjectedDelays draw_delays(const PrimaryDelayModel& model,
-                           const std::vector<TrainPlan>& trains, std::uint64_t seed,
+InjectedDelays draw_delays(const Scenario& scenario, const std::vector<TrainPlan>& trains, std::uint64_t seed,
                            std::uint32_t replication) {
-    return DelayDrawer(model, trains).draw(seed, replication);
+    return DelayDrawer(scenario, trains).draw(seed, replication);
 }
 
-DelayDrawer::DelayDrawer(const PrimaryDelayModel& model,
-                         const std::vector<TrainPlan>& trains)
-    : model_(model), trains_(trains) {
+DelayDrawer::DelayDrawer(const Scenario& scenario, const std::vector<TrainPlan>& trains)
+    : model_(scenario.delays), trains_(trains) {
+    const PrimaryDelayModel& model = model_;
     for (const TrainPlan& tp : trains) {
         const Service& svc = *tp.run.service;
         Train& t = resolved_.emplace_back();
@@ -72,18 +69,16 @@ DelayDrawer::DelayDrawer(const PrimaryDelayModel& model,
             if (!last || svc.leaves_at_edge) p.running = match(model.running, svc.category, call.station);
         }
     }
-    // The sections each disruption rule blocks: every detection section of its track that
-    // overlaps [from, to), as the trains' paths know them, in chainage order.
-    const auto sections = known_sections(trains);
+    // The sections each disruption rule blocks, as the scenario's layout finds them, kept where a
+    // train's path crosses them (the engine knows no others), in the order of the position shown
+    // at their start, then id, for a stable order.
+    if (model.disruptions.empty()) return;
+    const auto paths = service_paths(scenario);
+    const auto known = known_sections(trains);
     for (const DisruptionRule& rule : model.disruptions) {
-        // (The track's sections lie within its extent, so a range reaching beyond the track
-        // blocks no more than the track.)
-        const double from = rule.from, to = rule.to;
-        const std::string prefix = rule.track + ":";
-        std::vector<std::pair<double, std::string>> hit;   // by chainage, for a stable order
-        for (const auto& [id, ext] : sections)
-            if (id.compare(0, prefix.size(), prefix) == 0 && ext.x_lo < to && ext.x_hi > from)
-                hit.emplace_back(ext.x_lo, id);
+        std::vector<std::pair<double, std::string>> hit;
+        for (std::size_t i : paths->sections_out_of_use(rule))
+            if (auto it = known.find(i); it != known.end()) hit.push_back(it->second);
         std::sort(hit.begin(), hit.end());
         std::vector<std::string>& ids = disrupted_.emplace_back();
         for (auto& [x, id] : hit) ids.push_back(std::move(id));

@@ -16,23 +16,26 @@
 #include "models/infrastructure.hpp"
 #include "models/plan.hpp"
 #include "models/primary_delay_model.hpp"
+#include "models/scenario.hpp"
 #include "sim/injected_delays.hpp"
 
 namespace knockon {
 
 // entry[t]; dwell[t][call] at stops other than the terminus; running[t][call] for the stretch
 // from that call to the next (and from the last call to the line end when the train runs on);
-// `call` indexes Service::calls.  Disruptions block every detection section of their track that
-// overlaps [from, to), as the trains' paths know them, for the drawn time.
-InjectedDelays draw_delays(const PrimaryDelayModel& model,
-                           const std::vector<TrainPlan>& trains, std::uint64_t seed,
+// `call` indexes Service::calls.  Disruptions block, for the drawn time, every detection section
+// their place reaches (a line's track and chainage, a network's segment and offsets:
+// ServicePaths::sections_out_of_use) that some train's path crosses, by the id the paths give it.
+// The delay rules are the scenario's `delays`; `trains` its plan.
+InjectedDelays draw_delays(const Scenario& scenario, const std::vector<TrainPlan>& trains, std::uint64_t seed,
                            std::uint32_t replication);
 
 // The same draws for many replications: which rule applies where, and the keys, are worked out
-// once (a study draws thousands of days).  Holds references to the model and the plans.
+// once (a study draws thousands of days).  Holds references to the scenario's delay model and the
+// plans.  Throws ScenarioError where a disruption's place is not in the scenario's layout.
 class DelayDrawer {
 public:
-    DelayDrawer(const PrimaryDelayModel& model, const std::vector<TrainPlan>& trains);
+    DelayDrawer(const Scenario& scenario, const std::vector<TrainPlan>& trains);
     InjectedDelays draw(std::uint64_t seed, std::uint32_t replication) const;
 
 private:

@@ -79,7 +79,7 @@ TEST_CASE("attribution: the shares add up to the knock-on measured on demo days"
     Scenario sc = read_scenario(kSource + "/scenarios/demo.yaml");
     const std::vector<TrainPlan> plan = plan_trains(sc);
     const SimModel model(sc, plan);
-    const DelayDrawer drawer(sc.delays, plan);
+    const DelayDrawer drawer(sc, plan);
     double total = 0.0;
     for (std::uint32_t k = 0; k < 4; ++k) {
         INFO("demo, seed 1, replication " << k);
@@ -110,7 +110,7 @@ TEST_CASE("attribution: record places are the stations sorted by id and each rec
     Scenario sc = read_scenario(kSource + "/scenarios/demo.yaml");
     const std::vector<TrainPlan> plan = plan_trains(sc);
     const SimModel model(sc, plan);
-    const DelayDrawer drawer(sc.delays, plan);
+    const DelayDrawer drawer(sc, plan);
     const InjectedDelays delays = drawer.draw(1, 0);
     const SimResult day = simulate_day(model, delays, SimOptions{});
     const RecordPlaces own = record_places(day.timing);
@@ -357,7 +357,7 @@ TEST_CASE("attribution: every wait on the demo's studied days has a recorded cau
     Scenario sc = read_scenario(kSource + "/scenarios/demo.yaml");
     const std::vector<TrainPlan> plan = plan_trains(sc);
     const SimModel model(sc, plan);
-    const DelayDrawer drawer(sc.delays, plan);
+    const DelayDrawer drawer(sc, plan);
     double waited = 0.0;
     for (std::uint32_t k = 0; k < 30; ++k) {
         const InjectedDelays delays = drawer.draw(1, k);
@@ -384,7 +384,7 @@ TEST_CASE("attribution: a route held just before a timing point takes the time l
     Scenario sc = read_scenario(kSource + "/scenarios/demo.yaml");
     const std::vector<TrainPlan> plan = plan_trains(sc);
     const SimModel model(sc, plan);
-    const InjectedDelays delays = DelayDrawer(sc.delays, plan).draw(1, 1);
+    const InjectedDelays delays = DelayDrawer(sc, plan).draw(1, 1);
     const SimResult day = simulate_day(model, delays, SimOptions{});
     const std::size_t t = index_of(plan, "FU-0708"), su = index_of(plan, "SU-0700");
     std::size_t frx = day.timing.size();
@@ -420,7 +420,7 @@ TEST_CASE("attribution: on the demo's studied days knock-on with no recorded cau
     Scenario sc = read_scenario(kSource + "/scenarios/demo.yaml");
     const std::vector<TrainPlan> plan = plan_trains(sc);
     const SimModel model(sc, plan);
-    const DelayDrawer drawer(sc.delays, plan);
+    const DelayDrawer drawer(sc, plan);
     double none = 0.0, all = 0.0;
     for (std::uint32_t k = 0; k < 30; ++k) {
         const InjectedDelays delays = drawer.draw(1, k);

@@ -68,7 +68,7 @@ struct Run {
 StudyResult study(const Run& r, std::uint64_t seed, std::uint32_t replications) {
     StudyOptions o;
     o.replications = replications;
-    o.draw = [&](std::uint32_t k) { return draw_delays(r.scenario.delays, r.plan, seed, k); };
+    o.draw = [&](std::uint32_t k) { return draw_delays(r.scenario, r.plan, seed, k); };
     SimModel model(r.scenario, r.plan);
     return run_study(model, o);
 }
@@ -172,14 +172,14 @@ TEST_CASE("a retimed repeat pattern keeps every train's primary delays day by da
     double total = 0.0;
     bool renamed_differs = false;
     for (std::uint32_t k = 0; k < 20; ++k) {
-        const InjectedDelays a = draw_delays(base.scenario.delays, base.plan, 5, k);
-        const InjectedDelays b = draw_delays(later.scenario.delays, later.plan, 5, k);
+        const InjectedDelays a = draw_delays(base.scenario, base.plan, 5, k);
+        const InjectedDelays b = draw_delays(later.scenario, later.plan, 5, k);
         CHECK(a.entry == b.entry);
         CHECK(a.dwell == b.dwell);
         CHECK(a.running == b.running);
         for (double x : a.entry) total += x;
         // Renamed without a draw_key, PD draws anew (the check above can fail).
-        const InjectedDelays c = draw_delays(renamed.scenario.delays, renamed.plan, 5, k);
+        const InjectedDelays c = draw_delays(renamed.scenario, renamed.plan, 5, k);
         renamed_differs = renamed_differs || c.entry != a.entry || c.dwell != a.dwell;
     }
     CHECK(total > 0.0);

@@ -39,7 +39,7 @@ StudyOptions first_come_study(const Loaded& f, std::uint32_t replications, unsig
     opt.batch = 10;
     opt.sim.route_order = RouteOrder::first_come;
     opt.draw = [&f](std::uint32_t k) {
-        return draw_delays(f.scenario.delays, f.plan, 1, k);
+        return draw_delays(f.scenario, f.plan, 1, k);
     };
     return opt;
 }

@@ -429,7 +429,7 @@ std::size_t index_of(const std::vector<TrainPlan>& trains, const std::string& id
 TEST_CASE("draw_delays fills entry, dwell and running by rule", "[delays][draws]") {
     const Scenario sc = parse_scenario(kLine + kDelays, "t.yaml");
     const auto trains = plan_trains(sc);
-    const InjectedDelays d = draw_delays(sc.delays, trains, 1, 0);
+    const InjectedDelays d = draw_delays(sc, trains, 1, 0);
     REQUIRE(d.entry.size() == trains.size());
     REQUIRE(d.dwell.size() == trains.size());
     REQUIRE(d.running.size() == trains.size());
@@ -460,16 +460,16 @@ TEST_CASE("draw_delays fills entry, dwell and running by rule", "[delays][draws]
                          "{category: fast, distribution: exponential, mean: 1 min}"),
         "t.yaml");
     const auto trains2 = plan_trains(sc2);
-    const InjectedDelays d2 = draw_delays(sc2.delays, trains2, 1, 0);
+    const InjectedDelays d2 = draw_delays(sc2, trains2, 1, 0);
     for (double v : d2.running[index_of(trains2, "F1")]) CHECK(v > 0.0);
 }
 
 TEST_CASE("draw_delays is deterministic and differs between replications", "[delays][draws]") {
     const Scenario sc = parse_scenario(kLine + kDelays, "t.yaml");
     const auto trains = plan_trains(sc);
-    const InjectedDelays a = draw_delays(sc.delays, trains, 99, 4);
-    const InjectedDelays b = draw_delays(sc.delays, trains, 99, 4);
-    const InjectedDelays c = draw_delays(sc.delays, trains, 99, 5);
+    const InjectedDelays a = draw_delays(sc, trains, 99, 4);
+    const InjectedDelays b = draw_delays(sc, trains, 99, 4);
+    const InjectedDelays c = draw_delays(sc, trains, 99, 5);
     CHECK(a.entry == b.entry);
     CHECK(a.dwell == b.dwell);
     CHECK(a.running == b.running);
@@ -480,14 +480,14 @@ TEST_CASE("draw_delays is deterministic and differs between replications", "[del
 TEST_CASE("common random numbers: a train's draws depend on ids, not on positions", "[delays][draws]") {
     const Scenario base = parse_scenario(kLine + kDelays, "t.yaml");
     const auto trains = plan_trains(base);
-    const InjectedDelays d = draw_delays(base.delays, trains, 7, 2);
+    const InjectedDelays d = draw_delays(base, trains, 7, 2);
     const std::size_t t2 = index_of(trains, "T2");
 
     // Reordered and thinned: T2 alone, and the list reversed.
     std::vector<TrainPlan> only{trains[t2]};
     std::vector<TrainPlan> reversed(trains.rbegin(), trains.rend());
-    const InjectedDelays d_only = draw_delays(base.delays, only, 7, 2);
-    const InjectedDelays d_rev = draw_delays(base.delays, reversed, 7, 2);
+    const InjectedDelays d_only = draw_delays(base, only, 7, 2);
+    const InjectedDelays d_rev = draw_delays(base, reversed, 7, 2);
     CHECK(d_only.entry[0] == d.entry[t2]);
     CHECK(d_only.dwell[0] == d.dwell[t2]);
     CHECK(d_only.running[0] == d.running[t2]);
@@ -506,7 +506,7 @@ TEST_CASE("common random numbers: a train's draws depend on ids, not on position
     const Scenario var = parse_scenario(variant + kDelays, "v.yaml");
     const auto vtrains = plan_trains(var);
     REQUIRE(vtrains.size() == trains.size() + 1);
-    const InjectedDelays dv = draw_delays(var.delays, vtrains, 7, 2);
+    const InjectedDelays dv = draw_delays(var, vtrains, 7, 2);
     const std::size_t v2 = index_of(vtrains, "T2");
     CHECK(v2 != t2);
     CHECK(dv.entry[v2] == d.entry[t2]);
@@ -537,7 +537,7 @@ struct Drawn {
 Drawn drawn(const std::string& text, std::uint64_t seed = 7, std::uint32_t replication = 2) {
     Drawn d{parse_scenario(text, "t.yaml"), {}, {}};
     d.trains = plan_trains(d.scenario);
-    d.delays = draw_delays(d.scenario.delays, d.trains, seed, replication);
+    d.delays = draw_delays(d.scenario, d.trains, seed, replication);
     return d;
 }
 
@@ -665,7 +665,7 @@ TEST_CASE("disruptions block the track's sections in the range for the drawn tim
     REQUIRE_FALSE(expected.empty());
 
     for (std::uint32_t rep = 0; rep < 5; ++rep) {
-        const InjectedDelays d = draw_delays(sc.delays, trains, 3, rep);
+        const InjectedDelays d = draw_delays(sc, trains, 3, rep);
         std::set<std::string> got;
         for (const auto& b : d.blocked) {
             got.insert(b.section);
@@ -688,7 +688,7 @@ TEST_CASE("disruptions block the track's sections in the range for the drawn tim
     int hit = 0;
     std::vector<double> starts, lengths;
     for (int rep = 0; rep < days; ++rep) {
-        const InjectedDelays d = draw_delays(sc30.delays, trains30, 3,
+        const InjectedDelays d = draw_delays(sc30, trains30, 3,
                                              static_cast<std::uint32_t>(rep));
         if (d.blocked.empty()) continue;
         ++hit;
@@ -856,6 +856,12 @@ TEST_CASE("delays section: located errors", "[delays][reader]") {
         const std::string d = "delays:\n  disruptions:\n    - {track: U, from: 9 km, to: 12 km, "
                               "daily_probability: 5 %, distribution: exponential, mean: 20 min}\n";
         expect_error(d, loc_in(kLine + d, "delays:", "12 km"), "delays.disruptions[0].to", "lies off track U");
+    }
+    SECTION("a network's segment on a line file") {
+        const std::string d = "delays:\n  disruptions:\n    - {segment: U, from: 1 km, to: 2 km, "
+                              "daily_probability: 5 %, distribution: exponential, mean: 20 min}\n";
+        expect_error(d, loc_in(kLine + d, "delays:", "U,"), "delays.disruptions[0].segment",
+                     "a line file places a disruption by `track` and chainage; `segment`");
     }
     SECTION("window that ends before it starts") {
         const std::string d = "delays:\n  disruptions:\n    - {track: U, from: 1 km, to: 2 km, daily_probability: "

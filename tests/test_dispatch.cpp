@@ -31,7 +31,7 @@ StudyResult study_of(const Loaded& f, RouteOrder order, std::uint32_t days) {
     opt.replications = days;
     opt.threads = 2;
     opt.sim.route_order = order;
-    opt.draw = [&f](std::uint32_t k) { return draw_delays(f.scenario.delays, f.plan, 1, k); };
+    opt.draw = [&f](std::uint32_t k) { return draw_delays(f.scenario, f.plan, 1, k); };
     return run_study(*f.model, opt);
 }
 

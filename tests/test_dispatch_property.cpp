@@ -40,7 +40,7 @@ TEST_CASE("dispatch: no deadlock on random single lines with random traffic and 
         REQUIRE_FALSE(model.single_track().empty());
         ++lines;
         for (std::uint32_t k = 0; k < days_per_line; ++k) {
-            const InjectedDelays delays = draw_delays(sc.delays, plan, seed, k);
+            const InjectedDelays delays = draw_delays(sc, plan, seed, k);
             SimOptions options;
             options.route_order = RouteOrder::first_come;
             first_come_deadlocks += simulate_day(model, delays, options).deadlock.deadlocked ? 1 : 0;

@@ -26,7 +26,7 @@ StudyOptions crossing_study(const simtest::Loaded& f, std::uint32_t replications
     opt.replications = replications;
     opt.batch = 7;
     opt.sim.route_order = RouteOrder::first_come;
-    opt.draw = [&f](std::uint32_t k) { return draw_delays(f.scenario.delays, f.plan, 1, k); };
+    opt.draw = [&f](std::uint32_t k) { return draw_delays(f.scenario, f.plan, 1, k); };
     return opt;
 }
 

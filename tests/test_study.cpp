@@ -45,7 +45,7 @@ StudyOptions drawn_study(const Loaded& f, std::uint64_t seed, std::uint32_t repl
     opt.replications = replications;
     opt.threads = threads;
     opt.draw = [&f, seed](std::uint32_t k) {
-        return draw_delays(f.scenario.delays, f.plan, seed, k);
+        return draw_delays(f.scenario, f.plan, seed, k);
     };
     return opt;
 }
@@ -681,7 +681,7 @@ TEST_CASE("Knock-on: a late leader's follower gathers knock-on but no primary de
 
 TEST_CASE("Knock-on: replication_figures adds up the day's timing records", "[study][knock_on]") {
     Loaded f(kDelayedLine);
-    const InjectedDelays d = draw_delays(f.scenario.delays, f.plan, 11, 4);
+    const InjectedDelays d = draw_delays(f.scenario, f.plan, 11, 4);
     const SimResult day = simulate_day(*f.model, d, SimOptions{});
     const ReplicationFigures s = replication_figures(*f.model, day, d, {180.0, 300.0}, 4);
     double knock = 0.0;

@@ -4,9 +4,11 @@
 #include <set>
 #include <utility>
 
+#include "models/network/disruption_place.hpp"
 #include "models/network/paths.hpp"
 #include "models/network/single_track.hpp"
 #include "models/network/timetable.hpp"
+#include "models/scenario_error.hpp"
 
 namespace knockon {
 namespace {
@@ -59,6 +61,18 @@ std::vector<LineSection> NetworkPaths::line_sections() const {
         for (std::size_t i = 0; i + 1 < st.size(); ++i) add(st[i], st[i + 1], Direction::up, c.name);
         for (std::size_t i = st.size(); i-- > 1;) add(st[i], st[i - 1], Direction::down, c.name);
     }
+    return out;
+}
+
+std::vector<std::size_t> NetworkPaths::sections_out_of_use(const DisruptionRule& rule) const {
+    const auto problems = net::disruption_place_problems(net_.network, rule);
+    if (!problems.empty()) {
+        std::vector<std::string> messages;
+        for (const auto& p : problems) messages.push_back("delays.disruptions: " + p.field + ": " + p.message);
+        throw ScenarioError(std::move(messages));
+    }
+    std::vector<std::size_t> out = sections_.crossed(net_.network.find_segment(rule.segment), rule.from, rule.to);
+    std::sort(out.begin(), out.end());
     return out;
 }
 

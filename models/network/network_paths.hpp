@@ -30,6 +30,9 @@ public:
     const InterlockingTimes& interlocking() const override { return net_.network.interlocking; }
     std::vector<LineSection> line_sections() const override;
     SingleTrackLayout single_track() const override;
+    // The rule's `segment` and offset range; throws ScenarioError where that place is not on the
+    // network (disruption_place_problem).
+    std::vector<std::size_t> sections_out_of_use(const DisruptionRule& rule) const override;
 
 private:
     const ScenarioNetwork& net_;

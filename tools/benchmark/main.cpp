@@ -49,7 +49,7 @@ Measure run(const knockon::SimModel& model, const knockon::Scenario& sc, const s
     knockon::StudyOptions opt;
     opt.replications = replications;
     opt.threads = threads;
-    const knockon::DelayDrawer drawer(sc.delays, plan);
+    const knockon::DelayDrawer drawer(sc, plan);
     opt.draw = [&](std::uint32_t k) { return drawer.draw(1, k); };
     const double c0 = cpu_seconds();
     const auto w0 = std::chrono::steady_clock::now();

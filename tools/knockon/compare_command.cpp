@@ -181,7 +181,7 @@ int compare(const std::vector<std::string>& args) {
         o.first = block.first;
         o.replications = block.size();
         // The same seed for every variant: replication k draws the same primary delays everywhere.
-        const DelayDrawer drawer(r.scenario.delays, r.plan.trains);
+        const DelayDrawer drawer(r.scenario, r.plan.trains);
         o.draw = [&drawer, seed](std::uint32_t k) { return drawer.draw(seed, k); };
         const auto t0 = std::chrono::steady_clock::now();
         o.progress = [&, v](std::uint32_t done, std::uint32_t planned) {

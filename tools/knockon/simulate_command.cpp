@@ -235,7 +235,7 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
     const std::uint64_t seed = count_option(vm, "seed", 0, UINT64_MAX);
     if (scenario.delays.empty())
         std::fprintf(stderr, "knockon simulate: note: the scenario has no `delays:` section, so every day is the same\n");
-    const DelayDrawer drawer(scenario.delays, plan);
+    const DelayDrawer drawer(scenario, plan);
     opt.draw = [&](std::uint32_t k) { return drawer.draw(seed, k); };
 
     // Progress on stderr only when it is a terminal, a few times a second at most.

@@ -5,6 +5,9 @@
 #include <cstdio>
 #include <utility>
 
+#include "models/input_ranges.hpp"
+#include "models/units.hpp"
+
 namespace knockon::yamlio {
 namespace {
 
@@ -81,6 +84,42 @@ bool read_quantiles(ErrorList& errors, const MapFields& f, std::vector<std::pair
     }
     if (!ok) out.clear();
     return ok;
+}
+
+// window: ["06:00", "22:00"]: the disruption starts at a time drawn uniformly in it.
+bool read_window(ErrorList& errors, const MapFields& f, DisruptionRule& rule) {
+    auto seq = f.sequence("window", true);
+    if (!seq) return false;
+    const std::string path = f.path_of("window");
+    if (seq->size() != 2) {
+        f.error("window", "expected two times of day, e.g. [\"06:00\", \"22:00\"]");
+        return false;
+    }
+    std::optional<double> t[2];
+    for (std::size_t k = 0; k < 2; ++k) {
+        const YAML::Node n = std::as_const(*seq)[k];
+        if (auto text = scalar_text(errors, n, item(path, k))) {
+            try {
+                t[k] = parse_time_of_day(*text);
+                if (auto problem = range_problem(Input::time_of_day, *t[k])) {
+                    errors.add(n, item(path, k), *problem);
+                    t[k].reset();
+                }
+            } catch (const UnitError& e) {
+                errors.add(n, item(path, k), e.what());
+            }
+        }
+    }
+    if (!t[0] || !t[1]) return false;
+    if (*t[1] <= *t[0]) {
+        errors.add(std::as_const(*seq)[1], item(path, 1),
+                   "the window must end after it starts: " + format_time_of_day(*t[1]) + " is not after " +
+                       format_time_of_day(*t[0]));
+        return false;
+    }
+    rule.window_from = *t[0];
+    rule.window_to = *t[1];
+    return true;
 }
 
 }  // namespace
@@ -182,6 +221,51 @@ void read_delay_rules(ErrorList& errors, const MapFields& m, std::string_view ke
         }
         if (!read_distribution(errors, f, rule.distribution)) ok = false;
         if (ok) out.push_back(std::move(rule));
+    }
+}
+
+void read_disruptions(ErrorList& errors, const MapFields& m, DisruptionPlacing placing, std::vector<DisruptionRule>& out,
+                      const DisruptionPlaceCheck& place_problem) {
+    auto seq = m.sequence("disruptions", false);
+    if (!seq) return;
+    const std::string path = m.path_of("disruptions");
+    const bool line = placing == DisruptionPlacing::line;
+    const std::string_view place_key = line ? "track" : "segment";
+    for (std::size_t i = 0; i < seq->size(); ++i) {
+        // Both place keys are known here, so the other form's is not just an "unknown key".
+        MapFields f(errors, std::as_const(*seq)[i], item(path, i),
+                    {"track", "segment", "from", "to", "daily_probability", "distribution", "mean", "shape",
+                     "scale", "median", "sigma", "quantiles", "window"});
+        if (!f.ok()) continue;
+        // The other form's key gets a sentence saying why, and stands in for the missing one.
+        const std::string_view other_key = line ? "segment" : "track";
+        const bool other = f.has(other_key);
+        bool ok = !other;
+        if (other && line)
+            f.error(other_key, "a line file places a disruption by `track` and chainage; `segment` (with offsets "
+                               "along it) belongs to a network file (knockon: 2)");
+        if (other && !line)
+            f.error(other_key, "a network file places a disruption by `segment`, with `from` and `to` as offsets "
+                               "from the segment's start; `track` (with chainage) belongs to a line file");
+        DisruptionRule rule;
+        auto place = other && !f.has(place_key) ? std::nullopt : f.text(place_key, true);
+        auto from = f.quantity("from", Quantity::length, true);
+        auto to = f.quantity("to", Quantity::length, true);
+        auto p = ranged(f, "daily_probability", Input::probability, true);
+        if (!place || !from || !to || !p) ok = false;
+        if (line && from && to && *from >= *to) {
+            f.error("to", "the range must end beyond its start: to " + km(*to) + " is not beyond from " + km(*from));
+            ok = false;
+        }
+        if (place && !place_problem(f, *place, from, to)) ok = false;
+        if (!read_distribution(errors, f, rule.duration)) ok = false;
+        if (f.has("window") && !read_window(errors, f, rule)) ok = false;
+        if (!ok) continue;
+        (line ? rule.track : rule.segment) = *place;
+        rule.from = *from;
+        rule.to = *to;
+        rule.daily_probability = *p;
+        out.push_back(std::move(rule));
     }
 }
 

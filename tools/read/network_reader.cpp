@@ -10,6 +10,7 @@
 #include <vector>
 
 #include "models/network/checks.hpp"
+#include "models/network/disruption_place.hpp"
 #include "models/network/routes.hpp"
 #include "tools/read/call_fields.hpp"
 #include "tools/read/delay_fields.hpp"
@@ -409,10 +410,10 @@ private:
         out_.timetable.corridors.push_back(std::move(c));
     }
 
-    // Rules by category and station, as in a line scenario; disruptions (a stretch of track out of
-    // use) are placed by chainage there and have no form on a network yet.
+    // Rules by category and station, as in a line scenario; disruptions placed by segment and
+    // offsets along it, checked by the model's rule (disruption_place_problems).
     void read_delays(const YAML::Node& node, const std::string& path) {
-        MapFields m(errors_, node, path, {"entry", "dwell", "running"});
+        MapFields m(errors_, node, path, {"entry", "dwell", "running", "disruptions"});
         if (!m.ok()) return;
         auto station_problem = [&](const std::string& id) -> std::optional<std::string> {
             if (net().find_station(id) != kNone) return std::nullopt;
@@ -421,6 +422,22 @@ private:
         yamlio::read_delay_rules(errors_, m, "entry", out_.delays.entry, station_problem);
         yamlio::read_delay_rules(errors_, m, "dwell", out_.delays.dwell, station_problem);
         yamlio::read_delay_rules(errors_, m, "running", out_.delays.running, station_problem);
+        auto on_segment = [&](const MapFields& f, const std::string& segment, std::optional<double> from,
+                              std::optional<double> to) {
+            DisruptionRule rule;
+            rule.segment = segment;
+            // Without both ends only the segment's name can be checked.
+            rule.from = from.value_or(0.0);
+            rule.to = to.value_or(from ? *from : 0.0);
+            bool ok = true;
+            for (const net::DisruptionPlaceProblem& p : net::disruption_place_problems(net(), rule)) {
+                if (p.field != "segment" && (!from || !to)) continue;
+                f.error(p.field, p.message);
+                ok = false;
+            }
+            return ok;
+        };
+        yamlio::read_disruptions(errors_, m, yamlio::DisruptionPlacing::network, out_.delays.disruptions, on_segment);
     }
 
     // The network's own checks, each put at the object it is about (but for objects the reader

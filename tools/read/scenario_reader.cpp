@@ -756,83 +756,23 @@ private:
         read_disruptions(m);
     }
 
+    // A line places a disruption on one of its tracks by chainage (the shared reader does the rest).
     void read_disruptions(const MapFields& m) {
-        auto seq = m.sequence("disruptions", false);
-        if (!seq) return;
-        const std::string path = m.path_of("disruptions");
-        for (std::size_t i = 0; i < seq->size(); ++i) {
-            MapFields f(errors_, std::as_const(*seq)[i], item(path, i),
-                        {"track", "from", "to", "daily_probability", "distribution", "mean", "shape",
-                         "scale", "median", "sigma", "quantiles", "window"});
-            if (!f.ok()) continue;
-            DisruptionRule rule;
-            auto track = f.text("track", true);
-            auto from = f.quantity("from", Quantity::length, true);
-            auto to = f.quantity("to", Quantity::length, true);
-            auto p = ranged(f, "daily_probability", Input::probability, true);
-            bool ok = track && from && to && p;
-            if (from && to && *from >= *to) {
-                f.error("to", "the range must end beyond its start: to " + km(*to) + " is not beyond from " +
-                                  km(*from));
-                ok = false;
-            }
-            if (track) {
-                const Track* tr = track_ref(f, "track", *track);
-                if (tr == nullptr) ok = false;
-                for (std::string_view key : {"from", "to"}) {
-                    const auto& x = key == "from" ? from : to;
-                    if (!tr || !x) continue;
-                    if (auto problem = off_track(std::string(key), *x, *tr)) {
-                        f.error(key, *problem);
-                        ok = false;
-                    }
+        auto on_track = [&](const MapFields& f, const std::string& track, std::optional<double> from,
+                            std::optional<double> to) {
+            const Track* tr = track_ref(f, "track", track);
+            bool ok = tr != nullptr;
+            for (std::string_view key : {"from", "to"}) {
+                const auto& x = key == "from" ? from : to;
+                if (!tr || !x) continue;
+                if (auto problem = off_track(std::string(key), *x, *tr)) {
+                    f.error(key, *problem);
+                    ok = false;
                 }
             }
-            if (!yamlio::read_distribution(errors_, f, rule.duration)) ok = false;
-            if (f.has("window") && !read_window(f, rule)) ok = false;
-            if (!ok) continue;
-            rule.track = *track;
-            rule.from = *from;
-            rule.to = *to;
-            rule.daily_probability = *p;
-            sc_.delays.disruptions.push_back(std::move(rule));
-        }
-    }
-
-    // window: ["06:00", "22:00"]: the disruption starts at a time drawn uniformly in it.
-    bool read_window(const MapFields& f, DisruptionRule& rule) {
-        auto seq = f.sequence("window", true);
-        if (!seq) return false;
-        const std::string path = f.path_of("window");
-        if (seq->size() != 2) {
-            f.error("window", "expected two times of day, e.g. [\"06:00\", \"22:00\"]");
-            return false;
-        }
-        std::optional<double> t[2];
-        for (std::size_t k = 0; k < 2; ++k) {
-            const YAML::Node n = std::as_const(*seq)[k];
-            if (auto text = yamlio::scalar_text(errors_, n, item(path, k))) {
-                try {
-                    t[k] = parse_time_of_day(*text);
-                    if (auto problem = range_problem(Input::time_of_day, *t[k])) {
-                        errors_.add(n, item(path, k), *problem);
-                        t[k].reset();
-                    }
-                } catch (const UnitError& e) {
-                    errors_.add(n, item(path, k), e.what());
-                }
-            }
-        }
-        if (!t[0] || !t[1]) return false;
-        if (*t[1] <= *t[0]) {
-            errors_.add(std::as_const(*seq)[1], item(path, 1),
-                        "the window must end after it starts: " + format_time_of_day(*t[1]) +
-                            " is not after " + format_time_of_day(*t[0]));
-            return false;
-        }
-        rule.window_from = *t[0];
-        rule.window_to = *t[1];
-        return true;
+            return ok;
+        };
+        yamlio::read_disruptions(errors_, m, yamlio::DisruptionPlacing::line, sc_.delays.disruptions, on_track);
     }
 
     ErrorList& errors_;
