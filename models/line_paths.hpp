@@ -37,6 +37,7 @@ public:
     const InterlockingTimes& interlocking() const override { return infra_.interlocking; }
     std::vector<LineSection> line_sections() const override { return knockon::line_sections(infra_); }
     SingleTrackLayout single_track() const override { return single_track_layout(infra_); }
+    std::vector<bool> node_sections() const override { return net::node_sections(sections_); }
 
     const Infrastructure& infrastructure() const { return infra_; }
     const net::LineNetwork& line() const { return line_; }

@@ -7,6 +7,7 @@
 #include <optional>
 #include <stdexcept>
 
+#include "models/junction_headway.hpp"
 #include "models/scenario_error.hpp"
 #include "models/service_paths.hpp"
 
@@ -37,6 +38,7 @@ void add_headways(const LineSection& ls, const std::vector<SectionStairway>& ord
         p.minimum_headway = h->headway;
         p.buffer = p.scheduled_headway - p.minimum_headway;
         p.critical_section = h->critical_section;
+        p.critical_index = h->critical_index;
         out.push_back(p);
     }
 }
@@ -371,6 +373,7 @@ PlanResult make_plan(const Scenario& scenario, const RunOptions& options) {
         add_matrix(ls, ordered, plan);
         add_capacity(ls, ordered, scenario.line_type, plan);
     }
+    plan.junction_headways = junction_headways(plan.line_sections, paths->node_sections(), plan.trains, plan.headways);
     plan.single_track = paths->single_track();
     plan.crossings = find_crossings(plan.single_track, plan.trains);
     plan.stretch_capacity = stretch_capacity(plan.single_track, plan.trains, scenario.line_type);

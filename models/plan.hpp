@@ -17,16 +17,6 @@
 namespace knockon {
 
 
-struct HeadwayPair {
-    std::string line_section;
-    Direction direction = Direction::up;
-    std::size_t leader = 0, follower = 0;   // indices into PlanResult::trains
-    double scheduled_headway = 0.0;         // follower's reference time minus the leader's [s]
-    double minimum_headway = 0.0;
-    double buffer = 0.0;                    // scheduled minus minimum; negative = conflict
-    std::string critical_section;
-};
-
 struct HeadwayMatrixEntry {
     std::string line_section;
     std::string leader_type, follower_type;
@@ -87,6 +77,9 @@ struct PlanResult {
     std::vector<TrainPlan> trains;
     std::vector<LineSection> line_sections;
     std::vector<HeadwayPair> headways;
+    // Consecutive trains of different corridors at a junction that no line section pairs
+    // (models/junction_headway); none on a line.
+    std::vector<HeadwayPair> junction_headways;
     std::vector<HeadwayMatrixEntry> headway_matrix;
     std::vector<Conflict> conflicts;
     std::vector<CapacityFigure> capacity;

@@ -28,6 +28,9 @@ public:
     // The sections headways, buffers and UIC 406 consumption are reported for, in report order.
     virtual std::vector<LineSection> line_sections() const = 0;
     virtual SingleTrackLayout single_track() const = 0;
+    // Per detection section of the layout (by network index, PathSection::index): whether it is a
+    // switch's or diamond's own section, where routes of different corridors can meet.
+    virtual std::vector<bool> node_sections() const = 0;
 };
 
 // The scenario's paths (a network's when it has one, else its line's).  Keeps references into

@@ -30,6 +30,7 @@ public:
     const InterlockingTimes& interlocking() const override { return net_.network.interlocking; }
     std::vector<LineSection> line_sections() const override;
     SingleTrackLayout single_track() const override;
+    std::vector<bool> node_sections() const override { return net::node_sections(sections_); }
 
 private:
     const ScenarioNetwork& net_;
