@@ -276,8 +276,9 @@ PlanSize plan_size(const Scenario& scenario, const ServicePaths* paths, const Ru
     return size;
 }
 
-// The scenario's paths, or the reason the layout cannot take them as an input problem.
-std::unique_ptr<ServicePaths> paths_of(const Scenario& scenario) {
+}  // namespace
+
+std::unique_ptr<ServicePaths> scenario_paths(const Scenario& scenario) {
     try {
         return service_paths(scenario);
     } catch (const PathError& e) {
@@ -338,8 +339,6 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const ServicePaths&
     return trains;
 }
 
-}  // namespace
-
 PlanSize plan_size(const Scenario& scenario, const RunOptions& options) {
     std::unique_ptr<ServicePaths> paths;
     if (scenario.network) {
@@ -352,7 +351,7 @@ PlanSize plan_size(const Scenario& scenario, const RunOptions& options) {
 }
 
 std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& options) {
-    return plan_trains(scenario, *paths_of(scenario), options);
+    return plan_trains(scenario, *scenario_paths(scenario), options);
 }
 
 std::vector<HeadwayPair> consecutive_headways(const std::vector<LineSection>& sections,
@@ -364,7 +363,7 @@ std::vector<HeadwayPair> consecutive_headways(const std::vector<LineSection>& se
 
 PlanResult make_plan(const Scenario& scenario, const RunOptions& options) {
     PlanResult plan;
-    const std::unique_ptr<ServicePaths> paths = paths_of(scenario);
+    const std::unique_ptr<ServicePaths> paths = scenario_paths(scenario);
     plan.trains = plan_trains(scenario, *paths, options);
     plan.line_sections = paths->line_sections();
     for (const LineSection& ls : plan.line_sections) {

@@ -2,6 +2,7 @@
 // Timetable analysis of a whole scenario: every service's planned run and blocking-time
 // stairway, headways and buffers of consecutive trains, the minimum-headway matrix by train
 // type, conflicts, and UIC 406 capacity consumption per line section.
+#include <memory>
 #include <string>
 #include <vector>
 
@@ -10,6 +11,7 @@
 #include "models/headway.hpp"
 #include "models/running_time.hpp"
 #include "models/scenario.hpp"
+#include "models/service_paths.hpp"
 #include "models/service_run.hpp"
 #include "models/single_track_plan.hpp"
 #include "models/train_plan.hpp"
@@ -108,6 +110,12 @@ std::vector<HeadwayPair> consecutive_headways(const std::vector<LineSection>& se
 // run (it stalls on a climb, its brakes cannot hold it on a fall, its path does not connect),
 // and before any work when the plan would exceed kMaxPlanGridPoints.
 std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& options = {});
+// The same over the scenario's paths laid already (scenario_paths), for a caller that builds a
+// SimModel over them too and so lays them once.
+std::vector<TrainPlan> plan_trains(const Scenario& scenario, const ServicePaths& paths, const RunOptions& options = {});
+// The scenario's paths (models/service_paths); a layout that cannot take them is an input
+// problem (ScenarioError naming the file).  Keeps references into `scenario`.
+std::unique_ptr<ServicePaths> scenario_paths(const Scenario& scenario);
 
 // What a plan holds before it is made: its memory is mostly the speed and time at each point of
 // each run's distance grid.
