@@ -32,6 +32,10 @@ std::optional<SectionStairway> stairway_in(const LineSection& ls, std::size_t tr
     return out;
 }
 
+std::string headway_place(const HeadwayPair& h) {
+    return h.junction.empty() ? h.line_section : "junction " + h.junction;
+}
+
 std::optional<MinimumHeadway> minimum_headway(const SectionStairway& leader, const SectionStairway& follower) {
     std::optional<MinimumHeadway> best;
     for (const SectionBlocking& f : follower.sections) {
@@ -39,7 +43,7 @@ std::optional<MinimumHeadway> minimum_headway(const SectionStairway& leader, con
             if (l.section != f.section) continue;
             // The follower's blocking must start no earlier than the leader's ends.
             double h = (l.end - leader.reference) - (f.start - follower.reference);
-            if (!best || h > best->headway) best = MinimumHeadway{h, f.section};
+            if (!best || h > best->headway) best = MinimumHeadway{h, f.section, f.index};
         }
     }
     return best;

@@ -40,6 +40,7 @@ public:
     // The rule's `track` and chainage range; a track the line does not have blocks nothing (the
     // reader refuses it).  Throws ScenarioError for a rule placed by a network's segment.
     std::vector<std::size_t> sections_out_of_use(const DisruptionRule& rule) const override;
+    std::vector<bool> node_sections() const override { return net::node_sections(sections_); }
 
     const Infrastructure& infrastructure() const { return infra_; }
     const net::LineNetwork& line() const { return line_; }

@@ -7,6 +7,7 @@
 #include <optional>
 #include <stdexcept>
 
+#include "models/junction_headway.hpp"
 #include "models/scenario_checks.hpp"
 #include "models/scenario_error.hpp"
 #include "models/service_paths.hpp"
@@ -38,6 +39,7 @@ void add_headways(const LineSection& ls, const std::vector<SectionStairway>& ord
         p.minimum_headway = h->headway;
         p.buffer = p.scheduled_headway - p.minimum_headway;
         p.critical_section = h->critical_section;
+        p.critical_index = h->critical_index;
         out.push_back(p);
     }
 }
@@ -275,10 +277,12 @@ PlanSize plan_size(const Scenario& scenario, const ServicePaths* paths, const Ru
     return size;
 }
 
+}  // namespace
+
 // The scenario's paths, or the reason the layout cannot take them as an input problem.  A line
 // scenario is checked as a model first (models/scenario_checks): the path builder trusts the
 // infrastructure it is given, and a scenario built in code has met no reader.
-std::unique_ptr<ServicePaths> paths_of(const Scenario& scenario) {
+std::unique_ptr<ServicePaths> scenario_paths(const Scenario& scenario) {
     check_scenario(scenario);
     try {
         return service_paths(scenario);
@@ -340,8 +344,6 @@ std::vector<TrainPlan> plan_trains(const Scenario& scenario, const ServicePaths&
     return trains;
 }
 
-}  // namespace
-
 PlanSize plan_size(const Scenario& scenario, const RunOptions& options) {
     std::unique_ptr<ServicePaths> paths;
     if (scenario.network) {
@@ -354,7 +356,7 @@ PlanSize plan_size(const Scenario& scenario, const RunOptions& options) {
 }
 
 std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& options) {
-    return plan_trains(scenario, *paths_of(scenario), options);
+    return plan_trains(scenario, *scenario_paths(scenario), options);
 }
 
 std::vector<HeadwayPair> consecutive_headways(const std::vector<LineSection>& sections,
@@ -366,7 +368,7 @@ std::vector<HeadwayPair> consecutive_headways(const std::vector<LineSection>& se
 
 PlanResult make_plan(const Scenario& scenario, const RunOptions& options) {
     PlanResult plan;
-    const std::unique_ptr<ServicePaths> paths = paths_of(scenario);
+    const std::unique_ptr<ServicePaths> paths = scenario_paths(scenario);
     plan.trains = plan_trains(scenario, *paths, options);
     plan.line_sections = paths->line_sections();
     for (const LineSection& ls : plan.line_sections) {
@@ -375,6 +377,7 @@ PlanResult make_plan(const Scenario& scenario, const RunOptions& options) {
         add_matrix(ls, ordered, plan);
         add_capacity(ls, ordered, scenario.line_type, plan);
     }
+    plan.junction_headways = junction_headways(plan.line_sections, paths->node_sections(), plan.trains, plan.headways);
     plan.single_track = paths->single_track();
     plan.crossings = find_crossings(plan.single_track, plan.trains);
     plan.stretch_capacity = stretch_capacity(plan.single_track, plan.trains, scenario.line_type);

@@ -2,6 +2,7 @@
 // Timetable analysis of a whole scenario: every service's planned run and blocking-time
 // stairway, headways and buffers of consecutive trains, the minimum-headway matrix by train
 // type, conflicts, and UIC 406 capacity consumption per line section.
+#include <memory>
 #include <string>
 #include <vector>
 
@@ -10,22 +11,13 @@
 #include "models/headway.hpp"
 #include "models/running_time.hpp"
 #include "models/scenario.hpp"
+#include "models/service_paths.hpp"
 #include "models/service_run.hpp"
 #include "models/single_track_plan.hpp"
 #include "models/train_plan.hpp"
 
 namespace knockon {
 
-
-struct HeadwayPair {
-    std::string line_section;
-    Direction direction = Direction::up;
-    std::size_t leader = 0, follower = 0;   // indices into PlanResult::trains
-    double scheduled_headway = 0.0;         // follower's reference time minus the leader's [s]
-    double minimum_headway = 0.0;
-    double buffer = 0.0;                    // scheduled minus minimum; negative = conflict
-    std::string critical_section;
-};
 
 struct HeadwayMatrixEntry {
     std::string line_section;
@@ -87,6 +79,9 @@ struct PlanResult {
     std::vector<TrainPlan> trains;
     std::vector<LineSection> line_sections;
     std::vector<HeadwayPair> headways;
+    // Consecutive trains of different corridors at a junction that no line section pairs
+    // (models/junction_headway); none on a line.
+    std::vector<HeadwayPair> junction_headways;
     std::vector<HeadwayMatrixEntry> headway_matrix;
     std::vector<Conflict> conflicts;
     std::vector<CapacityFigure> capacity;
@@ -115,6 +110,12 @@ std::vector<HeadwayPair> consecutive_headways(const std::vector<LineSection>& se
 // run (it stalls on a climb, its brakes cannot hold it on a fall, its path does not connect),
 // and before any work when the plan would exceed kMaxPlanGridPoints.
 std::vector<TrainPlan> plan_trains(const Scenario& scenario, const RunOptions& options = {});
+// The same over the scenario's paths laid already (scenario_paths), for a caller that builds a
+// SimModel over them too and so lays them once.
+std::vector<TrainPlan> plan_trains(const Scenario& scenario, const ServicePaths& paths, const RunOptions& options = {});
+// The scenario's paths (models/service_paths); a layout that cannot take them is an input
+// problem (ScenarioError naming the file).  Keeps references into `scenario`.
+std::unique_ptr<ServicePaths> scenario_paths(const Scenario& scenario);
 
 // What a plan holds before it is made: its memory is mostly the speed and time at each point of
 // each run's distance grid.

@@ -34,6 +34,9 @@ public:
     // a switch's or diamond's section too where the range reaches into its fouling points.  A
     // line finds the segments its track was cut into, a network the named segment.
     virtual std::vector<std::size_t> sections_out_of_use(const DisruptionRule& rule) const = 0;
+    // Per detection section of the layout (by network index, PathSection::index): whether it is a
+    // switch's or diamond's own section, where routes of different corridors can meet.
+    virtual std::vector<bool> node_sections() const = 0;
 };
 
 // The scenario's paths (a network's when it has one, else its line's).  Keeps references into

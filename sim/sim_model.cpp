@@ -6,6 +6,7 @@
 #include <map>
 #include <stdexcept>
 
+#include "models/junction_headway.hpp"
 #include "models/single_track.hpp"
 
 namespace knockon {
@@ -208,14 +209,16 @@ SimModel::SimModel(const ServicePaths& paths, const std::vector<TrainPlan>& plan
         }
         trains_.push_back(std::move(tr));
     }
-    // Headways name their critical section: looked up by name, at this edge only.
-    std::map<std::string, std::uint32_t> by_name;
-    for (std::uint32_t s = 0; s < section_names_.size(); ++s) by_name.emplace(section_names_[s], s);
-    for (const HeadwayPair& h : consecutive_headways(paths.line_sections(), plan)) {
-        auto it = by_name.find(h.critical_section);
-        if (it == by_name.end()) continue;
+    // Buffers a study measures: consecutive trains of each line section, then of each junction
+    // (models/junction_headway), on the critical section found by its network index.
+    const std::vector<LineSection> line_sections = paths.line_sections();
+    std::vector<HeadwayPair> pairs = consecutive_headways(line_sections, plan);
+    const std::vector<HeadwayPair> at_junctions = junction_headways(line_sections, paths.node_sections(), plan, pairs);
+    pairs.insert(pairs.end(), at_junctions.begin(), at_junctions.end());
+    for (const HeadwayPair& h : pairs) {
+        if (h.critical_index >= number_of.size() || number_of[h.critical_index] == kUnnumbered) continue;
         buffer_pairs_.push_back({static_cast<std::uint32_t>(h.leader), static_cast<std::uint32_t>(h.follower),
-                                 it->second, h.line_section, h.buffer});
+                                 number_of[h.critical_index], headway_place(h), h.buffer});
     }
     {
         std::vector<std::string> stations;   // the engine's timing records, in its order

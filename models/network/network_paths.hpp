@@ -33,6 +33,7 @@ public:
     // The rule's `segment` and offset range; throws ScenarioError where that place is not on the
     // network (disruption_place_problem).
     std::vector<std::size_t> sections_out_of_use(const DisruptionRule& rule) const override;
+    std::vector<bool> node_sections() const override { return net::node_sections(sections_); }
 
 private:
     const ScenarioNetwork& net_;

@@ -97,4 +97,10 @@ std::vector<std::size_t> DetectionSections::crossed(std::size_t segment, double 
     return out;
 }
 
+std::vector<bool> node_sections(const DetectionSections& sections) {
+    std::vector<bool> out(sections.size(), false);
+    for (std::size_t i = 0; i < sections.size(); ++i) out[i] = sections[i].node != kNone;
+    return out;
+}
+
 }  // namespace knockon::net

@@ -46,4 +46,7 @@ private:
     std::vector<std::vector<Piece>> by_segment_;   // sorted by offset
 };
 
+// Per section (by index): whether it is a switch's or diamond's own section.
+std::vector<bool> node_sections(const DetectionSections& sections);
+
 }  // namespace knockon::net

@@ -165,8 +165,9 @@ int merge(const std::vector<std::string>& args) {
     const Scenario scenario = parse_scenario(head.run.scenario_text, head.scenario_file, head.variant);
     RunOptions run;
     run.step = head.step;
-    const std::vector<TrainPlan> plan = plan_trains(scenario, run);
-    const SimModel model(scenario, plan);
+    const std::unique_ptr<ServicePaths> paths = scenario_paths(scenario);
+    const std::vector<TrainPlan> plan = plan_trains(scenario, *paths, run);
+    const SimModel model(*paths, plan);
 
     StudyResult study;
     study.figures = StudyFigures(head.run.thresholds, head.run.planned);

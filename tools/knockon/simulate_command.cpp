@@ -196,7 +196,8 @@ std::string variant_name(const po::variables_map& vm) {
 }
 
 int run_study_command(const po::variables_map& vm, const Scenario& scenario, const std::string& scenario_text,
-                      const std::vector<TrainPlan>& plan, const SimOptions& so, const std::string& command_line) {
+                      const ServicePaths& paths, const std::vector<TrainPlan>& plan, const SimOptions& so,
+                      const std::string& command_line) {
     StudyOptions opt;
     opt.replications = static_cast<std::uint32_t>(count_option(vm, "replications", 1, 10'000'000));
     opt.threads = static_cast<unsigned>(count_option(vm, "threads", 1, 256));
@@ -288,7 +289,7 @@ int run_study_command(const po::variables_map& vm, const Scenario& scenario, con
             };
         }
     }
-    SimModel model(scenario, plan);
+    SimModel model(paths, plan);
     const auto fingerprint = [&] { return study_fingerprint(scenario_hash(scenario_text, variant_name(vm)), command_line); };
     std::optional<StudyResult> gathered =
         spread ? run_study_on_ranks(model, opt, fingerprint(), "simulate") : run_study(model, opt);
@@ -357,11 +358,13 @@ int simulate(const std::vector<std::string>& args) {
     const std::string scenario_text = read_scenario_text(scenario_path);
     Scenario scenario = parse_scenario(scenario_text, scenario_path, variant);
     so.route_order = route_order_option(vm, scenario);
-    std::vector<TrainPlan> plan = plan_trains(scenario, so.run);
+    // Paths laid once, for the plan and the simulation's model.
+    const std::unique_ptr<ServicePaths> paths = scenario_paths(scenario);
+    std::vector<TrainPlan> plan = plan_trains(scenario, *paths, so.run);
     check_sample_count(plan, so.sample_interval);
     if (vm.count("replications")) {
         if (vm.count("delay")) throw UsageError("--delay is for a single day; a study draws its delays from the scenario");
-        return run_study_command(vm, scenario, scenario_text, plan, so, command_line);
+        return run_study_command(vm, scenario, scenario_text, *paths, plan, so, command_line);
     }
     if (vm.count("shard")) throw UsageError("--shard needs --replications: it runs a share of a study's days");
     if (spread_over_ranks())
@@ -371,7 +374,7 @@ int simulate(const std::vector<std::string>& args) {
     if (vm.count("traces")) throw UsageError("--traces needs --replications: a single day's --out has all its records");
     InjectedDelays delays = parse_delays(
         vm.count("delay") ? vm["delay"].as<std::vector<std::string>>() : std::vector<std::string>{}, plan);
-    SimModel model(scenario, plan);
+    SimModel model(*paths, plan);
     SimResult result = simulate_day(model, delays, so);
     DaySummary summary = summarize_day(result, thresholds);
     const DayAttribution attribution = attribute_knock_on(result, delays);

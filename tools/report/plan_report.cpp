@@ -183,8 +183,8 @@ ReportSection capacity_section(const PlanResult& plan) {
 }
 
 ReportSection buffers_section(const PlanResult& plan, const std::vector<Table>& tables) {
-    // Same-direction pairs, opposing pairs on single-track stretches (their crossing buffer) and
-    // links (turnaround, connection and crew buffers), all in one ranking.
+    // Same-direction pairs, pairs at junctions, opposing pairs on single-track stretches (their
+    // crossing buffer) and links (turnaround, connection and crew buffers), all in one ranking.
     struct Pair {
         const HeadwayPair* same = nullptr;
         const Crossing* opposing = nullptr;
@@ -193,6 +193,7 @@ ReportSection buffers_section(const PlanResult& plan, const std::vector<Table>& 
     };
     std::vector<Pair> pairs;
     for (const HeadwayPair& h : plan.headways) pairs.push_back({&h, nullptr, nullptr});
+    for (const HeadwayPair& h : plan.junction_headways) pairs.push_back({&h, nullptr, nullptr});
     for (const Crossing& c : plan.crossings) pairs.push_back({nullptr, &c, nullptr});
     for (const LinkPlan& l : plan.links) pairs.push_back({nullptr, nullptr, &l});
     std::stable_sort(pairs.begin(), pairs.end(), [](const Pair& a, const Pair& b) { return a.buffer() < b.buffer(); });
@@ -204,6 +205,11 @@ ReportSection buffers_section(const PlanResult& plan, const std::vector<Table>& 
         "(departure or pass at the line section's first station); the critical section is where the "
         "stairways touch at the minimum headway. Opposing pairs on a single-track stretch (direction "
         "\"opposing\") show their crossing buffer (see Crossings)." +
+        std::string(plan.junction_headways.empty()
+                        ? ""
+                        : " Trains of different corridors one after the other over a switch or diamond (direction "
+                          "\"junction\") compare their stairways over the sections both block, the scheduled "
+                          "headway taken from each head reaching the junction.") +
         std::string(plan.links.empty() ? ""
                                        : " A link (turnaround, connection, crew) shows the time from the earlier "
                                          "train's arrival to the later one's departure as its scheduled headway, "
@@ -231,7 +237,8 @@ ReportSection buffers_section(const PlanResult& plan, const std::vector<Table>& 
             continue;
         }
         const HeadwayPair& h = *pairs[i].same;
-        t.rows.push_back({h.line_section, to_string(h.direction), train_id(plan, h.leader), train_id(plan, h.follower),
+        t.rows.push_back({headway_place(h), h.junction.empty() ? to_string(h.direction) : "junction",
+                          train_id(plan, h.leader), train_id(plan, h.follower),
                           seconds(h.scheduled_headway), seconds(h.minimum_headway), seconds(h.buffer),
                           h.critical_section});
         t.highlight.push_back(h.buffer < 0.0);
@@ -241,6 +248,13 @@ ReportSection buffers_section(const PlanResult& plan, const std::vector<Table>& 
     else
         html += html_table(t) + paragraph(std::string("Marked rows (") + kOverMark +
                                           ", bold) have a negative buffer: a conflict.");
+    if (!plan.junction_headways.empty()) {
+        HtmlTable jt = html_table_of(plan_table(tables, "junction_headways"));
+        for (const HeadwayPair& h : plan.junction_headways) jt.highlight.push_back(h.buffer < 0.0);
+        html += paragraph("Every pair of trains of different corridors one after the other at a junction, as knockon "
+                          "plan gives them.") +
+                html_table(jt);
+    }
     if (!plan.links.empty()) {
         const Table& links = plan_table(tables, "links");
         HtmlTable lt = html_table_of(links);
@@ -333,13 +347,16 @@ HtmlTable plan_headline(const PlanResult& plan) {
     const std::size_t conflicts = plan.conflicts.size() + plan.crossings_too_short.size();
     add("plan: conflicts", std::to_string(conflicts), conflicts > 0);
     const HeadwayPair* thinnest = nullptr;
-    for (const HeadwayPair& h : plan.headways)
-        if (!thinnest || h.buffer < thinnest->buffer) thinnest = &h;
+    for (const auto* list : {&plan.headways, &plan.junction_headways})
+        for (const HeadwayPair& h : *list)
+            if (!thinnest || h.buffer < thinnest->buffer) thinnest = &h;
     if (thinnest)
         add("plan: thinnest headway buffer",
             seconds(thinnest->buffer) + ", " + train_id(plan, thinnest->leader) + " then " +
-                train_id(plan, thinnest->follower) + " on " + thinnest->line_section + " " +
-                to_string(thinnest->direction),
+                train_id(plan, thinnest->follower) +
+                (thinnest->junction.empty()
+                     ? " on " + thinnest->line_section + " " + to_string(thinnest->direction)
+                     : " at " + headway_place(*thinnest)),
             thinnest->buffer < 0.0);
     const LinkPlan* link = nullptr;
     for (const LinkPlan& l : plan.links)

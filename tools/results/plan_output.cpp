@@ -103,6 +103,22 @@ Table headways(const PlanResult& plan) {
     return t;
 }
 
+// Trains of different corridors one after the other at a switch's or diamond's section
+// (models/junction_headway): a network's table alone.
+Table junction_headways(const PlanResult& plan) {
+    Table t{"junction_headways",
+            "Headways at junctions (consecutive trains of different corridors over a switch or diamond; "
+            "scheduled headway from each head reaching the junction)",
+            {{"junction", K::text}, {"leader", K::text}, {"follower", K::text},
+             {"scheduled_headway_s", K::duration}, {"minimum_headway_s", K::duration}, {"buffer_s", K::duration},
+             {"critical_section", K::text}},
+            {}};
+    for (const HeadwayPair& h : plan.junction_headways)
+        t.rows.push_back({h.junction, train_id(plan, h.leader), train_id(plan, h.follower), h.scheduled_headway,
+                          h.minimum_headway, h.buffer, h.critical_section});
+    return t;
+}
+
 Table headway_matrix(const PlanResult& plan) {
     Table t{"headway_matrix", "Minimum headway by train type (largest over all pairs of those types)",
             {{"line_section", K::text}, {"leader_type", K::text}, {"follower_type", K::text},
@@ -332,7 +348,10 @@ std::vector<Table> plan_tables(const Scenario& scenario, const PlanResult& plan)
             capacity_by_hour(plan),
             spacing_warnings(plan), timetable_warnings(plan), single_track_stretches(plan),
             crossings(plan),      single_track_capacity(plan), crossings_too_short(plan)};
-    if (scenario.network) out.push_back(corridor_table(scenario, plan));
+    if (scenario.network) {
+        out.push_back(junction_headways(plan));
+        out.push_back(corridor_table(scenario, plan));
+    }
     return out;
 }
 
@@ -472,6 +491,11 @@ std::string plan_text(const Scenario& scenario, const PlanResult& plan) {
         hw.rows.push_back({plan.single_track.stretches[c.stretch].name, std::string("opposing"),
                            train_id(plan, c.opposing), train_id(plan, c.waiting), kNoTime, kNoTime, c.buffer,
                            "crossing at " + plan.single_track.places[c.place].name});
+    // Trains of different corridors at a junction: where they meet.
+    for (const HeadwayPair& h : plan.junction_headways)
+        hw.rows.push_back({headway_place(h), std::string("junction"), train_id(plan, h.leader),
+                           train_id(plan, h.follower), h.scheduled_headway, h.minimum_headway, h.buffer,
+                           h.critical_section});
     // Links: the time between the earlier train's arrival and the later one's departure against
     // the minimum time, at the station the later train leaves.
     for (const LinkPlan& l : plan.links) {
@@ -482,10 +506,11 @@ std::string plan_text(const Scenario& scenario, const PlanResult& plan) {
     std::stable_sort(hw.rows.begin(), hw.rows.end(), [](const auto& a, const auto& b) {
         return std::get<double>(a[6]) < std::get<double>(b[6]);
     });
+    const std::string kinds = plan.junction_headways.empty() ? "same direction and opposing"
+                                                             : "same direction, opposing and at junctions";
     hw.title = plan.links.empty()
-                   ? "Thinnest buffers between consecutive trains, same direction and opposing (all pairs: --csv or --json)"
-                   : "Thinnest buffers between consecutive trains, same direction and opposing, and of links (all: --csv "
-                     "or --json)";
+                   ? "Thinnest buffers between consecutive trains, " + kinds + " (all pairs: --csv or --json)"
+                   : "Thinnest buffers between consecutive trains, " + kinds + ", and of links (all: --csv or --json)";
     out += to_text(hw, 15) + "\n";
 
     Table cf = find("conflicts");
@@ -504,7 +529,10 @@ std::string plan_text(const Scenario& scenario, const PlanResult& plan) {
         out += to_text(find("single_track_capacity")) + "\n";
     }
     if (!plan.links.empty()) out += to_text(find("links")) + "\n";
-    if (scenario.network) out += to_text(find("corridors")) + "\n";
+    if (scenario.network) {
+        if (!plan.junction_headways.empty()) out += to_text(find("junction_headways")) + "\n";
+        out += to_text(find("corridors")) + "\n";
+    }
     out += to_text(find("headway_matrix")) + "\n";
     out += to_text(find("capacity")) + "\n";
     if (!plan.spacing_warnings.empty()) {
