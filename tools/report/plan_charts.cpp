@@ -338,8 +338,7 @@ Element time_distance_chart(const DiagramAxis& dax, const PlanResult& plan, Time
                                   (elsewhere == 0 ? std::string()
                                                   : "; elsewhere: " + std::to_string(elsewhere) + " of its " +
                                                         std::to_string(tree.arrows.size()) +
-                                                        " arrows, between trains this corridor does not both show "
-                                                        "at that place")});
+                                                        " arrows (trains not both on this corridor there)")});
         }
     }
     {
