@@ -6,6 +6,7 @@
 #include <limits>
 #include <map>
 #include <set>
+#include <utility>
 
 namespace knockon {
 namespace {
@@ -110,6 +111,31 @@ double TrainPath::station_s(const std::string& station) const {
     for (const StationPass& p : stations)
         if (p.station == station) return p.s;
     return std::numeric_limits<double>::quiet_NaN();
+}
+
+namespace {
+
+// The segments a path runs over within section `id` (runs of positive length inside it), with the
+// heading on each, in running order.
+std::vector<std::pair<std::size_t, net::Heading>> runs_over(const TrainPath& path, const std::string& id) {
+    constexpr double kEps = 1e-6;
+    std::vector<std::pair<std::size_t, net::Heading>> out;
+    for (const PathSection& sec : path.sections) {
+        if (sec.id != id) continue;
+        for (const PathRun& r : path.runs)
+            if (std::min(r.s_to, sec.s_to) - std::max(r.s_from, sec.s_from) > kEps) out.push_back({r.segment, r.heading});
+    }
+    return out;
+}
+
+}  // namespace
+
+SectionMeeting section_meeting(const TrainPath& a, const TrainPath& b, const std::string& section) {
+    const auto over_b = runs_over(b, section);
+    for (const auto& [segment, heading] : runs_over(a, section))
+        for (const auto& [other, other_heading] : over_b)
+            if (other == segment) return heading == other_heading ? SectionMeeting::same : SectionMeeting::opposing;
+    return SectionMeeting::apart;
 }
 
 double TrainPath::gradient_at(double s) const { return gradient.at(s); }

@@ -114,6 +114,15 @@ struct TrainPath {
     double speed_limit_at(double s) const;
 };
 
+// How two paths run over one detection section (by id): over a segment of it both use, in one
+// heading (`same`) or in opposite ones (`opposing`); `apart` where they share no segment of it (a
+// switch's section taken from different legs, a diamond crossed both ways) or either misses it.
+// The headings are each path's own over that segment (PathRun), not the heading it starts in: on a
+// network a path may run over a segment either way whatever heading it started in.  On a line
+// every path's heading is its direction, so this is the two directions compared.
+enum class SectionMeeting { same, opposing, apart };
+SectionMeeting section_meeting(const TrainPath& a, const TrainPath& b, const std::string& section);
+
 // Chainages on `track` where one detection section ends and the next begins (signals, overlap
 // ends, turnouts, extra joints), sorted, the track's ends included: the one rule for sections.
 std::vector<double> section_boundaries(const Infrastructure& infra, const Track& track);

@@ -141,15 +141,12 @@ void add_conflicts(PlanResult& plan) {
                 c.second = uses[j].train;
                 c.overlap = overlap;
                 c.from = uses[j].start;
-                c.opposing = plan.trains[c.first].run.path.direction != plan.trains[c.second].run.path.direction;
-                if (const SingleTrackStretch* st = plan.single_track.stretch_of_section(section)) {
-                    c.stretch = st->name;
-                    // On a stretch: the ways they run there (on a network not the headings they start in).
-                    const auto k = static_cast<std::size_t>(st - plan.single_track.stretches.data());
-                    const auto a = stretch_direction(plan.single_track, k, plan.trains[c.first].run.path);
-                    const auto b = stretch_direction(plan.single_track, k, plan.trains[c.second].run.path);
-                    if (a && b) c.opposing = *a != *b;
-                }
+                // The ways they run over the section itself (on a network not the headings they start in).
+                const SectionMeeting m =
+                    section_meeting(plan.trains[c.first].run.path, plan.trains[c.second].run.path, section);
+                c.opposing = m == SectionMeeting::opposing;
+                c.apart = m == SectionMeeting::apart;
+                if (const SingleTrackStretch* st = plan.single_track.stretch_of_section(section)) c.stretch = st->name;
                 plan.conflicts.push_back(c);
             }
     }
@@ -238,6 +235,7 @@ std::string conflict_kind(const Conflict& c) {
         return std::string(k == LinkKind::crew ? "crew link" : to_string(k)) + " shorter than its minimum " +
                minimum_name(k) + " time";
     }
+    if (c.apart) return "converging or crossing routes";
     if (!c.opposing) return "same direction";
     return c.stretch.empty() ? "opposing trains" : "opposing trains on single-track stretch " + c.stretch;
 }

@@ -31,7 +31,10 @@ struct Conflict {
     std::size_t first = 0, second = 0;   // first blocks the section first
     double overlap = 0.0;                // [s]
     double from = 0.0;                   // when the second's blocking starts [s]
-    bool opposing = false;               // the two trains run in opposite directions
+    // How the two run over the section (section_meeting, models/path): in opposite headings over
+    // a segment of it both use; `apart` when they share no segment of it (converging or crossing).
+    bool opposing = false;
+    bool apart = false;
     std::string stretch;                 // the single-track stretch holding the section, if any
     // A link the timetable cannot keep (index into PlanResult::links, else -1): `section` is then
     // the station where the later train leaves, `overlap` how much the minimum time is missed by,
@@ -39,8 +42,9 @@ struct Conflict {
     long link = -1;
     LinkKind link_kind = LinkKind::turnaround;
 };
-// "opposing trains on single-track stretch HTW-BRC", "opposing trains", "same direction", or for a
-// link "turnaround shorter than its minimum turnaround time".
+// "opposing trains on single-track stretch HTW-BRC", "opposing trains", "same direction",
+// "converging or crossing routes", or for a link "turnaround shorter than its minimum turnaround
+// time".
 std::string conflict_kind(const Conflict& c);
 // Link buffers below this are rounding of given times, not a link the timetable breaks [s].
 inline constexpr double kLinkTolerance = 0.5;

@@ -181,14 +181,20 @@ TEST_CASE("the network demo's corridor diagrams split the trains by corridor", "
           "Network of 17 segments, 6 stations, 32 signals; corridors Main (WRF OLV EMR), Branch (OLV PLC HTB QSB)");
 }
 
-TEST_CASE("a signal's place names its segment and heading on a network and its km on a line", "[network][views]") {
+TEST_CASE("a signal's place names its segment heading and kilometre-post km on a network and its km on a line",
+          "[network][views]") {
     const Scenario net = read_scenario(kJunction);
-    // scenarios/junction_branch.yaml: {id: D560, segment: D1, at: 6000 m, heading: backward}.
+    // scenarios/junction_branch.yaml: {id: D560, segment: D1, at: 6000 m, heading: backward}, and
+    // D1's one kilometre post shows km 20 at offset 0: km 26.000 (hand reading, no source).
     const std::optional<SignalPlace> d560 = signal_place(net, "D560");
     REQUIRE(d560);
     CHECK(d560->track == "D1");
     CHECK(d560->direction == "backward");
-    CHECK(std::isnan(d560->km_m));
+    CHECK(d560->km_m == Approx(26000.0).margin(1e-6));
+    // B1A stands at 450 m on L1a, a loop track without posts: its offset is shown.
+    const std::optional<SignalPlace> b1a = signal_place(net, "B1A");
+    REQUIRE(b1a);
+    CHECK(b1a->km_m == Approx(450.0).margin(1e-6));
     CHECK(!signal_place(net, "NOPE"));
     const Scenario line = read_scenario(std::string(KNOCKON_SOURCE_DIR) + "/tests/data/two_trains.yaml");
     REQUIRE(!line.infrastructure.signals.empty());

@@ -29,6 +29,7 @@
 #include "tools/report/plan_charts.hpp"
 #include "tools/results/results_file.hpp"
 #include "tools/read/scenario_reader.hpp"
+#include "report_page_support.hpp"
 #include "results_test_support.hpp"
 
 using namespace resultstest;
@@ -39,34 +40,9 @@ namespace {
 const std::string kSpacing = kSource + "/tests/data/checks/signal_on_fall.yaml";
 const std::string kLinks = kSource + "/tests/data/links/double_line_connections.yaml";
 
-// The markup of <section id="ID"> up to its end ("" when there is none).
-std::string section_of(const std::string& page, const std::string& id) {
-    const std::size_t a = page.find("<section id=\"" + id + "\"");
-    if (a == std::string::npos) return "";
-    return page.substr(a, page.find("</section>", a) - a);
-}
-
-std::string unescape(std::string s) {
-    const std::pair<const char*, const char*> entities[] = {
-        {"&lt;", "<"}, {"&gt;", ">"}, {"&quot;", "\""}, {"&#39;", "'"}, {"&amp;", "&"}};
-    for (const auto& [from, to] : entities)
-        for (std::size_t p; (p = s.find(from)) != std::string::npos;) s.replace(p, std::string(from).size(), to);
-    return s;
-}
-
-// The rows of every table in `html`, each as its cells' text.
-std::vector<std::vector<std::string>> rows_of(const std::string& html) {
-    static const std::regex row(R"(<tr[^>]*>(.*?)</tr>)"), cell(R"(<t[dh][^>]*>(.*?)</t[dh]>)");
-    std::vector<std::vector<std::string>> out;
-    for (auto r = std::sregex_iterator(html.begin(), html.end(), row); r != std::sregex_iterator(); ++r) {
-        const std::string inner = (*r)[1].str();
-        std::vector<std::string> cells;
-        for (auto c = std::sregex_iterator(inner.begin(), inner.end(), cell); c != std::sregex_iterator(); ++c)
-            cells.push_back(unescape((*c)[1].str()));
-        out.push_back(std::move(cells));
-    }
-    return out;
-}
+using reportpage::rows_of;
+using reportpage::section_of;
+using reportpage::unescape;
 
 bool has_row(const std::vector<std::vector<std::string>>& rows, const std::vector<std::string>& want) {
     return std::find(rows.begin(), rows.end(), want) != rows.end();

@@ -147,10 +147,8 @@ std::unique_ptr<ResultsInput> open_results(const std::string& path, const po::va
         try {
             const std::optional<std::uint32_t> replication =
                 choice ? std::optional<std::uint32_t>(choice->replication) : std::nullopt;
-            // (on a network the arrows wait for places along the corridors: none are drawn yet)
             if (const auto trees = read_delay_trees(path, replication, *day))
-                in->as_run->trees =
-                    largest_delay_trees(*day, *trees, *in->as_run, in->scenario.infrastructure, in->plan);
+                in->as_run->trees = largest_delay_trees(*day, *trees, *in->as_run, in->scenario, in->plan);
         } catch (const ResultsFileError& e) {
             throw UsageError(e.what());
         }

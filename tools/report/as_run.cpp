@@ -235,7 +235,7 @@ svg::Point where_path_meets(const std::vector<svg::Point>& p, double x) {
 }  // namespace
 
 std::vector<AsRunTree> largest_delay_trees(const SimResult& day, const StoredDelayTrees& trees,
-                                           const AsRunOverlay& overlay, const Infrastructure& infra,
+                                           const AsRunOverlay& overlay, const Scenario& scenario,
                                            const PlanResult& plan, std::size_t count) {
     std::map<std::uint32_t, double> damage;   // source -> all its knock-on
     for (const StoredDelayTrees::Edge& e : trees.edges)
@@ -252,8 +252,16 @@ std::vector<AsRunTree> largest_delay_trees(const SimResult& day, const StoredDel
     };
     std::map<std::size_t, const std::vector<svg::Point>*> path_of;   // plan train -> as-run path
     for (const AsRunPath& p : overlay.paths) path_of[p.train] = &p.points;
+    // Where a train passes a station, in the overlay's coordinate (NaN: it does not): a line's
+    // station chainage whichever the train, a network's distance along that train's path.
     std::map<std::string, double> station_at;
-    for (const Station& s : infra.stations) station_at[s.id] = s.at;
+    if (!overlay.along_path)
+        for (const Station& s : scenario.infrastructure.stations) station_at[s.id] = s.at;
+    auto place_of = [&](std::size_t train, const std::string& station) {
+        if (overlay.along_path) return plan.trains[train].run.path.station_s(station);
+        const auto it = station_at.find(station);
+        return it == station_at.end() ? NAN : it->second;
+    };
 
     std::vector<AsRunTree> out;
     for (const auto& [source, total] : ranked) {
@@ -271,17 +279,23 @@ std::vector<AsRunTree> largest_delay_trees(const SimResult& day, const StoredDel
             const auto& [from, record, cause] = key;
             const TimingRecord& r = day.timing[record];
             const auto a = plan_train(from), b = plan_train(r.train);
-            const auto x = station_at.find(r.station);
-            if (!a || !b || x == station_at.end() || !path_of.count(*a)) continue;
+            if (!a || !b || !path_of.count(*a)) continue;
+            const double to_y = place_of(*b, r.station);
             const double when = std::isfinite(r.departure) ? r.departure : r.arrival;
-            if (!std::isfinite(when)) continue;
+            if (!std::isfinite(to_y) || !std::isfinite(when)) continue;
+            const std::vector<svg::Point>& causing = *path_of[*a];
+            const double from_y = place_of(*a, r.station);
             AsRunArrow arrow;
             arrow.from_train = *a;
             arrow.to_train = *b;
             arrow.place = r.station;
             arrow.cause = cause;
-            arrow.from = where_path_meets(*path_of[*a], x->second);
-            arrow.to = {when, x->second};
+            if (std::isfinite(from_y))
+                arrow.from = where_path_meets(causing, from_y);
+            else   // a network train that never passes the place: its path's end nearest in time
+                arrow.from = std::fabs(causing.front().x - when) <= std::fabs(causing.back().x - when) ? causing.front()
+                                                                                                       : causing.back();
+            arrow.to = {when, to_y};
             arrow.seconds = seconds;
             tree.arrows.push_back(std::move(arrow));
         }

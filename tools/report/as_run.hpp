@@ -57,12 +57,16 @@ std::optional<LossHour> worst_knock_on_hour(const SimResult& day);
 // The `count` largest delay trees of `day` (by all the knock-on their source caused, the lower
 // source number on a tie) as arrows over the as-run paths of `overlay`: an arrow per causing
 // train and receiving timing record (edges of one tree, cause and record summed), from the
-// causing train's path where it passes the place (or, if it never does, the end of its path
-// nearest it: a link's earlier train ending elsewhere) to the delayed train at that timing point
-// as it left it (arrived, where it did not leave).  Knock-on with no train as its cause (a
-// disruption, the dispatcher) counts in a tree's damage but draws no arrow.
+// causing train's path where it passes the place to the delayed train at that timing point as it
+// left it (arrived, where it did not leave).  Where the causing train never passes the place (a
+// link's earlier train ending elsewhere), the arrow starts at the end of its path nearest it: on a
+// line nearest in chainage, on a network (where two paths share no coordinate) nearest in time.
+// Points are in the overlay's coordinate: chainage on a line, on a network distance along each
+// end's own train's path (the corridor diagrams place each end with its train, and draw an arrow
+// only where both ends lie on the corridor).  Knock-on with no train as its cause (a disruption,
+// the dispatcher) counts in a tree's damage but draws no arrow.
 std::vector<AsRunTree> largest_delay_trees(const SimResult& day, const StoredDelayTrees& trees,
-                                           const AsRunOverlay& overlay, const Infrastructure& infra,
+                                           const AsRunOverlay& overlay, const Scenario& scenario,
                                            const PlanResult& plan, std::size_t count = 3);
 
 // Train ids of `day` that the plan does not know (the scenario changed since the run).

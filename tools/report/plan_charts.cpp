@@ -3,8 +3,10 @@
 #include <algorithm>
 #include <cmath>
 #include <map>
+#include <optional>
 #include <set>
 #include <stdexcept>
+#include <utility>
 
 #include "models/units.hpp"
 
@@ -55,12 +57,27 @@ std::vector<Point> thin_in_time(const std::vector<Point>& pts, double step) {
     return out;
 }
 
+// An arrow's two ends on the axis, each placed with its own train (a line: as drawn; a network
+// corridor: along the train's part of it); nullopt when either end lies off the axis, so that an
+// arrow is drawn only between two trains the diagram shows, at places it shows.
+std::optional<std::pair<Point, Point>> arrow_on(const DiagramAxis& axis, const AsRunArrow& a) {
+    const double y1 = axis.as_run(a.from_train, a.from.y), y2 = axis.as_run(a.to_train, a.to.y);
+    if (!std::isfinite(y1) || !std::isfinite(y2)) return std::nullopt;
+    return std::pair<Point, Point>{{a.from.x, y1}, {a.to.x, y2}};
+}
+
+// How many of a tree's arrows `axis` cannot draw (see arrow_on): on a line none.
+std::size_t arrows_elsewhere(const DiagramAxis& axis, const AsRunTree& tree) {
+    return static_cast<std::size_t>(std::count_if(tree.arrows.begin(), tree.arrows.end(),
+                                                  [&](const AsRunArrow& a) { return !arrow_on(axis, a); }));
+}
+
 // The day's largest delay trees over the as-run paths: an arrow per piece of knock-on one train
 // passed to another, from the causing train's path to the delayed train's, in the tree's style
 // ("tree-arrow tree-K", K from 1, largest first), with what it carried in data- attributes.  An
-// arrow is cut to the window; one wholly outside it is left out.
+// arrow is cut to the window; one wholly outside it, or with an end off the axis, is left out.
 void draw_delay_trees(Element& doc, const AsRunOverlay& as_run, const PlanResult& plan, TimeWindow window,
-                      const svg::LinearScale& X, const svg::LinearScale& Y) {
+                      const svg::LinearScale& X, const svg::LinearScale& Y, const DiagramAxis& axis) {
     if (as_run.trees.empty()) return;
     Element& g = doc.add(svg::group("delay-trees"));
     for (std::size_t k = 0; k < as_run.trees.size(); ++k) {
@@ -68,7 +85,9 @@ void draw_delay_trees(Element& doc, const AsRunOverlay& as_run, const PlanResult
         const std::string style = "tree-" + std::to_string(k + 1);
         for (const AsRunArrow& a : tree.arrows) {
             if (a.from_train >= plan.trains.size() || a.to_train >= plan.trains.size()) continue;
-            Point p = a.from, q = a.to;
+            const auto ends = arrow_on(axis, a);
+            if (!ends) continue;
+            Point p = ends->first, q = ends->second;
             // Cut to the window in time (the head, then the tail).
             auto at = [](const Point& u, const Point& v, double t) {
                 const double f = v.x != u.x ? (t - u.x) / (v.x - u.x) : 0.0;
@@ -134,7 +153,7 @@ void draw_as_run(Element& doc, const AsRunOverlay& as_run, const PlanResult& pla
                      format_time_of_day(h.from) + "-" + format_time_of_day(h.to) + " (" +
                      svg::number(h.to - h.from, 0) + " s)");
     }
-    draw_delay_trees(doc, as_run, plan, window, X, Y);
+    draw_delay_trees(doc, as_run, plan, window, X, Y, axis);
 }
 
 }  // namespace
@@ -310,10 +329,16 @@ Element time_distance_chart(const DiagramAxis& dax, const PlanResult& plan, Time
             Element arrow = svg::group();
             arrow.add(svg::line(2, 6, 18, 6, "legend-tree " + style));
             arrow.add(svg::path("M24,6 L17,2.5 L17,9.5 Z", "tree-head " + style));
-            legend.push_back({std::move(arrow), "delay tree " + std::to_string(k + 1) + ": " + tree.label + ", " +
-                                                    svg::number(tree.damage / 60.0, 1) +
-                                                    " min of knock-on (arrow: from the train that passed it on "
-                                                    "to the train it delayed)"});
+            // On a corridor, the arrows between trains it does not both show are counted here.
+            const std::size_t elsewhere = arrows_elsewhere(dax, tree);
+            legend.push_back({std::move(arrow),
+                              "delay tree " + std::to_string(k + 1) + ": " + tree.label + ", " +
+                                  svg::number(tree.damage / 60.0, 1) +
+                                  " min of knock-on (arrow: from the train that passed it on to the train it delayed)" +
+                                  (elsewhere == 0 ? std::string()
+                                                  : "; elsewhere: " + std::to_string(elsewhere) + " of its " +
+                                                        std::to_string(tree.arrows.size()) +
+                                                        " arrows (trains not both on this corridor there)")});
         }
     }
     {

@@ -221,7 +221,10 @@ HBars signals_data(const ResultsView& v, std::string& source) {
         const SignalStats& s = held[i];
         std::string label = s.signal;
         const std::optional<SignalPlace> at = signal_place(*v.scenario, s.signal);
-        if (at && std::isfinite(at->km_m)) label += " (km " + svg::number(at->km_m / 1000.0, 1) + ")";
+        // A network's kilometres are each segment's own (two tracks may show the same km): with the segment.
+        if (at && std::isfinite(at->km_m))
+            label += " (" + (v.scenario->network ? at->track + " " : std::string()) + "km " +
+                     svg::number(at->km_m / 1000.0, 1) + ")";
         else if (at) label += " (" + at->track + ")";
         BarValue value{s.held.mean};
         if (s.held.n > 1) value = {s.held.mean, s.held.lower, s.held.upper};

@@ -310,9 +310,12 @@ std::optional<SignalPlace> signal_place(const Scenario& scenario, const std::str
     if (scenario.network) {
         const net::Network& n = scenario.network->network;
         for (const net::Signal& s : n.signals)
-            if (s.name == id)
-                return SignalPlace{s.at.segment < n.segments.size() ? n.segments[s.at.segment].name : std::string("-"),
-                                   net::to_string(s.heading), NAN};
+            if (s.name == id) {
+                if (s.at.segment >= n.segments.size()) return SignalPlace{"-", net::to_string(s.heading), NAN};
+                const net::Segment& seg = n.segments[s.at.segment];
+                // km from the segment's kilometre posts, as a path's positions are shown
+                return SignalPlace{seg.name, net::to_string(s.heading), seg.shown_at(s.at.offset)};
+            }
         return std::nullopt;
     }
     for (const Signal& s : scenario.infrastructure.signals)

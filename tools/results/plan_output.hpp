@@ -39,7 +39,8 @@ std::string layout_summary(const Scenario& scenario);
 // A station's name as shown (its id where it has none or is unknown), on a line or a network.
 std::string station_name(const Scenario& scenario, const std::string& id);
 // Where a signal stands, for tables: its track (a network: its segment), the direction or heading
-// it faces and its chainage (NaN on a network, which has none).  Nullopt for an unknown signal.
+// it faces and its chainage (a network: the position shown by its segment's kilometre posts).
+// Nullopt for an unknown signal.
 struct SignalPlace {
     std::string track, direction;
     double km_m = 0.0;
