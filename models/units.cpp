@@ -236,4 +236,10 @@ std::string format_km(double metres) {
     return s + " km";
 }
 
+std::string format_metres(double metres) {
+    char buf[64];
+    std::snprintf(buf, sizeof buf, "%g m", metres);
+    return buf;
+}
+
 }  // namespace knockon

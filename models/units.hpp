@@ -53,5 +53,7 @@ std::string format_time_of_day(double seconds);
 // A chainage or length in metres as input messages write it: km with at most three decimals and
 // no trailing zeros ("14.1 km", "36 km").
 std::string format_km(double metres);
+// An offset or length in metres as a network's messages write it ("%g m": "450 m", "1200.5 m").
+std::string format_metres(double metres);
 
 }  // namespace knockon

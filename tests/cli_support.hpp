@@ -18,6 +18,8 @@
 #include <sstream>
 #include <string>
 
+#include <nlohmann/json.hpp>
+
 namespace clitest {
 
 namespace fs = std::filesystem;
@@ -214,6 +216,13 @@ inline int run_read_results_example(const std::string& python, const fs::path& r
     const std::string cmd =
         python + " " + kSource + "/tools/read_results_example.py " + q(results) + " >" + q(log) + " 2>&1";
     return std::system(cmd.c_str());
+}
+
+// The JSON a run printed; the run must have succeeded (its stderr shown where it did not).
+inline nlohmann::json json_of(const Result& r) {
+    INFO(r.err);
+    REQUIRE(r.status == 0);
+    return nlohmann::json::parse(r.out);
 }
 
 }  // namespace clitest

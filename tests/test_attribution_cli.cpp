@@ -16,12 +16,6 @@ namespace {
 using nlohmann::json;
 using namespace clitest;
 
-json parse(const Result& r) {
-    INFO(r.err);
-    REQUIRE(r.status == 0);
-    return json::parse(r.out);
-}
-
 const std::string kDelays = " --delay SU-0700:entry:8 --delay FU-0708:dwell@HBT:4";
 
 }  // namespace
@@ -34,7 +28,7 @@ TEST_CASE("attribution outputs: a day's table JSON and HDF5 add up to its knock-
     CHECK_THAT(text.out, Catch::Matchers::Contains("SU-0700 late start or entry at MFQ"));
 
     const fs::path out = dir.path / "day.h5";
-    const json j = parse(clitest::knockon("simulate " + q(kDemo) + kDelays + " --json --out " + q(out), dir));
+    const json j = json_of(clitest::knockon("simulate " + q(kDemo) + kDelays + " --json --out " + q(out), dir));
     double measured = 0.0;
     for (const json& t : j["timing"]) measured += t["knock_on"].get<double>();
     REQUIRE(measured > 60.0);
@@ -67,7 +61,7 @@ TEST_CASE("attribution outputs: a day's table JSON and HDF5 add up to its knock-
 TEST_CASE("attribution outputs: a study's table JSON and HDF5 add up to its knock-on", "[cli][attribution][study]") {
     TempDir dir;
     const fs::path out = dir.path / "study.h5";
-    const json j = parse(clitest::knockon("simulate " + q(kDemo) + " --replications 12 --threads 2 --json --out " + q(out), dir));
+    const json j = json_of(clitest::knockon("simulate " + q(kDemo) + " --replications 12 --threads 2 --json --out " + q(out), dir));
     const double knock_on = j["per_day"]["total_knock_on_s"]["mean"].get<double>();
     REQUIRE(knock_on > 60.0);
     const json& a = j["attribution"];

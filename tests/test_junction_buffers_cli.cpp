@@ -18,12 +18,6 @@ using namespace clitest;
 
 const std::string kNetworkDemo = kSource + "/scenarios/junction_branch.yaml";
 
-json parse(const Result& r) {
-    INFO(r.err);
-    REQUIRE(r.status == 0);
-    return json::parse(r.out);
-}
-
 }  // namespace
 
 TEST_CASE("knockon plan lists buffers at a network's junction in text JSON and CSV", "[cli][network]") {
@@ -40,7 +34,7 @@ TEST_CASE("knockon plan lists buffers at a network's junction in text JSON and C
     CHECK(header.find("junction") == 0);
     CHECK(header.find("buffer_s") != std::string::npos);
 
-    const json plan = parse(clitest::knockon("plan " + q(kNetworkDemo) + " --json", dir, 120));
+    const json plan = json_of(clitest::knockon("plan " + q(kNetworkDemo) + " --json", dir, 120));
     REQUIRE(plan["junction_headways"].is_array());
     REQUIRE_FALSE(plan["junction_headways"].empty());
     for (const json& r : plan["junction_headways"]) {
@@ -51,13 +45,13 @@ TEST_CASE("knockon plan lists buffers at a network's junction in text JSON and C
               Approx(r["scheduled_headway_s"].get<double>() - r["minimum_headway_s"].get<double>()).margin(1e-6));
     }
     // A line has no junctions: no table at all, so its outputs stay as they were.
-    const json line = parse(clitest::knockon("plan " + q(kSource + "/scenarios/demo.yaml") + " --json", dir, 120));
+    const json line = json_of(clitest::knockon("plan " + q(kSource + "/scenarios/demo.yaml") + " --json", dir, 120));
     CHECK_FALSE(line.contains("junction_headways"));
 }
 
 TEST_CASE("network demo: a study names buffers at the junction among those to widen", "[cli][network][study]") {
     TempDir dir;
-    const json j = parse(clitest::knockon("simulate " + q(kNetworkDemo) + " --replications 20 --seed 1 --json", dir, 300));
+    const json j = json_of(clitest::knockon("simulate " + q(kNetworkDemo) + " --replications 20 --seed 1 --json", dir, 300));
     // The study's buffers as run and the verdict's buffers to widen (attribution by buffer pair)
     // carry pairs at the junction, named after it.
     std::size_t as_run = 0;

@@ -19,12 +19,6 @@ using namespace clitest;
 
 const std::string kNetworkDemo = kSource + "/scenarios/junction_branch.yaml";
 
-json parse(const Result& r) {
-    INFO(r.err);
-    REQUIRE(r.status == 0);
-    return json::parse(r.out);
-}
-
 }  // namespace
 
 TEST_CASE("network demo: an undisturbed day equals the plan with no knock-on", "[cli][network]") {
@@ -39,8 +33,8 @@ TEST_CASE("network demo: an undisturbed day equals the plan with no knock-on", "
 
         // Every timing point at its planned time (the plan's running-time integration; half a
         // second is the engine's noise floor, README "Tests": common practice, no source).
-        const json plan = parse(clitest::knockon("plan " + q(kNetworkDemo) + v + " --json", dir, 120));
-        const json day = parse(clitest::knockon("simulate " + q(kNetworkDemo) + v + " --json", dir, 120));
+        const json plan = json_of(clitest::knockon("plan " + q(kNetworkDemo) + v + " --json", dir, 120));
+        const json day = json_of(clitest::knockon("simulate " + q(kNetworkDemo) + v + " --json", dir, 120));
         CHECK(plan["spacing_warnings"].empty());   // the demo keeps the spacing rule
         CHECK(plan["conflicts"].empty());
         CHECK(day["holds"].empty());
@@ -78,7 +72,7 @@ TEST_CASE("network demo: a study of 20 days traces all its knock-on to causes", 
     CHECK_THAT(text.out, Catch::Matchers::Contains("Where knock-on comes from"));
     CHECK_THAT(text.out, !Catch::Matchers::Contains("not recorded"));
 
-    const json j = parse(clitest::knockon("simulate " + q(kNetworkDemo) + " --replications 20 --seed 1 --json", dir, 300));
+    const json j = json_of(clitest::knockon("simulate " + q(kNetworkDemo) + " --replications 20 --seed 1 --json", dir, 300));
     const json& a = j["attribution"];
     // Drawn delays do cause knock-on here, and every second of it has a cause: a train that held
     // the route (or a link), never "only route setting and reaction" on a day of on-time routes.

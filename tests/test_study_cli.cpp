@@ -22,12 +22,6 @@ namespace {
 
 using namespace clitest;
 
-json parse(const Result& r) {
-    INFO(r.err);
-    REQUIRE(r.status == 0);
-    return json::parse(r.out);
-}
-
 // A mean with its 95 % interval, as the study JSON writes every figure across days.
 void check_estimate(const json& e, std::size_t n) {
     INFO(e.dump());
@@ -44,7 +38,7 @@ void check_estimate(const json& e, std::size_t n) {
 
 TEST_CASE("knockon simulate --replications --json: the study document", "[cli][study]") {
     TempDir dir;
-    const json two = parse(knockon("simulate " + q(kDemo) + " --replications 20 --threads 2 --json", dir));
+    const json two = json_of(knockon("simulate " + q(kDemo) + " --replications 20 --threads 2 --json", dir));
 
     const json& study = two["study"];
     CHECK(study["replications"] == 20);
@@ -114,7 +108,7 @@ TEST_CASE("knockon simulate --replications --json: the study document", "[cli][s
     CHECK(two["sections"].size() > 10);
 
     SECTION("--threads 1 gives the same document apart from the thread count and the command line") {
-        json one = parse(knockon("simulate " + q(kDemo) + " --replications 20 --threads 1 --json", dir));
+        json one = json_of(knockon("simulate " + q(kDemo) + " --replications 20 --threads 1 --json", dir));
         CHECK(one["study"]["threads"] == 1);
         json other = two;
         for (json* j : {&one, &other}) {
@@ -128,9 +122,9 @@ TEST_CASE("knockon simulate --replications --json: the study document", "[cli][s
 TEST_CASE("knockon simulate --replications: seed and until-ci options and text output", "[cli][study]") {
     TempDir dir;
     const std::string base = "simulate " + q(kDelayedLine) + " --json";
-    const json a = parse(knockon(base + " --replications 30 --seed 5", dir));
-    const json b = parse(knockon(base + " --replications 30 --seed 6", dir));
-    const json a2 = parse(knockon(base + " --replications 30 --seed 5 --threads 3", dir));
+    const json a = json_of(knockon(base + " --replications 30 --seed 5", dir));
+    const json b = json_of(knockon(base + " --replications 30 --seed 6", dir));
+    const json a2 = json_of(knockon(base + " --replications 30 --seed 5 --threads 3", dir));
     CHECK(a["study"]["seed"] == 5);
     CHECK(a["per_day"] == a2["per_day"]);
     CHECK(a["timing_points"] == a2["timing_points"]);
@@ -139,11 +133,11 @@ TEST_CASE("knockon simulate --replications: seed and until-ci options and text o
 
     // --until-ci in minutes: a target met at once stops after the first batch of 50 days; one
     // that cannot be met runs to the cap.
-    const json quick = parse(knockon(base + " --replications 200 --until-ci 1000", dir));
+    const json quick = json_of(knockon(base + " --replications 200 --until-ci 1000", dir));
     CHECK(quick["study"]["replications"] == 50);
     CHECK(quick["study"]["partial"] == false);
     CHECK(quick["per_day"]["total_knock_on_s"]["ci95_half_width"].get<double>() < 1000.0 * 60.0);
-    const json capped = parse(knockon(base + " --replications 70 --until-ci 0.0001", dir));
+    const json capped = json_of(knockon(base + " --replications 70 --until-ci 0.0001", dir));
     CHECK(capped["study"]["replications"] == 70);
 
     const Result text = knockon("simulate " + q(kDelayedLine) + " --replications 12 --threads 2", dir);
@@ -156,7 +150,7 @@ TEST_CASE("knockon simulate --replications: seed and until-ci options and text o
 TEST_CASE("knockon simulate --replications without a delays section: a note and no knock-on", "[cli][study]") {
     TempDir dir;
     const Result r = knockon("simulate " + q(kTwoTrains) + " --replications 3 --json", dir);
-    const json j = parse(r);
+    const json j = json_of(r);
     CHECK(r.err.find("no `delays:` section") != std::string::npos);
     CHECK(j["study"]["replications"] == 3);
     CHECK(j["per_day"]["total_primary_s"]["mean"] == 0.0);

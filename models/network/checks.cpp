@@ -1,9 +1,10 @@
 #include "models/network/checks.hpp"
 
 #include <cmath>
-#include <cstdio>
 #include <map>
 #include <set>
+
+#include "models/units.hpp"
 
 namespace knockon::net {
 
@@ -28,12 +29,6 @@ std::string joined(const std::vector<NetworkProblem>& problems) {
     std::string text;
     for (const NetworkProblem& p : problems) text += (text.empty() ? "" : "\n") + p.message;
     return text;
-}
-
-std::string metres(double x) {
-    char buf[40];
-    std::snprintf(buf, sizeof buf, "%g m", x);
-    return buf;
 }
 
 // Ends a node needs, by kind (a switch: at least).
@@ -107,8 +102,8 @@ private:
         for (std::size_t k = 0; k < b.size(); ++k) {
             const std::string who = "segment '" + s.name + "': " + what + " " + std::to_string(k + 1);
             if (!(b[k].from >= 0.0 && b[k].from < s.length))
-                add(ObjectKind::segment, i, key, who + " starts at " + metres(b[k].from) + ", outside the segment (0 to " +
-                                                metres(s.length) + ")");
+                add(ObjectKind::segment, i, key, who + " starts at " + format_metres(b[k].from) + ", outside the segment (0 to " +
+                                                format_metres(s.length) + ")");
             if (k > 0 && !(b[k].from > b[k - 1].from))
                 add(ObjectKind::segment, i, key, who + " starts at or before the one in front of it; give them by increasing offset");
             // A speed band may lift the limit (infinity); a gradient must be a number.
@@ -122,7 +117,7 @@ private:
         unique_name(ObjectKind::segment, i, s.name, segment_names_, true);
         const std::string who = "segment '" + s.name + "'";
         if (!(s.length > 0.0 && std::isfinite(s.length)))
-            add(ObjectKind::segment, i, "length", who + ": length must be more than 0 m (it is " + metres(s.length) + ")");
+            add(ObjectKind::segment, i, "length", who + ": length must be more than 0 m (it is " + format_metres(s.length) + ")");
         if (!s.forward && !s.backward) add(ObjectKind::segment, i, "directions", who + ": no heading is allowed on it");
         bands(i, s.gradient, "gradient band", "gradients", false);
         bands(i, s.speed, "speed band", "speed_limits", true);
@@ -163,8 +158,8 @@ private:
             if (!(e.speed > 0.0)) add(ObjectKind::node, i, "ends", who + ": the speed towards segment '" + s.name + "' must be above zero");
             const double reach = nd.reach(k);
             if (reach > 0.0 && std::isfinite(reach) && !(reach < s.length))
-                add(ObjectKind::node, i, "fouling", who + ": its fouling point lies " + metres(reach) + " into segment '" + s.name +
-                                             "', which is only " + metres(s.length) + " long");
+                add(ObjectKind::node, i, "fouling", who + ": its fouling point lies " + format_metres(reach) + " into segment '" + s.name +
+                                             "', which is only " + format_metres(s.length) + " long");
             for (std::size_t j = 0; j < k; ++j)
                 if (nd.ends[j].at == e.at) add(ObjectKind::node, i, "ends", who + ": joins one end of segment '" + s.name + "' twice");
         }
@@ -198,8 +193,8 @@ private:
                 if (ra + rb > seg.length && ra < seg.length && rb < seg.length)
                     add(ObjectKind::segment, s, "", "segment '" + seg.name + "': the fouling points of '" +
                                                     n_.nodes[a[0].first].name + "' and '" + n_.nodes[b[0].first].name +
-                                                    "' overlap (" + metres(ra) + " + " + metres(rb) + " on " +
-                                                    metres(seg.length) + ")");
+                                                    "' overlap (" + format_metres(ra) + " + " + format_metres(rb) + " on " +
+                                                    format_metres(seg.length) + ")");
             }
         }
     }
@@ -211,8 +206,8 @@ private:
         }
         const Segment& s = n_.segments[at.segment];
         if (!(at.offset >= 0.0 && at.offset <= s.length)) {
-            add(k, i, "at", who + ": offset " + metres(at.offset) + " lies outside segment '" + s.name + "' (0 to " +
-                          metres(s.length) + ")");
+            add(k, i, "at", who + ": offset " + format_metres(at.offset) + " lies outside segment '" + s.name + "' (0 to " +
+                          format_metres(s.length) + ")");
             return false;
         }
         return true;
@@ -228,8 +223,8 @@ private:
                 const double from_node = nd.ends[j].at.end == End::start ? at.offset : s.length - at.offset;
                 // At the node itself too: the node's section runs out from it along this end.
                 if (reach > 0.0 && from_node < reach - kSamePlace)
-                    add(k, i, "at", who + ": stands " + metres(from_node) + " from " + to_string(nd.kind) + " '" + nd.name +
-                                  "', inside its fouling distance (" + metres(reach) + ")");
+                    add(k, i, "at", who + ": stands " + format_metres(from_node) + " from " + to_string(nd.kind) + " '" + nd.name +
+                                  "', inside its fouling distance (" + format_metres(reach) + ")");
             }
     }
 
@@ -289,8 +284,8 @@ private:
         const Segment& s = n_.segments[p.segment];
         if (!(p.from >= 0.0 && p.from < p.to && p.to <= s.length))
             add(ObjectKind::platform, i, "from", who + ": must run from a lower to a higher offset within segment '" + s.name +
-                                             "' (0 to " + metres(s.length) + "), not " + metres(p.from) + " to " +
-                                             metres(p.to));
+                                             "' (0 to " + format_metres(s.length) + "), not " + format_metres(p.from) + " to " +
+                                             format_metres(p.to));
     }
 
     // Whether it matches a route is for the route search to say (find_routes).

@@ -1,17 +1,8 @@
 #include "models/network/disruption_place.hpp"
 
-#include <cstdio>
+#include "models/units.hpp"
 
 namespace knockon::net {
-namespace {
-
-std::string metres(double m) {
-    char buf[64];
-    std::snprintf(buf, sizeof buf, "%g m", m);
-    return buf;
-}
-
-}  // namespace
 
 std::vector<DisruptionPlaceProblem> disruption_place_problems(const Network& network, const DisruptionRule& rule) {
     if (rule.segment.empty())
@@ -25,12 +16,12 @@ std::vector<DisruptionPlaceProblem> disruption_place_problems(const Network& net
     for (const char* key : {"from", "to"}) {
         const double x = std::string(key) == "from" ? rule.from : rule.to;
         if (x < -kSamePlace || x > length + kSamePlace)
-            out.push_back({key, std::string(key) + " " + metres(x) + " lies off segment " + rule.segment +
-                                    ", whose offsets run from 0 m to " + metres(length)});
+            out.push_back({key, std::string(key) + " " + format_metres(x) + " lies off segment " + rule.segment +
+                                    ", whose offsets run from 0 m to " + format_metres(length)});
     }
     if (rule.to <= rule.from)
-        out.push_back({"to", "the range must end beyond its start: to " + metres(rule.to) + " is not beyond from " +
-                                 metres(rule.from)});
+        out.push_back({"to", "the range must end beyond its start: to " + format_metres(rule.to) + " is not beyond from " +
+                                 format_metres(rule.from)});
     return out;
 }
 
